@@ -1,0 +1,67 @@
+// kerf/frontend/lower.h — from the module description to the Boolean network.
+//
+// Continuous assignments and combinational blocks become network logic;
+// their statements are executed symbolically (blocking assignments update
+// an environment of bit values; if/case merge branches with multiplexers or,
+// for cases with mutually exclusive items, a parallel sum of products).
+// Signals crossing to kept code become network inputs and outputs.
+#pragma once
+
+#include "kerf/frontend/module.h"
+#include "kerf/network/network.h"
+
+#include <string>
+#include <vector>
+
+namespace kerf::frontend {
+
+/// One bit of a named vector: the signal (module signal or generated word
+/// operand) and the bit's offset from the least significant bit.
+struct BitRef {
+    std::string signal;
+    int offset = 0;
+};
+
+/// A word-level operation kept as written: its operands leave the network
+/// as outputs (or name a signal the network does not drive), its result
+/// enters the network as inputs.
+struct WordOp {
+    std::string op;                   ///< Verilog operator, e.g. "+", "<", "<<"
+    bool unary = false;
+    bool isSigned = false;            ///< operands are signed
+    std::string result;               ///< generated vector name of the result
+    int resultWidth = 1;
+    struct Operand {
+        std::string name;             ///< generated vector (network outputs) or a signal name
+        int width = 1;
+        bool generated = true;
+    };
+    std::vector<Operand> operands;
+};
+
+struct LowerOptions {
+    /// Turn word-level arithmetic into gates (for the proof) instead of keeping it.
+    bool bitBlastArithmetic = false;
+    /// Prefix of every generated name.
+    std::string prefix = "kf_";
+};
+
+/// The network together with everything the writer needs to put it back.
+struct Lowered {
+    net::Network net;
+    std::vector<BitRef> inputBits;     ///< per network input, in order
+    std::vector<BitRef> outputBits;    ///< per network output, in order
+    std::vector<int> replaced;         ///< ids of members the network replaces
+    std::vector<std::string> dissolved;///< internal signals whose declarations go
+    std::vector<WordOp> wordOps;
+    std::vector<std::string> notes;    ///< informational remarks for the user
+};
+
+/// Lower the module. Throws kerf::Error with a source location on
+/// combinational loops, multiple drivers, latches and unsupported code.
+Lowered lower(const ModuleDesc& m, const LowerOptions& opts = {});
+
+/// Name of a bit as used for network inputs/outputs: "a" for scalars, "a[3]" for vectors.
+std::string bitName(const ModuleDesc& m, const BitRef& b);
+
+} // namespace kerf::frontend

@@ -1,0 +1,100 @@
+// kerf/frontend/module.h — the module as the slang reader describes it.
+//
+// `readModule` runs the Python reader (src/reader/kerf_read.py) on the
+// user's files and parses its JSON (docs/reader-format.md) into these
+// plain structures. Expression and statement trees stay as JSON: the
+// lowering walks them directly.
+#pragma once
+
+#include "kerf/diagnostics.h"
+
+#include <nlohmann/json.hpp>
+
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace kerf::frontend {
+
+/// A byte range in a source file plus the line/column of its start.
+struct SourceRange {
+    std::string file;
+    std::size_t start = 0;
+    std::size_t end = 0;
+    int line = 0;
+    int col = 0;
+    SourceLoc loc() const { return SourceLoc{file, line, col}; }
+};
+
+/// Where a signal is declared, for removing it when the rewrite dissolves it.
+struct Declarator {
+    std::string file;
+    std::size_t start = 0, end = 0;          ///< the declarator itself
+    std::size_t stmtStart = 0, stmtEnd = 0;  ///< its declaration statement
+    int count = 1;                           ///< declarators in the statement
+};
+
+enum class PortDir { None, Input, Output, Inout };
+
+/// A module-scope net or variable (ports included), flattened to one packed vector.
+struct Signal {
+    std::string name;
+    bool isVariable = false;   ///< reg/logic variable (vs. net)
+    int width = 1;
+    bool isSigned = false;
+    int msb = 0, lsb = 0;
+    bool vector = false;       ///< declared with a range
+    PortDir dir = PortDir::None;
+    SourceRange src;
+    std::optional<Declarator> decl;
+
+    /// Declared index of bit `offset` (offset 0 = least significant).
+    int indexOf(int offset) const { return msb >= lsb ? lsb + offset : lsb - offset; }
+    /// Offset of declared index `index`, or -1 when out of range.
+    int offsetOf(int index) const;
+};
+
+enum class MemberKind { Assign, Comb, Kept };
+
+/// One module member: a continuous assignment, a combinational block or kept code.
+struct Member {
+    int id = 0;
+    MemberKind kind = MemberKind::Kept;
+    SourceRange src;
+    std::vector<std::string> reads, writes;
+    bool netDecl = false;      ///< `wire x = e;` initializer
+    std::string what, reason;  ///< for kept members
+    nlohmann::json body;       ///< the member's JSON object (lhs/rhs or body/locals)
+};
+
+/// The module as read.
+struct ModuleDesc {
+    std::string name;
+    SourceRange src;
+    std::vector<std::string> portOrder;
+    std::map<std::string, Signal> signals;
+    std::vector<Member> members;
+};
+
+/// What to read: the same options slang takes.
+struct ReadOptions {
+    std::vector<std::string> files;
+    std::vector<std::string> includeDirs;
+    std::vector<std::string> defines;
+    std::string top;
+    /// Replace a file by another when reading (used to read back kerf's own output).
+    std::map<std::string, std::string> substitute;
+};
+
+/// Run the reader and parse its description. Throws kerf::Error (slang's own
+/// messages have already reached stderr when the reader fails).
+ModuleDesc readModule(const ReadOptions& opts);
+
+/// Parse a description already in memory (tests, and the reader's output).
+ModuleDesc parseDescription(const nlohmann::json& j);
+
+/// Verilog text for a signal name: plain identifiers as they are, others escaped (`\name `).
+std::string verilogName(const std::string& name);
+
+} // namespace kerf::frontend

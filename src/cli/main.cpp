@@ -1,0 +1,123 @@
+// main.cpp — the kerf command line: restructure, stats, equiv, algebra.
+#include "kerf/algebra/algebra_command.h"
+#include "kerf/diagnostics.h"
+#include "kerf/flow/flows.h"
+
+#include <CLI/CLI.hpp>
+#include <fmt/format.h>
+#include <nlohmann/json.hpp>
+
+#include <iostream>
+
+namespace {
+
+constexpr const char* kExitCodes =
+    "Exit codes: 0 success; 1 designs differ (equiv) or the file would change (--check); "
+    "2 bad input (syntax, loop, multiple drivers, latch, unknown module, usage); "
+    "3 proof undecided within its budget; 4 Python or pyslang missing; "
+    "5 internal error (e.g. a rewrite that failed its proof: nothing is written).";
+
+void addReadOptions(CLI::App* cmd, kerf::frontend::ReadOptions& r, bool files = true) {
+    if (files) cmd->add_option("files", r.files, "Verilog/SystemVerilog source files")->required();
+    cmd->add_option("--top", r.top, "module to read (default: the only top-level module)");
+    cmd->add_option("-I,--include", r.includeDirs, "include directory")->take_all();
+    cmd->add_option("-D,--define", r.defines, "preprocessor define NAME or NAME=VALUE")->take_all();
+}
+
+} // namespace
+
+int main(int argc, char** argv) {
+    // `kerf algebra ...` has its own small argument syntax.
+    if (argc >= 2 && std::string(argv[1]) == "algebra") {
+        std::vector<std::string> args(argv + 2, argv + argc);
+        return kerf::algebra::runAlgebraCommand(args, std::cout, std::cerr);
+    }
+
+    CLI::App app{"kerf — restructure combinational RTL logic with the algebraic model, prove it, write it back"};
+    app.footer(kExitCodes);
+    app.set_version_flag("--version", std::string("kerf ") + KERF_VERSION);
+    app.require_subcommand(1);
+
+    kerf::flow::RestructureOptions ro;
+    auto* rs = app.add_subcommand("restructure", "rewrite a module's combinational logic smaller, proved equivalent");
+    addReadOptions(rs, ro.read);
+    rs->add_option("-o,--output", ro.output, "output file (default: standard output)");
+    rs->add_flag("--in-place", ro.inPlace, "overwrite the file holding the module (atomically)");
+    rs->add_flag("--check", ro.check, "write nothing; exit 1 when kerf would make the module smaller");
+    rs->add_option("--effort", ro.effort, "built-in recipe: fast, default or thorough")
+        ->check(CLI::IsMember({"fast", "default", "thorough"}));
+    rs->add_option("--recipe", ro.recipe, "custom pass sequence, e.g. \"tidy,inline-small:4,share-divisors\"");
+    rs->add_option("--max-depth", ro.maxDepth, "logic depth bound (default: the input's depth)");
+    rs->add_flag("-v,--verbose", ro.verbose, "print a table per pass (repeat for more detail)");
+    rs->add_option("--report", ro.reportPath, "write the before/after figures as JSON to this file");
+    rs->add_flag("--skip-proof", ro.skipProof, "do not prove the rewrite (the output says so)");
+    rs->add_option("--proof-budget", ro.proofBudget, "SAT conflicts the proof may spend before giving up");
+    rs->add_option("--wire-prefix", ro.prefix, "prefix of generated wire names");
+    rs->footer(kExitCodes);
+
+    kerf::frontend::ReadOptions so;
+    bool statsJson = false;
+    auto* st = app.add_subcommand("stats", "print size and depth of a module as read");
+    addReadOptions(st, so);
+    st->add_flag("--json", statsJson, "print JSON");
+    st->footer(kExitCodes);
+
+    kerf::flow::EquivOptions eq;
+    std::vector<std::string> eqFiles;
+    auto* ev = app.add_subcommand("equiv", "prove two versions of a module equivalent, or show a difference");
+    ev->add_option("files", eqFiles, "the two files: A B")->required()->expected(2);
+    addReadOptions(ev, eq.a, false);
+    ev->add_flag("--json", eq.json, "print JSON");
+    ev->add_option("--proof-budget", eq.proofBudget, "SAT conflicts the proof may spend before giving up");
+    ev->add_flag("-v,--verbose", eq.verbose, "print proof statistics");
+    ev->footer(kExitCodes);
+
+    app.add_subcommand("algebra", "explore the algebraic model on one expression: divide, kernels, factor "
+                                  "(see `kerf algebra --help`)");
+
+    try {
+        app.parse(argc, argv);
+    } catch (const CLI::ParseError& e) {
+        int rc = app.exit(e);
+        return rc == 0 ? 0 : static_cast<int>(kerf::ExitCode::InputError);
+    }
+
+    try {
+        if (*rs) {
+            if (ro.inPlace && !ro.output.empty()) throw kerf::Error("--in-place and --output exclude each other");
+            return kerf::flow::restructure(ro);
+        }
+        if (*st) {
+            auto r = kerf::flow::stats(so);
+            if (statsJson) {
+                nlohmann::json j = {{"module", r.module}, {"inputs", r.metrics.inputs},
+                                    {"outputs", r.metrics.outputs}, {"nodes", r.metrics.nodes},
+                                    {"literals", r.metrics.literals}, {"gates", r.metrics.gates},
+                                    {"depth", r.metrics.depth}, {"restructurable", r.restructurable},
+                                    {"kept", r.kept}};
+                std::cout << j.dump(2) << "\n";
+            } else {
+                std::cout << fmt::format("module     {}\ninputs     {}\noutputs    {}\nnodes      {}\n"
+                                         "literals   {}\ngates      {}   (two-input AND/OR, inverters free)\n"
+                                         "depth      {}\nstatements {} restructurable, {} kept as written\n",
+                                         r.module, r.metrics.inputs, r.metrics.outputs, r.metrics.nodes,
+                                         r.metrics.literals, r.metrics.gates, r.metrics.depth, r.restructurable,
+                                         r.kept);
+            }
+            return 0;
+        }
+        if (*ev) {
+            eq.b = eq.a;
+            eq.a.files = {eqFiles[0]};
+            eq.b.files = {eqFiles[1]};
+            return kerf::flow::equiv(eq);
+        }
+    } catch (const kerf::Error& e) {
+        std::cerr << e.render() << "\n";
+        return static_cast<int>(e.code());
+    } catch (const std::exception& e) {
+        std::cerr << "kerf: internal error: " << e.what() << "\n";
+        return static_cast<int>(kerf::ExitCode::Internal);
+    }
+    return 0;
+}

@@ -1,0 +1,213 @@
+// network.cpp — construction, ordering, measurement and simulation of the Boolean network.
+#include "kerf/network/network.h"
+
+#include <algorithm>
+#include <functional>
+#include <queue>
+
+namespace kerf::net {
+
+using algebra::literalNegated;
+using algebra::literalVar;
+
+Network::Network() {
+    Node zero;
+    zero.kind = NodeKind::Constant;
+    zero.name = "0";
+    nodes_.push_back(std::move(zero));
+}
+
+NodeId Network::addInput(std::string name) {
+    Node n;
+    n.kind = NodeKind::Input;
+    n.name = std::move(name);
+    nodes_.push_back(std::move(n));
+    NodeId id = static_cast<NodeId>(nodes_.size() - 1);
+    inputs_.push_back(id);
+    return id;
+}
+
+NodeId Network::addLogic(Cover cover, std::string hint, SourceLoc loc) {
+    Node n;
+    n.kind = NodeKind::Logic;
+    n.cover = std::move(cover);
+    n.name = std::move(hint);
+    n.loc = std::move(loc);
+    nodes_.push_back(std::move(n));
+    return static_cast<NodeId>(nodes_.size() - 1);
+}
+
+void Network::addOutput(std::string name, Literal driver) {
+    outputs_.push_back(Output{std::move(name), driver});
+}
+
+std::vector<NodeId> Network::topoOrder() const {
+    // Iterative DFS post-order; fanins of a live node are live by construction.
+    std::vector<NodeId> order;
+    std::vector<std::uint8_t> state(nodes_.size(), 0);  // 0 new, 1 open, 2 done
+    std::vector<std::pair<NodeId, std::size_t>> stack;
+    std::vector<NodeId> fanin;
+    for (NodeId root = 0; root < nodes_.size(); ++root) {
+        if (!isLogic(root) || state[root]) continue;
+        stack.push_back({root, 0});
+        state[root] = 1;
+        while (!stack.empty()) {
+            auto& [id, next] = stack.back();
+            const Cover& cv = nodes_[id].cover;
+            // Walk literals flattened across cubes.
+            bool pushed = false;
+            std::size_t k = 0;
+            for (const Cube& c : cv.cubes) {
+                for (Literal l : c.lits) {
+                    if (k++ < next) continue;
+                    ++next;
+                    NodeId v = literalVar(l);
+                    if (isLogic(v) && state[v] == 0) {
+                        state[v] = 1;
+                        stack.push_back({v, 0});
+                        pushed = true;
+                        break;
+                    }
+                }
+                if (pushed) break;
+            }
+            if (pushed) continue;
+            state[id] = 2;
+            order.push_back(id);
+            stack.pop_back();
+        }
+    }
+    return order;
+}
+
+std::vector<std::vector<NodeId>> Network::fanouts() const {
+    std::vector<std::vector<NodeId>> fo(nodes_.size());
+    for (NodeId id = 0; id < nodes_.size(); ++id) {
+        if (!isLogic(id)) continue;
+        for (const Cube& c : nodes_[id].cover.cubes)
+            for (Literal l : c.lits) {
+                auto& v = fo[literalVar(l)];
+                if (v.empty() || v.back() != id) v.push_back(id);
+            }
+    }
+    for (auto& v : fo) {
+        std::sort(v.begin(), v.end());
+        v.erase(std::unique(v.begin(), v.end()), v.end());
+    }
+    return fo;
+}
+
+std::vector<std::uint32_t> Network::outputRefs() const {
+    std::vector<std::uint32_t> refs(nodes_.size(), 0);
+    for (const Output& o : outputs_) ++refs[literalVar(o.driver)];
+    return refs;
+}
+
+std::size_t Network::removeUnreachable() {
+    std::vector<std::uint8_t> seen(nodes_.size(), 0);
+    std::vector<NodeId> work;
+    for (const Output& o : outputs_) work.push_back(literalVar(o.driver));
+    while (!work.empty()) {
+        NodeId id = work.back();
+        work.pop_back();
+        if (seen[id]) continue;
+        seen[id] = 1;
+        if (!isLogic(id)) continue;
+        for (const Cube& c : nodes_[id].cover.cubes)
+            for (Literal l : c.lits)
+                if (!seen[literalVar(l)]) work.push_back(literalVar(l));
+    }
+    std::size_t removed = 0;
+    for (NodeId id = 0; id < nodes_.size(); ++id)
+        if (isLogic(id) && !seen[id]) {
+            nodes_[id].dead = true;
+            nodes_[id].cover = {};
+            ++removed;
+        }
+    return removed;
+}
+
+std::size_t Network::logicCount() const {
+    std::size_t n = 0;
+    for (NodeId id = 0; id < nodes_.size(); ++id) n += isLogic(id);
+    return n;
+}
+
+namespace {
+
+// Combine arrival times pairwise, earliest first: the depth of a balanced
+// two-input tree built by arrival time (k leaves need k-1 gates).
+std::size_t combineArrivals(std::vector<std::size_t>& times) {
+    if (times.empty()) return 0;
+    std::priority_queue<std::size_t, std::vector<std::size_t>, std::greater<>> q(times.begin(), times.end());
+    while (q.size() > 1) {
+        std::size_t a = q.top(); q.pop();
+        std::size_t b = q.top(); q.pop();
+        q.push(std::max(a, b) + 1);
+    }
+    return q.top();
+}
+
+} // namespace
+
+SopCost sopCost(const Cover& cover, const std::vector<std::size_t>& arrivalByVar) {
+    SopCost cost;
+    std::vector<std::size_t> cubeTimes, litTimes;
+    for (const Cube& c : cover.cubes) {
+        if (c.lits.size() > 1) cost.gates += c.lits.size() - 1;
+        litTimes.clear();
+        for (Literal l : c.lits) {
+            auto v = literalVar(l);
+            litTimes.push_back(v < arrivalByVar.size() ? arrivalByVar[v] : 0);
+        }
+        cubeTimes.push_back(combineArrivals(litTimes));
+    }
+    if (cover.cubes.size() > 1) cost.gates += cover.cubes.size() - 1;
+    cost.arrival = combineArrivals(cubeTimes);
+    return cost;
+}
+
+std::vector<std::size_t> arrivalTimes(const Network& net) {
+    std::vector<std::size_t> at(net.nodeCount(), 0);
+    for (NodeId id : net.topoOrder()) at[id] = sopCost(net.node(id).cover, at).arrival;
+    return at;
+}
+
+Metrics measure(const Network& net) {
+    Metrics m;
+    m.inputs = net.inputs().size();
+    m.outputs = net.outputs().size();
+    std::vector<std::size_t> at(net.nodeCount(), 0);
+    for (NodeId id : net.topoOrder()) {
+        const Cover& cv = net.node(id).cover;
+        SopCost c = sopCost(cv, at);
+        at[id] = c.arrival;
+        ++m.nodes;
+        m.gates += c.gates;
+        for (const Cube& cube : cv.cubes) m.literals += cube.lits.size();
+    }
+    for (const Output& o : net.outputs()) m.depth = std::max(m.depth, at[literalVar(o.driver)]);
+    return m;
+}
+
+std::vector<std::uint64_t> simulate(const Network& net, const std::vector<std::uint64_t>& inputWords) {
+    std::vector<std::uint64_t> val(net.nodeCount(), 0);
+    for (std::size_t i = 0; i < net.inputs().size() && i < inputWords.size(); ++i)
+        val[net.inputs()[i]] = inputWords[i];
+    auto litVal = [&](Literal l) { return literalNegated(l) ? ~val[literalVar(l)] : val[literalVar(l)]; };
+    for (NodeId id : net.topoOrder()) {
+        std::uint64_t sum = 0;
+        for (const Cube& c : net.node(id).cover.cubes) {
+            std::uint64_t prod = ~std::uint64_t{0};
+            for (Literal l : c.lits) prod &= litVal(l);
+            sum |= prod;
+        }
+        val[id] = sum;
+    }
+    std::vector<std::uint64_t> out;
+    out.reserve(net.outputs().size());
+    for (const Output& o : net.outputs()) out.push_back(litVal(o.driver));
+    return out;
+}
+
+} // namespace kerf::net

@@ -1,0 +1,173 @@
+"""kerf_e2e — shared helpers of the end-to-end tests.
+
+The outside reference for behaviour is Icarus Verilog (the simulator
+`iverilog`/`vvp` from Debian's packages); for lint cleanliness it is
+Verilator (`verilator --lint-only -Wall`). The module's ports and byte
+ranges come from kerf's own slang reader.
+"""
+import argparse
+import json
+import os
+import random
+import subprocess
+import sys
+import tempfile
+
+SAMPLES = [
+    # (files, top) — every sample shipped in samples/
+    (["samples/uart_regsel.v"], "uart_regsel"),
+    (["samples/rv_decoder.sv"], "rv_decoder"),
+    (["samples/dma_fsm.sv"], "dma_fsm"),
+    (["samples/irq_pkg.sv", "samples/irq_router.sv"], "irq_router"),
+    (["samples/gpio_mux.v"], "gpio_mux"),
+]
+EPFL = ["ctrl", "dec", "int2float", "router", "priority", "voter"]
+
+
+class Results:
+    def __init__(self):
+        self.passed = 0
+        self.failed = 0
+        self.skipped = 0
+
+    def check(self, cond, what):
+        if cond:
+            self.passed += 1
+        else:
+            self.failed += 1
+            print(f"FAIL: {what}", flush=True)
+        return cond
+
+    def skip(self, what):
+        self.skipped += 1
+        print(f"SKIPPED: {what}", flush=True)
+
+    def finish(self):
+        print(f"{self.passed} passed, {self.failed} failed, {self.skipped} skipped")
+        sys.exit(1 if self.failed else 0)
+
+
+def args():
+    p = argparse.ArgumentParser()
+    p.add_argument("--kerf", required=True)
+    p.add_argument("--root", required=True)
+    p.add_argument("--only", default="")
+    return p.parse_args()
+
+
+def epfl_dir(root):
+    d = os.path.normpath(os.path.join(root, "..", "shared", "benchmarks", "epfl"))
+    return d if os.path.isdir(d) else None
+
+
+def run(cmd, **kw):
+    return subprocess.run(cmd, capture_output=True, text=True, **kw)
+
+
+def read_module(root, files, top):
+    """The module description from kerf's slang reader (docs/reader-format.md)."""
+    cmd = [sys.executable, os.path.join(root, "src/reader/kerf_read.py"), "--top", top] + files
+    r = run(cmd)
+    if r.returncode != 0:
+        raise RuntimeError(f"reader failed on {files}: {r.stderr}")
+    return json.loads(r.stdout)
+
+
+def port_signature(desc):
+    return [(p["name"], p["direction"], p["width"], p["signed"]) for p in desc["ports"]]
+
+
+def renamed(text, desc, new_name):
+    """The module's source with only its name changed, located by the reader's byte range."""
+    raw = text.encode()
+    start = desc["module"]["src"]["start"]
+    name = desc["module"]["name"].encode()
+    pos = raw.index(name, start)
+    return (raw[:pos] + new_name.encode() + raw[pos + len(name):]).decode()
+
+
+def vname(n):
+    ok = (n[:1].isalpha() or n[:1] == "_") and all(c.isalnum() or c in "_$" for c in n)
+    return n if ok else "\\" + n + " "
+
+
+def testbench(desc, ref_name, new_name, exhaustive_limit=16, vectors=10000, seed=1):
+    """A testbench driving both modules with the same inputs and comparing every output.
+
+    Exhaustive up to `exhaustive_limit` input bits, otherwise `vectors` patterns
+    mixing uniform, mostly-zero and mostly-one words (trade practice for
+    random simulation of control logic)."""
+    ins = [p for p in desc["ports"] if p["direction"] == "input"]
+    outs = [p for p in desc["ports"] if p["direction"] != "input"]
+    total = sum(p["width"] for p in ins)
+    lines = ["`timescale 1ns/1ps", "module kerf_tb;"]
+    for i, p in enumerate(ins):
+        lines.append(f"  reg [{p['width']-1}:0] in{i};")
+    for i, p in enumerate(outs):
+        lines.append(f"  wire [{p['width']-1}:0] ra{i}, rb{i};")
+    conn_a = [f".{vname(p['name'])}(in{i})" for i, p in enumerate(ins)] + \
+             [f".{vname(p['name'])}(ra{i})" for i, p in enumerate(outs)]
+    conn_b = [f".{vname(p['name'])}(in{i})" for i, p in enumerate(ins)] + \
+             [f".{vname(p['name'])}(rb{i})" for i, p in enumerate(outs)]
+    lines.append(f"  {ref_name} ua ({', '.join(conn_a)});")
+    lines.append(f"  {new_name} ub ({', '.join(conn_b)});")
+    lines.append("  integer k, errors, mode;")
+    lines.append(f"  reg [{max(total,1)-1}:0] all_in;")
+    lines.append("  task compare; begin")
+    for i, p in enumerate(outs):
+        lines.append(f"    if (ra{i} !== rb{i}) begin errors = errors + 1; "
+                     f"if (errors < 10) $display(\"MISMATCH {p['name']} vector %0d: %b vs %b\", k, ra{i}, rb{i}); end")
+    lines.append("  end endtask")
+    # Split all_in into the inputs.
+    assign = []
+    pos = 0
+    for i, p in enumerate(ins):
+        assign.append(f"in{i} = all_in[{pos + p['width'] - 1}:{pos}];")
+        pos += p["width"]
+    words = (max(total, 1) + 31) // 32
+    lines.append("  initial begin")
+    lines.append(f"    errors = 0; k = {seed}; mode = $random(k);")
+    if total <= exhaustive_limit:
+        lines.append(f"    for (k = 0; k < {1 << total}; k = k + 1) begin")
+        lines.append("      all_in = k;")
+    else:
+        lines.append(f"    for (k = 0; k < {vectors}; k = k + 1) begin")
+        lines.append("      mode = k % 3;")
+        for w in range(words):
+            hi = min(total, 32 * (w + 1)) - 1
+            lo = 32 * w
+            lines.append(f"      all_in[{hi}:{lo}] = mode == 0 ? $random : mode == 1 ? "
+                         f"($random & $random & $random) : ($random | $random | $random);")
+    lines.append("      " + " ".join(assign))
+    lines.append("      #1; compare;")
+    lines.append("    end")
+    lines.append("    $display(\"KERF_TB errors=%0d\", errors);")
+    lines.append("    $finish;")
+    lines.append("  end")
+    lines.append("endmodule")
+    return "\n".join(lines) + "\n", total
+
+
+def simulate_equal(root, files, top, out_file, workdir):
+    """Icarus Verilog (outside reference): the rewrite matches the original on every output."""
+    desc = read_module(root, files, top)
+    mod_file = desc["module"]["src"]["file"]
+    ref = renamed(open(mod_file).read(), desc, top + "_ref")
+    new = renamed(open(out_file).read(), read_module(root, [out_file if f == mod_file else f for f in files], top),
+                  top + "_new")
+    ext = ".sv" if mod_file.endswith(".sv") else ".v"
+    ref_path = os.path.join(workdir, "ref" + ext)
+    new_path = os.path.join(workdir, "new" + ext)
+    open(ref_path, "w").write(ref)
+    open(new_path, "w").write(new)
+    tb, bits = testbench(desc, top + "_ref", top + "_new")
+    tb_path = os.path.join(workdir, "tb.sv")
+    open(tb_path, "w").write(tb)
+    others = [f for f in files if f != mod_file]
+    sim = os.path.join(workdir, "sim.vvp")
+    c = run(["iverilog", "-g2012", "-o", sim] + others + [ref_path, new_path, tb_path])
+    if c.returncode != 0:
+        return False, f"iverilog failed: {c.stderr[:2000]}", bits
+    r = run(["vvp", "-n", sim])
+    ok = "KERF_TB errors=0" in r.stdout
+    return ok, r.stdout[-2000:], bits
