@@ -152,6 +152,7 @@ WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& 
     }
 
     auto factored = [&](NodeId id) {
+        if (opts.forms && id < opts.forms->size()) return algebra::toString((*opts.forms)[id], names);
         algebra::Factored f = algebra::factor(network.node(id).cover, algebra::FactorMethod::Best);
         return algebra::toString(f, names);
     };

@@ -5,7 +5,8 @@
 #include "kerf/frontend/lower.h"
 #include "kerf/passes/engine.h"
 #include "kerf/passes/tidy.h"
-#include "kerf/proof/equiv.h"
+#include "kerf/passes/factored.h"
+#include "kerf/proof/equivalence.h"
 
 #include <fmt/format.h>
 
@@ -93,11 +94,13 @@ int restructure(const RestructureOptions& opts) {
     eo.verbose = opts.verbose;
     passes::EngineResult er = passes::restructure(low.net, eo);
     double passSeconds = since(tPass);
-    net::Metrics after = passes::measureFactored(low.net);
+    passes::FactoredNetwork forms = passes::factorNetwork(low.net, er.depthCap);
+    net::Metrics after = forms.metrics;
     if (opts.verbose > 0) std::cerr << passes::formatPassTable(er);
 
     emit::WriteOptions wo;
     wo.prefix = opts.prefix;
+    wo.forms = &forms.forms;
     if (opts.skipProof) wo.banner = "written with --skip-proof: this rewrite was NOT proved equivalent";
     emit::WriteResult wr = emit::writeModule(desc, low, low.net, wo);
 

@@ -15,6 +15,8 @@ namespace kerf::emit {
 struct WriteOptions {
     std::string prefix = "kf_";   ///< prefix of generated wire names
     std::string banner;           ///< extra comment line for the block header (e.g. proof status)
+    /// Factored form per node id to print; when null each node is factored here.
+    const std::vector<algebra::Factored>* forms = nullptr;
 };
 
 struct WriteResult {

@@ -1,0 +1,1 @@
+assign ready = `READY_EXPR;

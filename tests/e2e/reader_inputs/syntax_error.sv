@@ -1,0 +1,3 @@
+module broken (input logic a, output logic y);
+  assign y = a &;
+endmodule

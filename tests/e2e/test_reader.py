@@ -1,0 +1,772 @@
+#!/usr/bin/env python3
+"""End-to-end tests of kerf's slang reader, src/reader/kerf_read.py.
+
+Run as:  python3 tests/e2e/test_reader.py --kerf <kerf binary> --root <repo root>
+(--kerf is accepted and ignored: these tests drive the reader directly.)
+
+References named beside the checks:
+  - IEEE 1800-2017 (SystemVerilog), clauses 11.6 (expression bit lengths),
+    11.8 (expression signedness), 12.5.1 (casez/casex), recalled from memory;
+  - Icarus Verilog as the simulator: the values the reader's description
+    implies are compared with Icarus' simulation of the same module;
+  - the EPFL combinational benchmarks in <root>/../shared/benchmarks/epfl and
+    their SOURCE.md (port counts).
+Inputs are invented scenarios under tests/e2e/reader_inputs/.
+The last line printed is `N passed, M failed`; the exit status is 0 only when
+nothing failed.
+"""
+
+import argparse
+import json
+import os
+import random
+import re
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+import traceback
+
+ROOT = None
+INPUTS = None
+READER = None
+TESTS = []
+
+
+class Skip(Exception):
+    pass
+
+
+def test(fn):
+    TESTS.append(fn)
+    return fn
+
+
+def run_reader(*args, cwd=None, env=None):
+    p = subprocess.run([sys.executable, READER] + list(args), cwd=cwd or INPUTS, env=env,
+                       stdout=subprocess.PIPE, stderr=subprocess.PIPE, timeout=600)
+    return p.returncode, p.stdout.decode("utf-8", "replace"), p.stderr.decode("utf-8", "replace")
+
+
+def read(*args, cwd=None):
+    rc, out, err = run_reader(*args, cwd=cwd)
+    assert rc == 0, "reader exit %d for %s:\n%s" % (rc, args, err)
+    return json.loads(out)
+
+
+def text_of(src, base=None):
+    path = os.path.join(base or INPUTS, src["file"])
+    with open(path, "rb") as f:
+        return f.read()[src["start"]:src["end"]].decode("utf-8")
+
+
+def member_writing(desc, name, kind=None):
+    found = [m for m in desc["members"] if name in m["writes"] and (kind is None or m["kind"] == kind)]
+    assert len(found) == 1, "expected one member writing %r, found %d" % (name, len(found))
+    return found[0]
+
+
+def signal(desc, name):
+    for s in desc["signals"]:
+        if s["name"] == name:
+            return s
+    raise AssertionError("no signal %r" % name)
+
+
+def eq(actual, expected, what=""):
+    assert actual == expected, "%s: expected %r, got %r" % (what, expected, actual)
+
+
+def line_col(path, offset):
+    with open(path, "rb") as f:
+        data = f.read()[:offset]
+    line = data.count(b"\n") + 1
+    col = offset - (data.rfind(b"\n") + 1) + 1
+    return line, col
+
+
+# ---------------------------------------------------------------------------
+# byte ranges
+
+@test
+def statement_byte_ranges():
+    d = read("byte_ranges.sv")
+    eq(d["format"], "kerf-module", "format")
+    eq(d["version"], 1, "version")
+    eq(d["module"]["name"], "status_regs", "module name")
+    eq(text_of(member_writing(d, "both")["src"]), "assign both = rx_data & tx_data;", "assign")
+    both_src = [m for m in d["members"] if "sum" in m["writes"] or "parity" in m["writes"]]
+    eq(len(both_src), 2, "assignments of one statement")
+    for m in both_src:
+        eq(m["kind"], "assign", "multi-assign member kind")
+        eq(text_of(m["src"]), "assign sum = rx_data + tx_data, parity = ^rx_data;", "multi-assign")
+    eq(text_of(member_writing(d, "flag[0]")["src"]), "assign \\flag[0]  = rx_data[7];", "escaped")
+    comb = member_writing(d, "busy")
+    eq(comb["kind"], "comb", "always_comb kind")
+    eq(comb["style"], "always_comb", "style")
+    eq(text_of(comb["src"]), "always_comb begin\n    busy = lo_rx[0] | lo_tx[1];\n"
+       "    if (\\flag[0] ) begin\n      busy = 1'b0;\n    end\n  end", "always_comb")
+    star = member_writing(d, "nibble")
+    eq(star["style"], "always_star", "style of always @(*)")
+    eq(text_of(star["src"]), "always @(*) nibble = lo_rx ^ lo_tx;", "always @(*)")
+    ff = member_writing(d, "shadow")
+    eq(ff["kind"], "kept", "always_ff kind")
+    eq(text_of(ff["src"]), "always_ff @(posedge clk) shadow <= shadow + rx_data;", "always_ff")
+    # line and column of a start offset, 1-based
+    src = member_writing(d, "both")["src"]
+    eq((src["line"], src["col"]), line_col(os.path.join(INPUTS, src["file"]), src["start"]), "line/col")
+    eq([m["id"] for m in d["members"]], list(range(len(d["members"]))), "ids")
+    starts = [m["src"]["start"] for m in d["members"]]
+    eq(starts, sorted(starts), "members in source order")
+
+
+@test
+def declaration_byte_ranges():
+    d = read("byte_ranges.sv")
+    stmt = "wire [3:0] lo_rx, lo_tx = tx_data[3:0], \\flag[0] ;"
+    for name, declarator in (("lo_rx", "lo_rx"), ("lo_tx", "lo_tx = tx_data[3:0]"), ("flag[0]", "\\flag[0]")):
+        dc = signal(d, name)["decl"]
+        assert dc is not None, "%s has no decl" % name
+        data = open(os.path.join(INPUTS, dc["file"]), "rb").read().decode()
+        eq(data[dc["start"]:dc["end"]], declarator, "declarator of %s" % name)
+        eq(data[dc["stmt_start"]:dc["stmt_end"]], stmt, "statement of %s" % name)
+        eq(dc["count"], 3, "declarators in the statement")
+    dc = signal(d, "shadow")["decl"]
+    data = open(os.path.join(INPUTS, dc["file"]), "rb").read().decode()
+    eq(data[dc["stmt_start"]:dc["stmt_end"]], "logic [7:0] shadow;", "single declaration")
+    eq(dc["count"], 1, "count")
+    eq(signal(d, "rx_data")["decl"], None, "ANSI port decl")
+    eq(signal(d, "rx_data")["port"], True, "port flag")
+    eq(signal(d, "flag[0]")["width"], 4, "escaped signal width")
+    nd = member_writing(d, "lo_tx")
+    eq(nd.get("net_decl"), True, "net declaration assignment")
+    eq(text_of(nd["src"]), " = tx_data[3:0]", "net declaration assignment src")
+    eq([(p["name"], p["direction"], p["width"]) for p in d["ports"]],
+       [("rx_data", "input", 8), ("tx_data", "input", 8), ("clk", "input", 1), ("both", "output", 8),
+        ("sum", "output", 9), ("parity", "output", 1), ("busy", "output", 1), ("nibble", "output", 4)],
+       "ports")
+    eq(signal(d, "clk")["vector"], False, "scalar")
+    eq(signal(d, "both")["vector"], True, "vector")
+
+
+@test
+def compact_json():
+    rc, out, err = run_reader("byte_ranges.sv")
+    eq(rc, 0, "exit")
+    eq(out.count("\n"), 1, "one line of JSON")
+    eq(out, json.dumps(json.loads(out), separators=(",", ":")) + "\n", "compact JSON")
+
+
+# ---------------------------------------------------------------------------
+# widths and signedness
+
+def rhs(d, name):
+    return member_writing(d, name)["rhs"]
+
+
+@test
+def expression_widths_ieee_11_6():
+    d = read("widths.sv")
+    # 11.6.1: a + b with 8-bit operands assigned to a 9-bit target is evaluated at 9 bits
+    r = rhs(d, "sum9")
+    eq((r["op"], r["operator"], r["width"], r["signed"]), ("binary", "+", 9, False), "a + b")
+    eq((r["lhs"]["op"], r["lhs"]["width"], r["lhs"]["operand"]["width"]), ("convert", 9, 8), "a extended to 9")
+    # 11.6.2: (c + d) >> 1 with 16-bit operands and target stays 16 bits (the carry is lost)
+    r = rhs(d, "avg16")
+    eq((r["operator"], r["width"]), (">>", 16, ), "shift")
+    eq((r["lhs"]["operator"], r["lhs"]["width"]), ("+", 16), "sum inside the shift")
+    # 11.6.2: adding the integer 0 makes the whole expression 32 bits
+    r = rhs(d, "avg32")
+    eq((r["op"], r["width"]), ("convert", 16), "truncation to the target")
+    eq((r["operand"]["operator"], r["operand"]["width"]), (">>", 32), "32-bit shift")
+    # 11.6.1: a relational result is 1 bit; operands sized to max(L(a), L(c)) = 16
+    r = rhs(d, "lt")
+    eq((r["operator"], r["width"], r["lhs"]["width"], r["rhs"]["width"]), ("<", 1, 16, 16), "a < c")
+    # 11.6.1 / 11.8.1: concatenation is L(a) + L(b) and unsigned
+    r = rhs(d, "cat")
+    eq((r["op"], r["width"], r["signed"], len(r["parts"])), ("concat", 16, False, 2), "{a, b}")
+    # 11.8.1: all operands signed -> signed result, operands sign-extended
+    r = rhs(d, "ssum")
+    eq((r["width"], r["signed"], r["lhs"]["signed"], r["lhs"]["operand"]["signed"]), (10, True, True, True),
+       "sa + sb")
+    # 11.8.1/11.8.2: one unsigned operand -> unsigned; sa is zero-extended, shown as a
+    # sign change at 8 bits before the extension to 10
+    r = rhs(d, "mixed")
+    eq((r["width"], r["signed"]), (10, False), "sa + b")
+    ext = r["lhs"]
+    eq((ext["op"], ext["width"], ext["signed"]), ("convert", 10, False), "extension of sa")
+    eq((ext["operand"]["op"], ext["operand"]["width"], ext["operand"]["signed"]), ("convert", 8, False),
+       "sa made unsigned before the extension")
+    # 11.6.1: shift amount self-determined
+    r = rhs(d, "shl")
+    eq((r["operator"], r["width"], r["lhs"]["width"], r["rhs"]["width"]), ("<<", 8, 8, 4), "a << n")
+    # 11.6.1: reduction operators give 1 bit
+    r = rhs(d, "red")
+    eq((r["parts"][1]["op"], r["parts"][1]["operator"], r["parts"][1]["width"]), ("unary", "&", 1), "&a")
+    eq(r["parts"][0], {"op": "const", "width": 3, "signed": False, "bits": "000"}, "3'b000")
+    # a signed operand alone in a wider unsigned context is sign-extended (11.8.2), then made unsigned
+    r = rhs(d, "widen")
+    eq((r["op"], r["signed"], r["operand"]["op"], r["operand"]["width"], r["operand"]["signed"]),
+       ("convert", False, "convert", 10, True), "widen")
+
+
+# ---------------------------------------------------------------------------
+# case statements
+
+def first_case(m):
+    for it in m["body"]["items"]:
+        if it["stmt"] == "case":
+            return it
+    raise AssertionError("no case statement in member %d" % m["id"])
+
+
+@test
+def case_items_keep_wildcards():
+    d = read("case_wild.sv")
+    c = first_case(member_writing(d, "unit"))
+    eq((c["kind"], c["check"]), ("casez", "none"), "casez")
+    # IEEE 1800-2017 12.5.1: '?' in a casez item is z, a don't-care bit
+    eq([[x["bits"] for x in it["exprs"]] for it in c["items"]], [["1zz0"], ["01z1", "0000"], ["001z"]], "items")
+    eq(c["default"]["stmt"], "assign", "default")
+    eq(c["expr"]["op"], "ref", "case expression")
+    c = first_case(member_writing(d, "width"))
+    eq(c["kind"], "casex", "casex")
+    eq([x["bits"] for it in c["items"] for x in it["exprs"]], ["1x0", "0xx"], "casex items keep x")
+    c = first_case(member_writing(d, "store"))
+    eq((c["kind"], c["check"]), ("case", "unique"), "unique case")
+    eq([x["bits"] for x in c["items"][0]["exprs"]], ["00", "01"], "two constants in one item")
+    c = first_case(member_writing(d, "wide"))
+    eq((c["kind"], c["default"]), ("inside", None), "case inside without default")
+    eq(c["items"][0]["exprs"][0]["bits"], "11zz", "inside item")
+
+
+# ---------------------------------------------------------------------------
+# loops
+
+@test
+def for_loops():
+    d = read("loops.sv")
+    m = member_writing(d, "ones")
+    eq(m["kind"], "comb", "kind")
+    eq([(l["name"], l["width"], l["signed"], l["decl"]) for l in m["locals"]], [("i", 32, True, None)], "locals")
+    loops = []
+
+    def walk(s):
+        if s["stmt"] == "for":
+            loops.append(s)
+        for k in ("items",):
+            for x in s.get(k, []):
+                walk(x)
+        if s["stmt"] == "for":
+            walk(s["body"])
+    walk(m["body"])
+    eq(len(loops), 1, "one for loop")
+    f = loops[0]
+    eq(f["init"][0]["name"], "i", "loop variable")
+    eq(f["init"][0]["value"]["bits"], "0" * 32, "initial value")
+    eq((f["cond"]["operator"], f["cond"]["lhs"]["name"], f["cond"]["rhs"]["bits"][-4:]), ("<", "i", "1000"), "cond")
+    st = f["step"][0]
+    eq((st["stmt"], st["lhs"]["name"], st["rhs"]["operator"], st["rhs"]["width"]), ("assign", "i", "+", 32), "i++")
+    body = f["body"]
+    eq(body["rhs"]["op"], "binary", "body")
+    eq(m["reads"], ["mask", "ones"], "reads")
+    eq(m["writes"], ["ones"], "writes")
+    # Verilog-2001 `integer k;` loop variable of two blocks: a local of each
+    for name in ("reversed", "parity_prefix"):
+        m = member_writing(d, name)
+        eq(m["kind"], "comb", "%s kind" % name)
+        eq([l["name"] for l in m["locals"]], ["k"], "module integer as a loop local")
+        assert "k" not in m["reads"] + m["writes"], "k listed as a module signal of %s" % name
+    m = member_writing(d, "parity_prefix")
+    f = [s for s in m["body"]["items"] if s["stmt"] == "for"][0]
+    eq(f["step"][0]["rhs"]["operator"], "+", "k += 1")
+    # j is read after its loop: kept
+    m = member_writing(d, "last_index")
+    eq(m["kind"], "kept", "loop variable used outside its loop")
+    assert "j" in m["reason"], m["reason"]
+
+
+# ---------------------------------------------------------------------------
+# packages, structs, enums, parameters
+
+@test
+def struct_package_enum_parameter_flattening():
+    d = read("pkg_struct.sv")
+    eq(d["module"]["name"], "router", "module")
+    req = signal(d, "req")
+    eq((req["width"], req["msb"], req["lsb"], req["vector"]), (19, 18, 0, True), "struct flattened")
+    lanes = signal(d, "lanes")
+    eq((lanes["width"], lanes["msb"], lanes["lsb"]), (8, 7, 0), "2-D packed array flattened")
+    asc = signal(d, "asc")
+    eq((asc["msb"], asc["lsb"]), (0, 3), "ascending range kept")
+    slot = signal(d, "slot")
+    eq(slot["width"], 4, "$clog2(12) = 4 from a localparam")
+    # req.dst == DST_IO: member access -> range [18:16]; enum member -> constant 3'b100
+    r = rhs(d, "to_io")
+    eq((r["lhs"]["op"], r["lhs"]["left"], r["lhs"]["right"], r["lhs"]["msb"], r["lhs"]["lsb"]),
+       ("range", 18, 16, 18, 0), "struct member")
+    eq(r["rhs"], {"op": "const", "width": 3, "signed": False, "bits": "100"}, "enum member")
+    # parameter AW (32-bit int) is a constant
+    r = rhs(d, "slot")
+    eq(r["op"], "convert", "slot truncation")
+    eq(r["operand"]["rhs"]["bits"], format(4, "032b"), "AW as a 32-bit constant")
+    r = rhs(d, "lane2")
+    eq((r["op"], r["msb"], r["lsb"], r["width"], r["index"]["op"]), ("index", 3, 0, 2, "const"), "lanes[2]")
+    r = rhs(d, "window")
+    eq((r["op"], r["dir"], r["width"], r["value"]["op"]), ("indexed", "+", 4, "range"), "data[pick +: 4]")
+    r = rhs(d, "first")
+    eq((r["lhs"]["msb"], r["lhs"]["lsb"]), (0, 3), "asc[0] select in declared coordinates")
+    m = member_writing(d, "fwd")
+    eq(m["kind"], "comb", "comb")
+    targets = [s["lhs"] for s in m["body"]["items"]]
+    eq(targets[0], {"op": "ref", "width": 19, "signed": False, "name": "fwd"}, "fwd = req")
+    # fwd.data[3] = ...: a nested constant select flattened to bit 3 of fwd
+    eq((targets[1]["op"], targets[1]["left"], targets[1]["right"], targets[1]["msb"], targets[1]["lsb"],
+        targets[1]["value"]["name"]), ("range", 3, 3, 18, 0, "fwd"), "fwd.data[3]")
+    eq((targets[2]["left"], targets[2]["right"]), (18, 16), "fwd.dst")
+    # PORTS (package localparam, 6) folded into the comparison
+    cond = m["body"]["items"][2]["rhs"]["cond"]
+    eq(cond["rhs"]["bits"], format(6, "032b"), "package localparam")
+
+
+# ---------------------------------------------------------------------------
+# kept members
+
+@test
+def kept_members_reads_writes():
+    d = read("kept.sv")
+    by_write = {}
+    for m in d["members"]:
+        for w in m["writes"]:
+            by_write.setdefault(w, []).append(m)
+    for m in d["members"]:
+        eq(m["kind"], "kept", "every member of kept.sv is kept (%s)" % text_of(m["src"])[:40])
+    m = member_writing(d, "count")
+    eq((m["what"], m["reads"], m["writes"]), ("always_ff", ["clk", "count", "enable", "load"], ["count"]),
+       "always_ff")
+    m = member_writing(d, "tick_d")
+    eq(m["what"], "instance", "instance")
+    eq(m["reads"], ["bus", "clk", "load"], "instance reads (inputs and the inout)")
+    eq(m["writes"], ["bus", "tick_d"], "instance writes (output and the inout)")
+    eq(text_of(m["src"]), "counter_cell u_cell (.clk(clk), .d(load[0]), .q(tick_d), .line(bus));", "src")
+    m = member_writing(d, "mirrored")
+    eq((m["what"], m["reads"]), ("generate", ["count"]), "for generate")
+    assert text_of(m["src"]).startswith("for (g = 0;") and text_of(m["src"]).endswith("end"), "generate src"
+    m = member_writing(d, "sel")
+    eq(m["what"], "generate", "if generate: both branches in one member")
+    assert text_of(m["src"]).startswith("if (USE_FAST)"), text_of(m["src"])
+    m = member_writing(d, "tick_f")
+    eq((m["what"], m["reads"]), ("always_comb", ["count"]), "function call")
+    assert "odd" in m["reason"], m["reason"]
+    assert "nonblocking" in member_writing(d, "nb")["reason"], "nonblocking assignment in always_comb"
+    assert "$countones" in member_writing(d, "ones")["reason"], "system function"
+    m = member_writing(d, "tick_m")
+    assert "macro" in m["reason"], m["reason"]
+    eq(text_of(m["src"]), "`TICK_ASSIGN", "macro use located in the file")
+    eq(m["reads"], ["count", "enable"], "reads through the macro")
+    assert "attribute" in member_writing(d, "attr_y")["reason"], "attribute"
+    assert "preprocessor" in member_writing(d, "dir_y")["reason"], "ifdef inside a block"
+    a1, a2 = member_writing(d, "a1"), member_writing(d, "a2")
+    eq(a1["src"], a2["src"], "one statement")
+    assert "shares its statement" in a1["reason"], a1["reason"]
+    # -D changes which branch is read; the member stays kept either way
+    d2 = read("-D", "TIMER_INVERT", "kept.sv")
+    eq(member_writing(d2, "dir_y")["kind"], "kept", "with -D")
+
+
+# ---------------------------------------------------------------------------
+# errors, top selection, includes
+
+@test
+def syntax_error_exit_1():
+    rc, out, err = run_reader("syntax_error.sv")
+    eq(rc, 1, "exit code")
+    eq(out, "", "no JSON on stdout")
+    assert re.search(r"syntax_error\.sv:2:\d+: error: ", err), err
+    assert "assign y = a &;" in err, "slang's source snippet: " + err
+
+
+@test
+def missing_file_exit_1():
+    rc, out, err = run_reader("no_such_file.sv")
+    eq(rc, 1, "exit code")
+    assert "no_such_file.sv" in err, err
+
+
+@test
+def top_selection():
+    rc, out, err = run_reader("two_tops.sv")
+    eq(rc, 2, "ambiguous top exit code")
+    assert "left_half" in err and "right_half" in err and "--top" in err, err
+    eq(out, "", "no JSON")
+    d = read("--top", "right_half", "two_tops.sv")
+    eq(d["module"]["name"], "right_half", "chosen top")
+    eq(len(d["members"]), 1, "members of the chosen module only")
+    rc, out, err = run_reader("--top", "nope", "two_tops.sv")
+    eq(rc, 2, "unknown module exit code")
+    assert "module 'nope' not found" in err, err
+    rc, out, err = run_reader("--bogus-option", "two_tops.sv")
+    eq(rc, 2, "usage error")
+
+
+@test
+def include_dirs_and_defines():
+    d = read("-I", "inc", "-D", "READY_EXPR=(st == 2'd3)", "includes.sv")
+    m = member_writing(d, "ready")
+    eq(m["kind"], "assign", "assign from an included file")
+    assert m["src"]["file"].endswith("flags.svh"), m["src"]
+    eq(text_of(m["src"]), "assign ready = `READY_EXPR;", "src in the included file")
+    eq((m["rhs"]["operator"], m["rhs"]["rhs"]["bits"]), ("==", "11"), "macro body from -D")
+    rc, out, err = run_reader("-I", "inc", "includes.sv")
+    eq(rc, 1, "undefined macro is an error")
+    assert "READY_EXPR" in err, err
+
+
+@test
+def missing_pyslang_exit_3():
+    with tempfile.TemporaryDirectory() as tmp:
+        os.mkdir(os.path.join(tmp, "pyslang"))
+        with open(os.path.join(tmp, "pyslang", "__init__.py"), "w") as f:
+            f.write("raise ImportError('pyslang hidden by test_reader.py')\n")
+        env = dict(os.environ)
+        env["PYTHONPATH"] = tmp + os.pathsep + env.get("PYTHONPATH", "")
+        rc, out, err = run_reader("byte_ranges.sv", env=env)
+    eq(rc, 3, "exit code")
+    assert "pip install -r requirements.txt" in err, err
+
+
+# ---------------------------------------------------------------------------
+# EPFL benchmarks
+
+# From SOURCE.md beside the benchmarks: inputs and outputs of each module.
+EPFL = {"ctrl.v": (7, 26), "dec.v": (8, 256), "int2float.v": (11, 7), "router.v": (60, 30),
+        "priority.v": (128, 8), "voter.v": (1001, 1)}
+
+
+@test
+def epfl_benchmarks_parse():
+    folder = os.path.normpath(os.path.join(ROOT, "..", "shared", "benchmarks", "epfl"))
+    if not os.path.isdir(folder):
+        raise Skip("EPFL benchmarks not found at %s" % folder)
+    for name, (n_in, n_out) in EPFL.items():
+        path = os.path.join(folder, name)
+        t0 = time.monotonic()
+        d = read(path, cwd=folder)
+        dt = time.monotonic() - t0
+        data = open(path, "rb").read()
+        n_assign = len(re.findall(rb"^\s*assign\b", data, re.M))
+        eq(len(d["members"]), n_assign, "%s: one member per assign" % name)
+        dirs = [p["direction"] for p in d["ports"]]
+        eq((dirs.count("input"), dirs.count("output")), (n_in, n_out), "%s: ports (SOURCE.md)" % name)
+        names = {s["name"] for s in d["signals"]}
+        for m in d["members"]:
+            eq(m["kind"], "assign", "%s: member kind" % name)
+            t = data[m["src"]["start"]:m["src"]["end"]]
+            assert t.startswith(b"assign ") and t.endswith(b";"), "%s: src %r" % (name, t)
+            for s in m["reads"] + m["writes"]:
+                assert s in names, "%s: %s is not a signal" % (name, s)
+        for s in d["signals"]:
+            assert "\\" not in s["name"] and not s["name"].endswith(" "), s["name"]
+            dc = s["decl"]
+            t = data[dc["start"]:dc["end"]].decode()
+            assert t in (s["name"], "\\" + s["name"]), "%s: declarator %r of %s" % (name, t, s["name"])
+        print("  %s: %d assigns, %d signals, read in %.2f s" % (name, n_assign, len(names), dt))
+
+
+# ---------------------------------------------------------------------------
+# semantics against Icarus Verilog
+
+def _mask(w):
+    return (1 << w) - 1
+
+
+def _ext(v, wf, wt, signed):
+    v &= _mask(wf)
+    if wt <= wf:
+        return v & _mask(wt)
+    if signed and wf > 0 and (v >> (wf - 1)) & 1:
+        v |= _mask(wt) ^ _mask(wf)
+    return v
+
+
+def _sval(v, w):
+    return v - (1 << w) if w and (v >> (w - 1)) & 1 else v
+
+
+def _dim(index, msb, lsb):
+    return index - lsb if msb >= lsb else lsb - index
+
+
+def ev(n, env):
+    """Value (an unsigned integer of n's width) of an expression of the description,
+    by the meanings docs/reader-format.md gives the nodes."""
+    op, w = n["op"], n["width"]
+    if op == "const":
+        return int(n["bits"].replace("x", "0").replace("z", "0"), 2)
+    if op == "ref":
+        return env[n["name"]] & _mask(w)
+    if op == "convert":
+        o = n["operand"]
+        return _ext(ev(o, env), o["width"], w, o["signed"])
+    if op == "unary":
+        o = n["operand"]
+        a = ev(o, env)
+        f = n["operator"]
+        if f in ("~", "-", "+"):
+            a = _ext(a, o["width"], w, o["signed"])
+            return {"~": ~a, "-": -a, "+": a}[f] & _mask(w)
+        ow = o["width"]
+        r = {"&": a == _mask(ow), "|": a != 0, "^": bin(a).count("1") % 2 == 1,
+             "~&": a != _mask(ow), "~|": a == 0, "~^": bin(a).count("1") % 2 == 0, "!": a == 0}[f]
+        return int(r)
+    if op == "binary":
+        f = n["operator"]
+        lo, ro = n["lhs"], n["rhs"]
+        a, b = ev(lo, env), ev(ro, env)
+        if f in ("&", "|", "^", "~^", "+", "-", "*"):
+            a, b = _ext(a, lo["width"], w, lo["signed"]), _ext(b, ro["width"], w, ro["signed"])
+            r = {"&": a & b, "|": a | b, "^": a ^ b, "~^": ~(a ^ b), "+": a + b, "-": a - b, "*": a * b}[f]
+            return r & _mask(w)
+        if f in ("&&", "||", "->", "<->"):
+            x, y = a != 0, b != 0
+            return int({"&&": x and y, "||": x or y, "->": (not x) or y, "<->": x == y}[f])
+        if f in ("==", "!=", "<", "<=", ">", ">=", "==?", "!=?"):
+            m = max(lo["width"], ro["width"])
+            both = lo["signed"] and ro["signed"]
+            a, b = _ext(a, lo["width"], m, both), _ext(b, ro["width"], m, both)
+            if both:
+                a, b = _sval(a, m), _sval(b, m)
+            r = {"==": a == b, "!=": a != b, "<": a < b, "<=": a <= b, ">": a > b, ">=": a >= b,
+                 "==?": a == b, "!=?": a != b}[f]
+            return int(r)
+        if f in ("<<", "<<<", ">>", ">>>"):
+            a = _ext(a, lo["width"], w, lo["signed"])
+            if f in ("<<", "<<<"):
+                return (a << b) & _mask(w)
+            if f == ">>>" and lo["signed"]:
+                return (_sval(a, w) >> b) & _mask(w)
+            return a >> b
+        raise AssertionError("operator %s not modelled" % f)
+    if op == "cond":
+        t, e = n["then"], n["else"]
+        br = t if ev(n["cond"], env) != 0 else e
+        return _ext(ev(br, env), br["width"], w, br["signed"])
+    if op == "concat":
+        v = 0
+        for p in n["parts"]:
+            v = (v << p["width"]) | ev(p, env)
+        return v & _mask(w)
+    if op == "replicate":
+        p = n["part"]
+        v = 0
+        for _ in range(n["count"]):
+            v = (v << p["width"]) | ev(p, env)
+        return v & _mask(w)
+    if op == "index":
+        i = n["index"]
+        k = ev(i, env)
+        k = _sval(k, i["width"]) if i["signed"] else k
+        return (ev(n["value"], env) >> (_dim(k, n["msb"], n["lsb"]) * w)) & _mask(w)
+    if op == "range":
+        a, b = _dim(n["left"], n["msb"], n["lsb"]), _dim(n["right"], n["msb"], n["lsb"])
+        ew = w // (abs(a - b) + 1)
+        return (ev(n["value"], env) >> (min(a, b) * ew)) & _mask(w)
+    if op == "indexed":
+        bn = n["base"]
+        base = ev(bn, env)
+        base = _sval(base, bn["width"]) if bn["signed"] else base
+        last = base + w - 1 if n["dir"] == "+" else base - w + 1
+        lo = min(_dim(base, n["msb"], n["lsb"]), _dim(last, n["msb"], n["lsb"]))
+        return (ev(n["value"], env) >> lo) & _mask(w)
+    raise AssertionError("node %s not modelled" % op)
+
+
+def store(lv, v, env, widths):
+    op = lv["op"]
+    v &= _mask(lv["width"])
+    if op == "ref":
+        env[lv["name"]] = v
+        return
+    if op == "concat":
+        for p in reversed(lv["parts"]):
+            store(p, v, env, widths)
+            v >>= p["width"]
+        return
+    parent = lv["value"]
+    assert parent["op"] == "ref", "nested target"
+    name, w = parent["name"], lv["width"]
+    if op == "index":
+        i = lv["index"]
+        k = ev(i, env)
+        k = _sval(k, i["width"]) if i["signed"] else k
+        lo = _dim(k, lv["msb"], lv["lsb"]) * w
+    elif op == "range":
+        a, b = _dim(lv["left"], lv["msb"], lv["lsb"]), _dim(lv["right"], lv["msb"], lv["lsb"])
+        lo = min(a, b) * (w // (abs(a - b) + 1))
+    else:
+        raise AssertionError("target %s not modelled" % op)
+    cur = env.get(name, 0)
+    cur &= ~(_mask(w) << lo)
+    env[name] = (cur | (v << lo)) & _mask(widths[name])
+
+
+def run_stmt(s, env, widths):
+    k = s["stmt"]
+    if k == "block":
+        for x in s["items"]:
+            run_stmt(x, env, widths)
+    elif k == "assign":
+        r, l = s["rhs"], s["lhs"]
+        store(l, _ext(ev(r, env), r["width"], l["width"], r["signed"]), env, widths)
+    elif k == "if":
+        if ev(s["cond"], env) != 0:
+            run_stmt(s["then"], env, widths)
+        elif s["else"] is not None:
+            run_stmt(s["else"], env, widths)
+    elif k == "case":
+        sel = ev(s["expr"], env)
+        sw = s["expr"]["width"]
+        for it in s["items"]:
+            for x in it["exprs"]:
+                if x["op"] == "const":
+                    bits = x["bits"]
+                    ok = True
+                    for i, ch in enumerate(reversed(bits)):
+                        wild = (ch == "z" and s["kind"] != "case") or (ch == "x" and s["kind"] in ("casex", "inside"))
+                        if not wild and (ch not in "01" or int(ch) != (sel >> i) & 1):
+                            ok = False
+                            break
+                else:
+                    ok = ev(x, env) == sel & _mask(sw)
+                if ok:
+                    run_stmt(it["body"], env, widths)
+                    return
+        if s["default"] is not None:
+            run_stmt(s["default"], env, widths)
+    elif k == "for":
+        for init in s["init"]:
+            v = init["value"]
+            env[init["name"]] = _ext(ev(v, env), v["width"], widths[init["name"]], v["signed"])
+        for _ in range(10000):
+            if ev(s["cond"], env) == 0:
+                break
+            run_stmt(s["body"], env, widths)
+            for st in s["step"]:
+                run_stmt(st, env, widths)
+    elif k != "empty":
+        raise AssertionError("statement %s not modelled" % k)
+
+
+def evaluate(desc, inputs):
+    env = dict(inputs)
+    widths = {s["name"]: s["width"] for s in desc["signals"]}
+    for m in desc["members"]:
+        if m["kind"] == "assign":
+            r, l = m["rhs"], m["lhs"]
+            store(l, _ext(ev(r, env), r["width"], l["width"], r["signed"]), env, widths)
+        elif m["kind"] == "comb":
+            local = dict(env)
+            lw = dict(widths)
+            for loc in m["locals"]:
+                lw[loc["name"]] = loc["width"]
+                local[loc["name"]] = 0
+            run_stmt(m["body"], local, lw)
+            for w in m["writes"]:
+                env[w] = local[w]
+        else:
+            raise AssertionError("kept member in the semantics module: %s" % m["reason"])
+    return env
+
+
+@test
+def semantics_match_icarus():
+    iverilog, vvp = shutil.which("iverilog"), shutil.which("vvp")
+    if not iverilog or not vvp:
+        raise Skip("Icarus Verilog (iverilog, vvp) not installed")
+    d = read("semantics.sv")
+    ins = [p for p in d["ports"] if p["direction"] == "input"]
+    outs = [p for p in d["ports"] if p["direction"] == "output"]
+    rng = random.Random(1800)
+    vectors = []
+    corners = [0, 1, 0x7F, 0x80, 0xFF]
+    for i in range(300):
+        vec = {}
+        for p in ins:
+            if i < 25:
+                vec[p["name"]] = corners[(i + len(vec)) % len(corners)] & _mask(p["width"])
+            else:
+                vec[p["name"]] = rng.getrandbits(p["width"])
+        vectors.append(vec)
+    lines = ["module tb;"]
+    for p in d["ports"]:
+        lines.append("  logic %s[%d:0] %s;" % ("signed " if p["signed"] else "", p["width"] - 1, p["name"]))
+    lines.append("  semantics dut(%s);" % ", ".join(".%s(%s)" % (p["name"], p["name"]) for p in d["ports"]))
+    lines.append("  initial begin")
+    for vec in vectors:
+        lines.append("    " + " ".join("%s = %d'h%x;" % (n, next(p["width"] for p in ins if p["name"] == n), v)
+                                      for n, v in vec.items()))
+        lines.append('    #1 $display("%s", %s);' % (" ".join(["%h"] * len(outs)), ", ".join(p["name"] for p in outs)))
+    lines.append("  end")
+    lines.append("endmodule")
+    with tempfile.TemporaryDirectory() as tmp:
+        tb = os.path.join(tmp, "tb.sv")
+        with open(tb, "w") as f:
+            f.write("\n".join(lines) + "\n")
+        exe = os.path.join(tmp, "sim.vvp")
+        p = subprocess.run([iverilog, "-g2012", "-o", exe, tb, os.path.join(INPUTS, "semantics.sv")],
+                           stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+        assert p.returncode == 0, "iverilog failed:\n" + p.stderr.decode()
+        p = subprocess.run([vvp, "-n", exe], stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+        assert p.returncode == 0, "vvp failed:\n" + p.stderr.decode()
+    sim = [l.split() for l in p.stdout.decode().splitlines() if l.strip() and not l.startswith("VCD")]
+    eq(len(sim), len(vectors), "simulated vectors")
+    mismatches = []
+    for vec, row in zip(vectors, sim):
+        env = evaluate(d, vec)
+        for port, hx in zip(outs, row):
+            want = int(hx, 16) if re.fullmatch(r"[0-9a-fA-F]+", hx) else None
+            got = env[port["name"]] & _mask(port["width"])
+            if want != got:
+                mismatches.append("%s with %s: Icarus %s, description %x" % (port["name"], vec, hx, got))
+    assert not mismatches, "%d mismatches, first: %s" % (len(mismatches), "; ".join(mismatches[:5]))
+    print("  %d vectors x %d outputs agree with Icarus" % (len(vectors), len(outs)))
+
+
+# ---------------------------------------------------------------------------
+
+def main():
+    global ROOT, INPUTS, READER
+    ap = argparse.ArgumentParser()
+    ap.add_argument("--kerf", help="ignored: these tests run the reader directly")
+    ap.add_argument("--root", default=os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", ".."))
+    ap.add_argument("-k", dest="only", help="run only tests whose name contains this")
+    args = ap.parse_args()
+    ROOT = os.path.abspath(args.root)
+    INPUTS = os.path.join(ROOT, "tests", "e2e", "reader_inputs")
+    READER = os.path.join(ROOT, "src", "reader", "kerf_read.py")
+    passed = failed = skipped = 0
+    for fn in TESTS:
+        if args.only and args.only not in fn.__name__:
+            continue
+        try:
+            fn()
+        except Skip as s:
+            skipped += 1
+            print("SKIP %s: %s" % (fn.__name__, s))
+        except AssertionError as e:
+            failed += 1
+            print("FAIL %s: %s" % (fn.__name__, e))
+        except Exception:
+            failed += 1
+            print("FAIL %s: unexpected error\n%s" % (fn.__name__, traceback.format_exc()))
+        else:
+            passed += 1
+            print("ok   %s" % fn.__name__)
+        sys.stdout.flush()
+    print("%d passed, %d failed%s" % (passed, failed, ", %d skipped" % skipped if skipped else ""))
+    return 0 if failed == 0 else 1
+
+
+if __name__ == "__main__":
+    sys.exit(main())
