@@ -65,7 +65,10 @@ int main(int argc, char** argv) {
     kerf::flow::EquivOptions eq;
     std::vector<std::string> eqFiles;
     auto* ev = app.add_subcommand("equiv", "prove two versions of a module equivalent, or show a difference");
+    std::vector<std::string> eqCommon;
     ev->add_option("files", eqFiles, "the two files: A B")->required()->expected(2);
+    ev->add_option("--common", eqCommon, "source read with both A and B, before them (packages, shared definitions)")
+        ->take_all();
     addReadOptions(ev, eq.a, false);
     ev->add_flag("--json", eq.json, "print JSON");
     ev->add_option("--proof-budget", eq.proofBudget, "SAT conflicts the proof may spend before giving up");
@@ -108,8 +111,10 @@ int main(int argc, char** argv) {
         }
         if (*ev) {
             eq.b = eq.a;
-            eq.a.files = {eqFiles[0]};
-            eq.b.files = {eqFiles[1]};
+            eq.a.files = eqCommon;
+            eq.a.files.push_back(eqFiles[0]);
+            eq.b.files = eqCommon;
+            eq.b.files.push_back(eqFiles[1]);
             return kerf::flow::equiv(eq);
         }
     } catch (const kerf::Error& e) {

@@ -12,6 +12,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cctype>
 #include <cstdio>
 #include <fstream>
 #include <map>
@@ -84,6 +85,71 @@ std::string indentOf(const std::string& src, std::size_t pos) {
     std::size_t i = ls;
     while (i < src.size() && (src[i] == ' ' || src[i] == '\t')) ++i;
     return src.substr(ls, i - ls);
+}
+
+/// De Morgan: the complement of a factored form with the same literal count.
+algebra::Factored complementForm(const algebra::Factored& f) {
+    using K = algebra::Factored::Kind;
+    algebra::Factored r;
+    switch (f.kind) {
+    case K::Zero: r.kind = K::One; break;
+    case K::One: r.kind = K::Zero; break;
+    case K::Lit: r.kind = K::Lit; r.lit = algebra::negateLiteral(f.lit); break;
+    case K::And:
+    case K::Or:
+        r.kind = f.kind == K::And ? K::Or : K::And;
+        for (const auto& k : f.kids) r.kids.push_back(complementForm(k));
+        break;
+    }
+    return r;
+}
+
+/// Whole-line deletions separated only by blank space merge into one, and a
+/// deletion between two blank lines takes one of them along.
+std::vector<Edit> tidyDeletions(const std::string& src, std::vector<Edit> edits, const std::string& ind) {
+    std::sort(edits.begin(), edits.end(), [](const Edit& a, const Edit& b) {
+        return a.start != b.start ? a.start < b.start : a.end > b.end;
+    });
+    auto lineStart = [&](std::size_t p) { return p == 0 || src[p - 1] == '\n'; };
+    auto wsOnly = [&](std::size_t a, std::size_t b) {
+        for (std::size_t i = a; i < b; ++i)
+            if (!std::isspace(static_cast<unsigned char>(src[i]))) return false;
+        return true;
+    };
+    std::vector<Edit> out;
+    for (Edit e : edits) {
+        if (!out.empty() && e.start >= out.back().start && e.end <= out.back().end && e.text.empty())
+            continue;   // inside a deletion already made
+        if (!out.empty()) {
+            Edit& prev = out.back();
+            bool prevWholeLines = prev.text.empty() && lineStart(prev.start) && lineStart(prev.end);
+            if (e.start >= prev.end && prevWholeLines && wsOnly(prev.end, e.start)) {
+                if (e.text.empty()) {
+                    prev.end = std::max(prev.end, e.end);
+                    continue;
+                }
+                // A replacement right after deleted lines takes their place (with the indentation).
+                std::size_t ls = e.start;
+                while (ls > 0 && src[ls - 1] != '\n') --ls;
+                if (wsOnly(ls, e.start)) {
+                    prev.end = e.end;
+                    prev.text = ind + e.text;
+                    continue;
+                }
+            }
+        }
+        out.push_back(std::move(e));
+    }
+    for (Edit& e : out) {
+        if (!e.text.empty() || !lineStart(e.start) || !lineStart(e.end) || e.start == 0) continue;
+        std::size_t prevLine = src.rfind('\n', e.start - 1 == 0 ? 0 : e.start - 2);
+        prevLine = prevLine == std::string::npos ? 0 : prevLine + 1;
+        bool blankBefore = wsOnly(prevLine, e.start);
+        std::size_t nextEnd = src.find('\n', e.end);
+        if (nextEnd == std::string::npos) continue;
+        if (blankBefore && wsOnly(e.end, nextEnd)) e.end = nextEnd + 1;
+    }
+    return out;
 }
 
 std::string bitText(const frontend::ModuleDesc& m, const BitRef& b) {
@@ -160,10 +226,12 @@ WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& 
         NodeId v = literalVar(l);
         if (v == 0) return literalNegated(l) ? "1'b1" : "1'b0";
         if (!names[v].empty()) return (literalNegated(l) ? "~" : "") + names[v];
-        std::string body = factored(v);
-        if (!literalNegated(l)) return body;
-        bool simple = body.find_first_of(" &|") == std::string::npos;
-        return simple ? "~" + body : "~(" + body + ")";
+        if (!literalNegated(l)) return factored(v);
+        // A complemented node inlined into an output: push the inverter to the literals.
+        algebra::Factored f = opts.forms && v < opts.forms->size()
+                                  ? (*opts.forms)[v]
+                                  : algebra::factor(network.node(v).cover, algebra::FactorMethod::Best);
+        return algebra::toString(complementForm(f), names);
     };
 
     // ---- the generated block
@@ -317,9 +385,7 @@ WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& 
             i = j;
         }
     }
-    std::sort(edits.begin(), edits.end(), [](const Edit& a, const Edit& b) {
-        return a.start != b.start ? a.start < b.start : a.end > b.end;
-    });
+    edits = tidyDeletions(src, std::move(edits), ind);
     std::string text;
     std::size_t pos = 0;
     for (const Edit& e : edits) {

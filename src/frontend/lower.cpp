@@ -147,6 +147,50 @@ Bits extend(Bits b, int width, bool sign) {
     return b;
 }
 
+bool refersOnlyTo(const json& e, const std::set<std::string>& locals) {
+    if (e.is_array()) {
+        for (const auto& x : e)
+            if (!refersOnlyTo(x, locals)) return false;
+        return true;
+    }
+    if (!e.is_object()) return true;
+    if (e.value("op", "") == "ref") return locals.count(e["name"].get<std::string>()) > 0;
+    for (const auto& [k, v] : e.items())
+        if (v.is_structured() && !refersOnlyTo(v, locals)) return false;
+    return true;
+}
+
+/// Left-hand sides the lowering cannot write: a part select whose base
+/// depends on a signal, and selects nested under a variable select.
+std::string lvalueReason(const json& lv, const std::set<std::string>& locals) {
+    std::string op = lv.value("op", "");
+    if (op == "concat") {
+        for (const auto& p : lv["parts"])
+            if (auto r = lvalueReason(p, locals); !r.empty()) return r;
+        return {};
+    }
+    if (op == "index" || op == "range" || op == "indexed") {
+        if (lv["value"].value("op", "") != "ref") return "a nested select on the left-hand side is left as written";
+        if (op == "indexed" && !refersOnlyTo(lv["base"], locals))
+            return "a part select with a variable base on the left-hand side is left as written";
+    }
+    return {};
+}
+
+std::string statementLvalueReason(const json& s, const std::set<std::string>& locals) {
+    if (s.is_array()) {
+        for (const auto& x : s)
+            if (auto r = statementLvalueReason(x, locals); !r.empty()) return r;
+        return {};
+    }
+    if (!s.is_object()) return {};
+    if (s.value("stmt", "") == "assign") return lvalueReason(s["lhs"], locals);
+    for (const auto& [k, v] : s.items())
+        if (v.is_structured() && k != "lhs" && k != "rhs" && k != "cond" && k != "expr")
+            if (auto r = statementLvalueReason(v, locals); !r.empty()) return r;
+    return {};
+}
+
 /// Unsupported constructs make a member "kept": kerf leaves it as written.
 std::string unsupportedReason(const json& j) {
     if (j.is_array()) {
@@ -207,6 +251,7 @@ private:
     // -- expressions
     Bits eval(const json& e);
     Bits evalRef(const std::string& name, int width);
+    Bits evalAt(const json& value, const std::vector<int>& offs);
     Bits evalUnary(const json& e, int w);
     Bits evalBinary(const json& e, int w);
     Bits wordOp(const json& e, int w, const std::string& op, bool unary);
@@ -302,6 +347,20 @@ Literal Lowerer::signalBit(const std::string& name, int off) {
                  members_[d]->src.loc(), ExitCode::Internal);
     }
     return vit->second[off];
+}
+
+Bits Lowerer::evalAt(const json& value, const std::vector<int>& offs) {
+    Bits r;
+    if (value.value("op", "") == "ref") {
+        std::string name = value["name"].get<std::string>();
+        bool local = env_ && locals_.count(name);
+        int sw = local ? static_cast<int>(env_->vars[name].size()) : signal(name, current_->src.loc()).width;
+        for (int o : offs) r.push_back(o >= 0 && o < sw ? signalBit(name, o) : kFalse);
+        return r;
+    }
+    Bits v = eval(value);
+    for (int o : offs) r.push_back(o >= 0 && o < static_cast<int>(v.size()) ? v[o] : kFalse);
+    return r;
 }
 
 Bits Lowerer::evalRef(const std::string& name, int width) {
@@ -626,38 +685,62 @@ Bits Lowerer::eval(const json& e) {
         return extend(r, w, false);
     }
     if (op == "index") {
-        Bits v = eval(e["value"]);
+        const json& value = e["value"];
         Bits idx = eval(e["index"]);
-        return selectElement(v, idx, e.value("msb", 0), e.value("lsb", 0), w);
+        int msb = e.value("msb", 0), lsb = e.value("lsb", 0);
+        if (auto k = constValue(idx)) {
+            // Read only the selected element: earlier bits of a vector may be
+            // assigned before later ones are (prefix chains in a loop).
+            int off = dimOffset(static_cast<int>(*k), msb, lsb);
+            int count = std::abs(msb - lsb) + 1;
+            std::vector<int> offs;
+            for (int i = 0; i < w; ++i) offs.push_back(off >= 0 && off < count ? off * w + i : -1);
+            return evalAt(value, offs);
+        }
+        return selectElement(eval(value), idx, msb, lsb, w);
     }
     if (op == "range") {
-        Bits v = eval(e["value"]);
         int msb = e.value("msb", 0), lsb = e.value("lsb", 0);
         int lo = dimOffset(e.value("right", 0), msb, lsb), hi = dimOffset(e.value("left", 0), msb, lsb);
         if (lo > hi) std::swap(lo, hi);
         int elems = hi - lo + 1;
         int ew = std::max(1, w / std::max(elems, 1));
-        Bits r;
-        for (int i = lo * ew; i < (hi + 1) * ew; ++i) r.push_back(i >= 0 && i < static_cast<int>(v.size()) ? v[i] : kFalse);
-        return extend(r, w, false);
+        std::vector<int> offs;
+        for (int i = lo * ew; i < (hi + 1) * ew; ++i) offs.push_back(i);
+        return extend(evalAt(e["value"], offs), w, false);
     }
     if (op == "indexed") {
-        Bits v = eval(e["value"]);
+        const json& value = e["value"];
         Bits base = eval(e["base"]);
         int msb = e.value("msb", 0), lsb = e.value("lsb", 0);
         bool up = e.value("dir", "+") == "+";
         int lo = std::min(msb, lsb), hi = std::max(msb, lsb);
+        int n = hi - lo + 1;
+        int ew = std::max(1, value.value("width", n) / n);   // element width of the selected dimension
+        int count = std::max(1, w / ew);                      // elements selected
+        auto offsetsFrom = [&](int start) {
+            int first = start, last = up ? start + count - 1 : start - count + 1;
+            std::vector<int> offs;
+            if (std::min(first, last) < lo || std::max(first, last) > hi) return offs;
+            int offLo = std::min(dimOffset(first, msb, lsb), dimOffset(last, msb, lsb));
+            for (int i = 0; i < w; ++i) offs.push_back(offLo * ew + i);
+            return offs;
+        };
+        if (auto k = constValue(base)) {
+            auto offs = offsetsFrom(static_cast<int>(*k));
+            if (offs.empty()) return Bits(static_cast<std::size_t>(w), kFalse);
+            return evalAt(value, offs);
+        }
+        Bits v = eval(value);
         std::vector<Bits> terms(static_cast<std::size_t>(w));
         for (int start = lo; start <= hi; ++start) {
-            int first = start, last = up ? start + w - 1 : start - w + 1;
-            if (std::min(first, last) < lo || std::max(first, last) > hi) continue;
+            auto offs = offsetsFrom(start);
+            if (offs.empty()) continue;
             if (start < 0 || (base.size() < 63 && (std::uint64_t(start) >> base.size()) != 0)) continue;
             Bits cv;
             for (std::size_t i = 0; i < base.size(); ++i) cv.push_back(i < 63 && ((std::uint64_t(start) >> i) & 1) ? kTrue : kFalse);
             Literal sel = equal(base, cv);
-            int a = dimOffset(first, msb, lsb), b = dimOffset(last, msb, lsb);
-            int offLo = std::min(a, b);
-            for (int i = 0; i < w; ++i) terms[i].push_back(b_.and2(sel, v[offLo + i]));
+            for (int i = 0; i < w; ++i) terms[i].push_back(b_.and2(sel, offs[i] < static_cast<int>(v.size()) ? v[offs[i]] : kFalse));
         }
         Bits r(static_cast<std::size_t>(w));
         for (int i = 0; i < w; ++i) r[i] = b_.orN(terms[i]);
@@ -817,9 +900,12 @@ void Lowerer::assignLvalue(const json& lv, const Bits& rhs0, const std::function
         }
         bool up = lv.value("dir", "+") == "+";
         if (auto k = constValue(idx)) {
-            int first = static_cast<int>(*k), last = up ? first + w - 1 : first - w + 1;
+            int n = std::abs(msb - lsb) + 1;
+            int ew = std::max(1, pw / n);
+            int count = std::max(1, w / ew);
+            int first = static_cast<int>(*k), last = up ? first + count - 1 : first - count + 1;
             int a = dimOffset(first, msb, lsb), b = dimOffset(last, msb, lsb);
-            int offLo = std::min(a, b);
+            int offLo = std::min(a, b) * ew;
             for (int i = 0; i < w; ++i)
                 if (offLo + i >= 0 && offLo + i < pw) parentSet(offLo + i, rhs[i]);
             return;
@@ -1142,7 +1228,13 @@ Lowered Lowerer::run() {
             out_.notes.push_back(fmt::format("{}: left as written: it comes from another file", mem.src.loc().str()));
             continue;
         }
-        if (auto why = unsupportedReason(mem.body); !why.empty()) {
+        std::set<std::string> localNames;
+        for (const auto& l : mem.body.value("locals", json::array())) localNames.insert(l["name"].get<std::string>());
+        std::string why = unsupportedReason(mem.body);
+        if (why.empty())
+            why = mem.kind == MemberKind::Assign ? lvalueReason(mem.body["lhs"], localNames)
+                                                 : statementLvalueReason(mem.body["body"], localNames);
+        if (!why.empty()) {
             out_.notes.push_back(fmt::format("{}: left as written: {}", mem.src.loc().str(), why));
             continue;
         }
@@ -1215,6 +1307,22 @@ Lowered Lowerer::run() {
             out_.net.addOutput(bitName(m_, {name, b}), vit->second[b]);
             out_.outputBits.push_back(BitRef{name, b});
         }
+    }
+    // Module-scope loop variables that the reader made block-local go with their blocks.
+    std::set<std::string> keptTouched = keptReads_;
+    for (std::size_t i = 0; i < members_.size(); ++i)
+        if (!restructured_[i])
+            for (const auto& n : members_[i]->writes) keptTouched.insert(n);
+    std::set<std::string> loopVars;
+    for (std::size_t i = 0; i < members_.size(); ++i)
+        if (restructured_[i] && members_[i]->kind == MemberKind::Comb)
+            for (const auto& l : members_[i]->body.value("locals", json::array()))
+                loopVars.insert(l["name"].get<std::string>());
+    for (const auto& name : loopVars) {
+        auto it = m_.signals.find(name);
+        if (it == m_.signals.end() || !it->second.decl || it->second.dir != PortDir::None) continue;
+        if (keptTouched.count(name) || value_.count(name) || inputLits_.count(name)) continue;
+        out_.dissolved.push_back(name);
     }
     return std::move(out_);
 }

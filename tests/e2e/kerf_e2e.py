@@ -66,7 +66,7 @@ def run(cmd, **kw):
 
 def read_module(root, files, top):
     """The module description from kerf's slang reader (docs/reader-format.md)."""
-    cmd = [sys.executable, os.path.join(root, "src/reader/kerf_read.py"), "--top", top] + files
+    cmd = [sys.executable, os.path.join(root, "src/reader/kerf_read.py")] + (["--top", top] if top else []) + files
     r = run(cmd)
     if r.returncode != 0:
         raise RuntimeError(f"reader failed on {files}: {r.stderr}")
