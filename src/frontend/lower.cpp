@@ -535,7 +535,31 @@ Bits Lowerer::evalBinary(const json& e, int w) {
     const json& lj = e["lhs"];
     const json& rj = e["rhs"];
     bool ls = lj.value("signed", false), rs = rj.value("signed", false);
-    if (o == "&" || o == "|" || o == "^" || o == "~^" || o == "^~") {
+    if (o == "&" || o == "|") {
+        // A chain `a | b | c ...` becomes one wide node per bit, not a ladder of
+        // two-input nodes: the depth as read is that of a balanced tree.
+        std::vector<const json*> operands;
+        std::function<void(const json&)> collect = [&](const json& x) {
+            if (x.value("op", "") == "binary" && x.value("operator", "") == o && x.value("width", 0) == w) {
+                collect(x["lhs"]);
+                collect(x["rhs"]);
+            } else {
+                operands.push_back(&x);
+            }
+        };
+        collect(lj);
+        collect(rj);
+        std::vector<Bits> vals;
+        for (const json* x : operands) vals.push_back(extend(eval(*x), w, x->value("signed", false)));
+        Bits r(static_cast<std::size_t>(w));
+        for (int i = 0; i < w; ++i) {
+            Bits in;
+            for (const auto& v : vals) in.push_back(v[i]);
+            r[i] = o == "&" ? b_.andN(in) : b_.orN(in);
+        }
+        return r;
+    }
+    if (o == "^" || o == "~^" || o == "^~") {
         Bits a = extend(eval(lj), w, ls), b = extend(eval(rj), w, rs);
         Bits r(static_cast<std::size_t>(w));
         for (int i = 0; i < w; ++i) {

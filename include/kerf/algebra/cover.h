@@ -114,10 +114,19 @@ public:
     /// Index of the cube with exactly these literals (sorted ascending), or npos.
     std::size_t find(std::span<const Literal> sortedLits) const;
     static constexpr std::size_t npos = std::numeric_limits<std::size_t>::max();
+    /// The distinct literals of f, ascending; a literal's position here is its slot.
+    const std::vector<Literal>& literals() const { return lits_; }
+    /// Slot of literal l, or npos when l does not occur in f.
+    std::size_t slotOf(Literal l) const;
+    /// Indices (ascending) of the cubes holding the literal in `slot`.
+    std::span<const std::uint32_t> cubesWithSlot(std::size_t slot) const {
+        return {occ_.data() + occStart_[slot], occ_.data() + occStart_[slot + 1]};
+    }
 
 private:
     const Cover* f_;
     std::vector<Literal> lits_;             // distinct literals of f, ascending
+    std::vector<std::uint32_t> slotByLit_;  // literal -> slot + 1 (0: absent), when literals are dense enough
     std::vector<std::uint32_t> occStart_;   // CSR offsets, one per entry of lits_ plus one
     std::vector<std::uint32_t> occ_;        // cube indices grouped by literal
     std::vector<std::uint32_t> table_;      // open addressing: cube index + 1, 0 = empty
@@ -147,6 +156,7 @@ struct KernelOptions {
     std::size_t maxKernels = 10000;   ///< stop after this many pairs
     std::size_t maxWork = 2000000;    ///< stop after this many elementary steps
     bool levelZeroOnly = false;       ///< report only level-0 kernels
+    bool computeLevels = true;        ///< false: `level` is only 0 (level 0) or 1 (higher), which is cheaper
 };
 
 /// What a kernel enumeration did.
@@ -181,7 +191,7 @@ struct Factored {
 
 enum class FactorMethod {
     Quick,    ///< divide by a level-0 kernel
-    Best,     ///< choose the divisor by literal saving
+    Best,     ///< choose the divisor by literal saving (the result is never larger than Quick's)
 };
 
 /// Factor f by repeated division. The result is algebraically derived from f
