@@ -40,8 +40,35 @@ void appendCube(std::string& out, const Cube& c, const std::vector<std::string>&
     }
 }
 
+// Is f the sum x & ~y | ~x & y (or x & y | ~x & ~y)? Such a sum prints as
+// `x ^ y` (or `~(x ^ y)`): the same two variables, and far easier to read.
+bool xorShape(const Factored& f, Literal& x, Literal& y, bool& inverted) {
+    if (f.kind != Factored::Kind::Or || f.kids.size() != 2) return false;
+    const Factored& p = f.kids[0];
+    const Factored& q = f.kids[1];
+    auto pairOf = [](const Factored& g, Literal& a, Literal& b) {
+        if (g.kind != Factored::Kind::And || g.kids.size() != 2) return false;
+        if (g.kids[0].kind != Factored::Kind::Lit || g.kids[1].kind != Factored::Kind::Lit) return false;
+        a = g.kids[0].lit;
+        b = g.kids[1].lit;
+        if (literalVar(a) > literalVar(b)) std::swap(a, b);
+        return literalVar(a) != literalVar(b);
+    };
+    Literal a1, b1, a2, b2;
+    if (!pairOf(p, a1, b1) || !pairOf(q, a2, b2)) return false;
+    if (a2 != negateLiteral(a1) || b2 != negateLiteral(b1)) return false;
+    // x ^ y with x, y the positive literals; each complemented pair flips the sense.
+    x = a1 & ~1u;
+    y = b1 & ~1u;
+    inverted = literalNegated(a1) == literalNegated(b1);
+    return true;
+}
+
 // Does this node print with a top-level `|` (so needs parentheses under `&`)?
 bool printsAsOr(const Factored& f) {
+    Literal x, y;
+    bool inv;
+    if (xorShape(f, x, y, inv)) return !inv;   // `(x ^ y)` needs them, `~(x ^ y)` has them
     if (f.kind != Factored::Kind::Or && f.kind != Factored::Kind::And) return false;
     if (f.kids.size() == 1) return printsAsOr(f.kids[0]);
     return f.kind == Factored::Kind::Or && f.kids.size() > 1;
@@ -70,6 +97,18 @@ void appendFactored(std::string& out, const Factored& f, const std::vector<std::
         if (f.kids.empty()) {
             out += '0';
             return;
+        }
+        {
+            Literal x, y;
+            bool inv = false;
+            if (xorShape(f, x, y, inv)) {
+                if (inv) out += "~(";
+                appendLiteral(out, x, names);
+                out += " ^ ";
+                appendLiteral(out, y, names);
+                if (inv) out += ')';
+                return;
+            }
         }
         for (std::size_t i = 0; i < f.kids.size(); ++i) {
             if (i) out += " | ";
