@@ -1,0 +1,62 @@
+// kerf/passes/factored.h — `final-factor`: the factored form of every node,
+// as the writer prints it, and the figures counted on those forms.
+//
+// Each node gets algebra::factor(cover, Best) unless that would push the
+// network deeper than the bound, in which case the node keeps the form with
+// the earliest arrival among {Best, Quick, the plain sum of products}. The
+// writer prints exactly these forms, so the summary and the targets count
+// exactly what is written.
+#pragma once
+
+#include "kerf/algebra/cover.h"
+#include "kerf/network/network.h"
+
+#include <memory>
+#include <vector>
+
+namespace kerf::passes {
+
+/// Caches factored forms by cover across calls (passes change few nodes).
+class FactorCache {
+public:
+    FactorCache();
+    ~FactorCache();
+    FactorCache(const FactorCache&) = delete;
+    FactorCache& operator=(const FactorCache&) = delete;
+    const algebra::Factored& best(const algebra::Cover& f);
+    const algebra::Factored& quick(const algebra::Cover& f);
+    std::size_t size() const;
+
+private:
+    struct Impl;
+    std::unique_ptr<Impl> impl_;
+};
+
+/// The factored form of every node (indexed by node id; Zero for inputs,
+/// dead nodes and the constant).
+struct FactoredNetwork {
+    std::vector<algebra::Factored> forms;
+    net::Metrics metrics;     ///< counted on `forms`: gates, literals, depth, nodes
+};
+
+/// Choose and count each node's factored form. maxDepth < 0: the depth
+/// reachable with the earliest-arriving forms (factoring never deepens the
+/// network); otherwise Best is used wherever it keeps the depth within
+/// max(maxDepth, that earliest depth).
+FactoredNetwork factorNetwork(const net::Network& net, int maxDepth = -1, FactorCache* cache = nullptr);
+
+/// Figures counted on the factored forms: a k-input AND/OR in the tree is
+/// k-1 two-input gates, inverters are free, depth balanced by arrival time.
+net::Metrics measureFactored(const net::Network& net, int maxDepth = -1, FactorCache* cache = nullptr);
+
+/// Gates and arrival of one factored form whose literals arrive at `arrival`.
+struct FormCost {
+    std::size_t gates = 0;
+    std::size_t arrival = 0;
+};
+FormCost formCost(const algebra::Factored& f, const std::vector<std::size_t>& arrival);
+
+/// A sum of products written as a factored form (OR of ANDs).
+algebra::Factored sopForm(const algebra::Cover& f);
+
+} // namespace kerf::passes

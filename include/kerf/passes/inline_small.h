@@ -1,0 +1,24 @@
+// kerf/passes/inline_small.h — the pass `inline-small`: collapse a node into
+// its fanouts when that grows the literal count by at most a threshold.
+//
+// Contract. Needs: any network. Preserves: outputs' functions and the nodes
+// that drive outputs; inputs. Gives: collapsed nodes are dead; no resulting
+// cover exceeds maxCubes cubes or maxLiterals literals. Total literal count
+// grows by at most `threshold` per collapsed node (never, for threshold ≤ 0).
+// Depth: respects ctx.depthCap.
+#pragma once
+
+#include "kerf/passes/pass.h"
+
+namespace kerf::passes {
+
+struct InlineOptions {
+    int threshold = 0;              ///< allowed literal growth per collapse (the argument)
+    std::size_t maxCubes = 48;      ///< cap on a fanout cover's cubes after collapsing
+    std::size_t maxLiterals = 256;  ///< cap on a fanout cover's literals after collapsing
+    std::size_t maxFanouts = 24;    ///< nodes with more fanouts are not collapsed
+};
+
+void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx);
+
+} // namespace kerf::passes

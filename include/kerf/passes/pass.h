@@ -1,0 +1,79 @@
+// kerf/passes/pass.h — what every restructuring pass shares: the context it
+// runs in (depth bound, verbosity, statistics) and the registry of passes
+// that recipes are built from.
+//
+// A pass is a function that rewrites a network in place. Every pass keeps
+// these invariants: outputs keep their names, order and functions; inputs are
+// untouched; nodes are only added (with empty hints) or marked dead, never
+// renumbered. Each pass states in its header what it needs and preserves.
+#pragma once
+
+#include "kerf/network/network.h"
+
+#include <cstddef>
+#include <cstdint>
+#include <functional>
+#include <limits>
+#include <string>
+#include <utility>
+#include <vector>
+
+namespace kerf::passes {
+
+/// Named counters a pass reports (kept in the order they were first touched).
+class PassStats {
+public:
+    void add(const std::string& name, long long amount = 1);
+    long long get(const std::string& name) const;
+    const std::vector<std::pair<std::string, long long>>& items() const { return items_; }
+    void clear() { items_.clear(); }
+    /// "name=value name=value ..."
+    std::string str() const;
+
+private:
+    std::vector<std::pair<std::string, long long>> items_;
+};
+
+inline constexpr std::size_t kNoDepthCap = std::numeric_limits<std::size_t>::max();
+
+/// The context a pass runs in.
+struct PassContext {
+    /// Bound on the depth of the sum-of-products network (net::arrivalTimes).
+    /// A pass never raises a node's arrival above it (a node already above it
+    /// may not get later). kNoDepthCap: unbounded.
+    std::size_t depthCap = kNoDepthCap;
+    int verbose = 0;
+    PassStats stats;
+};
+
+/// One step of a recipe: a pass name and its optional argument ("" when none).
+struct RecipeStep {
+    std::string pass;
+    std::string arg;
+    std::string str() const { return arg.empty() ? pass : pass + ":" + arg; }
+};
+
+/// A registered pass.
+struct PassInfo {
+    std::string name;
+    std::string argHelp;     ///< "" when the pass takes no argument
+    std::string summary;
+    /// Throws kerf::Error when `arg` is not valid for this pass.
+    std::function<void(const std::string& arg)> checkArg;
+    /// Runs the pass (depth-cap and final-factor are handled by the engine).
+    std::function<void(net::Network&, const std::string& arg, PassContext&)> run;
+};
+
+/// All passes recipes may name, in documentation order.
+const std::vector<PassInfo>& passRegistry();
+const PassInfo* findPass(const std::string& name);
+
+/// Parse "pass,pass:arg,..." (spaces around items allowed). Throws
+/// kerf::Error (InputError) naming the bad item and listing the valid passes.
+std::vector<RecipeStep> parseRecipe(const std::string& recipe);
+
+/// The built-in recipe for an effort level (fast, default, thorough). Throws
+/// kerf::Error for another name.
+std::string builtinRecipe(const std::string& effort);
+
+} // namespace kerf::passes

@@ -1,0 +1,23 @@
+// kerf/passes/reuse_nodes.h — the pass `reuse-nodes`: algebraic
+// resubstitution. Each node is divided by the covers of existing nodes (and
+// by their complements, used through the complemented literal); divisions
+// that save literals are kept.
+//
+// Contract. Needs: any network. Preserves: every node's function, outputs,
+// inputs; adds no node. Gives: each substitution strictly lowers the literal
+// count. Depth: respects ctx.depthCap.
+#pragma once
+
+#include "kerf/passes/pass.h"
+
+namespace kerf::passes {
+
+struct ReuseOptions {
+    bool complements = true;           ///< argument "plain" turns complement divisors off
+    std::size_t maxCandidates = 200;   ///< divisor nodes tried per node
+    std::size_t complementCubeCap = 16;
+};
+
+void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx);
+
+} // namespace kerf::passes

@@ -1,0 +1,23 @@
+// kerf/passes/share_cubes.h — the pass `share-cubes`: extract cubes common to
+// several cubes of the network (in one node or several) as new nodes.
+//
+// Contract. Needs: any network. Preserves: every node's function, outputs,
+// inputs. Gives: each extraction saves literals (the network's literal count
+// strictly decreases with each). Depth: respects ctx.depthCap.
+#pragma once
+
+#include "kerf/passes/pass.h"
+
+namespace kerf::passes {
+
+struct ShareCubesOptions {
+    std::size_t minLiterals = 2;      ///< smallest cube extracted
+    std::size_t partnersPerCube = 64; ///< candidate cube pairs looked at per cube
+    int rounds = 4;
+    std::size_t maxCandidates = 20000;   ///< candidates valued per round (most promising first)
+    long workBudget = 40000000;          ///< cubes looked at over the pass; past it the pass stops early
+};
+
+void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx);
+
+} // namespace kerf::passes

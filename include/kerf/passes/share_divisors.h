@@ -1,0 +1,28 @@
+// kerf/passes/share_divisors.h — the pass `share-divisors`: extract
+// multi-cube divisors shared by nodes (or repeated inside one), by literal
+// saving. Two methods: two-cube divisors together with two-literal cubes
+// (fast, incremental; argument "pairs", the default) and kernels common to
+// several nodes (argument "kernels"); "both" runs kernels then pairs.
+//
+// Contract. Needs: any network. Preserves: every node's function, outputs,
+// inputs. Gives: each extraction saves literals. An existing node whose cover
+// equals the divisor is reused instead of adding one. Depth: respects
+// ctx.depthCap.
+#pragma once
+
+#include "kerf/passes/pass.h"
+
+namespace kerf::passes {
+
+struct ShareDivisorsOptions {
+    enum class Method { Pairs, Kernels, Both };
+    Method method = Method::Pairs;
+    std::size_t maxCubesForPairs = 64;    ///< nodes with more cubes give no divisors here (see share-cubes)
+    std::size_t maxCubeForLiteralPairs = 24; ///< cubes with more literals give no two-literal divisors
+    std::size_t maxKernelsPerNode = 200;
+    std::size_t maxExtractions = 1000000;
+};
+
+void shareDivisors(net::Network& net, const ShareDivisorsOptions& opts, PassContext& ctx);
+
+} // namespace kerf::passes

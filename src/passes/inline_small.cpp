@@ -1,0 +1,152 @@
+// inline_small.cpp — the pass `inline-small`: collapse small nodes into
+// their fanouts.
+//
+// Background. Eliminating a node (substituting its function into every
+// fanout) undoes premature structure, e.g. the two-input gates of an
+// and-inverter netlist, so that the algebraic passes see sums of products
+// large enough to share divisors. A node's value is the literal count after
+// minus before (its own literals plus its fanouts'); nodes are eliminated
+// cheapest first while the value stays within a threshold, as in the
+// "eliminate" step of R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli,
+// A. Wang, "MIS: A multiple-level logic optimization system", IEEE TCAD 1987
+// (from memory). Caps on the cubes and literals of the resulting covers keep
+// flattening from exploding (a product of sums multiplies out).
+//
+// Where a fanout reads the node complemented, the node's complement (two-level
+// minimised, see twolevel.cpp) is substituted there.
+#include "kerf/passes/inline_small.h"
+
+#include "kerf/passes/twolevel.h"
+#include "workspace.h"
+
+#include <algorithm>
+#include <queue>
+#include <unordered_map>
+
+namespace kerf::passes {
+
+using algebra::Cover;
+using algebra::Cube;
+using algebra::literalVar;
+
+namespace {
+
+struct Evaluation {
+    bool ok = false;
+    long value = 0;
+    std::vector<Cover> covers;   // new cover per fanout, in ws.fanouts(v) order
+};
+
+// Complements of node covers, computed once per cover (irredundant primes,
+// no exact search: this runs for every evaluation).
+class ComplementCache {
+public:
+    const Cover* get(const Cover& g, std::size_t cap) {
+        std::string key = detail::coverKey(g);
+        auto it = cache_.find(key);
+        if (it == cache_.end()) {
+            Entry e;
+            if (g.cubes.size() == 1) {   // De Morgan
+                for (auto l : g.cubes[0].lits) e.cover.cubes.push_back(Cube({algebra::negateLiteral(l)}));
+                e.cover.normalize();
+                e.ok = true;
+            } else {
+                MinimizeOptions mo;
+                mo.exactVars = 0;
+                e.ok = complementCover(g, e.cover, 4096, mo);
+            }
+            it = cache_.emplace(std::move(key), std::move(e)).first;
+        }
+        return it->second.ok && it->second.cover.cubes.size() <= cap ? &it->second.cover : nullptr;
+    }
+
+private:
+    struct Entry { bool ok = false; Cover cover; };
+    std::unordered_map<std::string, Entry> cache_;
+};
+
+Evaluation evaluate(detail::Workspace& ws, net::NodeId v, const InlineOptions& opts, ComplementCache& cc) {
+    Evaluation e;
+    if (!ws.live(v) || ws.outputRefs(v) > 0) return e;
+    const auto& fo = ws.fanouts(v);
+    if (fo.empty() || fo.size() > opts.maxFanouts) return e;
+    const Cover& g = ws.cover(v);
+    bool needComp = false;
+    for (net::NodeId f : fo) {
+        if (ws.cover(f).cubes.size() > opts.maxCubes || detail::lits(ws.cover(f)) > opts.maxLiterals) return e;
+        needComp |= detail::usesNegated(ws.cover(f), v);
+    }
+    const Cover* comp = nullptr;
+    if (needComp && !(comp = cc.get(g, opts.maxCubes))) return e;
+    long before = static_cast<long>(detail::lits(g)), after = 0;
+    for (net::NodeId f : fo) {
+        Cover nf = detail::collapseInto(ws.cover(f), v, g, comp);
+        if (nf.cubes.size() > opts.maxCubes || detail::lits(nf) > opts.maxLiterals) return e;
+        before += static_cast<long>(detail::lits(ws.cover(f)));
+        after += static_cast<long>(detail::lits(nf));
+        e.covers.push_back(std::move(nf));
+    }
+    e.ok = true;
+    e.value = after - before;
+    return e;
+}
+
+} // namespace
+
+void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx) {
+    detail::Workspace ws(net, ctx.depthCap);
+    ComplementCache cc;
+    using Item = std::pair<long, net::NodeId>;
+    std::priority_queue<Item, std::vector<Item>, std::greater<>> heap;
+    for (net::NodeId v : net.topoOrder()) {
+        Evaluation e = evaluate(ws, v, opts, cc);
+        if (e.ok && e.value <= opts.threshold) heap.push({e.value, v});
+    }
+    long collapsed = 0, rejected = 0, growth = 0, evaluations = 0;
+    std::vector<std::uint8_t> blocked(net.nodeCount(), 0);
+    while (!heap.empty()) {
+        auto [value, v] = heap.top();
+        heap.pop();
+        if (v < blocked.size() && blocked[v]) continue;
+        Evaluation e = evaluate(ws, v, opts, cc);
+        ++evaluations;
+        if (!e.ok || e.value > opts.threshold) continue;
+        if (e.value > value) {   // stale entry: requeue at its real value
+            heap.push({e.value, v});
+            continue;
+        }
+        std::vector<net::NodeId> fo = ws.fanouts(v);
+        ws.begin();
+        for (std::size_t i = 0; i < fo.size(); ++i) ws.setCover(fo[i], std::move(e.covers[i]));
+        ws.kill(v);
+        if (!ws.commit()) {
+            ++rejected;
+            if (v >= blocked.size()) blocked.resize(net.nodeCount(), 0);
+            blocked[v] = 1;
+            continue;
+        }
+        ++collapsed;
+        growth += e.value;
+        // Re-evaluate the fanouts and every fanin of theirs (their fanouts changed).
+        std::vector<net::NodeId> touch;
+        for (net::NodeId f : fo) {
+            touch.push_back(f);
+            for (const Cube& c : ws.cover(f).cubes)
+                for (auto l : c.lits) touch.push_back(literalVar(l));
+        }
+        std::sort(touch.begin(), touch.end());
+        touch.erase(std::unique(touch.begin(), touch.end()), touch.end());
+        for (net::NodeId u : touch) {
+            if (!ws.live(u) || (u < blocked.size() && blocked[u])) continue;
+            Evaluation eu = evaluate(ws, u, opts, cc);
+            ++evaluations;
+            if (eu.ok && eu.value <= opts.threshold) heap.push({eu.value, u});
+        }
+    }
+    ctx.stats.add("collapsed", collapsed);
+    ctx.stats.add("literal-growth", growth);
+    ctx.stats.add("depth-rejects", rejected);
+    ctx.stats.add("evaluations", evaluations);
+}
+
+} // namespace kerf::passes

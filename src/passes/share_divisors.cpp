@@ -1,0 +1,319 @@
+// share_divisors.cpp — the pass `share-divisors`: extract divisors shared by
+// several nodes (or repeated inside one) as new nodes.
+//
+// Background. Multi-level algebraic synthesis treats covers as polynomials
+// and looks for common divisors: kernels (cube-free quotients by a cube)
+// were introduced by R. K. Brayton and C. T. McMullen, "The decomposition
+// and factorization of Boolean expressions", ISCAS 1982, and made the core
+// of MIS (R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang,
+// "MIS: A multiple-level logic optimization system", IEEE TCAD 1987) — both
+// from memory. Restricting the divisors to two-cube sums (each pair of cubes
+// of a node, with their common part removed) and two-literal cubes gives a
+// candidate set that is found in one sweep and can be updated incrementally
+// after every extraction: J. Rajski and J. Vasudevamurthy, "The
+// testability-preserving concurrent decomposition and factorization of
+// Boolean expressions", IEEE TCAD 1992 (from memory).
+//
+// Method "pairs" (default): every node contributes, for each pair of its
+// cubes ci = b·di, cj = b·dj (b their common cube), the divisor di + dj
+// with saving |di|+|dj|+|b|−1, and for every pair of literals in a cube the
+// single-cube divisor {a,b} with saving 1. A divisor's weight is its total
+// saving minus its own literals (nothing when an existing node already
+// computes it). The heaviest is extracted, the changed nodes' contributions
+// are recomputed, and the loop goes on while some weight is positive.
+// Method "kernels": every node's kernels are enumerated (algebra::kernels);
+// a kernel is valued by actually dividing every node it was found in; the
+// best is extracted, and the round repeats.
+#include "kerf/passes/share_divisors.h"
+
+#include "workspace.h"
+
+#include <algorithm>
+#include <queue>
+#include <unordered_map>
+
+namespace kerf::passes {
+
+using algebra::Cover;
+using algebra::Cube;
+using algebra::Literal;
+using algebra::literalVar;
+using algebra::makeLiteral;
+
+namespace {
+
+using detail::Workspace;
+
+// ---- two-cube and two-literal divisors -------------------------------------
+
+struct Divisor {
+    Cover d;
+    long saving = 0;
+    std::vector<net::NodeId> nodes;      // one entry per occurrence
+    std::vector<net::NodeId> providers;  // nodes whose cover is d
+    std::uint32_t version = 0;
+    bool blocked = false;
+};
+
+struct Contribution {
+    std::vector<std::pair<int, long>> items;   // divisor, saving
+    int provides = -1;
+};
+
+class PairTable {
+public:
+    PairTable(Workspace& ws, const ShareDivisorsOptions& opts) : ws_(ws), opts_(opts) {}
+
+    long weight(int id) const {
+        const Divisor& dv = divs_[static_cast<std::size_t>(id)];
+        // Counted in two-input gates: a new node of L literals costs L-1 gates.
+        long cost = liveProvider(id) ? 0 : static_cast<long>(detail::lits(dv.d)) - 1;
+        return dv.saving - cost;
+    }
+
+    net::NodeId liveProvider(int id) const {
+        for (net::NodeId p : divs_[static_cast<std::size_t>(id)].providers)
+            if (ws_.live(p) && ws_.cover(p) == divs_[static_cast<std::size_t>(id)].d) return p;
+        return 0;
+    }
+
+    void remove(net::NodeId f) {
+        if (f >= contrib_.size()) return;
+        Contribution& c = contrib_[f];
+        for (auto [id, s] : c.items) {
+            Divisor& dv = divs_[static_cast<std::size_t>(id)];
+            dv.saving -= s;
+            auto it = std::find(dv.nodes.begin(), dv.nodes.end(), f);
+            if (it != dv.nodes.end()) { *it = dv.nodes.back(); dv.nodes.pop_back(); }
+            touched_.push_back(id);
+        }
+        if (c.provides >= 0) {
+            auto& pv = divs_[static_cast<std::size_t>(c.provides)].providers;
+            pv.erase(std::remove(pv.begin(), pv.end(), f), pv.end());
+            touched_.push_back(c.provides);
+        }
+        c = Contribution{};
+    }
+
+    void add(net::NodeId f) {
+        if (f >= contrib_.size()) contrib_.resize(ws_.net().nodeCount());
+        Contribution& c = contrib_[f];
+        const Cover& F = ws_.cover(f);
+        const bool selfDouble = F.cubes.size() == 2 && algebra::commonCube(F).empty();
+        const bool selfSingle = F.cubes.size() == 1 && F.cubes[0].lits.size() == 2;
+        if (selfDouble || selfSingle) {
+            int id = idOf(F);
+            divs_[static_cast<std::size_t>(id)].providers.push_back(f);
+            c.provides = id;
+            touched_.push_back(id);
+        }
+        if (F.cubes.size() >= 2 && F.cubes.size() <= opts_.maxCubesForPairs) {
+            for (std::size_t i = 0; i < F.cubes.size(); ++i)
+                for (std::size_t j = i + 1; j < F.cubes.size(); ++j) {
+                    const auto& a = F.cubes[i].lits;
+                    const auto& b = F.cubes[j].lits;
+                    std::vector<Literal> base, da, db;
+                    std::set_intersection(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(base));
+                    std::set_difference(a.begin(), a.end(), base.begin(), base.end(), std::back_inserter(da));
+                    std::set_difference(b.begin(), b.end(), base.begin(), base.end(), std::back_inserter(db));
+                    if (da.empty() || db.empty()) continue;
+                    if (selfDouble) continue;   // the node's only pair is itself
+                    long s = static_cast<long>(da.size() + db.size() + base.size()) - 1;
+                    Cover d{{Cube(std::move(da)), Cube(std::move(db))}};
+                    d.normalize();
+                    note(c, f, idOf(d), s);
+                }
+        }
+        // Large nodes (their pairs would be recounted after every extraction)
+        // leave common cubes to share-cubes.
+        if (F.cubes.size() > opts_.maxCubesForPairs) return;
+        for (const Cube& cube : F.cubes) {
+            if (cube.lits.size() < 2 || cube.lits.size() > opts_.maxCubeForLiteralPairs) continue;
+            if (selfSingle) continue;
+            for (std::size_t i = 0; i < cube.lits.size(); ++i)
+                for (std::size_t j = i + 1; j < cube.lits.size(); ++j)
+                    note(c, f, pairId(cube.lits[i], cube.lits[j]), 1);
+        }
+    }
+
+    std::vector<int> takeTouched() {
+        std::vector<int> t;
+        t.swap(touched_);
+        std::sort(t.begin(), t.end());
+        t.erase(std::unique(t.begin(), t.end()), t.end());
+        return t;
+    }
+
+    Divisor& div(int id) { return divs_[static_cast<std::size_t>(id)]; }
+    std::size_t size() const { return divs_.size(); }
+
+private:
+    int pairId(Literal a, Literal b) {
+        std::uint64_t key = (std::uint64_t{a} << 32) | b;
+        auto [it, fresh] = pairIndex_.emplace(key, static_cast<int>(divs_.size()));
+        if (fresh) {
+            Divisor dv;
+            dv.d = Cover{{Cube({a, b})}};
+            divs_.push_back(std::move(dv));
+        }
+        return it->second;
+    }
+    int idOf(const Cover& d) {
+        if (d.cubes.size() == 1 && d.cubes[0].lits.size() == 2) return pairId(d.cubes[0].lits[0], d.cubes[0].lits[1]);
+        std::string key = detail::coverKey(d);
+        auto [it, fresh] = index_.emplace(std::move(key), static_cast<int>(divs_.size()));
+        if (fresh) {
+            Divisor dv;
+            dv.d = d;
+            divs_.push_back(std::move(dv));
+        }
+        return it->second;
+    }
+    void note(Contribution& c, net::NodeId f, int id, long s) {
+        Divisor& dv = divs_[static_cast<std::size_t>(id)];
+        dv.saving += s;
+        dv.nodes.push_back(f);
+        c.items.push_back({id, s});
+        touched_.push_back(id);
+    }
+
+    Workspace& ws_;
+    const ShareDivisorsOptions& opts_;
+    std::unordered_map<std::string, int> index_;
+    std::unordered_map<std::uint64_t, int> pairIndex_;
+    std::vector<Divisor> divs_;
+    std::vector<Contribution> contrib_;
+    std::vector<int> touched_;
+};
+
+void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx) {
+    PairTable table(ws, opts);
+    net::Network& net = ws.net();
+    for (net::NodeId v : net.topoOrder()) table.add(v);
+    struct Entry { long w; int id; std::uint32_t version; };
+    auto cmp = [](const Entry& a, const Entry& b) { return a.w < b.w || (a.w == b.w && a.id > b.id); };
+    std::priority_queue<Entry, std::vector<Entry>, decltype(cmp)> heap(cmp);
+    auto push = [&](int id) {
+        Divisor& dv = table.div(id);
+        ++dv.version;
+        long w = table.weight(id);
+        if (w > 0 && !dv.blocked) heap.push({w, id, dv.version});
+    };
+    for (int id : table.takeTouched()) push(id);
+    long extracted = 0, reused = 0, saved = 0, singles = 0, failed = 0;
+    std::vector<net::NodeId> changed;
+    while (!heap.empty() && static_cast<std::size_t>(extracted + reused) < opts.maxExtractions) {
+        Entry e = heap.top();
+        heap.pop();
+        Divisor& dv = table.div(e.id);
+        if (e.version != dv.version || dv.blocked) continue;
+        std::vector<net::NodeId> targets = dv.nodes;
+        std::sort(targets.begin(), targets.end());
+        targets.erase(std::unique(targets.begin(), targets.end()), targets.end());
+        net::NodeId provider = table.liveProvider(e.id);
+        Cover d = dv.d;
+        net::NodeId created = 0;
+        long gain = detail::extractDivisor(ws, d, targets, provider, changed, created);
+        if (gain <= 0) {
+            table.div(e.id).blocked = true;
+            ++failed;
+            continue;
+        }
+        (provider ? reused : extracted) += 1;
+        if (d.cubes.size() == 1) ++singles;
+        saved += gain;
+        for (net::NodeId f : changed) {
+            table.remove(f);
+            table.add(f);
+        }
+        if (created) table.add(created);
+        for (int id : table.takeTouched()) push(id);
+    }
+    ctx.stats.add("extracted", extracted);
+    ctx.stats.add("cube-divisors", singles);
+    ctx.stats.add("reused-nodes", reused);
+    ctx.stats.add("literals-saved", saved);
+    ctx.stats.add("not-applied", failed);
+    ctx.stats.add("candidates", static_cast<long long>(table.size()));
+}
+
+// ---- kernels ---------------------------------------------------------------
+
+void runKernels(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx) {
+    net::Network& net = ws.net();
+    long extracted = 0, reused = 0, saved = 0, rounds = 0;
+    algebra::KernelOptions kopts;
+    kopts.maxKernels = opts.maxKernelsPerNode;
+    kopts.maxWork = 200000;
+    for (int round = 0; round < 4; ++round) {
+        ++rounds;
+        struct Cand { Cover k; std::vector<net::NodeId> nodes; net::NodeId provider = 0; long value = 0; };
+        std::unordered_map<std::string, std::size_t> index;
+        std::vector<Cand> cands;
+        for (net::NodeId f : net.topoOrder()) {
+            const Cover& F = ws.cover(f);
+            if (F.cubes.size() < 2 || F.cubes.size() > 400) continue;
+            for (const algebra::KernelPair& kp : algebra::kernels(F, kopts)) {
+                if (kp.kernel.cubes.size() < 2) continue;
+                auto [it, fresh] = index.emplace(detail::coverKey(kp.kernel), cands.size());
+                if (fresh) cands.push_back(Cand{kp.kernel, {}, 0, 0});
+                Cand& c = cands[it->second];
+                if (kp.cokernel.empty() && kp.kernel == F) c.provider = f;
+                else if (c.nodes.empty() || c.nodes.back() != f) c.nodes.push_back(f);
+            }
+        }
+        auto value = [&](const Cand& c) {
+            net::NodeId prov = (c.provider && ws.live(c.provider) && ws.cover(c.provider) == c.k) ? c.provider : 0;
+            long v = prov ? 0 : 1 - static_cast<long>(detail::lits(c.k));
+            for (net::NodeId f : c.nodes) {
+                if (!ws.live(f) || f == prov) continue;
+                Cover out;
+                if (!detail::rewriteWith(ws.cover(f), c.k, makeLiteral(static_cast<std::uint32_t>(net.nodeCount()), false), out))
+                    continue;
+                long s = static_cast<long>(detail::lits(ws.cover(f))) - static_cast<long>(detail::lits(out));
+                if (s > 0) v += s;
+            }
+            return v;
+        };
+        using Item = std::pair<long, std::size_t>;
+        std::priority_queue<Item> heap;
+        for (std::size_t i = 0; i < cands.size(); ++i) {
+            if (cands[i].nodes.empty()) continue;
+            long v = value(cands[i]);
+            if (v > 0) heap.push({v, i});
+        }
+        long roundSaved = 0;
+        std::vector<net::NodeId> changed;
+        while (!heap.empty()) {
+            auto [v, i] = heap.top();
+            heap.pop();
+            long now = value(cands[i]);
+            if (now <= 0) continue;
+            if (now < v) { heap.push({now, i}); continue; }
+            Cand& c = cands[i];
+            net::NodeId prov = (c.provider && ws.live(c.provider) && ws.cover(c.provider) == c.k) ? c.provider : 0;
+            net::NodeId created = 0;
+            long gain = detail::extractDivisor(ws, c.k, c.nodes, prov, changed, created);
+            if (gain <= 0) continue;
+            (prov ? reused : extracted) += 1;
+            saved += gain;
+            roundSaved += gain;
+        }
+        if (roundSaved == 0) break;
+    }
+    ctx.stats.add("kernel-extracted", extracted);
+    ctx.stats.add("kernel-reused", reused);
+    ctx.stats.add("kernel-literals-saved", saved);
+    ctx.stats.add("kernel-rounds", rounds);
+}
+
+} // namespace
+
+void shareDivisors(net::Network& net, const ShareDivisorsOptions& opts, PassContext& ctx) {
+    Workspace ws(net, ctx.depthCap);
+    if (opts.method != ShareDivisorsOptions::Method::Pairs) runKernels(ws, opts, ctx);
+    if (opts.method != ShareDivisorsOptions::Method::Kernels) runPairs(ws, opts, ctx);
+    ctx.stats.add("depth-rejects", static_cast<long long>(ws.depthRejects()));
+}
+
+} // namespace kerf::passes

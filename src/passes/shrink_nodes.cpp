@@ -1,0 +1,63 @@
+// shrink_nodes.cpp — the pass `shrink-nodes`: two-level minimisation of
+// every node, taking the complement when its cover is cheaper.
+//
+// Background. Treating each node of a multi-level network as a two-level
+// function and minimising it on its own ("simplify" of the MIS system:
+// R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang, "MIS: A
+// multiple-level logic optimization system", IEEE TCAD 1987, from memory)
+// uses the minimisers of R. K. Brayton et al., "Logic Minimization
+// Algorithms for VLSI Synthesis", Kluwer 1984 (from memory); see
+// twolevel.cpp for the minimiser itself. Since inverters cost nothing here,
+// a node may hold the cheaper of f and ¬f: when ¬f is cheaper, the node is
+// complemented and every literal that reads it (fanout cubes and output
+// drivers) is flipped, which leaves every other function unchanged.
+#include "kerf/passes/shrink_nodes.h"
+
+#include "workspace.h"
+
+namespace kerf::passes {
+
+using algebra::Cover;
+
+void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx) {
+    detail::Workspace ws(net, ctx.depthCap);
+    long shrunk = 0, complemented = 0, saved = 0, rejected = 0;
+    for (net::NodeId v : net.topoOrder()) {
+        if (!ws.live(v)) continue;
+        const Cover& cv = ws.cover(v);
+        std::size_t before = detail::lits(cv);
+        if (before <= 1) continue;
+        Cover best = minimizeCover(cv, opts.minimize);
+        bool flip = false;
+        if (opts.allowComplement && (!ws.fanouts(v).empty() || ws.outputRefs(v) > 0)) {
+            Cover comp;
+            if (complementCover(cv, comp, 4 * cv.cubes.size() + 16, opts.minimize)) {
+                std::size_t lc = detail::lits(comp), lb = detail::lits(best);
+                if (lc < lb || (lc == lb && comp.cubes.size() < best.cubes.size())) {
+                    best = std::move(comp);
+                    flip = true;
+                }
+            }
+        }
+        std::size_t after = detail::lits(best);
+        bool better = after < before || (after == before && best.cubes.size() < cv.cubes.size());
+        if (!better) continue;
+        ws.begin();
+        if (flip) {
+            ws.flipNode(v, std::move(best));
+        } else {
+            ws.setCover(v, std::move(best));
+        }
+        if (!ws.commit()) { ++rejected; continue; }
+        if (flip) net.node(v).name.clear();   // the hint named the old polarity
+        ++shrunk;
+        complemented += flip;
+        saved += static_cast<long>(before) - static_cast<long>(after);
+    }
+    ctx.stats.add("shrunk", shrunk);
+    ctx.stats.add("complemented", complemented);
+    ctx.stats.add("literals-saved", saved);
+    ctx.stats.add("depth-rejects", rejected);
+}
+
+} // namespace kerf::passes

@@ -1,0 +1,148 @@
+// aig.cpp — and-inverter graph: structural hashing and construction from a
+// sum-of-products network.
+//
+// Each sum of products becomes ANDs and ORs, an OR being an AND with
+// complemented inputs and output (De Morgan's law). Structural hashing with
+// constant and trivial folding is the standard AIG technique (Kuehlmann and
+// Krohm, DAC 1997, from memory); the code is our own.
+#include "kerf/proof/aig.h"
+
+#include "kerf/diagnostics.h"
+
+#include <algorithm>
+
+namespace kerf::proof {
+
+using algebra::literalNegated;
+using algebra::literalVar;
+
+Aig::Aig() {
+    fanin0_.push_back(0);
+    fanin1_.push_back(0);
+    isInput_.push_back(0);
+    inputIndex_.push_back(0);
+}
+
+AigLit Aig::input(std::string_view name) {
+    std::string key(name);
+    if (auto it = inputByName_.find(key); it != inputByName_.end()) return aigLit(it->second);
+    AigNode n = static_cast<AigNode>(fanin0_.size());
+    fanin0_.push_back(0);
+    fanin1_.push_back(0);
+    isInput_.push_back(1);
+    inputIndex_.push_back(static_cast<std::uint32_t>(inputs_.size()));
+    inputs_.push_back(n);
+    inputNames_.push_back(key);
+    inputByName_.emplace(std::move(key), n);
+    return aigLit(n);
+}
+
+std::optional<AigLit> Aig::findInput(std::string_view name) const {
+    if (auto it = inputByName_.find(std::string(name)); it != inputByName_.end()) return aigLit(it->second);
+    return std::nullopt;
+}
+
+AigLit Aig::newNode(AigLit f0, AigLit f1) {
+    AigNode n = static_cast<AigNode>(fanin0_.size());
+    fanin0_.push_back(f0);
+    fanin1_.push_back(f1);
+    isInput_.push_back(0);
+    inputIndex_.push_back(0);
+    return aigLit(n);
+}
+
+AigLit Aig::andOf(AigLit a, AigLit b) {
+    if (a > b) std::swap(a, b);
+    if (a == kAigFalse) return kAigFalse;
+    if (a == kAigTrue) return b;
+    if (a == b) return a;
+    if (a == aigNot(b)) return kAigFalse;
+    std::uint64_t key = (std::uint64_t{a} << 32) | b;
+    auto [it, inserted] = strash_.try_emplace(key, 0);
+    if (!inserted) return aigLit(it->second);
+    AigLit l = newNode(a, b);
+    it->second = aigNode(l);
+    return l;
+}
+
+AigLit Aig::xorOf(AigLit a, AigLit b) {
+    // a ^ b = !( !(a & !b) & !(!a & b) )
+    return orOf(andOf(a, aigNot(b)), andOf(aigNot(a), b));
+}
+
+AigLit Aig::andOfMany(std::vector<AigLit> lits) {
+    std::sort(lits.begin(), lits.end());
+    lits.erase(std::unique(lits.begin(), lits.end()), lits.end());
+    std::size_t k = 0;
+    for (std::size_t i = 0; i < lits.size(); ++i) {
+        if (lits[i] == kAigFalse) return kAigFalse;
+        if (lits[i] == kAigTrue) continue;
+        if (i + 1 < lits.size() && lits[i + 1] == aigNot(lits[i])) return kAigFalse;
+        lits[k++] = lits[i];
+    }
+    lits.resize(k);
+    if (lits.empty()) return kAigTrue;
+    // Pair neighbours level by level: a balanced tree.
+    while (lits.size() > 1) {
+        std::size_t m = 0;
+        for (std::size_t i = 0; i + 1 < lits.size(); i += 2) lits[m++] = andOf(lits[i], lits[i + 1]);
+        if (lits.size() % 2) lits[m++] = lits.back();
+        lits.resize(m);
+    }
+    return lits[0];
+}
+
+AigLit Aig::orOfMany(std::vector<AigLit> lits) {
+    for (AigLit& l : lits) l = aigNot(l);
+    return aigNot(andOfMany(std::move(lits)));
+}
+
+std::vector<AigLit> Aig::addNetwork(const net::Network& net) {
+    const std::size_t n = net.nodeCount();
+    // Fanin cone of the outputs.
+    std::vector<std::uint8_t> needed(n, 0);
+    std::vector<net::NodeId> work;
+    auto checkVar = [&](std::uint32_t v) {
+        if (v >= n || net.node(v).dead)
+            throw Error("proof: network refers to a missing or removed node " + std::to_string(v), {},
+                        ExitCode::Internal);
+    };
+    for (const net::Output& o : net.outputs()) {
+        checkVar(literalVar(o.driver));
+        work.push_back(literalVar(o.driver));
+    }
+    while (!work.empty()) {
+        net::NodeId id = work.back();
+        work.pop_back();
+        if (needed[id]) continue;
+        needed[id] = 1;
+        if (!net.isLogic(id)) continue;
+        for (const net::Cube& c : net.node(id).cover.cubes)
+            for (net::Literal l : c.lits) {
+                checkVar(literalVar(l));
+                if (!needed[literalVar(l)]) work.push_back(literalVar(l));
+            }
+    }
+
+    std::vector<AigLit> map(n, kAigFalse);
+    for (net::NodeId id : net.inputs())
+        if (needed[id]) map[id] = input(net.node(id).name);
+    auto litOf = [&](net::Literal l) { return map[literalVar(l)] ^ (literalNegated(l) ? 1u : 0u); };
+    std::vector<AigLit> cubeLits, terms;
+    for (net::NodeId id : net.topoOrder()) {
+        if (!needed[id]) continue;
+        terms.clear();
+        for (const net::Cube& c : net.node(id).cover.cubes) {
+            cubeLits.clear();
+            for (net::Literal l : c.lits) cubeLits.push_back(litOf(l));
+            terms.push_back(andOfMany(cubeLits));
+        }
+        map[id] = orOfMany(terms);
+    }
+    std::vector<AigLit> outs;
+    outs.reserve(net.outputs().size());
+    for (const net::Output& o : net.outputs()) outs.push_back(litOf(o.driver));
+    return outs;
+}
+
+} // namespace kerf::proof

@@ -1,0 +1,202 @@
+// passes_bench.cpp — figures of the restructuring engine.
+//
+// For every EPFL random/control file in ../shared/benchmarks/epfl (loaded by
+// the test-only AIG line reader of tests/unit/passes_support.h, then tidied
+// as the frontend does) it runs the engine at the chosen effort and prints
+// two-input gates before/after (counted on the written factored forms),
+// their ratio, depth before/after, seconds and the peak resident memory of
+// that run (each case runs in its own child process). It then times
+// synthetic decoders (1k, 10k, 100k product terms over 32–64 inputs).
+// Every result is also checked by random simulation against the input.
+//
+// Usage: passes_bench [--effort E] [--recipe R] [--epfl DIR] [--skip-synthetic] [--only NAME|synthetic] [-v]
+#include "../unit/passes_support.h"
+
+#include "kerf/passes/engine.h"
+#include "kerf/passes/factored.h"
+#include "kerf/passes/tidy.h"
+
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <cstring>
+#include <filesystem>
+#include <string>
+#include <sys/resource.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+using namespace kerf;
+using namespace kerf::passes::testing;
+
+namespace {
+
+struct Figures {
+    std::size_t gatesBefore = 0, gatesAfter = 0, depthBefore = 0, depthAfter = 0;
+    std::size_t litsBefore = 0, litsAfter = 0;
+    double seconds = 0;
+    int equivalent = 1;
+    int kept = 0;
+};
+
+// Decoder-style PLA: `terms` product terms over `inputs` inputs, each a
+// masked compare of 8..20 input bits, each feeding 1..3 of `outputs` outputs.
+net::Network syntheticDecoder(std::size_t terms, std::size_t inputs, std::size_t outputs, std::uint32_t seed) {
+    std::mt19937 rng(seed);
+    net::Network n;
+    std::vector<net::NodeId> in;
+    for (std::size_t i = 0; i < inputs; ++i) in.push_back(n.addInput("a" + std::to_string(i)));
+    std::vector<algebra::Cover> outs(outputs);
+    for (std::size_t t = 0; t < terms; ++t) {
+        std::size_t len = 8 + rng() % 13;
+        std::vector<algebra::Literal> ls;
+        std::vector<char> used(inputs, 0);
+        while (ls.size() < len) {
+            std::size_t i = rng() % inputs;
+            if (used[i]) continue;
+            used[i] = 1;
+            ls.push_back(algebra::makeLiteral(in[i], rng() & 1));
+        }
+        algebra::Cube c(std::move(ls));
+        std::size_t fan = 1 + rng() % 3;
+        for (std::size_t k = 0; k < fan; ++k) outs[rng() % outputs].cubes.push_back(c);
+    }
+    for (std::size_t o = 0; o < outputs; ++o) {
+        outs[o].normalize();
+        n.addOutput("d" + std::to_string(o), algebra::makeLiteral(n.addLogic(std::move(outs[o])), false));
+    }
+    return n;
+}
+
+std::string gRecipe;
+
+Figures runCase(net::Network net, const std::string& effort, int verbose) {
+    Figures f;
+    passes::tidy(net);
+    const net::Network input = net;
+    passes::EngineOptions o;
+    o.effort = effort;
+    o.recipe = gRecipe;
+    o.verbose = verbose;
+    auto t0 = std::chrono::steady_clock::now();
+    passes::EngineResult r = passes::restructure(net, o);
+    f.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    f.gatesBefore = r.before.gates;
+    f.gatesAfter = r.after.gates;
+    f.depthBefore = r.before.depth;
+    f.depthAfter = r.after.depth;
+    f.litsBefore = r.before.literals;
+    f.litsAfter = r.after.literals;
+    f.kept = r.keptOriginal;
+    f.equivalent = sameFunctions(input, net, 32).empty();
+    if (verbose) std::fprintf(stderr, "%s", passes::formatPassTable(r).c_str());
+    return f;
+}
+
+// Run `work` in a child; returns its figures and peak RSS (KiB).
+template <typename Work>
+bool isolated(Work work, Figures& out, long& rssKiB) {
+    int fd[2];
+    if (pipe(fd) != 0) return false;
+    pid_t pid = fork();
+    if (pid == 0) {
+        close(fd[0]);
+        Figures f = work();
+        ssize_t w = write(fd[1], &f, sizeof f);
+        (void)w;
+        _exit(0);
+    }
+    close(fd[1]);
+    Figures f;
+    ssize_t got = read(fd[0], &f, sizeof f);
+    close(fd[0]);
+    int status = 0;
+    struct rusage ru {};
+    wait4(pid, &status, 0, &ru);
+    rssKiB = ru.ru_maxrss;
+    out = f;
+    return got == static_cast<ssize_t>(sizeof f) && WIFEXITED(status) && WEXITSTATUS(status) == 0;
+}
+
+} // namespace
+
+int main(int argc, char** argv) {
+    std::string effort = "default", dir, only;
+    bool synthetic = true;
+    int verbose = 0;
+    std::size_t maxTerms = 0;
+    for (int i = 1; i < argc; ++i) {
+        std::string a = argv[i];
+        if (a == "--effort" && i + 1 < argc) effort = argv[++i];
+        else if (a == "--epfl" && i + 1 < argc) dir = argv[++i];
+        else if (a == "--only" && i + 1 < argc) only = argv[++i];
+        else if (a == "--recipe" && i + 1 < argc) gRecipe = argv[++i];
+        else if (a == "--skip-synthetic") synthetic = false;
+        else if (a == "--max-terms" && i + 1 < argc) maxTerms = std::stoul(argv[++i]);
+        else if (a == "-v") ++verbose;
+        else {
+            std::fprintf(stderr, "usage: passes_bench [--effort E] [--recipe R] [--epfl DIR] [--only NAME] [--skip-synthetic] [-v]\n");
+            return 2;
+        }
+    }
+    if (dir.empty()) dir = std::string(KERF_SOURCE_DIR) + "/../shared/benchmarks/epfl";
+    int failures = 0;
+    std::printf("effort: %s%s%s\n", effort.c_str(), gRecipe.empty() ? "" : ", recipe: ", gRecipe.c_str());
+    std::printf("%-14s %8s %8s %7s %7s %7s %9s %10s %s\n", "file", "gates", "after", "ratio", "depth", "after",
+                "seconds", "peakRSS", "notes");
+    double logSum = 0;
+    int count = 0;
+    const char* files[] = {"ctrl", "dec", "int2float", "router", "priority", "voter"};
+    if (!std::filesystem::exists(dir)) {
+        std::printf("(EPFL benchmarks not found at %s: skipped)\n", dir.c_str());
+    } else {
+        for (const char* name : files) {
+            if (!only.empty() && only != name) continue;   // --only synthetic skips them all
+            std::string path = dir + "/" + name + ".v";
+            Figures f;
+            long rss = 0;
+            bool ok = isolated([&] { return runCase(loadEpflAigForBench(path), effort, verbose); }, f, rss);
+            if (!ok) {
+                std::printf("%-14s crashed\n", name);
+                ++failures;
+                continue;
+            }
+            double ratio = f.gatesBefore ? double(f.gatesAfter) / double(f.gatesBefore) : 1.0;
+            logSum += std::log(ratio);
+            ++count;
+            std::string notes;
+            if (!f.equivalent) { notes += " NOT-EQUIVALENT"; ++failures; }
+            if (f.kept) notes += " input-kept";
+            if (f.gatesAfter > f.gatesBefore) { notes += " GREW"; ++failures; }
+            if (f.depthAfter > f.depthBefore) { notes += " DEEPER"; ++failures; }
+            std::printf("%-14s %8zu %8zu %7.3f %7zu %7zu %9.2f %8.1fMB%s\n", name, f.gatesBefore, f.gatesAfter, ratio,
+                        f.depthBefore, f.depthAfter, f.seconds, rss / 1024.0, notes.c_str());
+            std::fflush(stdout);
+        }
+        if (count) std::printf("geometric mean ratio: %.3f over %d files\n", std::exp(logSum / count), count);
+    }
+    if (synthetic && (only.empty() || only == "synthetic")) {
+        std::printf("\n%-22s %8s %8s %9s %7s %7s %9s %10s\n", "synthetic decoder", "lits", "after", "gates", "after",
+                    "depth", "seconds", "peakRSS");
+        struct Cfg { std::size_t terms, inputs, outputs; };
+        for (Cfg c : {Cfg{1000, 32, 16}, Cfg{10000, 48, 32}, Cfg{100000, 64, 64}}) {
+            if (maxTerms && c.terms > maxTerms) continue;
+            Figures f;
+            long rss = 0;
+            bool ok = isolated([&] { return runCase(syntheticDecoder(c.terms, c.inputs, c.outputs, 7), effort, verbose); },
+                               f, rss);
+            std::string label = std::to_string(c.terms) + " terms/" + std::to_string(c.inputs) + " in";
+            if (!ok) {
+                std::printf("%-22s crashed\n", label.c_str());
+                ++failures;
+                continue;
+            }
+            std::printf("%-22s %8zu %8zu %9zu %7zu %7zu %9.2f %8.1fMB%s\n", label.c_str(), f.litsBefore, f.litsAfter,
+                        f.gatesBefore, f.gatesAfter, f.depthAfter, f.seconds, rss / 1024.0,
+                        f.equivalent ? "" : " NOT-EQUIVALENT");
+            if (!f.equivalent) ++failures;
+            std::fflush(stdout);
+        }
+    }
+    return failures ? 1 : 0;
+}
