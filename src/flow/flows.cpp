@@ -130,7 +130,17 @@ int restructure(const RestructureOptions& opts) {
         TempFile tmp(file);
         emit::writeFileAtomic(tmp.path, wr.text);
         frontend::ReadOptions back = opts.read;
-        back.substitute[file] = tmp.path;
+        // The rewritten file replaces the one that holds the module; a proof that
+        // silently read the original twice would prove nothing, so insist on a match.
+        std::string key;
+        for (const auto& f : opts.read.files) {
+            std::error_code ec;
+            if (f == file || std::filesystem::equivalent(f, file, ec)) key = f;
+        }
+        if (key.empty())
+            throw Error(fmt::format("cannot prove the rewrite: the module's file '{}' is not one of the files given "
+                                    "(is the module in an included file?)", file), {}, ExitCode::Internal);
+        back.substitute[key] = tmp.path;
         // Includes relative to the original file's folder must still resolve.
         back.includeDirs.push_back(std::filesystem::path(file).parent_path().empty()
                                        ? "."

@@ -11,10 +11,10 @@
 // only if it is no worse than the input on the cost (two-input gates, then
 // literals); otherwise the input is restored. The best network seen after
 // any step is kept, so a recipe may explore (collapse, re-extract) freely. The order of the built-in
-// recipes follows the usual shape of multi-level algebraic scripts
-// (sweep, eliminate, simplify, extract, resubstitute, simplify) as in
-// R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang, "MIS: A
-// multiple-level logic optimization system", IEEE TCAD 1987 (from memory).
+// recipes follows the usual order of multi-level algebraic optimisation
+// (clean up, collapse, minimise nodes, extract shared divisors, reuse nodes,
+// minimise again) as surveyed in
+// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990 (from memory).
 #include "kerf/passes/engine.h"
 
 #include "kerf/diagnostics.h"

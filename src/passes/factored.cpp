@@ -4,8 +4,7 @@
 // Background. A sum of products is written as a factored form, a tree of
 // ANDs and ORs found by repeated algebraic division; the literal count of
 // the factored form is the classic area estimate of multi-level synthesis
-// (R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang, "MIS: A
-// multiple-level logic optimization system", IEEE TCAD 1987, from memory).
+// (R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990, from memory).
 // Factoring can make a node deeper than its flat sum of products, so the
 // form of each node is chosen under a depth bound: first every node takes
 // its earliest-arriving form (Best, Quick or plain SOP), which gives the

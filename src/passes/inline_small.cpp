@@ -7,8 +7,7 @@
 // large enough to share divisors. A node's value is the literal count after
 // minus before (its own literals plus its fanouts'); nodes are eliminated
 // cheapest first while the value stays within a threshold, as in the
-// "eliminate" step of R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli,
-// A. Wang, "MIS: A multiple-level logic optimization system", IEEE TCAD 1987
+// elimination step surveyed in R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990
 // (from memory). Caps on the cubes and literals of the resulting covers keep
 // flattening from exploding (a product of sums multiplies out).
 //

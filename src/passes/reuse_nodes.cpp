@@ -4,9 +4,8 @@
 // another node g: f = q·g + r by weak division of f's cover by g's. Then g's
 // literal can replace those cubes. Trying g's complement as a divisor too
 // (f = q·¬g + r, where ¬g's cover comes from two-level complementation)
-// finds more. This is the "resub" of R. K. Brayton, R. Rudell,
-// A. Sangiovanni-Vincentelli, A. Wang, "MIS: A multiple-level logic
-// optimization system", IEEE TCAD 1987 (from memory).
+// finds more. This is algebraic resubstitution as surveyed in
+// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990 (from memory).
 //
 // Candidates for f are nodes whose support lies inside f's (otherwise the
 // algebraic quotient is empty); such a g can never depend on f, so no cycle

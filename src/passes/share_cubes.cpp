@@ -4,9 +4,8 @@
 // Background. A cube that divides many cubes (in one node or across nodes)
 // is computed once as a new node: with the cube I found in k cubes, the
 // network saves k·(|I|−1) − |I| literals. Finding common cubes is the
-// rectangle-covering view of the cube–literal matrix of R. K. Brayton,
-// R. Rudell, A. Sangiovanni-Vincentelli, A. Wang, "MIS: A multiple-level
-// logic optimization system", IEEE TCAD 1987 (from memory). Here the
+// rectangle-covering view of the cube–literal matrix of the survey
+// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990 (from memory). Here the
 // candidate cubes are the intersections of pairs of cubes that share at
 // least two literals (every prime rectangle's row set starts from such a
 // pair); each candidate is valued against the current network when it is
@@ -30,13 +29,14 @@ namespace {
 
 // Saving of extracting cube I now (in two-input gates), the nodes it applies
 // to, and a provider (a node whose cover is exactly I). `work` counts cubes looked at.
-long valueOf(detail::Workspace& ws, const Cube& I, std::vector<net::NodeId>& targets, net::NodeId& provider,
-             long& work) {
+long valueOf(detail::Workspace& ws, const Cube& I, const std::vector<net::NodeId>* nodes,
+             std::vector<net::NodeId>& targets, net::NodeId& provider, long& work) {
     targets.clear();
     provider = 0;
-    // Scan the fanouts of the variable with the fewest.
-    const std::vector<net::NodeId>* fewest = nullptr;
+    // Scan the given nodes, or the fanouts of the variable with the fewest.
+    const std::vector<net::NodeId>* fewest = nodes;
     for (Literal l : I.lits) {
+        if (nodes) break;
         const auto& fo = ws.fanouts(literalVar(l));
         if (!fewest || fo.size() < fewest->size()) fewest = &fo;
     }
@@ -55,8 +55,8 @@ long valueOf(detail::Workspace& ws, const Cube& I, std::vector<net::NodeId>& tar
     return count * w - (provider ? 0 : static_cast<long>(I.lits.size()) - 1);
 }
 
-// Number of indexed cubes holding every literal of I (sorted occurrence lists).
-long indexedCount(const Cube& I, std::unordered_map<Literal, std::vector<std::uint32_t>>& occ) {
+// Indexed cubes holding every literal of I (sorted occurrence lists).
+std::vector<std::uint32_t> indexedCubes(const Cube& I, std::unordered_map<Literal, std::vector<std::uint32_t>>& occ) {
     std::vector<std::uint32_t> acc = occ[I.lits[0]];
     for (std::size_t k = 1; k < I.lits.size() && !acc.empty(); ++k) {
         const auto& o = occ[I.lits[k]];
@@ -64,7 +64,7 @@ long indexedCount(const Cube& I, std::unordered_map<Literal, std::vector<std::ui
         std::set_intersection(acc.begin(), acc.end(), o.begin(), o.end(), std::back_inserter(next));
         acc.swap(next);
     }
-    return static_cast<long>(acc.size());
+    return acc;
 }
 
 } // namespace
@@ -129,26 +129,43 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
             ranked.resize(opts.maxCandidates);
         }
         using Item = std::pair<long, std::size_t>;
+        // Each candidate keeps the nodes that held it when indexed: extraction
+        // rewrites a cube holding I into one that still holds I, in the same
+        // node, so only those nodes need looking at later.
         std::vector<Cube> list;
+        std::vector<std::vector<net::NodeId>> where;
         std::priority_queue<Item> heap;
         std::vector<net::NodeId> targets;
         for (auto& [hits, I] : ranked) {
-            long bound = indexedCount(I, occ) * static_cast<long>(I.lits.size() - 1) + 1;
-            if (bound > 0) {
-                heap.push({bound, list.size()});
-                list.push_back(std::move(I));
-            }
+            std::vector<std::uint32_t> cubes = indexedCubes(I, occ);
+            long bound = static_cast<long>(cubes.size()) * static_cast<long>(I.lits.size() - 1) + 1;
+            std::vector<net::NodeId> nodes;
+            for (std::uint32_t id : cubes)
+                if (nodes.empty() || nodes.back() != refs[id].node) nodes.push_back(refs[id].node);
+            std::sort(nodes.begin(), nodes.end());
+            nodes.erase(std::unique(nodes.begin(), nodes.end()), nodes.end());
+            heap.push({bound, list.size()});
+            list.push_back(std::move(I));
+            where.push_back(std::move(nodes));
         }
         long roundSaved = 0;
         std::vector<net::NodeId> changed;
+        std::vector<std::uint8_t> requeued(list.size(), 0);
         while (!heap.empty()) {
             auto [v, i] = heap.top();
             heap.pop();
             if (work > opts.workBudget) { exhausted = true; break; }
             net::NodeId prov = 0;
-            long now = valueOf(ws, list[i], targets, prov, work);
+            long now = valueOf(ws, list[i], &where[i], targets, prov, work);
             if (now <= 0) continue;
-            if (now < v) { heap.push({now, i}); continue; }
+            // Near-greedy: take it unless it fell well below the next bound
+            // (then look at it once more later). Exact lazy greedy would
+            // re-value the same candidates over and over on large covers.
+            if (!heap.empty() && now < heap.top().first / 2 && !requeued[i]) {
+                requeued[i] = 1;
+                heap.push({now, i});
+                continue;
+            }
             net::NodeId created = 0;
             long gain = detail::extractDivisor(ws, Cover{{list[i]}}, targets, prov, changed, created);
             if (gain <= 0) continue;

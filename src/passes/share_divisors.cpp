@@ -4,10 +4,8 @@
 // Background. Multi-level algebraic synthesis treats covers as polynomials
 // and looks for common divisors: kernels (cube-free quotients by a cube)
 // were introduced by R. K. Brayton and C. T. McMullen, "The decomposition
-// and factorization of Boolean expressions", ISCAS 1982, and made the core
-// of MIS (R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang,
-// "MIS: A multiple-level logic optimization system", IEEE TCAD 1987) — both
-// from memory. Restricting the divisors to two-cube sums (each pair of cubes
+// and factorization of Boolean expressions", ISCAS 1982, and surveyed in
+// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990 — both from memory. Restricting the divisors to two-cube sums (each pair of cubes
 // of a node, with their common part removed) and two-literal cubes gives a
 // candidate set that is found in one sweep and can be updated incrementally
 // after every extraction: J. Rajski and J. Vasudevamurthy, "The

@@ -2,9 +2,8 @@
 // every node, taking the complement when its cover is cheaper.
 //
 // Background. Treating each node of a multi-level network as a two-level
-// function and minimising it on its own ("simplify" of the MIS system:
-// R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang, "MIS: A
-// multiple-level logic optimization system", IEEE TCAD 1987, from memory)
+// function and minimising it on its own (node simplification in
+// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990, from memory)
 // uses the minimisers of R. K. Brayton et al., "Logic Minimization
 // Algorithms for VLSI Synthesis", Kluwer 1984 (from memory); see
 // twolevel.cpp for the minimiser itself. Since inverters cost nothing here,

@@ -4,8 +4,7 @@
 // buffers and inverter pairs, deleting logic no output needs and merging
 // structurally identical nodes — is the housekeeping step every multi-level
 // optimiser runs between real transformations (it appears as such in
-// R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang, "MIS: A
-// multiple-level logic optimization system", IEEE TCAD 1987, from memory).
+// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990, from memory).
 //
 // One walk in topological order does it all: each node's cover first gets
 // the replacements already decided for its fanins (so chains of buffers and

@@ -58,7 +58,7 @@ AigLit Aig::andOf(AigLit a, AigLit b) {
     if (a == b) return a;
     if (a == aigNot(b)) return kAigFalse;
     std::uint64_t key = (std::uint64_t{a} << 32) | b;
-    auto [it, inserted] = strash_.try_emplace(key, 0);
+    auto [it, inserted] = hashTable_.try_emplace(key, 0);
     if (!inserted) return aigLit(it->second);
     AigLit l = newNode(a, b);
     it->second = aigNode(l);

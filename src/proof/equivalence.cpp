@@ -1,8 +1,8 @@
 // equivalence.cpp — matching two networks by input and output names,
 // running the proving engine and replaying every counterexample.
 //
-// The engine (sweep.cpp) follows the SAT-sweeping method of Mishchenko et
-// al., "FRAIGs" (2005, from memory); this file is the user-facing layer:
+// The engine (sweep.cpp) follows the SAT-sweeping method of Kuehlmann et
+// al. (IEEE TCAD 2002, from memory); this file is the user-facing layer:
 // name checks, the shared graph, the independent replay of counterexamples
 // on the original networks with net::simulate, and the summary table.
 #include "kerf/proof/equivalence.h"

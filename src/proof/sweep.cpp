@@ -2,11 +2,11 @@
 // SAT sweeping with merging, and output-pair SAT queries.
 //
 // SAT sweeping (proving simulation-equivalent internal nodes in topological
-// order and merging them, so that later queries see shared structure) is the
-// FRAIG technique of A. Mishchenko, S. Chatterjee, R. Jiang and R. Brayton,
-// "FRAIGs: A unifying representation for logic synthesis and verification",
-// ERL technical report, 2005 (from memory), after Kuehlmann and Krohm (DAC
-// 1997). Each AND is encoded with the three Tseitin (1968) clauses, lazily
+// order and merging them, so that later queries see shared structure) follows
+// A. Kuehlmann and F. Krohm, "Equivalence checking using cuts and heaps",
+// DAC 1997, and A. Kuehlmann, V. Paruthi, F. Krohm, M. K. Ganai, "Robust
+// Boolean reasoning for equivalence checking and functional property
+// verification", IEEE TCAD 2002 (both from memory). Each AND is encoded with the three Tseitin (1968) clauses, lazily
 // for the cone a query needs, in one incremental CaDiCaL solver (A. Biere)
 // queried under assumptions. The data structures and schedule are our own.
 //

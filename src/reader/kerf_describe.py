@@ -8,6 +8,7 @@ Members that use anything outside the subset kerf restructures become
 reads/writes are then collected conservatively from the whole AST.
 """
 
+import os
 import re
 from collections import Counter
 
@@ -237,6 +238,9 @@ class Sources:
         n = self._names.get(key)
         if n is None:
             n = self.sm.getRawFileName(buf)
+            # Report a file as the user named it (slang shortens paths relative
+            # to the working directory); the writer and the proof key on it.
+            n = GIVEN_FILES.get(os.path.realpath(n), n)
             self._names[key] = n
         return n
 
@@ -1365,6 +1369,10 @@ class Describer:
                      % kept[0]["reason"], "reads": m["reads"], "writes": m["writes"]}
             out.append(m)
         return out
+
+
+# realpath -> the path as given on the command line (set by kerf_read.py)
+GIVEN_FILES = {}
 
 
 def describe(comp, top):

@@ -127,6 +127,8 @@ def main(argv=None):
         top = tops[0]
 
     try:
+        for f in args.files:
+            kerf_describe.GIVEN_FILES.setdefault(os.path.realpath(f), f)
         desc = kerf_describe.describe(comp, top)
     except Exception:
         import traceback

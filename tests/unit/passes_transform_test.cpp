@@ -1,8 +1,7 @@
 // passes_transform_test.cpp — shrink-nodes, inline-small, share-cubes,
 // share-divisors and reuse-nodes on small hand-built networks. Expected
 // results are worked out from the definitions of the transformations as in
-// R. K. Brayton, R. Rudell, A. Sangiovanni-Vincentelli, A. Wang, "MIS: A
-// multiple-level logic optimization system", IEEE TCAD 1987 (from memory)
+// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990 (from memory)
 // and J. Rajski, J. Vasudevamurthy, IEEE TCAD 1992 (two-cube divisors, from
 // memory).
 #include "kerf/passes/inline_small.h"

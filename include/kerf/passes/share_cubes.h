@@ -15,7 +15,7 @@ struct ShareCubesOptions {
     std::size_t partnersPerCube = 64; ///< candidate cube pairs looked at per cube
     int rounds = 4;
     std::size_t maxCandidates = 20000;   ///< candidates valued per round (most promising first)
-    long workBudget = 40000000;          ///< cubes looked at over the pass; past it the pass stops early
+    long workBudget = 100000000;          ///< cubes looked at over the pass; past it the pass stops early
 };
 
 void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx);

@@ -6,8 +6,8 @@
 // fanin literals exists once) two networks built into one graph share all
 // the structure they have in common. This is the representation of
 // Kuehlmann and Krohm's combinational equivalence work (DAC 1997, from
-// memory) and of the FRAIG papers by A. Mishchenko et al. (2005, from
-// memory); the code here is our own.
+// memory) and of its SAT-based successors (Kuehlmann et al., IEEE TCAD
+// 2002, from memory); the code here is our own.
 //
 // Literal encoding follows the Boolean network: 2*node + complemented.
 // Node 0 is the constant 0, so literal 0 is false and literal 1 is true.
@@ -80,7 +80,7 @@ private:
     std::vector<AigNode> inputs_;
     std::vector<std::string> inputNames_;
     std::unordered_map<std::string, AigNode> inputByName_;
-    std::unordered_map<std::uint64_t, AigNode> strash_;
+    std::unordered_map<std::uint64_t, AigNode> hashTable_;
 };
 
 } // namespace kerf::proof

@@ -5,9 +5,10 @@
 // inputs, structural hashing), random simulation refutes cheap differences
 // and groups internal nodes into candidate classes, and an incremental SAT
 // solver proves candidates in topological order, merging proved-equal nodes
-// before it proves each output pair (SAT sweeping; A. Mishchenko et al.,
-// "FRAIGs: A unifying representation for logic synthesis and verification",
-// 2005, and Kuehlmann and Krohm, DAC 1997 — both from memory). Clauses are
+// before it proves each output pair (SAT sweeping; A. Kuehlmann et al.,
+// "Robust Boolean reasoning for equivalence checking and functional property
+// verification", IEEE TCAD 2002, and Kuehlmann and Krohm, DAC 1997 — both
+// from memory). Clauses are
 // the Tseitin (1968) encoding of each AND, added lazily for the cone a query
 // needs. The SAT solver is CaDiCaL by A. Biere. The code is our own.
 //

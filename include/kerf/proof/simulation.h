@@ -3,7 +3,7 @@
 //
 // One 64-bit word carries 64 input patterns; simulating a word evaluates
 // every node for all 64 at once (common trade practice in equivalence
-// checking and SAT sweeping, e.g. Mishchenko et al., FRAIGs, 2005, from
+// checking and SAT sweeping, e.g. Kuehlmann et al., IEEE TCAD 2002, from
 // memory). Patterns mix uniform random words, mostly-zero and mostly-one
 // words, and words with a single 1 (or single 0) per pattern, which reach
 // wide ANDs and ORs that uniform patterns almost never excite.
