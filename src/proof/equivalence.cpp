@@ -56,7 +56,7 @@ void checkUnique(const net::Network& n, const char* side) {
 void printTable(const ProofResult& r) {
     const ProofStats& s = r.stats;
     std::string t;
-    t += fmt::format("kerf proof: {} — {} output pairs, {} inputs, {} AND nodes in the shared graph\n",
+    t += fmt::format("kerf proof: {}: {} output pairs, {} inputs, {} AND nodes in the shared graph\n",
                      verdictName(r.verdict), s.outputs, s.aigInputs, s.aigNodes);
     t += fmt::format("  {:<22}{:>10}\n", "outputs settled by", "count");
     t += fmt::format("  {:<22}{:>10}   ({} identical straight after hashing)\n", "structure", s.byStructure,

@@ -6,9 +6,10 @@
 // A. Kuehlmann and F. Krohm, "Equivalence checking using cuts and heaps",
 // DAC 1997, and A. Kuehlmann, V. Paruthi, F. Krohm, M. K. Ganai, "Robust
 // Boolean reasoning for equivalence checking and functional property
-// verification", IEEE TCAD 2002 (both from memory). Each AND is encoded with the three Tseitin (1968) clauses, lazily
-// for the cone a query needs, in one incremental CaDiCaL solver (A. Biere)
-// queried under assumptions. The data structures and schedule are our own.
+// verification", IEEE TCAD 2002 (both from memory). Each AND is encoded
+// with the three Tseitin (1968) clauses, lazily for the cone a query needs,
+// in an incremental CaDiCaL solver (A. Biere) queried under assumptions.
+// The data structures and schedule are our own.
 //
 // Candidate classes: every node gets a hash of its simulation signature,
 // complemented when the node is 1 under the all-zero pattern so that a node
@@ -31,7 +32,6 @@
 #include <climits>
 #include <memory>
 #include <cstdio>
-#include <unordered_map>
 
 namespace kerf::proof {
 

@@ -20,6 +20,7 @@
 #include "kerf/proof/simulation.h"
 
 #include <algorithm>
+#include <bit>
 #include <chrono>
 #include <ctime>
 #include <cstdio>
@@ -152,23 +153,26 @@ Network buildFactor(const std::vector<Term>& terms, int outputs) {
     return n;
 }
 
-/// Complement one literal of one cube of one logic node: a subtle difference
-/// (for a trie node it changes every term below that prefix).
-Network mutate(const Network& src, std::uint64_t seed) {
+/// Add one full minterm (all 48 inputs) to one output of `src`, chosen where
+/// the reference `ref` has that output 0: the two then differ on exactly one
+/// of 2^48 assignments, out of reach of random simulation.
+Network mutate(const Network& src, const Network& ref, std::uint64_t seed) {
     Network n = src;
     proof::Random rng(seed);
-    std::vector<NodeId> logic = n.topoOrder();
-    for (int tries = 0; tries < 1000; ++tries) {
-        Cover& f = n.node(logic[rng.next() % logic.size()]).cover;
-        if (f.cubes.empty()) continue;
-        Cube& c = f.cubes[rng.next() % f.cubes.size()];
-        if (c.lits.empty()) continue;
-        Literal& l = c.lits[rng.next() % c.lits.size()];
-        l = algebra::negateLiteral(l);
-        std::sort(c.lits.begin(), c.lits.end());
-        break;
+    std::size_t o = rng.next() % n.outputs().size();
+    std::vector<std::uint64_t> in(kInputs);
+    for (;;) {
+        for (auto& x : in) x = rng.next();
+        std::uint64_t v = net::simulate(ref, in)[o];
+        if (~v == 0) continue;
+        unsigned bit = static_cast<unsigned>(std::countr_zero(~v));
+        std::vector<Literal> lits;
+        for (int i = 0; i < kInputs; ++i) lits.push_back(makeLiteral(n.inputs()[i], ((in[i] >> bit) & 1u) == 0));
+        NodeId m = n.addLogic(Cover{{makeCube(lits)}});
+        Literal old = n.outputs()[o].driver;
+        n.outputs()[o].driver = makeLiteral(n.addLogic(Cover{{makeCube({old}), makeCube({makeLiteral(m, false)})}}), false);
+        return n;
     }
-    return n;
 }
 
 void report(const char* label, const net::Network& a, const net::Network& b, const proof::ProofOptions& opts) {
@@ -242,12 +246,12 @@ int main(int argc, char** argv) {
     if (structure == "prefix" || structure == "both") {
         Network b = buildPrefix(ts, outputs);
         report("flat SOP vs shared-prefix trie:", flat, b, opts);
-        if (mutant) report("flat SOP vs mutated shared-prefix trie:", flat, mutate(b, seed), opts);
+        if (mutant) report("flat SOP vs mutated shared-prefix trie:", flat, mutate(b, flat, seed), opts);
     }
     if (structure == "factor" || structure == "both") {
         Network b = buildFactor(ts, outputs);
         report("flat SOP vs factored by opcode:", flat, b, opts);
-        if (mutant) report("flat SOP vs mutated factored form:", flat, mutate(b, seed), opts);
+        if (mutant) report("flat SOP vs mutated factored form:", flat, mutate(b, flat, seed), opts);
     }
     return 0;
 }

@@ -8,9 +8,9 @@
 // before it proves each output pair (SAT sweeping; A. Kuehlmann et al.,
 // "Robust Boolean reasoning for equivalence checking and functional property
 // verification", IEEE TCAD 2002, and Kuehlmann and Krohm, DAC 1997 — both
-// from memory). Clauses are
-// the Tseitin (1968) encoding of each AND, added lazily for the cone a query
-// needs. The SAT solver is CaDiCaL by A. Biere. The code is our own.
+// from memory). Clauses are the Tseitin (1968) encoding of each AND, added
+// lazily for the cone a query needs. The SAT solver is CaDiCaL by A. Biere.
+// The code is our own.
 //
 // Soundness rule: an output is reported Equivalent only on a structural
 // identity or an UNSAT answer; a budget hit leaves it Undecided. Every
