@@ -148,4 +148,21 @@ def main(argv=None):
 
 if __name__ == "__main__":
     sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-    sys.exit(main())
+    # Generated logic nests deeply (a sum of thousands of products is a chain of
+    # thousands of `|`): describe it on a thread with a large stack and a
+    # recursion limit to match, instead of failing on long expressions.
+    import threading
+    sys.setrecursionlimit(1_000_000)
+    threading.stack_size(1024 * 1024 * 1024)
+    result = []
+
+    def run():
+        try:
+            result.append(main())
+        except SystemExit as e:
+            result.append(e.code if isinstance(e.code, int) else 1)
+
+    worker = threading.Thread(target=run)
+    worker.start()
+    worker.join()
+    sys.exit(result[0] if result else 4)
