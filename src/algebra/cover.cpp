@@ -18,6 +18,8 @@
 
 #include "kerf/algebra/cover.h"
 
+#include <span>
+
 #include <algorithm>
 #include <numeric>
 
@@ -238,6 +240,19 @@ Cover makeCubeFree(const Cover& f, Cube* common) {
     }
     if (common) *common = std::move(c);
     return r;
+}
+
+bool disjointUnion(std::span<const Literal> a, std::span<const Literal> b, std::vector<Literal>& out) {
+    out.clear();
+    std::size_t i = 0, j = 0;
+    while (i < a.size() && j < b.size()) {
+        if (a[i] < b[j]) out.push_back(a[i++]);
+        else if (b[j] < a[i]) out.push_back(b[j++]);
+        else return false;
+    }
+    out.insert(out.end(), a.begin() + static_cast<std::ptrdiff_t>(i), a.end());
+    out.insert(out.end(), b.begin() + static_cast<std::ptrdiff_t>(j), b.end());
+    return true;
 }
 
 } // namespace kerf::algebra

@@ -73,19 +73,6 @@ bool isNormalized(const Cover& f) {
     return true;
 }
 
-// Is `a` (sorted) disjoint from `b` (sorted)? Writes a ∪ b into `out` when so.
-bool disjointUnion(std::span<const Literal> a, std::span<const Literal> b, std::vector<Literal>& out) {
-    out.clear();
-    std::size_t i = 0, j = 0;
-    while (i < a.size() && j < b.size()) {
-        if (a[i] < b[j]) out.push_back(a[i++]);
-        else if (b[j] < a[i]) out.push_back(b[j++]);
-        else return false;
-    }
-    out.insert(out.end(), a.begin() + static_cast<std::ptrdiff_t>(i), a.end());
-    out.insert(out.end(), b.begin() + static_cast<std::ptrdiff_t>(j), b.end());
-    return true;
-}
 
 } // namespace
 

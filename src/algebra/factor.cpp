@@ -110,18 +110,6 @@ Factored cubeNode(const Cube& c) {
     return makeAnd(std::move(kids));
 }
 
-bool disjointUnion(std::span<const Literal> a, std::span<const Literal> b, std::vector<Literal>& out) {
-    out.clear();
-    std::size_t i = 0, j = 0;
-    while (i < a.size() && j < b.size()) {
-        if (a[i] < b[j]) out.push_back(a[i++]);
-        else if (b[j] < a[i]) out.push_back(b[j++]);
-        else return false;
-    }
-    out.insert(out.end(), a.begin() + static_cast<std::ptrdiff_t>(i), a.end());
-    out.insert(out.end(), b.begin() + static_cast<std::ptrdiff_t>(j), b.end());
-    return true;
-}
 
 // The cover being factored, as a shrinking set of live cubes with literal
 // counts kept up to date, so that one step of the factoring loop costs about

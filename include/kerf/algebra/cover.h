@@ -86,6 +86,9 @@ Cube cubeDifference(const Cube& a, const Cube& b);
 /// Remove cubes contained in another cube of the cover (single-cube containment).
 void removeContainedCubes(Cover& f);
 
+/// Is sorted `a` disjoint from sorted `b`? Writes their union (sorted) into `out` when so.
+bool disjointUnion(std::span<const Literal> a, std::span<const Literal> b, std::vector<Literal>& out);
+
 /// Algebraic product of two covers (callers ensure disjoint support for a strictly algebraic result).
 Cover multiply(const Cover& a, const Cover& b);
 /// Algebraic sum (union of cube sets, normalised).
