@@ -55,6 +55,8 @@ std::size_t FactorCache::size() const { return impl_->best.size() + impl_->quick
 
 namespace {
 
+constexpr std::size_t kMaxFactoredCubes = 1000;
+
 // Merge arrival times two earliest first; depthOut[i] gets how many gates lie
 // between item i and the root.
 std::size_t balance(const std::vector<std::size_t>& times, std::vector<std::size_t>* depthOut) {
@@ -166,7 +168,10 @@ FactoredNetwork factorNetwork(const net::Network& net, int maxDepth, FactorCache
     for (net::NodeId v : order) {
         const Cover& cv = net.node(v).cover;
         sops[v] = sopForm(cv);
-        cand[v] = {&fc.best(cv), &fc.quick(cv), &sops[v]};
+        // Factoring a cover of thousands of cubes costs more than every pass
+        // together; such nodes are written as plain sums of products.
+        if (cv.cubes.size() > kMaxFactoredCubes) cand[v] = {&sops[v]};
+        else cand[v] = {&fc.best(cv), &fc.quick(cv), &sops[v]};
     }
     // Phase 1: earliest-arriving forms.
     std::vector<std::size_t> atMin(n, 0);

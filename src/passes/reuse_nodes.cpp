@@ -62,11 +62,17 @@ void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
     };
     long substituted = 0, viaComplement = 0, saved = 0, rejected = 0, divisions = 0;
     std::vector<std::uint32_t> count(net.nodeCount(), 0);
+    // Support size per node (only the node being rewritten changes in this pass).
+    std::vector<std::int64_t> suppSize(net.nodeCount(), -1);
+    auto supportSize = [&](net::NodeId g) {
+        if (suppSize[g] < 0) suppSize[g] = static_cast<std::int64_t>(varsOf(ws.cover(g)).size());
+        return static_cast<std::size_t>(suppSize[g]);
+    };
     for (net::NodeId f : net.topoOrder()) {
         for (int attempt = 0; attempt < 8; ++attempt) {
             if (!ws.live(f)) break;
             const Cover F = ws.cover(f);
-            if (detail::lits(F) < 3) break;
+            if (detail::lits(F) < 3 || F.cubes.size() > opts.maxCubes) break;
             std::vector<std::uint32_t> supp = varsOf(F);
             // Nodes whose whole support lies in supp.
             if (count.size() < net.nodeCount()) count.resize(net.nodeCount(), 0);
@@ -82,7 +88,8 @@ void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
             std::vector<net::NodeId> cands;
             for (net::NodeId g : seen) {
                 const Cover& G = ws.cover(g);
-                if (detail::lits(G) >= 2 && count[g] == varsOf(G).size()) cands.push_back(g);
+                if (detail::lits(G) >= 2 && G.cubes.size() <= opts.maxCubes && count[g] == supportSize(g))
+                    cands.push_back(g);
             }
             for (net::NodeId g : seen) count[g] = 0;
             if (cands.size() > opts.maxCandidates) {
@@ -119,6 +126,7 @@ void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
                 ws.begin();
                 ws.setCover(f, options[i].cover);
                 if (ws.commit()) {
+                    suppSize[f] = -1;
                     done = true;
                     ++substituted;
                     viaComplement += options[i].comp;

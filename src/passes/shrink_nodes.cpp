@@ -26,6 +26,9 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx)
         const Cover& cv = ws.cover(v);
         std::size_t before = detail::lits(cv);
         if (before <= 1) continue;
+        // Very large covers over many variables: nothing but containment would
+        // run on them, and that is quadratic; leave them alone.
+        if (cv.cubes.size() > 4 * opts.minimize.maxHeuristicCubes && cv.support().size() > 16) continue;
         Cover best = minimizeCover(cv, opts.minimize);
         bool flip = false;
         if (opts.allowComplement && (!ws.fanouts(v).empty() || ws.outputRefs(v) > 0)) {

@@ -51,7 +51,10 @@ void tidy(net::Network& net, PassContext& ctx) {
             nc.cubes.push_back(Cube(std::move(ls)));
         }
         std::size_t before = cv.literalCount(), cubesBefore = cv.cubes.size();
-        detail::canonical(nc);
+        // Containment is quadratic in the cubes: very large covers get it
+        // only when a substitution changed them.
+        if (changed || nc.cubes.size() <= 2000) detail::canonical(nc);
+        else nc.normalize();
         if (!changed && (nc.literalCount() != before || nc.cubes.size() != cubesBefore)) ++simplified;
         cv = std::move(nc);
         if (cv.isZero()) { repl[v] = net::kFalse; ++constants; continue; }

@@ -15,6 +15,7 @@ using algebra::literalNegated;
 using algebra::makeLiteral;
 using algebra::literalVar;
 using algebra::negateLiteral;
+using net::Node;
 
 void canonical(Cover& f) {
     bool constant = false;
@@ -129,19 +130,44 @@ void Workspace::ensureSize() {
     }
 }
 
-void Workspace::indexCover(NodeId v, const Cover& c, bool add) {
+namespace {
+std::vector<NodeId> coverVars(const Cover& c) {
+    std::vector<NodeId> vs;
     for (const Cube& cube : c.cubes)
-        for (Literal l : cube.lits) {
-            NodeId u = literalVar(l);
-            auto& fo = fanouts_[u];
-            auto it = std::find(fo.begin(), fo.end(), v);
-            if (add) {
-                if (it == fo.end()) fo.push_back(v);
-            } else if (it != fo.end()) {
-                *it = fo.back();
-                fo.pop_back();
-            }
+        for (Literal l : cube.lits) vs.push_back(literalVar(l));
+    std::sort(vs.begin(), vs.end());
+    vs.erase(std::unique(vs.begin(), vs.end()), vs.end());
+    return vs;
+}
+} // namespace
+
+void Workspace::indexCover(NodeId v, const Cover& c, bool add) {
+    for (NodeId u : coverVars(c)) {
+        auto& fo = fanouts_[u];
+        auto it = std::find(fo.begin(), fo.end(), v);
+        if (add) {
+            if (it == fo.end()) fo.push_back(v);
+        } else if (it != fo.end()) {
+            *it = fo.back();
+            fo.pop_back();
         }
+    }
+}
+
+void Workspace::reindex(NodeId v, const Cover& before, const Cover& after) {
+    // Only variables that appear or disappear touch the fanout lists.
+    std::vector<NodeId> a = coverVars(before), b = coverVars(after), gone, come;
+    std::set_difference(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(gone));
+    std::set_difference(b.begin(), b.end(), a.begin(), a.end(), std::back_inserter(come));
+    for (NodeId u : gone) {
+        auto& fo = fanouts_[u];
+        auto it = std::find(fo.begin(), fo.end(), v);
+        if (it != fo.end()) { *it = fo.back(); fo.pop_back(); }
+    }
+    for (NodeId u : come) {
+        auto& fo = fanouts_[u];
+        if (std::find(fo.begin(), fo.end(), v) == fo.end()) fo.push_back(v);
+    }
 }
 
 void Workspace::begin() {
@@ -164,9 +190,8 @@ NodeId Workspace::addNode(Cover c) {
 }
 
 void Workspace::setCoverRaw(NodeId v, Cover c) {
-    indexCover(v, net_.node(v).cover, false);
+    reindex(v, net_.node(v).cover, c);
     net_.node(v).cover = std::move(c);
-    indexCover(v, net_.node(v).cover, true);
 }
 
 void Workspace::setCover(NodeId v, Cover c) {
@@ -240,10 +265,15 @@ bool Workspace::commit() {
 void Workspace::rollback() {
     for (auto it = arrivals_.rbegin(); it != arrivals_.rend(); ++it) at_[it->id] = it->old;
     for (auto it = covers_.rbegin(); it != covers_.rend(); ++it) {
-        indexCover(it->id, net_.node(it->id).cover, false);
-        net_.node(it->id).cover = std::move(it->old);
-        net_.node(it->id).dead = it->wasDead;
-        if (!it->wasDead) indexCover(it->id, net_.node(it->id).cover, true);
+        Node& node = net_.node(it->id);
+        if (node.dead == it->wasDead && !node.dead) {
+            reindex(it->id, node.cover, it->old);
+        } else {
+            if (!node.dead) indexCover(it->id, node.cover, false);
+            if (!it->wasDead) indexCover(it->id, it->old, true);
+        }
+        node.cover = std::move(it->old);
+        node.dead = it->wasDead;
     }
     for (NodeId id : created_) {
         indexCover(id, net_.node(id).cover, false);

@@ -75,6 +75,7 @@ public:
 private:
     void ensureSize();
     void indexCover(NodeId v, const Cover& c, bool add);
+    void reindex(NodeId v, const Cover& before, const Cover& after);
     void setCoverRaw(NodeId v, Cover c);
 
     struct CoverChange { NodeId id; Cover old; bool wasDead; };

@@ -9,7 +9,7 @@
 // synthetic decoders (1k, 10k, 100k product terms over 32–64 inputs).
 // Every result is also checked by random simulation against the input.
 //
-// Usage: passes_bench [--effort E] [--recipe R] [--epfl DIR] [--skip-synthetic] [--only NAME|synthetic] [-v]
+// Usage: passes_bench [--effort E] [--recipe R] [--epfl DIR] [--skip-synthetic] [--only NAME|synthetic] [--min-terms N] [--max-terms N] [-v]
 #include "../unit/passes_support.h"
 
 #include "kerf/passes/engine.h"
@@ -124,7 +124,7 @@ int main(int argc, char** argv) {
     std::string effort = "default", dir, only;
     bool synthetic = true;
     int verbose = 0;
-    std::size_t maxTerms = 0;
+    std::size_t maxTerms = 0, minTerms = 0;
     for (int i = 1; i < argc; ++i) {
         std::string a = argv[i];
         if (a == "--effort" && i + 1 < argc) effort = argv[++i];
@@ -133,6 +133,7 @@ int main(int argc, char** argv) {
         else if (a == "--recipe" && i + 1 < argc) gRecipe = argv[++i];
         else if (a == "--skip-synthetic") synthetic = false;
         else if (a == "--max-terms" && i + 1 < argc) maxTerms = std::stoul(argv[++i]);
+        else if (a == "--min-terms" && i + 1 < argc) minTerms = std::stoul(argv[++i]);
         else if (a == "-v") ++verbose;
         else {
             std::fprintf(stderr, "usage: passes_bench [--effort E] [--recipe R] [--epfl DIR] [--only NAME] [--skip-synthetic] [-v]\n");
@@ -180,6 +181,7 @@ int main(int argc, char** argv) {
                     "depth", "seconds", "peakRSS");
         struct Cfg { std::size_t terms, inputs, outputs; };
         for (Cfg c : {Cfg{1000, 32, 16}, Cfg{10000, 48, 32}, Cfg{100000, 64, 64}}) {
+            if (minTerms && c.terms < minTerms) continue;
             if (maxTerms && c.terms > maxTerms) continue;
             Figures f;
             long rss = 0;

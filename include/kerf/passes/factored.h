@@ -3,7 +3,8 @@
 //
 // Each node gets algebra::factor(cover, Best) unless that would push the
 // network deeper than the bound, in which case the node keeps the form with
-// the earliest arrival among {Best, Quick, the plain sum of products}. The
+// the earliest arrival among {Best, Quick, the plain sum of products}.
+// Covers of more than 1000 cubes are not factored (plain sum of products). The
 // writer prints exactly these forms, so the summary and the targets count
 // exactly what is written.
 #pragma once

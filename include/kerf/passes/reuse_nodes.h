@@ -16,6 +16,7 @@ struct ReuseOptions {
     bool complements = true;           ///< argument "plain" turns complement divisors off
     std::size_t maxCandidates = 200;   ///< divisor nodes tried per node
     std::size_t complementCubeCap = 16;
+    std::size_t maxCubes = 512;        ///< larger covers are neither divided nor used as divisors
 };
 
 void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx);
