@@ -489,15 +489,19 @@ class Conv:
                 return c
         return {"op": "replicate", "width": w, "signed": s, "count": n, "part": p}
 
+    def unpacked_select(self, e, lvalue):
+        """A select from something that is not a packed vector: a constant if slang can fold it."""
+        if not lvalue:
+            c = self.fold(e)
+            if c is not None:
+                return c
+        raise Unsupported("selects from '%s', which is not a packed vector" % _text(e.value))
+
     def x_element(self, e, lvalue=False):
         v = e.value
         vt = v.type
         if not vt.isIntegral:
-            if not lvalue:
-                c = self.fold(e)
-                if c is not None:
-                    return c
-            raise Unsupported("selects from '%s', which is not a packed vector" % _text(v))
+            return self.unpacked_select(e, lvalue)
         w, s = self.ws(e)
         val = self.lvalue(v) if lvalue else self.expr(v)
         idx = self.expr(e.selector)
@@ -512,11 +516,7 @@ class Conv:
         v = e.value
         vt = v.type
         if not vt.isIntegral:
-            if not lvalue:
-                c = self.fold(e)
-                if c is not None:
-                    return c
-            raise Unsupported("selects from '%s', which is not a packed vector" % _text(v))
+            return self.unpacked_select(e, lvalue)
         w, s = self.ws(e)
         msb, lsb = dim_range(vt)
         val = self.lvalue(v) if lvalue else self.expr(v)
