@@ -78,7 +78,8 @@ void printTable(const ProofResult& r) {
 
 } // namespace
 
-ProofResult proveEquivalent(const net::Network& a, const net::Network& b, const ProofOptions& opts) {
+ProofResult proveEquivalent(const net::Network& a, const net::Network& b, const ProofOptions& opts,
+                            const net::Network* dontCaresA) {
     auto t0 = std::chrono::steady_clock::now();
     checkUnique(a, "first");
     checkUnique(b, "second");
@@ -106,12 +107,32 @@ ProofResult proveEquivalent(const net::Network& a, const net::Network& b, const 
     for (net::NodeId id : b.inputs()) g.input(b.node(id).name);
     std::vector<AigLit> litsA = g.addNetwork(a);
     std::vector<AigLit> litsB = g.addNetwork(b);
+    // Don't-cares of the first design: both sides are compared under ~dc,
+    // which is equal exactly when they agree wherever dc is 0.
+    std::unordered_map<std::string, std::size_t> dcIndex;
+    std::vector<AigLit> litsDc;
+    if (dontCaresA) {
+        checkUnique(*dontCaresA, "don't-care");
+        for (net::NodeId id : dontCaresA->inputs()) g.input(dontCaresA->node(id).name);
+        litsDc = g.addNetwork(*dontCaresA);
+        for (std::size_t k = 0; k < dontCaresA->outputs().size(); ++k)
+            dcIndex.emplace(dontCaresA->outputs()[k].name, k);
+    }
     std::vector<std::pair<AigLit, AigLit>> pairs;
     std::vector<std::size_t> partner;
+    std::vector<std::ptrdiff_t> dcOf;   // per output of a: index into litsDc, or -1
     for (std::size_t i = 0; i < a.outputs().size(); ++i) {
         std::size_t j = outB.at(a.outputs()[i].name);
         partner.push_back(j);
-        pairs.emplace_back(litsA[i], litsB[j]);
+        auto d = dcIndex.find(a.outputs()[i].name);
+        if (d == dcIndex.end()) {
+            dcOf.push_back(-1);
+            pairs.emplace_back(litsA[i], litsB[j]);
+        } else {
+            dcOf.push_back(static_cast<std::ptrdiff_t>(d->second));
+            AigLit care = aigNot(litsDc[d->second]);
+            pairs.emplace_back(g.andOf(litsA[i], care), g.andOf(litsB[j], care));
+        }
     }
 
     PairsReport rep = provePairs(g, pairs, opts);
@@ -140,10 +161,13 @@ ProofResult proveEquivalent(const net::Network& a, const net::Network& b, const 
                                        failing.begin() + std::min(failing.size(), start + 64));
         std::vector<std::uint64_t> simA = net::simulate(a, inputWords(a, batch));
         std::vector<std::uint64_t> simB = net::simulate(b, inputWords(b, batch));
+        std::vector<std::uint64_t> simDc;
+        if (dontCaresA) simDc = net::simulate(*dontCaresA, inputWords(*dontCaresA, batch));
         for (std::size_t t = 0; t < batch.size(); ++t) {
             std::size_t i = batch[t];
             bool va = (simA[i] >> t) & 1u, vb = (simB[partner[i]] >> t) & 1u;
-            if (va == vb)
+            bool free = dcOf[i] >= 0 && ((simDc[static_cast<std::size_t>(dcOf[i])] >> t) & 1u);
+            if (va == vb || free)
                 throw Error(fmt::format("equivalence check: internal error: the counterexample found for output "
                                         "'{}' does not make the designs differ when replayed",
                                         a.outputs()[i].name),

@@ -235,3 +235,29 @@ TEST(ProofEquivalence, VerboseTableGoesToStderr) {
     EXPECT_NE(err.find("kerf proof: equivalent"), std::string::npos) << err;
     EXPECT_NE(err.find("simulation"), std::string::npos) << err;
 }
+
+TEST(ProofEquivalence, DontCaresOfTheFirstDesignAreFreedom) {
+    // y = x1 & x2 in A, with y free wherever x1 = 0 (the source assigns x there).
+    // B = x2 agrees wherever x1 = 1, so it is equivalent under the don't-cares and
+    // different without them; B = ~x2 differs where x1 = 1, and the counterexample
+    // must lie in the care set. Reference: the truth tables, by exhaustion.
+    Network a, dc, b, c;
+    auto ia = addInputs(a, "x", 2);
+    a.addOutput("y", and2(a, pos(ia[0]), pos(ia[1])));
+    auto id = addInputs(dc, "x", 2);
+    dc.addOutput("y", neg(id[0]));
+    auto ib = addInputs(b, "x", 2);
+    b.addOutput("y", pos(ib[1]));
+    auto ic = addInputs(c, "x", 2);
+    c.addOutput("y", neg(ic[1]));
+
+    EXPECT_EQ(proveEquivalent(a, b, {}).verdict, Verdict::Different);
+    EXPECT_EQ(proveEquivalent(a, b, {}, &dc).verdict, Verdict::Equivalent);
+    ProofResult r = proveEquivalent(a, c, {}, &dc);
+    ASSERT_EQ(r.verdict, Verdict::Different);
+    ASSERT_TRUE(r.cex.has_value());
+    bool x1 = false;
+    for (const auto& [n, v] : r.cex->inputs)
+        if (n == a.node(ia[0]).name) x1 = v;
+    EXPECT_TRUE(x1) << "the counterexample lies where the output is a don't-care";
+}

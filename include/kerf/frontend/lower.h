@@ -55,6 +55,9 @@ struct Lowered {
     std::vector<std::string> dissolved;///< internal signals whose declarations go
     std::vector<WordOp> wordOps;
     std::vector<std::string> notes;    ///< informational remarks for the user
+    /// Don't-care conditions of `net`'s outputs, by output name (see the note
+    /// in kerf/network/network.h); no outputs when the source assigns no x.
+    net::Network dontCares;
 };
 
 /// Lower the module. Throws kerf::Error with a source location on

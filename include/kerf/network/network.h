@@ -46,6 +46,13 @@ struct Output {
     Literal driver = kFalse;
 };
 
+// Don't-care conditions travel beside a network, never inside it, so that no
+// pass has to preserve logic that only describes freedom: a second Network
+// over the same input names whose output named like a main output is 1 for
+// the input values where that output may take any value (the source assigns
+// x there; IEEE 1364.1 / 1800 synthesis reading). Outputs without an entry
+// have no don't-cares. The proof compares only where the condition is 0.
+
 /// A DAG of sum-of-products nodes.
 class Network {
 public:

@@ -93,7 +93,13 @@ struct ProofResult {
 /// for every assignment of the inputs (matched by name). Throws kerf::Error
 /// when the output names differ or a side repeats an input or output name.
 /// An input present on one side only is allowed (unused on the other side).
-ProofResult proveEquivalent(const net::Network& a, const net::Network& b, const ProofOptions& opts = {});
+///
+/// `dontCaresA`, when given, holds the don't-care conditions of `a`'s outputs
+/// (see the note on don't-care conditions in kerf/network/network.h): an output of `a` whose name is also an output of
+/// `dontCaresA` is compared only where that condition is 0 (where the source
+/// assigns a value rather than x). Its inputs are matched by name too.
+ProofResult proveEquivalent(const net::Network& a, const net::Network& b, const ProofOptions& opts = {},
+                            const net::Network* dontCaresA = nullptr);
 
 // ---- graph-level interface (used by proveEquivalent; also for tests) ----
 
