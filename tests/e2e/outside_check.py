@@ -1,0 +1,356 @@
+"""outside_check — compare an original and a rewritten module with tools that are not kerf.
+
+Used by the test-design corpus (tests/e2e/test_rtl_corpus.py, designs in tests/rtl/) and by
+the random-module generator (tests/randrtl/). kerf's own proof reads both sides through kerf's
+lowering, so it cannot see a lowering mistake; these checks can:
+
+- Ports come from slang (pyslang) elaborating the module directly, with the parameter
+  overrides of the run (`-G NAME=VALUE`), not from kerf's reader.
+- Behaviour is compared by Icarus Verilog (outside reference: the simulator `iverilog`/`vvp`)
+  in its four-valued semantics: inputs are driven with 0/1 only, every output bit is compared
+  wherever the original is not x (kerf's documented don't-care policy: an x the original shows
+  lets the rewrite show anything), and exactly (`!==`) when the run used `--keep-x`. A z in
+  the original must be a z in the rewrite (tri-state logic is kept as written).
+- Lint is Verilator's (outside reference: `verilator --lint-only`); a rewrite may not add a
+  warning the original does not have.
+
+Many module pairs can be compared in one simulator run: every pair gets its own testbench
+module, all of them top-level, so Icarus runs them side by side and prints one result line each.
+"""
+import os
+import re
+import subprocess
+
+# ---------------------------------------------------------------------------------------------
+# slang: ports and module names
+
+
+def _quote(arg):
+    """One argument for slang's command-line splitter (which honours quotes and backslashes)."""
+    if arg and not any(c in arg for c in ' \t\r\n"\'\\#'):
+        return arg
+    return '"' + arg.replace("\\", "\\\\").replace('"', '\\"') + '"'
+
+
+def _slang_compile(files, top, defines=(), params=(), include_dirs=()):
+    from pyslang import driver as sdriver
+    cmd = ["outside_check"]
+    for d in include_dirs:
+        cmd += ["-I", d]
+    for d in defines:
+        cmd += ["-D", d]
+    for p in params:
+        cmd += ["-G", p]
+    cmd += ["--top", top] + list(files)
+    drv = sdriver.Driver()
+    drv.addStandardArgs()
+    if not drv.parseCommandLine(" ".join(_quote(a) for a in cmd), sdriver.CommandLineOptions()) \
+            or not drv.processOptions():
+        raise RuntimeError(f"slang rejected the command line {cmd}")
+    drv.parseAllSources()
+    comp = drv.createCompilation()
+    errors = [d for d in comp.getAllDiagnostics() if d.isError()]
+    if errors:
+        raise RuntimeError(f"slang reports {len(errors)} error(s) on {files} (top {top}, defines {list(defines)}, "
+                           f"params {list(params)})")
+    return comp
+
+
+def signals(files, top, defines=(), params=(), include_dirs=()):
+    """(ports, internals) of `top` as slang elaborates it.
+
+    ports: dicts with name, dir (in/out/inout), width, signed, in declaration order.
+    internals: dicts with name and width of the nets and variables declared directly in the
+    module body (not in generate blocks) with an integral type — the names a testbench can
+    refer to, which a rewrite must keep declared and driven with the same values."""
+    from pyslang import ast
+    comp = _slang_compile(files, top, defines, params, include_dirs)
+    tops = [t for t in comp.getRoot().topInstances if t.name == top]
+    if not tops:
+        raise RuntimeError(f"slang finds no top module {top} in {files}")
+    out = []
+    for p in tops[0].body.portList:
+        d = str(p.direction).split(".")[-1]
+        out.append({"name": p.name, "dir": {"In": "in", "Out": "out", "InOut": "inout"}.get(d, d.lower()),
+                    "width": p.type.bitWidth, "signed": bool(p.type.isSigned)})
+    names = {p["name"] for p in out}
+    internals = []
+    for m in tops[0].body:
+        if m.kind in (ast.SymbolKind.Net, ast.SymbolKind.Variable) and m.name and m.name not in names \
+                and m.type.isIntegral:
+            internals.append({"name": m.name, "width": m.type.bitWidth})
+    return out, internals
+
+
+def ports(files, top, defines=(), params=(), include_dirs=()):
+    """The ports of `top` as slang elaborates it: dicts with name, dir (in/out/inout), width, signed."""
+    return signals(files, top, defines, params, include_dirs)[0]
+
+
+def module_names(text):
+    """(name, byte offset of the name) of every module declared in `text`, from slang's syntax tree."""
+    from pyslang import syntax
+    tree = syntax.SyntaxTree.fromText(text)
+    root = tree.root
+    members = [root] if root.kind == syntax.SyntaxKind.ModuleDeclaration else list(getattr(root, "members", []) or [])
+    found = []
+    for m in members:
+        if m.kind == syntax.SyntaxKind.ModuleDeclaration:
+            found.append((m.header.name.valueText, m.header.name.location.offset))
+    return found
+
+
+def renamed(text, old, new):
+    """`text` with the declaration of module `old` renamed to `new` (located by slang; nothing else changes)."""
+    raw = text.encode()
+    hits = [off for name, off in module_names(text) if name == old]
+    if len(hits) != 1:
+        raise RuntimeError(f"expected one declaration of module {old}, found {len(hits)}")
+    off = hits[0]
+    assert raw[off:off + len(old)] == old.encode()
+    return (raw[:off] + new.encode() + raw[off + len(old):]).decode()
+
+
+# ---------------------------------------------------------------------------------------------
+# Icarus Verilog
+
+
+def run(cmd, timeout=None, **kw):
+    return subprocess.run(cmd, capture_output=True, text=True, timeout=timeout, **kw)
+
+
+def _vname(n):
+    ok = (n[:1].isalpha() or n[:1] == "_") and all(c.isalnum() or c in "_$" for c in n)
+    return n if ok else "\\" + n + " "
+
+
+class Pair:
+    """One comparison: module `ref` (the original) against `new` (the rewrite), same ports.
+
+    params: list of "NAME=VALUE" overrides applied to both instances.
+    exact:  compare every bit with !== (runs with --keep-x); otherwise skip bits where ref is x.
+    clock:  name of a clock input (toggled after each vector) or None.
+    reset:  (name, active value) of a reset input held active for the first cycles, or None.
+    internals: internal signals (name, width) compared like outputs through hierarchical
+            references (ua.NAME against ub.NAME): testbenches of real projects probe them.
+    care:   a Verilog condition (referring to the original instance as `ua`, e.g. `ua.op != 3`)
+            outside which nothing is compared: inputs the design declares impossible, such as
+            a `unique case` selector that matches no item (the language's reading: no item
+            matches only on an illegal input).
+    """
+
+    def __init__(self, tag, ref, new, port_list, params=(), exact=False, clock=None, reset=None,
+                 vectors=2000, exhaustive_limit=14, seed=1, care=None, internals=()):
+        self.tag, self.ref, self.new, self.ports = tag, ref, new, port_list
+        self.care = care
+        self.internals = list(internals)
+        self.params, self.exact, self.clock, self.reset = list(params), exact, clock, reset
+        self.vectors, self.exhaustive_limit, self.seed = vectors, exhaustive_limit, seed
+
+
+def _param_text(params):
+    if not params:
+        return ""
+    parts = []
+    for p in params:
+        k, v = p.split("=", 1)
+        parts.append(f".{k}({v})")
+    return " #(" + ", ".join(parts) + ")"
+
+
+def testbench_module(pair, name, finish=False):
+    """A testbench module for one pair; prints `KERF_TB <tag> errors=E known=K total=T vectors=V`."""
+    special = {pair.clock} | ({pair.reset[0]} if pair.reset else set())
+    ins = [p for p in pair.ports if p["dir"] == "in" and p["name"] not in special]
+    outs = [p for p in pair.ports if p["dir"] != "in"]
+    total = sum(p["width"] for p in ins)
+    L = [f"module {name};"]
+    for i, p in enumerate(ins):
+        L.append(f"  reg [{p['width'] - 1}:0] in{i};")
+    if pair.clock:
+        L.append("  reg clk_r;")
+    if pair.reset:
+        L.append("  reg rst_r;")
+    for i, p in enumerate(outs):
+        L.append(f"  wire [{p['width'] - 1}:0] ra{i}, rb{i};")
+
+    def conns(side):
+        c = [f".{_vname(p['name'])}(in{i})" for i, p in enumerate(ins)]
+        c += [f".{_vname(p['name'])}(r{side}{i})" for i, p in enumerate(outs)]
+        if pair.clock:
+            c.append(f".{_vname(pair.clock)}(clk_r)")
+        if pair.reset:
+            c.append(f".{_vname(pair.reset[0])}(rst_r)")
+        return ", ".join(c)
+
+    for j, s in enumerate(pair.internals):
+        L.append(f"  wire [{s['width'] - 1}:0] ia{j} = ua.{_vname(s['name'])};")
+        L.append(f"  wire [{s['width'] - 1}:0] ib{j} = ub.{_vname(s['name'])};")
+    L.append(f"  {pair.ref}{_param_text(pair.params)} ua ({conns('a')});")
+    L.append(f"  {pair.new}{_param_text(pair.params)} ub ({conns('b')});")
+    L.append("  integer k, b, errors, known, total, seed, mode;")
+    L.append(f"  reg [{max(total, 1) - 1}:0] all_in;")
+    L.append("  task compare; begin")
+    if pair.care:
+        L.append(f"    if ({pair.care}) begin")
+    compared = [(f"ra{i}", f"rb{i}", p["name"], p["width"]) for i, p in enumerate(outs)]
+    compared += [(f"ia{j}", f"ib{j}", "internal " + s["name"], s["width"]) for j, s in enumerate(pair.internals)]
+    for ra, rb, pname, w in compared:
+        L.append(f"    for (b = 0; b < {w}; b = b + 1) begin")
+        L.append("      total = total + 1;")
+        L.append(f"      if ({ra}[b] !== 1'bx) known = known + 1;")
+        if pair.exact:
+            L.append(f"      if ({ra}[b] !== {rb}[b]) begin")
+        else:
+            L.append(f"      if ({ra}[b] !== 1'bx && {ra}[b] !== {rb}[b]) begin")
+        L.append("        errors = errors + 1;")
+        L.append(f"        if (errors <= 8) $display(\"KERF_MISMATCH {pair.tag} vector %0d: {pname}[%0d] "
+                 f"original %b rewrite %b (original %b, rewrite %b, inputs %b)\", k, b, {ra}[b], {rb}[b], "
+                 f"{ra}, {rb}, all_in);")
+        L.append("      end")
+        L.append("    end")
+    if pair.care:
+        L.append("    end")
+    L.append("  end endtask")
+    split = []
+    pos = 0
+    for i, p in enumerate(ins):
+        split.append(f"in{i} = all_in[{pos + p['width'] - 1}:{pos}];")
+        pos += p["width"]
+    words = (max(total, 1) + 31) // 32
+    L.append("  initial begin")
+    L.append(f"    errors = 0; known = 0; total = 0; seed = {pair.seed}; all_in = 0;")
+    L.append("    " + " ".join(split))
+    if pair.clock:
+        L.append("    clk_r = 0;")
+    if pair.reset:
+        L.append(f"    rst_r = {pair.reset[1]};")
+        if pair.clock:
+            L.append("    #1 clk_r = 1; #1 clk_r = 0; #1 clk_r = 1; #1 clk_r = 0;")
+        L.append(f"    #1 rst_r = {1 - pair.reset[1]};")
+    exhaustive = total <= pair.exhaustive_limit and not pair.clock
+    if exhaustive:
+        L.append(f"    for (k = 0; k < {1 << total}; k = k + 1) begin")
+        L.append("      all_in = k;")
+    else:
+        L.append(f"    for (k = 0; k < {pair.vectors}; k = k + 1) begin")
+        # Uniform, mostly-zero and mostly-one words: common trade practice for random
+        # simulation of control logic (decoders see few ones, enables many).
+        L.append("      mode = k % 3;")
+        for w in range(words):
+            hi = min(total, 32 * (w + 1)) - 1
+            lo = 32 * w
+            L.append(f"      all_in[{hi}:{lo}] = mode == 0 ? $random(seed) : mode == 1 ? "
+                     f"($random(seed) & $random(seed) & $random(seed)) : "
+                     f"($random(seed) | $random(seed) | $random(seed));")
+    L.append("      " + " ".join(split))
+    L.append("      #1 compare;")
+    if pair.clock:
+        L.append("      clk_r = 1; #1 compare; clk_r = 0;")
+    L.append("    end")
+    L.append(f"    $display(\"KERF_TB {pair.tag} errors=%0d known=%0d total=%0d\", errors, known, total);")
+    if finish:
+        L.append("    $finish;")
+    L.append("  end")
+    L.append("endmodule")
+    return "\n".join(L) + "\n"
+
+
+_RESULT = re.compile(r"^KERF_TB (\S+) errors=(\d+) known=(\d+) total=(\d+)$", re.M)
+_MISMATCH = re.compile(r"^KERF_MISMATCH (\S+) (.*)$", re.M)
+
+
+class SimResult:
+    def __init__(self, ok, errors=0, known=0, total=0, detail=""):
+        self.ok, self.errors, self.known, self.total, self.detail = ok, errors, known, total, detail
+
+    def __repr__(self):
+        return f"SimResult(ok={self.ok}, errors={self.errors}, known={self.known}/{self.total}, {self.detail[:200]!r})"
+
+
+def simulate(pairs, sources, workdir, defines=(), include_dirs=(), timeout=600, simulator="icarus"):
+    """Compile `sources` (files holding every ref and new module and what they need) with one
+    testbench per pair, run them in one simulator run, and return {tag: SimResult}.
+
+    simulator "icarus" (the default and the reference: four-valued) or "verilator" (two-valued,
+    only for the few constructs Icarus 11 does not read: `case inside`, packed arrays of packed
+    structs; one pair per run). A compile failure returns the same failing SimResult for every
+    pair (callers split the batch to find the culprit)."""
+    tb_path = os.path.join(workdir, "kerf_outside_tb.sv")
+    with open(tb_path, "w") as f:
+        f.write("`timescale 1ns/1ps\n")
+        for i, p in enumerate(pairs):
+            f.write(testbench_module(p, f"kerf_tb_{i}", finish=simulator == "verilator"))
+    if simulator == "verilator":
+        assert len(pairs) == 1
+        obj = os.path.join(workdir, "kerf_outside_obj")
+        # An unoptimised C++ build: the testbench runs briefly, the compile is what costs.
+        cmd = ["verilator", "--binary", "-j", "1", "-Wno-fatal", "-Wno-lint", "-Wno-style",
+               "-MAKEFLAGS", "OPT_FAST=-O0 OPT_SLOW=-O0 OPT_GLOBAL=-O0",
+               "--top-module", "kerf_tb_0", "-Mdir", obj]
+        cmd += [f"-I{d}" for d in include_dirs] + [f"-D{d}" for d in defines]
+        cmd += list(sources) + [tb_path]
+        c = run(cmd, timeout=timeout)
+        if c.returncode != 0:
+            msg = "verilator failed to compile: " + (c.stderr + c.stdout)[-3000:]
+            return {p.tag: SimResult(False, detail=msg) for p in pairs}
+        r = run([os.path.join(obj, "Vkerf_tb_0")], timeout=timeout)
+    else:
+        sim = os.path.join(workdir, "kerf_outside.vvp")
+        cmd = ["iverilog", "-g2012", "-o", sim]
+        for d in include_dirs:
+            cmd += ["-I", d]
+        for d in defines:
+            cmd += ["-D", d]
+        cmd += list(sources) + [tb_path]
+        c = run(cmd, timeout=timeout)
+        if c.returncode != 0:
+            msg = "iverilog failed to compile: " + (c.stderr + c.stdout)[-3000:]
+            return {p.tag: SimResult(False, detail=msg) for p in pairs}
+        r = run(["vvp", "-n", sim], timeout=timeout)
+    found = {m.group(1): m for m in _RESULT.finditer(r.stdout)}
+    mism = {}
+    for m in _MISMATCH.finditer(r.stdout):
+        mism.setdefault(m.group(1), []).append(m.group(2))
+    out = {}
+    for p in pairs:
+        m = found.get(p.tag)
+        if m is None:
+            out[p.tag] = SimResult(False, detail="the simulation printed no result: " + (r.stdout + r.stderr)[-2000:])
+            continue
+        e, k, t = int(m.group(2)), int(m.group(3)), int(m.group(4))
+        out[p.tag] = SimResult(e == 0, e, k, t, "\n".join(mism.get(p.tag, [])))
+    return out
+
+
+# ---------------------------------------------------------------------------------------------
+# Verilator
+
+
+_WARN = re.compile(r"^%(Warning|Error)(?:-([A-Z0-9_]+))?: (?:[^:\n]+:\d+:(?:\d+:)? )?(.*)$", re.M)
+
+
+def lint(files, top, defines=(), params=(), include_dirs=(), wall=True):
+    """Verilator lint (warnings never fatal): (no errors, set of (code, message) warnings, raw text).
+
+    Warnings are keyed by code and message (which names the signal), not by line, so the
+    warnings of an original and of its rewrite can be compared."""
+    cmd = ["verilator", "--lint-only", "-Wno-fatal", "--top-module", top]
+    if wall:
+        cmd.append("-Wall")
+    for d in include_dirs:
+        cmd += [f"-I{d}"]
+    for d in defines:
+        cmd += [f"-D{d}"]
+    for p in params:
+        cmd += [f"-G{p}"]
+    r = run(cmd + list(files))
+    warnings = set()
+    errors = []
+    for m in _WARN.finditer(r.stderr):
+        if m.group(1) == "Error":
+            if not m.group(3).startswith("Exiting due to"):
+                errors.append(m.group(0))
+        else:
+            warnings.add((m.group(2) or "", m.group(3).strip()))
+    return r.returncode == 0 and not errors, warnings, r.stderr
