@@ -47,12 +47,18 @@ int main(int argc, char** argv) {
     rs->add_option("--effort", ro.effort, "built-in recipe: fast, default or thorough")
         ->check(CLI::IsMember({"fast", "default", "thorough"}));
     rs->add_option("--recipe", ro.recipe, "custom pass sequence, e.g. \"tidy,inline-small:4,share-divisors\"");
-    rs->add_option("--max-depth", ro.maxDepth, "logic depth bound (default: the input's depth)");
+    rs->add_option("--max-depth", ro.maxDepth, "logic depth bound, 1 to 100000 (default: the input's depth)");
     rs->add_flag("-v,--verbose", ro.verbose, "print a table per pass (repeat for more detail)");
     rs->add_option("--report", ro.reportPath, "write the before/after figures as JSON to this file");
     rs->add_flag("--skip-proof", ro.skipProof, "do not prove the rewrite (the output says so)");
     rs->add_option("--proof-budget", ro.proofBudget, "SAT conflicts the proof may spend before giving up");
-    rs->add_option("--wire-prefix", ro.prefix, "prefix of generated wire names");
+    rs->add_option("--wire-prefix", ro.prefix, "prefix of new wire names (default: none, names say what the wire computes)");
+    rs->add_option("--min-gain", ro.minGain,
+                   "rewrite a group of statements only when it saves at least this many two-input gates, "
+                   "or this percentage with a % sign (default 1)");
+    rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
+    rs->add_flag("--dissolve-internal", ro.dissolveInternal,
+                 "let internal signals dissolve into the logic (their declarations go); for flat netlists");
     rs->footer(kExitCodes);
 
     kerf::frontend::ReadOptions so;
@@ -60,6 +66,8 @@ int main(int argc, char** argv) {
     auto* st = app.add_subcommand("stats", "print size and depth of a module as read");
     addReadOptions(st, so);
     st->add_flag("--json", statsJson, "print JSON");
+    bool statsDissolve = false;
+    st->add_flag("--dissolve-internal", statsDissolve, "count as restructure --dissolve-internal does");
     st->footer(kExitCodes);
 
     kerf::flow::EquivOptions eq;
@@ -88,24 +96,37 @@ int main(int argc, char** argv) {
     try {
         if (*rs) {
             if (ro.inPlace && !ro.output.empty()) throw kerf::Error("--in-place and --output exclude each other");
+            if (ro.check && (!ro.output.empty() || ro.inPlace || ro.diff))
+                throw kerf::Error("--check writes nothing: it cannot be combined with -o, --in-place or --diff");
+            if (ro.diff && (!ro.output.empty() || ro.inPlace))
+                throw kerf::Error("--diff prints the change instead of writing: it cannot be combined with -o or --in-place");
+            if (!ro.recipe.empty() && rs->count("--effort") > 0)
+                throw kerf::Error("--recipe and --effort exclude each other: a recipe names its passes itself");
+            if (rs->count("--max-depth") > 0 && (ro.maxDepth < 1 || ro.maxDepth > 100000))
+                throw kerf::Error(fmt::format("--max-depth {} is out of range (1 to 100000)", ro.maxDepth));
             return kerf::flow::restructure(ro);
         }
         if (*st) {
-            auto r = kerf::flow::stats(so);
+            auto r = kerf::flow::stats(so, statsDissolve);
             if (statsJson) {
                 nlohmann::json j = {{"module", r.module}, {"inputs", r.metrics.inputs},
                                     {"outputs", r.metrics.outputs}, {"nodes", r.metrics.nodes},
                                     {"literals", r.metrics.literals}, {"gates", r.metrics.gates},
                                     {"depth", r.metrics.depth}, {"restructurable", r.restructurable},
-                                    {"kept", r.kept}};
+                                    {"kept", r.kept},
+                                    {"word_operators", {{"unit", "operators kept as written, each counted once; not in gates"},
+                                                        {"adders", r.words.adders}, {"multipliers", r.words.multipliers},
+                                                        {"comparators", r.words.comparators},
+                                                        {"shifters", r.words.shifters}, {"other", r.words.other}}}};
                 std::cout << j.dump(2) << "\n";
             } else {
                 std::cout << fmt::format("module     {}\ninputs     {}\noutputs    {}\nnodes      {}\n"
                                          "literals   {}\ngates      {}   (two-input AND/OR, inverters free)\n"
-                                         "depth      {}\nstatements {} restructurable, {} kept as written\n",
+                                         "depth      {}\nword ops   {}   (operators kept as written, each counted "
+                                         "once; not in gates)\nstatements {} restructurable, {} kept as written\n",
                                          r.module, r.metrics.inputs, r.metrics.outputs, r.metrics.nodes,
-                                         r.metrics.literals, r.metrics.gates, r.metrics.depth, r.restructurable,
-                                         r.kept);
+                                         r.metrics.literals, r.metrics.gates, r.metrics.depth, r.words.str(),
+                                         r.restructurable, r.kept);
             }
             return 0;
         }

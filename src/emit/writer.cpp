@@ -1,13 +1,27 @@
-// writer.cpp — readable Verilog for the network, spliced into the original file.
+// writer.cpp — restructured logic written back in place, only where it pays.
 //
-// Each logic node is printed as its factored form. A node used by more than
-// one consumer (or by another node) becomes a named wire; a node used by a
-// single output is written straight into that output's assignment. Targets
-// that are variables (reg/logic) are assigned in one combinational block,
-// nets by continuous assignments. The output is deterministic.
+// Plan, in order:
+//  1. Names. An output of the network is an author's signal; the node that
+//     drives it takes the signal's name, and every other use of that node
+//     refers to the name (a signal that is a plain copy of an input names that
+//     input). Nodes used more than once otherwise become new wires, named from
+//     what they compute (`paddr_5_2_is_0`, `psel_penable`) or from the first
+//     output they feed plus an index counted within that output's logic, so a
+//     change elsewhere never renumbers them. Each wire is stored in the
+//     polarity its uses need least inverted.
+//  2. Groups. Statements whose new logic shares a wire are one group; a group
+//     is rewritten only when its new logic saves at least --min-gain two-input
+//     gates (or percent) against its logic as written; otherwise every byte of
+//     it stays. Nothing to gain: the file comes back unchanged.
+//  3. Text. Each replaced statement is replaced where it stands and in its own
+//     kind (`assign`, net declaration, `always_comb`, `always @(*)`); new wires
+//     are declared just before the first statement of their group that uses
+//     them; a header comment goes above the first change. Indentation, tabs and
+//     line endings follow the file. Names the file declares after a point are
+//     never used before it.
 #include "kerf/emit/writer.h"
 
-#include "kerf/algebra/cover.h"
+#include "expression.h"
 
 #include <fmt/format.h>
 
@@ -15,13 +29,16 @@
 #include <cctype>
 #include <cstdio>
 #include <fstream>
+#include <functional>
 #include <map>
+#include <numeric>
 #include <set>
 #include <sstream>
 #include <unistd.h>
 
 namespace kerf::emit {
 
+using algebra::Factored;
 using algebra::literalNegated;
 using algebra::literalVar;
 using frontend::BitRef;
@@ -55,101 +72,66 @@ void writeFileAtomic(const std::string& path, const std::string& text) {
     }
 }
 
-namespace {
+MinGain MinGain::parse(const std::string& text) {
+    MinGain g;
+    std::string t = text;
+    if (!t.empty() && t.back() == '%') {
+        g.percent = true;
+        t.pop_back();
+    }
+    std::size_t used = 0;
+    try {
+        g.value = std::stod(t, &used);
+    } catch (const std::exception&) {
+        used = 0;
+    }
+    if (t.empty() || used != t.size() || !(g.value >= 0) || (g.percent && g.value > 100))
+        throw Error(fmt::format("--min-gain: '{}' is not a number of gates (e.g. 2) or a percentage (e.g. 5%)",
+                                text));
+    return g;
+}
 
-struct Edit {
-    std::size_t start, end;
-    std::string text;
-};
+std::string MinGain::str() const {
+    return percent ? fmt::format("{:g}%", value) : fmt::format("{:g} gate{}", value, value == 1 ? "" : "s");
+}
 
-bool blank(const std::string& s, std::size_t a, std::size_t b) {
-    for (std::size_t i = a; i < b; ++i)
-        if (s[i] != ' ' && s[i] != '\t' && s[i] != '\r') return false;
+bool validIdentifierPrefix(const std::string& p) {
+    if (p.empty()) return true;
+    if (!(std::isalpha(static_cast<unsigned char>(p[0])) || p[0] == '_')) return false;
+    for (char c : p)
+        if (!(std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '$')) return false;
     return true;
 }
 
-/// Widen a deletion to its whole line when nothing else is on it.
-Edit lineDeletion(const std::string& src, std::size_t s, std::size_t e) {
-    std::size_t ls = src.rfind('\n', s == 0 ? 0 : s - 1);
-    ls = (ls == std::string::npos || s == 0) ? 0 : ls + 1;
-    if (s > 0 && src[s - 1] == '\n') ls = s;
-    std::size_t le = src.find('\n', e);
-    if (le == std::string::npos) le = src.size();
-    if (blank(src, ls, s) && blank(src, e, le)) return {ls, std::min(le + 1, src.size()), ""};
-    return {s, e, ""};
+void setHeader(WriteResult& r, const std::string& line) {
+    if (r.headerLen == 0) return;
+    std::size_t start = r.text.find("//", r.headerPos);
+    std::string text = "// kerf: " + line;
+    r.text.replace(start, r.headerPos + r.headerLen - start, text);
+    r.headerLen = start - r.headerPos + text.size();
 }
 
+namespace {
+
+constexpr int kRankInternal = 0, kRankWire = 1 << 20, kRankPort = 2 << 20;
+
 std::string indentOf(const std::string& src, std::size_t pos) {
-    std::size_t ls = src.rfind('\n', pos == 0 ? 0 : pos - 1);
-    ls = (ls == std::string::npos || pos == 0) ? 0 : ls + 1;
+    std::size_t ls = pos;
+    while (ls > 0 && src[ls - 1] != '\n') --ls;
     std::size_t i = ls;
     while (i < src.size() && (src[i] == ' ' || src[i] == '\t')) ++i;
     return src.substr(ls, i - ls);
 }
 
-/// De Morgan: the complement of a factored form with the same literal count.
-algebra::Factored complementForm(const algebra::Factored& f) {
-    using K = algebra::Factored::Kind;
-    algebra::Factored r;
-    switch (f.kind) {
-    case K::Zero: r.kind = K::One; break;
-    case K::One: r.kind = K::Zero; break;
-    case K::Lit: r.kind = K::Lit; r.lit = algebra::negateLiteral(f.lit); break;
-    case K::And:
-    case K::Or:
-        r.kind = f.kind == K::And ? K::Or : K::And;
-        for (const auto& k : f.kids) r.kids.push_back(complementForm(k));
-        break;
-    }
-    return r;
+std::size_t lineStart(const std::string& src, std::size_t pos) {
+    while (pos > 0 && src[pos - 1] != '\n') --pos;
+    return pos;
 }
 
-/// Whole-line deletions separated only by blank space merge into one, and a
-/// deletion between two blank lines takes one of them along.
-std::vector<Edit> tidyDeletions(const std::string& src, std::vector<Edit> edits, const std::string& ind) {
-    std::sort(edits.begin(), edits.end(), [](const Edit& a, const Edit& b) {
-        return a.start != b.start ? a.start < b.start : a.end > b.end;
-    });
-    auto lineStart = [&](std::size_t p) { return p == 0 || src[p - 1] == '\n'; };
-    auto wsOnly = [&](std::size_t a, std::size_t b) {
-        for (std::size_t i = a; i < b; ++i)
-            if (!std::isspace(static_cast<unsigned char>(src[i]))) return false;
-        return true;
-    };
-    std::vector<Edit> out;
-    for (Edit e : edits) {
-        if (!out.empty() && e.start >= out.back().start && e.end <= out.back().end && e.text.empty())
-            continue;   // inside a deletion already made
-        if (!out.empty()) {
-            Edit& prev = out.back();
-            bool prevWholeLines = prev.text.empty() && lineStart(prev.start) && lineStart(prev.end);
-            if (e.start >= prev.end && prevWholeLines && wsOnly(prev.end, e.start)) {
-                if (e.text.empty()) {
-                    prev.end = std::max(prev.end, e.end);
-                    continue;
-                }
-                // A replacement right after deleted lines takes their place (with the indentation).
-                std::size_t ls = e.start;
-                while (ls > 0 && src[ls - 1] != '\n') --ls;
-                if (wsOnly(ls, e.start)) {
-                    prev.end = e.end;
-                    prev.text = ind + e.text;
-                    continue;
-                }
-            }
-        }
-        out.push_back(std::move(e));
-    }
-    for (Edit& e : out) {
-        if (!e.text.empty() || !lineStart(e.start) || !lineStart(e.end) || e.start == 0) continue;
-        std::size_t prevLine = src.rfind('\n', e.start - 1 == 0 ? 0 : e.start - 2);
-        prevLine = prevLine == std::string::npos ? 0 : prevLine + 1;
-        bool blankBefore = wsOnly(prevLine, e.start);
-        std::size_t nextEnd = src.find('\n', e.end);
-        if (nextEnd == std::string::npos) continue;
-        if (blankBefore && wsOnly(e.end, nextEnd)) e.end = nextEnd + 1;
-    }
-    return out;
+bool blankBetween(const std::string& s, std::size_t a, std::size_t b) {
+    for (std::size_t i = a; i < b; ++i)
+        if (s[i] != ' ' && s[i] != '\t' && s[i] != '\r') return false;
+    return true;
 }
 
 std::string bitText(const frontend::ModuleDesc& m, const BitRef& b) {
@@ -159,221 +141,1026 @@ std::string bitText(const frontend::ModuleDesc& m, const BitRef& b) {
     return fmt::format("{}[{}]", verilogName(b.signal), it->second.indexOf(b.offset));
 }
 
-} // namespace
+/// A name fragment from a reference: `paddr[3]` -> `paddr3`.
+std::string fragment(const std::string& text) {
+    std::string s;
+    for (char c : text)
+        if (std::isalnum(static_cast<unsigned char>(c)) || c == '_') s += c;
+    return s;
+}
 
-WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& low,
-                        const net::Network& network, const WriteOptions& opts) {
-    WriteResult res;
-    res.file = m.src.file;
-    const std::string src = readFile(m.src.file);
-    if (low.replaced.empty()) {
-        res.text = src;
-        return res;
+struct UnionFind {
+    std::vector<int> p;
+    explicit UnionFind(std::size_t n) : p(n) { std::iota(p.begin(), p.end(), 0); }
+    int find(int x) { return p[x] == x ? x : p[x] = find(p[x]); }
+    void unite(int a, int b) {
+        a = find(a), b = find(b);
+        if (a != b) p[std::max(a, b)] = std::min(a, b);
     }
-    res.changed = true;
+};
 
-    // ---- names of network variables
-    std::vector<std::string> names(network.nodeCount());
-    for (std::size_t i = 0; i < network.inputs().size(); ++i) names[network.inputs()[i]] = bitText(m, low.inputBits[i]);
+struct Edit {
+    std::size_t start, end;
+    std::string text;
+};
 
-    std::vector<NodeId> order = network.topoOrder();
-    std::vector<std::uint32_t> logicRefs(network.nodeCount(), 0);
-    for (NodeId id : order)
-        for (const auto& c : network.node(id).cover.cubes)
-            for (Literal l : c.lits) ++logicRefs[literalVar(l)];
-    std::vector<std::uint32_t> outRefs = network.outputRefs();
-    // Reachable nodes only.
-    std::vector<std::uint8_t> live(network.nodeCount(), 0);
-    {
+class Writer {
+public:
+    Writer(const WriteInput& in, const WriteOptions& o)
+        : m_(*in.module), low_(*in.lowered), orig_(*in.original), net_(*in.network), forms_(*in.forms), opts_(o),
+          origForms_(in.originalForms) {
+        oneGroup_ = in.oneGroup;
+    }
+    WriteResult run();
+
+private:
+    // ---- set-up
+    void indexMembers();
+    void indexOutputs();
+    std::size_t declPos(const std::string& signal) const;
+    bool isPort(const std::string& s) const {
+        auto it = m_.signals.find(s);
+        return it != m_.signals.end() && it->second.dir != frontend::PortDir::None;
+    }
+    int signalRank(const std::string& s) const;
+    VarRef refFor(const BitRef& b, int rankBase) const;
+
+    // ---- one planning round; returns false when a name had to be withdrawn
+    bool plan();
+    void chooseNames();
+    void chooseWires();
+    void nameWires();
+    void formGroups();
+    bool checkDeclarationOrder();
+    bool checkCycles();
+    void decide();
+
+    // ---- text
+    PExpr outputExpr(std::size_t i);
+    std::string statementsFor(int unitMember, const std::string& ind, std::set<std::string>* refsOut);
+    std::string wireBlock(int group, const std::string& ind);
+    std::string statement(const std::string& ind, const std::string& lead, const PExpr& e) const;
+
+    void collectRefs(const PExpr& e, std::set<std::string>& out) const;
+    void coneOf(NodeId v, bool viaDefinition, std::function<void(NodeId)> onWire,
+                std::function<void(NodeId)> onNode, std::function<void(const std::string&)> onName);
+
+    const frontend::ModuleDesc& m_;
+    const frontend::Lowered& low_;
+    const net::Network& orig_;
+    const net::Network& net_;
+    const std::vector<Factored>& forms_;
+    WriteOptions opts_;
+    std::string src_;
+
+    // members
+    std::map<int, const frontend::Member*> byId_;
+    std::vector<int> stmts_;                   ///< replaced members, one per statement (shared src merged)
+    std::map<int, int> stmtOf_;                ///< member id -> representative member id
+    std::map<std::string, int> unitOfSignal_;  ///< signal -> representative statement
+    std::map<int, std::vector<int>> membersOfStmt_;
+    // outputs
+    struct Out {
+        BitRef bit;
+        bool generated = false;   ///< word-operation operand
+        int stmt = -1;            ///< representative statement (member id); -1 for generated
+    };
+    std::vector<Out> outs_;
+    std::vector<std::uint8_t> allowed_;        ///< per output: may lend its name to its node
+    std::set<std::string> taken_;
+    bool oneGroup_ = false;
+
+    // per planning round
+    std::vector<std::optional<VarRef>> refs_;  ///< per variable
+    std::vector<int> definer_;                 ///< per node: the output that defines it (-1)
+    std::vector<std::uint8_t> isWire_;
+    std::vector<NodeId> wires_;                ///< topological order
+    std::vector<int> wireGroup_;
+    std::map<int, int> groupOfStmt_;
+    std::vector<StatementGroup> groups_;
+    std::vector<std::vector<int>> groupStmts_;
+    std::vector<std::vector<NodeId>> groupWires_;
+    std::vector<std::size_t> groupPos_;        ///< where the group's wires go (line start)
+    std::vector<std::string> namesKept_;
+    std::vector<VarRef> inputRefs_;            ///< per input variable: its own name
+    std::vector<int> aliasOf_;                 ///< per input variable: the output that lends it a name
+    const std::vector<Factored>* origForms_ = nullptr;
+};
+
+// ------------------------------------------------------------------ set-up
+
+void Writer::indexMembers() {
+    for (const auto& mem : m_.members) byId_[mem.id] = &mem;
+    std::map<std::pair<std::size_t, std::size_t>, int> bySrc;
+    std::vector<int> ids = low_.replaced;
+    std::sort(ids.begin(), ids.end(), [&](int a, int b) { return byId_.at(a)->src.start < byId_.at(b)->src.start; });
+    for (int id : ids) {
+        const auto* mem = byId_.at(id);
+        auto key = std::make_pair(mem->src.start, mem->src.end);
+        auto it = bySrc.find(key);
+        if (it == bySrc.end()) {
+            bySrc[key] = id;
+            stmts_.push_back(id);
+            stmtOf_[id] = id;
+        } else {
+            stmtOf_[id] = it->second;
+        }
+        membersOfStmt_[stmtOf_[id]].push_back(id);
+    }
+    // Statements writing one signal (bits split between them) go together.
+    UnionFind uf(ids.empty() ? 1 : static_cast<std::size_t>(*std::max_element(ids.begin(), ids.end())) + 1);
+    std::map<std::string, int> firstWriter;
+    for (int id : ids)
+        for (const auto& w : byId_.at(id)->writes) {
+            auto [it, fresh] = firstWriter.emplace(w, stmtOf_[id]);
+            if (!fresh) uf.unite(it->second, stmtOf_[id]);
+        }
+    for (auto& [w, s] : firstWriter) unitOfSignal_[w] = s;
+    // Re-point every statement at its unit's first statement.
+    std::map<int, int> unitRep;
+    for (int s : stmts_) unitRep[s] = uf.find(s);
+    for (auto& [w, s] : unitOfSignal_) s = unitRep[s];
+    std::vector<int> reps;
+    for (int s : stmts_) {
+        int r = unitRep[s];
+        if (r != s) {
+            for (int mid : membersOfStmt_[s]) membersOfStmt_[r].push_back(mid), stmtOf_[mid] = r;
+            membersOfStmt_.erase(s);
+        } else {
+            reps.push_back(s);
+        }
+    }
+    stmts_ = reps;
+}
+
+void Writer::indexOutputs() {
+    std::set<std::string> generated;
+    for (const auto& w : low_.wordOps)
+        for (const auto& o : w.operands)
+            if (o.generated) generated.insert(o.name);
+    outs_.resize(net_.outputs().size());
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        outs_[i].bit = low_.outputBits[i];
+        outs_[i].generated = generated.count(outs_[i].bit.signal) > 0;
+        auto it = unitOfSignal_.find(outs_[i].bit.signal);
+        outs_[i].stmt = it == unitOfSignal_.end() ? -1 : it->second;
+        if (!outs_[i].generated && outs_[i].stmt < 0)
+            throw Error(fmt::format("writer: no statement writes output '{}'", outs_[i].bit.signal), {},
+                        ExitCode::Internal);
+    }
+    allowed_.assign(outs_.size(), 1);
+    for (std::size_t i = 0; i < outs_.size(); ++i) allowed_[i] = !outs_[i].generated;
+    for (const auto& [n, s] : m_.signals) taken_.insert(n);
+    for (const auto& w : low_.wordOps) {
+        taken_.insert(w.result);
+        for (const auto& o : w.operands) taken_.insert(o.name);
+    }
+    oneGroup_ = oneGroup_ || !low_.wordOps.empty();
+}
+
+std::size_t Writer::declPos(const std::string& signal) const {
+    auto it = m_.signals.find(signal);
+    if (it == m_.signals.end()) return 0;   // generated by kerf: declared in the group's wire block
+    const auto& s = it->second;
+    if (s.decl && s.decl->file == m_.src.file) return s.decl->stmtStart;
+    if (s.dir != frontend::PortDir::None) return 0;
+    return s.src.file == m_.src.file ? s.src.start : 0;
+}
+
+int Writer::signalRank(const std::string& s) const {
+    for (std::size_t i = 0; i < m_.portOrder.size(); ++i)
+        if (m_.portOrder[i] == s) return kRankPort + static_cast<int>(i) * 4096;
+    return kRankInternal + static_cast<int>(std::min<std::size_t>(declPos(s), 255)) * 4096;
+}
+
+VarRef Writer::refFor(const BitRef& b, int rankBase) const {
+    VarRef r;
+    r.text = bitText(m_, b);
+    auto it = m_.signals.find(b.signal);
+    int width = it == m_.signals.end() ? 0 : it->second.width;
+    if (it != m_.signals.end() && (it->second.vector || it->second.width > 1)) {
+        r.signal = b.signal;
+        r.offset = b.offset;
+        r.width = width;
+        r.msb = it->second.msb;
+        r.lsb = it->second.lsb;
+    } else if (it == m_.signals.end()) {
+        r.signal = b.signal;
+        r.offset = b.offset;
+        r.width = 1 << 20;   // generated vector: bits only
+        r.msb = r.width - 1;
+        r.lsb = 0;
+    }
+    r.rank = rankBase + (4095 - std::min(b.offset, 4095));
+    return r;
+}
+
+// ------------------------------------------------------------------ planning
+
+void Writer::chooseNames() {
+    const std::size_t n = net_.nodeCount();
+    refs_.assign(n, std::nullopt);
+    definer_.assign(n, -1);
+    aliasOf_.assign(n, -1);
+    namesKept_.clear();
+    // Inputs by their own names, or by an author's signal that is a plain copy of them.
+    std::map<std::string, std::size_t> inputIndex;
+    for (std::size_t k = 0; k < net_.inputs().size(); ++k) {
+        const BitRef& b = low_.inputBits[k];
+        refs_[net_.inputs()[k]] = refFor(b, isPort(b.signal) ? kRankPort + signalRank(b.signal) - kRankPort
+                                                              : signalRank(b.signal));
+    }
+    // Candidate outputs per node: positive first, internal signals before ports, then output order.
+    std::vector<int> best(n, -1);
+    auto better = [&](std::size_t i, int j) {
+        if (j < 0) return true;
+        Literal di = net_.outputs()[i].driver, dj = net_.outputs()[static_cast<std::size_t>(j)].driver;
+        if (literalNegated(di) != literalNegated(dj)) return !literalNegated(di);
+        bool pi = isPort(outs_[i].bit.signal), pj = isPort(outs_[static_cast<std::size_t>(j)].bit.signal);
+        if (pi != pj) return !pi;
+        return false;
+    };
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        if (!allowed_[i]) continue;
+        Literal d = net_.outputs()[i].driver;
+        NodeId v = literalVar(d);
+        if (v == 0) continue;
+        if (!net_.isLogic(v)) {
+            // An internal copy of an input names that input.
+            if (literalNegated(d) || isPort(outs_[i].bit.signal)) continue;
+            if (net_.node(v).kind != net::NodeKind::Input) continue;
+        }
+        if (better(i, best[v])) best[v] = static_cast<int>(i);
+    }
+    for (NodeId v = 1; v < n; ++v) {
+        if (best[v] < 0) continue;
+        std::size_t i = static_cast<std::size_t>(best[v]);
+        VarRef r = refFor(outs_[i].bit, signalRank(outs_[i].bit.signal));
+        r.inverted = literalNegated(net_.outputs()[i].driver);
+        refs_[v] = r;
+        if (net_.isLogic(v)) definer_[v] = static_cast<int>(i);
+        else aliasOf_[v] = static_cast<int>(i);
+    }
+}
+
+void Writer::chooseWires() {
+    const std::size_t n = net_.nodeCount();
+    isWire_.assign(n, 0);
+    wires_.clear();
+    std::vector<std::uint8_t> live(n, 0);
+    std::vector<NodeId> work;
+    for (const auto& o : net_.outputs()) work.push_back(literalVar(o.driver));
+    while (!work.empty()) {
+        NodeId v = work.back();
+        work.pop_back();
+        if (live[v]) continue;
+        live[v] = 1;
+        if (!net_.isLogic(v)) continue;
+        for (const auto& c : net_.node(v).cover.cubes)
+            for (Literal l : c.lits) work.push_back(literalVar(l));
+    }
+    // Consumers: distinct logic nodes reading v, plus outputs that refer to v without defining it.
+    std::vector<std::uint32_t> users(n, 0), posUses(n, 0), negUses(n, 0);
+    std::vector<NodeId> order = net_.topoOrder();
+    for (NodeId u : order) {
+        if (!live[u]) continue;
+        std::set<NodeId> seen;
+        for (const auto& c : net_.node(u).cover.cubes)
+            for (Literal l : c.lits) seen.insert(literalVar(l));
+        for (NodeId v : seen) ++users[v];
+        std::function<void(const Factored&)> walk = [&](const Factored& f) {
+            if (f.kind == Factored::Kind::Lit) (literalNegated(f.lit) ? negUses : posUses)[literalVar(f.lit)]++;
+            for (const auto& k : f.kids) walk(k);
+        };
+        walk(forms_[u]);
+    }
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        Literal d = net_.outputs()[i].driver;
+        NodeId v = literalVar(d);
+        if (definer_[v] == static_cast<int>(i)) continue;
+        ++users[v];
+        (literalNegated(d) ? negUses : posUses)[v]++;
+    }
+    for (NodeId v : order) {
+        if (!live[v] || refs_[v]) continue;
+        if (users[v] <= 1) continue;
+        isWire_[v] = 1;
+        wires_.push_back(v);
+        VarRef r;
+        r.text = fmt::format("$w{}", v);   // placeholder until named
+        r.rank = kRankWire + static_cast<int>(wires_.size());
+        refs_[v] = r;
+    }
+    // Polarity: a wire used mostly inverted is stored inverted.
+    ExprBuilder eb(refs_, forms_);
+    for (NodeId v : wires_) {
+        int asIs = eb.inversions(v, false) + static_cast<int>(negUses[v]);
+        int inverted = eb.inversions(v, true) + static_cast<int>(posUses[v]);
+        if (inverted < asIs) refs_[v]->inverted = true;
+    }
+}
+
+void Writer::coneOf(NodeId root, bool viaDefinition, std::function<void(NodeId)> onWire,
+                    std::function<void(NodeId)> onNode, std::function<void(const std::string&)> onName) {
+    std::vector<NodeId> work{root};
+    std::set<NodeId> seen;
+    bool first = viaDefinition;
+    while (!work.empty()) {
+        NodeId v = work.back();
+        work.pop_back();
+        if (v == 0) continue;
+        bool expand = first;
+        first = false;
+        if (!expand) {
+            if (!seen.insert(v).second) continue;
+            if (refs_[v] && !isWire_[v]) {
+                onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
+                continue;
+            }
+            if (!net_.isLogic(v)) continue;
+            if (isWire_[v]) {
+                onWire(v);
+                continue;
+            }
+        }
+        onNode(v);
+        std::function<void(const Factored&)> walk = [&](const Factored& f) {
+            if (f.kind == Factored::Kind::Lit) work.push_back(literalVar(f.lit));
+            for (const auto& k : f.kids) walk(k);
+        };
+        walk(forms_[v]);
+    }
+}
+
+void Writer::nameWires() {
+    if (wires_.empty()) return;
+    ExprBuilder eb(refs_, forms_);
+    std::set<std::string> used = taken_;
+    std::vector<std::string> names(wires_.size());
+    std::map<NodeId, std::size_t> wireIndex;
+    for (std::size_t k = 0; k < wires_.size(); ++k) wireIndex[wires_[k]] = k;
+    auto claim = [&](std::string base) {
+        base = opts_.prefix + base;
+        std::string n = base;
+        for (int k = 2; used.count(n); ++k) n = fmt::format("{}_{}", base, k);
+        used.insert(n);
+        return n;
+    };
+    // Descriptive names where the wire is a comparison or a small AND/OR of names.
+    for (std::size_t k = 0; k < wires_.size(); ++k) {
+        NodeId v = wires_[k];
+        PExpr e = eb.definition(v, refs_[v]->inverted);
+        std::string name;
+        auto part = [&](const PExpr& p) -> std::string {
+            if (p.kind == PExpr::Kind::Ref && p.text[0] != '$') return (p.neg ? "n" : "") + fragment(p.text);
+            if (p.kind == PExpr::Kind::Compare && !p.neg) {
+                // "paddr[5:2] == 4'h0" -> "paddr_5_2_is_0"
+                std::string lhs = p.text.substr(0, p.text.find(' '));
+                bool eq = p.text.find("==") != std::string::npos;
+                std::string value = p.text.substr(p.text.find('\'') + 2);
+                std::string f;
+                for (char c : lhs) f += (c == '[' || c == ':') ? '_' : c;
+                if (!f.empty() && f.back() == ']') f.pop_back();
+                std::string out;
+                for (char c : f)
+                    if (c != ']') out += c;
+                return out + (eq ? "_is_" : "_not_") + value;
+            }
+            return "";
+        };
+        if (e.kind == PExpr::Kind::Compare) {
+            name = part(e);
+        } else if ((e.kind == PExpr::Kind::And || e.kind == PExpr::Kind::Or) && !e.neg && e.kids.size() <= 3) {
+            std::vector<std::string> ps;
+            for (const auto& kid : e.kids) ps.push_back(part(kid));
+            if (std::none_of(ps.begin(), ps.end(), [](const std::string& s) { return s.empty(); })) {
+                for (std::size_t j = 0; j < ps.size(); ++j)
+                    name += (j ? (e.kind == PExpr::Kind::And ? "_" : "_or_") : "") + ps[j];
+            }
+        } else if (e.kind == PExpr::Kind::Xor && e.kids.size() == 2) {
+            std::string a = part(e.kids[0]), b = part(e.kids[1]);
+            if (!a.empty() && !b.empty()) name = (e.neg ? "same_" : "") + a + (e.neg ? "_" : "_xor_") + b;
+        }
+        if (name.size() > 28) name.clear();
+        if (!name.empty()) names[k] = claim(name);
+    }
+    // The rest: the first output they feed, with an index counted within that output's logic.
+    std::map<std::string, int> counter;
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        Literal d = net_.outputs()[i].driver;
+        NodeId v = literalVar(d);
+        std::string base = fragment(bitText(m_, outs_[i].bit));
+        std::vector<NodeId> found;
+        coneOf(v, definer_[v] == static_cast<int>(i),
+               [&](NodeId w) { found.push_back(w); }, [](NodeId) {}, [](const std::string&) {});
+        // Wires reached through other wires: breadth by discovery, deterministic.
+        for (std::size_t q = 0; q < found.size(); ++q)
+            coneOf(found[q], true, [&](NodeId w) {
+                if (std::find(found.begin(), found.end(), w) == found.end()) found.push_back(w);
+            }, [](NodeId) {}, [](const std::string&) {});
+        for (NodeId w : found) {
+            std::size_t k = wireIndex.at(w);
+            if (!names[k].empty()) continue;
+            names[k] = claim(fmt::format("{}_t{}", base, counter[base]++));
+        }
+    }
+    for (std::size_t k = 0; k < wires_.size(); ++k) {
+        if (names[k].empty()) names[k] = claim(fmt::format("t{}", counter["$"]++));
+        refs_[wires_[k]]->text = names[k];
+    }
+}
+
+void Writer::formGroups() {
+    std::map<int, int> index;
+    for (std::size_t s = 0; s < stmts_.size(); ++s) index[stmts_[s]] = static_cast<int>(s);
+    UnionFind uf(stmts_.size() + 1);
+    const int wordUnit = static_cast<int>(stmts_.size());
+    std::map<NodeId, int> wireOwner;
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        int unit = outs_[i].generated ? wordUnit : index.at(outs_[i].stmt);
+        NodeId v = literalVar(net_.outputs()[i].driver);
+        coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) {
+            auto [it, fresh] = wireOwner.emplace(w, unit);
+            if (!fresh) uf.unite(it->second, unit);
+        }, [](NodeId) {}, [](const std::string&) {});
+    }
+    // Wires used by wires belong with their users.
+    for (auto it = wires_.rbegin(); it != wires_.rend(); ++it) {
+        NodeId w = *it;
+        auto own = wireOwner.find(w);
+        if (own == wireOwner.end()) continue;
+        coneOf(w, true, [&](NodeId x) {
+            auto [jt, fresh] = wireOwner.emplace(x, own->second);
+            if (!fresh) uf.unite(jt->second, own->second);
+        }, [](NodeId) {}, [](const std::string&) {});
+    }
+    if (oneGroup_)
+        for (std::size_t s = 0; s < stmts_.size(); ++s) uf.unite(static_cast<int>(s), wordUnit);
+    // Groups in source order of their first statement.
+    std::map<int, int> groupOfRoot;
+    groups_.clear();
+    groupStmts_.clear();
+    groupOfStmt_.clear();
+    for (std::size_t s = 0; s < stmts_.size(); ++s) {
+        int r = uf.find(static_cast<int>(s));
+        auto [it, fresh] = groupOfRoot.emplace(r, static_cast<int>(groups_.size()));
+        if (fresh) {
+            groups_.emplace_back();
+            groupStmts_.emplace_back();
+        }
+        groupStmts_[it->second].push_back(stmts_[s]);
+        groupOfStmt_[stmts_[s]] = it->second;
+    }
+    auto groupOfUnit = [&](int unit) {
+        if (unit == wordUnit) {
+            auto it = groupOfRoot.find(uf.find(wordUnit));
+            return it == groupOfRoot.end() ? -1 : it->second;
+        }
+        return groupOfStmt_.at(stmts_[static_cast<std::size_t>(unit)]);
+    };
+    wireGroup_.assign(net_.nodeCount(), -1);
+    groupWires_.assign(groups_.size(), {});
+    for (NodeId w : wires_) {
+        auto own = wireOwner.find(w);
+        if (own == wireOwner.end()) continue;
+        int g = groupOfUnit(own->second);
+        if (g < 0) continue;
+        wireGroup_[w] = g;
+        groupWires_[static_cast<std::size_t>(g)].push_back(w);
+    }
+    // Where each group's wires go: before its first statement that needs them.
+    groupPos_.assign(groups_.size(), std::string::npos);
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        for (int s : groupStmts_[g]) {
+            bool uses = oneGroup_;
+            if (!uses)
+                for (std::size_t i = 0; i < outs_.size() && !uses; ++i) {
+                    if (outs_[i].stmt != s) continue;
+                    NodeId v = literalVar(net_.outputs()[i].driver);
+                    coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId) { uses = true; }, [](NodeId) {},
+                           [](const std::string&) {});
+                }
+            if (!uses) continue;
+            const auto* mem = byId_.at(s);
+            std::size_t at = mem->netDecl ? mem->src.start : mem->src.start;
+            if (mem->netDecl) {
+                const auto& sig = m_.signals.at(mem->writes.at(0));
+                if (sig.decl) at = sig.decl->stmtStart;
+            }
+            groupPos_[g] = lineStart(src_, at);
+            break;
+        }
+    }
+}
+
+bool Writer::checkDeclarationOrder() {
+    // A name may be used only after its declaration: by wires at their group's
+    // position, by a statement at its own position.
+    auto withdraw = [&](const std::string& signal) {
+        bool any = false;
+        for (std::size_t i = 0; i < outs_.size(); ++i)
+            if (allowed_[i] && outs_[i].bit.signal == signal) allowed_[i] = 0, any = true;
+        return any;
+    };
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        if (groupPos_[g] == std::string::npos) continue;
+        for (NodeId w : groupWires_[g]) {
+            std::string bad;
+            coneOf(w, true, [](NodeId) {}, [](NodeId) {}, [&](const std::string& s) {
+                if (bad.empty() && m_.signals.count(s) && !isPort(s) && declPos(s) >= groupPos_[g]) bad = s;
+            });
+            if (!bad.empty() && withdraw(bad)) return false;
+        }
+    }
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        if (outs_[i].generated) continue;
+        const auto* mem = byId_.at(outs_[i].stmt);
+        std::size_t here = mem->src.start;
+        NodeId v = literalVar(net_.outputs()[i].driver);
+        std::string bad;
+        auto check = [&](const std::string& s) {
+            if (s == outs_[i].bit.signal) return;
+            if (bad.empty() && m_.signals.count(s) && !isPort(s) && declPos(s) >= here) bad = s;
+        };
+        if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
+            check(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
+        coneOf(v, definer_[v] == static_cast<int>(i), [](NodeId) {}, [](NodeId) {}, check);
+        if (!bad.empty() && withdraw(bad)) return false;
+    }
+    return true;
+}
+
+
+bool Writer::checkCycles() {
+    // Statements and wires as a graph: a reference to a name points at the
+    // statement that writes it. A cycle through statements (a block reading a
+    // wire that reads the block's own result) is a loop in the text even when
+    // every bit is acyclic; withdraw the name that closes it.
+    std::map<int, std::size_t> idx;
+    for (std::size_t s = 0; s < stmts_.size(); ++s) idx[stmts_[s]] = s;
+    const std::size_t S = stmts_.size();
+    std::map<NodeId, std::size_t> wid;
+    for (NodeId w : wires_) wid[w] = S + wid.size();
+    std::vector<std::vector<std::pair<std::size_t, std::string>>> adj(S + wires_.size());
+    auto writerOf = [&](const std::string& name) -> long {
+        auto it = unitOfSignal_.find(name);
+        return it == unitOfSignal_.end() ? -1 : static_cast<long>(idx.at(it->second));
+    };
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        for (int st : groupStmts_[g]) {
+            std::size_t from = idx.at(st);
+            if (!groups_[g].replaced) {
+                for (int mid : membersOfStmt_.at(st))
+                    for (const auto& r : byId_.at(mid)->reads) {
+                        long t = writerOf(r);
+                        if (t >= 0 && static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), ""});
+                    }
+                continue;
+            }
+            for (std::size_t i = 0; i < outs_.size(); ++i) {
+                if (outs_[i].stmt != st) continue;
+                NodeId v = literalVar(net_.outputs()[i].driver);
+                auto onName = [&](const std::string& n) {
+                    long t = writerOf(n);
+                    if (t >= 0 && static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n});
+                };
+                if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
+                    onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
+                coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) { adj[from].push_back({wid.at(w), ""}); },
+                       [](NodeId) {}, onName);
+            }
+        }
+    }
+    for (NodeId w : wires_) {
+        std::size_t from = wid.at(w);
+        coneOf(w, true, [&](NodeId x) { adj[from].push_back({wid.at(x), ""}); }, [](NodeId) {},
+               [&](const std::string& n) {
+                   long t = writerOf(n);
+                   if (t >= 0) adj[from].push_back({static_cast<std::size_t>(t), n});
+               });
+    }
+    // Depth-first search for a cycle; remember the edge names on the path.
+    std::vector<int> state(adj.size(), 0);
+    std::vector<std::string> pathNames;
+    std::string culprit;
+    std::function<bool(std::size_t)> dfs = [&](std::size_t u) {
+        state[u] = 1;
+        for (const auto& [t, name] : adj[u]) {
+            pathNames.push_back(name);
+            if (state[t] == 1) {
+                for (auto it = pathNames.rbegin(); it != pathNames.rend(); ++it)
+                    if (!it->empty()) { culprit = *it; break; }
+                return true;
+            }
+            if (state[t] == 0 && dfs(t)) return true;
+            pathNames.pop_back();
+        }
+        state[u] = 2;
+        return false;
+    };
+    for (std::size_t u = 0; u < adj.size(); ++u)
+        if (state[u] == 0 && dfs(u)) {
+            bool any = false;
+            for (std::size_t i = 0; i < outs_.size(); ++i)
+                if (allowed_[i] && outs_[i].bit.signal == culprit) allowed_[i] = 0, any = true;
+            if (!any) throw Error("writer: statements would form a loop", {}, ExitCode::Internal);
+            return false;
+        }
+    return true;
+}
+
+void Writer::decide() {
+    const auto& origForms = *origForms_;
+    std::vector<std::vector<std::size_t>> outsOf(groups_.size());
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        int g = outs_[i].generated ? (groups_.empty() ? -1 : 0) : groupOfStmt_.at(outs_[i].stmt);
+        if (g >= 0) outsOf[static_cast<std::size_t>(g)].push_back(i);
+    }
+    std::vector<int> groupOfOutput(outs_.size(), -1);
+    for (std::size_t g = 0; g < groups_.size(); ++g)
+        for (std::size_t i : outsOf[g]) groupOfOutput[i] = static_cast<int>(g);
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        StatementGroup& G = groups_[g];
+        G.members.clear();
+        G.lines.clear();
+        G.outputs.clear();
+        for (int s : groupStmts_[g])
+            for (int mid : membersOfStmt_.at(s)) G.members.push_back(mid);
+        std::sort(G.members.begin(), G.members.end());
+        for (int s : groupStmts_[g]) {
+            const auto* mem = byId_.at(s);
+            int last = mem->src.line + static_cast<int>(std::count(src_.begin() + static_cast<std::ptrdiff_t>(mem->src.start),
+                                                                  src_.begin() + static_cast<std::ptrdiff_t>(mem->src.end), '\n'));
+            G.lines.emplace_back(mem->src.line, last);
+        }
+        std::set<std::string> outNames;
+        for (std::size_t i : outsOf[g])
+            if (!outs_[i].generated && outNames.insert(outs_[i].bit.signal).second) G.outputs.push_back(outs_[i].bit.signal);
+        // After: every node the group's text computes.
+        std::set<NodeId> nodes;
+        std::vector<NodeId> wires;
+        auto addWire = [&](NodeId w) {
+            if (std::find(wires.begin(), wires.end(), w) == wires.end()) wires.push_back(w);
+        };
+        for (std::size_t i : outsOf[g]) {
+            NodeId v = literalVar(net_.outputs()[i].driver);
+            coneOf(v, definer_[v] == static_cast<int>(i), addWire, [&](NodeId x) { nodes.insert(x); },
+                   [](const std::string&) {});
+        }
+        for (std::size_t q = 0; q < wires.size(); ++q)
+            coneOf(wires[q], true, addWire, [&](NodeId x) { nodes.insert(x); }, [](const std::string&) {});
+        G.gatesAfter = 0;
+        for (NodeId x : nodes) G.gatesAfter += formGates(forms_[x]);
+        // Before: the logic of the group's outputs as read, up to signals other statements compute.
+        std::set<NodeId> stops;
+        for (std::size_t i = 0; i < outs_.size(); ++i)
+            if (groupOfOutput[i] != static_cast<int>(g)) stops.insert(literalVar(orig_.outputs()[i].driver));
+        std::set<NodeId> seen;
         std::vector<NodeId> work;
-        for (const auto& o : network.outputs()) work.push_back(literalVar(o.driver));
+        for (std::size_t i : outsOf[g]) work.push_back(literalVar(orig_.outputs()[i].driver));
+        std::set<NodeId> roots(work.begin(), work.end());
+        G.gatesBefore = 0;
         while (!work.empty()) {
-            NodeId id = work.back();
+            NodeId v = work.back();
             work.pop_back();
-            if (live[id]) continue;
-            live[id] = 1;
-            if (!network.isLogic(id)) continue;
-            for (const auto& c : network.node(id).cover.cubes)
+            if (!orig_.isLogic(v) || !seen.insert(v).second) continue;
+            if (stops.count(v) && !roots.count(v)) continue;
+            G.gatesBefore += formGates(origForms[v]);
+            for (const auto& c : orig_.node(v).cover.cubes)
                 for (Literal l : c.lits) work.push_back(literalVar(l));
         }
+        double gain = static_cast<double>(G.gatesBefore) - static_cast<double>(G.gatesAfter);
+        bool enough = opts_.minGain.percent
+                          ? gain * 100.0 >= opts_.minGain.value * static_cast<double>(G.gatesBefore)
+                          : gain >= opts_.minGain.value;
+        G.replaced = gain > 0 && enough;
+        if (G.replaced) G.reason.clear();
+        else if (gain <= 0) G.reason = fmt::format("no saving ({} -> {} gates)", G.gatesBefore, G.gatesAfter);
+        else G.reason = fmt::format("saves {:g} gate{} ({} -> {}), less than --min-gain {}", gain, gain == 1 ? "" : "s",
+                                    G.gatesBefore, G.gatesAfter, opts_.minGain.str());
     }
-    std::set<std::string> taken;
-    for (const auto& [n, s] : m.signals) taken.insert(n);
-    for (const auto& w : low.wordOps) {
-        taken.insert(w.result);
-        for (const auto& o : w.operands) taken.insert(o.name);
-    }
-    std::vector<NodeId> wired;
-    std::size_t counter = 0;
-    for (NodeId id : order) {
-        if (!live[id]) continue;
-        bool inlineIntoOutput = logicRefs[id] == 0 && outRefs[id] == 1;
-        if (inlineIntoOutput) continue;
-        std::string n;
-        do n = fmt::format("{}{}", opts.prefix, counter++);
-        while (taken.count(n));
-        taken.insert(n);
-        names[id] = n;
-        wired.push_back(id);
-    }
+}
 
-    auto factored = [&](NodeId id) {
-        if (opts.forms && id < opts.forms->size()) return algebra::toString((*opts.forms)[id], names);
-        algebra::Factored f = algebra::factor(network.node(id).cover, algebra::FactorMethod::Best);
-        return algebra::toString(f, names);
-    };
-    auto literalText = [&](Literal l) -> std::string {
-        NodeId v = literalVar(l);
-        if (v == 0) return literalNegated(l) ? "1'b1" : "1'b0";
-        if (!names[v].empty()) return (literalNegated(l) ? "~" : "") + names[v];
-        if (!literalNegated(l)) return factored(v);
-        // A complemented node inlined into an output: push the inverter to the literals.
-        algebra::Factored f = opts.forms && v < opts.forms->size()
-                                  ? (*opts.forms)[v]
-                                  : algebra::factor(network.node(v).cover, algebra::FactorMethod::Best);
-        return algebra::toString(complementForm(f), names);
-    };
+// ------------------------------------------------------------------ text
 
-    // ---- the generated block
-    // Anchor: the last replaced statement that is not a declaration initializer.
-    std::map<int, const frontend::Member*> byId;
-    for (const auto& mem : m.members) byId[mem.id] = &mem;
-    const frontend::Member* anchor = nullptr;
-    for (int id : low.replaced) {
-        const auto* mem = byId.at(id);
-        if (mem->netDecl) continue;
-        if (!anchor || mem->src.start > anchor->src.start) anchor = mem;
-    }
-    std::size_t anchorPos;
-    if (anchor) anchorPos = anchor->src.start;
-    else {
-        anchorPos = src.rfind("endmodule", m.src.end);
-        if (anchorPos == std::string::npos || anchorPos < m.src.start) anchorPos = m.src.end;
-    }
-    std::string ind = indentOf(src, anchorPos);
-    if (ind.empty()) ind = "  ";
-    bool sv = m.src.file.size() > 3 && m.src.file.substr(m.src.file.size() - 3) == ".sv";
+void Writer::collectRefs(const PExpr& e, std::set<std::string>& out) const {
+    if (e.kind == PExpr::Kind::Ref && e.ref) out.insert(e.ref->signal.empty() ? e.ref->text : e.ref->signal);
+    for (const auto& k : e.kids) collectRefs(k, out);
+}
 
-    std::string out;
-    out += fmt::format("// kerf: restructured logic ({} statement{} replaced)\n", low.replaced.size(),
-                       low.replaced.size() == 1 ? "" : "s");
-    if (!opts.banner.empty()) out += ind + "// kerf: " + opts.banner + "\n";
-    // Declarations: word-operation vectors, then intermediate wires.
-    for (const auto& w : low.wordOps) {
-        for (const auto& o : w.operands)
-            if (o.generated)
-                out += o.width > 1 ? fmt::format("{}wire [{}:0] {};\n", ind, o.width - 1, o.name)
-                                   : fmt::format("{}wire {};\n", ind, o.name);
-        out += w.resultWidth > 1 ? fmt::format("{}wire [{}:0] {};\n", ind, w.resultWidth - 1, w.result)
-                                 : fmt::format("{}wire {};\n", ind, w.result);
+PExpr Writer::outputExpr(std::size_t i) {
+    ExprBuilder eb(refs_, forms_);
+    Literal d = net_.outputs()[i].driver;
+    NodeId v = literalVar(d);
+    if (definer_[v] == static_cast<int>(i)) return eb.definition(v, literalNegated(d));
+    if (v != 0 && !net_.isLogic(v) && aliasOf_[v] == static_cast<int>(i)) {
+        PExpr e;
+        e.kind = PExpr::Kind::Ref;
+        e.ref = &inputRefs_[v];
+        e.text = inputRefs_[v].text;
+        e.neg = literalNegated(d);
+        return e;
     }
-    if (!wired.empty()) {
-        std::string line = ind + "wire ";
-        std::string decl;
-        for (std::size_t i = 0; i < wired.size(); ++i) {
-            std::string piece = names[wired[i]] + (i + 1 < wired.size() ? "," : ";");
-            if (line.size() + piece.size() + 1 > 96 && line != ind + "wire ") {
-                decl += line + "\n";
-                line = ind + "     ";
+    return eb.literal(d);
+}
+
+std::string Writer::statement(const std::string& ind, const std::string& lead, const PExpr& e) const {
+    std::size_t col = ind.size() + lead.size();
+    std::string body = layoutText(e, col, opts_.lineLimit, 1);
+    // Continuation lines are padded with spaces; keep the statement's own indentation characters.
+    std::string out = lead;
+    std::size_t pos = 0;
+    while (true) {
+        std::size_t nl = body.find('\n', pos);
+        std::string line = body.substr(pos, nl == std::string::npos ? std::string::npos : nl - pos);
+        if (pos == 0) out += line;
+        else out += "\n" + ind + line.substr(std::min(ind.size(), line.size()));
+        if (nl == std::string::npos) break;
+        pos = nl + 1;
+    }
+    return out + ";";
+}
+
+namespace {
+struct Assignment {
+    std::string lhs;
+    PExpr rhs;
+    std::string signal;
+    std::set<std::string> reads;
+};
+}
+
+std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std::string>* refsOut) {
+    const auto* mem = byId_.at(stmt);
+    // Outputs of the statement, by signal in port order, then internal signals by declaration.
+    std::map<std::string, std::vector<std::size_t>> bySignal;
+    for (std::size_t i = 0; i < outs_.size(); ++i)
+        if (!outs_[i].generated && outs_[i].stmt == stmt) bySignal[outs_[i].bit.signal].push_back(i);
+    std::vector<std::string> signals;
+    for (auto& [s, v] : bySignal) signals.push_back(s);
+    std::stable_sort(signals.begin(), signals.end(), [&](const std::string& a, const std::string& b) {
+        int ra = signalRank(a), rb = signalRank(b);
+        bool pa = ra >= kRankPort, pb = rb >= kRankPort;
+        if (pa != pb) return pa;
+        return ra < rb;
+    });
+    std::vector<Assignment> as;
+    for (const auto& s : signals) {
+        auto idx = bySignal[s];
+        std::sort(idx.begin(), idx.end(), [&](std::size_t a, std::size_t b) { return outs_[a].bit.offset < outs_[b].bit.offset; });
+        const auto& sig = m_.signals.at(s);
+        std::vector<PExpr> es;
+        for (std::size_t i : idx) es.push_back(outputExpr(i));
+        auto add = [&](std::string lhs, PExpr e) {
+            Assignment a{std::move(lhs), std::move(e), s, {}};
+            collectRefs(a.rhs, a.reads);
+            a.reads.erase(s);
+            as.push_back(std::move(a));
+        };
+        if (!sig.vector && sig.width == 1) {
+            add(verilogName(s), es[0]);
+            continue;
+        }
+        std::size_t k = 0;
+        while (k < idx.size()) {
+            std::size_t best = k;
+            std::optional<PExpr> bestT;
+            for (std::size_t t = idx.size(); t-- > k + 1;) {
+                if (outs_[idx[t]].bit.offset - outs_[idx[k]].bit.offset != static_cast<int>(t - k)) continue;
+                std::vector<PExpr> run(es.begin() + static_cast<std::ptrdiff_t>(k), es.begin() + static_cast<std::ptrdiff_t>(t + 1));
+                if (auto T = vectorTemplate(run)) {
+                    best = t;
+                    bestT = std::move(T);
+                    break;
+                }
             }
-            line += (line.back() == ' ' ? "" : " ") + piece;
-        }
-        decl += line + "\n";
-        out += decl;
-    }
-    res.wires = wired.size();
-    for (NodeId id : wired) {
-        out += fmt::format("{}assign {} = {};\n", ind, names[id], factored(id));
-        ++res.assignments;
-    }
-    // Word-level operations, as written in the source.
-    auto operandText = [&](const frontend::WordOp& w, std::size_t i) {
-        std::string n = verilogName(w.operands[i].name);
-        bool sign = w.isSigned && !(i == 1 && (w.op == "<<" || w.op == ">>" || w.op == "<<<" || w.op == ">>>"));
-        return sign ? fmt::format("$signed({})", n) : n;
-    };
-    // Outputs: nets by continuous assignment, variables in one combinational block.
-    std::vector<std::string> rhsOf(network.outputs().size());
-    std::vector<std::uint8_t> isVar(network.outputs().size(), 0);
-    std::set<std::string> operandNames;
-    for (const auto& w : low.wordOps)
-        for (const auto& o : w.operands)
-            if (o.generated) operandNames.insert(o.name);
-    for (std::size_t i = 0; i < network.outputs().size(); ++i) {
-        const BitRef& b = low.outputBits[i];
-        auto sit = m.signals.find(b.signal);
-        isVar[i] = sit != m.signals.end() && sit->second.isVariable;
-        rhsOf[i] = literalText(network.outputs()[i].driver);
-    }
-    // Operand vectors first (they feed the word operations), then the operations, then the rest.
-    for (std::size_t i = 0; i < network.outputs().size(); ++i)
-        if (operandNames.count(low.outputBits[i].signal)) {
-            out += fmt::format("{}assign {} = {};\n", ind, bitText(m, low.outputBits[i]), rhsOf[i]);
-            ++res.assignments;
-        }
-    for (const auto& w : low.wordOps) {
-        std::string rhs = w.unary ? fmt::format("{}{}", w.op, operandText(w, 0))
-                                  : fmt::format("{} {} {}", operandText(w, 0), w.op, operandText(w, 1));
-        out += fmt::format("{}assign {} = {};\n", ind, w.result, rhs);
-        ++res.assignments;
-    }
-    std::vector<std::string> varLines;
-    for (std::size_t i = 0; i < network.outputs().size(); ++i) {
-        const BitRef& b = low.outputBits[i];
-        if (operandNames.count(b.signal)) continue;
-        if (isVar[i]) {
-            varLines.push_back(fmt::format("{}  {} = {};\n", ind, bitText(m, b), rhsOf[i]));
-        } else {
-            out += fmt::format("{}assign {} = {};\n", ind, bitText(m, b), rhsOf[i]);
-            ++res.assignments;
+            if (bestT) {
+                int lo = outs_[idx[k]].bit.offset, hi = outs_[idx[best]].bit.offset;
+                std::string lhs = (lo == 0 && hi == sig.width - 1)
+                                      ? verilogName(s)
+                                      : fmt::format("{}[{}:{}]", verilogName(s), sig.indexOf(hi), sig.indexOf(lo));
+                // Reads of the template are the per-bit reads.
+                Assignment a{lhs, *bestT, s, {}};
+                for (std::size_t q = k; q <= best; ++q) collectRefs(es[q], a.reads);
+                a.reads.erase(s);
+                as.push_back(std::move(a));
+                k = best + 1;
+            } else {
+                add(bitText(m_, outs_[idx[k]].bit), es[k]);
+                ++k;
+            }
         }
     }
-    if (!varLines.empty()) {
-        out += ind + (sv ? "always_comb begin\n" : "always @* begin\n");
-        for (const auto& l : varLines) out += l, ++res.assignments;
-        out += ind + "end\n";
+    for (const auto& a : as)
+        if (refsOut) refsOut->insert(a.reads.begin(), a.reads.end());
+    if (mem->kind == frontend::MemberKind::Comb) {
+        // A variable is assigned before any statement of the block reads it.
+        std::vector<Assignment> ordered;
+        std::vector<std::uint8_t> done(as.size(), 0);
+        std::set<std::string> pendingSignals;
+        for (const auto& a : as) pendingSignals.insert(a.signal);
+        while (ordered.size() < as.size()) {
+            bool progress = false;
+            for (std::size_t q = 0; q < as.size(); ++q) {
+                if (done[q]) continue;
+                bool ready = true;
+                for (const auto& r : as[q].reads)
+                    if (pendingSignals.count(r) && r != as[q].signal) ready = false;
+                if (!ready) continue;
+                done[q] = 1;
+                ordered.push_back(as[q]);
+                progress = true;
+                // A signal is finished when all its assignments are placed.
+                bool more = false;
+                for (std::size_t z = 0; z < as.size(); ++z) more = more || (!done[z] && as[z].signal == as[q].signal);
+                if (!more) pendingSignals.erase(as[q].signal);
+                break;
+            }
+            if (!progress)
+                throw Error("writer: the restructured block would read a variable before assigning it", {},
+                            ExitCode::Internal);
+        }
+        std::string unit = ind.find('\t') != std::string::npos ? "\t" : "  ";
+        std::string style = mem->body.value("style", "always_comb");
+        std::string out = style == "always_comb" ? "always_comb begin" : "always @(*) begin";
+        for (const auto& a : ordered) out += "\n" + ind + unit + statement(ind + unit, a.lhs + " = ", a.rhs);
+        out += "\n" + ind + "end";
+        return out;
     }
-    out += ind + "// kerf: end of restructured logic";
+    if (mem->netDecl) {
+        if (as.size() == 1 && (as[0].lhs == verilogName(as[0].signal)))
+        {
+            std::string t = statement(ind, "", as[0].rhs);
+            return " = " + t.substr(0, t.size() - 1);   // the declaration keeps its own ';'
+        }
+        // Bits one by one: a concatenation, most significant first.
+        std::string s = as.empty() ? "" : as[0].signal;
+        auto idx = bySignal[s];
+        std::sort(idx.begin(), idx.end(), [&](std::size_t a, std::size_t b) { return outs_[a].bit.offset > outs_[b].bit.offset; });
+        std::string cat = " = {";
+        for (std::size_t q = 0; q < idx.size(); ++q) cat += (q ? ", " : "") + flatText(outputExpr(idx[q]));
+        return cat + "}";
+    }
+    std::string out;
+    for (std::size_t q = 0; q < as.size(); ++q) {
+        if (q) out += "\n" + ind;
+        out += statement(ind, "assign " + as[q].lhs + " = ", as[q].rhs);
+    }
+    return out;
+}
+
+std::string Writer::wireBlock(int g, const std::string& ind) {
+    ExprBuilder eb(refs_, forms_);
+    std::string out;
+    bool words = !low_.wordOps.empty() && g == 0;
+    if (words) {
+        for (const auto& w : low_.wordOps) {
+            for (const auto& o : w.operands)
+                if (o.generated)
+                    out += ind + (o.width > 1 ? fmt::format("wire [{}:0] {};\n", o.width - 1, o.name)
+                                              : fmt::format("wire {};\n", o.name));
+            out += ind + (w.resultWidth > 1 ? fmt::format("wire [{}:0] {};\n", w.resultWidth - 1, w.result)
+                                            : fmt::format("wire {};\n", w.result));
+        }
+    }
+    for (NodeId w : wires_) {
+        if (wireGroup_[w] != g) continue;
+        out += ind + statement(ind, "wire " + refs_[w]->text + " = ", eb.definition(w, refs_[w]->inverted)) + "\n";
+    }
+    if (words) {
+        for (std::size_t i = 0; i < outs_.size(); ++i)
+            if (outs_[i].generated)
+                out += ind + statement(ind, "assign " + bitText(m_, outs_[i].bit) + " = ", outputExpr(i)) + "\n";
+        for (const auto& w : low_.wordOps) {
+            auto operandText = [&](std::size_t i) {
+                std::string n = verilogName(w.operands[i].name);
+                bool sign = w.isSigned && !(i == 1 && (w.op == "<<" || w.op == ">>" || w.op == "<<<" || w.op == ">>>"));
+                return sign ? fmt::format("$signed({})", n) : n;
+            };
+            std::string rhs = w.unary ? fmt::format("{}{}", w.op, operandText(0))
+                                      : fmt::format("{} {} {}", operandText(0), w.op, operandText(1));
+            out += ind + fmt::format("assign {} = {};\n", w.result, rhs);
+        }
+    }
+    return out;
+}
+
+bool Writer::plan() {
+    chooseNames();
+    chooseWires();
+    nameWires();
+    formGroups();
+    return checkDeclarationOrder();
+}
+
+WriteResult Writer::run() {
+    WriteResult res;
+    res.file = m_.src.file;
+    src_ = readFile(m_.src.file);
+    std::size_t crlf = 0, lf = 0;
+    for (std::size_t i = 0; i < src_.size(); ++i)
+        if (src_[i] == '\n') ++lf, crlf += (i > 0 && src_[i - 1] == '\r');
+    res.newline = (lf > 0 && crlf * 2 > lf) ? "\r\n" : "\n";
+    if (low_.replaced.empty()) {
+        res.text = src_;
+        return res;
+    }
+    indexMembers();
+    indexOutputs();
+    inputRefs_.assign(net_.nodeCount(), VarRef{});
+    aliasOf_.assign(net_.nodeCount(), -1);
+    for (std::size_t k = 0; k < net_.inputs().size(); ++k)
+        inputRefs_[net_.inputs()[k]] = refFor(low_.inputBits[k], signalRank(low_.inputBits[k].signal));
+    for (std::size_t round = 0; round <= outs_.size() + 1; ++round) {
+        if (!plan()) continue;
+        decide();
+        if (checkCycles()) break;
+    }
+    for (const auto& G : groups_) res.groups.push_back(G);
+    bool any = std::any_of(groups_.begin(), groups_.end(), [](const StatementGroup& G) { return G.replaced; });
+    if (!any) {
+        res.text = src_;
+        return res;
+    }
 
     // ---- edits
     std::vector<Edit> edits;
-    std::set<std::pair<std::size_t, std::size_t>> seen;
-    for (int id : low.replaced) {
-        const auto* mem = byId.at(id);
-        if (!seen.insert({mem->src.start, mem->src.end}).second) continue;
-        if (mem == anchor) {
-            edits.push_back({mem->src.start, mem->src.end, out});
-            continue;
+    std::size_t firstChange = std::string::npos;
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        if (!groups_[g].replaced) continue;
+        if (groupPos_[g] != std::string::npos) {
+            std::string block = wireBlock(static_cast<int>(g), indentOf(src_, groupPos_[g]));
+            if (!block.empty()) {
+                edits.push_back({groupPos_[g], groupPos_[g], block});
+                firstChange = std::min(firstChange, groupPos_[g]);
+            }
+            for (NodeId w : groupWires_[g]) res.wiresAdded.push_back(refs_[w]->text);
         }
-        if (mem->netDecl) edits.push_back({mem->src.start, mem->src.end, ""});
-        else edits.push_back(lineDeletion(src, mem->src.start, mem->src.end));
+        for (int s : groupStmts_[g]) {
+            const auto* mem = byId_.at(s);
+            std::string ind = indentOf(src_, mem->src.start);
+            bool hasOutputs = std::any_of(outs_.begin(), outs_.end(), [&](const Out& o) { return o.stmt == s; });
+            if (!hasOutputs) {
+                // Its signals were dissolved into other logic (--dissolve-internal).
+                std::size_t ls = lineStart(src_, mem->src.start);
+                std::size_t le = src_.find('\n', mem->src.end);
+                le = le == std::string::npos ? src_.size() : le + 1;
+                if (!mem->netDecl && blankBetween(src_, ls, mem->src.start) && blankBetween(src_, mem->src.end, le - 1))
+                    edits.push_back({ls, le, ""});
+                else edits.push_back({mem->src.start, mem->src.end, ""});
+                firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
+                continue;
+            }
+            edits.push_back({mem->src.start, mem->src.end, statementsFor(s, ind, nullptr)});
+            firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
+        }
+        for (std::size_t i = 0; i < outs_.size(); ++i) {
+            if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;
+            NodeId v = literalVar(net_.outputs()[i].driver);
+            if (definer_[v] == static_cast<int>(i)) {
+                const std::string& sg = outs_[i].bit.signal;
+                if (!isPort(sg) && std::find(res.namesKept.begin(), res.namesKept.end(), sg) == res.namesKept.end())
+                    res.namesKept.push_back(sg);
+            }
+        }
     }
-    if (!anchor) {
-        std::size_t ls = src.rfind('\n', anchorPos == 0 ? 0 : anchorPos - 1);
-        ls = ls == std::string::npos ? 0 : ls + 1;
-        edits.push_back({ls, ls, ind + out + "\n"});
-    }
-    // Dissolved declarations, grouped by statement.
+    // Declarations of signals that no longer exist: loop counters of replaced blocks, and
+    // internal signals dissolved on request.
+    std::set<int> replacedStmts;
+    for (std::size_t g = 0; g < groups_.size(); ++g)
+        if (groups_[g].replaced)
+            for (int s : groupStmts_[g]) replacedStmts.insert(s);
     std::map<std::pair<std::size_t, std::size_t>, std::vector<const frontend::Declarator*>> stmts;
     std::set<const frontend::Declarator*> gone;
-    for (const auto& name : low.dissolved) {
-        const auto& s = m.signals.at(name);
-        if (!s.decl || s.decl->file != m.src.file) continue;
-        gone.insert(&*s.decl);
+    for (const auto& name : low_.dissolved) {
+        const auto& s = m_.signals.at(name);
+        if (!s.decl || s.decl->file != m_.src.file) continue;
+        bool allReplaced = true;
+        for (int id : low_.replaced) {
+            const auto* mem = byId_.at(id);
+            bool touches = std::find(mem->writes.begin(), mem->writes.end(), name) != mem->writes.end();
+            for (const auto& l : mem->body.value("locals", nlohmann::json::array()))
+                touches = touches || l.value("name", "") == name;
+            if (touches && !replacedStmts.count(stmtOf_.at(id))) allReplaced = false;
+        }
+        if (allReplaced) gone.insert(&*s.decl);
     }
-    for (const auto& [name, s] : m.signals)
-        if (s.decl && s.decl->file == m.src.file && gone.count(&*s.decl))
+    for (const auto& [name, s] : m_.signals)
+        if (s.decl && s.decl->file == m_.src.file && gone.count(&*s.decl))
             stmts[{s.decl->stmtStart, s.decl->stmtEnd}].push_back(&*s.decl);
-    // All declarators of a touched statement, to know which remain.
     std::map<std::pair<std::size_t, std::size_t>, std::vector<const frontend::Declarator*>> allDecls;
-    for (const auto& [name, s] : m.signals)
-        if (s.decl && s.decl->file == m.src.file && stmts.count({s.decl->stmtStart, s.decl->stmtEnd}))
+    for (const auto& [name, s] : m_.signals)
+        if (s.decl && s.decl->file == m_.src.file && stmts.count({s.decl->stmtStart, s.decl->stmtEnd}))
             allDecls[{s.decl->stmtStart, s.decl->stmtEnd}].push_back(&*s.decl);
     for (auto& [key, decls] : allDecls) {
         std::sort(decls.begin(), decls.end(), [](auto* a, auto* b) { return a->start < b->start; });
         bool allGone = std::all_of(decls.begin(), decls.end(), [&](auto* d) { return gone.count(d) > 0; });
         if (allGone && static_cast<int>(decls.size()) >= decls.front()->count) {
-            edits.push_back(lineDeletion(src, key.first, key.second));
+            std::size_t ls = lineStart(src_, key.first);
+            std::size_t le = src_.find('\n', key.second);
+            le = le == std::string::npos ? src_.size() : le + 1;
+            if (blankBetween(src_, ls, key.first) && blankBetween(src_, key.second, le - 1)) edits.push_back({ls, le, ""});
+            else edits.push_back({key.first, key.second, ""});
             continue;
         }
         for (std::size_t i = 0; i < decls.size();) {
@@ -385,21 +1172,58 @@ WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& 
             i = j;
         }
     }
-    edits = tidyDeletions(src, std::move(edits), ind);
+    // Header comment above the first change.
+    std::string header = "// kerf: restructured logic\n";
+    std::size_t headerAt = firstChange;
+    edits.push_back({headerAt, headerAt, indentOf(src_, headerAt) + header});
+    std::stable_sort(edits.begin(), edits.end(), [](const Edit& a, const Edit& b) {
+        if (a.start != b.start) return a.start < b.start;
+        return (a.start == a.end) > (b.start == b.end);   // insertions before replacements
+    });
+    // The header goes first among insertions at its position.
+    for (std::size_t k = 0; k + 1 < edits.size(); ++k)
+        if (edits[k + 1].start == headerAt && edits[k + 1].end == headerAt && edits[k + 1].text.find(header) != std::string::npos &&
+            edits[k].start == headerAt && edits[k].end == headerAt)
+            std::swap(edits[k], edits[k + 1]);
     std::string text;
     std::size_t pos = 0;
+    bool headerDone = false;
     for (const Edit& e : edits) {
         if (e.start < pos) {
-            if (e.end <= pos) continue;   // inside an edit already applied
+            if (e.end <= pos && e.text.empty()) continue;
+            throw Error("writer: overlapping edits", {}, ExitCode::Internal);
         }
-        std::size_t s = std::max(e.start, pos);
-        text.append(src, pos, s - pos);
-        text += e.text;
-        pos = std::max(pos, e.end);
+        text.append(src_, pos, e.start - pos);
+        std::string t = e.text;
+        if (res.newline != "\n") {
+            std::string c;
+            for (char ch : t) c += ch == '\n' ? std::string("\r\n") : std::string(1, ch);
+            t = c;
+        }
+        if (!headerDone && e.start == headerAt && e.end == headerAt && e.text.find(header) != std::string::npos) {
+            res.headerPos = text.size();
+            res.headerLen = t.find('\n') + 1;
+            headerDone = true;
+        }
+        text += t;
+        pos = e.end;
     }
-    text.append(src, pos, std::string::npos);
+    text.append(src_, pos, std::string::npos);
+    // The header's length runs to its line end, newline excluded.
+    if (headerDone) {
+        std::size_t nl = text.find('\n', res.headerPos);
+        res.headerLen = nl - res.headerPos;
+        if (nl > 0 && text[nl - 1] == '\r') --res.headerLen;
+    }
     res.text = std::move(text);
+    res.changed = res.text != src_;
     return res;
+}
+} // namespace
+
+WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
+    Writer w(in, opts);
+    return w.run();
 }
 
 } // namespace kerf::emit

@@ -1,35 +1,85 @@
-// kerf/emit/writer.h — splicing restructured logic back into the source file.
+// kerf/emit/writer.h — restructured logic written back into the source file.
 //
-// The output is the file that holds the module with only the restructured
-// statements replaced: every other byte stays. Declarations of internal
-// signals that the network dissolved are removed from their statements.
+// The writer replaces, in place, only the statements whose outputs get
+// smaller by at least the stated margin; every other byte of the file stays.
+// Outputs keep the author's names and statement kinds (`assign` stays
+// `assign`, a combinational block stays a block of the same kind); nodes
+// whose function an author's signal already computes are referred to by that
+// signal's name; new shared wires get descriptive names and are declared just
+// before the first statement that uses them. No declaration is deleted except
+// module-scope loop counters of replaced blocks.
 #pragma once
 
+#include "kerf/algebra/cover.h"
 #include "kerf/frontend/lower.h"
 #include "kerf/network/network.h"
 
 #include <string>
+#include <vector>
 
 namespace kerf::emit {
 
+/// The smallest saving for which a group of statements is rewritten.
+struct MinGain {
+    double value = 1;        ///< two-input gates, or percent of the group's size when `percent`
+    bool percent = false;
+    /// Parse "N" (gates) or "N%" (percent); throws kerf::Error (usage) on anything else.
+    static MinGain parse(const std::string& text);
+    std::string str() const;
+};
+
 struct WriteOptions {
-    std::string prefix = "kf_";   ///< prefix of generated wire names
-    std::string banner;           ///< extra comment line for the block header (e.g. proof status)
-    /// Factored form per node id to print; when null each node is factored here.
-    const std::vector<algebra::Factored>* forms = nullptr;
+    /// Prefix of every new wire name (empty: descriptive names alone).
+    std::string prefix;
+    MinGain minGain;
+    /// Longest line the writer produces where it can break an expression.
+    std::size_t lineLimit = 100;
+};
+
+/// One group of statements that share restructured logic: replaced together or kept together.
+struct StatementGroup {
+    std::vector<int> members;                 ///< member ids, source order
+    std::vector<std::pair<int, int>> lines;   ///< line ranges (1-based, inclusive) of those statements
+    std::vector<std::string> outputs;         ///< signals the group drives
+    std::size_t gatesBefore = 0;              ///< two-input gates of its logic as written
+    std::size_t gatesAfter = 0;               ///< of the restructured logic that would replace it
+    bool replaced = false;
+    std::string reason;                       ///< why it was kept as written (empty when replaced)
 };
 
 struct WriteResult {
     std::string text;             ///< the whole rewritten file
     std::string file;             ///< the file it replaces
-    bool changed = false;         ///< false when nothing was restructured
-    std::size_t assignments = 0;  ///< generated assignments
-    std::size_t wires = 0;        ///< generated intermediate wires
+    bool changed = false;         ///< text differs from the file as read
+    std::vector<StatementGroup> groups;
+    std::vector<std::string> wiresAdded;   ///< new wire names, in the order declared
+    std::vector<std::string> namesKept;    ///< author signals whose name now names restructured logic
+    /// The header comment line written above the first change ("" when unchanged):
+    /// its byte offset and length in `text`, so the caller can fill in the figures.
+    std::size_t headerPos = 0, headerLen = 0;
+    std::string newline = "\n";   ///< the file's line ending
 };
 
-/// Produce the rewritten source of the file holding `m`.
-WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& lowered,
-                        const net::Network& network, const WriteOptions& opts = {});
+/// What the writer needs besides the module description.
+struct WriteInput {
+    const frontend::ModuleDesc* module = nullptr;
+    const frontend::Lowered* lowered = nullptr;      ///< as read (outputs, members replaced, word operations)
+    const net::Network* original = nullptr;          ///< the network as read, before any pass
+    const net::Network* network = nullptr;           ///< the restructured network (same outputs)
+    const std::vector<algebra::Factored>* forms = nullptr;   ///< factored form per node of `network`
+    const std::vector<algebra::Factored>* originalForms = nullptr;   ///< factored form per node of `original`
+    /// All replaced statements form one group (internal signals were dissolved into the logic).
+    bool oneGroup = false;
+};
+
+/// Produce the rewritten source of the file holding the module.
+WriteResult writeModule(const WriteInput& in, const WriteOptions& opts = {});
+
+/// Replace the header comment of `r.text` by `line` (without comment marker or newline).
+void setHeader(WriteResult& r, const std::string& line);
+
+/// Is `p` usable as the start of a Verilog identifier (IEEE 1800 simple identifier rules)?
+bool validIdentifierPrefix(const std::string& p);
 
 /// Read a whole file (throws kerf::Error naming the file when it cannot).
 std::string readFile(const std::string& path);

@@ -26,20 +26,36 @@ struct RestructureOptions {
     std::string reportPath;          ///< --report FILE.json
     bool skipProof = false;
     std::int64_t proofBudget = 10000000;   ///< SAT conflicts over the whole proof
-    std::string prefix = "kf_";
+    std::string prefix;              ///< --wire-prefix: prefix of new wire names ("" = descriptive names alone)
+    std::string minGain = "1";       ///< --min-gain: gates ("2") or percent ("5%") a group must save
+    bool diff = false;               ///< print a unified diff instead of the file
+    bool dissolveInternal = false;   ///< internal signals may dissolve into the logic (their declarations go)
 };
 
 /// Run `kerf restructure`; returns the process exit code. Messages go to stderr.
 int restructure(const RestructureOptions& opts);
 
-/// Figures of a module as read (before any clean-up).
+/// Word-level operators kept as written, by kind.
+struct WordOperators {
+    std::size_t adders = 0;        ///< + and - (and unary -)
+    std::size_t multipliers = 0;   ///< *
+    std::size_t comparators = 0;   ///< < <= > >= == != between two variable words
+    std::size_t shifters = 0;      ///< shifts by a variable amount
+    std::size_t other = 0;
+    std::size_t total() const { return adders + multipliers + comparators + shifters + other; }
+    std::string str() const;       ///< "1 adder, 1 multiplier" or "none"
+};
+
+/// Figures of a module as read (before any clean-up). `restructure` reports
+/// the same figures for its input ("before") and for the file it writes ("after").
 struct StatsResult {
     std::string module;
     net::Metrics metrics;
+    WordOperators words;
     std::size_t restructurable = 0;   ///< members kerf would restructure
     std::size_t kept = 0;             ///< members left as written
 };
-StatsResult stats(const frontend::ReadOptions& read);
+StatsResult stats(const frontend::ReadOptions& read, bool dissolveInternal = false);
 
 /// Options of `kerf equiv`.
 struct EquivOptions {

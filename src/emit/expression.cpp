@@ -1,0 +1,587 @@
+// expression.cpp — factored forms as readable Verilog expressions.
+//
+// Polarity: for every sub-expression both ways of writing it are counted —
+// as it stands, or as the complement of its De Morgan dual under one `~` —
+// and the one with fewer inversions is printed (ties keep the form without
+// the outer `~`). This is the usual inverter-minimising choice of phase
+// assignment (common trade practice); the function never changes.
+// Operators follow IEEE 1800-2017 clause 11.3.2 precedence; the writer adds
+// parentheses around comparisons, exclusive-ors and choices inside `&`/`|`
+// for the reader's sake even where the standard does not need them.
+#include "expression.h"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <map>
+
+namespace kerf::emit {
+
+using algebra::Factored;
+using algebra::Literal;
+using algebra::literalNegated;
+using algebra::literalVar;
+using algebra::negateLiteral;
+using K = Factored::Kind;
+
+namespace {
+
+/// Is f the sum x & ~y | ~x & y (or x & y | ~x & ~y) of two variables?
+bool xorShape(const Factored& f, Literal& x, Literal& y, bool& inverted) {
+    if (f.kind != K::Or || f.kids.size() != 2) return false;
+    auto pairOf = [](const Factored& g, Literal& a, Literal& b) {
+        if (g.kind != K::And || g.kids.size() != 2) return false;
+        if (g.kids[0].kind != K::Lit || g.kids[1].kind != K::Lit) return false;
+        a = g.kids[0].lit;
+        b = g.kids[1].lit;
+        if (literalVar(a) > literalVar(b)) std::swap(a, b);
+        return literalVar(a) != literalVar(b) && literalVar(a) != 0;
+    };
+    Literal a1, b1, a2, b2;
+    if (!pairOf(f.kids[0], a1, b1) || !pairOf(f.kids[1], a2, b2)) return false;
+    if (a2 != negateLiteral(a1) || b2 != negateLiteral(b1)) return false;
+    x = a1 & ~1u;
+    y = b1 & ~1u;
+    inverted = literalNegated(a1) == literalNegated(b1);
+    return true;
+}
+
+/// Is f the choice s & A | ~s & B (s a literal directly under both ANDs)?
+bool muxShape(const Factored& f, Literal& sel, std::size_t& thenKid, std::size_t& selInThen, std::size_t& selInElse) {
+    if (f.kind != K::Or || f.kids.size() != 2) return false;
+    const Factored& p = f.kids[0];
+    const Factored& q = f.kids[1];
+    if (p.kind != K::And || q.kind != K::And || p.kids.size() < 2 || q.kids.size() < 2) return false;
+    for (std::size_t i = 0; i < p.kids.size(); ++i) {
+        if (p.kids[i].kind != K::Lit || literalVar(p.kids[i].lit) == 0) continue;
+        for (std::size_t j = 0; j < q.kids.size(); ++j) {
+            if (q.kids[j].kind != K::Lit) continue;
+            if (q.kids[j].lit != negateLiteral(p.kids[i].lit)) continue;
+            bool pPositive = !literalNegated(p.kids[i].lit);
+            sel = pPositive ? p.kids[i].lit : q.kids[j].lit;
+            thenKid = pPositive ? 0 : 1;
+            selInThen = pPositive ? i : j;
+            selInElse = pPositive ? j : i;
+            return true;
+        }
+    }
+    return false;
+}
+
+Factored without(const Factored& andForm, std::size_t drop) {
+    Factored r;
+    r.kind = K::And;
+    for (std::size_t i = 0; i < andForm.kids.size(); ++i)
+        if (i != drop) r.kids.push_back(andForm.kids[i]);
+    if (r.kids.size() == 1) return r.kids[0];
+    return r;
+}
+
+int precedence(const PExpr& e) {
+    if (e.neg && !e.atomic()) return 10;   // ~( ... )
+    switch (e.kind) {
+    case PExpr::Kind::Mux: return 1;
+    case PExpr::Kind::Or: return e.kids.size() > 1 ? 2 : 10;
+    case PExpr::Kind::Xor: return 3;
+    case PExpr::Kind::And: return e.kids.size() > 1 ? 4 : 10;
+    case PExpr::Kind::Compare: return 5;
+    default: return 10;
+    }
+}
+
+const char* opText(PExpr::Kind k) {
+    switch (k) {
+    case PExpr::Kind::And: return "&";
+    case PExpr::Kind::Or: return "|";
+    case PExpr::Kind::Xor: return "^";
+    default: return "?";
+    }
+}
+
+/// Does kid need parentheses as an operand of parent kind `pk`?
+bool needsParens(PExpr::Kind pk, const PExpr& kid) {
+    int p = precedence(kid);
+    if (p == 10) return false;
+    if (pk == PExpr::Kind::Mux) return p <= 1;
+    // Readability: anything composite under a different operator gets parentheses.
+    return true;
+}
+
+std::string constText(int width, const std::vector<int>& bitsMsbFirst) {
+    if (width % 4 == 0) {
+        std::string hex;
+        for (int i = 0; i < width; i += 4) {
+            int v = 0;
+            for (int j = 0; j < 4; ++j) v = v * 2 + bitsMsbFirst[static_cast<std::size_t>(i + j)];
+            hex += "0123456789abcdef"[v];
+        }
+        return fmt::format("{}'h{}", width, hex);
+    }
+    std::string bin;
+    for (int b : bitsMsbFirst) bin += b ? '1' : '0';
+    return fmt::format("{}'b{}", width, bin);
+}
+
+int indexOf(const VarRef& r, int offset) { return r.msb >= r.lsb ? r.lsb + offset : r.lsb - offset; }
+
+std::string sliceText(const VarRef& r, int loOff, int hiOff) {
+    std::string base = r.text.substr(0, r.text.rfind('['));
+    if (loOff == 0 && hiOff == r.width - 1) return base;
+    if (loOff == hiOff) return fmt::format("{}[{}]", base, indexOf(r, loOff));
+    return fmt::format("{}[{}:{}]", base, indexOf(r, hiOff), indexOf(r, loOff));
+}
+
+} // namespace
+
+// ---------------------------------------------------------------- costs
+
+std::vector<std::uint8_t> ExprBuilder::sliceKids(const Factored& f) const {
+    // Kids that are bits of one vector at consecutive offsets become one comparison
+    // (see groupSlices): they cost no inversion whichever way the operator is written.
+    std::vector<std::uint8_t> out(f.kids.size(), 0);
+    std::map<std::string, std::vector<std::pair<int, std::size_t>>> bySignal;
+    for (std::size_t i = 0; i < f.kids.size(); ++i) {
+        const Factored& k = f.kids[i];
+        if (k.kind != K::Lit) continue;
+        std::uint32_t v = literalVar(k.lit);
+        if (v == 0 || v >= refs_.size() || !refs_[v] || refs_[v]->signal.empty() || refs_[v]->width < 2) continue;
+        bySignal[refs_[v]->signal].push_back({refs_[v]->offset, i});
+    }
+    for (auto& [sig, bits] : bySignal) {
+        std::sort(bits.begin(), bits.end());
+        for (std::size_t a = 0; a < bits.size(); ++a) {
+            bool prev = a > 0 && bits[a - 1].first + 1 == bits[a].first;
+            bool next = a + 1 < bits.size() && bits[a].first + 1 == bits[a + 1].first;
+            if (prev || next) out[bits[a].second] = 1;
+        }
+    }
+    return out;
+}
+
+int ExprBuilder::costLit(Literal l) {
+    std::uint32_t v = literalVar(l);
+    if (v == 0) return 0;
+    if (v < refs_.size() && refs_[v]) return (literalNegated(l) != refs_[v]->inverted) ? 1 : 0;
+    return cost(forms_[v], literalNegated(l));
+}
+
+int ExprBuilder::cost(const Factored& f, bool neg) {
+    auto& memo = memo_[neg ? 1 : 0];
+    if (auto it = memo.find(&f); it != memo.end()) return it->second;
+    int c = 0;
+    Literal x, y;
+    bool inv;
+    switch (f.kind) {
+    case K::Zero:
+    case K::One: c = 0; break;
+    case K::Lit: c = costLit(neg ? negateLiteral(f.lit) : f.lit); break;
+    case K::And:
+    case K::Or: {
+        if (xorShape(f, x, y, inv)) {
+            c = costLit(x) + costLit(y) + ((inv != neg) ? 1 : 0);
+            break;
+        }
+        int same = 0, flipped = 1;
+        std::vector<std::uint8_t> slice = sliceKids(f);
+        for (std::size_t i = 0; i < f.kids.size(); ++i) {
+            if (slice[i]) continue;
+            same += cost(f.kids[i], neg);
+            flipped += cost(f.kids[i], !neg);
+        }
+        // `neg` of an AND is an OR of complemented kids (same), or ~(AND) (flipped).
+        c = std::min(same, flipped);
+        break;
+    }
+    }
+    memo[&f] = c;
+    return c;
+}
+
+int ExprBuilder::inversions(std::uint32_t v, bool negate) { return cost(forms_[v], negate); }
+
+// ---------------------------------------------------------------- building
+
+PExpr ExprBuilder::buildLit(Literal l) {
+    std::uint32_t v = literalVar(l);
+    PExpr e;
+    if (v == 0) {
+        e.kind = literalNegated(l) ? PExpr::Kind::One : PExpr::Kind::Zero;
+        return e;
+    }
+    if (v < refs_.size() && refs_[v]) {
+        e.kind = PExpr::Kind::Ref;
+        e.ref = &*refs_[v];
+        e.text = refs_[v]->text;
+        e.rank = refs_[v]->rank;
+        e.neg = literalNegated(l) != refs_[v]->inverted;
+        return e;
+    }
+    return build(forms_[v], literalNegated(l));
+}
+
+PExpr ExprBuilder::literal(Literal l) { return buildLit(l); }
+
+PExpr ExprBuilder::definition(std::uint32_t v, bool negate) { return build(forms_[v], negate); }
+
+PExpr ExprBuilder::build(const Factored& f, bool neg) {
+    PExpr e;
+    switch (f.kind) {
+    case K::Zero: e.kind = neg ? PExpr::Kind::One : PExpr::Kind::Zero; return e;
+    case K::One: e.kind = neg ? PExpr::Kind::Zero : PExpr::Kind::One; return e;
+    case K::Lit: return buildLit(neg ? negateLiteral(f.lit) : f.lit);
+    case K::And:
+    case K::Or: break;
+    }
+    if (f.kids.empty()) {
+        bool one = (f.kind == K::And) != neg;
+        e.kind = one ? PExpr::Kind::One : PExpr::Kind::Zero;
+        return e;
+    }
+    if (f.kids.size() == 1) return build(f.kids[0], neg);
+    Literal x, y;
+    bool inv;
+    if (xorShape(f, x, y, inv)) {
+        e.kind = PExpr::Kind::Xor;
+        e.kids.push_back(buildLit(x));
+        e.kids.push_back(buildLit(y));
+        e.neg = inv != neg;
+        // `~a ^ b` reads worse than `~(a ^ b)`: move operand inversions outside.
+        for (auto& k : e.kids)
+            if (k.neg && k.atomic()) {
+                k.neg = false;
+                e.neg = !e.neg;
+            }
+        return e;
+    }
+    Literal sel;
+    std::size_t thenKid, sThen, sElse;
+    if (muxShape(f, sel, thenKid, sThen, sElse)) {
+        e.kind = PExpr::Kind::Mux;
+        PExpr s = buildLit(sel);
+        PExpr a = build(without(f.kids[thenKid], sThen), neg);
+        PExpr b = build(without(f.kids[1 - thenKid], sElse), neg);
+        if (s.neg && s.atomic()) {
+            // The name holds the complement: select on it and swap the branches.
+            s.neg = false;
+            std::swap(a, b);
+        }
+        e.kids.push_back(std::move(s));
+        e.kids.push_back(std::move(a));
+        e.kids.push_back(std::move(b));
+        return e;
+    }
+    int same = 0, flipped = 1;
+    std::vector<std::uint8_t> slice = sliceKids(f);
+    for (std::size_t i = 0; i < f.kids.size(); ++i) {
+        if (slice[i]) continue;
+        same += cost(f.kids[i], neg);
+        flipped += cost(f.kids[i], !neg);
+    }
+    bool isAnd = f.kind == K::And;
+    if (same <= flipped) {
+        // neg of AND = OR of complemented kids.
+        e.kind = (isAnd != neg) ? PExpr::Kind::And : PExpr::Kind::Or;
+        for (const auto& k : f.kids) e.kids.push_back(build(k, neg));
+    } else {
+        // ~(G) with G the complement of the wanted value: for an AND, G is the
+        // OR of complemented kids (neg false) or the AND itself (neg true).
+        e.neg = true;
+        for (const auto& k : f.kids) e.kids.push_back(build(k, !neg));
+        e.kind = isAnd ? (neg ? PExpr::Kind::And : PExpr::Kind::Or) : (neg ? PExpr::Kind::Or : PExpr::Kind::And);
+    }
+    // Flatten nested operators of the same kind (associative).
+    std::vector<PExpr> flat;
+    for (auto& k : e.kids) {
+        if (k.kind == e.kind && !k.neg && k.kids.size() > 1) {
+            for (auto& kk : k.kids) flat.push_back(std::move(kk));
+        } else {
+            flat.push_back(std::move(k));
+        }
+    }
+    e.kids = std::move(flat);
+    groupSlices(e);
+    // Named operands first, in rank order (bits of one vector MSB first); composite ones after.
+    std::stable_sort(e.kids.begin(), e.kids.end(), [](const PExpr& a, const PExpr& b) {
+        bool sa = a.kind == PExpr::Kind::Ref || a.kind == PExpr::Kind::Compare;
+        bool sb = b.kind == PExpr::Kind::Ref || b.kind == PExpr::Kind::Compare;
+        if (sa != sb) return sa;
+        if (!sa) return false;
+        return a.rank < b.rank;
+    });
+    return e;
+}
+
+/// Within an AND (or OR) of bits of one vector, consecutive bits become one
+/// comparison with a constant: `v[5:2] == 4'h0` (or `v[5:2] != 4'hf` in an OR).
+void ExprBuilder::groupSlices(PExpr& e) {
+    if (e.kind != PExpr::Kind::And && e.kind != PExpr::Kind::Or) return;
+    std::map<std::string, std::vector<std::size_t>> bySignal;
+    for (std::size_t i = 0; i < e.kids.size(); ++i) {
+        const PExpr& k = e.kids[i];
+        if (k.kind == PExpr::Kind::Ref && k.ref && !k.ref->signal.empty() && k.ref->width > 1)
+            bySignal[k.ref->signal].push_back(i);
+    }
+    std::vector<std::uint8_t> drop(e.kids.size(), 0);
+    std::vector<PExpr> added;
+    std::vector<std::size_t> addedAt;
+    for (auto& [sig, idx] : bySignal) {
+        if (idx.size() < 2) continue;
+        std::sort(idx.begin(), idx.end(), [&](std::size_t a, std::size_t b) {
+            return e.kids[a].ref->offset < e.kids[b].ref->offset;
+        });
+        const VarRef& r0 = *e.kids[idx[0]].ref;
+        std::size_t s = 0;
+        while (s < idx.size()) {
+            std::size_t t = s;
+            while (t + 1 < idx.size() && e.kids[idx[t + 1]].ref->offset == e.kids[idx[t]].ref->offset + 1) ++t;
+            std::size_t len = t - s + 1;
+            int lo = e.kids[idx[s]].ref->offset, hi = e.kids[idx[t]].ref->offset;
+            if (len >= 2) {
+                // AND: bit value 1 for a positive literal; OR of literals = NOT(all literals false).
+                bool isAnd = e.kind == PExpr::Kind::And;
+                std::vector<int> bits;
+                for (std::size_t q = t + 1; q-- > s;) {
+                    bool n = e.kids[idx[q]].neg;
+                    bits.push_back(isAnd ? (n ? 0 : 1) : (n ? 1 : 0));
+                }
+                PExpr c;
+                c.kind = PExpr::Kind::Compare;
+                c.text = fmt::format("{} {} {}", sliceText(r0, lo, hi), isAnd ? "==" : "!=",
+                                     constText(static_cast<int>(len), bits));
+                c.rank = e.kids[idx[s]].rank;
+                std::size_t first = idx[s];
+                for (std::size_t q = s; q <= t; ++q) {
+                    drop[idx[q]] = 1;
+                    first = std::min(first, idx[q]);
+                    c.rank = std::min(c.rank, e.kids[idx[q]].rank);
+                }
+                added.push_back(std::move(c));
+                addedAt.push_back(first);
+            }
+            s = t + 1;
+        }
+    }
+    if (added.empty()) return;
+    std::vector<PExpr> kids;
+    for (std::size_t i = 0; i < e.kids.size(); ++i) {
+        for (std::size_t a = 0; a < added.size(); ++a)
+            if (addedAt[a] == i) kids.push_back(added[a]);
+        if (!drop[i]) kids.push_back(std::move(e.kids[i]));
+    }
+    e.kids = std::move(kids);
+    if (e.kids.size() == 1) {
+        PExpr only = std::move(e.kids[0]);
+        if (e.neg) {
+            // ~(v != K) reads as v == K.
+            std::size_t at = only.text.find(" != ");
+            if (at == std::string::npos) at = only.text.find(" == "), only.text.replace(at, 4, " != ");
+            else only.text.replace(at, 4, " == ");
+        }
+        e = std::move(only);
+    }
+}
+
+// ---------------------------------------------------------------- text
+
+namespace {
+
+void appendFlat(std::string& out, const PExpr& e) {
+    switch (e.kind) {
+    case PExpr::Kind::Zero: out += "1'b0"; return;
+    case PExpr::Kind::One: out += "1'b1"; return;
+    case PExpr::Kind::Ref:
+        if (e.neg) out += '~';
+        out += e.text;
+        return;
+    case PExpr::Kind::Compare:
+        if (e.neg) out += "~(";
+        out += e.text;
+        if (e.neg) out += ')';
+        return;
+    case PExpr::Kind::Mux: {
+        if (e.neg) out += "~(";
+        auto part = [&](const PExpr& k) {
+            bool p = needsParens(PExpr::Kind::Mux, k) || (k.kind == PExpr::Kind::Compare && &k == &e.kids[0]);
+            if (p) out += '(';
+            appendFlat(out, k);
+            if (p) out += ')';
+        };
+        part(e.kids[0]);
+        out += " ? ";
+        part(e.kids[1]);
+        out += " : ";
+        part(e.kids[2]);
+        if (e.neg) out += ')';
+        return;
+    }
+    default: break;
+    }
+    if (e.neg) out += "~(";
+    for (std::size_t i = 0; i < e.kids.size(); ++i) {
+        if (i) fmt::format_to(std::back_inserter(out), " {} ", opText(e.kind));
+        bool p = e.kids.size() > 1 && needsParens(e.kind, e.kids[i]);
+        if (p) out += '(';
+        appendFlat(out, e.kids[i]);
+        if (p) out += ')';
+    }
+    if (e.neg) out += ')';
+}
+
+/// Lines of `e` laid out from column `col`; lines after the first are complete (with indentation).
+std::vector<std::string> layoutLines(const PExpr& e, std::size_t col, std::size_t limit, std::size_t tail, bool paren) {
+    std::string flat;
+    if (paren) flat += '(';
+    appendFlat(flat, e);
+    if (paren) flat += ')';
+    if (col + flat.size() + tail <= limit || e.atomic() || e.kind == PExpr::Kind::Compare) return {flat};
+    std::string open = paren ? "(" : "";
+    if (e.neg) open += "~(";
+    std::string close = std::string(e.neg ? ")" : "") + (paren ? ")" : "");
+    std::size_t kc = col + open.size();
+    std::vector<std::string> lines;
+    if (e.kind == PExpr::Kind::Mux) {
+        auto sub = [&](const PExpr& k, std::size_t c, std::size_t t) {
+            return layoutLines(k, c, limit, t, needsParens(PExpr::Kind::Mux, k));
+        };
+        std::vector<std::string> s = sub(e.kids[0], kc, 0);
+        lines = s;
+        std::size_t qcol = (lines.size() == 1 ? kc + lines[0].size() : lines.back().size()) + 1;
+        std::vector<std::string> a = sub(e.kids[1], qcol + 2, 0);
+        lines.back() += " ? " + a[0];
+        for (std::size_t i = 1; i < a.size(); ++i) lines.push_back(a[i]);
+        std::vector<std::string> b = sub(e.kids[2], qcol + 2, tail + close.size());
+        lines.push_back(std::string(qcol, ' ') + ": " + b[0]);
+        for (std::size_t i = 1; i < b.size(); ++i) lines.push_back(b[i]);
+        lines.front() = open + lines.front();
+        lines.back() += close;
+        return lines;
+    }
+    std::string op = opText(e.kind);
+    std::size_t opCol = kc >= 2 ? kc - 2 : 0;
+    for (std::size_t i = 0; i < e.kids.size(); ++i) {
+        const PExpr& k = e.kids[i];
+        bool p = needsParens(e.kind, k);
+        std::size_t t = i + 1 == e.kids.size() ? tail + close.size() : 0;
+        if (i == 0) {
+            lines = layoutLines(k, kc, limit, t, p);
+            continue;
+        }
+        // AND operands pack onto the current line while they fit; OR operands start a new line.
+        std::string flatKid;
+        if (p) flatKid += '(';
+        appendFlat(flatKid, k);
+        if (p) flatKid += ')';
+        std::size_t curEnd = lines.size() == 1 ? kc + lines[0].size() : lines.back().size();
+        if (e.kind == PExpr::Kind::And && curEnd + 3 + flatKid.size() + t <= limit) {
+            lines.back() += " " + op + " " + flatKid;
+            continue;
+        }
+        std::vector<std::string> sub = layoutLines(k, kc, limit, t, p);
+        lines.push_back(std::string(opCol, ' ') + op + std::string(kc - opCol - op.size(), ' ') + sub[0]);
+        for (std::size_t j = 1; j < sub.size(); ++j) lines.push_back(sub[j]);
+    }
+    lines.front() = open + lines.front();
+    lines.back() += close;
+    return lines;
+}
+
+/// Structural equality of two expressions with their references abstracted:
+/// collects, per reference position, the references of every bit.
+bool sameShape(const PExpr& a, const PExpr& b) {
+    if (a.kind != b.kind || a.neg != b.neg || a.kids.size() != b.kids.size()) return false;
+    if (a.kind == PExpr::Kind::Compare && a.text != b.text) return false;
+    for (std::size_t i = 0; i < a.kids.size(); ++i)
+        if (!sameShape(a.kids[i], b.kids[i])) return false;
+    return true;
+}
+
+void collectRefs(const PExpr& e, bool inSelect, std::vector<std::pair<const PExpr*, bool>>& out) {
+    if (e.kind == PExpr::Kind::Ref) out.emplace_back(&e, inSelect);
+    for (std::size_t i = 0; i < e.kids.size(); ++i)
+        collectRefs(e.kids[i], inSelect || (e.kind == PExpr::Kind::Mux && i == 0), out);
+}
+
+void replaceRefs(PExpr& e, const std::vector<std::string>& texts, std::size_t& i) {
+    if (e.kind == PExpr::Kind::Ref) {
+        e.text = texts[i++];
+        e.ref = nullptr;
+    }
+    for (auto& k : e.kids) replaceRefs(k, texts, i);
+}
+
+} // namespace
+
+std::string flatText(const PExpr& e) {
+    std::string s;
+    appendFlat(s, e);
+    return s;
+}
+
+std::string layoutText(const PExpr& e, std::size_t col, std::size_t limit, std::size_t tail) {
+    std::vector<std::string> lines = layoutLines(e, col, limit, tail, false);
+    std::string s;
+    for (std::size_t i = 0; i < lines.size(); ++i) {
+        if (i) s += '\n';
+        s += lines[i];
+    }
+    return s;
+}
+
+std::optional<PExpr> vectorTemplate(const std::vector<PExpr>& bits) {
+    if (bits.size() < 2) return std::nullopt;
+    for (std::size_t i = 1; i < bits.size(); ++i)
+        if (!sameShape(bits[0], bits[i])) return std::nullopt;
+    std::vector<std::vector<std::pair<const PExpr*, bool>>> refs(bits.size());
+    for (std::size_t i = 0; i < bits.size(); ++i) collectRefs(bits[i], false, refs[i]);
+    const int n = static_cast<int>(bits.size());
+    std::vector<std::string> texts;
+    for (std::size_t pos = 0; pos < refs[0].size(); ++pos) {
+        const PExpr* r0 = refs[0][pos].first;
+        bool select = refs[0][pos].second;
+        bool same = true;
+        for (std::size_t i = 1; i < bits.size(); ++i) same = same && refs[i][pos].first->text == r0->text;
+        if (same) {
+            // A choice keeps one scalar select; operands widen by replication.
+            texts.push_back(select ? r0->text : fmt::format("{{{}{{{}}}}}", n, r0->text));
+            continue;
+        }
+        // Consecutive bits of one vector, rising with the output bit.
+        if (select || !r0->ref || r0->ref->signal.empty()) return std::nullopt;
+        for (std::size_t i = 1; i < bits.size(); ++i) {
+            const VarRef* ri = refs[i][pos].first->ref;
+            if (!ri || ri->signal != r0->ref->signal || ri->offset != r0->ref->offset + static_cast<int>(i))
+                return std::nullopt;
+        }
+        texts.push_back(sliceText(*r0->ref, r0->ref->offset, r0->ref->offset + n - 1));
+    }
+    bool varies = false;
+    for (std::size_t pos = 0; pos < refs[0].size(); ++pos)
+        varies = varies || refs[0][pos].first->text != refs[1][pos].first->text;
+    if (!varies) return std::nullopt;   // every bit alike: written bit by bit
+    // Constants must be the same in every bit; a bare constant is not a template.
+    if (bits[0].atomic() && bits[0].kind != PExpr::Kind::Ref) return std::nullopt;
+    PExpr t = bits[0];
+    std::size_t i = 0;
+    replaceRefs(t, texts, i);
+    // Constant leaves inside widen too.
+    std::vector<PExpr*> stack{&t};
+    bool constants = false;
+    while (!stack.empty()) {
+        PExpr* x = stack.back();
+        stack.pop_back();
+        if (x->kind == PExpr::Kind::Zero || x->kind == PExpr::Kind::One) constants = true;
+        if (x->kind == PExpr::Kind::Compare) return std::nullopt;
+        for (auto& k : x->kids) stack.push_back(&k);
+    }
+    if (constants) return std::nullopt;
+    return t;
+}
+
+std::size_t formGates(const Factored& f) {
+    if (f.kind != K::And && f.kind != K::Or) return 0;
+    std::size_t g = f.kids.empty() ? 0 : f.kids.size() - 1;
+    for (const auto& k : f.kids) g += formGates(k);
+    return g;
+}
+
+} // namespace kerf::emit

@@ -1,0 +1,90 @@
+// expression.h — factored forms as readable Verilog expressions (writer-internal).
+//
+// A node's factored form becomes a small printable tree: each sub-expression
+// takes the polarity that needs the fewest inversions (so `~(~a & ~b)` prints
+// as `a | b`), two-literal exclusive-or shapes print with `^`, a two-way
+// choice `s & a | ~s & b` prints as `s ? a : b`, and bits of one vector
+// compared against constants print as `v[7:4] == 4'h0`. The layout breaks long
+// expressions at their operators, the operator leading each continuation line.
+#pragma once
+
+#include "kerf/algebra/cover.h"
+
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <unordered_map>
+#include <vector>
+
+namespace kerf::emit {
+
+/// How a network variable is referred to by name.
+struct VarRef {
+    std::string text;          ///< Verilog text: "paddr[3]", "acc_w"
+    std::string signal;        ///< the vector it is a bit of (slice grouping); "" when none
+    int offset = 0;            ///< bit offset from the vector's least significant bit
+    int width = 1;             ///< the vector's width
+    int msb = 0, lsb = 0;      ///< the vector's declared range
+    bool inverted = false;     ///< the name holds the complement of the variable
+    int rank = 0;              ///< order among operands of one AND/OR (lower first)
+};
+
+/// A printable expression.
+struct PExpr {
+    enum class Kind { Zero, One, Ref, And, Or, Xor, Compare, Mux };
+    Kind kind = Kind::Zero;
+    bool neg = false;            ///< printed with `~` in front
+    std::string text;            ///< Ref: the reference; Compare: the whole comparison
+    const VarRef* ref = nullptr; ///< Ref: what it names
+    int rank = 0;
+    std::vector<PExpr> kids;     ///< And/Or/Xor operands; Mux: select, then, else
+
+    bool atomic() const { return kind == Kind::Ref || kind == Kind::Zero || kind == Kind::One; }
+};
+
+/// Builds printable expressions for the nodes of a network.
+class ExprBuilder {
+public:
+    /// `refs[v]`: how variable v is named, or empty when its form is written inline;
+    /// `forms[v]`: the factored form of logic variable v.
+    ExprBuilder(const std::vector<std::optional<VarRef>>& refs, const std::vector<algebra::Factored>& forms)
+        : refs_(refs), forms_(forms) {}
+
+    /// The expression for a literal (a name, its complement, or an inline form).
+    PExpr literal(algebra::Literal l);
+    /// The definition of variable v (its form), complemented when `negate`.
+    PExpr definition(std::uint32_t v, bool negate);
+    /// Inversions needed to print v's form in the given polarity.
+    int inversions(std::uint32_t v, bool negate);
+
+private:
+    int cost(const algebra::Factored& f, bool neg);
+    int costLit(algebra::Literal l);
+    PExpr build(const algebra::Factored& f, bool neg);
+    PExpr buildLit(algebra::Literal l);
+    void groupSlices(PExpr& e);
+    std::vector<std::uint8_t> sliceKids(const algebra::Factored& f) const;
+
+    const std::vector<std::optional<VarRef>>& refs_;
+    const std::vector<algebra::Factored>& forms_;
+    std::unordered_map<const algebra::Factored*, int> memo_[2];
+};
+
+/// Flat text of an expression (no line breaks).
+std::string flatText(const PExpr& e);
+
+/// Lay out `e` starting at column `col`: the first line continues the current
+/// one, later lines carry their own indentation (spaces). Lines are broken at
+/// the top-level operators when the flat text would pass `limit` (reserve
+/// `tail` columns on the last line, e.g. for ";").
+std::string layoutText(const PExpr& e, std::size_t col, std::size_t limit, std::size_t tail = 1);
+
+/// Vector template: if the per-bit expressions `bits` (least significant
+/// first) differ only in referring to consecutive bits of the same vectors
+/// (or to the same scalar), the one vector-wide expression; else empty.
+std::optional<PExpr> vectorTemplate(const std::vector<PExpr>& bits);
+
+/// Two-input gates of a factored form (a k-input AND/OR is k-1 gates; inverters free).
+std::size_t formGates(const algebra::Factored& f);
+
+} // namespace kerf::emit
