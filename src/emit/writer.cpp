@@ -134,9 +134,19 @@ bool blankBetween(const std::string& s, std::size_t a, std::size_t b) {
     return true;
 }
 
+/// Widths of the vectors kerf generates for word operations (operands and results).
+std::map<std::string, int>& generatedWidths() {
+    static thread_local std::map<std::string, int> w;
+    return w;
+}
+
 std::string bitText(const frontend::ModuleDesc& m, const BitRef& b) {
     auto it = m.signals.find(b.signal);
-    if (it == m.signals.end()) return fmt::format("{}[{}]", verilogName(b.signal), b.offset);
+    if (it == m.signals.end()) {
+        auto g = generatedWidths().find(b.signal);
+        if (g != generatedWidths().end() && g->second == 1) return verilogName(b.signal);
+        return fmt::format("{}[{}]", verilogName(b.signal), b.offset);
+    }
     if (!it->second.vector && it->second.width == 1) return verilogName(b.signal);
     return fmt::format("{}[{}]", verilogName(b.signal), it->second.indexOf(b.offset));
 }
@@ -194,6 +204,7 @@ private:
     bool checkDeclarationOrder();
     bool checkCycles();
     void decide();
+    void keepReaders();
 
     // ---- text
     PExpr outputExpr(std::size_t i);
@@ -311,9 +322,14 @@ void Writer::indexOutputs() {
     allowed_.assign(outs_.size(), 1);
     for (std::size_t i = 0; i < outs_.size(); ++i) allowed_[i] = !outs_[i].generated;
     for (const auto& [n, s] : m_.signals) taken_.insert(n);
+    generatedWidths().clear();
     for (const auto& w : low_.wordOps) {
         taken_.insert(w.result);
-        for (const auto& o : w.operands) taken_.insert(o.name);
+        generatedWidths()[w.result] = w.resultWidth;
+        for (const auto& o : w.operands) {
+            taken_.insert(o.name);
+            if (o.generated) generatedWidths()[o.name] = o.width;
+        }
     }
     oneGroup_ = oneGroup_ || !low_.wordOps.empty();
 }
@@ -344,7 +360,7 @@ VarRef Writer::refFor(const BitRef& b, int rankBase) const {
         r.width = width;
         r.msb = it->second.msb;
         r.lsb = it->second.lsb;
-    } else if (it == m_.signals.end()) {
+    } else if (it == m_.signals.end() && generatedWidths().count(b.signal) && generatedWidths()[b.signal] > 1) {
         r.signal = b.signal;
         r.offset = b.offset;
         r.width = 1 << 20;   // generated vector: bits only
@@ -702,6 +718,7 @@ bool Writer::checkCycles() {
     std::map<NodeId, std::size_t> wid;
     for (NodeId w : wires_) wid[w] = S + wid.size();
     std::vector<std::vector<std::pair<std::size_t, std::string>>> adj(S + wires_.size());
+    std::string selfRef;
     auto writerOf = [&](const std::string& name) -> long {
         auto it = unitOfSignal_.find(name);
         return it == unitOfSignal_.end() ? -1 : static_cast<long>(idx.at(it->second));
@@ -721,6 +738,7 @@ bool Writer::checkCycles() {
                 if (outs_[i].stmt != st) continue;
                 NodeId v = literalVar(net_.outputs()[i].driver);
                 auto onName = [&](const std::string& n) {
+                    if (n == outs_[i].bit.signal) selfRef = n;   // a vector reading its own bits
                     long t = writerOf(n);
                     if (t >= 0 && static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n});
                 };
@@ -738,6 +756,11 @@ bool Writer::checkCycles() {
                    long t = writerOf(n);
                    if (t >= 0) adj[from].push_back({static_cast<std::size_t>(t), n});
                });
+    }
+    if (!selfRef.empty()) {
+        for (std::size_t i = 0; i < outs_.size(); ++i)
+            if (allowed_[i] && outs_[i].bit.signal == selfRef) allowed_[i] = 0;
+        return false;
     }
     // Depth-first search for a cycle; remember the edge names on the path.
     std::vector<int> state(adj.size(), 0);
@@ -833,11 +856,62 @@ void Writer::decide() {
         bool enough = opts_.minGain.percent
                           ? gain * 100.0 >= opts_.minGain.value * static_cast<double>(G.gatesBefore)
                           : gain >= opts_.minGain.value;
-        G.replaced = gain > 0 && enough;
+        // --min-gain 0 rewrites every group that does not grow (for reviewing kerf's output).
+        G.replaced = enough && (gain > 0 || (opts_.minGain.value == 0 && gain >= 0));
         if (G.replaced) G.reason.clear();
         else if (gain <= 0) G.reason = fmt::format("no saving ({} -> {} gates)", G.gatesBefore, G.gatesAfter);
         else G.reason = fmt::format("saves {:g} gate{} ({} -> {}), less than --min-gain {}", gain, gain == 1 ? "" : "s",
                                     G.gatesBefore, G.gatesAfter, opts_.minGain.str());
+    }
+    keepReaders();
+}
+
+void Writer::keepReaders() {
+    // An internal signal that something read before stays read: a rewrite that
+    // would leave it declared, driven and unread is kept as written instead.
+    std::map<std::string, std::vector<int>> readersOf;   // signal -> groups whose statements read it
+    for (std::size_t g = 0; g < groups_.size(); ++g)
+        for (int st : groupStmts_[g])
+            for (int mid : membersOfStmt_.at(st))
+                for (const auto& r : byId_.at(mid)->reads) readersOf[r].push_back(static_cast<int>(g));
+    std::set<std::string> keptReads;
+    std::set<int> replacedIds(low_.replaced.begin(), low_.replaced.end());
+    for (const auto& mem : m_.members)
+        if (!replacedIds.count(mem.id)) keptReads.insert(mem.reads.begin(), mem.reads.end());
+    for (bool changed = true; changed;) {
+        changed = false;
+        std::set<std::string> read = keptReads;
+        for (std::size_t g = 0; g < groups_.size(); ++g) {
+            if (!groups_[g].replaced) {
+                for (int st : groupStmts_[g])
+                    for (int mid : membersOfStmt_.at(st))
+                        read.insert(byId_.at(mid)->reads.begin(), byId_.at(mid)->reads.end());
+                continue;
+            }
+            auto onName = [&](const std::string& n) { read.insert(n); };
+            for (std::size_t i = 0; i < outs_.size(); ++i) {
+                if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;
+                NodeId v = literalVar(net_.outputs()[i].driver);
+                if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
+                    onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
+                coneOf(v, definer_[v] == static_cast<int>(i), [](NodeId) {}, [](NodeId) {}, onName);
+            }
+            for (NodeId w : groupWires_[g]) coneOf(w, true, [](NodeId) {}, [](NodeId) {}, onName);
+            if (!low_.wordOps.empty() && g == 0)
+                for (const auto& w : low_.wordOps)
+                    for (const auto& o : w.operands)
+                        if (!o.generated) read.insert(o.name);
+        }
+        for (const auto& [sig, groups] : readersOf) {
+            if (read.count(sig) || isPort(sig) || !m_.signals.count(sig)) continue;
+            for (int g : groups) {
+                if (!groups_[static_cast<std::size_t>(g)].replaced) continue;
+                groups_[static_cast<std::size_t>(g)].replaced = false;
+                groups_[static_cast<std::size_t>(g)].reason =
+                    fmt::format("its rewrite would leave '{}' unread", sig);
+                changed = true;
+            }
+        }
     }
 }
 
@@ -1113,6 +1187,19 @@ WriteResult Writer::run() {
             }
             edits.push_back({mem->src.start, mem->src.end, statementsFor(s, ind, nullptr)});
             firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
+            // Other statements writing bits of the same signals: the first one now writes them all.
+            std::set<std::pair<std::size_t, std::size_t>> done{{mem->src.start, mem->src.end}};
+            for (int mid : membersOfStmt_.at(s)) {
+                const auto* other = byId_.at(mid);
+                if (!done.insert({other->src.start, other->src.end}).second) continue;
+                std::size_t ls = lineStart(src_, other->src.start);
+                std::size_t le = src_.find('\n', other->src.end);
+                le = le == std::string::npos ? src_.size() : le + 1;
+                if (!other->netDecl && blankBetween(src_, ls, other->src.start) &&
+                    blankBetween(src_, other->src.end, le - 1))
+                    edits.push_back({ls, le, ""});
+                else edits.push_back({other->src.start, other->src.end, ""});
+            }
         }
         for (std::size_t i = 0; i < outs_.size(); ++i) {
             if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;

@@ -344,6 +344,12 @@ int restructure(const RestructureOptions& opts) {
                                 {"comparators", words.comparators}, {"shifters", words.shifters},
                                 {"other", words.other}}},
             {"groups", groups},
+            {"statements_replaced", [&] {
+                 std::size_t n = 0;
+                 if (wr.changed)
+                     for (const auto& g : wr.groups) n += g.replaced ? g.members.size() : 0;
+                 return n;
+             }()},
             {"lines_replaced", ranges},
             {"kept_as_written", kept},
             {"signals_added", wr.changed ? wr.wiresAdded : std::vector<std::string>{}},

@@ -256,7 +256,10 @@ def restructure(kerf, run, work, defs, flags, tag, extra=()):
     out_dir = os.path.join(work, tag)
     os.makedirs(out_dir, exist_ok=True)
     out = os.path.join(out_dir, os.path.basename(c.path))
-    cmd = [kerf, "restructure", *c.files, "--top", c.top, *idirs(c), *dflags(defs), *flags, *extra, "-o", out]
+    # --min-gain 0: rewrite every group that does not grow, so that the writer is exercised
+    # on each case even where the rewrite would not pay (by default such statements stay as written).
+    cmd = [kerf, "restructure", *c.files, "--top", c.top, *idirs(c), *dflags(defs), *flags, *extra,
+           "--min-gain", "0", "-o", out]
     report = os.path.join(out_dir, "report.json")
     r = K.run(cmd + ["--report", report])
     what = f"restructure {label(defs, (), list(flags) + list(extra))}"
