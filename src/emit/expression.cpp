@@ -14,6 +14,7 @@
 
 #include <algorithm>
 #include <map>
+#include <numeric>
 
 namespace kerf::emit {
 
@@ -301,13 +302,23 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
     e.kids = std::move(flat);
     groupSlices(e);
     // Named operands first, in rank order (bits of one vector MSB first); composite ones after.
-    std::stable_sort(e.kids.begin(), e.kids.end(), [](const PExpr& a, const PExpr& b) {
+    // Composite operands in the order of their text, so that the same logic always prints the same.
+    std::vector<std::pair<std::string, std::size_t>> keys;
+    for (std::size_t i = 0; i < e.kids.size(); ++i) keys.push_back({flatText(e.kids[i]), i});
+    std::vector<std::size_t> perm(e.kids.size());
+    std::iota(perm.begin(), perm.end(), 0);
+    std::stable_sort(perm.begin(), perm.end(), [&](std::size_t x, std::size_t y) {
+        const PExpr& a = e.kids[x];
+        const PExpr& b = e.kids[y];
         bool sa = a.kind == PExpr::Kind::Ref || a.kind == PExpr::Kind::Compare;
         bool sb = b.kind == PExpr::Kind::Ref || b.kind == PExpr::Kind::Compare;
         if (sa != sb) return sa;
-        if (!sa) return false;
+        if (!sa) return keys[x].first < keys[y].first;
         return a.rank < b.rank;
     });
+    std::vector<PExpr> sorted;
+    for (std::size_t i : perm) sorted.push_back(std::move(e.kids[i]));
+    e.kids = std::move(sorted);
     return e;
 }
 

@@ -1259,6 +1259,17 @@ WriteResult Writer::run() {
             i = j;
         }
     }
+    // A statement rewritten into exactly its own text is no change (kerf run on its own output).
+    edits.erase(std::remove_if(edits.begin(), edits.end(),
+                               [&](const Edit& e) { return e.end > e.start && src_.compare(e.start, e.end - e.start, e.text) == 0; }),
+                edits.end());
+    if (edits.empty()) {
+        res.text = src_;
+        for (auto& G : res.groups) G.replaced = false, G.reason = "rewritten into the same text";
+        return res;
+    }
+    firstChange = std::string::npos;
+    for (const auto& e : edits) firstChange = std::min(firstChange, lineStart(src_, e.start));
     // Header comment above the first change.
     std::string header = "// kerf: restructured logic\n";
     std::size_t headerAt = firstChange;
