@@ -8,17 +8,16 @@
 #include "kerf/emit/writer.h"
 
 #include "kerf/algebra/cover.h"
+#include "kerf/io/files.h"
 
 #include <fmt/format.h>
 
 #include <algorithm>
 #include <cctype>
 #include <cstdio>
-#include <fstream>
 #include <map>
 #include <set>
 #include <sstream>
-#include <unistd.h>
 
 namespace kerf::emit {
 
@@ -28,32 +27,6 @@ using frontend::BitRef;
 using frontend::verilogName;
 using net::Literal;
 using net::NodeId;
-
-std::string readFile(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) throw Error(fmt::format("cannot read '{}'", path));
-    std::ostringstream ss;
-    ss << in.rdbuf();
-    return ss.str();
-}
-
-void writeFileAtomic(const std::string& path, const std::string& text) {
-    std::string tmp = fmt::format("{}.kerf-tmp-{}", path, getpid());
-    {
-        std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
-        if (!out) throw Error(fmt::format("cannot write '{}'", path));
-        out << text;
-        out.flush();
-        if (!out) {
-            std::remove(tmp.c_str());
-            throw Error(fmt::format("cannot write '{}'", path));
-        }
-    }
-    if (std::rename(tmp.c_str(), path.c_str()) != 0) {
-        std::remove(tmp.c_str());
-        throw Error(fmt::format("cannot replace '{}'", path));
-    }
-}
 
 namespace {
 
@@ -165,7 +138,7 @@ WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& 
                         const net::Network& network, const WriteOptions& opts) {
     WriteResult res;
     res.file = m.src.file;
-    const std::string src = readFile(m.src.file);
+    const std::string src = io::readFile(m.src.file);
     if (low.replaced.empty()) {
         res.text = src;
         return res;

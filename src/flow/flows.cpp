@@ -3,6 +3,9 @@
 
 #include "kerf/emit/writer.h"
 #include "kerf/frontend/lower.h"
+#include "kerf/io/files.h"
+#include "kerf/io/progress.h"
+#include "kerf/io/reader.h"
 #include "kerf/passes/engine.h"
 #include "kerf/passes/tidy.h"
 #include "kerf/passes/factored.h"
@@ -15,7 +18,6 @@
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
-#include <unistd.h>
 
 namespace kerf::flow {
 
@@ -41,18 +43,6 @@ std::string describeCounterexample(const proof::Counterexample& cex) {
     return s;
 }
 
-/// A temporary file that is removed when it goes out of scope.
-struct TempFile {
-    std::string path;
-    explicit TempFile(const std::string& like) {
-        std::string ext = std::filesystem::path(like).extension().string();
-        if (ext.empty()) ext = ".v";
-        path = (std::filesystem::temp_directory_path() / fmt::format("kerf-{}-{}{}", getpid(), counter()++, ext)).string();
-    }
-    ~TempFile() { std::remove(path.c_str()); }
-    static int& counter() { static int c = 0; return c; }
-};
-
 /// Read the module as the proof sees it: arithmetic turned into gates.
 frontend::Lowered lowerForProof(const frontend::ReadOptions& read, const std::string& prefix) {
     frontend::ModuleDesc d = frontend::readModule(read);
@@ -60,6 +50,14 @@ frontend::Lowered lowerForProof(const frontend::ReadOptions& read, const std::st
     lo.bitBlastArithmetic = true;
     lo.prefix = prefix;
     return frontend::lower(d, lo);
+}
+
+nlohmann::json stagesJson(const io::StageLog& log) {
+    nlohmann::json rows = nlohmann::json::array();
+    for (const auto& r : log.rows())
+        rows.push_back({{"stage", r.stage}, {"seconds", r.seconds}, {"peak_memory_mb", (r.peakRssKb + 1023) / 1024},
+                        {"process", r.child ? "reader" : "kerf"}});
+    return rows;
 }
 
 } // namespace
@@ -76,15 +74,23 @@ StatsResult stats(const frontend::ReadOptions& read) {
 }
 
 int restructure(const RestructureOptions& opts) {
+    io::StageLog stages;
     auto t0 = Clock::now();
+    stages.begin("read");
     frontend::ModuleDesc desc = frontend::readModule(opts.read);
     double readSeconds = since(t0);
+    {
+        io::ReaderOutput rf = io::lastReaderFigures();
+        stages.addChild("reader", rf.seconds, rf.peakRssKb);
+    }
+    stages.begin("lower");
     frontend::LowerOptions lo;
     lo.prefix = opts.prefix;
     frontend::Lowered low = frontend::lower(desc, lo);
     for (const auto& n : low.notes) std::cerr << n << "\n";
     net::Metrics asRead = passes::measureFactored(low.net);
 
+    stages.begin("restructure");
     auto tPass = Clock::now();
     passes::tidy(low.net);
     passes::EngineOptions eo;
@@ -98,11 +104,14 @@ int restructure(const RestructureOptions& opts) {
     net::Metrics after = forms.metrics;
     if (opts.verbose > 0) std::cerr << passes::formatPassTable(er);
 
+    stages.begin("write");
     emit::WriteOptions wo;
     wo.prefix = opts.prefix;
     wo.forms = &forms.forms;
     if (opts.skipProof) wo.banner = "written with --skip-proof: this rewrite was NOT proved equivalent";
     emit::WriteResult wr = emit::writeModule(desc, low, low.net, wo);
+    // A file written with CR LF stays so (the generated lines included).
+    if (wr.changed) wr.text = io::keepLineEndings(io::readFile(desc.src.file), std::move(wr.text));
 
     const std::string& file = desc.src.file;
     std::string summary = fmt::format("{}: module {}: gates {} -> {} ({}), literals {} -> {}, depth {} -> {}",
@@ -117,7 +126,7 @@ int restructure(const RestructureOptions& opts) {
         passRows.push_back({{"pass", row.pass}, {"after", metricsJson(row.after)}, {"seconds", row.seconds}});
     report["passes"] = passRows;
 
-    if (!wr.changed) {
+    if (!wr.changed && !opts.quiet) {
         std::cerr << fmt::format("{}: module {}: nothing to restructure; the file is written back unchanged\n",
                                  file, desc.name);
     }
@@ -126,9 +135,12 @@ int restructure(const RestructureOptions& opts) {
     int exitCode = 0;
     std::string proofLine;
     if (wr.changed && !opts.skipProof) {
+        stages.begin("prove");
         auto tProof = Clock::now();
-        TempFile tmp(file);
-        emit::writeFileAtomic(tmp.path, wr.text);
+        // The rewrite is read back from a private directory under the original's
+        // file name, so the reader's messages about it read naturally.
+        io::WorkDir work;
+        std::string rewritten = work.add(std::filesystem::path(file).filename().string(), wr.text);
         frontend::ReadOptions back = opts.read;
         // The rewritten file replaces the one that holds the module; a proof that
         // silently read the original twice would prove nothing, so insist on a match.
@@ -140,13 +152,31 @@ int restructure(const RestructureOptions& opts) {
         if (key.empty())
             throw Error(fmt::format("cannot prove the rewrite: the module's file '{}' is not one of the files given "
                                     "(is the module in an included file?)", file), {}, ExitCode::Internal);
-        back.substitute[key] = tmp.path;
+        back.substitute[key] = rewritten;
         // Includes relative to the original file's folder must still resolve.
         back.includeDirs.push_back(std::filesystem::path(file).parent_path().empty()
                                        ? "."
                                        : std::filesystem::path(file).parent_path().string());
+        // Anything wrong with kerf's own output is kerf's bug: keep the evidence.
+        auto keepEvidence = [&]() {
+            try {
+                work.add("description.json", io::runReader(frontend::readerArguments(opts.read)).text);
+            } catch (const std::exception&) {
+                // The rewrite alone still helps; the reader's own message is above.
+            }
+            return work.keep();
+        };
         frontend::Lowered a = lowerForProof(opts.read, opts.prefix);
-        frontend::Lowered b = lowerForProof(back, opts.prefix);
+        frontend::Lowered b;
+        try {
+            b = lowerForProof(back, opts.prefix);
+        } catch (const Error& e) {
+            if (e.code() == ExitCode::Resources || e.code() == ExitCode::ToolMissing) throw;
+            std::string dir = keepEvidence();
+            throw Error(fmt::format("kerf's rewrite of module {} does not read back ({}); nothing was written. "
+                                    "This is a kerf bug: please report it with the files kept in {}/",
+                                    desc.name, e.what(), dir), {}, ExitCode::Internal);
+        }
         proof::ProofOptions po;
         po.totalConflicts = opts.proofBudget;
         po.verbose = opts.verbose;
@@ -161,10 +191,13 @@ int restructure(const RestructureOptions& opts) {
                            {"boundary", "combinational equivalence at the module's ports and at kept code, "
                                         "whose outputs are matched by name and treated as free inputs"}};
         if (pr.verdict == proof::Verdict::Different) {
+            std::string dir = keepEvidence();
             std::cerr << fmt::format("{}: error: kerf's rewrite is NOT equivalent: output '{}' differs "
-                                     "(original {}, rewrite {}) for:\n{}nothing was written; please report this as a kerf bug\n",
+                                     "(original {}, rewrite {}) for:\n{}nothing was written. This is a kerf bug: "
+                                     "please report it with the rewrite and the reader's description kept in {}/\n",
                                      file, pr.cex ? pr.cex->output : "?", pr.cex && pr.cex->valueA ? 1 : 0,
-                                     pr.cex && pr.cex->valueB ? 1 : 0, pr.cex ? describeCounterexample(*pr.cex) : "");
+                                     pr.cex && pr.cex->valueB ? 1 : 0, pr.cex ? describeCounterexample(*pr.cex) : "",
+                                     dir);
             return static_cast<int>(ExitCode::Internal);
         }
         if (pr.verdict == proof::Verdict::Undecided) {
@@ -181,11 +214,20 @@ int restructure(const RestructureOptions& opts) {
         std::cerr << "warning: --skip-proof: the rewrite is written without a proof of equivalence\n";
     }
 
-    if (!opts.reportPath.empty()) emit::writeFileAtomic(opts.reportPath, report.dump(2) + "\n");
+    // The report comes before the output: a report that cannot be written leaves
+    // the output untouched. Its stage figures end here.
+    auto writeReport = [&]() {
+        stages.end();
+        report["stages"] = stagesJson(stages);
+        if (!opts.reportPath.empty()) io::writeFileAtomic(opts.reportPath, report.dump(2) + "\n");
+        if (opts.verbose > 0) std::cerr << stages.line() << "\n";
+        io::Progress::global().stop();
+    };
 
     if (opts.check) {
         bool improves = wr.changed && after.gates < asRead.gates;
-        std::cerr << summary << proofLine << "\n";
+        writeReport();
+        if (!opts.quiet) std::cerr << summary << proofLine << "\n";
         if (improves) {
             std::cerr << fmt::format("{}: kerf would restructure module {} ({} -> {} gates)\n", file, desc.name,
                                      asRead.gates, after.gates);
@@ -193,10 +235,13 @@ int restructure(const RestructureOptions& opts) {
         }
         return 0;
     }
-    if (opts.inPlace) emit::writeFileAtomic(file, wr.text);
-    else if (!opts.output.empty()) emit::writeFileAtomic(opts.output, wr.text);
-    else std::cout << wr.text << std::flush;
-    std::cerr << summary << proofLine << "\n";
+    io::WriteFileOptions fo;
+    fo.backupSuffix = opts.backupSuffix;
+    writeReport();
+    if (opts.inPlace) io::writeFileAtomic(file, wr.text, fo);
+    else if (!opts.output.empty()) io::writeFileAtomic(opts.output, wr.text, fo);
+    else io::writeStdout(wr.text);
+    if (!opts.quiet) std::cerr << summary << proofLine << "\n";
     return exitCode;
 }
 

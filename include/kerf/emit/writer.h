@@ -31,10 +31,4 @@ struct WriteResult {
 WriteResult writeModule(const frontend::ModuleDesc& m, const frontend::Lowered& lowered,
                         const net::Network& network, const WriteOptions& opts = {});
 
-/// Read a whole file (throws kerf::Error naming the file when it cannot).
-std::string readFile(const std::string& path);
-
-/// Write a file atomically: a temporary beside it, then rename.
-void writeFileAtomic(const std::string& path, const std::string& text);
-
 } // namespace kerf::emit
