@@ -173,9 +173,11 @@ int restructure(const RestructureOptions& opts) {
         } catch (const Error& e) {
             if (e.code() == ExitCode::Resources || e.code() == ExitCode::ToolMissing) throw;
             std::string dir = keepEvidence();
+            std::string why = e.what();
+            if (auto cut = why.find("; nothing was written"); cut != std::string::npos) why.erase(cut);
             throw Error(fmt::format("kerf's rewrite of module {} does not read back ({}); nothing was written. "
                                     "This is a kerf bug: please report it with the files kept in {}/",
-                                    desc.name, e.what(), dir), {}, ExitCode::Internal);
+                                    desc.name, why, dir), {}, ExitCode::Internal);
         }
         proof::ProofOptions po;
         po.totalConflicts = opts.proofBudget;
