@@ -23,6 +23,7 @@ enum class ExitCode : int {
     Unproved = 3,       ///< proof budget exhausted: not proved, not refuted
     ToolMissing = 4,    ///< Python or pyslang missing
     Internal = 5,       ///< a bug in kerf (e.g. the proof found the rewrite wrong)
+    Resources = 6,      ///< out of memory or disk space (or another system limit)
 };
 
 /// An error that carries a location and an exit code; caught in main and printed.

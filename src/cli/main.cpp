@@ -2,12 +2,15 @@
 #include "kerf/algebra/algebra_command.h"
 #include "kerf/diagnostics.h"
 #include "kerf/flow/flows.h"
+#include "kerf/io/cleanup.h"
+#include "kerf/io/progress.h"
 
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
 #include <iostream>
+#include <new>
 
 namespace {
 
@@ -15,7 +18,8 @@ constexpr const char* kExitCodes =
     "Exit codes: 0 success; 1 designs differ (equiv) or the file would change (--check); "
     "2 bad input (syntax, loop, multiple drivers, latch, unknown module, usage); "
     "3 proof undecided within its budget; 4 Python or pyslang missing; "
-    "5 internal error (e.g. a rewrite that failed its proof: nothing is written).";
+    "5 internal error (e.g. a rewrite that failed its proof: nothing is written); "
+    "6 out of memory or disk space.";
 
 void addReadOptions(CLI::App* cmd, kerf::frontend::ReadOptions& r, bool files = true) {
     if (files) cmd->add_option("files", r.files, "Verilog/SystemVerilog source files")->required();
@@ -27,6 +31,8 @@ void addReadOptions(CLI::App* cmd, kerf::frontend::ReadOptions& r, bool files = 
 } // namespace
 
 int main(int argc, char** argv) {
+    // Temporary files and the reader process go away however kerf ends.
+    kerf::io::installCleanupHandlers();
     // `kerf algebra ...` has its own small argument syntax.
     if (argc >= 2 && std::string(argv[1]) == "algebra") {
         std::vector<std::string> args(argv + 2, argv + argc);
@@ -42,7 +48,12 @@ int main(int argc, char** argv) {
     auto* rs = app.add_subcommand("restructure", "rewrite a module's combinational logic smaller, proved equivalent");
     addReadOptions(rs, ro.read);
     rs->add_option("-o,--output", ro.output, "output file (default: standard output)");
-    rs->add_flag("--in-place", ro.inPlace, "overwrite the file holding the module (atomically)");
+    rs->add_flag("--in-place", ro.inPlace,
+                 "overwrite the file holding the module (atomically; a symbolic link's target is rewritten, "
+                 "its permissions kept)");
+    rs->add_option("--backup", ro.backupSuffix,
+                   "with --in-place or -o: keep the file's previous text in FILE+SUFFIX (e.g. --backup .orig)");
+    rs->add_flag("-q,--quiet", ro.quiet, "no progress line and no summary on standard error");
     rs->add_flag("--check", ro.check, "write nothing; exit 1 when kerf would make the module smaller");
     rs->add_option("--effort", ro.effort, "built-in recipe: fast, default or thorough")
         ->check(CLI::IsMember({"fast", "default", "thorough"}));
@@ -104,6 +115,11 @@ int main(int argc, char** argv) {
                 throw kerf::Error("--recipe and --effort exclude each other: a recipe names its passes itself");
             if (rs->count("--max-depth") > 0 && (ro.maxDepth < 1 || ro.maxDepth > 100000))
                 throw kerf::Error(fmt::format("--max-depth {} is out of range (1 to 100000)", ro.maxDepth));
+            if (!ro.backupSuffix.empty() && !ro.inPlace && ro.output.empty())
+                throw kerf::Error("--backup needs --in-place or --output: standard output has nothing to back up");
+            if (ro.backupSuffix.find('/') != std::string::npos)
+                throw kerf::Error("--backup takes a suffix for the file name, without '/'");
+            kerf::io::Progress::global().start(!ro.quiet);
             return kerf::flow::restructure(ro);
         }
         if (*st) {
@@ -139,9 +155,15 @@ int main(int argc, char** argv) {
             return kerf::flow::equiv(eq);
         }
     } catch (const kerf::Error& e) {
+        kerf::io::Progress::global().stop();
         std::cerr << e.render() << "\n";
         return static_cast<int>(e.code());
+    } catch (const std::bad_alloc&) {
+        kerf::io::Progress::global().stop();
+        std::cerr << "error: kerf ran out of memory; nothing was written\n";
+        return static_cast<int>(kerf::ExitCode::Resources);
     } catch (const std::exception& e) {
+        kerf::io::Progress::global().stop();
         std::cerr << "kerf: internal error: " << e.what() << "\n";
         return static_cast<int>(kerf::ExitCode::Internal);
     }

@@ -22,19 +22,18 @@
 #include "kerf/emit/writer.h"
 
 #include "expression.h"
+#include "kerf/io/files.h"
 
 #include <fmt/format.h>
 
 #include <algorithm>
 #include <cctype>
 #include <cstdio>
-#include <fstream>
 #include <functional>
 #include <map>
 #include <numeric>
 #include <set>
 #include <sstream>
-#include <unistd.h>
 
 namespace kerf::emit {
 
@@ -45,32 +44,6 @@ using frontend::BitRef;
 using frontend::verilogName;
 using net::Literal;
 using net::NodeId;
-
-std::string readFile(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) throw Error(fmt::format("cannot read '{}'", path));
-    std::ostringstream ss;
-    ss << in.rdbuf();
-    return ss.str();
-}
-
-void writeFileAtomic(const std::string& path, const std::string& text) {
-    std::string tmp = fmt::format("{}.kerf-tmp-{}", path, getpid());
-    {
-        std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
-        if (!out) throw Error(fmt::format("cannot write '{}'", path));
-        out << text;
-        out.flush();
-        if (!out) {
-            std::remove(tmp.c_str());
-            throw Error(fmt::format("cannot write '{}'", path));
-        }
-    }
-    if (std::rename(tmp.c_str(), path.c_str()) != 0) {
-        std::remove(tmp.c_str());
-        throw Error(fmt::format("cannot replace '{}'", path));
-    }
-}
 
 MinGain MinGain::parse(const std::string& text) {
     MinGain g;
@@ -1130,7 +1103,7 @@ bool Writer::plan() {
 WriteResult Writer::run() {
     WriteResult res;
     res.file = m_.src.file;
-    src_ = readFile(m_.src.file);
+    src_ = io::readFile(m_.src.file);
     std::size_t crlf = 0, lf = 0;
     for (std::size_t i = 0; i < src_.size(); ++i)
         if (src_[i] == '\n') ++lf, crlf += (i > 0 && src_[i - 1] == '\r');

@@ -4,6 +4,9 @@
 #include "kerf/emit/diff.h"
 #include "kerf/emit/writer.h"
 #include "kerf/frontend/lower.h"
+#include "kerf/io/files.h"
+#include "kerf/io/progress.h"
+#include "kerf/io/reader.h"
 #include "kerf/passes/engine.h"
 #include "kerf/passes/tidy.h"
 #include "kerf/passes/factored.h"
@@ -13,12 +16,10 @@
 
 #include <chrono>
 #include <cmath>
-#include <cstdlib>
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
 #include <set>
-#include <unistd.h>
 
 namespace kerf::flow {
 
@@ -44,17 +45,22 @@ std::string describeCounterexample(const proof::Counterexample& cex) {
     return s;
 }
 
-/// A temporary file that is removed when it goes out of scope.
-struct TempFile {
-    std::string path;
-    explicit TempFile(const std::string& like) {
-        std::string ext = std::filesystem::path(like).extension().string();
-        if (ext.empty()) ext = ".v";
-        path = (std::filesystem::temp_directory_path() / fmt::format("kerf-{}-{}{}", getpid(), counter()++, ext)).string();
-    }
-    ~TempFile() { std::remove(path.c_str()); }
-    static int& counter() { static int c = 0; return c; }
-};
+/// Read the module as the proof sees it: arithmetic turned into gates.
+frontend::Lowered lowerForProof(const frontend::ReadOptions& read, const std::string& prefix) {
+    frontend::ModuleDesc d = frontend::readModule(read);
+    frontend::LowerOptions lo;
+    lo.bitBlastArithmetic = true;
+    lo.prefix = prefix;
+    return frontend::lower(d, lo);
+}
+
+nlohmann::json stagesJson(const io::StageLog& log) {
+    nlohmann::json rows = nlohmann::json::array();
+    for (const auto& r : log.rows())
+        rows.push_back({{"stage", r.stage}, {"seconds", r.seconds}, {"peak_memory_mb", (r.peakRssKb + 1023) / 1024},
+                        {"process", r.child ? "reader" : "kerf"}});
+    return rows;
+}
 
 /// Internal signals stay outputs of the network, so that their functions
 /// survive the passes and the writer can keep their names (no declaration is
@@ -143,16 +149,25 @@ int restructure(const RestructureOptions& opts) {
     wo.minGain = emit::MinGain::parse(opts.minGain);
     const std::string lowerPrefix = opts.prefix.empty() ? "kf_" : opts.prefix;
 
+    io::StageLog stages;
     auto t0 = Clock::now();
+    stages.begin("read");
     frontend::ModuleDesc desc = frontend::readModule(opts.read);
     double readSeconds = since(t0);
+    {
+        io::ReaderOutput rf = io::lastReaderFigures();
+        stages.addChild("reader", rf.seconds, rf.peakRssKb);
+    }
+    stages.begin("lower");
     frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix);
-    for (const auto& n : low.notes) std::cerr << n << "\n";
+    for (const auto& n : low.notes)
+        if (!opts.quiet) std::cerr << n << "\n";
     const net::Network original = low.net;
     passes::FactoredNetwork originalForms = passes::factorNetwork(original);
     const net::Metrics asRead = originalForms.metrics;
     const WordOperators words = countWords(low);
 
+    stages.begin("restructure");
     auto tPass = Clock::now();
     auto tTidy = Clock::now();
     passes::tidy(low.net);
@@ -169,6 +184,7 @@ int restructure(const RestructureOptions& opts) {
     double passSeconds = since(tPass);
     passes::FactoredNetwork forms = passes::factorNetwork(low.net, er.depthCap);
 
+    stages.begin("write");
     emit::WriteInput wi;
     wi.module = &desc;
     wi.lowered = &low;
@@ -179,7 +195,7 @@ int restructure(const RestructureOptions& opts) {
     wi.oneGroup = opts.dissolveInternal;
     emit::WriteResult wr = emit::writeModule(wi, wo);
     const std::string& file = desc.src.file;
-    const std::string original_text = emit::readFile(file);
+    const std::string original_text = io::readFile(file);
 
     std::size_t groupsReplaced = 0;
     for (const auto& g : wr.groups) groupsReplaced += g.replaced ? 1 : 0;
@@ -189,9 +205,12 @@ int restructure(const RestructureOptions& opts) {
     nlohmann::json proofJson = nullptr;
     std::string proofText;
     if (wr.changed) {
+        stages.begin("prove");
         auto tProof = Clock::now();
-        TempFile tmp(file);
-        emit::writeFileAtomic(tmp.path, wr.text);
+        // The rewrite is read back from a private directory under the original's
+        // file name, so the reader's messages about it read naturally.
+        io::WorkDir work;
+        std::string rewritten = work.add(std::filesystem::path(file).filename().string(), wr.text);
         frontend::ReadOptions back = opts.read;
         // The rewritten file replaces the one that holds the module; a proof that
         // silently read the original twice would prove nothing, so insist on a match.
@@ -203,27 +222,42 @@ int restructure(const RestructureOptions& opts) {
         if (key.empty())
             throw Error(fmt::format("cannot prove the rewrite: the module's file '{}' is not one of the files given "
                                     "(is the module in an included file?)", file), {}, ExitCode::Internal);
-        back.substitute[key] = tmp.path;
+        back.substitute[key] = rewritten;
         // Includes relative to the original file's folder must still resolve.
         back.includeDirs.push_back(std::filesystem::path(file).parent_path().empty()
                                        ? "."
                                        : std::filesystem::path(file).parent_path().string());
+        // Anything wrong with kerf's own output is kerf's bug: keep the evidence.
+        auto keepEvidence = [&]() {
+            try {
+                work.add("description.json", io::runReader(frontend::readerArguments(opts.read)).text);
+            } catch (const std::exception&) {
+                // The rewrite alone still helps; the reader's own message is above.
+            }
+            return work.keep();
+        };
+        auto ownFault = [&](const Error& e, const char* what) {
+            if (e.code() == ExitCode::Resources || e.code() == ExitCode::ToolMissing) throw e;
+            std::string dir = keepEvidence();
+            std::string why = e.what();
+            if (auto cut = why.find("; nothing was written"); cut != std::string::npos) why.erase(cut);
+            throw Error(fmt::format("kerf's rewrite of module {} does not {} ({}); nothing was written. "
+                                    "This is a kerf bug: please report it with the files kept in {}/",
+                                    desc.name, what, why, dir), {}, ExitCode::Internal);
+        };
         frontend::ModuleDesc written;
         try {
             written = frontend::readModule(back);
         } catch (const Error& e) {
-            throw Error(fmt::format("kerf's own rewrite of '{}' does not read back ({}); nothing was written; "
-                                    "please report this as a kerf bug", file, e.what()), {}, ExitCode::Internal);
+            ownFault(e, "read back");
         }
         std::set<std::string> authorSignals;
         for (const auto& [n, sg] : desc.signals) authorSignals.insert(n);
         frontend::Lowered writtenLow;
-        if (std::getenv("KERF_DEBUG_REWRITE")) emit::writeFileAtomic(std::getenv("KERF_DEBUG_REWRITE"), wr.text);
         try {
             writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix);
         } catch (const Error& e) {
-            throw Error(fmt::format("kerf's own rewrite of '{}' does not lower ({}); nothing was written; "
-                                    "please report this as a kerf bug", file, e.what()), {}, ExitCode::Internal);
+            ownFault(e, "lower");
         }
         after = passes::measureFactored(writtenLow.net);
         if (!opts.skipProof) {
@@ -243,10 +277,13 @@ int restructure(const RestructureOptions& opts) {
                          {"boundary", "combinational equivalence at the module's ports, at its internal signals "
                                       "and at kept code, whose outputs are matched by name and treated as free inputs"}};
             if (pr.verdict == proof::Verdict::Different) {
+                std::string dir = keepEvidence();
                 std::cerr << fmt::format("{}: error: kerf's rewrite is NOT equivalent: output '{}' differs "
-                                         "(original {}, rewrite {}) for:\n{}nothing was written; please report this as a kerf bug\n",
+                                         "(original {}, rewrite {}) for:\n{}nothing was written. This is a kerf bug: "
+                                         "please report it with the rewrite and the reader's description kept in {}/\n",
                                          file, pr.cex ? pr.cex->output : "?", pr.cex && pr.cex->valueA ? 1 : 0,
-                                         pr.cex && pr.cex->valueB ? 1 : 0, pr.cex ? describeCounterexample(*pr.cex) : "");
+                                         pr.cex && pr.cex->valueB ? 1 : 0, pr.cex ? describeCounterexample(*pr.cex) : "",
+                                         dir);
                 return static_cast<int>(ExitCode::Internal);
             }
             if (pr.verdict == proof::Verdict::Undecided) {
@@ -358,11 +395,15 @@ int restructure(const RestructureOptions& opts) {
             {"passes", passRows},
             {"proof", wr.changed ? proofJson : nlohmann::json({{"verdict", "not needed: file unchanged"}})},
             {"seconds", {{"read", readSeconds}, {"passes", passSeconds}}}};
-        emit::writeFileAtomic(opts.reportPath, report.dump(2) + "\n");
+        stages.end();
+        report["stages"] = stagesJson(stages);
+        io::writeFileAtomic(opts.reportPath, report.dump(2) + "\n");
     }
+    if (opts.verbose > 0) std::cerr << stages.line() << "\n";
+    io::Progress::global().stop();
 
     if (opts.check) {
-        std::cerr << summary << "\n";
+        if (!opts.quiet) std::cerr << summary << "\n";
         if (wr.changed) {
             std::cerr << fmt::format("{}: kerf would restructure module {} ({} -> {} gates)\n", file, desc.name,
                                      asRead.gates, after.gates);
@@ -370,26 +411,19 @@ int restructure(const RestructureOptions& opts) {
         }
         return 0;
     }
+    io::WriteFileOptions fo;
+    fo.backupSuffix = opts.backupSuffix;
     if (opts.diff) {
-        std::cout << emit::unifiedDiff(original_text, wr.text, "a/" + file, "b/" + file) << std::flush;
+        io::writeStdout(emit::unifiedDiff(original_text, wr.text, "a/" + file, "b/" + file));
     } else if (opts.inPlace) {
-        if (wr.changed) emit::writeFileAtomic(file, wr.text);
+        if (wr.changed) io::writeFileAtomic(file, wr.text, fo);
     } else if (!opts.output.empty()) {
-        emit::writeFileAtomic(opts.output, wr.text);
+        io::writeFileAtomic(opts.output, wr.text, fo);
     } else {
-        std::cout << wr.text << std::flush;
+        io::writeStdout(wr.text);
     }
-    std::cerr << summary << "\n";
+    if (!opts.quiet) std::cerr << summary << "\n";
     return 0;
-}
-
-/// Read the module as the proof sees it: arithmetic turned into gates.
-static frontend::Lowered lowerForProof(const frontend::ReadOptions& read, const std::string& prefix) {
-    frontend::ModuleDesc d = frontend::readModule(read);
-    frontend::LowerOptions lo;
-    lo.bitBlastArithmetic = true;
-    lo.prefix = prefix;
-    return frontend::lower(d, lo);
 }
 
 int equiv(const EquivOptions& opts) {

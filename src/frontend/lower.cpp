@@ -288,6 +288,9 @@ private:
     std::vector<const Member*> members_;
     std::vector<std::uint8_t> restructured_;   // per member index
     std::vector<std::uint8_t> state_;          // 0 new, 1 in progress, 2 done
+    // Members being lowered because a signal they drive was read: (member, signal).
+    // On a loop the tail of this chain from the repeated member names the loop.
+    std::vector<std::pair<int, std::string>> resolving_;
     std::unordered_map<std::string, std::vector<Driver>> drivers_;
     std::unordered_map<std::string, Bits> value_;   // resolved bit values of module signals
     std::map<std::string, Bits> inputLits_;
@@ -340,7 +343,9 @@ Literal Lowerer::signalBit(const std::string& name, int off) {
     if (d < 0) return inputBit(name, off);
     auto vit = value_.find(name);
     if (vit == value_.end() || vit->second[off] == kUnassigned) {
+        resolving_.emplace_back(d, name);
         lowerMember(d);
+        resolving_.pop_back();
         vit = value_.find(name);
         if (vit == value_.end() || vit->second[off] == kUnassigned)
             fail(fmt::format("'{}' bit {} is not driven by the statement that claims it", name, off),
@@ -1182,9 +1187,26 @@ void Lowerer::execCase(const json& s) {
 void Lowerer::lowerMember(int idx) {
     if (state_[idx] == 2) return;
     const Member& mem = *members_[idx];
-    if (state_[idx] == 1)
-        fail(fmt::format("combinational loop: this {} depends on its own result",
-                         mem.kind == MemberKind::Assign ? "assignment" : "block"), mem.src.loc());
+    if (state_[idx] == 1) {
+        // Name each signal on the loop with the statement that drives it.
+        // The last entry is the read that came back to this member; the members
+        // resolved since this one started (after its earlier entry, if any) close the loop.
+        std::string chain;
+        std::size_t last = resolving_.size();
+        if (last > 0) {
+            std::size_t start = last - 1;
+            while (start > 0 && resolving_[start - 1].first != idx) --start;
+            const std::string& first = resolving_[last - 1].second;
+            chain = fmt::format("'{}' (driven at {})", first, mem.src.loc().str());
+            for (std::size_t i = start; i + 1 < last; ++i)
+                chain += fmt::format(", which reads '{}' (driven at {})", resolving_[i].second,
+                                     members_[resolving_[i].first]->src.loc().str());
+            chain += fmt::format(", which reads '{}' again", first);
+        }
+        fail(fmt::format("combinational loop: this {} depends on its own result{}{}",
+                         mem.kind == MemberKind::Assign ? "assignment" : "block", chain.empty() ? "" : ": ", chain),
+             mem.src.loc());
+    }
     state_[idx] = 1;
     const Member* savedCurrent = current_;
     Env* savedEnv = env_;

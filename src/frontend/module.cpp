@@ -1,33 +1,18 @@
-// module.cpp — running the slang reader and parsing its module description.
+// module.cpp — the module description: reading it through the slang reader (kerf/io/reader.h) and parsing it.
 #include "kerf/frontend/module.h"
+
+#include "kerf/io/files.h"
+#include "kerf/io/reader.h"
 
 #include <fmt/format.h>
 
-#include <cerrno>
-#include <cstdlib>
-#include <cstring>
-#include <fcntl.h>
-#include <spawn.h>
-#include <sys/wait.h>
-#include <unistd.h>
-
-extern char** environ;
+#include <cctype>
 
 namespace kerf::frontend {
 
 namespace {
 
 constexpr int kFormatVersion = 1;
-
-std::string readerPath() {
-    if (const char* p = std::getenv("KERF_READER"); p && *p) return p;
-    return KERF_READER_PATH;
-}
-
-std::string pythonPath() {
-    if (const char* p = std::getenv("KERF_PYTHON"); p && *p) return p;
-    return "python3";
-}
 
 SourceRange parseRange(const nlohmann::json& j) {
     SourceRange r;
@@ -129,8 +114,8 @@ ModuleDesc parseDescription(const nlohmann::json& j) {
     return m;
 }
 
-ModuleDesc readModule(const ReadOptions& opts) {
-    std::vector<std::string> args{pythonPath(), readerPath()};
+std::vector<std::string> readerArguments(const ReadOptions& opts) {
+    std::vector<std::string> args;
     if (!opts.top.empty()) { args.push_back("--top"); args.push_back(opts.top); }
     for (const auto& d : opts.includeDirs) { args.push_back("-I"); args.push_back(d); }
     for (const auto& d : opts.defines) { args.push_back("-D"); args.push_back(d); }
@@ -138,55 +123,25 @@ ModuleDesc readModule(const ReadOptions& opts) {
         auto it = opts.substitute.find(f);
         args.push_back(it == opts.substitute.end() ? f : it->second);
     }
+    return args;
+}
 
-    int pipefd[2];
-    if (pipe(pipefd) != 0) throw Error("cannot create a pipe to the reader", {}, ExitCode::Internal);
-    posix_spawn_file_actions_t actions;
-    posix_spawn_file_actions_init(&actions);
-    posix_spawn_file_actions_adddup2(&actions, pipefd[1], STDOUT_FILENO);
-    posix_spawn_file_actions_addclose(&actions, pipefd[0]);
-    posix_spawn_file_actions_addclose(&actions, pipefd[1]);
-    std::vector<char*> argv;
-    for (auto& a : args) argv.push_back(a.data());
-    argv.push_back(nullptr);
-    pid_t pid = 0;
-    int rc = posix_spawnp(&pid, argv[0], &actions, nullptr, argv.data(), environ);
-    posix_spawn_file_actions_destroy(&actions);
-    close(pipefd[1]);
-    if (rc != 0) {
-        close(pipefd[0]);
-        throw Error(fmt::format("cannot start the Verilog reader with '{}': {}. Install Python 3 and run "
-                                "'pip install -r requirements.txt' (or set KERF_PYTHON)",
-                                args[0], std::strerror(rc)), {}, ExitCode::ToolMissing);
+ModuleDesc readModule(const ReadOptions& opts) {
+    for (const auto& f : opts.files) {
+        auto it = opts.substitute.find(f);
+        io::checkSourceFile(it == opts.substitute.end() ? f : it->second);
     }
-    std::string out;
-    char buf[1 << 16];
-    for (;;) {
-        ssize_t n = read(pipefd[0], buf, sizeof buf);
-        if (n < 0 && errno == EINTR) continue;
-        if (n <= 0) break;
-        out.append(buf, static_cast<std::size_t>(n));
-    }
-    close(pipefd[0]);
-    int status = 0;
-    while (waitpid(pid, &status, 0) < 0 && errno == EINTR) {}
-    int code = WIFEXITED(status) ? WEXITSTATUS(status) : 128;
-    switch (code) {
-    case 0: break;
-    case 1: throw Error("the design has errors (reported above by slang); nothing was written");
-    case 2: throw Error("the reader could not select a module (see above); nothing was written");
-    case 3: throw Error("pyslang is not installed: run 'pip install -r requirements.txt'", {}, ExitCode::ToolMissing);
-    case 127: throw Error(fmt::format("cannot run '{}': install Python 3 (or set KERF_PYTHON)", args[0]), {}, ExitCode::ToolMissing);
-    default:
-        throw Error(fmt::format("the Verilog reader failed (exit {}); its messages are above", code), {}, ExitCode::Internal);
-    }
-    nlohmann::json j;
+    io::ReaderOutput out = io::runReader(readerArguments(opts));
     try {
-        j = nlohmann::json::parse(out);
+        return parseDescription(nlohmann::json::parse(out.text));
     } catch (const std::exception& e) {
-        throw Error(fmt::format("the reader's output is not valid JSON: {}", e.what()), {}, ExitCode::Internal);
+        // The reader is ours: whatever it printed that we cannot read is kerf's bug.
+        std::string saved = io::saveBugReport({{"reader-output.json", out.text}});
+        std::string where = saved.empty() ? "" : fmt::format("; its output is saved in {}/ for a bug report", saved);
+        std::string why = dynamic_cast<const Error*>(&e) ? e.what() : fmt::format("malformed description: {}", e.what());
+        throw Error(fmt::format("the Verilog reader's output cannot be read ({}){}; nothing was written. "
+                                "This is a kerf bug: please report it", why, where), {}, ExitCode::Internal);
     }
-    return parseDescription(j);
 }
 
 } // namespace kerf::frontend

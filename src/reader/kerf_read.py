@@ -9,12 +9,13 @@ documented in docs/reader-format.md (`kerf-module`, version 1).
 
 Exit codes: 0 success; 1 slang reported errors (on stderr, in slang's own
 format); 2 usage error, module not found or ambiguous; 3 pyslang missing;
-4 internal error of the reader (a traceback on stderr).
+4 internal error of the reader (a traceback on stderr); 5 out of memory;
+6 the Python or pyslang version does not fit (kerf/io/reader.h maps these).
+
+This file stays readable by old Python versions up to the version check, so
+that an unsuitable interpreter gets a message instead of a syntax error.
 """
 
-import argparse
-import json
-import os
 import sys
 
 EXIT_OK = 0
@@ -22,6 +23,21 @@ EXIT_ERRORS = 1
 EXIT_USAGE = 2
 EXIT_NO_PYSLANG = 3
 EXIT_INTERNAL = 4
+EXIT_NO_MEMORY = 5
+EXIT_WRONG_VERSION = 6
+
+MIN_PYTHON = (3, 8)
+# The pyslang release requirements.txt pins; another major release has another API.
+PYSLANG_PIN = "12.1.0"
+
+if sys.version_info < MIN_PYTHON:
+    sys.stderr.write("kerf_read: Python %d.%d or newer is needed, this is %d.%d (set KERF_PYTHON)\n"
+                     % (MIN_PYTHON[0], MIN_PYTHON[1], sys.version_info[0], sys.version_info[1]))
+    sys.exit(EXIT_WRONG_VERSION)
+
+import argparse  # noqa: E402
+import json  # noqa: E402
+import os  # noqa: E402
 
 
 class _Parser(argparse.ArgumentParser):
@@ -66,13 +82,33 @@ def _declared_modules(drv):
     return names
 
 
+def _out_of_memory(exc):
+    """An import that failed only because a shared library could not be mapped into memory."""
+    text = str(exc).lower()
+    return "failed to map segment" in text or "cannot allocate memory" in text
+
+
 def main(argv=None):
     args = parse_args(sys.argv[1:] if argv is None else argv)
     try:
         import pyslang  # noqa: F401
+    except MemoryError:
+        raise
+    except ImportError as exc:
+        if _out_of_memory(exc):
+            raise MemoryError(str(exc))
+        sys.stderr.write("kerf_read: cannot import pyslang (%s); run "
+                         "'pip install -r requirements.txt' from the kerf source tree\n" % exc)
+        return EXIT_NO_PYSLANG
+    found = str(getattr(pyslang, "__version__", "unknown"))
+    if found.split(".")[0] != PYSLANG_PIN.split(".")[0]:
+        sys.stderr.write("kerf_read: pyslang %s is installed, kerf needs %s; run "
+                         "'pip install -r requirements.txt' from the kerf source tree\n" % (found, PYSLANG_PIN))
+        return EXIT_WRONG_VERSION
+    try:
         from pyslang import driver as sdriver
     except ImportError as exc:
-        sys.stderr.write("kerf_read: cannot import pyslang (%s); run "
+        sys.stderr.write("kerf_read: cannot import pyslang's driver (%s); run "
                          "'pip install -r requirements.txt' from the kerf source tree\n" % exc)
         return EXIT_NO_PYSLANG
 
@@ -130,6 +166,8 @@ def main(argv=None):
         for f in args.files:
             kerf_describe.GIVEN_FILES.setdefault(os.path.realpath(f), f)
         desc = kerf_describe.describe(comp, top)
+    except MemoryError:
+        raise
     except Exception:
         import traceback
         traceback.print_exc()
@@ -152,17 +190,33 @@ if __name__ == "__main__":
     # thousands of `|`): describe it on a thread with a large stack and a
     # recursion limit to match, instead of failing on long expressions.
     import threading
-    sys.setrecursionlimit(1_000_000)
-    threading.stack_size(1024 * 1024 * 1024)
     result = []
+
+    def out_of_memory(what):
+        try:
+            sys.stderr.write("kerf_read: out of memory (%s)\n" % what)
+        finally:
+            os._exit(EXIT_NO_MEMORY)
 
     def run():
         try:
             result.append(main())
         except SystemExit as e:
             result.append(e.code if isinstance(e.code, int) else 1)
+        except MemoryError:
+            out_of_memory("while describing the design")
+        except BaseException:
+            import traceback
+            traceback.print_exc()
+            result.append(EXIT_INTERNAL)
 
-    worker = threading.Thread(target=run)
-    worker.start()
+    try:
+        sys.setrecursionlimit(1000000)
+        threading.stack_size(1024 * 1024 * 1024)
+        worker = threading.Thread(target=run)
+        worker.start()
+    except (MemoryError, RuntimeError) as exc:
+        # Under a memory limit the large stack cannot be had.
+        out_of_memory("cannot start the reader's thread: %s" % exc)
     worker.join()
-    sys.exit(result[0] if result else 4)
+    sys.exit(result[0] if result else EXIT_INTERNAL)

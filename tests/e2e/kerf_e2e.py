@@ -1,17 +1,44 @@
-"""kerf_e2e — shared helpers of the end-to-end tests.
+"""kerf_e2e — the harness and shared helpers of the end-to-end tests.
 
 The outside reference for behaviour is Icarus Verilog (the simulator
 `iverilog`/`vvp` from Debian's packages); for lint cleanliness it is
 Verilator (`verilator --lint-only -Wall`). The module's ports and byte
 ranges come from kerf's own slang reader.
+
+A driver (tests/<dir>/test_*.py) declares its cases on a `Suite`:
+
+    S = K.Suite(__doc__)
+
+    @S.case("uart_regsel", needs=("iverilog",))
+    def _(t):                      # t.kerf, t.root, t.res (check/skip), t.work (a fresh directory)
+        t.res.check(..., "what is checked (outside reference)")
+
+    if __name__ == "__main__":
+        S.main()
+
+`S.main()` understands `--list` (case names, one a line: CMake registers one
+ctest entry per case), `--case NAME` (run one case), `--only TEXT` (cases
+whose name contains TEXT) and `--kerf/--root/--cache`. It ends with the line
+`N passed, M failed, K skipped` and exits 1 on a failure, 77 (ctest's skip)
+when every case was skipped, else 0. A case whose tool (`iverilog`,
+`verilator`) or data (`epfl`: ../shared/benchmarks/epfl) is missing is
+skipped with the reason printed — except under CI (environment CI set),
+where a missing requirement fails, so CI never passes by skipping.
+
+The reader's description of a set of files is cached on disk (`--cache`, by
+the content of the files and of the reader), so a test run reads each design
+once however many checks look at it.
 """
 import argparse
+import hashlib
 import json
 import os
 import random
+import shutil
 import subprocess
 import sys
 import tempfile
+import traceback
 
 SAMPLES = [
     # (files, top) — every sample shipped in samples/
@@ -64,13 +91,44 @@ def run(cmd, **kw):
     return subprocess.run(cmd, capture_output=True, text=True, **kw)
 
 
+_MEMO = {}
+
+
+def _digest(root, files, top):
+    h = hashlib.sha256()
+    reader_dir = os.path.join(root, "src", "reader")
+    for name in sorted(os.listdir(reader_dir)):
+        if name.endswith(".py"):
+            h.update(name.encode() + b"\0" + open(os.path.join(reader_dir, name), "rb").read())
+    h.update(b"top\0" + (top or "").encode())
+    for f in files:
+        h.update(b"file\0" + f.encode() + b"\0" + open(f, "rb").read())
+    return h.hexdigest()
+
+
 def read_module(root, files, top):
-    """The module description from kerf's slang reader (docs/reader-format.md)."""
-    cmd = [sys.executable, os.path.join(root, "src/reader/kerf_read.py")] + (["--top", top] if top else []) + files
-    r = run(cmd)
-    if r.returncode != 0:
-        raise RuntimeError(f"reader failed on {files}: {r.stderr}")
-    return json.loads(r.stdout)
+    """The module description from kerf's slang reader (docs/reader-format.md), cached."""
+    key = _digest(root, files, top)
+    if key in _MEMO:
+        return json.loads(_MEMO[key])
+    cache = os.environ.get("KERF_E2E_CACHE")
+    path = os.path.join(cache, key + ".json") if cache else None
+    if path and os.path.exists(path):
+        text = open(path).read()
+    else:
+        cmd = [sys.executable, os.path.join(root, "src/reader/kerf_read.py")] + (["--top", top] if top else []) + files
+        r = run(cmd)
+        if r.returncode != 0:
+            raise RuntimeError(f"reader failed on {files}: {r.stderr}")
+        text = r.stdout
+        if path:
+            os.makedirs(cache, exist_ok=True)
+            fd, tmp = tempfile.mkstemp(dir=cache)
+            with os.fdopen(fd, "w") as f:
+                f.write(text)
+            os.replace(tmp, path)   # atomic: parallel tests may write the same entry
+    _MEMO[key] = text
+    return json.loads(text)
 
 
 def port_signature(desc):
@@ -148,7 +206,7 @@ def testbench(desc, ref_name, new_name, exhaustive_limit=16, vectors=10000, seed
     return "\n".join(lines) + "\n", total
 
 
-def simulate_equal(root, files, top, out_file, workdir):
+def simulate_equal(root, files, top, out_file, workdir, vectors=10000):
     """Icarus Verilog (outside reference): the rewrite matches the original on every output."""
     desc = read_module(root, files, top)
     mod_file = desc["module"]["src"]["file"]
@@ -160,7 +218,7 @@ def simulate_equal(root, files, top, out_file, workdir):
     new_path = os.path.join(workdir, "new" + ext)
     open(ref_path, "w").write(ref)
     open(new_path, "w").write(new)
-    tb, bits = testbench(desc, top + "_ref", top + "_new")
+    tb, bits = testbench(desc, top + "_ref", top + "_new", vectors=vectors)
     tb_path = os.path.join(workdir, "tb.sv")
     open(tb_path, "w").write(tb)
     others = [f for f in files if f != mod_file]
@@ -171,3 +229,97 @@ def simulate_equal(root, files, top, out_file, workdir):
     r = run(["vvp", "-n", sim])
     ok = "KERF_TB errors=0" in r.stdout
     return ok, r.stdout[-2000:], bits
+
+
+# ---------------------------------------------------------------- the harness
+
+REQUIREMENTS = {
+    "iverilog": lambda root: (shutil.which("iverilog") and shutil.which("vvp"),
+                              "Icarus Verilog (iverilog, vvp) is not installed"),
+    "verilator": lambda root: (shutil.which("verilator"), "Verilator is not installed"),
+    "epfl": lambda root: (epfl_dir(root), "the EPFL benchmarks are not at ../shared/benchmarks/epfl"),
+}
+
+
+class Case:
+    """What a case body gets: paths, a fresh work directory and the results."""
+
+    def __init__(self, name, args, res, work):
+        self.name = name
+        self.kerf = args.kerf
+        self.root = args.root
+        self.args = args
+        self.res = res
+        self.work = work
+
+    def epfl(self, name):
+        return os.path.join(epfl_dir(self.root), name + ".v")
+
+
+class Suite:
+    def __init__(self, doc=""):
+        self.doc = doc
+        self.cases = []
+
+    def case(self, name, needs=()):
+        def register(fn):
+            if any(c[0] == name for c in self.cases):
+                raise ValueError(f"duplicate case name {name}")
+            self.cases.append((name, tuple(needs), fn))
+            return fn
+        return register
+
+    def add(self, name, fn, needs=()):
+        self.case(name, needs)(fn)
+
+    def main(self, argv=None):
+        p = argparse.ArgumentParser(description=(self.doc or "").strip().split("\n")[0])
+        p.add_argument("--kerf", help="the kerf binary")
+        p.add_argument("--root", help="the repository root")
+        p.add_argument("--list", action="store_true", help="print the case names and exit")
+        p.add_argument("--case", action="append", default=[], help="run this case (exact name; repeatable)")
+        p.add_argument("--only", default="", help="run the cases whose name contains this")
+        p.add_argument("--cache", default="", help="directory caching the reader's descriptions")
+        a = p.parse_args(argv)
+        if a.list:
+            for name, _, _ in self.cases:
+                print(name)
+            return 0
+        if not a.kerf or not a.root:
+            p.error("--kerf and --root are required")
+        a.kerf = os.path.abspath(a.kerf)
+        a.root = os.path.abspath(a.root)
+        if a.cache:
+            os.environ["KERF_E2E_CACHE"] = os.path.abspath(a.cache)
+        os.chdir(a.root)
+        chosen = [c for c in self.cases if (not a.case or c[0] in a.case) and a.only in c[0]]
+        unknown = [n for n in a.case if n not in {c[0] for c in self.cases}]
+        res = Results()
+        for n in unknown:
+            res.check(False, f"no case named {n}")
+        in_ci = bool(os.environ.get("CI"))
+        ran = 0
+        for name, needs, fn in chosen:
+            missing = []
+            for need in needs:
+                ok, why = REQUIREMENTS[need](a.root)
+                if not ok:
+                    missing.append(why)
+            if missing:
+                if in_ci:
+                    res.check(False, f"{name}: required under CI: {'; '.join(missing)}")
+                else:
+                    res.skip(f"{name}: {'; '.join(missing)}")
+                continue
+            ran += 1
+            with tempfile.TemporaryDirectory(prefix="kerf-e2e-") as work:
+                try:
+                    fn(Case(name, a, res, work))
+                except Exception:
+                    res.check(False, f"{name}: exception\n{traceback.format_exc()}")
+        if ran == 0 and res.skipped and not res.failed:
+            print(f"{res.passed} passed, {res.failed} failed, {res.skipped} skipped")
+            sys.exit(77)
+        if ran and res.passed == 0 and not res.failed:
+            res.check(False, "the selected cases checked nothing")
+        res.finish()

@@ -81,10 +81,4 @@ void setHeader(WriteResult& r, const std::string& line);
 /// Is `p` usable as the start of a Verilog identifier (IEEE 1800 simple identifier rules)?
 bool validIdentifierPrefix(const std::string& p);
 
-/// Read a whole file (throws kerf::Error naming the file when it cannot).
-std::string readFile(const std::string& path);
-
-/// Write a file atomically: a temporary beside it, then rename.
-void writeFileAtomic(const std::string& path, const std::string& text);
-
 } // namespace kerf::emit

@@ -18,6 +18,8 @@ struct RestructureOptions {
     frontend::ReadOptions read;
     std::string output;              ///< "" → stdout
     bool inPlace = false;            ///< overwrite the file holding the module
+    std::string backupSuffix;        ///< --backup: keep the replaced file's old text in FILE+SUFFIX
+    bool quiet = false;              ///< no progress line and no summary on stderr
     bool check = false;              ///< CI mode: write nothing, exit 1 when kerf would change the file
     std::string effort = "default";
     std::string recipe;

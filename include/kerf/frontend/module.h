@@ -1,7 +1,7 @@
 // kerf/frontend/module.h — the module as the slang reader describes it.
 //
-// `readModule` runs the Python reader (src/reader/kerf_read.py) on the
-// user's files and parses its JSON (docs/reader-format.md) into these
+// `readModule` runs the Python reader (src/reader/kerf_read.py, started by
+// kerf/io/reader.h) on the user's files and parses its JSON (docs/reader-format.md) into these
 // plain structures. Expression and statement trees stay as JSON: the
 // lowering walks them directly.
 #pragma once
@@ -86,6 +86,9 @@ struct ReadOptions {
     /// Replace a file by another when reading (used to read back kerf's own output).
     std::map<std::string, std::string> substitute;
 };
+
+/// The reader's command-line arguments for `opts` (after the script name).
+std::vector<std::string> readerArguments(const ReadOptions& opts);
 
 /// Run the reader and parse its description. Throws kerf::Error (slang's own
 /// messages have already reached stderr when the reader fails).

@@ -1,0 +1,128 @@
+// progress.cpp — the redraw thread and the per-stage figures.
+#include "kerf/io/progress.h"
+
+#include <fmt/format.h>
+
+#include <cstdio>
+#include <mutex>
+#include <condition_variable>
+#include <sys/resource.h>
+#include <thread>
+#include <unistd.h>
+
+namespace kerf::io {
+
+namespace {
+
+struct Redraw {
+    std::thread thread;
+    std::mutex mu;
+    std::condition_variable cv;
+    bool quit = false;
+    bool drawn = false;
+};
+
+void eraseLine(Redraw& r) {
+    if (!r.drawn) return;
+    const char clear[] = "\r\033[K";
+    ssize_t ignored = write(STDERR_FILENO, clear, sizeof clear - 1);
+    (void)ignored;
+    r.drawn = false;
+}
+
+} // namespace
+
+Progress& Progress::global() {
+    static Progress p;
+    return p;
+}
+
+void Progress::start(bool wanted) {
+    if (!wanted || running_ || !isatty(STDERR_FILENO)) return;
+    running_ = true;
+    auto* r = new Redraw;
+    thread_ = r;
+    auto began = std::chrono::steady_clock::now();
+    r->thread = std::thread([this, r, began] {
+        std::unique_lock lock(r->mu);
+        while (!r->quit) {
+            r->cv.wait_for(lock, std::chrono::milliseconds(250));
+            if (r->quit) break;
+            double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - began).count();
+            if (secs < 2.0) continue;
+            std::size_t total = total_, done = done_;
+            std::string share = total ? fmt::format("  {:3d}%", static_cast<int>(100.0 * done / total)) : "";
+            std::string text = fmt::format("\r\033[Kkerf: {}{}  {:.0f} s", stage_.load(), share, secs);
+            ssize_t ignored = write(STDERR_FILENO, text.data(), text.size());
+            (void)ignored;
+            r->drawn = true;
+        }
+        eraseLine(*r);
+    });
+}
+
+void Progress::stage(const char* name) {
+    stage_ = name;
+    total_ = 0;
+    done_ = 0;
+}
+
+void Progress::share(std::size_t done, std::size_t total) {
+    total_ = total;
+    done_ = done;
+}
+
+void Progress::stop() {
+    if (!running_) return;
+    auto* r = static_cast<Redraw*>(thread_);
+    {
+        std::lock_guard lock(r->mu);
+        r->quit = true;
+    }
+    r->cv.notify_all();
+    r->thread.join();
+    delete r;
+    thread_ = nullptr;
+    running_ = false;
+}
+
+Progress::~Progress() { stop(); }
+
+long peakRssKb() {
+    struct rusage ru {};
+    getrusage(RUSAGE_SELF, &ru);
+    return ru.ru_maxrss;
+}
+
+StageLog::StageLog() = default;
+
+void StageLog::begin(const char* name) {
+    end();
+    current_ = name;
+    t0_ = std::chrono::steady_clock::now();
+    Progress::global().stage(name);
+}
+
+void StageLog::end() {
+    if (current_.empty()) return;
+    double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0_).count();
+    rows_.push_back(Row{current_, secs, peakRssKb(), false});
+    current_.clear();
+}
+
+void StageLog::addChild(const char* name, double seconds, long peak) {
+    rows_.push_back(Row{name, seconds, peak, true});
+}
+
+std::string StageLog::line() const {
+    std::string s = "stages:";
+    const char* sep = " ";
+    for (const auto& r : rows_) {
+        s += fmt::format("{}{} {:.2f} s ({} {} MB)", sep, r.stage, r.seconds, r.child ? "reader" : "kerf",
+                         (r.peakRssKb + 1023) / 1024);
+        sep = ", ";
+    }
+    return s;
+}
+
+} // namespace kerf::io

@@ -1,0 +1,95 @@
+// reader.cpp — the reader's exit statuses turned into kerf's messages and exit codes.
+#include "kerf/io/reader.h"
+
+#include "kerf/diagnostics.h"
+#include "kerf/io/process.h"
+
+#include <fmt/format.h>
+
+#include <cerrno>
+#include <csignal>
+#include <cstdlib>
+#include <cstring>
+#include <unistd.h>
+
+namespace kerf::io {
+
+namespace {
+
+// Exit statuses of src/reader/kerf_read.py (its module docstring lists them).
+constexpr int kReaderOk = 0;
+constexpr int kReaderDesignErrors = 1;
+constexpr int kReaderUsage = 2;
+constexpr int kReaderNoPyslang = 3;
+constexpr int kReaderInternal = 4;
+constexpr int kReaderOutOfMemory = 5;
+constexpr int kReaderWrongVersion = 6;
+
+ReaderOutput gLast;
+
+} // namespace
+
+ReaderOutput lastReaderFigures() { return ReaderOutput{{}, gLast.seconds, gLast.peakRssKb}; }
+
+std::string pythonInterpreter() {
+    if (const char* p = std::getenv("KERF_PYTHON"); p && *p) return p;
+    return "python3";
+}
+
+std::string readerScript() {
+    if (const char* p = std::getenv("KERF_READER"); p && *p) return p;
+    return KERF_READER_PATH;
+}
+
+ReaderOutput runReader(const std::vector<std::string>& args) {
+    std::string script = readerScript();
+    if (access(script.c_str(), R_OK) != 0)
+        throw Error(fmt::format("the Verilog reader '{}' is missing or unreadable: {} (reinstall kerf, or set "
+                                "KERF_READER)", script, std::strerror(errno)), {}, ExitCode::ToolMissing);
+    std::vector<std::string> argv{pythonInterpreter(), script};
+    argv.insert(argv.end(), args.begin(), args.end());
+    ProcessResult r = runCaptured(argv);
+    if (r.spawnError != 0) {
+        if (r.spawnError == ENOMEM || r.spawnError == EAGAIN)
+            throw Error(fmt::format("cannot start the Verilog reader: {} (out of memory or processes)",
+                                    std::strerror(r.spawnError)), {}, ExitCode::Resources);
+        throw Error(fmt::format("cannot start the Verilog reader with '{}': {}. Install Python 3 and run "
+                                "'pip install -r requirements.txt' (or set KERF_PYTHON)",
+                                argv[0], std::strerror(r.spawnError)), {}, ExitCode::ToolMissing);
+    }
+    if (r.signal != 0) {
+        if (r.signal == SIGKILL)
+            throw Error("the Verilog reader was killed (SIGKILL), most often by the system when memory runs out; "
+                        "nothing was written", {}, ExitCode::Resources);
+        throw Error(fmt::format("the Verilog reader died of signal {} ({}); nothing was written", r.signal,
+                                strsignal(r.signal)), {}, ExitCode::Internal);
+    }
+    switch (r.exitCode) {
+    case kReaderOk: break;
+    case kReaderDesignErrors:
+        throw Error("the design has errors (reported above by slang); nothing was written");
+    case kReaderUsage:
+        throw Error("the reader could not select a module (see above); nothing was written");
+    case kReaderNoPyslang:
+        throw Error("pyslang is not installed for this Python: run 'pip install -r requirements.txt' "
+                    "(or set KERF_PYTHON)", {}, ExitCode::ToolMissing);
+    case kReaderOutOfMemory:
+        throw Error("the Verilog reader ran out of memory; nothing was written", {}, ExitCode::Resources);
+    case kReaderWrongVersion:
+        throw Error("the Python or pyslang version does not fit this kerf (see above): run "
+                    "'pip install -r requirements.txt' (or set KERF_PYTHON)", {}, ExitCode::ToolMissing);
+    case 126:
+    case 127:
+        throw Error(fmt::format("cannot run '{}': install Python 3 (or set KERF_PYTHON)", argv[0]), {},
+                    ExitCode::ToolMissing);
+    case kReaderInternal:
+    default:
+        throw Error(fmt::format("the Verilog reader failed (exit {}); its messages are above. This is a kerf "
+                                "bug: please report it with the input", r.exitCode), {}, ExitCode::Internal);
+    }
+    gLast.seconds = r.seconds;
+    gLast.peakRssKb = r.peakRssKb;
+    return ReaderOutput{std::move(r.out), r.seconds, r.peakRssKb};
+}
+
+} // namespace kerf::io
