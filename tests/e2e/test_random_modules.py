@@ -14,6 +14,9 @@ with its reason (the campaign counts them).
     test_random_modules.py --kerf build/kerf --root . --seed 1 [--count 25] [--features default]
                            [--print-outcomes]
 
+The harness registers one ctest entry per batch of SUITE (e2e.random_modules.seedN, run with
+`--case seedN`).
+
 --print-outcomes prints the lines of the known-failures file for what this run saw: use it to
 update the file after a fix, but file a finding for every new kind of failure first.
 """
@@ -52,13 +55,26 @@ def known_failures(root):
 
 def main():
     p = argparse.ArgumentParser()
-    p.add_argument("--kerf", required=True)
-    p.add_argument("--root", required=True)
+    p.add_argument("--kerf")
+    p.add_argument("--root", default=os.path.join(HERE, "..", ".."))
+    p.add_argument("--cache", default="", help="accepted for the harness (tests/e2e/kerf_e2e.py); unused")
+    p.add_argument("--list", action="store_true", help="print the suite's batches (seedN) and exit")
+    p.add_argument("--case", default="", help="run the suite batch seedN")
     p.add_argument("--seed", type=int, default=1)
     p.add_argument("--count", type=int, default=None)
     p.add_argument("--features", default=None)
     p.add_argument("--print-outcomes", action="store_true")
     a = p.parse_args()
+    if a.list:
+        for seed in SUITE:
+            print(f"seed{seed}")
+        return
+    if a.case:
+        if not a.case.startswith("seed") or int(a.case[4:]) not in SUITE:
+            p.error(f"no batch {a.case!r} (known: {', '.join(f'seed{s}' for s in SUITE)})")
+        a.seed = int(a.case[4:])
+    if not a.kerf:
+        p.error("--kerf is required")
     for tool in ("iverilog", "vvp"):
         if shutil.which(tool) is None:
             print(f"SKIPPED: {tool} is not installed (needed as the outside reference)")

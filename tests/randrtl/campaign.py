@@ -74,9 +74,22 @@ def declared_names(text):
     return names
 
 
-def restructure(kerf, src, out, extra=()):
-    r = O.run([kerf, "restructure", src, "-o", out, *extra], timeout=600)
+def restructure(kerf, src, out, extra=(), tmpdir=None):
+    # kerf keeps the evidence of an internal error under TMPDIR: keep it inside the work area.
+    env = dict(os.environ, TMPDIR=tmpdir) if tmpdir else None
+    r = O.run([kerf, "restructure", src, "-o", out, *extra], timeout=600, env=env)
     return r.returncode, r.stderr
+
+
+def internal_reason(stderr):
+    """A short key for an internal error: what kerf says, with the first slang error on its own
+    output when the rewrite did not read back."""
+    if "does not read back" in stderr:
+        first = refusal_reason("\n".join(l for l in stderr.splitlines() if "does not read back" not in l))
+        return "rewrite does not read back: " + first
+    if "is NOT equivalent" in stderr:
+        return "kerf's own proof refutes its rewrite"
+    return refusal_reason(stderr)
 
 
 def classify_run(name, code, stderr):
@@ -89,7 +102,7 @@ def classify_run(name, code, stderr):
         return Outcome(name, "refused", stderr.strip()[-1500:], refusal_reason(stderr))
     if code == 3:
         return Outcome(name, "undecided", stderr.strip()[-800:])
-    return Outcome(name, "internal", f"exit {code}: {stderr.strip()[-1500:]}", f"exit {code}")
+    return Outcome(name, "internal", f"exit {code}: {stderr.strip()[-1500:]}", f"exit {code}: {internal_reason(stderr)}")
 
 
 def pairs_for(desc, work):
@@ -139,7 +152,7 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
     src_dir = os.path.join(work, "src")
     out_dir = os.path.join(work, "out")
     sim_dir = os.path.join(work, "sim")
-    for d in (src_dir, out_dir, sim_dir):
+    for d in (src_dir, out_dir, sim_dir, os.path.join(work, "tmp")):
         os.makedirs(d, exist_ok=True)
 
     def one(item):
@@ -149,7 +162,9 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
         out = os.path.join(out_dir, name + ".sv")
         with open(src, "w") as f:
             f.write(text)
-        code, err = restructure(kerf, src, out)
+        tmp = os.path.join(work, "tmp", name)
+        os.makedirs(tmp, exist_ok=True)
+        code, err = restructure(kerf, src, out, tmpdir=tmp)
         return item, src, out, code, err
 
     outcomes = []
@@ -265,7 +280,7 @@ def main():
                                 shutil.copy(f, os.path.join(a.save, f"{o.module}.{sub}.sv"))
                         with open(os.path.join(a.save, o.module + ".log"), "w") as f:
                             f.write(f"{o.kind}\n{o.reason}\n{o.detail}\n")
-            for sub in ("src", "out", "sim"):
+            for sub in ("src", "out", "sim", "tmp"):
                 shutil.rmtree(os.path.join(work, sub), ignore_errors=True)
     finally:
         shutil.rmtree(work, ignore_errors=True)
