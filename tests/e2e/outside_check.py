@@ -111,6 +111,33 @@ def renamed(text, old, new):
     return (raw[:off] + new.encode() + raw[off + len(old):]).decode()
 
 
+def always_comb_as_always_star(text):
+    """`text` with every `always_comb` keyword (found by slang) written `always @(*)`.
+
+    A workaround for Icarus Verilog 11, which can loop forever at one time step on
+    `always_comb` blocks that are not in a loop at all, e.g. (reduced from a random module):
+        always_comb begin o = a[1]; o = b[1]; end
+        always_comb begin w3 = o; w3 = b[0]; end
+        always_comb begin w5[1] = w3[0]; end
+    With `always @(*)` it simulates. Both sides of a comparison get the same treatment; the
+    two forms differ only at time zero and in what functions read, neither of which the
+    generated modules depend on (their testbenches set every input before comparing)."""
+    from pyslang import syntax
+    tree = syntax.SyntaxTree.fromText(text)
+    offsets = []
+
+    def visit(node):
+        if getattr(node, "kind", None) == syntax.SyntaxKind.AlwaysCombBlock:
+            offsets.append(node.keyword.location.offset)
+        return True
+    tree.root.visit(visit)
+    raw = text.encode()
+    for off in sorted(offsets, reverse=True):
+        assert raw[off:off + 11] == b"always_comb"
+        raw = raw[:off] + b"always @(*)" + raw[off + 11:]
+    return raw.decode()
+
+
 # ---------------------------------------------------------------------------------------------
 # Icarus Verilog
 
@@ -159,7 +186,10 @@ def _param_text(params):
 
 
 def testbench_module(pair, name, finish=False):
-    """A testbench module for one pair; prints `KERF_TB <tag> errors=E known=K total=T vectors=V`."""
+    """A testbench module for one pair; prints `KERF_TB <tag> errors=E xonly=X known=K total=T`.
+
+    errors counts compared bits that differ; xonly how many of them are a 0/1 in the original
+    shown as x by the rewrite (x-pessimism, e.g. an `if` on an x condition written as gates)."""
     special = {pair.clock} | ({pair.reset[0]} if pair.reset else set())
     ins = [p for p in pair.ports if p["dir"] == "in" and p["name"] not in special]
     outs = [p for p in pair.ports if p["dir"] != "in"]
@@ -188,7 +218,7 @@ def testbench_module(pair, name, finish=False):
         L.append(f"  wire [{s['width'] - 1}:0] ib{j} = ub.{_vname(s['name'])};")
     L.append(f"  {pair.ref}{_param_text(pair.params)} ua ({conns('a')});")
     L.append(f"  {pair.new}{_param_text(pair.params)} ub ({conns('b')});")
-    L.append("  integer k, b, errors, known, total, seed, mode;")
+    L.append("  integer k, b, errors, xonly, known, total, seed, mode;")
     L.append(f"  reg [{max(total, 1) - 1}:0] all_in;")
     L.append("  task compare; begin")
     if pair.care:
@@ -204,6 +234,7 @@ def testbench_module(pair, name, finish=False):
         else:
             L.append(f"      if ({ra}[b] !== 1'bx && {ra}[b] !== {rb}[b]) begin")
         L.append("        errors = errors + 1;")
+        L.append(f"        if ({rb}[b] === 1'bx && ({ra}[b] === 1'b0 || {ra}[b] === 1'b1)) xonly = xonly + 1;")
         L.append(f"        if (errors <= 8) $display(\"KERF_MISMATCH {pair.tag} vector %0d: {pname}[%0d] "
                  f"original %b rewrite %b (original %b, rewrite %b, inputs %b)\", k, b, {ra}[b], {rb}[b], "
                  f"{ra}, {rb}, all_in);")
@@ -219,7 +250,7 @@ def testbench_module(pair, name, finish=False):
         pos += p["width"]
     words = (max(total, 1) + 31) // 32
     L.append("  initial begin")
-    L.append(f"    errors = 0; known = 0; total = 0; seed = {pair.seed}; all_in = 0;")
+    L.append(f"    errors = 0; xonly = 0; known = 0; total = 0; seed = {pair.seed}; all_in = 0;")
     L.append("    " + " ".join(split))
     if pair.clock:
         L.append("    clk_r = 0;")
@@ -248,7 +279,7 @@ def testbench_module(pair, name, finish=False):
     if pair.clock:
         L.append("      clk_r = 1; #1 compare; clk_r = 0;")
     L.append("    end")
-    L.append(f"    $display(\"KERF_TB {pair.tag} errors=%0d known=%0d total=%0d\", errors, known, total);")
+    L.append(f"    $display(\"KERF_TB {pair.tag} errors=%0d xonly=%0d known=%0d total=%0d\", errors, xonly, known, total);")
     if finish:
         L.append("    $finish;")
     L.append("  end")
@@ -256,13 +287,14 @@ def testbench_module(pair, name, finish=False):
     return "\n".join(L) + "\n"
 
 
-_RESULT = re.compile(r"^KERF_TB (\S+) errors=(\d+) known=(\d+) total=(\d+)$", re.M)
+_RESULT = re.compile(r"^KERF_TB (\S+) errors=(\d+) xonly=(\d+) known=(\d+) total=(\d+)$", re.M)
 _MISMATCH = re.compile(r"^KERF_MISMATCH (\S+) (.*)$", re.M)
 
 
 class SimResult:
-    def __init__(self, ok, errors=0, known=0, total=0, detail=""):
+    def __init__(self, ok, errors=0, known=0, total=0, detail="", xonly=0):
         self.ok, self.errors, self.known, self.total, self.detail = ok, errors, known, total, detail
+        self.xonly = xonly
 
     def __repr__(self):
         return f"SimResult(ok={self.ok}, errors={self.errors}, known={self.known}/{self.total}, {self.detail[:200]!r})"
@@ -307,7 +339,11 @@ def simulate(pairs, sources, workdir, defines=(), include_dirs=(), timeout=600, 
         if c.returncode != 0:
             msg = "iverilog failed to compile: " + (c.stderr + c.stdout)[-3000:]
             return {p.tag: SimResult(False, detail=msg) for p in pairs}
-        r = run(["vvp", "-n", sim], timeout=timeout)
+        try:
+            r = run(["vvp", "-n", sim], timeout=timeout)
+        except subprocess.TimeoutExpired:
+            return {p.tag: SimResult(False, detail=f"the simulation did not finish within {timeout} s "
+                                                   "(a zero-delay loop?)") for p in pairs}
     found = {m.group(1): m for m in _RESULT.finditer(r.stdout)}
     mism = {}
     for m in _MISMATCH.finditer(r.stdout):
@@ -318,8 +354,8 @@ def simulate(pairs, sources, workdir, defines=(), include_dirs=(), timeout=600, 
         if m is None:
             out[p.tag] = SimResult(False, detail="the simulation printed no result: " + (r.stdout + r.stderr)[-2000:])
             continue
-        e, k, t = int(m.group(2)), int(m.group(3)), int(m.group(4))
-        out[p.tag] = SimResult(e == 0, e, k, t, "\n".join(mism.get(p.tag, [])))
+        e, x, k, t = int(m.group(2)), int(m.group(3)), int(m.group(4)), int(m.group(5))
+        out[p.tag] = SimResult(e == 0, e, k, t, "\n".join(mism.get(p.tag, [])), xonly=x)
     return out
 
 

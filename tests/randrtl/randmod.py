@@ -1,0 +1,505 @@
+"""randmod — a seeded generator of random SystemVerilog modules for the outside check.
+
+Each module is valid, loop-free, latch-free RTL built from the constructs real designs use:
+ports of random widths and signedness, parameters, internal signals, continuous assignments,
+`always_comb` blocks with nested if/case/casez/casex (`unique`/`priority`), constant-bound
+loops, whole/bit/part/variable-index writes, functions with loops, concatenation and
+replication, constant and variable selects and part-selects, reductions, comparisons, shifts
+by constants and by signals, word arithmetic that kerf must keep (+, -, *), division and
+modulo by constants, x defaults, and `always_ff` registers beside the logic.
+
+The same (seed, index, features) always gives the same module text (Python's `random.Random`
+is seeded with both), so a failure found by a campaign is reproduced by its seed and index:
+
+    python3 tests/randrtl/randmod.py --seed 7 --index 42 [--features all|default|-name,...]
+
+Every generated module comes with a description: ports, internal signals, clock and reset,
+parameter overrides to simulate, and the constructs it contains (for the coverage counts).
+"""
+import argparse
+import random
+
+# Constructs the generator can use. "default" is every construct whose kerf behaviour is
+# settled; the rest are opted into by name (or "all").
+FEATURES = {
+    "signed": "signed ports and $signed/$unsigned casts",
+    "case": "case statements",
+    "casez": "casez/casex statements with wildcard items",
+    "unique": "unique/priority case qualifiers (always with a default)",
+    "loop": "constant-bound for loops in always_comb",
+    "varsel": "variable-index bit selects and part-selects (in range)",
+    "varwrite": "variable-index bit and part-select writes (in range)",
+    "shift": "shifts by constants and by signals",
+    "arith": "word arithmetic kept by kerf (+, -, *)",
+    "compare": "comparisons between signals and against constants",
+    "concat": "concatenation and replication",
+    "reduce": "reduction operators",
+    "function": "function automatic with a loop",
+    "param": "module parameters used by the logic (simulated with an override too)",
+    "localparam": "localparams used by the logic",
+    "ff": "always_ff registers with asynchronous reset beside the logic",
+    "xdefault": "x assigned as a default (a don't-care)",
+    "xcompare": "=== / !== / ==? against constants with x bits",
+    "divconst": "division and modulo by constants",
+    "oob": "variable selects and writes that can fall out of range",
+}
+DEFAULT_OFF = {"param", "xcompare", "divconst", "oob"}
+
+
+def parse_features(text):
+    """'default', 'all', or a comma list of names, '-name' removing from the default set."""
+    if text in ("", "default"):
+        return set(FEATURES) - DEFAULT_OFF
+    if text == "all":
+        return set(FEATURES)
+    chosen = set(FEATURES) - DEFAULT_OFF if all(t.startswith(("-", "+")) for t in text.split(",")) else set()
+    for t in text.split(","):
+        t = t.strip()
+        name = t.lstrip("+-")
+        if name not in FEATURES:
+            raise ValueError(f"unknown feature '{name}' (known: {', '.join(sorted(FEATURES))})")
+        if t.startswith("-"):
+            chosen.discard(name)
+        else:
+            chosen.add(name)
+    return chosen
+
+
+class Sig:
+    def __init__(self, name, width, signed=False):
+        self.name, self.width, self.signed = name, width, signed
+
+
+def _decl_type(width, signed):
+    s = " signed" if signed else ""
+    return f"logic{s} [{width - 1}:0]" if width > 1 or signed else "logic"
+
+
+class ModuleGen:
+    def __init__(self, seed, index, features):
+        self.rng = random.Random(f"kerf-randmod-{seed}-{index}")
+        self.f = features
+        self.name = f"rm_{seed}_{index}"
+        self.used = set()
+        self.readable = []          # signals an expression may read (inputs, registers, earlier wires)
+        self.lines = []
+        self.functions = []
+        self.params = []            # (name, default value, override value)
+        self.localparams = []
+        self.counter = 0
+        self.loop_var = None        # (name, bound) inside a generated for loop
+
+    # ---- helpers -------------------------------------------------------------------------
+    def on(self, feature, p=1.0):
+        return feature in self.f and self.rng.random() < p
+
+    def use(self, tag):
+        self.used.add(tag)
+
+    def fresh(self, prefix):
+        self.counter += 1
+        return f"{prefix}{self.counter}"
+
+    def const(self, width, allow_x=False):
+        v = self.rng.getrandbits(width)
+        if allow_x and self.on("xcompare"):
+            digits = ["x" if self.rng.random() < 0.25 else str((v >> (width - 1 - i)) & 1) for i in range(width)]
+            if "x" in digits:
+                self.use("xcompare")
+                return f"{width}'b{''.join(digits)}"
+        style = self.rng.random()
+        if style < 0.4:
+            return f"{width}'d{v}"
+        if style < 0.7:
+            return f"{width}'h{v:x}"
+        return f"{width}'b{v:0{width}b}"
+
+    def pick(self, pred=lambda s: True):
+        cands = [s for s in self.readable if pred(s)]
+        return self.rng.choice(cands) if cands else None
+
+    # ---- expressions: (text, width) ------------------------------------------------------
+    def leaf(self):
+        r = self.rng.random()
+        if r < 0.12:
+            w = self.rng.randint(1, 8)
+            return self.const(w), w
+        if r < 0.18 and (self.params or self.localparams):
+            name, _ = self.rng.choice([(p[0], 0) for p in self.params] + [(p[0], 0) for p in self.localparams])
+            self.use("param" if any(p[0] == name for p in self.params) else "localparam")
+            return f"4'({name})", 4
+        if r < 0.22 and self.loop_var:
+            return f"{self.loop_var[2]}'({self.loop_var[0]})", self.loop_var[2]
+        s = self.pick()
+        return s.name, s.width
+
+    def select(self):
+        s = self.pick(lambda s: s.width >= 2)
+        if s is None:
+            return self.leaf()
+        r = self.rng.random()
+        if r < 0.35:
+            i = self.rng.randrange(s.width)
+            return f"{s.name}[{i}]", 1
+        if r < 0.6:
+            lo = self.rng.randrange(s.width)
+            hi = self.rng.randrange(lo, s.width)
+            return f"{s.name}[{hi}:{lo}]", hi - lo + 1
+        if not self.on("varsel"):
+            return f"{s.name}[{s.width - 1}]", 1
+        idx, iw = self.index_expr(s.width, 1)
+        if idx is None:
+            return f"{s.name}[0]", 1
+        self.use("varsel")
+        if r < 0.8:
+            return f"{s.name}[{idx}]", 1
+        k = self.rng.randint(1, max(1, s.width // 2))
+        idx, iw = self.index_expr(s.width, k)
+        if idx is None:
+            return f"{s.name}[0]", 1
+        if self.rng.random() < 0.5 and s.width >= 2 * k:
+            idx2, _ = self.index_expr(s.width // k, 1, scaled=True)
+            if idx2 is not None:
+                return f"{s.name}[{idx2}*{k} +: {k}]", k
+        return f"{s.name}[{idx} +: {k}]", k
+
+    def index_expr(self, width, k, scaled=False):
+        """An index into `width` positions for a k-bit select, in range unless 'oob' allows."""
+        oob = self.on("oob", 0.3)
+        span = width - k + 1 if not scaled else width
+        bits = 0
+        while (1 << (bits + 1)) <= span:
+            bits += 1
+        if oob:
+            bits += 1
+            self.use("oob")
+        if bits == 0:
+            return None, 0
+        s = self.pick(lambda s: s.width >= bits and not s.signed)
+        if s is None:
+            return None, 0
+        if s.width == bits:
+            return s.name, bits
+        lo = self.rng.randrange(s.width - bits + 1)
+        return (f"{s.name}[{lo}]" if bits == 1 else f"{s.name}[{lo + bits - 1}:{lo}]"), bits
+
+    def expr(self, depth):
+        if depth <= 0 or self.rng.random() < 0.2:
+            return self.leaf() if self.rng.random() < 0.6 else self.select()
+        r = self.rng.random()
+        a, wa = self.expr(depth - 1)
+        if r < 0.22:
+            b, wb = self.expr(depth - 1)
+            op = self.rng.choice(["&", "|", "^", "~^"])
+            return f"({a} {op} {b})", max(wa, wb)
+        if r < 0.30:
+            return f"(~{a})", wa
+        if r < 0.38 and "reduce" in self.f:
+            self.use("reduce")
+            return f"({self.rng.choice(['&', '|', '^', '~&', '~|', '~^'])}{a})", 1
+        if r < 0.46:
+            b, _ = self.expr(depth - 1)
+            c, wc = self.expr(depth - 1)
+            return f"({self.cond(depth - 1)} ? {b} : {c})", max(wa, wc)
+        if r < 0.52:
+            b, _ = self.expr(depth - 1)
+            return f"({a} {self.rng.choice(['&&', '||'])} {b})", 1
+        if r < 0.62 and "compare" in self.f:
+            return self.compare(a, wa, depth), 1
+        if r < 0.70 and "concat" in self.f:
+            self.use("concat")
+            if self.rng.random() < 0.3 and wa <= 4:
+                return f"{{{self.rng.randint(2, 3)}{{{a}}}}}", wa * 2
+            b, wb = self.expr(depth - 1)
+            return f"{{{a}, {b}}}", wa + wb
+        if r < 0.77 and "shift" in self.f:
+            self.use("shift")
+            if self.rng.random() < 0.6:
+                return f"({a} {self.rng.choice(['<<', '>>', '>>>'])} {self.rng.randint(0, 3)})", wa
+            s = self.pick(lambda s: s.width <= 3 and not s.signed)
+            if s is not None:
+                self.use("varshift")
+                return f"({a} {self.rng.choice(['<<', '>>'])} {s.name})", wa
+            return f"({a} << 1)", wa
+        if r < 0.84 and "arith" in self.f:
+            self.use("arith")
+            b, wb = self.expr(depth - 1)
+            op = self.rng.choice(["+", "-", "+", "-", "*"])
+            if op == "*" and (wa > 6 or wb > 6):
+                op = "+"
+            return f"({a} {op} {b})", max(wa, wb)
+        if r < 0.88 and "signed" in self.f:
+            self.use("signed")
+            return f"{self.rng.choice(['$signed', '$unsigned'])}({a})", wa
+        if r < 0.92 and "divconst" in self.f:
+            self.use("divconst")
+            d = self.rng.choice([2, 3, 4, 5, 8, 10])
+            dw = max(wa, d.bit_length())
+            return f"({a} {self.rng.choice(['/', '%'])} {dw}'d{d})", dw
+        if r < 0.96 and self.functions:
+            fname, fw, nargs = self.rng.choice(self.functions)
+            self.use("function")
+            args = [a] + [self.expr(depth - 1)[0] for _ in range(nargs - 1)]
+            return f"{fname}({', '.join(args)})", fw
+        return self.select()
+
+    def compare(self, a, wa, depth):
+        self.use("compare")
+        op = self.rng.choice(["==", "!=", "<", "<=", ">", ">="])
+        if self.rng.random() < 0.5:
+            allow_x = op in ("==", "!=")
+            c = self.const(max(1, min(wa, 8)), allow_x=allow_x)
+            if "x" in c and self.rng.random() < 0.5:
+                op = self.rng.choice(["===", "!==", "==?", "!=?"])
+            return f"({a} {op} {c})"
+        b, _ = self.expr(depth - 1)
+        return f"({a} {op} {b})"
+
+    def cond(self, depth):
+        if "compare" in self.f and self.rng.random() < 0.5:
+            a, wa = self.expr(max(0, depth - 1))
+            return self.compare(a, wa, depth)
+        a, _ = self.expr(max(0, depth - 1))
+        return a
+
+    # ---- statements ---------------------------------------------------------------------
+    def target_write(self, t, depth, indent):
+        """One assignment to (part of) target t."""
+        r = self.rng.random()
+        e, _ = self.expr(depth)
+        if t.width >= 2 and r < 0.2:
+            i = self.rng.randrange(t.width)
+            return [f"{indent}{t.name}[{i}] = {e};"]
+        if t.width >= 3 and r < 0.3:
+            lo = self.rng.randrange(t.width - 1)
+            hi = self.rng.randrange(lo, t.width)
+            return [f"{indent}{t.name}[{hi}:{lo}] = {e};"]
+        if t.width >= 2 and r < 0.42 and "varwrite" in self.f:
+            k = self.rng.choice([1, 1, 2])
+            if k > t.width - 1:
+                k = 1
+            idx, _ = self.index_expr(t.width, k)
+            if idx is not None:
+                self.use("varwrite")
+                if k == 1:
+                    return [f"{indent}{t.name}[{idx}] = {e};"]
+                return [f"{indent}{t.name}[{idx} +: {k}] = {e};"]
+        return [f"{indent}{t.name} = {e};"]
+
+    def stmt(self, targets, depth, indent):
+        r = self.rng.random()
+        t = self.rng.choice(targets)
+        if depth <= 0 or r < 0.35:
+            return self.target_write(t, 2, indent)
+        if r < 0.6:
+            out = [f"{indent}if ({self.cond(2)}) begin"]
+            for _ in range(self.rng.randint(1, 2)):
+                out += self.stmt(targets, depth - 1, indent + "  ")
+            if self.rng.random() < 0.6:
+                out.append(f"{indent}end else begin")
+                for _ in range(self.rng.randint(1, 2)):
+                    out += self.stmt(targets, depth - 1, indent + "  ")
+            out.append(f"{indent}end")
+            return out
+        if r < 0.85 and "case" in self.f:
+            return self.case_stmt(targets, depth, indent)
+        if "loop" in self.f and t.width >= 2:
+            self.use("loop")
+            iv = self.fresh("i")
+            bound = t.width
+            ib = max(1, (bound - 1).bit_length())
+            self.loop_var = (iv, bound, ib)
+            e, _ = self.expr(2)
+            self.loop_var = None
+            op = self.rng.choice(["^", "&", "|"])
+            return [f"{indent}for (int {iv} = 0; {iv} < {bound}; {iv}++) begin",
+                    f"{indent}  {t.name}[{iv}] = {t.name}[{iv}] {op} ({e});",
+                    f"{indent}end"]
+        return self.target_write(t, 2, indent)
+
+    def case_stmt(self, targets, depth, indent):
+        self.use("case")
+        sel = self.pick(lambda s: 2 <= s.width <= 5)
+        if sel is None:
+            return self.target_write(targets[0], 2, indent)
+        w = sel.width
+        kind = "case"
+        if "casez" in self.f and self.rng.random() < 0.4:
+            kind = self.rng.choice(["casez", "casez", "casex"])
+            self.use(kind)
+        qual = ""
+        if "unique" in self.f and self.rng.random() < 0.3:
+            qual = self.rng.choice(["unique ", "priority "])
+            self.use("unique")
+        out = [f"{indent}{qual}{kind} ({sel.name})"]
+        items = []
+        for _ in range(self.rng.randint(1, min(5, (1 << w) - 1))):
+            if kind == "case":
+                bits = f"{self.rng.getrandbits(w):0{w}b}"
+            else:
+                bits = "".join("?" if self.rng.random() < 0.3 else str(self.rng.getrandbits(1)) for _ in range(w))
+            # Items of a `unique` case never overlap here: which one an overlapping input takes
+            # is where simulation and the synthesis reading part ways.
+            if any(all(x == y or "?" in (x, y) for x, y in zip(bits, o)) for o in items) and \
+                    (qual == "unique " or bits in items):
+                continue
+            items.append(bits)
+            v = f"{w}'b" + (bits.replace("?", "x") if kind == "casex" else bits)
+            out.append(f"{indent}  {v}: begin")
+            out += self.stmt(targets, depth - 1, indent + "    ")
+            out.append(f"{indent}  end")
+        out.append(f"{indent}  default: begin")
+        if "xdefault" in self.f and self.rng.random() < 0.25:
+            self.use("xdefault")
+            t = self.rng.choice(targets)
+            out.append(f"{indent}    {t.name} = 'x;")
+        else:
+            out += self.stmt(targets, depth - 1, indent + "    ")
+        out.append(f"{indent}  end")
+        out.append(f"{indent}endcase")
+        return out
+
+    # ---- module --------------------------------------------------------------------------
+    def function(self):
+        fw = self.rng.randint(2, 8)
+        name = self.fresh("f_mix")
+        nargs = self.rng.randint(1, 2)
+        args = ", ".join(f"input logic [{fw - 1}:0] a{i}" for i in range(nargs))
+        op = self.rng.choice(["^", "|", "&"])
+        body = [f"  function automatic logic [{fw - 1}:0] {name}({args});",
+                f"    logic [{fw - 1}:0] r;",
+                f"    r = a0{' ^ a1' if nargs > 1 else ''};",
+                f"    for (int k = 1; k < {fw}; k++) r[k] = r[k] {op} r[k - 1];",
+                "    return r;",
+                "  endfunction"]
+        self.functions.append((name, fw, nargs))
+        return body
+
+    def generate(self):
+        rng = self.rng
+        ports_in, ports_out, internals = [], [], []
+        clock = reset = None
+        for i in range(rng.randint(2, 6)):
+            w = rng.choice([1, 1, 2, 3, 4, 4, 5, 6, 8, 8, 12])
+            signed = w > 1 and self.on("signed", 0.2)
+            if signed:
+                self.use("signed")
+            s = Sig(f"in{i}", w, signed)
+            ports_in.append(s)
+        self.readable = list(ports_in)
+        if self.on("param", 0.6):
+            default = rng.randint(0, 9)
+            self.params.append(("P0", default, (default + rng.randint(1, 6)) % 16))
+        if self.on("localparam", 0.4):
+            self.localparams.append(("L0", rng.randint(0, 15)))
+        regs = []
+        if self.on("ff", 0.35):
+            self.use("ff")
+            clock, reset = "clk", "rst_n"
+            for j in range(rng.randint(1, 2)):
+                r = Sig(f"q{j}", rng.choice([1, 2, 4, 6]))
+                regs.append(r)
+            self.readable += regs
+        if self.on("function", 0.35):
+            self.lines += self.function()
+        n_out = rng.randint(1, 4)
+        body = []
+        produced = []
+        for k in range(rng.randint(2, 6)):
+            is_out = k >= 0 and len([p for p in produced if p[1]]) < n_out and (rng.random() < 0.5)
+            w = rng.choice([1, 1, 2, 3, 4, 5, 6, 8])
+            name = f"out{len([p for p in produced if p[1]])}" if is_out else f"w{k}"
+            sig = Sig(name, w)
+            if rng.random() < 0.4:
+                e, _ = self.expr(rng.randint(1, 3))
+                body.append(f"  assign {name} = {e};")
+            else:
+                targets = [sig]
+                extra = None
+                if rng.random() < 0.3:
+                    extra = Sig(f"w{k}b", rng.choice([1, 2, 3, 4]))
+                    targets.append(extra)
+                body.append("  always_comb begin")
+                for t in targets:
+                    e, _ = self.expr(1)
+                    body.append(f"    {t.name} = {e};")
+                for _ in range(rng.randint(1, 3)):
+                    body += self.stmt(targets, rng.randint(1, 3), "    ")
+                body.append("  end")
+                if extra:
+                    produced.append((extra, False))
+                    self.readable.append(extra)
+            produced.append((sig, is_out))
+            self.readable.append(sig)
+        if not any(o for _, o in produced):
+            sig = Sig("out0", rng.choice([1, 2, 4]))
+            e, _ = self.expr(2)
+            body.append(f"  assign out0 = {e};")
+            produced.append((sig, True))
+        ff = []
+        for r in regs:
+            e, _ = self.expr(2)
+            ff += [f"  always_ff @(posedge {clock} or negedge {reset}) begin",
+                   f"    if (!{reset}) {r.name} <= '0;",
+                   f"    else {r.name} <= {e};",
+                   "  end"]
+        # every register is observable: one output shows it
+        for j, r in enumerate(regs):
+            ports_out.append(Sig(f"qo{j}", r.width))
+            body.append(f"  assign qo{j} = {r.name};")
+        outs = [s for s, o in produced if o] + ports_out
+        internals = [s for s, o in produced if not o] + regs
+        # ---- text
+        head = []
+        if self.params:
+            head.append(f"module {self.name} #(")
+            head.append(",\n".join(f"  parameter int {n} = {d}" for n, d, _ in self.params))
+            head.append(") (")
+        else:
+            head.append(f"module {self.name} (")
+        plines = []
+        if clock:
+            plines += [f"  input  logic {clock}", f"  input  logic {reset}"]
+        plines += [f"  input  {_decl_type(s.width, s.signed)} {s.name}" for s in ports_in]
+        plines += [f"  output {_decl_type(s.width, False)} {s.name}" for s in outs]
+        head.append(",\n".join(plines))
+        head.append(");")
+        decls = [f"  localparam int {n} = {v};" for n, v in self.localparams]
+        decls += [f"  {_decl_type(s.width, False)} {s.name};" for s in internals]
+        text = "\n".join(head + decls + self.lines + body + ff + ["endmodule", ""])
+        ports = []
+        if clock:
+            ports += [{"name": clock, "dir": "in", "width": 1, "signed": False},
+                      {"name": reset, "dir": "in", "width": 1, "signed": False}]
+        ports += [{"name": s.name, "dir": "in", "width": s.width, "signed": s.signed} for s in ports_in]
+        ports += [{"name": s.name, "dir": "out", "width": s.width, "signed": False} for s in outs]
+        desc = {
+            "name": self.name,
+            "ports": ports,
+            "internals": [{"name": s.name, "width": s.width} for s in internals],
+            "clock": clock,
+            "reset": (reset, 0) if reset else None,
+            "param_sets": [[]] + ([[f"{n}={o}" for n, _, o in self.params]] if self.params else []),
+            "constructs": sorted(self.used),
+        }
+        return text, desc
+
+
+def generate(seed, index, features):
+    """(module text, description) of module `index` of campaign `seed`."""
+    return ModuleGen(seed, index, features).generate()
+
+
+def main():
+    p = argparse.ArgumentParser(description="print one random module")
+    p.add_argument("--seed", type=int, default=1)
+    p.add_argument("--index", type=int, default=0)
+    p.add_argument("--features", default="default")
+    a = p.parse_args()
+    text, desc = generate(a.seed, a.index, parse_features(a.features))
+    print(text)
+    print("// " + repr(desc))
+
+
+if __name__ == "__main__":
+    main()
