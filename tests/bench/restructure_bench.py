@@ -51,7 +51,10 @@ def run_kerf(kerf, path, effort, proof, top=None):
     with tempfile.TemporaryDirectory() as work:
         out = os.path.join(work, "out.v")
         rep = os.path.join(work, "report.json")
-        cmd = ["/usr/bin/time", "-v", kerf, "restructure", path, "-o", out, "--report", rep, "--effort", effort]
+        # --dissolve-internal: the EPFL netlists' numbered wires may dissolve into the logic
+        # (otherwise each one pins its logic); the synthetic files have no internal signals.
+        cmd = ["/usr/bin/time", "-v", kerf, "restructure", path, "-o", out, "--report", rep, "--effort", effort,
+               "--dissolve-internal"]
         if not proof:
             cmd.append("--skip-proof")
         t0 = time.time()
