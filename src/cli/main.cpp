@@ -70,6 +70,10 @@ int main(int argc, char** argv) {
     rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
     rs->add_flag("--dissolve-internal", ro.dissolveInternal,
                  "let internal signals dissolve into the logic (their declarations go); for flat netlists");
+    rs->add_option("--keep", ro.keep, "a signal never restructured through, like (* keep *) on its declaration "
+                                      "(repeatable)")
+        ->expected(1)
+        ->take_all();
     rs->footer(kExitCodes);
 
     kerf::frontend::ReadOptions so;

@@ -45,12 +45,14 @@ std::string describeCounterexample(const proof::Counterexample& cex) {
     return s;
 }
 
-/// Read the module as the proof sees it: arithmetic turned into gates.
+/// Read the module as `kerf equiv` compares it: arithmetic turned into gates,
+/// compared at the ports and at kept code (internal signals may differ between the two).
 frontend::Lowered lowerForProof(const frontend::ReadOptions& read, const std::string& prefix) {
     frontend::ModuleDesc d = frontend::readModule(read);
     frontend::LowerOptions lo;
     lo.bitBlastArithmetic = true;
     lo.prefix = prefix;
+    lo.dissolveInternal = true;
     return frontend::lower(d, lo);
 }
 
@@ -62,31 +64,19 @@ nlohmann::json stagesJson(const io::StageLog& log) {
     return rows;
 }
 
-/// Internal signals stay outputs of the network, so that their functions
-/// survive the passes and the writer can keep their names (no declaration is
-/// deleted). Loop counters of blocks are not signals of the logic. When
-/// `only` is given, just those names are kept (the original's signals, when
-/// reading back the rewrite, so that new wires are not compared).
-frontend::ModuleDesc keepInternal(const frontend::ModuleDesc& d, const std::set<std::string>* only = nullptr) {
-    frontend::ModuleDesc c = d;
-    std::set<std::string> locals;
-    for (const auto& mem : d.members)
-        if (mem.body.is_object())
-            for (const auto& l : mem.body.value("locals", nlohmann::json::array())) locals.insert(l.value("name", ""));
-    for (auto& [name, sig] : c.signals) {
-        if (sig.dir != frontend::PortDir::None || locals.count(name)) continue;
-        if (only && !only->count(name)) continue;
-        sig.dir = frontend::PortDir::Output;
-    }
-    return c;
-}
-
+/// Lower `d`. Internal signals stay outputs of the network (the front end pins
+/// them: no declaration is deleted) unless `dissolve`. When `only` is given,
+/// the internal signals kept are just those (the original's, when reading back
+/// the rewrite, so that kerf's new wires are not compared).
 frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bitBlast, const std::string& prefix,
-                          const std::set<std::string>* only = nullptr) {
+                          const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {}) {
     frontend::LowerOptions lo;
     lo.bitBlastArithmetic = bitBlast;
     lo.prefix = prefix;
-    frontend::Lowered low = frontend::lower(dissolve ? d : keepInternal(d, only), lo);
+    lo.keep = keep;
+    lo.dissolveInternal = dissolve || only != nullptr;
+    if (only && !dissolve) lo.observe.assign(only->begin(), only->end());
+    frontend::Lowered low = frontend::lower(d, lo);
     // Figures count the logic that reaches an output, nothing overwritten or unread.
     low.net.removeUnreachable();
     return low;
@@ -159,7 +149,7 @@ int restructure(const RestructureOptions& opts) {
         stages.addChild("reader", rf.seconds, rf.peakRssKb);
     }
     stages.begin("lower");
-    frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix);
+    frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep);
     for (const auto& n : low.notes)
         if (!opts.quiet) std::cerr << n << "\n";
     const net::Network original = low.net;
@@ -255,14 +245,14 @@ int restructure(const RestructureOptions& opts) {
         for (const auto& [n, sg] : desc.signals) authorSignals.insert(n);
         frontend::Lowered writtenLow;
         try {
-            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix);
+            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep);
         } catch (const Error& e) {
             ownFault(e, "lower");
         }
         after = passes::measureFactored(writtenLow.net);
         if (!opts.skipProof) {
-            frontend::Lowered a = lowerAs(desc, opts.dissolveInternal, true, lowerPrefix);
-            frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals);
+            frontend::Lowered a = lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep);
+            frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep);
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
             po.verbose = opts.verbose;

@@ -1,4 +1,5 @@
-// module.cpp — the module description: reading it through the slang reader (kerf/io/reader.h) and parsing it.
+// module.cpp — reading the module through the slang reader (kerf/io/reader.h); signal helpers.
+// The description itself is parsed in description.cpp.
 #include "kerf/frontend/module.h"
 
 #include "kerf/io/files.h"
@@ -6,65 +7,18 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cctype>
 
 namespace kerf::frontend {
 
-namespace {
-
-constexpr int kFormatVersion = 1;
-
-SourceRange parseRange(const nlohmann::json& j) {
-    SourceRange r;
-    if (!j.is_object()) return r;
-    r.file = j.value("file", "");
-    r.start = j.value("start", std::size_t{0});
-    r.end = j.value("end", std::size_t{0});
-    r.line = j.value("line", 0);
-    r.col = j.value("col", 0);
-    return r;
-}
-
-Signal parseSignal(const nlohmann::json& j) {
-    Signal s;
-    s.name = j.at("name").get<std::string>();
-    s.isVariable = j.value("kind", "net") == "variable";
-    s.width = j.value("width", 1);
-    s.isSigned = j.value("signed", false);
-    s.msb = j.value("msb", s.width - 1);
-    s.lsb = j.value("lsb", 0);
-    s.vector = j.value("vector", s.width > 1);
-    s.src = parseRange(j.value("src", nlohmann::json::object()));
-    if (j.contains("direction")) {
-        std::string d = j["direction"].get<std::string>();
-        s.dir = d == "input" ? PortDir::Input : d == "output" ? PortDir::Output : PortDir::Inout;
-    }
-    if (j.contains("decl") && j["decl"].is_object()) {
-        const auto& d = j["decl"];
-        Declarator dc;
-        dc.file = d.value("file", "");
-        dc.start = d.value("start", std::size_t{0});
-        dc.end = d.value("end", std::size_t{0});
-        dc.stmtStart = d.value("stmt_start", std::size_t{0});
-        dc.stmtEnd = d.value("stmt_end", std::size_t{0});
-        dc.count = d.value("count", 1);
-        s.decl = dc;
-    }
-    return s;
-}
-
-std::vector<std::string> names(const nlohmann::json& j) {
-    std::vector<std::string> v;
-    if (j.is_array())
-        for (const auto& x : j) v.push_back(x.get<std::string>());
-    return v;
-}
-
-} // namespace
-
 int Signal::offsetOf(int index) const {
     int off = msb >= lsb ? index - lsb : lsb - index;
     return off >= 0 && off < width ? off : -1;
+}
+
+bool Signal::hasAttribute(std::string_view a) const {
+    return std::find(attributes.begin(), attributes.end(), a) != attributes.end();
 }
 
 std::string verilogName(const std::string& name) {
@@ -72,46 +26,6 @@ std::string verilogName(const std::string& name) {
     for (char c : name)
         if (!(std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '$')) simple = false;
     return simple ? name : "\\" + name + " ";
-}
-
-ModuleDesc parseDescription(const nlohmann::json& j) {
-    if (j.value("format", "") != "kerf-module")
-        throw Error("the reader's output is not a kerf module description", {}, ExitCode::Internal);
-    if (j.value("version", 0) != kFormatVersion)
-        throw Error(fmt::format("the reader wrote format version {}, this kerf reads version {}",
-                                j.value("version", 0), kFormatVersion), {}, ExitCode::Internal);
-    ModuleDesc m;
-    m.name = j.at("module").at("name").get<std::string>();
-    m.src = parseRange(j["module"].value("src", nlohmann::json::object()));
-    for (const auto& s : j.at("signals")) {
-        Signal sig = parseSignal(s);
-        m.signals[sig.name] = std::move(sig);
-    }
-    for (const auto& p : j.at("ports")) {
-        Signal port = parseSignal(p);
-        m.portOrder.push_back(port.name);
-        auto it = m.signals.find(port.name);
-        if (it == m.signals.end()) {
-            m.signals[port.name] = port;
-        } else {
-            it->second.dir = port.dir;
-        }
-    }
-    for (const auto& mj : j.at("members")) {
-        Member mem;
-        mem.id = mj.value("id", 0);
-        std::string kind = mj.at("kind").get<std::string>();
-        mem.kind = kind == "assign" ? MemberKind::Assign : kind == "comb" ? MemberKind::Comb : MemberKind::Kept;
-        mem.src = parseRange(mj.value("src", nlohmann::json::object()));
-        mem.reads = names(mj.value("reads", nlohmann::json::array()));
-        mem.writes = names(mj.value("writes", nlohmann::json::array()));
-        mem.netDecl = mj.value("net_decl", false);
-        mem.what = mj.value("what", "");
-        mem.reason = mj.value("reason", "");
-        if (mem.kind != MemberKind::Kept) mem.body = mj;
-        m.members.push_back(std::move(mem));
-    }
-    return m;
 }
 
 std::vector<std::string> readerArguments(const ReadOptions& opts) {
@@ -133,7 +47,7 @@ ModuleDesc readModule(const ReadOptions& opts) {
     }
     io::ReaderOutput out = io::runReader(readerArguments(opts));
     try {
-        return parseDescription(nlohmann::json::parse(out.text));
+        return parseDescription(out.text);
     } catch (const std::exception& e) {
         // The reader is ours: whatever it printed that we cannot read is kerf's bug.
         std::string saved = io::saveBugReport({{"reader-output.json", out.text}});

@@ -1,11 +1,13 @@
 """From slang's elaborated AST of one module to kerf's module description.
 
 The output shape is specified in docs/reader-format.md (`kerf-module`,
-version 1); keep the two in step. Entry point: `describe(compilation, top)`.
+version 2); keep the two in step. Entry point: `describe(compilation, top)`.
 
 Members that use anything outside the subset kerf restructures become
-`kept` members: conversion raises `Unsupported(reason)` and the member's
-reads/writes are then collected conservatively from the whole AST.
+`kept` members: conversion raises `Unsupported(reason)` (kerf_convert.py)
+and the member's reads and writes are then collected from the whole AST,
+writes as bit ranges where slang knows them statically. Any other exception
+is a bug of the reader and is not caught here.
 """
 
 import os
@@ -15,105 +17,27 @@ from collections import Counter
 import pyslang
 from pyslang import ast
 
+from kerf_convert import CHECK, Conv, Tables, Unsupported, dim_offset
+from kerf_types import Types, sv_bits
+
 FORMAT = "kerf-module"
-VERSION = 1
+VERSION = 2
 
 SK = ast.SymbolKind
 EK = ast.ExpressionKind
 STK = ast.StatementKind
-_BIN = pyslang.LiteralBase.Binary
+TK = pyslang.parsing.TriviaKind
 _DEC = pyslang.LiteralBase.Decimal
 
-_UNARY = {
-    ast.UnaryOperator.Plus: "+",
-    ast.UnaryOperator.Minus: "-",
-    ast.UnaryOperator.BitwiseNot: "~",
-    ast.UnaryOperator.BitwiseAnd: "&",
-    ast.UnaryOperator.BitwiseOr: "|",
-    ast.UnaryOperator.BitwiseXor: "^",
-    ast.UnaryOperator.BitwiseNand: "~&",
-    ast.UnaryOperator.BitwiseNor: "~|",
-    ast.UnaryOperator.BitwiseXnor: "~^",
-    ast.UnaryOperator.LogicalNot: "!",
-}
-_INCDEC = {
-    ast.UnaryOperator.Preincrement: "+",
-    ast.UnaryOperator.Postincrement: "+",
-    ast.UnaryOperator.Predecrement: "-",
-    ast.UnaryOperator.Postdecrement: "-",
-}
-_BINARY = {
-    ast.BinaryOperator.Add: "+",
-    ast.BinaryOperator.Subtract: "-",
-    ast.BinaryOperator.Multiply: "*",
-    ast.BinaryOperator.Divide: "/",
-    ast.BinaryOperator.Mod: "%",
-    ast.BinaryOperator.BinaryAnd: "&",
-    ast.BinaryOperator.BinaryOr: "|",
-    ast.BinaryOperator.BinaryXor: "^",
-    ast.BinaryOperator.BinaryXnor: "~^",
-    ast.BinaryOperator.Equality: "==",
-    ast.BinaryOperator.Inequality: "!=",
-    ast.BinaryOperator.CaseEquality: "===",
-    ast.BinaryOperator.CaseInequality: "!==",
-    ast.BinaryOperator.GreaterThanEqual: ">=",
-    ast.BinaryOperator.GreaterThan: ">",
-    ast.BinaryOperator.LessThanEqual: "<=",
-    ast.BinaryOperator.LessThan: "<",
-    ast.BinaryOperator.WildcardEquality: "==?",
-    ast.BinaryOperator.WildcardInequality: "!=?",
-    ast.BinaryOperator.LogicalAnd: "&&",
-    ast.BinaryOperator.LogicalOr: "||",
-    ast.BinaryOperator.LogicalImplication: "->",
-    ast.BinaryOperator.LogicalEquivalence: "<->",
-    ast.BinaryOperator.LogicalShiftLeft: "<<",
-    ast.BinaryOperator.LogicalShiftRight: ">>",
-    ast.BinaryOperator.ArithmeticShiftLeft: "<<<",
-    ast.BinaryOperator.ArithmeticShiftRight: ">>>",
-    ast.BinaryOperator.Power: "**",
-}
-_CHECK = {
-    ast.UniquePriorityCheck.None_: "none",
-    ast.UniquePriorityCheck.Unique: "unique",
-    ast.UniquePriorityCheck.Unique0: "unique0",
-    ast.UniquePriorityCheck.Priority: "priority",
-}
-_CASE_KIND = {
-    ast.CaseStatementCondition.Normal: "case",
-    ast.CaseStatementCondition.WildcardJustZ: "casez",
-    ast.CaseStatementCondition.WildcardXOrZ: "casex",
-    ast.CaseStatementCondition.Inside: "inside",
-}
 _DIRECTION = {
     ast.ArgumentDirection.In: "input",
     ast.ArgumentDirection.Out: "output",
     ast.ArgumentDirection.InOut: "inout",
     ast.ArgumentDirection.Ref: "inout",
 }
-_STMT_REASON = {
-    STK.Timed: "a timing or event control",
-    STK.Return: "a return statement",
-    STK.Break: "a break statement",
-    STK.Continue: "a continue statement",
-    STK.Disable: "a disable statement",
-    STK.PatternCase: "a case with pattern matching",
-    STK.RepeatLoop: "a repeat loop",
-    STK.ForeachLoop: "a foreach loop",
-    STK.WhileLoop: "a while loop",
-    STK.DoWhileLoop: "a do-while loop",
-    STK.ForeverLoop: "a forever loop",
-    STK.ImmediateAssertion: "an assertion",
-    STK.ConcurrentAssertion: "an assertion",
-    STK.DisableFork: "a disable fork",
-    STK.Wait: "a wait statement",
-    STK.WaitFork: "a wait fork",
-    STK.WaitOrder: "a wait order",
-    STK.EventTrigger: "an event trigger",
-    STK.ProceduralAssign: "a procedural assign",
-    STK.ProceduralDeassign: "a procedural deassign",
-    STK.RandCase: "a randcase",
-    STK.RandSequence: "a randsequence",
-    STK.ProceduralChecker: "a checker",
+_INCDEC = {
+    ast.UnaryOperator.Preincrement, ast.UnaryOperator.Postincrement,
+    ast.UnaryOperator.Predecrement, ast.UnaryOperator.Postdecrement,
 }
 # Module members that carry no behaviour: never reported as members.
 _DECLARATIVE = {
@@ -143,84 +67,7 @@ _DIRECTIVE = re.compile(
     rb"`(?:ifdef|ifndef|elsif|else|endif|define|undef|undefineall|include|line|resetall|"
     rb"timescale|default_nettype|celldefine|endcelldefine|pragma|begin_keywords|end_keywords|"
     rb"unconnected_drive|nounconnected_drive|protect|endprotect)\b")
-
-
-class Unsupported(Exception):
-    """The construct is outside what kerf restructures; the member is kept."""
-
-
-# ---------------------------------------------------------------------------
-# constants
-
-def sv_bits(sv, width):
-    """Bits of an SVInt as a string of 0 1 x z, MSB first, resized to `width`."""
-    s = sv.toString(_BIN, False)
-    n = sv.bitWidth
-    if s.startswith("-"):
-        s = format((-int(s[1:], 2)) & ((1 << n) - 1), "b")
-    if len(s) < n:
-        s = "0" * (n - len(s)) + s
-    if width < n:
-        return s[n - width:]
-    if width > n:
-        fill = s[0] if (sv.isSigned and s) else "0"
-        return fill * (width - n) + s
-    return s
-
-
-def bits_int(bits, signed):
-    """Integer value of a constant's bits, or None when it has x/z bits."""
-    if not bits or "x" in bits or "z" in bits:
-        return None
-    v = int(bits, 2)
-    if signed and bits[0] == "1":
-        v -= 1 << len(bits)
-    return v
-
-
-def convert_bits(bits, from_signed, width, four_state):
-    n = len(bits)
-    if width < n:
-        bits = bits[n - width:]
-    elif width > n:
-        fill = bits[0] if (from_signed and bits) else "0"
-        bits = fill * (width - n) + bits
-    if not four_state and ("x" in bits or "z" in bits):
-        bits = bits.replace("x", "0").replace("z", "0")
-    return bits
-
-
-def const_node(bits, signed):
-    return {"op": "const", "width": len(bits), "signed": signed, "bits": bits}
-
-
-def type_shape(t):
-    """(width, signed, msb, lsb, vector, packed) of a declared type, flattened."""
-    ct = t.canonicalType
-    if ct.isIntegral:
-        w = ct.bitWidth
-        msb, lsb = w - 1, 0
-        if ct.kind == SK.PackedArrayType:
-            el = ct.elementType.canonicalType
-            if el.isScalar:
-                r = ct.range
-                msb, lsb = r.left, r.right
-        return w, ct.isSigned, msb, lsb, not ct.isScalar, True
-    w = ct.bitstreamWidth if ct.isFixedSize else 0
-    return w, False, w - 1, 0, True, False
-
-
-def dim_range(t):
-    """Declared range of the outermost packed dimension of an integral type."""
-    ct = t.canonicalType
-    if ct.kind == SK.PackedArrayType:
-        r = ct.range
-        return r.left, r.right
-    return ct.bitWidth - 1, 0
-
-
-def dim_offset(index, msb, lsb):
-    return index - lsb if msb >= lsb else lsb - index
+_COMMENTS = (TK.LineComment, TK.BlockComment)
 
 
 # ---------------------------------------------------------------------------
@@ -232,6 +79,7 @@ class Sources:
         self._names = {}
         self._bytes = {}
         self._file = {}
+        self.lines = {}      # file name -> line start offsets (for the `files` table)
 
     def name(self, buf):
         key = buf.id
@@ -255,6 +103,20 @@ class Sources:
                 b = self.sm.getSourceText(buf).encode("utf-8", "surrogateescape")
             self._bytes[key] = b
         return b
+
+    def note_file(self, buf):
+        """Record the line starts of a file whose offsets the description uses."""
+        n = self.name(buf)
+        if n not in self.lines:
+            data = self.data(buf)
+            starts = [0]
+            find = data.find
+            p = find(b"\n")
+            while p >= 0:
+                starts.append(p + 1)
+                p = find(b"\n", p + 1)
+            self.lines[n] = starts
+        return n
 
     def loc_src(self, start, end):
         sm = self.sm
@@ -291,604 +153,8 @@ class Sources:
         return self.loc_src(s, e), False
 
 
-# ---------------------------------------------------------------------------
-# conversion of one member
-
-class Conv:
-    """Converts the expressions and statements of one assign or comb member."""
-
-    def __init__(self, d):
-        self.d = d
-        self.reads = set()
-        self.writes = set()
-        self.locals = {}          # local symbol -> name
-        self.local_list = []      # SIGNAL entries
-        self.local_names = set()
-        self.loop_syms = {}       # module variable used as the active loop variable -> depth
-        self.localized = set()    # names of module variables treated as loop locals
-        self.outside = set()      # names of module variables used outside such loops
-        self.lvref = None         # target of the compound assignment being converted
-
-    # -- helpers -----------------------------------------------------------------
-
-    @staticmethod
-    def ws(e):
-        t = e.type
-        if not t.isIntegral:
-            raise Unsupported("uses a value of type '%s'" % t)
-        return t.bitWidth, t.isSigned
-
-    def fold(self, e):
-        return self.d.try_const(e)
-
-    def add_local(self, sym):
-        w, s, msb, lsb, vector, packed = type_shape(sym.type)
-        if not packed:
-            raise Unsupported("declares the local variable '%s' of type '%s'" % (sym.name, sym.type))
-        base = sym.name
-        name = base
-        n = 1
-        while name in self.local_names or name in self.d.sig_by_name:
-            name = "%s@%d" % (base, n)
-            n += 1
-        self.local_names.add(name)
-        self.locals[sym] = name
-        self.local_list.append({"name": name, "kind": "variable", "width": w, "signed": s,
-                                "msb": msb, "lsb": lsb, "port": False, "vector": vector,
-                                "src": self.d.symbol_src(sym), "decl": None})
-        return name
-
-    def signal_ref(self, e, sym, name, write):
-        w, s = self.ws(e)
-        if sym in self.loop_syms:
-            return {"op": "ref", "width": w, "signed": s, "name": name}
-        if name in self.d.loop_candidates:
-            self.outside.add(name)
-        (self.writes if write else self.reads).add(name)
-        return {"op": "ref", "width": w, "signed": s, "name": name}
-
-    # -- expressions ---------------------------------------------------------------
-
-    def expr(self, e):
-        h = _EXPR.get(e.kind)
-        if h is None:
-            c = self.fold(e)
-            if c is not None:
-                return c
-            raise Unsupported(_expr_reason(e))
-        return h(self, e)
-
-    def x_int_literal(self, e):
-        w, s = self.ws(e)
-        return const_node(sv_bits(e.value, w), s)
-
-    def x_folded(self, e):
-        c = self.fold(e)
-        if c is None:
-            raise Unsupported(_expr_reason(e))
-        return c
-
-    def x_string(self, e):
-        w, s = self.ws(e)
-        v = e.intValue.value
-        if not isinstance(v, pyslang.SVInt):
-            raise Unsupported("uses a string")
-        return const_node(sv_bits(v, w), s)
-
-    def x_named(self, e):
-        sym = e.symbol
-        name = self.d.sig.get(sym)
-        if name is not None:
-            return self.signal_ref(e, sym, name, False)
-        lname = self.locals.get(sym)
-        if lname is not None:
-            w, s = self.ws(e)
-            return {"op": "ref", "width": w, "signed": s, "name": lname}
-        c = self.fold(e)
-        if c is not None:
-            return c
-        raise Unsupported("refers to '%s', which is not a signal of this module" % sym.name)
-
-    def x_hier(self, e):
-        raise Unsupported("uses the hierarchical reference '%s'" % _text(e))
-
-    def x_lvref(self, e):
-        if self.lvref is None:
-            raise Unsupported("uses an unsupported expression")
-        return self.expr(self.lvref)
-
-    def x_unary(self, e):
-        op = _UNARY.get(e.op)
-        if op is None:
-            raise Unsupported("uses an increment or decrement inside an expression")
-        w, s = self.ws(e)
-        a = self.expr(e.operand)
-        if a["op"] == "const":
-            c = self.fold(e)
-            if c is not None:
-                return c
-        return {"op": "unary", "width": w, "signed": s, "operator": op, "operand": a}
-
-    def x_binary(self, e):
-        w, s = self.ws(e)
-        l = self.expr(e.left)
-        r = self.expr(e.right)
-        if l["op"] == "const" and r["op"] == "const":
-            c = self.fold(e)
-            if c is not None:
-                return c
-        return {"op": "binary", "width": w, "signed": s, "operator": _BINARY[e.op], "lhs": l, "rhs": r}
-
-    def x_cond(self, e):
-        conds = e.conditions
-        if len(conds) != 1 or conds[0].pattern is not None:
-            raise Unsupported("uses a conditional operator with pattern matching")
-        w, s = self.ws(e)
-        c = self.expr(conds[0].expr)
-        t = self.expr(e.left)
-        f = self.expr(e.right)
-        if c["op"] == "const" and t["op"] == "const" and f["op"] == "const":
-            k = self.fold(e)
-            if k is not None:
-                return k
-        return {"op": "cond", "width": w, "signed": s, "cond": c, "then": t, "else": f}
-
-    def x_inside(self, e):
-        w, s = self.ws(e)
-        terms = []
-        for it in e.rangeList:
-            if it.kind == EK.ValueRange:
-                if it.syntax is not None and ("+/-" in str(it.syntax) or "+%-" in str(it.syntax)):
-                    raise Unsupported("uses an inside range with a tolerance")
-                ge = {"op": "binary", "width": 1, "signed": False, "operator": ">=",
-                      "lhs": self.expr(e.left), "rhs": self.expr(it.left)}
-                le = {"op": "binary", "width": 1, "signed": False, "operator": "<=",
-                      "lhs": self.expr(e.left), "rhs": self.expr(it.right)}
-                terms.append({"op": "binary", "width": 1, "signed": False, "operator": "&&",
-                              "lhs": ge, "rhs": le})
-            else:
-                if not it.type.isIntegral:
-                    raise Unsupported("uses inside with a value of type '%s'" % it.type)
-                terms.append({"op": "binary", "width": 1, "signed": False, "operator": "==?",
-                              "lhs": self.expr(e.left), "rhs": self.expr(it)})
-        if all(_all_const(t) for t in terms):
-            c = self.fold(e)
-            if c is not None:
-                return c
-        acc = terms[0]
-        for t in terms[1:]:
-            acc = {"op": "binary", "width": 1, "signed": False, "operator": "||", "lhs": acc, "rhs": t}
-        if w != 1 or s:
-            acc = {"op": "convert", "width": w, "signed": s, "operand": acc}
-        return acc
-
-    def x_concat(self, e):
-        w, s = self.ws(e)
-        parts = []
-        for o in e.operands:
-            if o.type.bitWidth == 0:
-                continue
-            parts.append(self.expr(o))
-        if not parts:
-            raise Unsupported("uses an empty concatenation")
-        if all(p["op"] == "const" for p in parts):
-            c = self.fold(e)
-            if c is not None:
-                return c
-        return {"op": "concat", "width": w, "signed": s, "parts": parts}
-
-    def x_replicate(self, e):
-        w, s = self.ws(e)
-        n = self.d.const_int(e.count)
-        if n is None or n <= 0:
-            raise Unsupported("uses a replication with a count that is not a positive constant")
-        p = self.expr(e.concat)
-        if p["op"] == "const":
-            c = self.fold(e)
-            if c is not None:
-                return c
-        return {"op": "replicate", "width": w, "signed": s, "count": n, "part": p}
-
-    def unpacked_select(self, e, lvalue):
-        """A select from something that is not a packed vector: a constant if slang can fold it."""
-        if not lvalue:
-            c = self.fold(e)
-            if c is not None:
-                return c
-        raise Unsupported("selects from '%s', which is not a packed vector" % _text(e.value))
-
-    def x_element(self, e, lvalue=False):
-        v = e.value
-        vt = v.type
-        if not vt.isIntegral:
-            return self.unpacked_select(e, lvalue)
-        w, s = self.ws(e)
-        val = self.lvalue(v) if lvalue else self.expr(v)
-        idx = self.expr(e.selector)
-        if not lvalue and val["op"] == "const" and idx["op"] == "const":
-            c = self.fold(e)
-            if c is not None:
-                return c
-        msb, lsb = dim_range(vt)
-        return {"op": "index", "width": w, "signed": s, "value": val, "index": idx, "msb": msb, "lsb": lsb}
-
-    def x_range(self, e, lvalue=False):
-        v = e.value
-        vt = v.type
-        if not vt.isIntegral:
-            return self.unpacked_select(e, lvalue)
-        w, s = self.ws(e)
-        msb, lsb = dim_range(vt)
-        val = self.lvalue(v) if lvalue else self.expr(v)
-        kind = e.selectionKind
-        if kind == ast.RangeSelectionKind.Simple:
-            left = self.d.const_int(e.left)
-            right = self.d.const_int(e.right)
-            if left is None or right is None:
-                raise Unsupported("uses a part select with non-constant bounds")
-            node = {"op": "range", "width": w, "signed": s, "value": val, "left": left, "right": right,
-                    "msb": msb, "lsb": lsb}
-        else:
-            n = self.d.const_int(e.right)
-            if n is None or n <= 0:
-                raise Unsupported("uses an indexed part select with a non-constant width")
-            base = self.expr(e.left)
-            b = bits_int(base["bits"], base["signed"]) if base["op"] == "const" else None
-            up = kind == ast.RangeSelectionKind.IndexedUp
-            if b is not None:
-                if up:
-                    lo_i, hi_i = b, b + n - 1
-                else:
-                    lo_i, hi_i = b - n + 1, b
-                if msb >= lsb:
-                    left, right = hi_i, lo_i
-                else:
-                    left, right = lo_i, hi_i
-                node = {"op": "range", "width": w, "signed": s, "value": val, "left": left, "right": right,
-                        "msb": msb, "lsb": lsb}
-            else:
-                node = {"op": "indexed", "width": w, "signed": s, "value": val, "base": base,
-                        "dir": "+" if up else "-", "msb": msb, "lsb": lsb}
-        if not lvalue and val["op"] == "const" and node["op"] == "range":
-            c = self.fold(e)
-            if c is not None:
-                return c
-        return node
-
-    def x_member(self, e, lvalue=False):
-        v = e.value
-        vt = v.type.canonicalType
-        if vt.kind not in (SK.PackedStructType, SK.PackedUnionType):
-            if not lvalue:
-                c = self.fold(e)
-                if c is not None:
-                    return c
-            raise Unsupported("accesses a member of '%s', which is not a packed struct or union" % _text(v))
-        w, s = self.ws(e)
-        val = self.lvalue(v) if lvalue else self.expr(v)
-        off = e.member.bitOffset
-        if not lvalue and val["op"] == "const":
-            c = self.fold(e)
-            if c is not None:
-                return c
-        return {"op": "range", "width": w, "signed": s, "value": val, "left": off + w - 1, "right": off,
-                "msb": vt.bitWidth - 1, "lsb": 0}
-
-    def x_convert(self, e):
-        t = e.type
-        op = e.operand
-        if not t.isIntegral or not op.type.isIntegral:
-            c = self.fold(e)
-            if c is not None:
-                return c
-            raise Unsupported("converts between '%s' and '%s'" % (op.type, t))
-        a = self.expr(op)
-        w, s = t.bitWidth, t.isSigned
-        # IEEE 1800-2017 11.8.2: an operand reached by type propagation is extended
-        # according to the propagated type, so a signed operand of an unsigned
-        # expression is zero-extended. slang marks those conversions Propagated.
-        ext_signed = s if e.conversionKind == ast.ConversionKind.Propagated else a["signed"]
-        if a["op"] == "const":
-            return const_node(convert_bits(a["bits"], ext_signed, w, t.isFourState), s)
-        if a["width"] == w and a["signed"] == s:
-            return a
-        if ext_signed != a["signed"] and w > a["width"]:
-            a = {"op": "convert", "width": a["width"], "signed": ext_signed, "operand": a}
-        return {"op": "convert", "width": w, "signed": s, "operand": a}
-
-    def x_call(self, e):
-        if e.isSystemCall:
-            name = e.subroutineName
-            if name in ("$signed", "$unsigned"):
-                args = e.arguments
-                w, s = self.ws(e)
-                a = self.expr(args[0])
-                if a["op"] == "const":
-                    return const_node(convert_bits(a["bits"], a["signed"], w, True), s)
-                if a["width"] == w and a["signed"] == s:
-                    return a
-                return {"op": "convert", "width": w, "signed": s, "operand": a}
-            c = self.fold(e)
-            if c is not None:
-                return c
-            raise Unsupported("calls the system function %s" % name)
-        c = self.fold(e)
-        if c is not None:
-            return c
-        raise Unsupported("calls the function '%s'" % e.subroutineName)
-
-    # -- lvalues -------------------------------------------------------------------
-
-    def lvalue(self, e):
-        k = e.kind
-        if k == EK.NamedValue:
-            sym = e.symbol
-            name = self.d.sig.get(sym)
-            if name is not None:
-                return self.signal_ref(e, sym, name, True)
-            lname = self.locals.get(sym)
-            if lname is not None:
-                w, s = self.ws(e)
-                return {"op": "ref", "width": w, "signed": s, "name": lname}
-            raise Unsupported("assigns '%s', which is not a signal of this module" % sym.name)
-        if k == EK.ElementSelect:
-            return self.x_element(e, True)
-        if k == EK.RangeSelect:
-            return self.x_range(e, True)
-        if k == EK.MemberAccess:
-            return self.x_member(e, True)
-        if k == EK.Concatenation:
-            w, s = self.ws(e)
-            parts = [self.lvalue(o) for o in e.operands if o.type.bitWidth != 0]
-            return {"op": "concat", "width": w, "signed": s, "parts": parts}
-        if k == EK.HierarchicalValue:
-            raise Unsupported("assigns the hierarchical reference '%s'" % _text(e))
-        raise Unsupported("assigns a target of kind %s" % k.name)
-
-    def target(self, e):
-        return flatten_lvalue(self.lvalue(e))
-
-    # -- statements ----------------------------------------------------------------
-
-    def stmt(self, s):
-        k = s.kind
-        if k == STK.Block:
-            if s.blockKind != ast.StatementBlockKind.Sequential:
-                raise Unsupported("contains a fork-join block")
-            return self.block(s.body)
-        if k == STK.List:
-            return self.block(s)
-        if k == STK.Empty:
-            return {"stmt": "empty"}
-        if k == STK.ExpressionStatement:
-            return self.expr_stmt(s.expr, s)
-        if k == STK.VariableDeclaration:
-            sym = s.symbol
-            syn = sym.syntax
-            if syn is not None and syn.parent is not None \
-                    and syn.parent.kind == pyslang.syntax.SyntaxKind.ForVariableDeclaration:
-                return None    # declared by the for loop that follows; it initializes it
-            name = self.add_local(sym)
-            init = sym.initializer
-            if init is None:
-                return None
-            if sym.lifetime != ast.VariableLifetime.Automatic:
-                raise Unsupported("initializes the static variable '%s' (it would be set only once)" % sym.name)
-            w, sg = self.ws(init)
-            lhs = {"op": "ref", "width": sym.type.bitWidth, "signed": sym.type.isSigned, "name": name}
-            return {"stmt": "assign", "lhs": lhs, "rhs": self.expr(init), "src": self.d.node_src(s)}
-        if k == STK.Conditional:
-            conds = s.conditions
-            if len(conds) != 1 or conds[0].pattern is not None:
-                raise Unsupported("contains an if with pattern matching")
-            cond = self.expr(conds[0].expr)
-            then = self.stmt_or_empty(s.ifTrue)
-            els = self.stmt_or_empty(s.ifFalse) if s.ifFalse is not None else None
-            return {"stmt": "if", "cond": cond, "then": then, "else": els, "check": _CHECK[s.check],
-                    "src": self.d.node_src(s)}
-        if k == STK.Case:
-            sel = self.expr(s.expr)
-            items = []
-            for g in s.items:
-                exprs = []
-                for x in g.expressions:
-                    if x.kind == EK.ValueRange:
-                        raise Unsupported("contains a case inside with a value range")
-                    exprs.append(self.expr(x))
-                items.append({"exprs": exprs, "body": self.stmt_or_empty(g.stmt)})
-            dflt = self.stmt_or_empty(s.defaultCase) if s.defaultCase is not None else None
-            return {"stmt": "case", "kind": _CASE_KIND[s.condition], "check": _CHECK[s.check],
-                    "expr": sel, "items": items, "default": dflt, "src": self.d.node_src(s)}
-        if k == STK.ForLoop:
-            return self.for_loop(s)
-        if k == STK.Invalid:
-            raise Unsupported("contains a statement slang could not bind")
-        raise Unsupported("contains %s" % _STMT_REASON.get(k, "a %s statement" % k.name))
-
-    def stmt_or_empty(self, s):
-        r = self.stmt(s)
-        return r if r is not None else {"stmt": "empty"}
-
-    def block(self, s):
-        items = []
-        lst = s.list if s.kind == STK.List else [s]
-        for x in lst:
-            r = self.stmt(x)
-            if r is not None:
-                items.append(r)
-        return {"stmt": "block", "items": items}
-
-    def expr_stmt(self, x, s):
-        k = x.kind
-        if k == EK.Assignment:
-            if x.isNonBlocking:
-                raise Unsupported("contains a nonblocking assignment")
-            if x.timingControl is not None:
-                raise Unsupported("contains an intra-assignment timing control")
-            lhs = self.target(x.left)
-            if x.isCompound:
-                self.lvref = x.left
-            try:
-                rhs = self.expr(x.right)
-            finally:
-                self.lvref = None
-            return {"stmt": "assign", "lhs": lhs, "rhs": rhs, "src": self.d.node_src(s or x)}
-        if k == EK.UnaryOp and x.op in _INCDEC:
-            lhs = self.target(x.operand)
-            cur = self.expr(x.operand)
-            w, sg = cur["width"], cur["signed"]
-            one = const_node("0" * (w - 1) + "1", sg)
-            rhs = {"op": "binary", "width": w, "signed": sg, "operator": _INCDEC[x.op], "lhs": cur, "rhs": one}
-            return {"stmt": "assign", "lhs": lhs, "rhs": rhs, "src": self.d.node_src(s or x)}
-        if k == EK.Call:
-            raise Unsupported("calls %s" % (x.subroutineName if x.isSystemCall else "'%s'" % x.subroutineName))
-        raise Unsupported("contains an expression statement")
-
-    def for_loop(self, s):
-        pushed = []
-        init = []
-        try:
-            for v in s.loopVars:
-                name = self.add_local(v)
-                if v.initializer is None:
-                    raise Unsupported("has a for loop variable without an initial value")
-                init.append({"name": name, "value": self.expr(v.initializer)})
-            for x in s.initializers:
-                if x.kind != EK.Assignment or x.left.kind != EK.NamedValue or x.isCompound:
-                    raise Unsupported("has a for loop whose initialization is not 'variable = value'")
-                sym = x.left.symbol
-                name = self.locals.get(sym)
-                if name is None:
-                    name = self.d.sig.get(sym)
-                    if name is None or name not in self.d.loop_candidates:
-                        raise Unsupported("has a for loop over '%s', which cannot be made local to the block"
-                                          % x.left.symbol.name)
-                    value = self.expr(x.right)
-                    if sym not in self.loop_syms:
-                        self.loop_syms[sym] = 0
-                        pushed.append(sym)
-                    if name not in self.localized:
-                        self.localized.add(name)
-                        w, sg, msb, lsb, vector, _ = type_shape(sym.type)
-                        self.local_list.append({"name": name, "kind": "variable", "width": w, "signed": sg,
-                                                "msb": msb, "lsb": lsb, "port": False, "vector": vector,
-                                                "src": self.d.symbol_src(sym), "decl": None})
-                else:
-                    value = self.expr(x.right)
-                init.append({"name": name, "value": value})
-            if s.stopExpr is None:
-                raise Unsupported("has a for loop without a condition")
-            cond = self.expr(s.stopExpr)
-            step = [self.expr_stmt(x, None) for x in s.steps]
-            body = self.stmt_or_empty(s.body)
-        finally:
-            for sym in pushed:
-                del self.loop_syms[sym]
-        return {"stmt": "for", "init": init, "cond": cond, "step": step, "body": body,
-                "src": self.d.node_src(s)}
-
-
-def flatten_lvalue(n):
-    """Nested constant selects on a target become one bit range of the signal."""
-    op = n["op"]
-    if op == "concat":
-        n["parts"] = [flatten_lvalue(p) for p in n["parts"]]
-        return n
-    if op not in ("index", "range") or n["value"]["op"] == "ref":
-        return n
-    span = _const_span(n)
-    if span is None:
-        return n
-    ref, lo, hi = span
-    return {"op": "range", "width": n["width"], "signed": n["signed"], "value": ref,
-            "left": hi, "right": lo, "msb": ref["width"] - 1, "lsb": 0}
-
-
-def _const_span(n):
-    op = n["op"]
-    if op == "ref":
-        return n, 0, n["width"] - 1
-    if op not in ("index", "range"):
-        return None
-    inner = _const_span(n["value"])
-    if inner is None:
-        return None
-    ref, plo, phi = inner
-    w = n["width"]
-    msb, lsb = n["msb"], n["lsb"]
-    if op == "index":
-        if n["index"]["op"] != "const":
-            return None
-        k = bits_int(n["index"]["bits"], n["index"]["signed"])
-        if k is None:
-            return None
-        off = dim_offset(k, msb, lsb)
-        lo = plo + off * w
-    else:
-        a, b = dim_offset(n["left"], msb, lsb), dim_offset(n["right"], msb, lsb)
-        count = abs(a - b) + 1
-        ew = w // count if count else 1
-        lo = plo + min(a, b) * ew
-    hi = lo + w - 1
-    if lo < plo or hi > phi:
-        return None
-    return ref, lo, hi
-
-
-def _all_const(n):
-    if n.get("op") == "const":
-        return True
-    for k in ("lhs", "rhs"):
-        if k in n and not _all_const(n[k]):
-            return False
-    return "lhs" in n
-
-
-def _text(e):
-    syn = e.syntax
-    if syn is not None:
-        return str(syn).strip()
-    if isinstance(e, ast.ValueExpressionBase):
-        return e.symbol.name
-    return e.kind.name
-
-
-def _expr_reason(e):
-    k = e.kind
-    reasons = {
-        EK.Streaming: "uses a streaming concatenation",
-        EK.Assignment: "uses an assignment inside an expression",
-        EK.SimpleAssignmentPattern: "uses an assignment pattern that is not constant",
-        EK.StructuredAssignmentPattern: "uses an assignment pattern that is not constant",
-        EK.ReplicatedAssignmentPattern: "uses an assignment pattern that is not constant",
-        EK.RealLiteral: "uses a real number",
-        EK.Dist: "uses a distribution",
-        EK.MinTypMax: "uses a min:typ:max expression",
-        EK.TaggedUnion: "uses a tagged union",
-        EK.Invalid: "uses an expression slang could not bind",
-    }
-    return reasons.get(k, "uses an expression of kind %s" % k.name)
-
-
-_EXPR = {
-    EK.IntegerLiteral: Conv.x_int_literal,
-    EK.UnbasedUnsizedIntegerLiteral: Conv.x_folded,
-    EK.StringLiteral: Conv.x_string,
-    EK.NamedValue: Conv.x_named,
-    EK.HierarchicalValue: Conv.x_hier,
-    EK.LValueReference: Conv.x_lvref,
-    EK.UnaryOp: Conv.x_unary,
-    EK.BinaryOp: Conv.x_binary,
-    EK.ConditionalOp: Conv.x_cond,
-    EK.Inside: Conv.x_inside,
-    EK.Concatenation: Conv.x_concat,
-    EK.Replication: Conv.x_replicate,
-    EK.ElementSelect: Conv.x_element,
-    EK.RangeSelect: Conv.x_range,
-    EK.MemberAccess: Conv.x_member,
-    EK.Conversion: Conv.x_convert,
-    EK.Call: Conv.x_call,
-}
+def _trivia_bytes(t):
+    return len(t.getRawText().encode("utf-8", "surrogateescape"))
 
 
 # ---------------------------------------------------------------------------
@@ -901,11 +167,15 @@ class Describer:
         self.body = top.body
         self.sm = comp.sourceManager
         self.src = Sources(self.sm)
+        self.types = Types(self.body)
+        self.tables = Tables(self.types)
         self.sig = {}            # signal symbol -> name
         self.sig_by_name = {}
         self.loop_candidates = set()   # module variables a comb block may use as a loop local
         self._sub_refs = {}
         self._decl_counts = {}
+        self._next_token = {}    # start offset of a module member's syntax -> the token after it
+        self._ctx = ast.EvalContext(self.body)
 
     # -- sources -------------------------------------------------------------------
 
@@ -944,32 +214,98 @@ class Describer:
             return src, "it contains preprocessor directives"
         return src, None
 
+    # -- comments ------------------------------------------------------------------
+
+    def comments(self, syn):
+        """Byte ranges of the comments attached to a member: the comment lines directly
+        above it, the comments inside it, a comment after it on its last line."""
+        above, inside, trailing = [], [], []
+        first = syn.getFirstToken()
+        pos = first.location.offset - sum(_trivia_bytes(t) for t in first.trivia)
+        # Split the first token's trivia into lines; line 0 ends the previous token's line.
+        lines = [[]]
+        for t in first.trivia:
+            n = _trivia_bytes(t)
+            lines[-1].append((t.kind, pos, pos + n))
+            pos += n
+            if t.kind == TK.EndOfLine:
+                lines.append([])
+        run = []
+        for line in reversed(lines[1:-1]):
+            items = [x for x in line if x[0] not in (TK.Whitespace, TK.EndOfLine)]
+            if items and all(x[0] in _COMMENTS for x in items):
+                run = items + run
+            else:
+                break
+        above = [[s, e] for _, s, e in run]
+
+        rng = syn.sourceRange
+        # Every comment holds a '/': a member whose bytes have none has no comment inside
+        # (walking the tokens of a large generated expression costs more than its parse).
+        has_slash = b"/" in self.src.data(rng.start.buffer)[rng.start.offset:rng.end.offset]
+
+        def visit(n):
+            if isinstance(n, pyslang.parsing.Token):
+                if n.trivia and n.location.offset != first.location.offset:
+                    p = n.location.offset - sum(_trivia_bytes(t) for t in n.trivia)
+                    for t in n.trivia:
+                        k = _trivia_bytes(t)
+                        if t.kind in _COMMENTS:
+                            inside.append([p, p + k])
+                        p += k
+            return None
+        if has_slash:
+            syn.visit(visit)
+        nxt = self._next_token.get(syn.sourceRange.start.offset)
+        if nxt is not None:
+            p = nxt.location.offset - sum(_trivia_bytes(t) for t in nxt.trivia)
+            for t in nxt.trivia:
+                k = _trivia_bytes(t)
+                if t.kind == TK.EndOfLine:
+                    break
+                if t.kind in _COMMENTS:
+                    trailing.append([p, p + k])
+                p += k
+        return {"above": above, "inside": inside, "trailing": trailing}
+
+    def index_module_tokens(self):
+        """The token that follows each module-level member (for trailing comments)."""
+        msyn = self.top.definition.syntax
+        if msyn is None:
+            return
+        members = list(getattr(msyn, "members", None) or [])
+        for i, m in enumerate(members):
+            nxt = members[i + 1].getFirstToken() if i + 1 < len(members) else msyn.endmodule
+            self._next_token[m.sourceRange.start.offset] = nxt
+
     # -- constants -----------------------------------------------------------------
 
     def try_const(self, e):
-        t = e.type
-        if not t.isIntegral:
-            return None
+        """slang's constant value of `e` as an SVInt, or None."""
         try:
             cv = e.eval(ast.EvalContext(self.body))
-        except Exception:
+        except Exception:    # slang raises when `e` is not a constant expression
             return None
         v = cv.value
-        if isinstance(v, pyslang.SVInt):
-            return const_node(sv_bits(v, t.bitWidth), t.isSigned)
-        return None
+        return v if isinstance(v, pyslang.SVInt) else None
 
     def const_int(self, e):
-        try:
-            cv = e.eval(ast.EvalContext(self.body))
-        except Exception:
+        v = self.try_const(e)
+        if v is None or v.hasUnknown:
             return None
-        v = cv.value
-        if isinstance(v, pyslang.SVInt):
-            if v.hasUnknown:
-                return None
-            return int(v.toString(_DEC, False))
-        return None
+        return int(v.toString(_DEC, False))
+
+    def case_attributes(self, s):
+        """Synthesis attributes written on a case statement (`(* full_case *)`, ...)."""
+        syn = s.syntax
+        names = []
+        attrs = getattr(syn, "attributes", None) if syn is not None else None
+        for a in attrs or []:
+            for spec in getattr(a, "specs", None) or []:
+                n = getattr(spec, "name", None)
+                if n is not None:
+                    names.append(n.valueText)
+        return sorted(set(names))
 
     # -- signals -------------------------------------------------------------------
 
@@ -993,11 +329,45 @@ class Describer:
         return {"file": dsrc["file"], "start": dsrc["start"], "end": dsrc["end"],
                 "stmt_start": ssrc["start"], "stmt_end": ssrc["end"], "count": count}
 
+    def attributes_of(self, sym):
+        """Names of the attributes on a signal's declaration (`(* keep *)`); an attribute
+        set to a constant 0 (`(* keep = 0 *)`) is left out."""
+        names = set()
+        for a in self.comp.getAttributes(sym):
+            v = a.value.value
+            if isinstance(v, pyslang.SVInt) and not v.hasUnknown and int(v.toString(_DEC, False)) == 0:
+                continue
+            names.add(a.name)
+        return sorted(names)
+
+    def shape(self, t):
+        """(type index, width, signed, msb, lsb, vector, packed) of a declared type."""
+        ti = self.types.of(t)
+        e = self.types.entries[ti]
+        w, s = e["width"], e["signed"]
+        k = e["kind"]
+        if k == "other":
+            return ti, w, False, w - 1, 0, True, False
+        if k == "vector":
+            return ti, w, s, e["msb"], e["lsb"], True, True
+        if k == "logic":
+            return ti, 1, s, 0, 0, False, True
+        if k == "enum" and self.types.entries[e["base"]]["kind"] == "logic":
+            return ti, 1, s, 0, 0, False, True
+        if k == "enum" and self.types.entries[e["base"]]["kind"] == "vector":
+            b = self.types.entries[e["base"]]
+            return ti, w, s, b["msb"], b["lsb"], True, True
+        return ti, w, s, w - 1, 0, True, True
+
     def signal_entry(self, sym, is_port):
-        w, s, msb, lsb, vector, packed = type_shape(sym.type)
-        e = {"name": sym.name, "kind": "variable" if sym.kind == SK.Variable else "net",
+        ti, w, s, msb, lsb, vector, packed = self.shape(sym.type)
+        e = {"name": sym.name, "id": self.tables.symbols[sym.name], "kind":
+             "variable" if sym.kind == SK.Variable else "net", "type": ti,
              "width": w, "signed": s, "msb": msb, "lsb": lsb, "port": is_port, "vector": vector,
              "src": self.symbol_src(sym), "decl": self.decl_of(sym)}
+        attrs = self.attributes_of(sym)
+        if attrs:
+            e["attributes"] = attrs
         if not packed:
             e["packed"] = False
         return e
@@ -1008,7 +378,7 @@ class Describer:
             t = internal.type
         else:
             t = p.type
-        w, s, msb, lsb, vector, packed = type_shape(t)
+        ti, w, s, msb, lsb, vector, packed = self.shape(t)
         syn = p.syntax
         if syn is not None and syn.kind == pyslang.syntax.SyntaxKind.Declarator:
             src = self.src.range_src(syn.name.range)[0]
@@ -1016,8 +386,8 @@ class Describer:
             src = self.node_src(syn)
         else:
             src = self.symbol_src(p)
-        e = {"name": p.name, "direction": _DIRECTION.get(p.direction, "inout"), "width": w, "signed": s,
-             "msb": msb, "lsb": lsb,
+        e = {"name": p.name, "direction": _DIRECTION.get(p.direction, "inout"), "type": ti,
+             "width": w, "signed": s, "msb": msb, "lsb": lsb,
              "kind": "variable" if internal is not None and internal.kind == SK.Variable else "net",
              "src": src}
         if not packed:
@@ -1026,28 +396,93 @@ class Describer:
 
     # -- reads and writes of kept code ------------------------------------------
 
+    def static_bits(self, x):
+        """(name, lo, hi) of the bits a select chain names, offsets from the signal's LSB;
+        (name, None, None) when they are not known statically; None for no module signal."""
+        k = x.kind
+        if k in (EK.NamedValue, EK.HierarchicalValue):
+            n = self.sig.get(x.symbol)
+            if n is None:
+                return None
+            t = x.type
+            if not t.isIntegral:
+                return n, None, None
+            return n, 0, t.bitWidth - 1
+        if k == EK.Conversion:
+            return self.static_bits(x.operand)
+        if k not in (EK.ElementSelect, EK.RangeSelect, EK.MemberAccess):
+            return None
+        inner = self.static_bits(x.value)
+        if inner is None or inner[1] is None:
+            return inner
+        name, plo, phi = inner
+        vt = x.value.type
+        t = x.type
+        if not vt.isIntegral or not t.isIntegral:
+            return name, None, None
+        w = t.bitWidth
+        if k == EK.MemberAccess:
+            lo = plo + x.member.bitOffset
+        else:
+            ct = vt.canonicalType
+            if ct.kind == SK.PackedArrayType:
+                msb, lsb = ct.range.left, ct.range.right
+            else:
+                msb, lsb = ct.bitWidth - 1, 0
+            if k == EK.ElementSelect:
+                i = self.const_int(x.selector)
+                if i is None:
+                    return name, None, None
+                lo = plo + dim_offset(i, msb, lsb) * w
+            else:
+                sk = x.selectionKind
+                if sk == ast.RangeSelectionKind.Simple:
+                    left, right = self.const_int(x.left), self.const_int(x.right)
+                else:
+                    b, n = self.const_int(x.left), self.const_int(x.right)
+                    if b is None or n is None:
+                        return name, None, None
+                    lo_i, hi_i = (b, b + n - 1) if sk == ast.RangeSelectionKind.IndexedUp else (b - n + 1, b)
+                    left, right = (hi_i, lo_i) if msb >= lsb else (lo_i, hi_i)
+                if left is None or right is None:
+                    return name, None, None
+                a, c = dim_offset(left, msb, lsb), dim_offset(right, msb, lsb)
+                count = abs(a - c) + 1
+                lo = plo + min(a, c) * (w // count if count else 1)
+        hi = lo + w - 1
+        if lo < plo or hi > phi:
+            return name, None, None
+        return name, lo, hi
+
     def collect(self, node, reads, writes):
-        """Module signals `node` (symbol, statement or expression) reads and writes."""
+        """Module signals `node` (symbol, statement or expression) reads and writes.
+        `writes` maps a name to a list of (lo, hi) bit ranges, or None for the whole signal."""
         refs = Counter()
         pure = Counter()
         sig = self.sig
 
-        def bases(x, out):
+        def written(x, compound):
             k = x.kind
-            if k in (EK.NamedValue, EK.HierarchicalValue):
-                n = sig.get(x.symbol)
-                if n is not None:
-                    out.append(n)
-            elif k in (EK.ElementSelect, EK.RangeSelect, EK.MemberAccess):
-                bases(x.value, out)
-            elif k in (EK.Concatenation, EK.SimpleAssignmentPattern):
+            if k in (EK.Concatenation, EK.SimpleAssignmentPattern):
                 for o in x.operands if k == EK.Concatenation else x.elements:
-                    bases(o, out)
-            elif k == EK.Streaming:
+                    written(o, compound)
+                return
+            if k == EK.Streaming:
                 for st in x.streams:
-                    bases(st.operand, out)
-            elif k == EK.Conversion:
-                bases(x.operand, out)
+                    written(st.operand, compound)
+                return
+            b = self.static_bits(x)
+            if b is None:
+                return
+            name, lo, hi = b
+            if lo is None:
+                writes[name] = None
+            elif name not in writes:
+                writes[name] = [(lo, hi)]
+            elif writes[name] is not None:
+                writes[name].append((lo, hi))
+            if not compound:
+                pure[name] += 1
 
         def cb(n):
             if isinstance(n, ast.ValueExpressionBase):
@@ -1055,29 +490,26 @@ class Describer:
                 if name is not None:
                     refs[name] += 1
             elif isinstance(n, ast.AssignmentExpression):
-                out = []
-                bases(n.left, out)
-                for b in out:
-                    writes.add(b)
-                    if not n.isCompound:
-                        pure[b] += 1
+                written(n.left, n.isCompound)
             elif isinstance(n, ast.UnaryExpression):
                 if n.op in _INCDEC:
-                    out = []
-                    bases(n.operand, out)
-                    writes.update(out)
+                    written(n.operand, True)
             elif isinstance(n, ast.CallExpression):
                 if not n.isSystemCall:
                     sub = n.subroutine
                     if isinstance(sub, ast.SubroutineSymbol):
                         r, w = self.subroutine_refs(sub)
                         reads.update(r)
-                        writes.update(w)
+                        for name in w:
+                            writes[name] = None
             elif isinstance(n, ast.InstanceSymbol):
                 self.instance_refs(n, reads, writes)
                 return ast.VisitAction.Skip
-            elif isinstance(n, (ast.SubroutineSymbol,)):
+            elif isinstance(n, ast.SubroutineSymbol):
                 return ast.VisitAction.Skip
+            elif isinstance(n, ast.GenerateBlockSymbol):
+                if n.isUninstantiated:
+                    return ast.VisitAction.Skip   # an inactive branch drives nothing
             return None
 
         node.visit(cb)
@@ -1086,12 +518,11 @@ class Describer:
                 reads.add(name)
 
     def subroutine_refs(self, sub):
-        key = sub
-        got = self._sub_refs.get(key)
+        got = self._sub_refs.get(sub)
         if got is not None:
             return got
-        r, w = set(), set()
-        self._sub_refs[key] = (r, w)     # recursion guard
+        r, w = set(), {}
+        self._sub_refs[sub] = (r, w)     # recursion guard
         body = getattr(sub, "body", None)
         if body is not None:
             self.collect(body, r, w)
@@ -1105,23 +536,109 @@ class Describer:
                 continue
             d = port.direction
             if d in (ast.ArgumentDirection.InOut, ast.ArgumentDirection.Ref):
-                r, w = set(), set()
+                r, w = set(), {}
                 self.collect(e, r, w)
-                reads.update(r | w)
-                writes.update(r | w)
+                for name in r | set(w):
+                    reads.add(name)
+                    writes[name] = None
+            elif d == ast.ArgumentDirection.Out:
+                x = e.left if e.kind == EK.Assignment else e
+                r, w = set(), {}
+                self.collect(x, r, w)
+                reads.update(r - self.target_bases(x))
+                b = self.static_bits(x)
+                if b is not None:
+                    name, lo, hi = b
+                    if lo is None:
+                        writes[name] = None
+                    elif writes.get(name, []) is not None:
+                        writes.setdefault(name, []).append((lo, hi))
+                else:
+                    for name in self.names_in(x):
+                        writes[name] = None
             else:
                 self.collect(e, reads, writes)
 
-    def kept_member(self, what, reason, src, collect_from, extra_writes=()):
-        reads, writes = set(), set()
+    def target_bases(self, x):
+        """Names of the signals a target expression assigns (not those its indices read)."""
+        k = x.kind
+        if k in (EK.NamedValue, EK.HierarchicalValue):
+            n = self.sig.get(x.symbol)
+            return {n} if n is not None else set()
+        if k in (EK.ElementSelect, EK.RangeSelect, EK.MemberAccess, EK.Conversion):
+            return self.target_bases(x.operand if k == EK.Conversion else x.value)
+        if k == EK.Concatenation:
+            out = set()
+            for o in x.operands:
+                out |= self.target_bases(o)
+            return out
+        return set()
+
+    def names_in(self, x):
+        out = set()
+
+        def cb(n):
+            if isinstance(n, ast.ValueExpressionBase):
+                name = self.sig.get(n.symbol)
+                if name is not None:
+                    out.add(name)
+        x.visit(cb)
+        return out
+
+    def mentions(self, syn):
+        """Module signal names written anywhere in a member's syntax, inactive generate
+        branches included (a declaration they name must stay)."""
+        out = set()
+        names = self.sig_by_name
+
+        def cb(n):
+            if isinstance(n, pyslang.parsing.Token):
+                if n.kind == pyslang.parsing.TokenKind.Identifier:
+                    v = n.valueText
+                    if v in names:
+                        out.add(v)
+            return None
+        if syn is not None:
+            syn.visit(cb)
+        return out
+
+    def kept_member(self, what, reason, src, collect_from, extra_writes=(), syn=None):
+        reads, writes = set(), {}
         for node in collect_from:
             if node is not None:
                 self.collect(node, reads, writes)
-        writes.update(extra_writes)
-        return {"kind": "kept", "src": src, "what": what, "reason": reason,
-                "reads": sorted(reads), "writes": sorted(writes)}
+        for n in extra_writes:
+            writes[n] = None
+        return self.kept_entry(what, reason, src, reads, writes, syn)
+
+    def kept_entry(self, what, reason, src, reads, writes, syn):
+        m = {"kind": "kept", "src": src, "what": what, "reason": reason,
+             "reads": sorted(reads), "writes": sorted(writes)}
+        ranges = {}
+        for name, rs in writes.items():
+            if rs is None:
+                continue
+            w = self.sig_by_name[name].type.bitWidth if self.sig_by_name[name].type.isIntegral else 0
+            merged = _merge_ranges(rs)
+            if merged != [[0, w - 1]]:
+                ranges[name] = merged
+        if ranges:
+            m["write_ranges"] = ranges
+        m["mentions"] = sorted(self.mentions(syn) | reads | set(writes))
+        return m
 
     # -- members -------------------------------------------------------------------
+
+    def start_conv(self, syn):
+        c = Conv(self)
+        rng = syn.sourceRange
+        buf = rng.start.buffer
+        c.buf = buf
+        self.src.note_file(buf)
+        # Without a backquote in its text the member uses no macro: every node's
+        # text is in the member's own file (the per-node check is then skipped).
+        c.macros = b"`" in self.src.data(buf)[rng.start.offset:rng.end.offset]
+        return c
 
     def assign_member(self, sym):
         syn = self.member_syntax(sym)
@@ -1133,50 +650,49 @@ class Describer:
                 why = "it has a drive strength"
         a = sym.assignment
         if why is None:
+            c = self.start_conv(syn)
             try:
-                c = Conv(self)
                 lhs = c.target(a.left)
                 rhs = c.expr(a.right)
                 return {"kind": "assign", "src": src, "lhs": lhs, "rhs": rhs,
-                        "reads": sorted(c.reads), "writes": sorted(c.writes)}
+                        "reads": sorted(c.reads), "writes": sorted(c.writes),
+                        "comments": self.comments(syn)}
             except Unsupported as u:
+                c.drop()
                 why = "it " + str(u)
-            except Exception as x:   # a construct this reader does not know: keep it
-                why = "it uses a construct the reader does not handle (%s: %s)" % (type(x).__name__, x)
-        return self.kept_member("assign", why, src, [sym])
+        return self.kept_member("assign", why, src, [sym], syn=syn)
 
     def net_decl_member(self, net):
         syn = net.syntax
         init = net.initializer
         src, clean = self.src.range_src(pyslang.SourceRange(syn.name.range.end, syn.sourceRange.end))
         why = None
+        stmt = syn.parent
         if not clean:
             why = "it is written through a macro"
         elif net.delay is not None:
             why = "it has a delay"
         else:
-            stmt = syn.parent
             attrs = getattr(stmt, "attributes", None) if stmt is not None else None
             if attrs is not None and len(attrs) > 0:
                 why = "it carries an attribute (* ... *)"
         name = self.sig.get(net)
         if why is None:
+            c = self.start_conv(syn)
             try:
-                c = Conv(self)
-                w, s, _, _, _, packed = type_shape(net.type)
-                if not packed:
+                ti = self.types.of(net.type)
+                if self.types.entries[ti]["kind"] == "other":
                     raise Unsupported("initializes '%s', which is not a packed vector" % net.name)
                 c.writes.add(name)
-                lhs = {"op": "ref", "width": w, "signed": s, "name": name}
+                idx = self.tables.symbols[name]
+                lhs = c.leaf(("r", ti, idx), ["ref", ti] + list(c.span(syn.name)) + [idx])
                 rhs = c.expr(init)
-                m = {"kind": "assign", "src": src, "net_decl": True, "lhs": lhs, "rhs": rhs,
-                     "reads": sorted(c.reads), "writes": sorted(c.writes)}
-                return m
+                return {"kind": "assign", "src": src, "net_decl": True, "lhs": lhs, "rhs": rhs,
+                        "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.comments(stmt)}
             except Unsupported as u:
+                c.drop()
                 why = "it " + str(u)
-            except Exception as x:   # a construct this reader does not know: keep it
-                why = "it uses a construct the reader does not handle (%s: %s)" % (type(x).__name__, x)
-        m = self.kept_member("assign", why, src, [init], extra_writes=[name])
+        m = self.kept_member("assign", why, src, [init], extra_writes=[name], syn=syn)
         m["net_decl"] = True
         return m
 
@@ -1207,27 +723,27 @@ class Describer:
         else:
             what, why = "final", "it is a final block"
         if style is not None and why is None:
+            c = self.start_conv(syn)
             try:
-                c = Conv(self)
                 b = c.stmt_or_empty(stmt)
-                if b.get("stmt") != "block":
-                    b = {"stmt": "block", "items": [b]}
-                bad = c.localized & c.outside
+                if c.st[b][0] != "block":
+                    b = c.add_stmt(["block"] + c.sspan(stmt) + [[b]])
+                bad = set(c.localized) & c.outside
                 if bad:
                     raise Unsupported("uses '%s' both as a for loop variable and outside the loop"
                                       % sorted(bad)[0])
                 m = {"kind": "comb", "src": src, "style": style, "locals": c.local_list, "body": b,
-                     "reads": sorted(c.reads), "writes": sorted(c.writes)}
+                     "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.comments(syn)}
                 if c.localized:
-                    m["_localized"] = c.localized
+                    m["_localized"] = set(c.localized)
                     m["_symbol"] = sym
                     m["_what"] = what
+                    m["_syntax"] = syn
                 return m
             except Unsupported as u:
+                c.drop()
                 why = "it " + str(u)
-            except Exception as x:   # a construct this reader does not know: keep it
-                why = "it uses a construct the reader does not handle (%s: %s)" % (type(x).__name__, x)
-        return self.kept_member(what, why, src, [sym])
+        return self.kept_member(what, why, src, [sym], syn=syn)
 
     def other_member(self, sym):
         k = sym.kind
@@ -1250,26 +766,29 @@ class Describer:
             what, why = "elaboration_task", "it is an elaboration system task"
         else:
             what, why = k.name.lower(), "it is a %s" % k.name
-        reads, writes = set(), set()
+        reads, writes = set(), {}
         if k == SK.Instance:
             self.instance_refs(sym, reads, writes)
+        elif k == SK.GenerateBlock and sym.isUninstantiated:
+            pass    # an inactive generate branch reads and drives nothing
         else:
             self.collect(sym, reads, writes)
         if k == SK.NetAlias:
-            reads |= writes | reads
-            writes |= reads
-        return {"kind": "kept", "src": src, "what": what, "reason": why,
-                "reads": sorted(reads), "writes": sorted(writes)}
+            both = reads | set(writes)
+            reads = set(both)
+            writes = {n: None for n in both}
+        return self.kept_entry(what, why, src, reads, writes, syn)
 
     # -- the whole module -------------------------------------------------------
 
     def run(self):
         body = self.body
+        self.index_module_tokens()
         port_internal = set()
-        ports = []
+        port_syms = []
         for p in body.portList:
             if p.kind in (SK.Port, SK.MultiPort):
-                ports.append(self.port_entry(p))
+                port_syms.append(p)
                 if p.kind == SK.Port and p.internalSymbol is not None:
                     port_internal.add(p.internalSymbol)
         signal_syms = []
@@ -1282,9 +801,11 @@ class Describer:
                 signal_syms.append(sym)
                 self.sig[sym] = sym.name
                 self.sig_by_name[sym.name] = sym
-                if k == SK.Variable and sym not in port_internal and type_shape(sym.type)[5]:
+                self.tables.symbols[sym.name] = self.tables.new_symbol()
+                if k == SK.Variable and sym not in port_internal and self.shape(sym.type)[6]:
                     self.loop_candidates.add(sym.name)
             members_syms.append(sym)
+        ports = [self.port_entry(p) for p in port_syms]
         signals = [self.signal_entry(s, s in port_internal) for s in signal_syms]
 
         members = []
@@ -1310,9 +831,15 @@ class Describer:
 
         msyn = self.top.definition.syntax
         msrc = self.node_src(msyn) if msyn is not None else self.symbol_src(self.top)
+        files = [{"path": n, "line_starts": ls} for n, ls in sorted(self.src.lines.items())]
+        # Key order matters to no reader, but the big tables come last so that a
+        # streaming reader has the small ones in hand first.
         return {"format": FORMAT, "version": VERSION,
                 "module": {"name": self.top.name, "src": msrc},
-                "ports": ports, "signals": signals, "members": members}
+                "files": files,
+                "types": self.types.entries,
+                "ports": ports, "signals": signals, "members": members,
+                "exprs": self.tables.exprs, "stmts": self.tables.stmts}
 
     def finish_loop_locals(self, members):
         """A module variable used as a comb block's loop variable stays local to that
@@ -1325,13 +852,14 @@ class Describer:
             loc = m.pop("_localized", None)
             sym = m.pop("_symbol", None)
             what = m.pop("_what", None)
+            syn = m.pop("_syntax", None)
             if not loc:
                 continue
             shared = sorted(n for n in loc if users[n] > 0)
             if shared:
                 members[i] = self.kept_member(
                     what, "it uses '%s' as a for loop variable, and other code in the module uses it too"
-                    % shared[0], m["src"], [sym])
+                    % shared[0], m["src"], [sym], syn=syn)
 
     @staticmethod
     def merge_statements(members):
@@ -1355,20 +883,44 @@ class Describer:
                 if key in seen:
                     continue
                 seen.add(key)
-                reads, writes = set(), set()
+                reads, writes, mentions = set(), set(), set()
+                ranges = {}
+                whole = set()
                 for g in group:
                     reads.update(g["reads"])
                     writes.update(g["writes"])
-                m = dict(m, reads=sorted(reads), writes=sorted(writes))
+                    mentions.update(g.get("mentions", []))
+                    for n in g["writes"]:
+                        if n in g.get("write_ranges", {}):
+                            ranges.setdefault(n, []).extend(g["write_ranges"][n])
+                        else:
+                            whole.add(n)
+                m = dict(m, reads=sorted(reads), writes=sorted(writes), mentions=sorted(mentions))
+                wr = {n: _merge_ranges(r) for n, r in ranges.items() if n not in whole}
+                if wr:
+                    m["write_ranges"] = wr
+                else:
+                    m.pop("write_ranges", None)
                 out.append(m)
                 continue
             kept = [g for g in group if g["kind"] == "kept"]
             if kept and m["kind"] != "kept":
                 m = {"kind": "kept", "src": m["src"], "what": "assign",
                      "reason": "it shares its statement with an assignment that is kept (%s)"
-                     % kept[0]["reason"], "reads": m["reads"], "writes": m["writes"]}
+                     % kept[0]["reason"], "reads": m["reads"], "writes": m["writes"],
+                     "mentions": sorted(set(m["reads"]) | set(m["writes"]))}
             out.append(m)
         return out
+
+
+def _merge_ranges(rs):
+    out = []
+    for lo, hi in sorted(rs):
+        if out and lo <= out[-1][1] + 1:
+            out[-1][1] = max(out[-1][1], hi)
+        else:
+            out.append([lo, hi])
+    return out
 
 
 # realpath -> the path as given on the command line (set by kerf_read.py)

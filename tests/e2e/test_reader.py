@@ -49,10 +49,92 @@ def run_reader(*args, cwd=None, env=None):
     return p.returncode, p.stdout.decode("utf-8", "replace"), p.stderr.decode("utf-8", "replace")
 
 
-def read(*args, cwd=None):
+def read(*args, cwd=None, raw=False):
+    """The reader's description; unless `raw`, each member's expressions and statements
+    are also expanded from the node tables into nested dicts (see `expr_tree`)."""
     rc, out, err = run_reader(*args, cwd=cwd)
     assert rc == 0, "reader exit %d for %s:\n%s" % (rc, args, err)
-    return json.loads(out)
+    d = json.loads(out)
+    return d if raw else expanded(d)
+
+
+# ---------------------------------------------------------------------------
+# the node tables as trees (docs/reader-format.md, "Expressions", "Statements")
+
+def symbol_names(d):
+    names = {s["id"]: s["name"] for s in d["signals"]}
+    for m in d["members"]:
+        for loc in m.get("locals", []):
+            names[loc["id"]] = loc["name"]
+    return names
+
+
+def expr_tree(d, i, names):
+    """Node i of `exprs` as a nested dict: {"op", "width", "signed", fields...}."""
+    n = d["exprs"][i]
+    t = d["types"][n[1]]
+    op = n[0]
+    r = {"op": op, "width": t["width"], "signed": t["signed"]}
+    sub = lambda k: expr_tree(d, k, names)  # noqa: E731
+    if op == "const":
+        r["bits"] = n[4]
+    elif op == "ref":
+        r["name"] = names[n[4]]
+    elif op == "unary":
+        r.update(operator=n[4], operand=sub(n[5]))
+    elif op == "binary":
+        r.update(operator=n[4], lhs=sub(n[5]), rhs=sub(n[6]))
+    elif op == "cond":
+        r.update({"cond": sub(n[4]), "then": sub(n[5]), "else": sub(n[6])})
+    elif op == "concat":
+        r["parts"] = [sub(k) for k in n[4]]
+    elif op == "replicate":
+        r.update(count=n[4], part=sub(n[5]))
+    elif op == "index":
+        r.update(value=sub(n[4]), index=sub(n[5]), msb=n[6], lsb=n[7])
+    elif op == "range":
+        r.update(value=sub(n[4]), left=n[5], right=n[6], msb=n[7], lsb=n[8])
+    elif op == "indexed":
+        r.update(value=sub(n[4]), base=sub(n[5]), dir=n[6], msb=n[7], lsb=n[8])
+    elif op == "convert":
+        r["operand"] = sub(n[4])
+    else:
+        raise AssertionError("unknown node %r" % (n,))
+    return r
+
+
+def stmt_tree(d, i, names):
+    s = d["stmts"][i]
+    k = s[0]
+    x = lambda j: expr_tree(d, j, names)  # noqa: E731
+    st = lambda j: None if j < 0 else stmt_tree(d, j, names)  # noqa: E731
+    if k == "block":
+        return {"stmt": "block", "items": [st(j) for j in s[3]]}
+    if k == "assign":
+        return {"stmt": "assign", "lhs": x(s[3]), "rhs": x(s[4])}
+    if k == "if":
+        return {"stmt": "if", "cond": x(s[3]), "then": st(s[4]), "else": st(s[5]), "check": s[6]}
+    if k == "case":
+        return {"stmt": "case", "kind": s[3], "check": s[4], "expr": x(s[5]),
+                "items": [{"exprs": [x(j) for j in it[0]], "body": st(it[1])} for it in s[6]],
+                "default": st(s[7]), "attributes": s[8]}
+    if k == "for":
+        return {"stmt": "for", "init": [{"name": names[v], "value": x(e)} for v, e in s[3]],
+                "cond": x(s[4]), "step": [st(j) for j in s[5]], "body": st(s[6])}
+    if k == "empty":
+        return {"stmt": "empty"}
+    raise AssertionError("unknown statement %r" % (s,))
+
+
+def expanded(d):
+    names = symbol_names(d)
+    for m in d["members"]:
+        if m["kind"] == "assign":
+            m["lhs"] = expr_tree(d, m["lhs"], names)
+            m["rhs"] = expr_tree(d, m["rhs"], names)
+        elif m["kind"] == "comb":
+            m["body"] = stmt_tree(d, m["body"], names)
+    return d
 
 
 def text_of(src, base=None):
@@ -93,7 +175,7 @@ def line_col(path, offset):
 def statement_byte_ranges():
     d = read("byte_ranges.sv")
     eq(d["format"], "kerf-module", "format")
-    eq(d["version"], 1, "version")
+    eq(d["version"], 2, "version")
     eq(d["module"]["name"], "status_regs", "module name")
     eq(text_of(member_writing(d, "both")["src"]), "assign both = rx_data & tx_data;", "assign")
     both_src = [m for m in d["members"] if "sum" in m["writes"] or "parity" in m["writes"]]
@@ -373,6 +455,140 @@ def kept_members_reads_writes():
     # -D changes which branch is read; the member stays kept either way
     d2 = read("-D", "TIMER_INVERT", "kept.sv")
     eq(member_writing(d2, "dir_y")["kind"], "kept", "with -D")
+
+
+# ---------------------------------------------------------------------------
+# description format 2: node tables, declared types, drivers, comments
+
+@test
+def node_tables_are_children_first():
+    # docs/reader-format.md: every operand, part and child names an earlier node, every
+    # node names a type, and symbol ids are unique.
+    for f in ("semantics.sv", "pkg_struct.sv", "loops.sv", "case_wild.sv", "widths.sv", "drivers.sv"):
+        d = read(f, raw=True)
+        nt = len(d["types"])
+        ids = [s["id"] for s in d["signals"]] + [l["id"] for m in d["members"] for l in m.get("locals", [])]
+        eq(len(ids), len(set(ids)), "%s: unique symbol ids" % f)
+        for i, n in enumerate(d["exprs"]):
+            assert 0 <= n[1] < nt, "%s: node %d type" % (f, i)
+            kids = {"unary": n[5:6], "binary": n[5:7], "cond": n[4:7], "concat": n[4:5] and n[4],
+                    "replicate": n[5:6], "index": n[4:6], "range": n[4:5], "indexed": n[4:6],
+                    "convert": n[4:5]}.get(n[0], [])
+            if n[0] == "concat":
+                kids = n[4]
+            for k in kids:
+                assert 0 <= k < i, "%s: node %d names %d" % (f, i, k)
+        for i, st in enumerate(d["stmts"]):
+            kids = []
+            if st[0] == "block":
+                kids = st[3]
+            elif st[0] == "if":
+                kids = [x for x in st[4:6] if x >= 0]
+            elif st[0] == "for":
+                kids = st[5] + [st[6]]
+            elif st[0] == "case":
+                kids = [it[1] for it in st[6]] + ([st[7]] if st[7] >= 0 else [])
+            for k in kids:
+                assert 0 <= k < i, "%s: statement %d names %d" % (f, i, k)
+        for t in d["types"]:
+            for k in ("element", "base"):
+                if k in t:
+                    assert t[k] < d["types"].index(t), "%s: type names a later type" % f
+
+
+def type_of(d, name):
+    return d["types"][signal(d, name)["type"]]
+
+
+@test
+def declared_types():
+    d = read("pkg_struct.sv")
+    req = type_of(d, "req")
+    eq((req["kind"], req["width"], req["name"], req["ref"]), ("struct", 19, "req_t", "req_t"),
+       "struct type, visible by its name through the wildcard import")
+    fields = {f["name"]: (f["offset"], d["types"][f["type"]]) for f in req["fields"]}
+    eq(sorted(fields), ["addr", "data", "dst"], "fields")
+    eq(fields["dst"][0], 16, "dst at bits 18:16")
+    eq(fields["addr"][0], 8, "addr at bits 15:8")
+    dst = fields["dst"][1]
+    eq((dst["kind"], dst["name"], dst["width"]), ("enum", "dst_t", 3), "enum field")
+    eq([(v["name"], v["bits"], v["ref"]) for v in dst["values"]],
+       [("DST_NONE", "000", "DST_NONE"), ("DST_MEM", "001", "DST_MEM"), ("DST_IO", "100", "DST_IO")],
+       "enum values")
+    eq(d["types"][dst["base"]]["kind"], "vector", "enum base")
+    eq(signal(d, "fwd")["type"], signal(d, "req")["type"], "one entry per type")
+    lanes = type_of(d, "lanes")
+    eq((lanes["kind"], lanes["msb"], lanes["lsb"]), ("array", 3, 0), "2-D packed array: outer dimension")
+    el = d["types"][lanes["element"]]
+    eq((el["kind"], el["msb"], el["lsb"], el["width"]), ("vector", 1, 0, 2), "2-D packed array: element")
+    asc = type_of(d, "asc")
+    eq((asc["kind"], asc["msb"], asc["lsb"]), ("vector", 0, 3), "ascending range")
+    eq(type_of(d, "to_io")["kind"], "logic", "a single bit")
+    d = read("drivers.sv")
+    desc = type_of(d, "desc")
+    eq((desc["kind"], desc["name"]), ("struct", "desc_t"), "$unit typedef")
+    eq([(f["name"], f["offset"]) for f in desc["fields"]], [("tag", 9), ("len", 1), ("valid", 0)], "offsets")
+
+
+@test
+def kept_code_writes_bit_ranges():
+    d = read("drivers.sv")
+    # Offsets from the struct's LSB (IEEE 1800-2017 7.2.1: the first member is the most significant).
+    by_range = {}
+    for m in d["members"]:
+        if m["kind"] == "kept" and m["what"] == "always_ff":
+            eq(m["writes"], ["desc"], "always_ff writes desc")
+            by_range[tuple(map(tuple, m["write_ranges"]["desc"]))] = text_of(m["src"])
+    eq(sorted(by_range), [((0, 0),), ((1, 8),), ((9, 12),)], "valid, len and tag")
+    g = [m for m in d["members"] if m.get("what") == "generate"]
+    eq(len(g), 1, "one member for both branches of the if generate")
+    g = g[0]
+    eq(g["writes"], ["lane"], "only the active branch drives")
+    eq(g["write_ranges"], {"lane": [[0, 1]]}, "lane[1:0] in the narrow branch")
+    assert "spare" in g["mentions"] and "spare" not in g["writes"], g["mentions"]
+
+
+@test
+def comments_attached_to_members():
+    d = read("comments.sv")
+    data = open(os.path.join(INPUTS, "comments.sv"), "rb").read()
+
+    def texts(m, k):
+        return [data[a:b].decode() for a, b in m["comments"][k]]
+    m = member_writing(d, "wrap")
+    eq(texts(m, "above"), ["// wrap when the counter is all ones", "// (two lines directly above)"], "above")
+    eq(texts(m, "inside"), [], "inside")
+    eq(texts(m, "trailing"), ["// trailing on wrap"], "trailing")
+    m = member_writing(d, "half")
+    eq(texts(m, "above"), [], "the previous line's trailing comment is not above the next statement")
+    eq(texts(m, "inside"), ["/* the top bit */"], "inside")
+    eq(texts(m, "trailing"), ["/* trailing block comment */"], "trailing block comment")
+    m = member_writing(d, "idle")
+    eq(texts(m, "inside"), ["// inside the block", "// after the statement, inside"], "inside a block")
+    eq(texts(m, "trailing"), [], "nothing after end")
+
+
+@test
+def keep_attribute_on_declarations():
+    d = read("keep.sv")
+    eq(signal(d, "tap").get("attributes"), ["keep"], "(* keep *)")
+    eq(signal(d, "plain").get("attributes"), None, "no attribute")
+
+
+@test
+def reader_bugs_are_not_hidden():
+    # A failure inside the conversion that is not an explicit "unsupported" is a bug of
+    # the reader: exit 4 with the traceback, no description, never a quietly kept statement.
+    code = ("import sys; sys.path.insert(0, %r); import kerf_convert\n"
+            "def boom(self, e): raise RuntimeError('injected reader bug')\n"
+            "kerf_convert.Conv.x_binary = boom\n"
+            "kerf_convert._EXPR_BY_ID = {id(k): (boom if h.__name__ == 'x_binary' else h) "
+            "for k, h in kerf_convert._EXPR.items()}\n"
+            "import kerf_read; sys.exit(kerf_read.main(['widths.sv']))" % os.path.dirname(READER))
+    p = subprocess.run([sys.executable, "-c", code], cwd=INPUTS, stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+    eq(p.returncode, 4, "exit code")
+    eq(p.stdout, b"", "no description")
+    assert b"injected reader bug" in p.stderr, p.stderr.decode()[-2000:]
 
 
 # ---------------------------------------------------------------------------

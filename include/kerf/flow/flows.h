@@ -10,6 +10,7 @@
 
 #include <optional>
 #include <string>
+#include <vector>
 
 namespace kerf::flow {
 
@@ -32,6 +33,7 @@ struct RestructureOptions {
     std::string minGain = "1";       ///< --min-gain: gates ("2") or percent ("5%") a group must save
     bool diff = false;               ///< print a unified diff instead of the file
     bool dissolveInternal = false;   ///< internal signals may dissolve into the logic (their declarations go)
+    std::vector<std::string> keep;   ///< --keep NAME: signals never restructured through (cut points)
 };
 
 /// Run `kerf restructure`; returns the process exit code. Messages go to stderr.

@@ -1,15 +1,18 @@
-// kerf/frontend/lower.h — from the module description to the Boolean network.
+// kerf/frontend/lower.h — from the module's typed IR to the Boolean network.
 //
 // Continuous assignments and combinational blocks become network logic;
 // their statements are executed symbolically (blocking assignments update
 // an environment of bit values; if/case merge branches with multiplexers or,
 // for cases with mutually exclusive items, a parallel sum of products).
-// Signals crossing to kept code become network inputs and outputs.
+// Signals crossing to kept code become network inputs and outputs; so do
+// internal signals that restructured code drives (no declaration is lost)
+// unless `dissolveInternal` is set.
 #pragma once
 
 #include "kerf/frontend/module.h"
 #include "kerf/network/network.h"
 
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -44,17 +47,50 @@ struct LowerOptions {
     bool bitBlastArithmetic = false;
     /// Prefix of every generated name.
     std::string prefix = "kf_";
+    /// Let internal signals that only restructured code reads disappear into the
+    /// logic (their declarations are removed). Off by default: every declared
+    /// signal stays declared and driven. For flat netlists with thousands of wires.
+    bool dissolveInternal = false;
+    /// Internal signals that stay outputs even when dissolving (the proof reads
+    /// kerf's rewrite this way: the author's signals are compared, kerf's own wires are not).
+    std::vector<std::string> observe;
+    /// Signals never restructured through (besides those declared `(* keep *)`):
+    /// each is an output of the logic that drives it and an input of the logic that reads it.
+    std::vector<std::string> keep;
 };
+
+/// Where a network output goes.
+enum class OutputKind : std::uint8_t {
+    Port,          ///< a port of the module
+    Internal,      ///< an internal signal (declared in the module, not a port)
+    WordOperand,   ///< an operand vector of a word-level operation kerf generates
+};
+
+/// Per network output: what it drives and the member whose logic computes it.
+struct OutputSource {
+    OutputKind kind = OutputKind::Port;
+    int member = -1;   ///< member id (ModuleDesc::members), -1 when none
+};
+
+/// A statement left as written, with the reason, for the summary and the report.
+struct KeptStatement {
+    int member = -1;
+    SourceLoc loc;
+    std::string what;     ///< e.g. "always_ff", "assign"
+    std::string reason;   ///< a sentence starting with "it ..." or a short reason
+}; 
 
 /// The network together with everything the writer needs to put it back.
 struct Lowered {
     net::Network net;
     std::vector<BitRef> inputBits;     ///< per network input, in order
     std::vector<BitRef> outputBits;    ///< per network output, in order
+    std::vector<OutputSource> outputSources;   ///< per network output, in order
     std::vector<int> replaced;         ///< ids of members the network replaces
     std::vector<std::string> dissolved;///< internal signals whose declarations go
     std::vector<WordOp> wordOps;
     std::vector<std::string> notes;    ///< informational remarks for the user
+    std::vector<KeptStatement> kept;   ///< every member left as written, with its reason
     /// Don't-care conditions of `net`'s outputs, by output name (see the note
     /// in kerf/network/network.h); no outputs when the source assigns no x.
     net::Network dontCares;

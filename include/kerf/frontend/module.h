@@ -1,18 +1,21 @@
 // kerf/frontend/module.h — the module as the slang reader describes it.
 //
 // `readModule` runs the Python reader (src/reader/kerf_read.py, started by
-// kerf/io/reader.h) on the user's files and parses its JSON (docs/reader-format.md) into these
-// plain structures. Expression and statement trees stay as JSON: the
-// lowering walks them directly.
+// kerf/io/reader.h) on the user's files; `parseDescription` turns its description
+// (docs/reader-format.md) into these structures and the typed IR of
+// kerf/frontend/ir.h, validated once with located errors.
 #pragma once
 
 #include "kerf/diagnostics.h"
+#include "kerf/frontend/ir.h"
 
-#include <nlohmann/json.hpp>
+#include <nlohmann/json_fwd.hpp>
 
 #include <map>
 #include <optional>
 #include <string>
+#include <string_view>
+#include <utility>
 #include <vector>
 
 namespace kerf::frontend {
@@ -37,25 +40,38 @@ struct Declarator {
 
 enum class PortDir { None, Input, Output, Inout };
 
-/// A module-scope net or variable (ports included), flattened to one packed vector.
+/// A module-scope net or variable (ports included). `width`/`msb`/`lsb`
+/// describe it flattened to one packed vector; `type` is its declared type.
 struct Signal {
     std::string name;
     bool isVariable = false;   ///< reg/logic variable (vs. net)
     int width = 1;
     bool isSigned = false;
     int msb = 0, lsb = 0;
-    bool vector = false;       ///< declared with a range
+    bool vector = false;       ///< declared with a range (or of a multi-bit type)
     PortDir dir = PortDir::None;
     SourceRange src;
     std::optional<Declarator> decl;
+    TypeId type = kNoId;       ///< declared type (ModuleDesc::ir.types)
+    SymbolId symbol = kNoId;   ///< its symbol in the IR
+    bool packed = true;        ///< false for unpacked arrays, real, string, ...
+    std::vector<std::string> attributes;   ///< attribute names on the declaration, e.g. "keep"
 
     /// Declared index of bit `offset` (offset 0 = least significant).
     int indexOf(int offset) const { return msb >= lsb ? lsb + offset : lsb - offset; }
     /// Offset of declared index `index`, or -1 when out of range.
     int offsetOf(int index) const;
+    bool hasAttribute(std::string_view a) const;
 };
 
 enum class MemberKind { Assign, Comb, Kept };
+
+/// Byte ranges `[start, end)` in the member's file of the comments attached to it.
+struct MemberComments {
+    std::vector<std::pair<std::size_t, std::size_t>> above;     ///< comment lines directly above it
+    std::vector<std::pair<std::size_t, std::size_t>> inside;    ///< comments inside its text
+    std::vector<std::pair<std::size_t, std::size_t>> trailing;  ///< a comment after it on its last line
+};
 
 /// One module member: a continuous assignment, a combinational block or kept code.
 struct Member {
@@ -65,7 +81,18 @@ struct Member {
     std::vector<std::string> reads, writes;
     bool netDecl = false;      ///< `wire x = e;` initializer
     std::string what, reason;  ///< for kept members
-    nlohmann::json body;       ///< the member's JSON object (lhs/rhs or body/locals)
+    // Assign: target and value. Comb: body (a block) and its local variables.
+    ExprId lhs = kNoId, rhs = kNoId;
+    StmtId body = kNoId;
+    std::vector<SymbolId> locals;
+    std::string style;         ///< comb: "always_comb" or "always_star"
+    MemberComments comments;
+    /// Kept members: bits written, per signal, as inclusive offset ranges from the
+    /// least significant bit, where slang knows them statically. A written signal
+    /// without an entry is written as a whole.
+    std::map<std::string, std::vector<std::pair<int, int>>> writeRanges;
+    /// Kept members: every module signal their text names, inactive generate branches included.
+    std::vector<std::string> mentions;
 };
 
 /// The module as read.
@@ -75,6 +102,12 @@ struct ModuleDesc {
     std::vector<std::string> portOrder;
     std::map<std::string, Signal> signals;
     std::vector<Member> members;
+    Ir ir;
+
+    /// The signal of a symbol, or null for a block local.
+    const Signal* signalOf(SymbolId s) const;
+    /// Location of a byte range of a member's file (`start` kNoId: the member itself).
+    SourceLoc locate(const Member& m, std::uint32_t start) const;
 };
 
 /// What to read: the same options slang takes.
@@ -94,7 +127,11 @@ std::vector<std::string> readerArguments(const ReadOptions& opts);
 /// messages have already reached stderr when the reader fails).
 ModuleDesc readModule(const ReadOptions& opts);
 
-/// Parse a description already in memory (tests, and the reader's output).
+/// Parse a description from its text (the reader's output). A description
+/// that is not valid is kerf's own bug: kerf::Error with ExitCode::Internal.
+ModuleDesc parseDescription(std::string_view text);
+ModuleDesc parseDescription(const std::string& text);
+/// Parse a description already parsed as JSON (tests).
 ModuleDesc parseDescription(const nlohmann::json& j);
 
 /// Verilog text for a signal name: plain identifiers as they are, others escaped (`\name `).

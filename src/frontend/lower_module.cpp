@@ -1,0 +1,347 @@
+// lower_module.cpp — module assembly: which members are lowered, who drives
+// each bit, the order members are lowered in, and the network's outputs.
+//
+// Drivers are known per bit: restructured code drives the bits its targets
+// name, kept code the bit ranges the reader found (the whole signal where
+// they are not static). Members are lowered drivers first (a depth-first
+// order of the member dependency graph, iterative), so a long chain of
+// assignments never turns into a deep recursion; a member met again while it
+// is being lowered is a combinational loop. Every internal signal that
+// restructured code drives stays an output (its declaration stays), unless
+// `dissolveInternal` asks for the old behaviour.
+#include "lower_internal.h"
+
+#include <algorithm>
+#include <unordered_set>
+
+namespace kerf::frontend::detail {
+
+namespace {
+
+// On-demand lowering of members inside one dependency cycle of whole signals recurses;
+// beyond this depth kerf stops with a message instead of exhausting its stack.
+constexpr int kMaxMemberDepth = 20000;
+
+} // namespace
+
+Lowerer::Lowerer(const ModuleDesc& m, const LowerOptions& o) : m_(m), ir_(m.ir), opts_(o), b_(out_.net) {}
+
+SourceLoc Lowerer::here(std::uint32_t start) const {
+    if (!current_) return {};
+    return m_.locate(*current_, start);
+}
+
+std::string Lowerer::bitName(SymbolId s, int off) const {
+    const Signal* sig = m_.signalOf(s);
+    if (!sig) return fmt::format("{}[{}]", ir_.symbols[s].name, off);
+    return frontend::bitName(m_, BitRef{sig->name, off});
+}
+
+Literal Lowerer::inputBit(SymbolId s, int off) {
+    auto& v = inputLits_[s];
+    if (v.empty()) v.assign(static_cast<std::size_t>(std::max(ir_.symbols[s].width, 1)), kUnassigned);
+    if (off < 0 || off >= static_cast<int>(v.size())) return kFalse;
+    if (v[off] == kUnassigned) {
+        BitRef br{ir_.symbols[s].name, off};
+        v[off] = algebra::makeLiteral(out_.net.addInput(bitName(s, off)), false);
+        out_.inputBits.push_back(br);
+    }
+    return v[off];
+}
+
+void Lowerer::recordBit(SymbolId s, int off, Literal l) {
+    auto& v = value_[s];
+    int w = ir_.symbols[s].width;
+    if (v.empty()) v.assign(static_cast<std::size_t>(w), kUnassigned);
+    if (off < 0 || off >= w) return;
+    v[off] = l;
+    net::NodeId id = algebra::literalVar(l);
+    if (out_.net.isLogic(id) && out_.net.node(id).name.empty()) out_.net.node(id).name = bitName(s, off);
+}
+
+Literal Lowerer::signalBit(SymbolId s, int off) {
+    if (env_) {
+        auto it = env_->vars.find(s);
+        if (it != env_->vars.end() && off < static_cast<int>(it->second.size())) {
+            Literal l = it->second[off];
+            if (!isSentinel(l)) return l;
+            if (l != kExternal) {
+                const char* what = isLocal(s) ? "is read before it is assigned"
+                                              : "is read before this block assigns it (a combinational loop or a latch)";
+                fail(fmt::format("'{}' {}", ir_.symbols[s].name, what), current_->src.loc());
+            }
+        }
+    }
+    if (isLocal(s)) fail(fmt::format("'{}' is read outside its block", ir_.symbols[s].name), here(kNoId), ExitCode::Internal);
+    if (cut_[s]) return inputBit(s, off);
+    const auto& d = drivers_[s];
+    if (off < 0 || off >= static_cast<int>(d.size())) return inputBit(s, off);
+    int dm = d[off];
+    if (dm < 0 || !restructured_[dm]) return inputBit(s, off);
+    auto& v = value_[s];
+    if (v.empty() || v[off] == kUnassigned) {
+        lowerMember(dm);
+        if (value_[s].empty() || value_[s][off] == kUnassigned)
+            fail(fmt::format("'{}' is not driven by the statement that claims it", bitName(s, off)),
+                 members_[dm]->src.loc(), ExitCode::Internal);
+    }
+    return value_[s][off];
+}
+
+void Lowerer::lowerMember(int idx) {
+    if (state_[idx] == 2) return;
+    const Member& mem = *members_[idx];
+    if (state_[idx] == 1)
+        fail(fmt::format("combinational loop: this {} depends on its own result",
+                         mem.kind == MemberKind::Assign ? "assignment" : "block"), mem.src.loc());
+    if (depth_ >= kMaxMemberDepth)
+        fail(fmt::format("statements depend on each other in a chain more than {} long through whole signals; "
+                         "kerf cannot order them", kMaxMemberDepth), mem.src.loc());
+    state_[idx] = 1;
+    ++depth_;
+    const Member* savedCurrent = current_;
+    Env* savedEnv = env_;
+    current_ = &mem;
+    b_.loc = mem.src.loc();
+    if (mem.kind == MemberKind::Assign) {
+        env_ = nullptr;
+        const Expr& lhs = ir_.expr(mem.lhs);
+        Bits rhs = extend(eval(mem.rhs), static_cast<int>(lhs.width), ir_.expr(mem.rhs).isSigned);
+        assignTarget(mem.lhs, rhs, false);
+    } else {
+        Env env;
+        env_ = &env;
+        for (SymbolId l : mem.locals) env.vars[l].assign(static_cast<std::size_t>(ir_.symbols[l].width), kUnassigned);
+        std::vector<std::pair<SymbolId, int>> writes;
+        stmtWriteSet(mem.body, writes);
+        std::sort(writes.begin(), writes.end());
+        writes.erase(std::unique(writes.begin(), writes.end()), writes.end());
+        for (auto& [s, off] : writes) {
+            auto& v = env.vars[s];
+            if (v.empty()) v.assign(static_cast<std::size_t>(ir_.symbols[s].width), kExternal);
+            v[off] = kUnassigned;
+        }
+        exec(mem.body);
+        b_.loc = mem.src.loc();
+        for (auto& [s, off] : writes) {
+            Literal l = env.vars[s][off];
+            if (l == kPartial || l == kUnassigned)
+                fail(fmt::format("'{}' is not assigned on every path through this combinational block, "
+                                 "so it would hold its value (a latch); assign it a default at the top of the block",
+                                 bitName(s, off)), mem.src.loc());
+            recordBit(s, off, l);
+        }
+    }
+    current_ = savedCurrent;
+    env_ = savedEnv;
+    --depth_;
+    state_[idx] = 2;
+}
+
+Lowered Lowerer::run() {
+    const std::string& moduleFile = m_.src.file;
+    const std::size_t nsym = ir_.symbols.size();
+    for (const Member& mem : m_.members) members_.push_back(&mem);
+    const std::size_t n = members_.size();
+    restructured_.assign(n, 0);
+    state_.assign(n, 0);
+    drivers_.assign(nsym, {});
+    value_.assign(nsym, {});
+    inputLits_.assign(nsym, {});
+    keptReads_.assign(nsym, 0);
+    cut_.assign(nsym, 0);
+    mentioned_.assign(nsym, 0);
+    for (const auto& [name, sig] : m_.signals)
+        if (sig.symbol != kNoId && sig.symbol < nsym && sig.hasAttribute("keep")) cut_[sig.symbol] = 1;
+    for (const auto& name : opts_.keep) {
+        auto it = m_.signals.find(name);
+        if (it == m_.signals.end() || it->second.symbol == kNoId)
+            throw Error(fmt::format("--keep {}: module {} has no signal of that name", name, m_.name));
+        cut_[it->second.symbol] = 1;
+    }
+    auto symbolOf = [&](const std::string& name) -> SymbolId {
+        auto it = m_.signals.find(name);
+        return it == m_.signals.end() ? kNoId : it->second.symbol;
+    };
+
+    // Which members are lowered; the others are kept as written, each with its reason.
+    for (std::size_t i = 0; i < n; ++i) {
+        const Member& mem = *members_[i];
+        if (mem.kind == MemberKind::Kept) {
+            out_.kept.push_back({mem.id, mem.src.loc(), mem.what, mem.reason});
+            continue;
+        }
+        std::string what = mem.kind == MemberKind::Assign ? "assign" : mem.style == "always_star" ? "always" : mem.style;
+        std::string why;
+        if (!moduleFile.empty() && mem.src.file != moduleFile) why = "it comes from another file";
+        else why = unsupportedReason(mem);
+        if (!why.empty()) {
+            out_.notes.push_back(fmt::format("{}: left as written: {}", mem.src.loc().str(), why));
+            out_.kept.push_back({mem.id, mem.src.loc(), what, why});
+            continue;
+        }
+        restructured_[i] = 1;
+    }
+
+    // Bit-level drivers: two statements driving one bit is an error unless both are kept code.
+    for (std::size_t i = 0; i < n; ++i) {
+        const Member& mem = *members_[i];
+        std::vector<std::pair<SymbolId, int>> bits;
+        if (restructured_[i]) {
+            current_ = &mem;
+            if (mem.kind == MemberKind::Assign) targetWriteSet(mem.lhs, bits);
+            else stmtWriteSet(mem.body, bits);
+            current_ = nullptr;
+        } else {
+            for (const auto& name : mem.writes) {
+                SymbolId s = symbolOf(name);
+                if (s == kNoId) continue;
+                int w = ir_.symbols[s].width;
+                auto r = mem.writeRanges.find(name);
+                if (r == mem.writeRanges.end()) {
+                    for (int b = 0; b < w; ++b) bits.emplace_back(s, b);
+                } else {
+                    for (auto [lo, hi] : r->second)
+                        for (int b = std::max(lo, 0); b <= hi && b < w; ++b) bits.emplace_back(s, b);
+                }
+            }
+            for (const auto& name : mem.reads)
+                if (SymbolId s = symbolOf(name); s != kNoId) keptReads_[s] = 1;
+            for (const auto& name : mem.mentions)
+                if (SymbolId s = symbolOf(name); s != kNoId) mentioned_[s] = 1;
+        }
+        std::sort(bits.begin(), bits.end());
+        bits.erase(std::unique(bits.begin(), bits.end()), bits.end());
+        for (auto& [s, off] : bits) {
+            auto& d = drivers_[s];
+            if (d.empty()) d.assign(static_cast<std::size_t>(ir_.symbols[s].width), -1);
+            if (off < 0 || off >= static_cast<int>(d.size())) continue;
+            int prev = d[off];
+            int mine = static_cast<int>(i);
+            if (prev >= 0 && prev != mine && (restructured_[prev] || restructured_[i])) {
+                const Member& other = *members_[prev];
+                current_ = nullptr;
+                fail(fmt::format("'{}' has more than one driver: this {} and the one at {}", bitName(s, off),
+                                 restructured_[i] ? "statement" : "code", other.src.loc().str()),
+                     mem.src.loc());
+            }
+            if (prev < 0 || restructured_[i]) d[off] = mine;
+        }
+    }
+
+    // Lower drivers before readers: depth-first over "reads a signal that member d drives".
+    std::vector<std::vector<int>> deps(n);
+    for (std::size_t i = 0; i < n; ++i) {
+        if (!restructured_[i]) continue;
+        std::vector<int> ds;
+        for (ExprId id : memberExprs(ir_, *members_[i])) {
+            const Expr& e = ir_.expr(id);
+            if (e.kind != ExprKind::Ref || isLocal(e.a) || cut_[e.a]) continue;
+            for (int d : drivers_[e.a])
+                if (d >= 0 && d != static_cast<int>(i) && restructured_[d]) ds.push_back(d);
+        }
+        std::sort(ds.begin(), ds.end());
+        ds.erase(std::unique(ds.begin(), ds.end()), ds.end());
+        deps[i] = std::move(ds);
+    }
+    std::vector<int> order;
+    {
+        std::vector<std::uint8_t> mark(n, 0);
+        std::vector<std::pair<int, std::size_t>> stack;
+        for (std::size_t r = 0; r < n; ++r) {
+            if (!restructured_[r] || mark[r]) continue;
+            stack.push_back({static_cast<int>(r), 0});
+            mark[r] = 1;
+            while (!stack.empty()) {
+                auto& [v, k] = stack.back();
+                if (k < deps[v].size()) {
+                    int d = deps[v][k++];
+                    if (!mark[d]) {
+                        mark[d] = 1;
+                        stack.push_back({d, 0});
+                    }
+                    continue;
+                }
+                order.push_back(v);
+                stack.pop_back();
+            }
+        }
+    }
+    for (int i : order) lowerMember(i);
+    for (std::size_t i = 0; i < n; ++i)
+        if (restructured_[i]) out_.replaced.push_back(members_[i]->id);
+
+    // Outputs: restructured bits of ports, of signals kept code reads, and (unless
+    // dissolving) of every other signal restructured code drives.
+    std::set<std::string> observed(opts_.observe.begin(), opts_.observe.end());
+    std::vector<std::string> names = m_.portOrder;
+    std::set<std::string> inPorts(names.begin(), names.end());
+    for (const auto& [name, sig] : m_.signals)
+        if (!inPorts.count(name)) names.push_back(name);
+    for (const auto& name : names) {
+        const Signal& sig = m_.signals.at(name);
+        SymbolId s = sig.symbol;
+        if (s == kNoId || s >= nsym || value_[s].empty()) continue;
+        const auto& d = drivers_[s];
+        bool allMine = true;
+        for (int b = 0; b < sig.width; ++b)
+            if (b >= static_cast<int>(d.size()) || d[b] < 0 || !restructured_[d[b]]) allMine = false;
+        bool port = sig.dir != PortDir::None;
+        bool needed = port || keptReads_[s] || !allMine || cut_[s] || mentioned_[s] || !opts_.dissolveInternal ||
+                      observed.count(name);
+        if (!needed) {
+            if (sig.decl) out_.dissolved.push_back(name);
+            continue;
+        }
+        for (int b = 0; b < sig.width; ++b) {
+            if (value_[s][b] == kUnassigned) continue;
+            out_.net.addOutput(frontend::bitName(m_, {name, b}), value_[s][b]);
+            out_.outputBits.push_back(BitRef{name, b});
+            int member = b < static_cast<int>(d.size()) && d[b] >= 0 ? members_[d[b]]->id : -1;
+            out_.outputSources.push_back(OutputSource{port ? OutputKind::Port : OutputKind::Internal, member});
+        }
+    }
+    // Module-scope loop variables that the reader made block-local go with their blocks
+    // only when internal signals are dissolved; otherwise their declarations stay.
+    if (opts_.dissolveInternal) {
+        std::set<SymbolId> loopVars;
+        for (std::size_t i = 0; i < n; ++i)
+            if (restructured_[i] && members_[i]->kind == MemberKind::Comb)
+                for (SymbolId l : members_[i]->locals) loopVars.insert(l);
+        std::set<std::string> keptTouched;
+        for (std::size_t i = 0; i < n; ++i)
+            if (!restructured_[i]) {
+                for (const auto& x : members_[i]->writes) keptTouched.insert(x);
+                for (const auto& x : members_[i]->reads) keptTouched.insert(x);
+                for (const auto& x : members_[i]->mentions) keptTouched.insert(x);
+            }
+        for (SymbolId l : loopVars) {
+            const std::string& name = ir_.symbols[l].name;
+            auto it = m_.signals.find(name);
+            if (it == m_.signals.end() || !it->second.decl || it->second.dir != PortDir::None) continue;
+            SymbolId s = it->second.symbol;
+            if (keptTouched.count(name) || (s != kNoId && (!value_[s].empty() || !inputLits_[s].empty() || cut_[s])))
+                continue;
+            out_.dissolved.push_back(name);
+        }
+    }
+    return std::move(out_);
+}
+
+} // namespace kerf::frontend::detail
+
+namespace kerf::frontend {
+
+std::string bitName(const ModuleDesc& m, const BitRef& b) {
+    auto it = m.signals.find(b.signal);
+    if (it == m.signals.end()) return fmt::format("{}[{}]", b.signal, b.offset);
+    if (!it->second.vector && it->second.width == 1) return b.signal;
+    return fmt::format("{}[{}]", b.signal, it->second.indexOf(b.offset));
+}
+
+Lowered lower(const ModuleDesc& m, const LowerOptions& opts) {
+    detail::Lowerer l(m, opts);
+    return l.run();
+}
+
+} // namespace kerf::frontend

@@ -1,0 +1,898 @@
+"""Expressions and statements of one member into the description's node tables.
+
+`Tables` holds the module-wide `exprs` and `stmts` tables of the description
+(docs/reader-format.md): every node is a JSON array whose operands name
+earlier nodes by index, so the C++ side builds its arena in one pass and a
+deep expression never needs a deep recursion there. `Conv` converts the
+slang AST of one continuous assignment or combinational block; anything
+outside the subset kerf restructures raises `Unsupported(reason)` and the
+member's nodes are dropped again (the member is then `kept`). Only
+`Unsupported` does that: any other exception is a reader bug and stops the
+reader (kerf reports an internal error).
+
+Widths and signedness are slang's (IEEE 1800-2017 11.6, 11.8): implicit
+conversions appear as `convert` nodes. Leaves (constants, signal references,
+constant selects of them) are shared within one member.
+"""
+
+import pyslang
+from pyslang import ast
+
+from kerf_types import sv_bits
+
+_DEC = pyslang.LiteralBase.Decimal
+
+SK = ast.SymbolKind
+EK = ast.ExpressionKind
+STK = ast.StatementKind
+
+# Deeper nesting than this is kept as written (the C++ side is iterative; this
+# bounds the reader's own recursion).
+MAX_DEPTH = 200000
+
+_UNARY = {
+    ast.UnaryOperator.Plus: "+",
+    ast.UnaryOperator.Minus: "-",
+    ast.UnaryOperator.BitwiseNot: "~",
+    ast.UnaryOperator.BitwiseAnd: "&",
+    ast.UnaryOperator.BitwiseOr: "|",
+    ast.UnaryOperator.BitwiseXor: "^",
+    ast.UnaryOperator.BitwiseNand: "~&",
+    ast.UnaryOperator.BitwiseNor: "~|",
+    ast.UnaryOperator.BitwiseXnor: "~^",
+    ast.UnaryOperator.LogicalNot: "!",
+}
+_INCDEC = {
+    ast.UnaryOperator.Preincrement: "+",
+    ast.UnaryOperator.Postincrement: "+",
+    ast.UnaryOperator.Predecrement: "-",
+    ast.UnaryOperator.Postdecrement: "-",
+}
+_BINARY = {
+    ast.BinaryOperator.Add: "+",
+    ast.BinaryOperator.Subtract: "-",
+    ast.BinaryOperator.Multiply: "*",
+    ast.BinaryOperator.Divide: "/",
+    ast.BinaryOperator.Mod: "%",
+    ast.BinaryOperator.BinaryAnd: "&",
+    ast.BinaryOperator.BinaryOr: "|",
+    ast.BinaryOperator.BinaryXor: "^",
+    ast.BinaryOperator.BinaryXnor: "~^",
+    ast.BinaryOperator.Equality: "==",
+    ast.BinaryOperator.Inequality: "!=",
+    ast.BinaryOperator.CaseEquality: "===",
+    ast.BinaryOperator.CaseInequality: "!==",
+    ast.BinaryOperator.GreaterThanEqual: ">=",
+    ast.BinaryOperator.GreaterThan: ">",
+    ast.BinaryOperator.LessThanEqual: "<=",
+    ast.BinaryOperator.LessThan: "<",
+    ast.BinaryOperator.WildcardEquality: "==?",
+    ast.BinaryOperator.WildcardInequality: "!=?",
+    ast.BinaryOperator.LogicalAnd: "&&",
+    ast.BinaryOperator.LogicalOr: "||",
+    ast.BinaryOperator.LogicalImplication: "->",
+    ast.BinaryOperator.LogicalEquivalence: "<->",
+    ast.BinaryOperator.LogicalShiftLeft: "<<",
+    ast.BinaryOperator.LogicalShiftRight: ">>",
+    ast.BinaryOperator.ArithmeticShiftLeft: "<<<",
+    ast.BinaryOperator.ArithmeticShiftRight: ">>>",
+    ast.BinaryOperator.Power: "**",
+}
+CHECK = {
+    ast.UniquePriorityCheck.None_: "none",
+    ast.UniquePriorityCheck.Unique: "unique",
+    ast.UniquePriorityCheck.Unique0: "unique0",
+    ast.UniquePriorityCheck.Priority: "priority",
+}
+_CASE_KIND = {
+    ast.CaseStatementCondition.Normal: "case",
+    ast.CaseStatementCondition.WildcardJustZ: "casez",
+    ast.CaseStatementCondition.WildcardXOrZ: "casex",
+    ast.CaseStatementCondition.Inside: "inside",
+}
+_STMT_REASON = {
+    STK.Timed: "a timing or event control",
+    STK.Return: "a return statement",
+    STK.Break: "a break statement",
+    STK.Continue: "a continue statement",
+    STK.Disable: "a disable statement",
+    STK.PatternCase: "a case with pattern matching",
+    STK.RepeatLoop: "a repeat loop",
+    STK.ForeachLoop: "a foreach loop",
+    STK.WhileLoop: "a while loop",
+    STK.DoWhileLoop: "a do-while loop",
+    STK.ForeverLoop: "a forever loop",
+    STK.ImmediateAssertion: "an assertion",
+    STK.ConcurrentAssertion: "an assertion",
+    STK.DisableFork: "a disable fork",
+    STK.Wait: "a wait statement",
+    STK.WaitFork: "a wait fork",
+    STK.WaitOrder: "a wait order",
+    STK.EventTrigger: "an event trigger",
+    STK.ProceduralAssign: "a procedural assign",
+    STK.ProceduralDeassign: "a procedural deassign",
+    STK.RandCase: "a randcase",
+    STK.RandSequence: "a randsequence",
+    STK.ProceduralChecker: "a checker",
+}
+
+
+class Unsupported(Exception):
+    """The construct is outside what kerf restructures; the member is kept."""
+
+
+def bits_int(bits, signed):
+    """Integer value of a constant's bits, or None when it has x/z bits."""
+    if not bits or "x" in bits or "z" in bits:
+        return None
+    v = int(bits, 2)
+    if signed and bits[0] == "1":
+        v -= 1 << len(bits)
+    return v
+
+
+def convert_bits(bits, from_signed, width, four_state):
+    n = len(bits)
+    if width < n:
+        bits = bits[n - width:]
+    elif width > n:
+        fill = bits[0] if (from_signed and bits) else "0"
+        bits = fill * (width - n) + bits
+    if not four_state and ("x" in bits or "z" in bits):
+        bits = bits.replace("x", "0").replace("z", "0")
+    return bits
+
+
+def dim_range(t):
+    """Declared range of the outermost packed dimension of an integral type."""
+    ct = t.canonicalType
+    if ct.kind == SK.PackedArrayType:
+        r = ct.range
+        return r.left, r.right
+    return ct.bitWidth - 1, 0
+
+
+def dim_offset(index, msb, lsb):
+    return index - lsb if msb >= lsb else lsb - index
+
+
+class Tables:
+    """The module-wide node tables and the symbol numbering they refer to."""
+
+    def __init__(self, types):
+        self.types = types
+        self.exprs = []     # node arrays (docs/reader-format.md, "Expressions")
+        self.stmts = []     # statement arrays ("Statements")
+        self.symbols = {}   # name of a module signal -> symbol index
+        self.next_symbol = 0
+
+    def new_symbol(self):
+        i = self.next_symbol
+        self.next_symbol += 1
+        return i
+
+
+class Conv:
+    """Converts the expressions and statements of one assign or comb member."""
+
+    def __init__(self, d):
+        self.d = d
+        self.t = d.tables
+        self.types = d.tables.types
+        self.ex = d.tables.exprs
+        self.st = d.tables.stmts
+        self.mark = (len(self.ex), len(self.st), d.tables.next_symbol)
+        self.buf = None           # slang buffer of the member's file (node ranges are offsets in it)
+        self.macros = True        # the member may use macros (set False when its text has none)
+        self.reads = set()
+        self.writes = set()
+        self.locals = {}          # local symbol -> (name, symbol index)
+        self.local_list = []      # LOCAL entries
+        self.local_names = set()
+        self.loop_syms = {}       # module variable used as the active loop variable -> depth
+        self.localized = {}       # name of a module variable treated as a loop local -> symbol index
+        self.outside = set()      # names of module variables used outside such loops
+        self.lvref = None         # target of the compound assignment being converted
+        self.shared = {}          # leaf key -> node index (leaves shared within the member)
+        self.shared_ids = set()
+        self.depth = 0
+
+    def drop(self):
+        """Forget every node this member added (it is kept after all)."""
+        del self.ex[self.mark[0]:]
+        del self.st[self.mark[1]:]
+        self.t.next_symbol = self.mark[2]
+        self.shared.clear()
+        self.shared_ids.clear()
+
+    # -- node helpers --------------------------------------------------------------
+
+    def span(self, x):
+        """(start, end) byte offsets of slang node `x` in the member's file, or (-1, -1)."""
+        r = x.range if isinstance(x, pyslang.parsing.Token) else x.sourceRange
+        s = r.start
+        if self.buf is None:
+            return -1, -1
+        # A member without macro uses has all its text in its own file; otherwise
+        # ask slang where each node comes from.
+        if self.macros and s.buffer != self.buf:
+            return -1, -1
+        return s.offset, r.end.offset
+
+    def add(self, node):
+        self.ex.append(node)
+        return len(self.ex) - 1
+
+    def leaf(self, key, node):
+        i = self.shared.get(key)
+        if i is None:
+            i = self.add(node)
+            self.shared[key] = i
+            self.shared_ids.add(i)
+        return i
+
+    def const(self, bits, signed, x=None):
+        ti = self.types.vector(len(bits), signed)
+        s, e = self.span(x) if x is not None else (-1, -1)
+        return self.leaf(("c", ti, bits), ["const", ti, s, e, bits])
+
+    def const_of_type(self, bits, ti, x):
+        key = ("c", ti, bits)
+        got = self.shared.get(key)
+        if got is None:
+            s, e = self.span(x)
+            got = self.leaf(key, ["const", ti, s, e, bits])
+        return got
+
+    def kind(self, i):
+        return self.ex[i][0]
+
+    def is_const(self, i):
+        return self.ex[i][0] == "const"
+
+    def bits(self, i):
+        return self.ex[i][4]
+
+    def wsig(self, i):
+        return self.types.width_signed(self.ex[i][1])
+
+    def type_of(self, e):
+        """Type index of slang expression `e`; a value that is not integral is unsupported."""
+        t = e.type
+        info = self.types.info(t)
+        if not info[3]:
+            raise Unsupported("uses a value of type '%s'" % t)
+        return info[0]
+
+    def fold(self, e):
+        """A constant node for `e` when slang can evaluate it, else None."""
+        t = e.type
+        if not t.isIntegral:
+            return None
+        v = self.d.try_const(e)
+        if v is None:
+            return None
+        return self.const_of_type(sv_bits(v, t.bitWidth), self.types.of(t), e)
+
+    # -- locals ----------------------------------------------------------------------
+
+    def local_entry(self, name, t, src, sym_index):
+        ti = self.types.of(t)
+        ent = self.types.entries[ti]
+        w, s = ent["width"], ent["signed"]
+        msb, lsb = dim_range(t) if ent["kind"] not in ("logic",) else (0, 0)
+        return {"name": name, "id": sym_index, "kind": "variable", "type": ti, "width": w, "signed": s,
+                "msb": msb, "lsb": lsb, "port": False, "vector": ent["kind"] != "logic",
+                "src": src, "decl": None}
+
+    def add_local(self, sym):
+        ti = self.types.of(sym.type)
+        if self.types.entries[ti]["kind"] == "other":
+            raise Unsupported("declares the local variable '%s' of type '%s'" % (sym.name, sym.type))
+        base = sym.name
+        name = base
+        n = 1
+        while name in self.local_names or name in self.d.sig_by_name:
+            name = "%s@%d" % (base, n)
+            n += 1
+        self.local_names.add(name)
+        idx = self.t.new_symbol()
+        self.locals[sym] = (name, idx)
+        self.local_list.append(self.local_entry(name, sym.type, self.d.symbol_src(sym), idx))
+        return name, idx
+
+    def ref(self, e, ti, idx):
+        key = ("r", ti, idx)
+        got = self.shared.get(key)
+        if got is None:
+            got = self.leaf(key, ["ref", ti] + list(self.span(e)) + [idx])
+        return got
+
+    def signal_ref(self, e, sym, name, write):
+        ti = self.type_of(e)
+        if sym in self.loop_syms:
+            return self.ref(e, ti, self.localized[name])
+        if name in self.d.loop_candidates:
+            self.outside.add(name)
+        (self.writes if write else self.reads).add(name)
+        return self.ref(e, ti, self.t.symbols[name])
+
+    # -- expressions ---------------------------------------------------------------
+
+    def expr(self, e):
+        h = _EXPR_BY_ID.get(id(e.kind))
+        if h is None:
+            c = self.fold(e)
+            if c is not None:
+                return c
+            raise Unsupported(_expr_reason(e))
+        self.depth += 1
+        if self.depth > MAX_DEPTH:
+            raise Unsupported("nests expressions more than %d deep" % MAX_DEPTH)
+        try:
+            return h(self, e)
+        finally:
+            self.depth -= 1
+
+    def x_int_literal(self, e):
+        ti = self.type_of(e)
+        w, s = self.types.width_signed(ti)
+        return self.const_of_type(sv_bits(e.value, w), ti, e)
+
+    def x_folded(self, e):
+        c = self.fold(e)
+        if c is None:
+            raise Unsupported(_expr_reason(e))
+        return c
+
+    def x_string(self, e):
+        ti = self.type_of(e)
+        w, s = self.types.width_signed(ti)
+        v = e.intValue.value
+        if not isinstance(v, pyslang.SVInt):
+            raise Unsupported("uses a string")
+        return self.const_of_type(sv_bits(v, w), ti, e)
+
+    def x_named(self, e):
+        sym = e.symbol
+        name = self.d.sig.get(sym)
+        if name is not None:
+            return self.signal_ref(e, sym, name, False)
+        loc = self.locals.get(sym)
+        if loc is not None:
+            return self.ref(e, self.type_of(e), loc[1])
+        c = self.fold(e)
+        if c is not None:
+            return c
+        raise Unsupported("refers to '%s', which is not a signal of this module" % sym.name)
+
+    def x_hier(self, e):
+        raise Unsupported("uses the hierarchical reference '%s'" % _text(e))
+
+    def x_lvref(self, e):
+        if self.lvref is None:
+            raise Unsupported("uses an unsupported expression")
+        return self.expr(self.lvref)
+
+    def x_unary(self, e):
+        op = _UNARY.get(e.op)
+        if op is None:
+            raise Unsupported("uses an increment or decrement inside an expression")
+        ti = self.type_of(e)
+        a = self.expr(e.operand)
+        if self.is_const(a):
+            c = self.fold(e)
+            if c is not None:
+                return c
+        if a in self.shared_ids:
+            key = ("u", ti, op, a)
+            got = self.shared.get(key)
+            if got is None:
+                got = self.leaf(key, ["unary", ti] + list(self.span(e)) + [op, a])
+            return got
+        return self.add(["unary", ti] + list(self.span(e)) + [op, a])
+
+    def x_binary(self, e):
+        ti = self.type_of(e)
+        op = _BINARY[e.op]
+        l = self.expr(e.left)
+        r = self.expr(e.right)
+        if self.is_const(l) and self.is_const(r):
+            c = self.fold(e)
+            if c is not None:
+                return c
+        return self.add(["binary", ti] + list(self.span(e)) + [op, l, r])
+
+    def x_cond(self, e):
+        conds = e.conditions
+        if len(conds) != 1 or conds[0].pattern is not None:
+            raise Unsupported("uses a conditional operator with pattern matching")
+        ti = self.type_of(e)
+        c = self.expr(conds[0].expr)
+        t = self.expr(e.left)
+        f = self.expr(e.right)
+        if self.is_const(c) and self.is_const(t) and self.is_const(f):
+            k = self.fold(e)
+            if k is not None:
+                return k
+        return self.add(["cond", ti] + list(self.span(e)) + [c, t, f])
+
+    def x_inside(self, e):
+        ti = self.type_of(e)
+        w, s = self.types.width_signed(ti)
+        bit = self.types.vector(1, False)
+        sp = list(self.span(e))
+        left = self.expr(e.left)
+        terms = []
+        consts = self.is_const(left)
+        for it in e.rangeList:
+            if it.kind == EK.ValueRange:
+                if it.syntax is not None and ("+/-" in str(it.syntax) or "+%-" in str(it.syntax)):
+                    raise Unsupported("uses an inside range with a tolerance")
+                lo = self.expr(it.left)
+                hi = self.expr(it.right)
+                consts = consts and self.is_const(lo) and self.is_const(hi)
+                ge = self.add(["binary", bit] + sp + [">=", left, lo])
+                le = self.add(["binary", bit] + sp + ["<=", left, hi])
+                terms.append(self.add(["binary", bit] + sp + ["&&", ge, le]))
+            else:
+                if not it.type.isIntegral:
+                    raise Unsupported("uses inside with a value of type '%s'" % it.type)
+                v = self.expr(it)
+                consts = consts and self.is_const(v)
+                terms.append(self.add(["binary", bit] + sp + ["==?", left, v]))
+        if consts:
+            c = self.fold(e)
+            if c is not None:
+                return c
+        acc = terms[0]
+        for t in terms[1:]:
+            acc = self.add(["binary", bit] + sp + ["||", acc, t])
+        if w != 1 or s:
+            acc = self.add(["convert", ti] + sp + [acc])
+        return acc
+
+    def x_concat(self, e):
+        ti = self.type_of(e)
+        parts = []
+        for o in e.operands:
+            if o.type.bitWidth == 0:
+                continue
+            parts.append(self.expr(o))
+        if not parts:
+            raise Unsupported("uses an empty concatenation")
+        if all(self.is_const(p) for p in parts):
+            c = self.fold(e)
+            if c is not None:
+                return c
+        return self.add(["concat", ti] + list(self.span(e)) + [parts])
+
+    def x_replicate(self, e):
+        ti = self.type_of(e)
+        n = self.d.const_int(e.count)
+        if n is None or n <= 0:
+            raise Unsupported("uses a replication with a count that is not a positive constant")
+        p = self.expr(e.concat)
+        if self.is_const(p):
+            c = self.fold(e)
+            if c is not None:
+                return c
+        return self.add(["replicate", ti] + list(self.span(e)) + [n, p])
+
+    def unpacked_select(self, e, lvalue):
+        """A select from something that is not a packed vector: a constant if slang can fold it."""
+        if not lvalue:
+            c = self.fold(e)
+            if c is not None:
+                return c
+        raise Unsupported("selects from '%s', which is not a packed vector" % _text(e.value))
+
+    def x_element(self, e, lvalue=False):
+        v = e.value
+        vinfo = self.types.info(v.type)
+        if not vinfo[3]:
+            return self.unpacked_select(e, lvalue)
+        ti = self.type_of(e)
+        sel = e.selector
+        if not lvalue and v.kind is EK.NamedValue and sel.kind is EK.IntegerLiteral \
+                and v.symbol not in self.loop_syms:
+            # `a[3]`: shared within the member, found before any node is built
+            sym = v.symbol
+            key = ("e", sym, sel.value.toString(_DEC, False), ti)
+            got = self.shared.get(key)
+            if got is not None:
+                return got
+            val = self.expr(v)
+            if self.is_const(val):
+                c = self.fold(e)
+                if c is not None:
+                    return c
+            idx = self.expr(sel)
+            return self.leaf(key, ["index", ti] + list(self.span(e)) + [val, idx, vinfo[4], vinfo[5]])
+        val = self.lvalue(v) if lvalue else self.expr(v)
+        idx = self.expr(sel)
+        if not lvalue and self.is_const(val) and self.is_const(idx):
+            c = self.fold(e)
+            if c is not None:
+                return c
+        node = ["index", ti] + list(self.span(e)) + [val, idx, vinfo[4], vinfo[5]]
+        if not lvalue and self.is_const(idx) and self.ex[val][0] == "ref":
+            return self.leaf(("i", ti, val, idx, vinfo[4], vinfo[5]), node)
+        return self.add(node)
+
+    def x_range(self, e, lvalue=False):
+        v = e.value
+        vinfo = self.types.info(v.type)
+        if not vinfo[3]:
+            return self.unpacked_select(e, lvalue)
+        ti = self.type_of(e)
+        msb, lsb = vinfo[4], vinfo[5]
+        val = self.lvalue(v) if lvalue else self.expr(v)
+        sp = list(self.span(e))
+        kind = e.selectionKind
+        if kind == ast.RangeSelectionKind.Simple:
+            left = self.d.const_int(e.left)
+            right = self.d.const_int(e.right)
+            if left is None or right is None:
+                raise Unsupported("uses a part select with non-constant bounds")
+            node = ["range", ti] + sp + [val, left, right, msb, lsb]
+        else:
+            n = self.d.const_int(e.right)
+            if n is None or n <= 0:
+                raise Unsupported("uses an indexed part select with a non-constant width")
+            base = self.expr(e.left)
+            b = bits_int(self.bits(base), self.wsig(base)[1]) if self.is_const(base) else None
+            up = kind == ast.RangeSelectionKind.IndexedUp
+            if b is not None:
+                lo_i, hi_i = (b, b + n - 1) if up else (b - n + 1, b)
+                left, right = (hi_i, lo_i) if msb >= lsb else (lo_i, hi_i)
+                node = ["range", ti] + sp + [val, left, right, msb, lsb]
+            else:
+                node = ["indexed", ti] + sp + [val, base, "+" if up else "-", msb, lsb]
+        if not lvalue and self.is_const(val) and node[0] == "range":
+            c = self.fold(e)
+            if c is not None:
+                return c
+        if not lvalue and node[0] == "range" and self.ex[val][0] == "ref":
+            return self.leaf(("g",) + tuple(node[1:2] + node[4:]), node)
+        return self.add(node)
+
+    def x_member(self, e, lvalue=False):
+        v = e.value
+        vt = v.type.canonicalType
+        if vt.kind not in (SK.PackedStructType, SK.PackedUnionType):
+            if not lvalue:
+                c = self.fold(e)
+                if c is not None:
+                    return c
+            raise Unsupported("accesses a member of '%s', which is not a packed struct or union" % _text(v))
+        ti = self.type_of(e)
+        w, s = self.types.width_signed(ti)
+        val = self.lvalue(v) if lvalue else self.expr(v)
+        off = e.member.bitOffset
+        if not lvalue and self.is_const(val):
+            c = self.fold(e)
+            if c is not None:
+                return c
+        node = ["range", ti] + list(self.span(e)) + [val, off + w - 1, off, vt.bitWidth - 1, 0]
+        if not lvalue and self.ex[val][0] == "ref":
+            return self.leaf(("g",) + tuple(node[1:2] + node[4:]), node)
+        return self.add(node)
+
+    def x_convert(self, e):
+        t = e.type
+        op = e.operand
+        if not t.isIntegral or not op.type.isIntegral:
+            c = self.fold(e)
+            if c is not None:
+                return c
+            raise Unsupported("converts between '%s' and '%s'" % (op.type, t))
+        a = self.expr(op)
+        ti = self.types.of(t)
+        w, s = t.bitWidth, bool(t.isSigned)
+        aw, asg = self.wsig(a)
+        # IEEE 1800-2017 11.8.2: an operand reached by type propagation is extended
+        # according to the propagated type, so a signed operand of an unsigned
+        # expression is zero-extended. slang marks those conversions Propagated.
+        ext_signed = s if e.conversionKind == ast.ConversionKind.Propagated else asg
+        if self.is_const(a):
+            return self.const_of_type(convert_bits(self.bits(a), ext_signed, w, t.isFourState), ti, e)
+        if aw == w and asg == s:
+            return a
+        sp = list(self.span(e))
+        if ext_signed != asg and w > aw:
+            a = self.add(["convert", self.types.vector(aw, ext_signed)] + sp + [a])
+        return self.add(["convert", ti] + sp + [a])
+
+    def x_call(self, e):
+        if e.isSystemCall:
+            name = e.subroutineName
+            if name in ("$signed", "$unsigned"):
+                args = e.arguments
+                ti = self.type_of(e)
+                w, s = self.types.width_signed(ti)
+                a = self.expr(args[0])
+                aw, asg = self.wsig(a)
+                if self.is_const(a):
+                    return self.const_of_type(convert_bits(self.bits(a), asg, w, True), ti, e)
+                if aw == w and asg == s:
+                    return a
+                return self.add(["convert", ti] + list(self.span(e)) + [a])
+            c = self.fold(e)
+            if c is not None:
+                return c
+            raise Unsupported("calls the system function %s" % name)
+        c = self.fold(e)
+        if c is not None:
+            return c
+        raise Unsupported("calls the function '%s'" % e.subroutineName)
+
+    # -- lvalues -------------------------------------------------------------------
+
+    def lvalue(self, e):
+        k = e.kind
+        if k == EK.NamedValue:
+            sym = e.symbol
+            name = self.d.sig.get(sym)
+            if name is not None:
+                return self.signal_ref(e, sym, name, True)
+            loc = self.locals.get(sym)
+            if loc is not None:
+                return self.ref(e, self.type_of(e), loc[1])
+            raise Unsupported("assigns '%s', which is not a signal of this module" % sym.name)
+        if k == EK.ElementSelect:
+            return self.x_element(e, True)
+        if k == EK.RangeSelect:
+            return self.x_range(e, True)
+        if k == EK.MemberAccess:
+            return self.x_member(e, True)
+        if k == EK.Concatenation:
+            ti = self.type_of(e)
+            parts = [self.lvalue(o) for o in e.operands if o.type.bitWidth != 0]
+            return self.add(["concat", ti] + list(self.span(e)) + [parts])
+        if k == EK.HierarchicalValue:
+            raise Unsupported("assigns the hierarchical reference '%s'" % _text(e))
+        raise Unsupported("assigns a target of kind %s" % k.name)
+
+    def target(self, e):
+        return self.flatten_lvalue(self.lvalue(e))
+
+    def flatten_lvalue(self, n):
+        """Nested constant selects on a target become one bit range of the signal."""
+        node = self.ex[n]
+        op = node[0]
+        if op == "concat":
+            node[4] = [self.flatten_lvalue(p) for p in node[4]]
+            return n
+        if op not in ("index", "range") or self.ex[node[4]][0] == "ref":
+            return n
+        span = self._const_span(n)
+        if span is None:
+            return n
+        ref, lo, hi = span
+        rw, _ = self.wsig(ref)
+        return self.add(["range", node[1], node[2], node[3], ref, hi, lo, rw - 1, 0])
+
+    def _const_span(self, n):
+        node = self.ex[n]
+        op = node[0]
+        w, _ = self.wsig(n)
+        if op == "ref":
+            return n, 0, w - 1
+        if op not in ("index", "range"):
+            return None
+        inner = self._const_span(node[4])
+        if inner is None:
+            return None
+        ref, plo, phi = inner
+        if op == "index":
+            msb, lsb = node[6], node[7]
+            if not self.is_const(node[5]):
+                return None
+            k = bits_int(self.bits(node[5]), self.wsig(node[5])[1])
+            if k is None:
+                return None
+            lo = plo + dim_offset(k, msb, lsb) * w
+        else:
+            msb, lsb = node[7], node[8]
+            a, b = dim_offset(node[5], msb, lsb), dim_offset(node[6], msb, lsb)
+            count = abs(a - b) + 1
+            ew = w // count if count else 1
+            lo = plo + min(a, b) * ew
+        hi = lo + w - 1
+        if lo < plo or hi > phi:
+            return None
+        return ref, lo, hi
+
+    # -- statements ----------------------------------------------------------------
+
+    def sspan(self, s):
+        return list(self.span(s)) if s is not None else [-1, -1]
+
+    def add_stmt(self, node):
+        self.st.append(node)
+        return len(self.st) - 1
+
+    def stmt(self, s):
+        k = s.kind
+        if k == STK.Block:
+            if s.blockKind != ast.StatementBlockKind.Sequential:
+                raise Unsupported("contains a fork-join block")
+            return self.block(s.body, s)
+        if k == STK.List:
+            return self.block(s, s)
+        if k == STK.Empty:
+            return self.add_stmt(["empty"] + self.sspan(s))
+        if k == STK.ExpressionStatement:
+            return self.expr_stmt(s.expr, s)
+        if k == STK.VariableDeclaration:
+            sym = s.symbol
+            syn = sym.syntax
+            if syn is not None and syn.parent is not None \
+                    and syn.parent.kind == pyslang.syntax.SyntaxKind.ForVariableDeclaration:
+                return None    # declared by the for loop that follows; it initializes it
+            name, idx = self.add_local(sym)
+            init = sym.initializer
+            if init is None:
+                return None
+            if sym.lifetime != ast.VariableLifetime.Automatic:
+                raise Unsupported("initializes the static variable '%s' (it would be set only once)" % sym.name)
+            ti = self.types.of(sym.type)
+            lhs = self.leaf(("r", ti, idx), ["ref", ti, -1, -1, idx])
+            return self.add_stmt(["assign"] + self.sspan(s) + [lhs, self.expr(init)])
+        if k == STK.Conditional:
+            conds = s.conditions
+            if len(conds) != 1 or conds[0].pattern is not None:
+                raise Unsupported("contains an if with pattern matching")
+            cond = self.expr(conds[0].expr)
+            then = self.stmt_or_empty(s.ifTrue)
+            els = self.stmt_or_empty(s.ifFalse) if s.ifFalse is not None else -1
+            return self.add_stmt(["if"] + self.sspan(s) + [cond, then, els, CHECK[s.check]])
+        if k == STK.Case:
+            sel = self.expr(s.expr)
+            items = []
+            for g in s.items:
+                exprs = []
+                for x in g.expressions:
+                    if x.kind == EK.ValueRange:
+                        raise Unsupported("contains a case inside with a value range")
+                    exprs.append(self.expr(x))
+                items.append([exprs, self.stmt_or_empty(g.stmt)])
+            dflt = self.stmt_or_empty(s.defaultCase) if s.defaultCase is not None else -1
+            return self.add_stmt(["case"] + self.sspan(s) + [_CASE_KIND[s.condition], CHECK[s.check],
+                                                            sel, items, dflt, self.d.case_attributes(s)])
+        if k == STK.ForLoop:
+            return self.for_loop(s)
+        if k == STK.Invalid:
+            raise Unsupported("contains a statement slang could not bind")
+        raise Unsupported("contains %s" % _STMT_REASON.get(k, "a %s statement" % k.name))
+
+    def stmt_or_empty(self, s):
+        r = self.stmt(s)
+        return r if r is not None else self.add_stmt(["empty"] + self.sspan(s))
+
+    def block(self, s, where):
+        items = []
+        lst = s.list if s.kind == STK.List else [s]
+        for x in lst:
+            r = self.stmt(x)
+            if r is not None:
+                items.append(r)
+        return self.add_stmt(["block"] + self.sspan(where) + [items])
+
+    def expr_stmt(self, x, s):
+        k = x.kind
+        where = s if s is not None else x
+        if k == EK.Assignment:
+            if x.isNonBlocking:
+                raise Unsupported("contains a nonblocking assignment")
+            if x.timingControl is not None:
+                raise Unsupported("contains an intra-assignment timing control")
+            lhs = self.target(x.left)
+            if x.isCompound:
+                self.lvref = x.left
+            try:
+                rhs = self.expr(x.right)
+            finally:
+                self.lvref = None
+            return self.add_stmt(["assign"] + self.sspan(where) + [lhs, rhs])
+        if k == EK.UnaryOp and x.op in _INCDEC:
+            lhs = self.target(x.operand)
+            cur = self.expr(x.operand)
+            ti = self.ex[cur][1]
+            w, sg = self.wsig(cur)
+            one = self.const("0" * (w - 1) + "1", sg)
+            rhs = self.add(["binary", ti] + list(self.span(x)) + [_INCDEC[x.op], cur, one])
+            return self.add_stmt(["assign"] + self.sspan(where) + [lhs, rhs])
+        if k == EK.Call:
+            raise Unsupported("calls %s" % (x.subroutineName if x.isSystemCall else "'%s'" % x.subroutineName))
+        raise Unsupported("contains an expression statement")
+
+    def for_loop(self, s):
+        pushed = []
+        init = []
+        try:
+            for v in s.loopVars:
+                name, idx = self.add_local(v)
+                if v.initializer is None:
+                    raise Unsupported("has a for loop variable without an initial value")
+                init.append([idx, self.expr(v.initializer)])
+            for x in s.initializers:
+                if x.kind != EK.Assignment or x.left.kind != EK.NamedValue or x.isCompound:
+                    raise Unsupported("has a for loop whose initialization is not 'variable = value'")
+                sym = x.left.symbol
+                loc = self.locals.get(sym)
+                if loc is None:
+                    name = self.d.sig.get(sym)
+                    if name is None or name not in self.d.loop_candidates:
+                        raise Unsupported("has a for loop over '%s', which cannot be made local to the block"
+                                          % x.left.symbol.name)
+                    value = self.expr(x.right)
+                    if sym not in self.loop_syms:
+                        self.loop_syms[sym] = 0
+                        pushed.append(sym)
+                    if name not in self.localized:
+                        idx = self.t.new_symbol()
+                        self.localized[name] = idx
+                        self.local_list.append(self.local_entry(name, sym.type, self.d.symbol_src(sym), idx))
+                    init.append([self.localized[name], value])
+                else:
+                    init.append([loc[1], self.expr(x.right)])
+            if s.stopExpr is None:
+                raise Unsupported("has a for loop without a condition")
+            cond = self.expr(s.stopExpr)
+            step = [self.expr_stmt(x, None) for x in s.steps]
+            body = self.stmt_or_empty(s.body)
+        finally:
+            for sym in pushed:
+                del self.loop_syms[sym]
+        return self.add_stmt(["for"] + self.sspan(s) + [init, cond, step, body])
+
+
+def _text(e):
+    syn = e.syntax
+    if syn is not None:
+        return str(syn).strip()
+    if isinstance(e, ast.ValueExpressionBase):
+        return e.symbol.name
+    return e.kind.name
+
+
+def _expr_reason(e):
+    k = e.kind
+    reasons = {
+        EK.Streaming: "uses a streaming concatenation",
+        EK.Assignment: "uses an assignment inside an expression",
+        EK.SimpleAssignmentPattern: "uses an assignment pattern that is not constant",
+        EK.StructuredAssignmentPattern: "uses an assignment pattern that is not constant",
+        EK.ReplicatedAssignmentPattern: "uses an assignment pattern that is not constant",
+        EK.RealLiteral: "uses a real number",
+        EK.Dist: "uses a distribution",
+        EK.MinTypMax: "uses a min:typ:max expression",
+        EK.TaggedUnion: "uses a tagged union",
+        EK.Invalid: "uses an expression slang could not bind",
+    }
+    return reasons.get(k, "uses an expression of kind %s" % k.name)
+
+
+_EXPR = {
+    EK.IntegerLiteral: Conv.x_int_literal,
+    EK.UnbasedUnsizedIntegerLiteral: Conv.x_folded,
+    EK.StringLiteral: Conv.x_string,
+    EK.NamedValue: Conv.x_named,
+    EK.HierarchicalValue: Conv.x_hier,
+    EK.LValueReference: Conv.x_lvref,
+    EK.UnaryOp: Conv.x_unary,
+    EK.BinaryOp: Conv.x_binary,
+    EK.ConditionalOp: Conv.x_cond,
+    EK.Inside: Conv.x_inside,
+    EK.Concatenation: Conv.x_concat,
+    EK.Replication: Conv.x_replicate,
+    EK.ElementSelect: Conv.x_element,
+    EK.RangeSelect: Conv.x_range,
+    EK.MemberAccess: Conv.x_member,
+    EK.Conversion: Conv.x_convert,
+    EK.Call: Conv.x_call,
+}
+# Enum members are singletons: dispatching on their identity avoids hashing them.
+_EXPR_BY_ID = {id(k): h for k, h in _EXPR.items()}

@@ -1,0 +1,161 @@
+// frontend_description_test.cpp — reading the reader's description into the typed IR.
+//
+// The shape is our own format (docs/reader-format.md, version 2). A
+// description that breaks it is kerf's own bug: every check here expects an
+// internal error (exit 5) naming what is wrong, never a crash or a silently
+// different module.
+#include "frontend_support.h"
+
+using kerf::ExitCode;
+using kerf::frontend::ExprKind;
+using kerf::frontend::parseDescription;
+using kerf::frontend::TypeKind;
+using kerf::test::DescBuilder;
+using json = nlohmann::json;
+
+namespace {
+
+json simple() {
+    DescBuilder d;
+    d.sig("a", 4, "input");
+    d.sig("y", 1, "output");
+    d.assignMember(d.ref("y"), d.un("|", d.ref("a"), 1), 2, {"a"}, {"y"});
+    return d.build();
+}
+
+/// The internal error a broken description gives (empty when none).
+std::string internalError(const std::string& text) {
+    try {
+        parseDescription(text);
+    } catch (const kerf::Error& e) {
+        EXPECT_EQ(e.code(), ExitCode::Internal) << e.what();
+        return e.what();
+    }
+    return "";
+}
+
+} // namespace
+
+TEST(FrontendDescription, BuildsTheTypedIr) {
+    auto m = parseDescription(simple());
+    EXPECT_EQ(m.name, "t");
+    ASSERT_EQ(m.members.size(), 1u);
+    const auto& mem = m.members[0];
+    const auto& rhs = m.ir.expr(mem.rhs);
+    EXPECT_EQ(rhs.kind, ExprKind::Unary);
+    EXPECT_EQ(rhs.width, 1u);
+    const auto& operand = m.ir.expr(rhs.a);
+    EXPECT_EQ(operand.kind, ExprKind::Ref);
+    EXPECT_EQ(operand.width, 4u);
+    EXPECT_EQ(m.ir.symbols.at(operand.a).name, "a");
+    EXPECT_EQ(m.signals.at("a").type, operand.type);
+    EXPECT_EQ(m.ir.type(operand.type).kind, TypeKind::Vector);
+    EXPECT_EQ(m.signals.at("y").dir, kerf::frontend::PortDir::Output);
+}
+
+TEST(FrontendDescription, LocatesOffsetsWithTheLineTable) {
+    auto m = parseDescription(simple());
+    // line starts every 10 bytes in the test description
+    auto loc = m.ir.locate("t.v", 37);
+    EXPECT_EQ(loc.line, 4);
+    EXPECT_EQ(loc.col, 8);
+    EXPECT_TRUE(m.ir.locate("other.v", 3).file.empty());
+}
+
+TEST(FrontendDescription, RejectsAnotherVersion) {
+    json d = simple();
+    d["version"] = 1;
+    EXPECT_NE(internalError(d.dump()).find("format version"), std::string::npos);
+}
+
+TEST(FrontendDescription, RejectsTruncatedText) {
+    std::string t = simple().dump();
+    EXPECT_NE(internalError(t.substr(0, t.size() / 2)).find("not valid JSON"), std::string::npos);
+    EXPECT_FALSE(internalError("").empty());
+    EXPECT_FALSE(internalError("[1,2,3]").empty());
+}
+
+TEST(FrontendDescription, RejectsOperandsThatDoNotPrecede) {
+    json d = simple();
+    d["exprs"][1][5] = 1;   // the unary node names itself
+    EXPECT_NE(internalError(d.dump()).find("does not precede"), std::string::npos);
+    d = simple();
+    d["exprs"][1][5] = 99;
+    EXPECT_NE(internalError(d.dump()).find("does not precede"), std::string::npos);
+}
+
+TEST(FrontendDescription, RejectsUnknownSymbolsAndKinds) {
+    json d = simple();
+    d["exprs"][0][4] = 42;
+    EXPECT_NE(internalError(d.dump()).find("unknown symbol"), std::string::npos);
+    d = simple();
+    d["exprs"][0][0] = "wibble";
+    EXPECT_NE(internalError(d.dump()).find("unknown kind"), std::string::npos);
+    d = simple();
+    d["exprs"][1][4] = "**?";
+    EXPECT_NE(internalError(d.dump()).find("unknown unary operator"), std::string::npos);
+}
+
+TEST(FrontendDescription, RejectsInconsistentWidths) {
+    DescBuilder b;
+    b.sig("a", 4, "input");
+    b.sig("y", 8, "output");
+    int a = b.ref("a");
+    int cat = b.add(json::array({"concat", b.vec(8), -1, -1, json::array({a, a, a})}));   // 12 bits in an 8-bit node
+    b.assignMember(b.ref("y"), cat, 2, {"a"}, {"y"});
+    EXPECT_NE(internalError(b.build().dump()).find("do not add up"), std::string::npos);
+    json d = simple();
+    d["exprs"][1][1] = 0;   // the 1-bit reduction given the 4-bit type: fine by itself...
+    d["types"][0]["width"] = 5;   // ...but a vector [3:0] of width 5 is not
+    EXPECT_NE(internalError(d.dump()).find("range does not match"), std::string::npos);
+}
+
+TEST(FrontendDescription, RejectsNodesSharedBetweenMembers) {
+    DescBuilder b;
+    b.sig("a", 1, "input");
+    b.sig("y", 1, "output");
+    b.sig("z", 1, "output");
+    int a = b.ref("a");
+    b.assignMember(b.ref("y"), a, 2, {"a"}, {"y"});
+    b.assignMember(b.ref("z"), a, 3, {"a"}, {"z"});
+    EXPECT_NE(internalError(b.build().dump()).find("shared by members"), std::string::npos);
+}
+
+TEST(FrontendDescription, RejectsLocalsOfAnotherBlock) {
+    DescBuilder b;
+    b.sig("y", 1, "output", true);
+    b.sig("z", 1, "output", true);
+    b.local("i", 1);
+    int s1 = b.assign(b.ref("y"), b.ref("i"));
+    b.combMember(b.block({s1}), 2, {}, {"y"});
+    int s2 = b.assign(b.ref("z"), b.ref("i"));   // i belongs to the first block
+    b.combMember(b.block({s2}), 3, {}, {"z"});
+    EXPECT_NE(internalError(b.build().dump()).find("local of another block"), std::string::npos);
+}
+
+TEST(FrontendDescription, MalformedFieldsNeverCrash) {
+    // Every field of every node replaced by values of the wrong kind: each parse either
+    // succeeds or fails with an internal error (the robustness fuzzer covers this widely).
+    json base = simple();
+    const json odd[] = {nullptr, -7, 1e9, "x", json::array(), json::object(), true, 4294967295u};
+    for (const char* table : {"exprs", "stmts", "signals", "members", "types", "ports"}) {
+        for (std::size_t i = 0; i < base[table].size(); ++i) {
+            json& node = base[table][i];
+            std::vector<std::string> keys;
+            if (node.is_object())
+                for (auto& [k, v] : node.items()) keys.push_back(k);
+            std::size_t n = node.is_array() ? node.size() : keys.size();
+            for (std::size_t f = 0; f < n; ++f)
+                for (const json& v : odd) {
+                    json d = base;
+                    if (node.is_array()) d[table][i][f] = v;
+                    else d[table][i][keys[f]] = v;
+                    try {
+                        parseDescription(d.dump());
+                    } catch (const kerf::Error& e) {
+                        EXPECT_EQ(e.code(), ExitCode::Internal) << table << " " << i << " " << f << ": " << e.what();
+                    }
+                }
+        }
+    }
+}
