@@ -1028,7 +1028,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                             ExitCode::Internal);
         }
         std::string unit = ind.find('\t') != std::string::npos ? "\t" : "  ";
-        std::string style = mem->body.value("style", "always_comb");
+        std::string style = mem->style.empty() ? "always_comb" : mem->style;
         std::string out = style == "always_comb" ? "always_comb begin" : "always @(*) begin";
         for (const auto& a : ordered) out += "\n" + ind + unit + statement(ind + unit, a.lhs + " = ", a.rhs);
         out += "\n" + ind + "end";
@@ -1199,8 +1199,7 @@ WriteResult Writer::run() {
         for (int id : low_.replaced) {
             const auto* mem = byId_.at(id);
             bool touches = std::find(mem->writes.begin(), mem->writes.end(), name) != mem->writes.end();
-            for (const auto& l : mem->body.value("locals", nlohmann::json::array()))
-                touches = touches || l.value("name", "") == name;
+            for (frontend::SymbolId l : mem->locals) touches = touches || m_.ir.symbols[l].name == name;
             if (touches && !replacedStmts.count(stmtOf_.at(id))) allReplaced = false;
         }
         if (allReplaced) gone.insert(&*s.decl);

@@ -117,6 +117,9 @@ public:
     Env* env_ = nullptr;                       // current combinational block
     const Member* current_ = nullptr;
     int depth_ = 0;                            // nesting of on-demand member lowering
+    // Members being lowered because a signal they drive was read: (member, signal).
+    // On a loop the tail of this chain from the repeated member names the loop.
+    std::vector<std::pair<int, SymbolId>> resolving_;
     int stmtDepth_ = 0;
     int wordCount_ = 0;
     std::set<std::string> usedNames_;

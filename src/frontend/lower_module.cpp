@@ -80,7 +80,9 @@ Literal Lowerer::signalBit(SymbolId s, int off) {
     if (dm < 0 || !restructured_[dm]) return inputBit(s, off);
     auto& v = value_[s];
     if (v.empty() || v[off] == kUnassigned) {
+        resolving_.emplace_back(dm, s);
         lowerMember(dm);
+        resolving_.pop_back();
         if (value_[s].empty() || value_[s][off] == kUnassigned)
             fail(fmt::format("'{}' is not driven by the statement that claims it", bitName(s, off)),
                  members_[dm]->src.loc(), ExitCode::Internal);
@@ -91,9 +93,26 @@ Literal Lowerer::signalBit(SymbolId s, int off) {
 void Lowerer::lowerMember(int idx) {
     if (state_[idx] == 2) return;
     const Member& mem = *members_[idx];
-    if (state_[idx] == 1)
-        fail(fmt::format("combinational loop: this {} depends on its own result",
-                         mem.kind == MemberKind::Assign ? "assignment" : "block"), mem.src.loc());
+    if (state_[idx] == 1) {
+        // Name each signal on the loop with the statement that drives it. The last
+        // entry is the read that came back to this member; the members resolved
+        // since this one started (after its earlier entry, if any) close the loop.
+        std::string chain;
+        std::size_t last = resolving_.size();
+        if (last > 0) {
+            std::size_t start = last - 1;
+            while (start > 0 && resolving_[start - 1].first != idx) --start;
+            const std::string& first = ir_.symbols[resolving_[last - 1].second].name;
+            chain = fmt::format("'{}' (driven at {})", first, mem.src.loc().str());
+            for (std::size_t i = start; i + 1 < last; ++i)
+                chain += fmt::format(", which reads '{}' (driven at {})", ir_.symbols[resolving_[i].second].name,
+                                     members_[resolving_[i].first]->src.loc().str());
+            chain += fmt::format(", which reads '{}' again", first);
+        }
+        fail(fmt::format("combinational loop: this {} depends on its own result{}{}",
+                         mem.kind == MemberKind::Assign ? "assignment" : "block", chain.empty() ? "" : ": ", chain),
+             mem.src.loc());
+    }
     if (depth_ >= kMaxMemberDepth)
         fail(fmt::format("statements depend on each other in a chain more than {} long through whole signals; "
                          "kerf cannot order them", kMaxMemberDepth), mem.src.loc());
