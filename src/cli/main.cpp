@@ -70,6 +70,8 @@ int main(int argc, char** argv) {
     rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
     rs->add_flag("--dissolve-internal", ro.dissolveInternal,
                  "let internal signals dissolve into the logic (their declarations go); for flat netlists");
+    rs->add_flag("--keep-x", ro.keepX,
+                 "keep statements whose value can be x as written, instead of using x as a don't-care");
     rs->add_option("--keep", ro.keep, "a signal never restructured through, like (* keep *) on its declaration "
                                       "(repeatable)")
         ->expected(1)

@@ -22,6 +22,7 @@
 #include "kerf/emit/writer.h"
 
 #include "expression.h"
+#include "kerf/frontend/references.h"
 #include "kerf/io/files.h"
 
 #include <fmt/format.h>
@@ -934,7 +935,15 @@ struct Assignment {
     PExpr rhs;
     std::string signal;
     std::set<std::string> reads;
+    std::string prefix, suffix;   ///< around the value, for targets that need it (a one-bit enum)
 };
+
+/// A printed statement (ending in ';') with the assignment's value suffix put before the ';'.
+std::string wrapped(const Assignment& a, std::string printed) {
+    if (a.suffix.empty() || printed.empty()) return printed;
+    printed.pop_back();
+    return printed + a.suffix + ";";
+}
 }
 
 std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std::string>* refsOut) {
@@ -959,13 +968,17 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         std::vector<PExpr> es;
         for (std::size_t i : idx) es.push_back(outputExpr(i));
         auto add = [&](std::string lhs, PExpr e) {
-            Assignment a{std::move(lhs), std::move(e), s, {}};
+            Assignment a{std::move(lhs), std::move(e), s, {}, {}, {}};
             collectRefs(a.rhs, a.reads);
             a.reads.erase(s);
             as.push_back(std::move(a));
         };
         if (!sig.vector && sig.width == 1) {
-            add(verilogName(s), es[0]);
+            // The front end's target text: a one-bit enum is assigned through its values.
+            auto pieces = frontend::targetPieces(m_, s, 0, 1);
+            add(pieces.front().lhs, es[0]);
+            as.back().prefix = pieces.front().valuePrefix;
+            as.back().suffix = pieces.front().valueSuffix;
             continue;
         }
         std::size_t k = 0;
@@ -987,7 +1000,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                                       ? verilogName(s)
                                       : fmt::format("{}[{}:{}]", verilogName(s), sig.indexOf(hi), sig.indexOf(lo));
                 // Reads of the template are the per-bit reads.
-                Assignment a{lhs, *bestT, s, {}};
+                Assignment a{lhs, *bestT, s, {}, {}, {}};
                 for (std::size_t q = k; q <= best; ++q) collectRefs(es[q], a.reads);
                 a.reads.erase(s);
                 as.push_back(std::move(a));
@@ -1030,14 +1043,14 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         std::string unit = ind.find('\t') != std::string::npos ? "\t" : "  ";
         std::string style = mem->style.empty() ? "always_comb" : mem->style;
         std::string out = style == "always_comb" ? "always_comb begin" : "always @(*) begin";
-        for (const auto& a : ordered) out += "\n" + ind + unit + statement(ind + unit, a.lhs + " = ", a.rhs);
+        for (const auto& a : ordered) out += "\n" + ind + unit + wrapped(a, statement(ind + unit, a.lhs + " = " + a.prefix, a.rhs));
         out += "\n" + ind + "end";
         return out;
     }
     if (mem->netDecl) {
         if (as.size() == 1 && (as[0].lhs == verilogName(as[0].signal)))
         {
-            std::string t = statement(ind, "", as[0].rhs);
+            std::string t = wrapped(as[0], statement(ind, as[0].prefix, as[0].rhs));
             return " = " + t.substr(0, t.size() - 1);   // the declaration keeps its own ';'
         }
         // Bits one by one: a concatenation, most significant first.
@@ -1051,7 +1064,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
     std::string out;
     for (std::size_t q = 0; q < as.size(); ++q) {
         if (q) out += "\n" + ind;
-        out += statement(ind, "assign " + as[q].lhs + " = ", as[q].rhs);
+        out += wrapped(as[q], statement(ind, "assign " + as[q].lhs + " = " + as[q].prefix, as[q].rhs));
     }
     return out;
 }

@@ -69,8 +69,10 @@ nlohmann::json stagesJson(const io::StageLog& log) {
 /// the internal signals kept are just those (the original's, when reading back
 /// the rewrite, so that kerf's new wires are not compared).
 frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bitBlast, const std::string& prefix,
-                          const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {}) {
+                          const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {},
+                          bool keepX = false) {
     frontend::LowerOptions lo;
+    lo.keepX = keepX;
     lo.bitBlastArithmetic = bitBlast;
     lo.prefix = prefix;
     lo.keep = keep;
@@ -149,7 +151,7 @@ int restructure(const RestructureOptions& opts) {
         stages.addChild("reader", rf.seconds, rf.peakRssKb);
     }
     stages.begin("lower");
-    frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep);
+    frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
     for (const auto& n : low.notes)
         if (!opts.quiet) std::cerr << n << "\n";
     const net::Network original = low.net;
@@ -245,18 +247,25 @@ int restructure(const RestructureOptions& opts) {
         for (const auto& [n, sg] : desc.signals) authorSignals.insert(n);
         frontend::Lowered writtenLow;
         try {
-            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep);
+            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
         } catch (const Error& e) {
             ownFault(e, "lower");
         }
         after = passes::measureFactored(writtenLow.net);
         if (!opts.skipProof) {
-            frontend::Lowered a = lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep);
-            frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep);
+            frontend::Lowered a = lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX);
+            frontend::Lowered b =
+                lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep, opts.keepX);
+            // kerf writes no x: x in the rewrite where the original has none would be a difference
+            // the comparison under the original's don't-cares cannot see.
+            if (b.dontCareBits > 0)
+                ownFault(Error("the rewrite can be x where kerf wrote logic", {}, ExitCode::Internal), "stay free of x");
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
             po.verbose = opts.verbose;
-            proof::ProofResult pr = proof::proveEquivalent(a.net, b.net, po);
+            // Where the original is x (a don't-care) the rewrite may take any value.
+            proof::ProofResult pr =
+                proof::proveEquivalent(a.net, b.net, po, a.dontCareBits > 0 ? &a.dontCares : nullptr);
             double proofSeconds = since(tProof);
             proofJson = {{"verdict", pr.verdict == proof::Verdict::Equivalent ? "equivalent"
                                      : pr.verdict == proof::Verdict::Different ? "different" : "undecided"},
@@ -332,6 +341,10 @@ int restructure(const RestructureOptions& opts) {
         if (groupsReplaced < wr.groups.size()) summary += fmt::format(" (the rest kept as written)");
         summary += ", " + proofText;
     }
+    if (low.dontCareBits > 0)
+        summary += fmt::format("; {} output bit{} can be x in the source and {} used as don't-care{} (--keep-x keeps "
+                               "such statements)", low.dontCareBits, low.dontCareBits == 1 ? "" : "s",
+                               low.dontCareBits == 1 ? "was" : "were", low.dontCareBits == 1 ? "" : "s");
 
     if (!opts.reportPath.empty()) {
         nlohmann::json groups = nlohmann::json::array();

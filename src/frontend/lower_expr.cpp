@@ -1,11 +1,18 @@
-// lower_expr.cpp — expressions of the typed IR into network literals.
+// lower_expr.cpp — expressions of the typed IR into four-valued network literals.
 //
 // Evaluation is iterative: an explicit stack of frames walks the expression
 // (a `^` chain of tens of thousands of terms is as deep as it is long), and
-// each frame combines its operands' bit values once they are on the value
-// stack. Selects with a constant position read only the bits they select.
+// each frame combines its operands' bits once they are on the value stack.
+// Selects with a constant position read only the bits they select.
 // Arithmetic with two variable operands stays a word-level operation unless
-// the proof asks for gates (IEEE 1800-2017 11.4 operators, 11.6 widths).
+// the proof asks for gates. Every operator follows IEEE 1800-2017 clause 11
+// on unknown bits: bitwise operators bit by bit (11.4.8: 0 & x is 0), the
+// conditional operator merges its branches on an unknown select (11.4.11),
+// equality is x unless some known bits differ (11.4.5), case equality
+// compares x literally (kept as written when both sides can be unknown, as x
+// and z are not told apart here), arithmetic and relational results are x
+// when any operand bit is (11.4.3, 11.4.4), a select with an unknown or
+// out-of-range position reads x (11.5.1).
 #include "lower_internal.h"
 
 #include <algorithm>
@@ -16,10 +23,10 @@ using algebra::literalVar;
 
 // ---- Builder ----------------------------------------------------------------
 
-Literal Builder::andN(Bits in) {
+Literal Builder::andN(Lits in) {
     std::sort(in.begin(), in.end());
     in.erase(std::unique(in.begin(), in.end()), in.end());
-    Bits lits;
+    Lits lits;
     for (Literal l : in) {
         if (l == kFalse) return kFalse;
         if (l == kTrue) continue;
@@ -35,10 +42,10 @@ Literal Builder::andN(Bits in) {
     return algebra::makeLiteral(net_.addLogic(std::move(cv), {}, loc), false);
 }
 
-Literal Builder::orN(Bits in) {
+Literal Builder::orN(Lits in) {
     std::sort(in.begin(), in.end());
     in.erase(std::unique(in.begin(), in.end()), in.end());
-    Bits lits;
+    Lits lits;
     for (Literal l : in) {
         if (l == kTrue) return kTrue;
         if (l == kFalse) continue;
@@ -78,7 +85,7 @@ Literal Builder::mux(Literal s, Literal t, Literal e) {
     return sop({{s, t}, {negateLiteral(s), e}});
 }
 
-Literal Builder::sop(std::vector<Bits> cubes) {
+Literal Builder::sop(std::vector<Lits> cubes) {
     algebra::Cover cv;
     for (auto& cb : cubes) {
         algebra::Cube c;
@@ -92,8 +99,8 @@ Literal Builder::sop(std::vector<Bits> cubes) {
 std::optional<std::uint64_t> constValue(const Bits& b) {
     std::uint64_t v = 0;
     for (std::size_t i = 0; i < b.size(); ++i) {
-        if (!isConst(b[i])) return std::nullopt;
-        if (b[i] == kTrue) {
+        if (b[i].x != kFalse || !isConst(b[i].v)) return std::nullopt;
+        if (b[i].v == kTrue) {
             if (i >= 64) return std::nullopt;
             v |= std::uint64_t{1} << i;
         }
@@ -102,25 +109,128 @@ std::optional<std::uint64_t> constValue(const Bits& b) {
 }
 
 Bits extend(Bits b, int width, bool sign) {
-    Literal fill = sign && !b.empty() ? b.back() : kFalse;
+    Bit fill = sign && !b.empty() ? b.back() : known(kFalse);
     b.resize(static_cast<std::size_t>(width), fill);
     return b;
 }
 
-// ---- arithmetic and comparison ------------------------------------------------
+Lits values(const Bits& b) {
+    Lits r(b.size());
+    for (std::size_t i = 0; i < b.size(); ++i) r[i] = b[i].v;
+    return r;
+}
 
-Literal Lowerer::equal(const Bits& a0, const Bits& b0) {
+namespace {
+
+bool allKnown(const Bits& b) {
+    return std::all_of(b.begin(), b.end(), [](const Bit& x) { return x.x == kFalse; });
+}
+
+} // namespace
+
+// ---- four-valued operations ---------------------------------------------------
+
+Literal Lowerer::anyX(const Bits& a) {
+    Lits xs;
+    for (const Bit& b : a)
+        if (b.x != kFalse) xs.push_back(b.x);
+    return xs.empty() ? kFalse : b_.orN(std::move(xs));
+}
+
+Literal Lowerer::anyS(const Bits& a) {
+    Lits ss;
+    for (const Bit& b : a)
+        if (b.s != kFalse) ss.push_back(b.s);
+    return ss.empty() ? kFalse : b_.orN(std::move(ss));
+}
+
+Bit Lowerer::bAnd(const Bits& in) {
+    Lits vs;
+    for (const Bit& b : in) vs.push_back(b.v);
+    Literal v = b_.andN(vs);
+    if (allKnown(in)) return known(v);
+    // 0 when some bit is a known 0; otherwise unknown when some bit is.
+    Lits zeros, xs;
+    for (const Bit& b : in) {
+        zeros.push_back(b_.and2(negateLiteral(b.x), negateLiteral(b.v)));
+        if (b.x != kFalse) xs.push_back(b.x);
+    }
+    Literal x = b_.and2(b_.orN(xs), negateLiteral(b_.orN(zeros)));
+    return {v, x, ruleOf(x, anyS(in))};
+}
+
+Bit Lowerer::bOr(const Bits& in) {
+    Lits vs;
+    for (const Bit& b : in) vs.push_back(b.v);
+    Literal v = b_.orN(vs);
+    if (allKnown(in)) return known(v);
+    Lits ones, xs;
+    for (const Bit& b : in) {
+        ones.push_back(b_.and2(negateLiteral(b.x), b.v));
+        if (b.x != kFalse) xs.push_back(b.x);
+    }
+    Literal x = b_.and2(b_.orN(xs), negateLiteral(b_.orN(ones)));
+    return {v, x, ruleOf(x, anyS(in))};
+}
+
+Bit Lowerer::bCond(Bit s, Bit t, Bit e) {
+    if (s.x == kFalse) return bMux(s.v, t, e);
+    Literal differ = b_.orN({t.x, e.x, b_.xor2(t.v, e.v)});
+    Literal x = b_.mux(s.x, differ, b_.mux(s.v, t.x, e.x));
+    return {b_.mux(s.v, t.v, e.v), x, ruleOf(x, b_.orN({s.s, t.s, e.s}))};
+}
+
+Bit Lowerer::truth(const Bits& a) {
+    if (allKnown(a)) return known(b_.orN(values(a)));
+    Lits ones;
+    for (const Bit& b : a) ones.push_back(b_.and2(negateLiteral(b.x), b.v));
+    Literal one = b_.orN(ones);
+    Literal x = b_.and2(negateLiteral(one), anyX(a));
+    return {one, x, ruleOf(x, anyS(a))};
+}
+
+Bit Lowerer::equality(const Bits& a, const Bits& b, bool wild) {
+    std::size_t n = std::min(a.size(), b.size());
+    bool maskConst = std::all_of(b.begin(), b.end(), [](const Bit& x) { return isConst(x.x); });
+    if (allKnown(a) && (allKnown(b) || (wild && maskConst))) {
+        Lits x, y;
+        for (std::size_t i = 0; i < n; ++i) {
+            if (wild && b[i].x == kTrue) continue;   // a wildcard bit of the pattern
+            x.push_back(a[i].v);
+            y.push_back(b[i].v);
+        }
+        if (!wild && !allKnown(b)) return known(kFalse);
+        return known(equal(x, y));
+    }
+    Lits mis, unk;
+    for (std::size_t i = 0; i < n; ++i) {
+        Literal care = wild ? negateLiteral(b[i].x) : kTrue;
+        Literal bothKnown = b_.and2(negateLiteral(a[i].x), negateLiteral(b[i].x));
+        mis.push_back(b_.andN({care, bothKnown, b_.xor2(a[i].v, b[i].v)}));
+        unk.push_back(wild ? b_.and2(care, a[i].x) : b_.or2(a[i].x, b[i].x));
+    }
+    Literal anyMis = b_.orN(mis), anyUnk = b_.orN(unk);
+    Literal x = b_.and2(negateLiteral(anyMis), anyUnk);
+    return {b_.and2(negateLiteral(anyMis), negateLiteral(anyUnk)), x, ruleOf(x, b_.or2(anyS(a), anyS(b)))};
+}
+
+// ---- arithmetic and comparison on values ----------------------------------------
+
+Literal Lowerer::equal(const Lits& a0, const Lits& b0) {
     std::size_t n = std::max(a0.size(), b0.size());
-    Bits a = extend(a0, static_cast<int>(n), false), b = extend(b0, static_cast<int>(n), false);
-    Bits terms;
+    Lits a = a0, b = b0;
+    a.resize(n, kFalse);
+    b.resize(n, kFalse);
+    Lits terms;
     for (std::size_t i = 0; i < n; ++i) terms.push_back(negateLiteral(b_.xor2(a[i], b[i])));
     return b_.andN(terms);
 }
 
-Literal Lowerer::lessThan(Bits a, Bits b, bool sign) {
+Literal Lowerer::lessThan(Lits a, Lits b, bool sign) {
     std::size_t n = std::max(a.size(), b.size());
-    a = extend(a, static_cast<int>(n), sign);
-    b = extend(b, static_cast<int>(n), sign);
+    Literal fa = sign && !a.empty() ? a.back() : kFalse, fb = sign && !b.empty() ? b.back() : kFalse;
+    a.resize(n, fa);
+    b.resize(n, fb);
     if (sign && n) {
         a[n - 1] = negateLiteral(a[n - 1]);
         b[n - 1] = negateLiteral(b[n - 1]);
@@ -134,8 +244,8 @@ Literal Lowerer::lessThan(Bits a, Bits b, bool sign) {
     return lt;
 }
 
-Bits Lowerer::add(const Bits& a, const Bits& b, Literal cin) {
-    Bits s(a.size());
+Lits Lowerer::add(const Lits& a, const Lits& b, Literal cin) {
+    Lits s(a.size());
     Literal c = cin;
     for (std::size_t i = 0; i < a.size(); ++i) {
         Literal x = b_.xor2(a[i], b[i]);
@@ -145,19 +255,18 @@ Bits Lowerer::add(const Bits& a, const Bits& b, Literal cin) {
     return s;
 }
 
-Bits Lowerer::mul(const Bits& a, const Bits& b, int w) {
-    Bits acc(static_cast<std::size_t>(w), kFalse);
+Lits Lowerer::mul(const Lits& a, const Lits& b, int w) {
+    Lits acc(static_cast<std::size_t>(w), kFalse);
     for (int i = 0; i < w; ++i) {
-        Bits partial(static_cast<std::size_t>(w), kFalse);
+        Lits partial(static_cast<std::size_t>(w), kFalse);
         for (int j = 0; j + i < w; ++j) partial[i + j] = b_.and2(a[j], b[i]);
         acc = add(acc, partial, kFalse);
     }
     return acc;
 }
 
-Bits Lowerer::shift(const Bits& a, const Bits& amount, bool left, bool arith, int w) {
-    Bits cur = a;
-    Literal fill = arith && !left && !a.empty() ? a.back() : kFalse;
+Lits Lowerer::shift(const Lits& a, const Lits& amount, bool left, Literal fill, int w) {
+    Lits cur = a;
     Literal overflow = kFalse;
     for (std::size_t k = 0; k < amount.size(); ++k) {
         if (k >= 31 || (std::size_t{1} << k) >= static_cast<std::size_t>(w)) {
@@ -165,7 +274,7 @@ Bits Lowerer::shift(const Bits& a, const Bits& amount, bool left, bool arith, in
             continue;
         }
         int sh = 1 << k;
-        Bits next(cur.size());
+        Lits next(cur.size());
         for (int i = 0; i < w; ++i) {
             int src = left ? i - sh : i + sh;
             Literal moved = src >= 0 && src < w ? cur[src] : fill;
@@ -177,30 +286,64 @@ Bits Lowerer::shift(const Bits& a, const Bits& amount, bool left, bool arith, in
     return cur;
 }
 
-Bits Lowerer::selectElement(const Bits& v, const Bits& idx, int msb, int lsb, int ew) {
+Literal Lowerer::indexIs(const Lits& idx, bool isSigned, std::int64_t p) {
+    std::size_t n = idx.size();
+    if (n == 0) return p == 0 ? kTrue : kFalse;
+    if (n < 63) {
+        std::int64_t lo = isSigned ? -(std::int64_t{1} << (n - 1)) : 0;
+        std::int64_t hi = isSigned ? (std::int64_t{1} << (n - 1)) - 1 : (std::int64_t{1} << n) - 1;
+        if (p < lo || p > hi) return kFalse;   // a position the index cannot name
+    } else if (!isSigned && p < 0) {
+        return kFalse;
+    }
+    Lits cv(n);
+    for (std::size_t i = 0; i < n; ++i) {
+        bool bit = i < 63 ? ((static_cast<std::uint64_t>(p) >> i) & 1) : p < 0;
+        cv[i] = bit ? kTrue : kFalse;
+    }
+    return equal(idx, cv);
+}
+
+Bits Lowerer::selectElement(const Bits& v, const Bits& idx, bool idxSigned, int msb, int lsb, int ew) {
     int count = static_cast<int>(v.size()) / std::max(ew, 1);
     if (auto k = constValue(idx)) {
-        int off = dimOffset(static_cast<int>(*k), msb, lsb);
-        Bits r(static_cast<std::size_t>(ew), kFalse);
+        std::int64_t pos = static_cast<std::int64_t>(*k);
+        if (idxSigned && idx.size() < 64 && idx.size() > 0 && ((*k >> (idx.size() - 1)) & 1))
+            pos -= std::int64_t{1} << idx.size();
+        std::int64_t off = msb >= lsb ? pos - lsb : lsb - pos;
+        Bits r(static_cast<std::size_t>(ew), kRuleX);   // out of range reads x (11.5.1)
         if (off >= 0 && off < count)
-            for (int i = 0; i < ew; ++i) r[i] = v[off * ew + i];
+            for (int i = 0; i < ew; ++i) r[i] = v[static_cast<std::size_t>(off) * ew + i];
         return r;
     }
-    // Variable select: a parallel sum over the elements (the index values are exclusive).
-    Bits r(static_cast<std::size_t>(ew), kFalse);
-    std::vector<Bits> terms(static_cast<std::size_t>(ew));
+    // Variable select: a parallel sum over the positions the index can name
+    // (the conditions are exclusive); no position, or an unknown index, reads x.
+    Lits iv = values(idx);
+    std::vector<Lits> vt(static_cast<std::size_t>(ew)), xt(static_cast<std::size_t>(ew)), st(static_cast<std::size_t>(ew));
+    Lits hits;
     int lo = std::min(msb, lsb), hi = std::max(msb, lsb);
     for (int index = lo; index <= hi; ++index) {
         int off = dimOffset(index, msb, lsb);
         if (off < 0 || off >= count) continue;
-        if (index < 0) continue;
-        if (idx.size() < 63 && (std::uint64_t(index) >> idx.size()) != 0) continue;
-        Bits cv;
-        for (std::size_t i = 0; i < idx.size(); ++i) cv.push_back(i < 63 && ((std::uint64_t(index) >> i) & 1) ? kTrue : kFalse);
-        Literal sel = equal(idx, cv);
-        for (int i = 0; i < ew; ++i) terms[i].push_back(b_.and2(sel, v[off * ew + i]));
+        Literal sel = indexIs(iv, idxSigned, index);
+        if (sel == kFalse) continue;
+        hits.push_back(sel);
+        for (int i = 0; i < ew; ++i) {
+            const Bit& b = v[static_cast<std::size_t>(off) * ew + i];
+            vt[i].push_back(b_.and2(sel, b.v));
+            if (b.x != kFalse) xt[i].push_back(b_.and2(sel, b.x));
+            if (b.s != kFalse) st[i].push_back(b_.and2(sel, b.s));
+        }
     }
-    for (int i = 0; i < ew; ++i) r[i] = b_.orN(terms[i]);
+    // Out of range, or an unknown index: x by the rules (an index unknown because the
+    // source assigned x counts as a rule too: the select's x is not the author's value).
+    Literal miss = b_.or2(negateLiteral(b_.orN(hits)), anyX(idx));
+    Bits r(static_cast<std::size_t>(ew));
+    for (int i = 0; i < ew; ++i) {
+        xt[i].push_back(miss);
+        st[i].push_back(miss);
+        r[i] = {b_.orN(vt[i]), b_.orN(xt[i]), b_.orN(st[i])};
+    }
     return r;
 }
 
@@ -214,7 +357,7 @@ Bits Lowerer::readBits(SymbolId s, const std::vector<int>& offs) {
     }
     Bits r;
     r.reserve(offs.size());
-    for (int o : offs) r.push_back(o >= 0 && o < sw ? signalBit(s, o) : kFalse);
+    for (int o : offs) r.push_back(o >= 0 && o < sw ? signalBit(s, o) : kRuleX);
     return r;
 }
 
@@ -240,7 +383,8 @@ bool Lowerer::operandUndriven(ExprId id) const {
     return std::all_of(d.begin(), d.end(), [&](int mem) { return mem < 0 || !restructured_[mem]; });
 }
 
-Bits Lowerer::wordOp(ExprId id, int w, std::string_view op, bool unary) {
+Bits Lowerer::wordOp(ExprId id, int w, std::string_view op, bool unary, const Bits* a, const Bits* b, Literal x,
+                     Literal sx) {
     const Expr& e = ir_.exprs[id];
     WordOp wop;
     wop.op = std::string(op);
@@ -251,14 +395,17 @@ Bits Lowerer::wordOp(ExprId id, int w, std::string_view op, bool unary) {
     usedNames_.insert(base);
     wop.result = base;
     wop.resultWidth = w;
-    std::vector<ExprId> operands;
-    if (unary) operands.push_back(e.a);
-    else { operands.push_back(e.a); operands.push_back(e.b); }
+    std::vector<ExprId> operands{e.a};
+    std::vector<const Bits*> vals{a};
+    if (!unary) {
+        operands.push_back(e.b);
+        vals.push_back(b);
+    }
     const Expr& first = ir_.exprs[operands[0]];
     wop.isSigned = first.isSigned && (unary || ir_.exprs[operands[1]].isSigned);
     if (op == ">>>" || op == "<<<") wop.isSigned = first.isSigned;
     const char* suffix[] = {"_a", "_b"};
-    std::vector<std::pair<std::string, Bits>> pending;
+    int member = current_ ? current_->id : -1;
     for (std::size_t i = 0; i < operands.size(); ++i) {
         const Expr& o = ir_.exprs[operands[i]];
         WordOp::Operand opd;
@@ -271,19 +418,19 @@ Bits Lowerer::wordOp(ExprId id, int w, std::string_view op, bool unary) {
         }
         opd.name = base + suffix[i];
         usedNames_.insert(opd.name);
-        pending.emplace_back(opd.name, eval(operands[i]));
+        const Bits& bits = *vals[i];
+        for (std::size_t bit = 0; bit < bits.size(); ++bit) {
+            out_.net.addOutput(fmt::format("{}[{}]", opd.name, bit), bits[bit].v);
+            out_.outputBits.push_back(BitRef{opd.name, static_cast<int>(bit)});
+            out_.outputSources.push_back(OutputSource{OutputKind::WordOperand, member});
+            outputUnknown_.push_back(bits[bit].x);
+            outputRuleX_.push_back(bits[bit].s);
+        }
         wop.operands.push_back(opd);
     }
-    int member = current_ ? current_->id : -1;
-    for (auto& [name, bits] : pending)
-        for (std::size_t bit = 0; bit < bits.size(); ++bit) {
-            out_.net.addOutput(fmt::format("{}[{}]", name, bit), bits[bit]);
-            out_.outputBits.push_back(BitRef{name, static_cast<int>(bit)});
-            out_.outputSources.push_back(OutputSource{OutputKind::WordOperand, member});
-        }
     Bits r;
     for (int bit = 0; bit < w; ++bit) {
-        r.push_back(algebra::makeLiteral(out_.net.addInput(fmt::format("{}[{}]", base, bit)), false));
+        r.push_back({algebra::makeLiteral(out_.net.addInput(fmt::format("{}[{}]", base, bit)), false), x, sx});
         out_.inputBits.push_back(BitRef{base, bit});
     }
     out_.wordOps.push_back(std::move(wop));
@@ -294,20 +441,10 @@ Bits Lowerer::wordOp(ExprId id, int w, std::string_view op, bool unary) {
 
 namespace {
 
-/// Offsets (from the LSB of `value`) of the elements [first..last] of a dimension.
-std::vector<int> elementOffsets(int first, int last, int msb, int lsb, int ew, int w) {
-    std::vector<int> offs;
-    int lo = std::min(msb, lsb), hi = std::max(msb, lsb);
-    if (std::min(first, last) < lo || std::max(first, last) > hi) return offs;
-    int offLo = std::min(dimOffset(first, msb, lsb), dimOffset(last, msb, lsb));
-    for (int i = 0; i < w; ++i) offs.push_back(offLo * ew + i);
-    return offs;
-}
-
 Bits pick(const Bits& v, const std::vector<int>& offs) {
     Bits r;
     r.reserve(offs.size());
-    for (int o : offs) r.push_back(o >= 0 && o < static_cast<int>(v.size()) ? v[o] : kFalse);
+    for (int o : offs) r.push_back(o >= 0 && o < static_cast<int>(v.size()) ? v[o] : kRuleX);
     return r;
 }
 
@@ -345,17 +482,27 @@ Bits Lowerer::eval(ExprId root) {
         switch (e.kind) {
         case ExprKind::Const: {
             Bits r(static_cast<std::size_t>(w));
-            for (int i = 0; i < w; ++i) r[i] = ir_.constBit(e, static_cast<std::uint32_t>(i)) == '1' ? kTrue : kFalse;
+            for (int i = 0; i < w; ++i) {
+                char c = ir_.constBit(e, static_cast<std::uint32_t>(i));
+                // An x the source assigns as a value is the author's don't-care; an x or z
+                // anywhere else (compared with, computed with) is unknown by the rules.
+                r[i] = c == '1' ? known(kTrue) : c == '0' ? known(kFalse) : assignedX_.count(id) ? kAssignedX : kRuleX;
+            }
             done(std::move(r));
             break;
         }
         case ExprKind::Ref:
             done(evalRef(e.a, w));
             break;
-        case ExprKind::Convert:
+        case ExprKind::Convert: {
             if (f.stage++ == 0) { push(e.a); break; }
-            done(extend(std::move(vals[base]), w, ir_.exprs[e.a].isSigned));
+            Bits r = extend(std::move(vals[base]), w, ir_.exprs[e.a].isSigned);
+            if (!ir_.types[e.type].fourState)   // into a two-state type: x and z become 0 (6.11.2)
+                for (Bit& b : r)
+                    if (b.x != kFalse) b = known(b_.and2(b.v, negateLiteral(b.x)));
+            done(std::move(r));
             break;
+        }
         case ExprKind::Unary: {
             if (f.stage++ == 0) { push(e.a); break; }
             const Expr& opnd = ir_.exprs[e.a];
@@ -364,34 +511,40 @@ Bits Lowerer::eval(ExprId root) {
             UnaryOp o = e.unaryOp();
             if (o == UnaryOp::BitNot) {
                 a = extend(std::move(a), w, sign);
-                for (Literal& l : a) l = negateLiteral(l);
+                for (Bit& b : a) b = bNot(b);
                 done(std::move(a));
                 break;
             }
             if (o == UnaryOp::Plus) { done(extend(std::move(a), w, sign)); break; }
             if (o == UnaryOp::Minus) {
                 a = extend(std::move(a), w, sign);
+                Literal x = anyX(a), sx = anyS(a);
                 if (constValue(a) || opts_.bitBlastArithmetic) {
-                    Bits inv = a;
+                    Lits inv = values(a);
                     for (Literal& l : inv) l = negateLiteral(l);
-                    done(add(inv, Bits(a.size(), kFalse), kTrue));
+                    Lits s = add(inv, Lits(a.size(), kFalse), kTrue);
+                    Bits r(s.size());
+                    for (std::size_t i = 0; i < s.size(); ++i) r[i] = {s[i], x, sx};
+                    done(std::move(r));
                 } else {
-                    done(wordOp(id, w, "-", true));
+                    done(wordOp(id, w, "-", true, &a, nullptr, x, sx));
                 }
                 break;
             }
-            Literal r = kFalse;
+            Bit r;
             switch (o) {
-            case UnaryOp::LogicNot: r = negateLiteral(reduceOr(a)); break;
-            case UnaryOp::RedAnd: r = b_.andN(a); break;
-            case UnaryOp::RedNand: r = negateLiteral(b_.andN(a)); break;
-            case UnaryOp::RedOr: r = reduceOr(a); break;
-            case UnaryOp::RedNor: r = negateLiteral(reduceOr(a)); break;
+            case UnaryOp::LogicNot: r = bNot(truth(a)); break;
+            case UnaryOp::RedAnd: r = bAnd(a); break;
+            case UnaryOp::RedNand: r = bNot(bAnd(a)); break;
+            case UnaryOp::RedOr: r = bOr(a); break;
+            case UnaryOp::RedNor: r = bNot(bOr(a)); break;
             case UnaryOp::RedXor:
-            case UnaryOp::RedXnor:
-                for (Literal l : a) r = b_.xor2(r, l);
-                if (o == UnaryOp::RedXnor) r = negateLiteral(r);
+            case UnaryOp::RedXnor: {
+                Literal v = kFalse;
+                for (const Bit& b : a) v = b_.xor2(v, b.v);
+                r = {o == UnaryOp::RedXnor ? negateLiteral(v) : v, anyX(a), anyS(a)};
                 break;
+            }
             default: break;
             }
             done(extend({r}, w, false));
@@ -423,14 +576,14 @@ Bits Lowerer::eval(ExprId root) {
                     break;
                 }
                 std::size_t n = vals.size() - base;
-                Bits r(static_cast<std::size_t>(w));
                 std::vector<Bits> ext(n);
                 for (std::size_t k = 0; k < n; ++k)
                     ext[k] = extend(std::move(vals[base + k]), w, ir_.exprs[chain[f.aux + k]].isSigned);
+                Bits r(static_cast<std::size_t>(w));
                 for (int i = 0; i < w; ++i) {
                     Bits in(n);
                     for (std::size_t k = 0; k < n; ++k) in[k] = ext[k][i];
-                    r[i] = o == BinaryOp::And ? b_.andN(std::move(in)) : b_.orN(std::move(in));
+                    r[i] = o == BinaryOp::And ? bAnd(in) : bOr(in);
                 }
                 done(std::move(r));
                 break;
@@ -451,8 +604,8 @@ Bits Lowerer::eval(ExprId root) {
                 b = extend(std::move(b), w, rs);
                 Bits r(static_cast<std::size_t>(w));
                 for (int i = 0; i < w; ++i) {
-                    Literal x = b_.xor2(a[i], b[i]);
-                    r[i] = o == BinaryOp::Xor ? x : negateLiteral(x);
+                    Bit x = bXor(a[i], b[i]);
+                    r[i] = o == BinaryOp::Xor ? x : bNot(x);
                 }
                 done(std::move(r));
                 break;
@@ -461,11 +614,11 @@ Bits Lowerer::eval(ExprId root) {
             case BinaryOp::LogicOr:
             case BinaryOp::Implies:
             case BinaryOp::Equiv: {
-                Literal x = reduceOr(a), y = reduceOr(b);
-                Literal r = o == BinaryOp::LogicAnd ? b_.and2(x, y)
-                          : o == BinaryOp::LogicOr ? b_.or2(x, y)
-                          : o == BinaryOp::Implies ? b_.or2(negateLiteral(x), y)
-                                                   : negateLiteral(b_.xor2(x, y));
+                Bit x = truth(a), y = truth(b);
+                Bit r = o == BinaryOp::LogicAnd ? bAnd({x, y})
+                      : o == BinaryOp::LogicOr ? bOr({x, y})
+                      : o == BinaryOp::Implies ? bOr({bNot(x), y})
+                                               : bNot(bXor(x, y));
                 done(extend({r}, w, false));
                 break;
             }
@@ -475,65 +628,71 @@ Bits Lowerer::eval(ExprId root) {
                 std::size_t n = std::max(a.size(), b.size());
                 a = extend(std::move(a), static_cast<int>(n), both);
                 b = extend(std::move(b), static_cast<int>(n), both);
-                bool wildcard = o == BinaryOp::WildEq || o == BinaryOp::WildNe;
-                if (wildcard && rj.kind == ExprKind::Const) {
-                    // x and z bits of the right-hand constant match anything.
-                    Bits a2, b2;
-                    for (std::size_t i = 0; i < n && i < rj.width; ++i) {
-                        char c = ir_.constBit(rj, static_cast<std::uint32_t>(i));
-                        if (c == 'x' || c == 'z') continue;
-                        a2.push_back(a[i]);
-                        b2.push_back(b[i]);
-                    }
-                    a = std::move(a2);
-                    b = std::move(b2);
-                }
+                bool wild = o == BinaryOp::WildEq || o == BinaryOp::WildNe;
                 bool positive = o == BinaryOp::Eq || o == BinaryOp::CaseEq || o == BinaryOp::WildEq;
-                if (!constValue(a) && !constValue(b) && !opts_.bitBlastArithmetic) {
-                    done(wordOp(id, w, positive ? "==" : "!=", false));
+                if (!opts_.bitBlastArithmetic && !constValue(a) && !constValue(b) && allKnown(a) && allKnown(b) &&
+                    !(wild && rj.kind == ExprKind::Const)) {
+                    done(wordOp(id, w, positive ? "==" : "!=", false, &a, &b, kFalse, kFalse));
                     break;
                 }
-                Literal eq = equal(a, b);
-                done(extend({positive ? eq : negateLiteral(eq)}, w, false));
+                Bit r;
+                if (o == BinaryOp::CaseEq || o == BinaryOp::CaseNe) {
+                    // 11.4.5: x and z compare literally. With one side known this is exact;
+                    // both sides unknown would need x told apart from z.
+                    Literal xa = anyX(a), xb = anyX(b);
+                    if (xa != kFalse && xb != kFalse)
+                        keep(fmt::format("'{}' compares two values that can both be x or z", opText(o)));
+                    r = known(b_.andN({negateLiteral(xa), negateLiteral(xb), equal(values(a), values(b))}));
+                } else {
+                    r = equality(a, b, wild);
+                }
+                done(extend({positive ? r : bNot(r)}, w, false));
                 break;
             }
             case BinaryOp::Lt: case BinaryOp::Le: case BinaryOp::Gt: case BinaryOp::Ge: {
+                Literal x = b_.or2(anyX(a), anyX(b)), sx = b_.or2(anyS(a), anyS(b));
                 if (!constValue(a) && !constValue(b) && !opts_.bitBlastArithmetic) {
-                    done(wordOp(id, w, opText(o), false));
+                    done(wordOp(id, w, opText(o), false, &a, &b, x, sx));
                     break;
                 }
                 bool sign = ls && rs;
-                Literal r = o == BinaryOp::Lt ? lessThan(a, b, sign)
-                          : o == BinaryOp::Gt ? lessThan(b, a, sign)
-                          : o == BinaryOp::Le ? negateLiteral(lessThan(b, a, sign))
-                                              : negateLiteral(lessThan(a, b, sign));
-                done(extend({r}, w, false));
+                Lits av = values(a), bv = values(b);
+                Literal r = o == BinaryOp::Lt ? lessThan(av, bv, sign)
+                          : o == BinaryOp::Gt ? lessThan(bv, av, sign)
+                          : o == BinaryOp::Le ? negateLiteral(lessThan(bv, av, sign))
+                                              : negateLiteral(lessThan(av, bv, sign));
+                done(extend({Bit{r, x, sx}}, w, false));
                 break;
             }
             case BinaryOp::Add: case BinaryOp::Sub: case BinaryOp::Mul: {
                 a = extend(std::move(a), w, ls);
                 b = extend(std::move(b), w, rs);
+                Literal x = b_.or2(anyX(a), anyX(b)), sx = b_.or2(anyS(a), anyS(b));
                 bool consts = constValue(a) && constValue(b);
                 if (!consts && !opts_.bitBlastArithmetic) {
-                    done(wordOp(id, w, opText(o), false));
+                    done(wordOp(id, w, opText(o), false, &a, &b, x, sx));
                     break;
                 }
-                if (o == BinaryOp::Add) done(add(a, b, kFalse));
+                Lits av = values(a), bv = values(b), s;
+                if (o == BinaryOp::Add) s = add(av, bv, kFalse);
                 else if (o == BinaryOp::Sub) {
-                    for (Literal& l : b) l = negateLiteral(l);
-                    done(add(a, b, kTrue));
+                    for (Literal& l : bv) l = negateLiteral(l);
+                    s = add(av, bv, kTrue);
                 } else {
-                    done(mul(a, b, w));
+                    s = mul(av, bv, w);
                 }
+                Bits r(s.size());
+                for (std::size_t i = 0; i < s.size(); ++i) r[i] = {s[i], x, sx};
+                done(std::move(r));
                 break;
             }
             case BinaryOp::Shl: case BinaryOp::Shr: case BinaryOp::AShl: case BinaryOp::AShr: {
                 a = extend(std::move(a), w, ls);
                 bool left = o == BinaryOp::Shl || o == BinaryOp::AShl;
                 bool arith = o == BinaryOp::AShr && ls;
+                Bit fill = arith ? a.back() : known(kFalse);
                 if (auto k = constValue(b)) {
                     Bits r(static_cast<std::size_t>(w));
-                    Literal fill = arith ? a.back() : kFalse;
                     for (int i = 0; i < w; ++i) {
                         std::int64_t src = left ? static_cast<std::int64_t>(i) - static_cast<std::int64_t>(*k)
                                                 : static_cast<std::int64_t>(i) + static_cast<std::int64_t>(*k);
@@ -542,11 +701,29 @@ Bits Lowerer::eval(ExprId root) {
                     done(std::move(r));
                     break;
                 }
+                // 11.4.10: an unknown shift amount gives x; unknown bits move with the value.
+                Literal amountX = anyX(b), amountS = anyS(b);
+                Lits bv = values(b);
+                Bits r(static_cast<std::size_t>(w));
+                Lits xs(static_cast<std::size_t>(w), kFalse), ss(static_cast<std::size_t>(w), kFalse);
+                if (!allKnown(a) || fill.x != kFalse) {
+                    Lits ax(a.size()), as(a.size());
+                    for (std::size_t i = 0; i < a.size(); ++i) ax[i] = a[i].x, as[i] = a[i].s;
+                    xs = shift(ax, bv, left, fill.x, w);
+                    ss = shift(as, bv, left, fill.s, w);
+                }
                 if (!opts_.bitBlastArithmetic) {
-                    done(wordOp(id, w, opText(o), false));
+                    Bits rw = wordOp(id, w, opText(o), false, &a, &b, kFalse, kFalse);
+                    for (int i = 0; i < w; ++i) {
+                        rw[i].x = b_.or2(xs[i], amountX);
+                        rw[i].s = b_.or2(ss[i], amountS);
+                    }
+                    done(std::move(rw));
                     break;
                 }
-                done(shift(a, b, left, arith, w));
+                Lits vs = shift(values(a), bv, left, fill.v, w);
+                for (int i = 0; i < w; ++i) r[i] = {vs[i], b_.or2(xs[i], amountX), b_.or2(ss[i], amountS)};
+                done(std::move(r));
                 break;
             }
             default:
@@ -561,11 +738,11 @@ Bits Lowerer::eval(ExprId root) {
                 break;
             }
             if (f.stage == 1) {
-                Literal c = reduceOr(vals[base]);
+                Bit c = truth(vals[base]);
                 vals.resize(base);
-                if (c == kTrue || c == kFalse) {
+                if (c.x == kFalse && (c.v == kTrue || c.v == kFalse)) {
                     f.stage = 3;
-                    f.aux = c == kTrue ? e.b : e.c;
+                    f.aux = c.v == kTrue ? e.b : e.c;
                     push(f.aux);
                 } else {
                     f.stage = 2;
@@ -580,11 +757,11 @@ Bits Lowerer::eval(ExprId root) {
                 done(extend(std::move(vals[base]), w, sign));
                 break;
             }
-            Literal c = vals[base][0];
+            Bit c = vals[base][0];
             Bits t = extend(std::move(vals[base + 1]), w, ir_.exprs[e.b].isSigned);
             Bits el = extend(std::move(vals[base + 2]), w, ir_.exprs[e.c].isSigned);
             Bits r(static_cast<std::size_t>(w));
-            for (int i = 0; i < w; ++i) r[i] = b_.mux(c, t[i], el[i]);
+            for (int i = 0; i < w; ++i) r[i] = bCond(c, t[i], el[i]);
             done(std::move(r));
             break;
         }
@@ -612,20 +789,26 @@ Bits Lowerer::eval(ExprId root) {
         }
         case ExprKind::Index: {
             const Expr& value = ir_.exprs[e.a];
+            bool idxSigned = ir_.exprs[e.b].isSigned;
             if (f.stage == 0) {
                 f.stage = 1;
                 push(e.b);
                 break;
             }
             if (f.stage == 1) {
-                auto k = constValue(vals[base]);
+                const Bits& idx = vals[base];
+                auto k = constValue(idx);
                 if (k && value.kind == ExprKind::Ref) {
                     // Read only the selected element: earlier bits of a vector may be
                     // assigned before later ones are (prefix chains in a loop).
-                    int off = dimOffset(static_cast<int>(*k), e.msb, e.lsb);
-                    int count = std::abs(e.msb - e.lsb) + 1;
+                    std::int64_t pos = static_cast<std::int64_t>(*k);
+                    if (idxSigned && idx.size() < 64 && !idx.empty() && ((*k >> (idx.size() - 1)) & 1))
+                        pos -= std::int64_t{1} << idx.size();
+                    std::int64_t off = e.msb >= e.lsb ? pos - e.lsb : e.lsb - pos;
+                    std::int64_t count = std::abs(static_cast<std::int64_t>(e.msb) - e.lsb) + 1;
                     std::vector<int> offs;
-                    for (int i = 0; i < w; ++i) offs.push_back(off >= 0 && off < count ? off * w + i : -1);
+                    for (int i = 0; i < w; ++i)
+                        offs.push_back(off >= 0 && off < count ? static_cast<int>(off * w + i) : -1);
                     done(readBits(value.a, offs));
                     break;
                 }
@@ -633,7 +816,7 @@ Bits Lowerer::eval(ExprId root) {
                 push(e.a);
                 break;
             }
-            done(selectElement(vals[base + 1], vals[base], e.msb, e.lsb, w));
+            done(selectElement(vals[base + 1], vals[base], idxSigned, e.msb, e.lsb, w));
             break;
         }
         case ExprKind::Range: {
@@ -654,13 +837,31 @@ Bits Lowerer::eval(ExprId root) {
         }
         case ExprKind::Indexed: {
             const Expr& value = ir_.exprs[e.a];
+            bool baseSigned = ir_.exprs[e.b].isSigned;
             int lo = std::min(e.msb, e.lsb), hi = std::max(e.msb, e.lsb);
             int n = hi - lo + 1;
             int ew = std::max(1, static_cast<int>(value.width) / n);   // element width of the selected dimension
             int count = std::max(1, w / ew);                           // elements selected
-            auto offsetsFrom = [&](int start) {
-                int last = e.up ? start + count - 1 : start - count + 1;
-                return elementOffsets(start, last, e.msb, e.lsb, ew, w);
+            // Offsets of each selected bit for a base position; a bit outside the
+            // dimension reads x (11.5.1), the others read their bits.
+            auto offsetsFrom = [&](std::int64_t start) {
+                std::int64_t first = e.up ? start : start - count + 1;   // lowest index selected
+                std::vector<int> offs(static_cast<std::size_t>(w), -1);
+                for (int el = 0; el < count; ++el) {
+                    std::int64_t index = first + el;
+                    if (index < lo || index > hi) continue;
+                    int off = dimOffset(static_cast<int>(index), e.msb, e.lsb);
+                    // element `el` counts from the low index; in offsets it is the low end
+                    // when the range descends, the high end when it ascends.
+                    int slot = e.msb >= e.lsb ? el : count - 1 - el;
+                    for (int i = 0; i < ew; ++i) offs[static_cast<std::size_t>(slot * ew + i)] = off * ew + i;
+                }
+                return offs;
+            };
+            auto toPos = [&](std::uint64_t k, std::size_t width) {
+                std::int64_t p = static_cast<std::int64_t>(k);
+                if (baseSigned && width < 64 && width > 0 && ((k >> (width - 1)) & 1)) p -= std::int64_t{1} << width;
+                return p;
             };
             if (f.stage == 0) {
                 f.stage = 1;
@@ -668,11 +869,10 @@ Bits Lowerer::eval(ExprId root) {
                 break;
             }
             if (f.stage == 1) {
-                auto k = constValue(vals[base]);
-                if (k) {
-                    auto offs = offsetsFrom(static_cast<int>(*k));
-                    if (offs.empty()) { done(Bits(static_cast<std::size_t>(w), kFalse)); break; }
-                    if (value.kind == ExprKind::Ref) { done(readBits(value.a, offs)); break; }
+                const Bits& baseBits = vals[base];
+                if (auto k = constValue(baseBits); k && value.kind == ExprKind::Ref) {
+                    done(readBits(value.a, offsetsFrom(toPos(*k, baseBits.size()))));
+                    break;
                 }
                 f.stage = 2;
                 push(e.a);
@@ -681,24 +881,35 @@ Bits Lowerer::eval(ExprId root) {
             const Bits& baseBits = vals[base];
             const Bits& v = vals[base + 1];
             if (auto k = constValue(baseBits)) {
-                auto offs = offsetsFrom(static_cast<int>(*k));
-                done(offs.empty() ? Bits(static_cast<std::size_t>(w), kFalse) : pick(v, offs));
+                done(pick(v, offsetsFrom(toPos(*k, baseBits.size()))));
                 break;
             }
-            std::vector<Bits> terms(static_cast<std::size_t>(w));
-            for (int start = lo; start <= hi; ++start) {
+            // Every base the select can start at with some bit in range; any other base,
+            // or an unknown one, reads x.
+            Lits bv = values(baseBits);
+            std::vector<Lits> vt(static_cast<std::size_t>(w)), xt(static_cast<std::size_t>(w)),
+                st(static_cast<std::size_t>(w));
+            Lits hits;
+            for (std::int64_t start = lo - count + 1; start <= hi + count - 1; ++start) {
+                Literal sel = indexIs(bv, baseSigned, start);
+                if (sel == kFalse) continue;
                 auto offs = offsetsFrom(start);
-                if (offs.empty()) continue;
-                if (start < 0 || (baseBits.size() < 63 && (std::uint64_t(start) >> baseBits.size()) != 0)) continue;
-                Bits cv;
-                for (std::size_t i = 0; i < baseBits.size(); ++i)
-                    cv.push_back(i < 63 && ((std::uint64_t(start) >> i) & 1) ? kTrue : kFalse);
-                Literal sel = equal(baseBits, cv);
-                for (int i = 0; i < w; ++i)
-                    terms[i].push_back(b_.and2(sel, offs[i] < static_cast<int>(v.size()) ? v[offs[i]] : kFalse));
+                hits.push_back(sel);
+                for (int i = 0; i < w; ++i) {
+                    int o = offs[static_cast<std::size_t>(i)];
+                    Bit b = o >= 0 && o < static_cast<int>(v.size()) ? v[o] : kRuleX;
+                    vt[i].push_back(b_.and2(sel, b.v));
+                    if (b.x != kFalse) xt[i].push_back(b_.and2(sel, b.x));
+                    if (b.s != kFalse) st[i].push_back(b_.and2(sel, b.s));
+                }
             }
+            Literal miss = b_.or2(negateLiteral(b_.orN(hits)), anyX(baseBits));
             Bits r(static_cast<std::size_t>(w));
-            for (int i = 0; i < w; ++i) r[i] = b_.orN(terms[i]);
+            for (int i = 0; i < w; ++i) {
+                xt[i].push_back(miss);
+                st[i].push_back(miss);
+                r[i] = {b_.orN(vt[i]), b_.orN(xt[i]), b_.orN(st[i])};
+            }
             done(std::move(r));
             break;
         }

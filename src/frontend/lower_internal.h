@@ -1,6 +1,17 @@
 // lower_internal.h — the lowering's shared state, used by lower_expr.cpp
 // (expressions), lower_stmt.cpp (statements and targets) and
 // lower_module.cpp (drivers, member order, outputs). Private to src/frontend.
+//
+// Values are four-valued (IEEE 1800-2017 6.3.1): every bit is its value and
+// an "unknown" flag that is true where the bit is x or z (a dual-rail
+// encoding), plus a third flag for unknowns that come from the language's
+// rules rather than from the author: a select out of range, a comparison
+// with an x/z constant. Ports and signals from kept code are taken as 0/1.
+// An output that can be x only because the source assigns x (the synthesis
+// reading of IEEE 1364.1 / 1800) has that as its don't-care condition
+// (Lowered::dontCares); a statement whose value can be x for any other
+// reason, or whose x would reach kept code (which may turn it into 0 or 1),
+// is kept as written.
 #pragma once
 
 #include "kerf/frontend/lower.h"
@@ -20,12 +31,31 @@ using net::kFalse;
 using net::kTrue;
 using net::Literal;
 
-using Bits = std::vector<Literal>;
+using Lits = std::vector<Literal>;
+
+/// One four-valued bit: `v` its value, `x` true where it is unknown (then `v` does
+/// not matter), `s` true where it is unknown by a rule of the language rather than
+/// by an x the source assigns (s implies x).
+struct Bit {
+    Literal v = kFalse;
+    Literal x = kFalse;
+    Literal s = kFalse;
+    bool operator==(const Bit&) const = default;
+    bool operator<(const Bit& o) const { return v != o.v ? v < o.v : x != o.x ? x < o.x : s < o.s; }
+};
+using Bits = std::vector<Bit>;
+
+inline Bit known(Literal v) { return {v, kFalse, kFalse}; }
+/// An x the source assigns as a value (a don't-care).
+inline constexpr Bit kAssignedX{kFalse, kTrue, kFalse};
+/// An x by the language's rules (a select out of range, ...).
+inline constexpr Bit kRuleX{kFalse, kTrue, kTrue};
 
 constexpr Literal kUnassigned = 0xFFFFFFFFu;  // never assigned in this block
 constexpr Literal kPartial = 0xFFFFFFFEu;     // assigned on some paths only
 constexpr Literal kExternal = 0xFFFFFFFDu;    // not written by this block: read from outside
 inline bool isSentinel(Literal l) { return l >= kExternal; }
+inline bool isSentinel(Bit b) { return isSentinel(b.v); }
 inline bool isConst(Literal l) { return l == kFalse || l == kTrue; }
 
 /// Node construction with constant folding (not structural hashing: that is
@@ -35,20 +65,22 @@ public:
     explicit Builder(net::Network& n) : net_(n) {}
     SourceLoc loc;
 
-    Literal andN(Bits in);
-    Literal orN(Bits in);
+    Literal andN(Lits in);
+    Literal orN(Lits in);
     Literal and2(Literal a, Literal b) { return andN({a, b}); }
     Literal or2(Literal a, Literal b) { return orN({a, b}); }
     Literal xor2(Literal a, Literal b);
     Literal mux(Literal s, Literal t, Literal e);
 
 private:
-    Literal sop(std::vector<Bits> cubes);
+    Literal sop(std::vector<Lits> cubes);
     net::Network& net_;
 };
 
+/// The value of bits that are all known constants (at most 64 of them).
 std::optional<std::uint64_t> constValue(const Bits& b);
 Bits extend(Bits b, int width, bool sign);
+Lits values(const Bits& b);
 inline int dimOffset(int index, int msb, int lsb) { return msb >= lsb ? index - lsb : lsb - index; }
 
 /// Members are lowered one at a time; inside a combinational block the
@@ -57,43 +89,78 @@ struct Env {
     std::map<SymbolId, Bits> vars;
 };
 
+/// Thrown while lowering a member that must be kept as written after all
+/// (something only the lowering finds out); the module is lowered again with
+/// the member kept.
+struct KeepMember {
+    int member;
+    std::string reason;
+};
+
 class Lowerer {
 public:
-    Lowerer(const ModuleDesc& m, const LowerOptions& o);
+    Lowerer(const ModuleDesc& m, const LowerOptions& o, const std::map<int, std::string>& forcedKept);
     Lowered run();
 
     // -- module assembly (lower_module.cpp)
-    Literal signalBit(SymbolId sym, int off);
-    Literal inputBit(SymbolId sym, int off);
-    void recordBit(SymbolId sym, int off, Literal l);
+    Bit signalBit(SymbolId sym, int off);
+    Bit inputBit(SymbolId sym, int off);
+    void recordBit(SymbolId sym, int off, Bit b);
     void lowerMember(int idx);
     [[noreturn]] void fail(const std::string& msg, const SourceLoc& loc, ExitCode c = ExitCode::InputError) const {
         throw Error(msg, loc, c);
     }
+    [[noreturn]] void keep(const std::string& reason) const;
     /// Location of an expression or statement range of the member being lowered.
     SourceLoc here(std::uint32_t start) const;
     std::string bitName(SymbolId sym, int off) const;
     const Symbol& sym(SymbolId s) const { return ir_.symbols[s]; }
     bool isLocal(SymbolId s) const { return ir_.symbols[s].local; }
 
+    // -- four-valued bit operations (lower_expr.cpp)
+    Literal anyX(const Bits& a);
+    Literal anyS(const Bits& a);
+    /// The rule flag of a result that is unknown where `x` is: unknown by a rule when
+    /// an operand was (conservative: a mixed cause counts as a rule).
+    Literal ruleOf(Literal x, Literal operandsS) { return b_.and2(x, operandsS); }
+    Bit bNot(Bit a) { return {negateLiteral(a.v), a.x, a.s}; }
+    Bit bAnd(const Bits& in);
+    Bit bOr(const Bits& in);
+    Bit bXor(Bit a, Bit b) { return {b_.xor2(a.v, b.v), b_.or2(a.x, b.x), b_.or2(a.s, b.s)}; }
+    /// `s ? t : e` with a known select.
+    Bit bMux(Literal s, Bit t, Bit e) { return {b_.mux(s, t.v, e.v), b_.mux(s, t.x, e.x), b_.mux(s, t.s, e.s)}; }
+    /// `s ? t : e` (11.4.11: an unknown select merges the two values bit by bit).
+    Bit bCond(Bit s, Bit t, Bit e);
+    /// The logical value of a vector (11.4.7): 1 if a bit is 1, 0 if all are 0, else x.
+    Bit truth(const Bits& a);
+    /// `a == b` (11.4.5); `wild` treats the unknown bits of `b` as wildcards (`==?`, 11.4.6).
+    Bit equality(const Bits& a, const Bits& b, bool wild = false);
+
     // -- expressions (lower_expr.cpp)
     Bits eval(ExprId e);
-    Literal reduceOr(const Bits& b) { return b_.orN(b); }
-    Literal equal(const Bits& a, const Bits& b);
-    Literal lessThan(Bits a, Bits b, bool sign);
-    Bits add(const Bits& a, const Bits& b, Literal cin);
-    Bits mul(const Bits& a, const Bits& b, int w);
-    Bits shift(const Bits& a, const Bits& amount, bool left, bool arith, int w);
-    Bits selectElement(const Bits& v, const Bits& idx, int msb, int lsb, int ew);
+    Literal equal(const Lits& a, const Lits& b);
+    Literal lessThan(Lits a, Lits b, bool sign);
+    Lits add(const Lits& a, const Lits& b, Literal cin);
+    Lits mul(const Lits& a, const Lits& b, int w);
+    Lits shift(const Lits& a, const Lits& amount, bool left, Literal fill, int w);
+    /// Literal true when `idx` (its own width and signedness) equals the position `p`;
+    /// false when `p` is a value `idx` cannot take.
+    Literal indexIs(const Lits& idx, bool isSigned, std::int64_t p);
+    Bits selectElement(const Bits& v, const Bits& idx, bool idxSigned, int msb, int lsb, int ew);
     Bits evalRef(SymbolId s, int width);
     Bits readBits(SymbolId s, const std::vector<int>& offs);
-    Bits wordOp(ExprId e, int w, std::string_view op, bool unary);
+    Bits wordOp(ExprId e, int w, std::string_view op, bool unary, const Bits* a, const Bits* b, Literal x,
+                Literal sx);
     bool operandUndriven(ExprId e) const;
 
     // -- statements and targets (lower_stmt.cpp)
     void exec(StmtId s);
     void execCase(StmtId s);
     void mergeInto(Env& target, const Env& other, Literal cond);
+    /// Bits a block leaves unassigned on a path that cannot happen by the source's
+    /// own statement (an incomplete `unique`/`priority` case or if, `(* full_case *)`)
+    /// become don't-cares.
+    void unassignedToUnknown(Env& env);
     void assignTarget(ExprId lv, const Bits& rhs, bool inBlock);
     void targetWriteSet(ExprId lv, std::vector<std::pair<SymbolId, int>>& out) const;
     void stmtWriteSet(StmtId s, std::vector<std::pair<SymbolId, int>>& out) const;
@@ -103,6 +170,7 @@ public:
     const ModuleDesc& m_;
     const Ir& ir_;
     LowerOptions opts_;
+    std::map<int, std::string> forcedKept_;    // member index -> why it is kept after all
     Lowered out_;
     Builder b_;
     std::vector<const Member*> members_;
@@ -114,6 +182,9 @@ public:
     std::vector<std::uint8_t> keptReads_;      // per symbol: read by kept code
     std::vector<std::uint8_t> cut_;            // per symbol: `(* keep *)` / --keep: never restructured through
     std::vector<std::uint8_t> mentioned_;      // per symbol: named by kept code (inactive branches included)
+    std::vector<Literal> outputUnknown_;       // per network output: its unknown flag
+    std::vector<Literal> outputRuleX_;         // per network output: unknown by a rule of the language
+    std::set<ExprId> assignedX_;               // constants whose x bits the current member assigns as values
     Env* env_ = nullptr;                       // current combinational block
     const Member* current_ = nullptr;
     int depth_ = 0;                            // nesting of on-demand member lowering
@@ -127,5 +198,8 @@ public:
 
 /// Every expression reachable from a member's statements and targets, each once.
 std::vector<ExprId> memberExprs(const Ir& ir, const Member& m);
+/// Constants a member assigns as values (through ?:, concatenations, conversions):
+/// their x bits are the author's don't-cares.
+void collectAssignedX(const Ir& ir, const Member& m, std::set<ExprId>& out);
 
 } // namespace kerf::frontend::detail

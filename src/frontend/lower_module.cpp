@@ -24,7 +24,12 @@ constexpr int kMaxMemberDepth = 20000;
 
 } // namespace
 
-Lowerer::Lowerer(const ModuleDesc& m, const LowerOptions& o) : m_(m), ir_(m.ir), opts_(o), b_(out_.net) {}
+Lowerer::Lowerer(const ModuleDesc& m, const LowerOptions& o, const std::map<int, std::string>& forcedKept)
+    : m_(m), ir_(m.ir), opts_(o), forcedKept_(forcedKept), b_(out_.net) {}
+
+void Lowerer::keep(const std::string& reason) const {
+    throw KeepMember{current_ ? current_->id : -1, reason};
+}
 
 SourceLoc Lowerer::here(std::uint32_t start) const {
     if (!current_) return {};
@@ -37,35 +42,36 @@ std::string Lowerer::bitName(SymbolId s, int off) const {
     return frontend::bitName(m_, BitRef{sig->name, off});
 }
 
-Literal Lowerer::inputBit(SymbolId s, int off) {
+Bit Lowerer::inputBit(SymbolId s, int off) {
+    // Ports and signals from kept code are taken as 0/1 (the proof's model).
     auto& v = inputLits_[s];
-    if (v.empty()) v.assign(static_cast<std::size_t>(std::max(ir_.symbols[s].width, 1)), kUnassigned);
-    if (off < 0 || off >= static_cast<int>(v.size())) return kFalse;
-    if (v[off] == kUnassigned) {
+    if (v.empty()) v.assign(static_cast<std::size_t>(std::max(ir_.symbols[s].width, 1)), known(kUnassigned));
+    if (off < 0 || off >= static_cast<int>(v.size())) return kRuleX;
+    if (v[off].v == kUnassigned) {
         BitRef br{ir_.symbols[s].name, off};
-        v[off] = algebra::makeLiteral(out_.net.addInput(bitName(s, off)), false);
+        v[off] = known(algebra::makeLiteral(out_.net.addInput(bitName(s, off)), false));
         out_.inputBits.push_back(br);
     }
     return v[off];
 }
 
-void Lowerer::recordBit(SymbolId s, int off, Literal l) {
+void Lowerer::recordBit(SymbolId s, int off, Bit b) {
     auto& v = value_[s];
     int w = ir_.symbols[s].width;
-    if (v.empty()) v.assign(static_cast<std::size_t>(w), kUnassigned);
+    if (v.empty()) v.assign(static_cast<std::size_t>(w), known(kUnassigned));
     if (off < 0 || off >= w) return;
-    v[off] = l;
-    net::NodeId id = algebra::literalVar(l);
+    v[off] = b;
+    net::NodeId id = algebra::literalVar(b.v);
     if (out_.net.isLogic(id) && out_.net.node(id).name.empty()) out_.net.node(id).name = bitName(s, off);
 }
 
-Literal Lowerer::signalBit(SymbolId s, int off) {
+Bit Lowerer::signalBit(SymbolId s, int off) {
     if (env_) {
         auto it = env_->vars.find(s);
         if (it != env_->vars.end() && off < static_cast<int>(it->second.size())) {
-            Literal l = it->second[off];
+            Bit l = it->second[off];
             if (!isSentinel(l)) return l;
-            if (l != kExternal) {
+            if (l.v != kExternal) {
                 const char* what = isLocal(s) ? "is read before it is assigned"
                                               : "is read before this block assigns it (a combinational loop or a latch)";
                 fail(fmt::format("'{}' {}", ir_.symbols[s].name, what), current_->src.loc());
@@ -79,11 +85,11 @@ Literal Lowerer::signalBit(SymbolId s, int off) {
     int dm = d[off];
     if (dm < 0 || !restructured_[dm]) return inputBit(s, off);
     auto& v = value_[s];
-    if (v.empty() || v[off] == kUnassigned) {
+    if (v.empty() || v[off].v == kUnassigned) {
         resolving_.emplace_back(dm, s);
         lowerMember(dm);
         resolving_.pop_back();
-        if (value_[s].empty() || value_[s][off] == kUnassigned)
+        if (value_[s].empty() || value_[s][off].v == kUnassigned)
             fail(fmt::format("'{}' is not driven by the statement that claims it", bitName(s, off)),
                  members_[dm]->src.loc(), ExitCode::Internal);
     }
@@ -120,6 +126,9 @@ void Lowerer::lowerMember(int idx) {
     ++depth_;
     const Member* savedCurrent = current_;
     Env* savedEnv = env_;
+    std::set<ExprId> savedAssignedX = std::move(assignedX_);
+    assignedX_.clear();
+    collectAssignedX(ir_, mem, assignedX_);
     current_ = &mem;
     b_.loc = mem.src.loc();
     if (mem.kind == MemberKind::Assign) {
@@ -130,21 +139,21 @@ void Lowerer::lowerMember(int idx) {
     } else {
         Env env;
         env_ = &env;
-        for (SymbolId l : mem.locals) env.vars[l].assign(static_cast<std::size_t>(ir_.symbols[l].width), kUnassigned);
+        for (SymbolId l : mem.locals) env.vars[l].assign(static_cast<std::size_t>(ir_.symbols[l].width), known(kUnassigned));
         std::vector<std::pair<SymbolId, int>> writes;
         stmtWriteSet(mem.body, writes);
         std::sort(writes.begin(), writes.end());
         writes.erase(std::unique(writes.begin(), writes.end()), writes.end());
         for (auto& [s, off] : writes) {
             auto& v = env.vars[s];
-            if (v.empty()) v.assign(static_cast<std::size_t>(ir_.symbols[s].width), kExternal);
-            v[off] = kUnassigned;
+            if (v.empty()) v.assign(static_cast<std::size_t>(ir_.symbols[s].width), known(kExternal));
+            v[off] = known(kUnassigned);
         }
         exec(mem.body);
         b_.loc = mem.src.loc();
         for (auto& [s, off] : writes) {
-            Literal l = env.vars[s][off];
-            if (l == kPartial || l == kUnassigned)
+            Bit l = env.vars[s][off];
+            if (l.v == kPartial || l.v == kUnassigned)
                 fail(fmt::format("'{}' is not assigned on every path through this combinational block, "
                                  "so it would hold its value (a latch); assign it a default at the top of the block",
                                  bitName(s, off)), mem.src.loc());
@@ -153,6 +162,7 @@ void Lowerer::lowerMember(int idx) {
     }
     current_ = savedCurrent;
     env_ = savedEnv;
+    assignedX_ = std::move(savedAssignedX);
     --depth_;
     state_[idx] = 2;
 }
@@ -193,6 +203,7 @@ Lowered Lowerer::run() {
         std::string what = mem.kind == MemberKind::Assign ? "assign" : mem.style == "always_star" ? "always" : mem.style;
         std::string why;
         if (!moduleFile.empty() && mem.src.file != moduleFile) why = "it comes from another file";
+        else if (auto f = forcedKept_.find(static_cast<int>(i)); f != forcedKept_.end()) why = f->second;
         else why = unsupportedReason(mem);
         if (!why.empty()) {
             out_.notes.push_back(fmt::format("{}: left as written: {}", mem.src.loc().str(), why));
@@ -240,8 +251,8 @@ Lowered Lowerer::run() {
             if (prev >= 0 && prev != mine && (restructured_[prev] || restructured_[i])) {
                 const Member& other = *members_[prev];
                 current_ = nullptr;
-                fail(fmt::format("'{}' has more than one driver: this {} and the one at {}", bitName(s, off),
-                                 restructured_[i] ? "statement" : "code", other.src.loc().str()),
+                fail(fmt::format("'{}' has more than one driver (also driven at {})", bitName(s, off),
+                                 other.src.loc().str()),
                      mem.src.loc());
             }
             if (prev < 0 || restructured_[i]) d[off] = mine;
@@ -263,26 +274,47 @@ Lowered Lowerer::run() {
         ds.erase(std::unique(ds.begin(), ds.end()), ds.end());
         deps[i] = std::move(ds);
     }
+    // Strongly connected components (Tarjan, iterative) come out dependencies first; the
+    // members of one component, which may or may not form a real loop bit by bit, are
+    // lowered in source order, as a reader of the source would follow them.
     std::vector<int> order;
     {
-        std::vector<std::uint8_t> mark(n, 0);
-        std::vector<std::pair<int, std::size_t>> stack;
+        std::vector<int> index(n, -1), low(n, 0);
+        std::vector<std::uint8_t> onStack(n, 0);
+        std::vector<int> sccStack;
+        std::vector<std::pair<int, std::size_t>> call;
+        int counter = 0;
         for (std::size_t r = 0; r < n; ++r) {
-            if (!restructured_[r] || mark[r]) continue;
-            stack.push_back({static_cast<int>(r), 0});
-            mark[r] = 1;
-            while (!stack.empty()) {
-                auto& [v, k] = stack.back();
+            if (!restructured_[r] || index[r] >= 0) continue;
+            call.push_back({static_cast<int>(r), 0});
+            while (!call.empty()) {
+                auto [v, k] = call.back();
+                if (k == 0 && index[v] < 0) {
+                    index[v] = low[v] = counter++;
+                    sccStack.push_back(v);
+                    onStack[v] = 1;
+                }
                 if (k < deps[v].size()) {
-                    int d = deps[v][k++];
-                    if (!mark[d]) {
-                        mark[d] = 1;
-                        stack.push_back({d, 0});
-                    }
+                    call.back().second = k + 1;
+                    int d = deps[v][k];
+                    if (index[d] < 0) call.push_back({d, 0});
+                    else if (onStack[d]) low[v] = std::min(low[v], index[d]);
                     continue;
                 }
-                order.push_back(v);
-                stack.pop_back();
+                call.pop_back();
+                if (!call.empty()) low[call.back().first] = std::min(low[call.back().first], low[v]);
+                if (low[v] == index[v]) {
+                    std::vector<int> comp;
+                    int x;
+                    do {
+                        x = sccStack.back();
+                        sccStack.pop_back();
+                        onStack[x] = 0;
+                        comp.push_back(x);
+                    } while (x != v);
+                    std::sort(comp.begin(), comp.end());
+                    order.insert(order.end(), comp.begin(), comp.end());
+                }
             }
         }
     }
@@ -313,12 +345,45 @@ Lowered Lowerer::run() {
             continue;
         }
         for (int b = 0; b < sig.width; ++b) {
-            if (value_[s][b] == kUnassigned) continue;
-            out_.net.addOutput(frontend::bitName(m_, {name, b}), value_[s][b]);
+            if (value_[s][b].v == kUnassigned) continue;
+            out_.net.addOutput(frontend::bitName(m_, {name, b}), value_[s][b].v);
             out_.outputBits.push_back(BitRef{name, b});
             int member = b < static_cast<int>(d.size()) && d[b] >= 0 ? members_[d[b]]->id : -1;
             out_.outputSources.push_back(OutputSource{port ? OutputKind::Port : OutputKind::Internal, member});
+            outputUnknown_.push_back(value_[s][b].x);
+            outputRuleX_.push_back(value_[s][b].s);
         }
+    }
+    // Unknown output bits are don't-cares (the synthesis reading of x, IEEE 1364.1 /
+    // 1800): the proof compares only where they are known. --keep-x keeps their statements.
+    // An x by the language's rules (not assigned by the author) is never a don't-care,
+    // and neither is an x that reaches kept code, which may turn it into 0 or 1: those
+    // statements are kept as written, so the x stays exactly where the source has it.
+    for (std::size_t i = 0; i < outputUnknown_.size(); ++i) {
+        if (outputUnknown_[i] == kFalse) continue;
+        int member = out_.outputSources[i].member;
+        const BitRef& br = out_.outputBits[i];
+        auto sit = m_.signals.find(br.signal);
+        bool toKept = sit != m_.signals.end() && sit->second.symbol != kNoId &&
+                      (keptReads_[sit->second.symbol] || mentioned_[sit->second.symbol]);
+        if (member >= 0) {
+            current_ = members_[static_cast<std::size_t>(member)];
+            if (outputRuleX_[i] != kFalse)
+                keep(fmt::format("'{}' can be x by the language's rules (a select out of range, a comparison with "
+                                 "x or z, ...), which kerf does not turn into a don't-care",
+                                 frontend::bitName(m_, br)));
+            if (toKept) keep(fmt::format("its x reaches code kept as written through '{}'", br.signal));
+            if (opts_.keepX) keep("its value can be x, which kerf reads as a don't-care; --keep-x keeps it as written");
+        }
+        ++out_.dontCareBits;
+    }
+    if (out_.dontCareBits > 0) {
+        out_.dontCares = out_.net;
+        out_.dontCares.outputs().clear();
+        for (std::size_t i = 0; i < outputUnknown_.size(); ++i)
+            if (outputUnknown_[i] != kFalse) out_.dontCares.addOutput(out_.net.outputs()[i].name, outputUnknown_[i]);
+        out_.dontCares.removeUnreachable();
+        out_.net.removeUnreachable();
     }
     // Module-scope loop variables that the reader made block-local go with their blocks
     // only when internal signals are dissolved; otherwise their declarations stay.
@@ -359,8 +424,19 @@ std::string bitName(const ModuleDesc& m, const BitRef& b) {
 }
 
 Lowered lower(const ModuleDesc& m, const LowerOptions& opts) {
-    detail::Lowerer l(m, opts);
-    return l.run();
+    // A member the lowering finds it must keep after all is kept, and the module lowered again.
+    std::map<int, std::string> forced;
+    for (;;) {
+        try {
+            detail::Lowerer l(m, opts, forced);
+            return l.run();
+        } catch (const detail::KeepMember& k) {
+            if (k.member < 0 || forced.count(k.member))
+                throw Error(fmt::format("lowering kept asking to keep member {} ({})", k.member, k.reason), {},
+                            ExitCode::Internal);
+            forced[k.member] = k.reason;
+        }
+    }
 }
 
 } // namespace kerf::frontend

@@ -149,9 +149,105 @@ std::string targetReason(const Ir& ir, ExprId lv) {
     return {};
 }
 
+/// True when a constant holding `c` ('z' or 'x') can reach the value of an assignment
+/// unchanged: through ?: branches, concatenations, replications, conversions and selects.
+bool valueCarries(const Ir& ir, ExprId rhs, char c) {
+    std::vector<ExprId> work{rhs};
+    while (!work.empty()) {
+        const Expr& e = ir.expr(work.back());
+        work.pop_back();
+        switch (e.kind) {
+        case ExprKind::Const:
+            for (std::uint32_t i = 0; i < e.width; ++i)
+                if (ir.constBit(e, i) == c) return true;
+            break;
+        case ExprKind::Cond: work.push_back(e.b); work.push_back(e.c); break;
+        case ExprKind::Concat:
+            for (std::uint32_t k = 0; k < e.b; ++k) work.push_back(ir.lists[e.a + k]);
+            break;
+        case ExprKind::Replicate: case ExprKind::Convert: case ExprKind::Index: case ExprKind::Range:
+        case ExprKind::Indexed:
+            work.push_back(e.a);
+            break;
+        default: break;
+        }
+    }
+    return false;
+}
+
 } // namespace
 
+void collectAssignedX(const Ir& ir, const Member& mem, std::set<ExprId>& out) {
+    std::vector<ExprId> values;
+    if (mem.kind == MemberKind::Assign) values.push_back(mem.rhs);
+    else if (mem.kind == MemberKind::Comb) {
+        std::vector<StmtId> work{mem.body};
+        while (!work.empty()) {
+            const Stmt& st = ir.stmt(work.back());
+            work.pop_back();
+            switch (st.kind) {
+            case StmtKind::Block:
+                for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir.lists[st.a + k]);
+                break;
+            case StmtKind::Assign: values.push_back(st.b); break;
+            case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
+            case StmtKind::Case:
+                for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir.caseItems[st.b + k].body);
+                if (st.d != kNoId) work.push_back(st.d);
+                break;
+            case StmtKind::For: work.push_back(st.f); break;
+            case StmtKind::Empty: break;
+            }
+        }
+    }
+    // Constants reaching an assigned value unchanged: through ?: branches,
+    // concatenations, replications and conversions.
+    std::vector<ExprId> work(values.begin(), values.end());
+    while (!work.empty()) {
+        ExprId id = work.back();
+        work.pop_back();
+        const Expr& e = ir.expr(id);
+        switch (e.kind) {
+        case ExprKind::Const: out.insert(id); break;
+        case ExprKind::Cond: work.push_back(e.b); work.push_back(e.c); break;
+        case ExprKind::Concat:
+            for (std::uint32_t k = 0; k < e.b; ++k) work.push_back(ir.lists[e.a + k]);
+            break;
+        case ExprKind::Replicate: case ExprKind::Convert: work.push_back(e.a); break;
+        default: break;
+        }
+    }
+}
+
 std::string Lowerer::unsupportedReason(const Member& mem) const {
+    // Values assigned: an assign's right-hand side, every blocking assignment's.
+    std::vector<ExprId> values;
+    if (mem.kind == MemberKind::Assign) values.push_back(mem.rhs);
+    else {
+        std::vector<StmtId> work{mem.body};
+        while (!work.empty()) {
+            const Stmt& st = ir_.stmt(work.back());
+            work.pop_back();
+            switch (st.kind) {
+            case StmtKind::Block:
+                for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir_.lists[st.a + k]);
+                break;
+            case StmtKind::Assign: values.push_back(st.b); break;
+            case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
+            case StmtKind::Case:
+                for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir_.caseItems[st.b + k].body);
+                if (st.d != kNoId) work.push_back(st.d);
+                break;
+            case StmtKind::For: work.push_back(st.f); break;
+            case StmtKind::Empty: break;
+            }
+        }
+    }
+    for (ExprId v : values) {
+        if (valueCarries(ir_, v, 'z')) return "it can drive z (a tri-state driver), which kerf always keeps as written";
+        if (opts_.keepX && valueCarries(ir_, v, 'x'))
+            return "it assigns x (a don't-care); --keep-x keeps it as written";
+    }
     for (ExprId id : memberExprs(ir_, mem)) {
         const Expr& e = ir_.expr(id);
         if (e.kind != ExprKind::Binary) continue;
@@ -271,19 +367,19 @@ void Lowerer::assignTarget(ExprId lvId, const Bits& rhs0, bool inBlock) {
     const Expr& lv = ir_.expr(lvId);
     int w = static_cast<int>(lv.width);
     Bits rhs = extend(rhs0, w, false);
-    auto set = [&](SymbolId s, int off, Literal l) {
+    auto set = [&](SymbolId s, int off, Bit b) {
         if (inBlock) {
             auto it = env_->vars.find(s);
             if (it == env_->vars.end() || off < 0 || off >= static_cast<int>(it->second.size())) return;
-            it->second[off] = l;
+            it->second[off] = b;
         } else {
-            recordBit(s, off, l);
+            recordBit(s, off, b);
         }
     };
-    auto get = [&](SymbolId s, int off) -> Literal {
-        if (!inBlock) return kUnassigned;
+    auto get = [&](SymbolId s, int off) -> Bit {
+        if (!inBlock) return known(kUnassigned);
         auto it = env_->vars.find(s);
-        if (it == env_->vars.end() || off < 0 || off >= static_cast<int>(it->second.size())) return kUnassigned;
+        if (it == env_->vars.end() || off < 0 || off >= static_cast<int>(it->second.size())) return known(kUnassigned);
         return it->second[off];
     };
     if (lv.kind == ExprKind::Concat) {
@@ -315,31 +411,40 @@ void Lowerer::assignTarget(ExprId lvId, const Bits& rhs0, bool inBlock) {
         return;
     }
     Bits idx = eval(lv.b);
+    bool idxSigned = ir_.expr(lv.b).isSigned;
+    auto toPos = [&](std::uint64_t k) {
+        std::int64_t p = static_cast<std::int64_t>(k);
+        if (idxSigned && idx.size() < 64 && !idx.empty() && ((k >> (idx.size() - 1)) & 1)) p -= std::int64_t{1} << idx.size();
+        return p;
+    };
     if (lv.kind == ExprKind::Index) {
+        // 11.5.1: a write to a position out of range, or through an unknown index, does nothing.
         if (auto k = constValue(idx)) {
-            int off = dimOffset(static_cast<int>(*k), lv.msb, lv.lsb);
+            std::int64_t pos = toPos(*k);
+            std::int64_t off = lv.msb >= lv.lsb ? pos - lv.lsb : lv.lsb - pos;
+            std::int64_t count = std::abs(static_cast<std::int64_t>(lv.msb) - lv.lsb) + 1;
+            if (off < 0 || off >= count) return;
             for (int i = 0; i < w; ++i)
-                if (off >= 0 && off * w + i < pw) set(s, off * w + i, rhs[i]);
+                if (off * w + i < pw) set(s, static_cast<int>(off * w + i), rhs[i]);
             return;
         }
+        Lits iv = values(idx);
+        Literal idxKnown = negateLiteral(anyX(idx));
         int count = pw / std::max(w, 1);
         int lo = std::min(lv.msb, lv.lsb), hi = std::max(lv.msb, lv.lsb);
         for (int index = lo; index <= hi; ++index) {
             int off = dimOffset(index, lv.msb, lv.lsb);
-            if (off < 0 || off >= count || index < 0) continue;
-            // A position the index cannot take is never written.
-            if (idx.size() < 63 && (std::uint64_t(index) >> idx.size()) != 0) continue;
-            Bits cv;
-            for (std::size_t i = 0; i < idx.size(); ++i) cv.push_back(i < 63 && ((std::uint64_t(index) >> i) & 1) ? kTrue : kFalse);
-            Literal sel = equal(idx, cv);
+            if (off < 0 || off >= count) continue;
+            Literal sel = b_.and2(indexIs(iv, idxSigned, index), idxKnown);
+            if (sel == kFalse) continue;   // a position the index cannot name is never written
             for (int i = 0; i < w; ++i) {
-                Literal old = get(s, off * w + i);
+                Bit old = get(s, off * w + i);
                 if (isSentinel(old)) {
                     if (sel == kTrue) set(s, off * w + i, rhs[i]);
-                    else if (sel != kFalse) set(s, off * w + i, kPartial);
+                    else set(s, off * w + i, known(kPartial));
                     continue;
                 }
-                set(s, off * w + i, b_.mux(sel, rhs[i], old));
+                set(s, off * w + i, bMux(sel, rhs[i], old));
             }
         }
         return;
@@ -349,11 +454,12 @@ void Lowerer::assignTarget(ExprId lvId, const Bits& rhs0, bool inBlock) {
         int n = std::abs(lv.msb - lv.lsb) + 1;
         int ew = std::max(1, pw / n);
         int count = std::max(1, w / ew);
-        int first = static_cast<int>(*k), last = lv.up ? first + count - 1 : first - count + 1;
-        int a = dimOffset(first, lv.msb, lv.lsb), b = dimOffset(last, lv.msb, lv.lsb);
-        int offLo = std::min(a, b) * ew;
+        std::int64_t first = toPos(*k), last = lv.up ? first + count - 1 : first - count + 1;
+        std::int64_t a = lv.msb >= lv.lsb ? first - lv.lsb : lv.lsb - first;
+        std::int64_t b = lv.msb >= lv.lsb ? last - lv.lsb : lv.lsb - last;
+        std::int64_t offLo = std::min(a, b) * ew;
         for (int i = 0; i < w; ++i)
-            if (offLo + i >= 0 && offLo + i < pw) set(s, offLo + i, rhs[i]);
+            if (offLo + i >= 0 && offLo + i < pw) set(s, static_cast<int>(offLo + i), rhs[i]);
         return;
     }
     fail("a variable part select on the left-hand side is not supported", here(lv.start));
@@ -365,12 +471,25 @@ void Lowerer::mergeInto(Env& target, const Env& other, Literal cond) {
     for (auto& [s, bits] : target.vars) {
         const Bits& ob = other.vars.at(s);
         for (std::size_t i = 0; i < bits.size(); ++i) {
-            Literal a = bits[i], b = ob[i];
+            Bit a = bits[i], b = ob[i];
             if (a == b) continue;
-            if (isSentinel(a) || isSentinel(b)) bits[i] = kPartial;
-            else bits[i] = b_.mux(cond, a, b);
+            if (isSentinel(a) || isSentinel(b)) bits[i] = known(kPartial);
+            else bits[i] = bMux(cond, a, b);
         }
     }
+}
+
+void Lowerer::unassignedToUnknown(Env& env) {
+    bool any = false;
+    for (auto& [s, bits] : env.vars)
+        for (Bit& b : bits)
+            if (b.v == kUnassigned || b.v == kPartial) {
+                b = kAssignedX;
+                any = true;
+            }
+    if (any && opts_.keepX)
+        keep("it leaves signals unassigned where no branch applies (an incomplete unique or priority case or if, "
+             "or full_case), which kerf reads as don't-cares; --keep-x keeps it as written");
 }
 
 void Lowerer::exec(StmtId id) {
@@ -396,22 +515,26 @@ void Lowerer::exec(StmtId id) {
     }
     case StmtKind::If: {
         // `if (c1) s1 else if (c2) s2 ... else sn`: every condition is evaluated in the
-        // environment before the chain; the branches merge from the last one back.
+        // environment before the chain; the branches merge from the last one back. A
+        // condition that is x or z is false (12.4).
         std::vector<std::pair<Literal, StmtId>> arms;
         StmtId last = kNoId;
         StmtId cur = id;
+        bool ended = false;   // an arm is always taken (a constant true condition or an else)
         for (;;) {
             const Stmt& c = ir_.stmt(cur);
             if (c.start != kNoId) b_.loc = here(c.start);
-            Literal cond = reduceOr(eval(c.a));
-            if (cond == kTrue) { last = c.b; break; }
+            Literal cond = truth(eval(c.a)).v;
+            if (cond == kTrue) { last = c.b; ended = true; break; }
             if (cond != kFalse) arms.emplace_back(cond, c.b);
             if (c.c == kNoId) break;
-            if (ir_.stmt(c.c).kind != StmtKind::If) { last = c.c; break; }
+            if (ir_.stmt(c.c).kind != StmtKind::If) { last = c.c; ended = true; break; }
             cur = c.c;
         }
         Env before = *env_;
         if (last != kNoId) exec(last);
+        else if (!ended && (s.check == CheckKind::Unique || s.check == CheckKind::Priority))
+            unassignedToUnknown(*env_);   // 12.4.2: no condition true is a violation
         for (std::size_t k = arms.size(); k-- > 0;) {
             Env elseEnv = std::move(*env_);
             *env_ = before;
@@ -433,9 +556,9 @@ void Lowerer::exec(StmtId id) {
         for (int iter = 0;; ++iter) {
             if (iter > kMaxLoopIterations)
                 fail(fmt::format("a for loop runs more than {} iterations", kMaxLoopIterations), here(s.start));
-            Literal c = reduceOr(eval(s.c));
-            if (c == kFalse) break;
-            if (c != kTrue)
+            Bit c = truth(eval(s.c));
+            if (c.x == kFalse && c.v == kFalse) break;
+            if (c.x != kFalse || c.v != kTrue)
                 fail("a for loop's condition is not constant; only loops with constant bounds are unrolled", here(s.start));
             exec(s.f);
             for (std::uint32_t k = 0; k < s.e; ++k) exec(ir_.lists[s.d + k]);
@@ -450,7 +573,7 @@ void Lowerer::execCase(StmtId id) {
     const Expr& sel = ir_.expr(s.a);
     Bits selBits = eval(s.a);
     struct Item {
-        Literal cond;
+        Literal cond;          // the item matches (x/z compared as 12.5 says)
         StmtId body;
         std::string pattern;   // constant pattern, MSB first ('-' = wildcard); empty when not constant
     };
@@ -462,6 +585,11 @@ void Lowerer::execCase(StmtId id) {
     }
     bool selSigned = sel.isSigned;
     Bits selW = extend(selBits, static_cast<int>(width), selSigned);
+    Literal selX = anyX(selW);
+    bool selMaybeUnknown = selX != kFalse;
+    const CaseKind kind = s.caseKind;
+    if (selMaybeUnknown && kind == CaseKind::Z)
+        keep("a casez selector that can be x or z (x is not told apart from z here)");
     bool allConst = true;
     for (std::uint32_t k = 0; k < s.c; ++k) {
         const CaseItem& ci = ir_.caseItems[s.b + k];
@@ -476,30 +604,54 @@ void Lowerer::execCase(StmtId id) {
                 for (std::uint32_t i = x.width; i-- > 0;) bits.push_back(ir_.constBit(x, i));
                 char fillc = x.isSigned && selSigned && !bits.empty() ? bits[0] : '0';
                 while (bits.size() < width) bits.insert(bits.begin(), fillc);
-                Bits a, b;
+                Lits terms;
                 bool never = false;
                 for (std::size_t i = 0; i < width; ++i) {
                     char ch = bits[bits.size() - 1 - i];
-                    bool wild = ch == 'z' ? s.caseKind != CaseKind::Normal
-                              : ch == 'x' ? (s.caseKind == CaseKind::X || s.caseKind == CaseKind::Inside)
+                    bool unknownItem = ch == 'x' || ch == 'z';
+                    bool wild = ch == 'z' ? kind != CaseKind::Normal
+                              : ch == 'x' ? (kind == CaseKind::X || kind == CaseKind::Inside)
                                           : false;
                     if (wild) { pattern.insert(pattern.begin(), '-'); continue; }
-                    if (ch != '0' && ch != '1') never = true;   // an x/z bit a 2-state value never equals
+                    if (unknownItem) {
+                        // Matches only the same x or z in the selector (12.5).
+                        if (selMaybeUnknown) keep("a case item with x or z bits compared with a selector that can be x or z");
+                        never = true;
+                        continue;
+                    }
                     pattern.insert(pattern.begin(), ch);
-                    a.push_back(selW[i]);
-                    b.push_back(ch == '1' ? kTrue : kFalse);
+                    const Bit& b = selW[i];
+                    Literal eq = ch == '1' ? b.v : negateLiteral(b.v);
+                    // casex: an unknown selector bit matches anything; elsewhere it matches nothing.
+                    terms.push_back(kind == CaseKind::X ? b_.or2(b.x, eq) : b_.and2(negateLiteral(b.x), eq));
                 }
-                c = never ? kFalse : equal(a, b);
+                c = never ? kFalse : b_.andN(terms);
                 if (never) pattern.clear(), allConst = false;
             } else {
                 allConst = false;
-                c = equal(selW, extend(eval(xid), static_cast<int>(width), x.isSigned && selSigned));
+                Bits item = extend(eval(xid), static_cast<int>(width), x.isSigned && selSigned);
+                Literal itemX = anyX(item);
+                if (kind == CaseKind::Inside) {
+                    c = equality(selW, item, true).v;   // `==?` true (12.5.4)
+                } else {
+                    if (itemX != kFalse && (selMaybeUnknown || kind != CaseKind::Normal))
+                        keep("a case item that can be x or z compared with x/z semantics kerf does not model");
+                    if (kind == CaseKind::X) {
+                        Lits terms;
+                        for (std::size_t i = 0; i < width; ++i)
+                            terms.push_back(b_.or2(selW[i].x, negateLiteral(b_.xor2(selW[i].v, item[i].v))));
+                        c = b_.andN(terms);
+                    } else {
+                        c = b_.andN({negateLiteral(selX), negateLiteral(itemX), equal(values(selW), values(item))});
+                    }
+                }
             }
             items.push_back(Item{c, ci.body, pattern});
         }
     }
-    // Mutually exclusive items (no two patterns can match the same value) merge in parallel.
-    bool exclusive = allConst;
+    // Mutually exclusive items (no two patterns can match the same value) merge in
+    // parallel; a selector with unknown bits can match several casex items.
+    bool exclusive = allConst && !selMaybeUnknown;
     if (exclusive) {
         bool wild = false;
         for (const auto& it : items) wild = wild || it.pattern.find('-') != std::string::npos;
@@ -521,9 +673,9 @@ void Lowerer::execCase(StmtId id) {
             exclusive = false;
         }
     }
-    // Items covering every value make the default unreachable.
+    // Items covering every known value make the default unreachable.
     bool full = false;
-    if (allConst && width <= 16) {
+    if (allConst && !selMaybeUnknown && width <= 16) {
         std::vector<std::uint8_t> hit(std::size_t{1} << width, 0);
         for (const auto& it : items) {
             std::vector<std::size_t> vals{0};
@@ -550,9 +702,14 @@ void Lowerer::execCase(StmtId id) {
     }
     *env_ = before;
     if (hasDefault && !full) exec(s.d);
+    // 12.5.3: no item matching a unique or priority case is a violation; the synthesis
+    // reading (and `(* full_case *)`) makes what it would leave unassigned a don't-care.
+    if (!hasDefault && !full &&
+        (s.check == CheckKind::Unique || s.check == CheckKind::Priority || (s.attrs & kFullCase)))
+        unassignedToUnknown(*env_);
     Env dflt = std::move(*env_);
 
-    Bits conds;
+    Lits conds;
     for (const auto& it : items) conds.push_back(it.cond);
     Literal defaultCond = full ? kFalse : negateLiteral(b_.orN(conds));
     Env merged = dflt;
@@ -561,49 +718,51 @@ void Lowerer::execCase(StmtId id) {
         for (std::size_t bit = 0; bit < bits.size(); ++bit) {
             bool same = true, sentinel = isSentinel(dbits[bit]) && !full;
             for (std::size_t i = 0; i < results.size(); ++i) {
-                Literal v = results[i].vars[name][bit];
+                Bit v = results[i].vars[name][bit];
                 if (items[i].cond == kFalse) continue;
-                if (v != dbits[bit]) same = false;
+                if (!(v == dbits[bit])) same = false;
                 if (isSentinel(v)) sentinel = true;
             }
             if (same && !full) continue;
             if (sentinel) {
                 // Equal sentinels everywhere keep their meaning; anything else is a partial assignment.
-                Literal first = kPartial;
+                Bit first = known(kPartial);
                 bool allEq = true;
                 bool init = false;
                 for (std::size_t i = 0; i < results.size(); ++i) {
                     if (items[i].cond == kFalse) continue;
-                    Literal v = results[i].vars[name][bit];
-                    if (!init) { first = v; init = true; } else if (v != first) allEq = false;
+                    Bit v = results[i].vars[name][bit];
+                    if (!init) { first = v; init = true; } else if (!(v == first)) allEq = false;
                 }
                 if (!full) {
                     if (!init) first = dbits[bit];
-                    else if (dbits[bit] != first) allEq = false;
+                    else if (!(dbits[bit] == first)) allEq = false;
                 }
-                bits[bit] = allEq ? first : kPartial;
+                bits[bit] = allEq ? first : known(kPartial);
                 continue;
             }
             if (exclusive) {
                 // Group items by value: value v contributes (OR of its conditions) & v.
-                std::map<Literal, Bits> byValue;
+                std::map<Bit, Lits> byValue;
                 for (std::size_t i = 0; i < results.size(); ++i)
                     if (items[i].cond != kFalse) byValue[results[i].vars[name][bit]].push_back(items[i].cond);
                 if (!full) byValue[dbits[bit]].push_back(defaultCond);
-                Bits terms;
+                Lits vterms, xterms, sterms;
                 for (auto& [v, cs] : byValue) {
-                    if (v == kFalse) continue;
-                    terms.push_back(b_.and2(b_.orN(cs), v));
+                    Literal c = b_.orN(cs);
+                    if (v.v != kFalse) vterms.push_back(b_.and2(c, v.v));
+                    if (v.x != kFalse) xterms.push_back(b_.and2(c, v.x));
+                    if (v.s != kFalse) sterms.push_back(b_.and2(c, v.s));
                 }
-                bits[bit] = b_.orN(terms);
+                bits[bit] = {b_.orN(vterms), b_.orN(xterms), b_.orN(sterms)};
             } else {
-                Literal acc = dbits[bit];
+                Bit acc = dbits[bit];
                 bool start = full;
                 for (std::size_t i = results.size(); i-- > 0;) {
                     if (items[i].cond == kFalse) continue;
-                    Literal v = results[i].vars[name][bit];
+                    Bit v = results[i].vars[name][bit];
                     if (start) { acc = v; start = false; continue; }
-                    acc = b_.mux(items[i].cond, v, acc);
+                    acc = bMux(items[i].cond, v, acc);
                 }
                 bits[bit] = acc;
             }

@@ -99,7 +99,7 @@ TEST(FrontendLower, MultipleDriversNameBothPlaces) {
     std::string err = errorOf(d.build());
     EXPECT_NE(err.find("more than one driver"), std::string::npos) << err;
     EXPECT_EQ(err.rfind("t.v:3:3:", 0), 0u) << err;              // reported at the second statement
-    EXPECT_NE(err.find("at t.v:2:3"), std::string::npos) << err;  // naming the first
+    EXPECT_NE(err.find("also driven at t.v:2:3"), std::string::npos) << err;  // naming the first
 }
 
 TEST(FrontendLower, KeptCodeAndRestructuredCodeConflictNamesBoth) {

@@ -34,6 +34,7 @@ struct RestructureOptions {
     bool diff = false;               ///< print a unified diff instead of the file
     bool dissolveInternal = false;   ///< internal signals may dissolve into the logic (their declarations go)
     std::vector<std::string> keep;   ///< --keep NAME: signals never restructured through (cut points)
+    bool keepX = false;              ///< --keep-x: statements whose value can be x stay as written
 };
 
 /// Run `kerf restructure`; returns the process exit code. Messages go to stderr.

@@ -57,6 +57,9 @@ struct LowerOptions {
     /// Signals never restructured through (besides those declared `(* keep *)`):
     /// each is an output of the logic that drives it and an input of the logic that reads it.
     std::vector<std::string> keep;
+    /// Keep statements whose value can be x as written instead of reading x as a
+    /// don't-care (the synthesis reading of IEEE 1364.1 / 1800).
+    bool keepX = false;
 };
 
 /// Where a network output goes.
@@ -94,6 +97,8 @@ struct Lowered {
     /// Don't-care conditions of `net`'s outputs, by output name (see the note
     /// in kerf/network/network.h); no outputs when the source assigns no x.
     net::Network dontCares;
+    /// Output bits with don't-care conditions (outputs of `dontCares`).
+    std::size_t dontCareBits = 0;
 };
 
 /// Lower the module. Throws kerf::Error with a source location on
