@@ -851,6 +851,10 @@ void Writer::keepReaders() {
     std::set<int> replacedIds(low_.replaced.begin(), low_.replaced.end());
     for (const auto& mem : m_.members)
         if (!replacedIds.count(mem.id)) keptReads.insert(mem.reads.begin(), mem.reads.end());
+    // Only signals that stay driven matter (dissolved ones go with their declarations).
+    std::set<std::string> driven;
+    for (const auto& o : outs_)
+        if (!o.generated) driven.insert(o.bit.signal);
     for (bool changed = true; changed;) {
         changed = false;
         std::set<std::string> read = keptReads;
@@ -876,7 +880,7 @@ void Writer::keepReaders() {
                         if (!o.generated) read.insert(o.name);
         }
         for (const auto& [sig, groups] : readersOf) {
-            if (read.count(sig) || isPort(sig) || !m_.signals.count(sig)) continue;
+            if (read.count(sig) || isPort(sig) || !m_.signals.count(sig) || !driven.count(sig)) continue;
             for (int g : groups) {
                 if (!groups_[static_cast<std::size_t>(g)].replaced) continue;
                 groups_[static_cast<std::size_t>(g)].replaced = false;
