@@ -1196,17 +1196,21 @@ WriteResult Writer::run() {
             for (int s : groupStmts_[g]) replacedStmts.insert(s);
     std::map<std::pair<std::size_t, std::size_t>, std::vector<const frontend::Declarator*>> stmts;
     std::set<const frontend::Declarator*> gone;
+    // Statements that write a name or use it as a loop counter, by name (one pass).
+    std::map<std::string, std::vector<int>> touchers;
+    for (int id : low_.replaced) {
+        const auto* mem = byId_.at(id);
+        for (const auto& w : mem->writes) touchers[w].push_back(id);
+        if (mem->body.is_object())
+            for (const auto& l : mem->body.value("locals", nlohmann::json::array()))
+                touchers[l.value("name", "")].push_back(id);
+    }
     for (const auto& name : low_.dissolved) {
         const auto& s = m_.signals.at(name);
         if (!s.decl || s.decl->file != m_.src.file) continue;
         bool allReplaced = true;
-        for (int id : low_.replaced) {
-            const auto* mem = byId_.at(id);
-            bool touches = std::find(mem->writes.begin(), mem->writes.end(), name) != mem->writes.end();
-            for (const auto& l : mem->body.value("locals", nlohmann::json::array()))
-                touches = touches || l.value("name", "") == name;
-            if (touches && !replacedStmts.count(stmtOf_.at(id))) allReplaced = false;
-        }
+        for (int id : touchers[name])
+            if (!replacedStmts.count(stmtOf_.at(id))) allReplaced = false;
         if (allReplaced) gone.insert(&*s.decl);
     }
     for (const auto& [name, s] : m_.signals)
