@@ -78,16 +78,20 @@ def _(t):
     r = K.run([t.kerf, "restructure", p, "--in-place"])
     t.res.check(r.returncode == 0, f"exit 0: {r.stderr[-800:]}")
     data = open(p, "rb").read()
-    t.res.check(data.count(b"\n") == data.count(b"\r\n") and b"kerf: restructured logic" in data,
+    original = open(SAMPLE, "rb").read().replace(b"\n", b"\r\n")
+    t.res.check(data != original, "the file was rewritten")
+    t.res.check(data.count(b"\n") == data.count(b"\r\n"),
                 "every line of the rewritten file ends in CR LF, the generated lines included")
     os.mkdir(os.path.join(t.work, "sim"))
     ok, log, _ = K.simulate_equal(t.root, [SAMPLE], "uart_regsel", p, os.path.join(t.work, "sim"))
     t.res.check(ok, f"Icarus Verilog: the CR LF rewrite behaves as the original: {log}")
 
 
-def start_and_interrupt(t, how):
+def start_and_interrupt(t, how, sub):
     """Start a restructure, interrupt it once its work directory exists; return (status, tmp contents)."""
-    tmp, env = private_tmp(t)
+    tmp = os.path.join(t.work, sub)
+    os.makedirs(tmp)
+    env = dict(os.environ, TMPDIR=tmp)
     out = os.path.join(t.work, "out.v")
     p = subprocess.Popen([t.kerf, "restructure", "samples/rv_decoder.sv", "-o", out], env=env,
                          stdout=subprocess.PIPE, stderr=subprocess.DEVNULL,
@@ -108,7 +112,7 @@ def start_and_interrupt(t, how):
 @S.case("interrupt_leaves_nothing")
 def _(t):
     for how, name in ((signal.SIGINT, "SIGINT"), (signal.SIGTERM, "SIGTERM"), ("pipe", "SIGPIPE")):
-        status, seen, left, wrote = start_and_interrupt(t, how)
+        status, seen, left, wrote = start_and_interrupt(t, how, name)
         sig = signal.SIGPIPE if how == "pipe" else how
         t.res.check(seen != [], f"{name}: kerf had a work directory when interrupted ({seen})")
         t.res.check(status == -sig, f"{name}: kerf ends by the signal (status {status})")
