@@ -383,6 +383,7 @@ private:
         });
 
         CaDiCaL::Solver s;
+        s.set("quiet", 1);
         ConflictCounter counter;
         s.connect_learner(&counter);
         int nextVar = 0;

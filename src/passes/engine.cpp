@@ -101,6 +101,8 @@ const std::vector<LimitInfo>& limitTable() {
         field("trials", "moves the scheduler may value before it stops", &EngineLimits::trials, 1),
         field("max-growth", "largest literal growth per dissolved node in regroup moves", &EngineLimits::maxGrowth),
         field("regroup-trials", "trials spent re-optimising inside one regroup move", &EngineLimits::regroupTrials),
+        field("min-gain-permille", "smallest gain kept, in thousandths of the current gates",
+              &EngineLimits::minGainPermille),
         field("kernels", "1: also extract common kernels (slower)", &EngineLimits::kernels),
         field("implied-dont-cares", "1: minimise nodes against implied don't-cares", &EngineLimits::impliedDontCares),
         field("factor-max-cubes", "covers with more cubes are written unfactored", &EngineLimits::factorMaxCubes, 1),
@@ -281,7 +283,7 @@ public:
             }
             if (!best) break;
             if (best->valuedAt == version) {
-                if (best->estimate > 0 && best->pending) {
+                if (best->estimate >= minGain(current) && best->pending) {
                     apply(net, current, *best, top);
                     ++version;
                     continue;
@@ -303,6 +305,11 @@ public:
     }
 
 private:
+    double minGain(const net::Metrics& current) const {
+        const double rel = static_cast<double>(current.gates) * opts_.limits.minGainPermille / 1000.0;
+        return std::max(1e-6, opts_.goal == Goal::Size ? rel : rel);
+    }
+
     bool admissible(const net::Metrics& m, const net::Metrics& current) const {
         if (opts_.goal == Goal::Size) return measureCap_ < 0 || static_cast<long long>(m.depth) <= measureCap_;
         return static_cast<long long>(m.gates) <= std::max<long long>(gateCeiling_, current.gates);
@@ -420,7 +427,8 @@ EngineLimits limitsFor(Effort e) {
     case Effort::Fast:
         l.trials = 12;
         l.maxGrowth = 0;
-        l.regroupTrials = 6;
+        l.regroupTrials = 4;
+        l.minGainPermille = 5;
         l.impliedDontCares = false;
         break;
     case Effort::Default:
@@ -428,7 +436,8 @@ EngineLimits limitsFor(Effort e) {
     case Effort::Thorough:
         l.trials = 150;
         l.maxGrowth = 8;
-        l.regroupTrials = 24;
+        l.regroupTrials = 16;
+        l.minGainPermille = 0;
         l.kernels = true;
         l.dontCares.totalConflicts *= 5;
         break;

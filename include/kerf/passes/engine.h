@@ -49,7 +49,10 @@ struct EngineLimits {
     /// dissolve moves are tried at growth 0, 1, 2, 4, ... up to this.
     int maxGrowth = 2;
     /// Trials spent re-optimising after a dissolve, before its gain is valued.
-    int regroupTrials = 12;
+    int regroupTrials = 6;
+    /// A move is kept only when it saves at least this many thousandths of
+    /// the current gates (and at least something); smaller gains end the run.
+    int minGainPermille = 2;
     /// Run kernel extraction (slower; finds multi-cube divisors pairs miss).
     bool kernels = false;
     /// Use implied don't-cares (simulation confirmed by SAT).
