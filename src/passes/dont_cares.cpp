@@ -540,6 +540,10 @@ public:
 void minimiseWithDontCares(net::Network& net, const DontCareOptions& opts, const net::Network* declared,
                            PassContext& ctx) {
     if (net.inputs().empty()) return;
+    if (net.logicCount() > opts.maxNetworkNodes) {
+        ctx.stats.add("limit-hit:dc-max-network-nodes", 1);
+        return;
+    }
     DontCareRun run(net, opts, declared, ctx);
     run.setBudget(opts.totalConflicts);
     run.run();

@@ -101,6 +101,8 @@ const std::vector<LimitInfo>& limitTable() {
         field("trials", "moves the scheduler may value before it stops", &EngineLimits::trials, 1),
         field("max-growth", "largest literal growth per dissolved node in regroup moves", &EngineLimits::maxGrowth),
         field("regroup-trials", "trials spent re-optimising inside one regroup move", &EngineLimits::regroupTrials),
+        field("give-up-after", "valuations in a row without gain after which a technique is left out",
+              &EngineLimits::giveUpAfter, 1),
         field("min-gain-permille", "smallest gain kept, in thousandths of the current gates",
               &EngineLimits::minGainPermille),
         field("kernels", "1: also extract common kernels (slower)", &EngineLimits::kernels),
@@ -168,6 +170,8 @@ const std::vector<LimitInfo>& limitTable() {
             &DontCareOptions::refinementsPerNode),
         sub("dc-total-conflicts", "SAT conflicts of one don't-care move", &EngineLimits::dontCares,
             &DontCareOptions::totalConflicts),
+        sub("dc-max-network-nodes", "networks with more nodes get no don't-care moves", &EngineLimits::dontCares,
+            &DontCareOptions::maxNetworkNodes),
         sub("dc-max-nodes", "nodes examined per don't-care move", &EngineLimits::dontCares,
             &DontCareOptions::maxNodes),
     };
@@ -205,6 +209,7 @@ struct Source {
     int growth = -1;                       // >= 0: a regroup move dissolving at this growth
     double estimate = std::numeric_limits<double>::infinity();
     long valuedAt = -1;                    // network version of the last valuation
+    int misses = 0;                        // valuations in a row without a gain worth keeping
     std::unique_ptr<net::Network> pending; // the valued result (valid while valuedAt is current)
     std::optional<net::Metrics> pendingMetrics;
     PassStats pendingStats;
@@ -276,6 +281,7 @@ public:
             Source* best = nullptr;
             bool allFresh = true;
             for (Source& s : sources) {
+                if (s.misses >= opts_.limits.giveUpAfter) continue;   // left out: it keeps finding nothing
                 if (s.valuedAt != version) allFresh = false;
                 if (!best || s.estimate > best->estimate ||
                     (s.estimate == best->estimate && best->valuedAt == version && s.valuedAt != version))
@@ -292,7 +298,9 @@ public:
                 // Fresh sources gain nothing; re-value a stale one.
                 best = nullptr;
                 for (Source& s : sources)
-                    if (s.valuedAt != version && (!best || s.estimate > best->estimate)) best = &s;
+                    if (s.misses < opts_.limits.giveUpAfter && s.valuedAt != version &&
+                        (!best || s.estimate > best->estimate))
+                        best = &s;
             }
             if (trials >= budget) {
                 if (top) limitHit("trials");
@@ -338,6 +346,7 @@ private:
         s.valuedAt = version;
         const bool ok = admissible(m, current);
         s.estimate = ok ? gainOf(opts_.goal, valueOf(current), valueOf(m)) : -1;
+        s.misses = s.estimate >= minGain(current) ? 0 : s.misses + 1;
         if (s.estimate > 0) {
             s.pending = std::move(trial);
             s.pendingMetrics = m;

@@ -24,12 +24,13 @@ struct DontCareOptions {
     int maxFanins = 10;                 ///< nodes reading more variables keep their cover
     int exhaustiveInputs = 14;          ///< up to this many inputs, every input pattern is simulated (no SAT needed)
     int simulationWords = 32;           ///< otherwise this many words of 64 random patterns
-    std::size_t windowNodes = 300;      ///< fanout nodes re-simulated to judge observability; the window's edge counts as observed
-    std::size_t coneLimit = 4000;       ///< nodes in one SAT query; nodes needing more keep their cover
+    std::size_t windowNodes = 100;      ///< fanout nodes re-simulated to judge observability; the window's edge counts as observed
+    std::size_t coneLimit = 1000;       ///< nodes in one SAT query; nodes needing more keep their cover
     std::int64_t conflictsPerQuery = 2000;  ///< SAT conflicts of one query (past it: no don't-cares for that node)
     int refinementsPerNode = 24;        ///< counterexamples taken per node before it keeps its cover
-    std::int64_t totalConflicts = 400000;   ///< SAT conflicts of one run
-    std::size_t maxNodes = 20000;       ///< nodes examined per run
+    std::int64_t totalConflicts = 200000;   ///< SAT conflicts of one run
+    std::size_t maxNetworkNodes = 5000; ///< larger networks are left alone (the cost grows with nodes times window)
+    std::size_t maxNodes = 3000;        ///< nodes examined per run
     minimize::MinimizeOptions minimize;
 };
 

@@ -53,6 +53,8 @@ struct EngineLimits {
     /// A move is kept only when it saves at least this many thousandths of
     /// the current gates (and at least something); smaller gains end the run.
     int minGainPermille = 2;
+    /// A technique whose move gained nothing this many times in a row is not valued again.
+    int giveUpAfter = 3;
     /// Run kernel extraction (slower; finds multi-cube divisors pairs miss).
     bool kernels = false;
     /// Use implied don't-cares (simulation confirmed by SAT).
