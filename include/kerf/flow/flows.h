@@ -21,8 +21,9 @@ struct RestructureOptions {
     std::string backupSuffix;        ///< --backup: keep the replaced file's old text in FILE+SUFFIX
     bool quiet = false;              ///< no progress line and no summary on stderr
     bool check = false;              ///< CI mode: write nothing, exit 1 when kerf would change the file
-    std::string effort = "default";
-    std::string recipe;
+    std::string effort = "default";   ///< fast | default | thorough
+    std::string goal = "size";        ///< size | depth
+    std::vector<std::string> limits;  ///< engine limits as NAME=N (see passes::describeLimits)
     int maxDepth = -1;
     int verbose = 0;
     std::string reportPath;          ///< --report FILE.json
