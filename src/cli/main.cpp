@@ -72,7 +72,7 @@ int main(int argc, char** argv) {
     rs->add_option("--wire-prefix", ro.prefix, "prefix of new wire names (default: none, names say what the wire computes)");
     rs->add_option("--min-gain", ro.minGain,
                    "rewrite a group of statements only when it saves at least this many two-input gates, "
-                   "or this percentage with a % sign (default 1)");
+                   "or this percentage with a % sign (default 2)");
     rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
     rs->add_flag("--dissolve-internal", ro.dissolveInternal,
                  "let internal signals dissolve into the logic (their declarations go); for flat netlists");

@@ -122,7 +122,7 @@ def check_diff_case(files, top):
         if t.res.check(r4.returncode == 0 and os.path.exists(rep), f"{top}: --report written"):
             j = json.load(open(rep))
             for key in ("schema_version", "input", "output", "changed", "before", "after", "groups",
-                        "lines_replaced", "kept_as_written", "signals_added", "signals_kept", "passes", "proof"):
+                        "lines_replaced", "kept_as_written", "signals_added", "signals_kept", "techniques", "proof"):
                 t.res.check(key in j, f"{top}: report has '{key}'")
             t.res.check(j.get("changed") == changed, f"{top}: report's 'changed' is {changed}")
     return run
@@ -229,7 +229,6 @@ def _(t):
 def _(t):
     out = os.path.join(t.work, "x.v")
     for args, what in ((["--check", "-o", out], "--check with -o"),
-                       (["--recipe", "tidy", "--effort", "fast"], "--recipe with --effort"),
                        (["--max-depth", "0"], "--max-depth 0"),
                        (["--wire-prefix", "9x"], "an invalid prefix"),
                        (["--min-gain", "lots"], "a malformed --min-gain"),

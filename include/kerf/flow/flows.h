@@ -30,7 +30,7 @@ struct RestructureOptions {
     bool skipProof = false;
     std::int64_t proofBudget = 10000000;   ///< SAT conflicts over the whole proof
     std::string prefix;              ///< --wire-prefix: prefix of new wire names ("" = descriptive names alone)
-    std::string minGain = "1";       ///< --min-gain: gates ("2") or percent ("5%") a group must save
+    std::string minGain = "2";       ///< --min-gain: gates ("2") or percent ("5%") a group must save
     bool diff = false;               ///< print a unified diff instead of the file
     bool dissolveInternal = false;   ///< internal signals may dissolve into the logic (their declarations go)
 };

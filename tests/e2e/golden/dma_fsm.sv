@@ -24,26 +24,26 @@ module dma_fsm (
     else        state_q <= state_d;
   end
 
-  // kerf: 1 of 1 group rewritten, gates 68 -> 28, depth 6 -> 6, proved equivalent
-  wire req_t3 = ~(state_q[2] | state_q[0]);
+  // kerf: 1 of 1 group rewritten, gates 68 -> 24, depth 6 -> 6, proved equivalent
+  wire state_q_1_0_is_00 = state_q[1:0] == 2'b00;
   wire nstate_q2_state_q0 = ~state_q[2] & state_q[0];
   wire req_t0 = nstate_q2_state_q0 & ~state_q[1];
   wire state_d0_t1 = req_t0 & ~cancel;
-  wire req_t2 = req_t3 & state_q[1];
-  wire req_t1 = req_t2 & ~err;
+  wire state_q_is_010 = state_q == 3'b010;
+  wire req_t1 = state_q_is_010 & ~err;
   wire state_d0_t0 = req_t1 & ~cancel;
   always_comb begin
-    state_d[0] = (req_t3 & start & ~state_q[1])
-               | (state_d0_t0 & (last_beat | state_q[0]))
-               | (state_d0_t1 & ~grant);
-    state_d[1] = (state_d0_t0 & (last_beat | state_q[1])) | (state_d0_t1 & grant);
-    state_d[2] = err_irq | (req_t2 & err);
+    state_d[0] = (state_d0_t0 & last_beat)
+               | (state_d0_t1 & ~grant)
+               | (state_q_1_0_is_00 & start & ~state_q[2]);
+    state_d[1] = state_d0_t0 | (state_d0_t1 & grant);
+    state_d[2] = err_irq | (state_q_is_010 & err);
   end
 
   always @(*) begin
-    busy = req_t0 | req_t2;
-    req = busy & (req_t0 | (req_t1 & ~last_beat));
+    req = req_t0 | (req_t1 & ~last_beat);
+    busy = req_t0 | state_q_is_010;
     done_irq = nstate_q2_state_q0 & state_q[1];
-    err_irq = ~cancel & (state_q == 3'b100);
+    err_irq = state_q_1_0_is_00 & ~cancel & state_q[2];
   end
 endmodule
