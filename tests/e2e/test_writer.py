@@ -67,9 +67,6 @@ NOT_YET_IDEMPOTENT = {"irq_router": "the engine shares two equal nodes only on t
 
 def idempotent_case(files, top):
     def run(t):
-        if top in NOT_YET_IDEMPOTENT:
-            t.res.skip(f"{top}: kerf on its own output: known defect: {NOT_YET_IDEMPOTENT[top]}")
-            return
         ext = os.path.splitext(files[-1])[1]
         os.mkdir(os.path.join(t.work, "a"))
         os.mkdir(os.path.join(t.work, "b"))
@@ -81,6 +78,13 @@ def idempotent_case(files, top):
         again_files = [first if f == mod else f for f in files]
         second = os.path.join(t.work, "b", top + ext)
         r2 = restructure(t, again_files, top, second)
+        if top in NOT_YET_IDEMPOTENT:
+            # What still holds: the second run is proved and never larger.
+            m = re.search(r"gates (\d+) -> (\d+)", r2.stderr)
+            t.res.check(r2.returncode == 0 and m is not None and int(m.group(2)) <= int(m.group(1)),
+                        f"{top}: kerf on its own output is proved and not larger: {r2.stderr[-800:]}")
+            t.res.skip(f"{top}: kerf on its own output changes nothing: known defect: {NOT_YET_IDEMPOTENT[top]}")
+            return
         t.res.check(r2.returncode == 0 and open(first, "rb").read() == open(second, "rb").read(),
                     f"{top}: kerf on its own output changes nothing: {r2.stderr[-1500:]}")
         r3 = K.run([t.kerf, "restructure", *again_files, "--top", top, "--check"])
