@@ -2,6 +2,7 @@
 #include "kerf/algebra/algebra_command.h"
 #include "kerf/diagnostics.h"
 #include "kerf/flow/flows.h"
+#include "kerf/passes/engine.h"
 #include "kerf/io/cleanup.h"
 #include "kerf/io/progress.h"
 
@@ -55,18 +56,23 @@ int main(int argc, char** argv) {
                    "with --in-place or -o: keep the file's previous text in FILE+SUFFIX (e.g. --backup .orig)");
     rs->add_flag("-q,--quiet", ro.quiet, "no progress line and no summary on standard error");
     rs->add_flag("--check", ro.check, "write nothing; exit 1 when kerf would make the module smaller");
-    rs->add_option("--effort", ro.effort, "built-in recipe: fast, default or thorough")
+    rs->add_option("--effort", ro.effort, "how much work the engine may spend: fast, default or thorough")
         ->check(CLI::IsMember({"fast", "default", "thorough"}));
-    rs->add_option("--recipe", ro.recipe, "custom pass sequence, e.g. \"tidy,inline-small:4,share-divisors\"");
+    rs->add_option("--goal", ro.goal,
+                   "size: fewest gates without getting deeper (default); depth: least depth without more gates")
+        ->check(CLI::IsMember({"size", "depth"}));
     rs->add_option("--max-depth", ro.maxDepth, "logic depth bound, 1 to 100000 (default: the input's depth)");
-    rs->add_flag("-v,--verbose", ro.verbose, "print a table per pass (repeat for more detail)");
+    rs->add_option("--limit", ro.limits, "set one engine work limit, NAME=N (repeatable; listed below)")
+        ->allow_extra_args(false);
+    rs->add_flag("-v,--verbose", ro.verbose,
+                 "print the moves kept and a table per technique (repeat for every trial)");
     rs->add_option("--report", ro.reportPath, "write the before/after figures as JSON to this file");
     rs->add_flag("--skip-proof", ro.skipProof, "do not prove the rewrite (the output says so)");
     rs->add_option("--proof-budget", ro.proofBudget, "SAT conflicts the proof may spend before giving up");
     rs->add_option("--wire-prefix", ro.prefix, "prefix of new wire names (default: none, names say what the wire computes)");
     rs->add_option("--min-gain", ro.minGain,
                    "rewrite a group of statements only when it saves at least this many two-input gates, "
-                   "or this percentage with a % sign (default 1)");
+                   "or this percentage with a % sign (default 2)");
     rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
     rs->add_flag("--dissolve-internal", ro.dissolveInternal,
                  "let internal signals dissolve into the logic (their declarations go); for flat netlists");
@@ -76,7 +82,9 @@ int main(int argc, char** argv) {
                                       "(repeatable)")
         ->expected(1)
         ->take_all();
-    rs->footer(kExitCodes);
+    rs->footer(std::string(kExitCodes) +
+               "\n\nEngine work limits (--limit NAME=N; values shown are those of --effort default):\n" +
+               kerf::passes::describeLimits());
 
     kerf::frontend::ReadOptions so;
     bool statsJson = false;
@@ -117,8 +125,6 @@ int main(int argc, char** argv) {
                 throw kerf::Error("--check writes nothing: it cannot be combined with -o, --in-place or --diff");
             if (ro.diff && (!ro.output.empty() || ro.inPlace))
                 throw kerf::Error("--diff prints the change instead of writing: it cannot be combined with -o or --in-place");
-            if (!ro.recipe.empty() && rs->count("--effort") > 0)
-                throw kerf::Error("--recipe and --effort exclude each other: a recipe names its passes itself");
             if (rs->count("--max-depth") > 0 && (ro.maxDepth < 1 || ro.maxDepth > 100000))
                 throw kerf::Error(fmt::format("--max-depth {} is out of range (1 to 100000)", ro.maxDepth));
             if (!ro.backupSuffix.empty() && !ro.inPlace && ro.output.empty())

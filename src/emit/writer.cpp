@@ -852,6 +852,10 @@ void Writer::keepReaders() {
     std::set<int> replacedIds(low_.replaced.begin(), low_.replaced.end());
     for (const auto& mem : m_.members)
         if (!replacedIds.count(mem.id)) keptReads.insert(mem.reads.begin(), mem.reads.end());
+    // Only signals that stay driven matter (dissolved ones go with their declarations).
+    std::set<std::string> driven;
+    for (const auto& o : outs_)
+        if (!o.generated) driven.insert(o.bit.signal);
     for (bool changed = true; changed;) {
         changed = false;
         std::set<std::string> read = keptReads;
@@ -877,7 +881,7 @@ void Writer::keepReaders() {
                         if (!o.generated) read.insert(o.name);
         }
         for (const auto& [sig, groups] : readersOf) {
-            if (read.count(sig) || isPort(sig) || !m_.signals.count(sig)) continue;
+            if (read.count(sig) || isPort(sig) || !m_.signals.count(sig) || !driven.count(sig)) continue;
             for (int g : groups) {
                 if (!groups_[static_cast<std::size_t>(g)].replaced) continue;
                 groups_[static_cast<std::size_t>(g)].replaced = false;
@@ -1205,16 +1209,19 @@ WriteResult Writer::run() {
             for (int s : groupStmts_[g]) replacedStmts.insert(s);
     std::map<std::pair<std::size_t, std::size_t>, std::vector<const frontend::Declarator*>> stmts;
     std::set<const frontend::Declarator*> gone;
+    // Statements that write a name or use it as a loop counter, by name (one pass).
+    std::map<std::string, std::vector<int>> touchers;
+    for (int id : low_.replaced) {
+        const auto* mem = byId_.at(id);
+        for (const auto& w : mem->writes) touchers[w].push_back(id);
+        for (frontend::SymbolId l : mem->locals) touchers[m_.ir.symbols[l].name].push_back(id);
+    }
     for (const auto& name : low_.dissolved) {
         const auto& s = m_.signals.at(name);
         if (!s.decl || s.decl->file != m_.src.file) continue;
         bool allReplaced = true;
-        for (int id : low_.replaced) {
-            const auto* mem = byId_.at(id);
-            bool touches = std::find(mem->writes.begin(), mem->writes.end(), name) != mem->writes.end();
-            for (frontend::SymbolId l : mem->locals) touches = touches || m_.ir.symbols[l].name == name;
-            if (touches && !replacedStmts.count(stmtOf_.at(id))) allReplaced = false;
-        }
+        for (int id : touchers[name])
+            if (!replacedStmts.count(stmtOf_.at(id))) allReplaced = false;
         if (allReplaced) gone.insert(&*s.decl);
     }
     for (const auto& [name, s] : m_.signals)

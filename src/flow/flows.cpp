@@ -155,26 +155,25 @@ int restructure(const RestructureOptions& opts) {
     for (const auto& n : low.notes)
         if (!opts.quiet) std::cerr << n << "\n";
     const net::Network original = low.net;
-    passes::FactoredNetwork originalForms = passes::factorNetwork(original);
+    passes::FactorCache factorCache;   // shared by the figures and the engine: no cover is factored twice
+    passes::FactoredNetwork originalForms = passes::factorNetwork(original, -1, &factorCache);
     const net::Metrics asRead = originalForms.metrics;
     const WordOperators words = countWords(low);
 
     stages.begin("restructure");
     auto tPass = Clock::now();
-    auto tTidy = Clock::now();
-    passes::tidy(low.net);
-    passes::PassRow tidyRow;
-    tidyRow.pass = "tidy (clean-up before the recipe)";
-    tidyRow.seconds = since(tTidy);
     passes::EngineOptions eo;
-    eo.effort = opts.effort;
-    eo.recipe = opts.recipe;
+    eo.goal = passes::parseGoal(opts.goal);
+    eo.effort = passes::parseEffort(opts.effort);
+    eo.limits = passes::limitsFor(eo.effort);
+    for (const std::string& l : opts.limits) passes::setLimit(eo.limits, l);
     eo.maxDepth = opts.maxDepth;
+    eo.dontCares = &low.dontCares;
+    eo.cache = &factorCache;
     eo.verbose = opts.verbose;
     passes::EngineResult er = passes::restructure(low.net, eo);
-    tidyRow.after = er.before;
     double passSeconds = since(tPass);
-    passes::FactoredNetwork forms = passes::factorNetwork(low.net, er.depthCap);
+    const passes::FactoredNetwork& forms = er.forms;   // the engine's chosen forms, handed to the writer
 
     stages.begin("write");
     emit::WriteInput wi;
@@ -194,7 +193,7 @@ int restructure(const RestructureOptions& opts) {
 
     // ---- proof and figures of the written file: read back what was written, through the same reader
     net::Metrics after = asRead;
-    nlohmann::json proofJson = nullptr;
+    nlohmann::json proofJson = {{"verdict", "not run (--skip-proof)"}};
     std::string proofText;
     if (wr.changed) {
         stages.begin("prove");
@@ -263,9 +262,9 @@ int restructure(const RestructureOptions& opts) {
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
             po.verbose = opts.verbose;
-            // Where the original is x (a don't-care) the rewrite may take any value.
-            proof::ProofResult pr =
-                proof::proveEquivalent(a.net, b.net, po, a.dontCareBits > 0 ? &a.dontCares : nullptr);
+            // The original's declared don't-cares are the only freedom the rewrite may use.
+            proof::ProofResult pr = proof::proveEquivalent(a.net, b.net, po,
+                                                           a.dontCares.outputs().empty() ? nullptr : &a.dontCares);
             double proofSeconds = since(tProof);
             proofJson = {{"verdict", pr.verdict == proof::Verdict::Equivalent ? "equivalent"
                                      : pr.verdict == proof::Verdict::Different ? "different" : "undecided"},
@@ -309,10 +308,7 @@ int restructure(const RestructureOptions& opts) {
     }
 
     if (opts.verbose > 0) {
-        passes::EngineResult shown = er;
-        shown.before = asRead;
-        shown.rows.insert(shown.rows.begin(), tidyRow);
-        std::cerr << passes::formatPassTable(shown);
+        std::cerr << passes::formatEngineReport(er);
         std::cerr << fmt::format("{:<24} {:>9} {:>8} {:>6} {:>7}\n", "(written file)", after.literals, after.gates,
                                  after.depth, after.nodes);
         for (const auto& g : wr.groups)
@@ -360,13 +356,15 @@ int restructure(const RestructureOptions& opts) {
             else
                 kept.push_back({{"lines", lines}, {"reason", wr.changed || !g.replaced ? g.reason : "no change"}});
         }
-        nlohmann::json passRows = nlohmann::json::array();
-        passRows.push_back({{"pass", tidyRow.pass}, {"after", metricsJson(tidyRow.after)}, {"seconds", tidyRow.seconds}});
-        for (const auto& row : er.rows) {
+        nlohmann::json moveRows = nlohmann::json::array();
+        for (const auto& m : er.moves) moveRows.push_back({{"technique", m.technique}, {"after", metricsJson(m.after)}});
+        nlohmann::json techRows = nlohmann::json::array();
+        for (const auto& t : er.techniques) {
             nlohmann::json counters = nlohmann::json::object();
-            for (const auto& [n, v] : row.counters) counters[n] = v;
-            passRows.push_back({{"pass", row.pass}, {"after", metricsJson(row.after)}, {"seconds", row.seconds},
-                                {"counters", counters}});
+            for (const auto& [n, v] : t.counters) counters[n] = v;
+            techRows.push_back({{"technique", t.technique}, {"trials", t.trials}, {"kept", t.applied},
+                                {"gates_saved", t.gatesSaved}, {"depth_saved", t.depthSaved},
+                                {"seconds", t.seconds}, {"counters", counters}});
         }
         nlohmann::json report = {
             {"schema", "kerf-restructure-report"},
@@ -394,8 +392,11 @@ int restructure(const RestructureOptions& opts) {
             {"kept_as_written", kept},
             {"signals_added", wr.changed ? wr.wiresAdded : std::vector<std::string>{}},
             {"signals_kept", wr.changed ? wr.namesKept : std::vector<std::string>{}},
-            {"recipe", er.recipe},
-            {"passes", passRows},
+            {"goal", opts.goal},
+            {"effort", opts.effort},
+            {"moves", moveRows},
+            {"techniques", techRows},
+            {"limits_hit", er.limitsHit},
             {"proof", wr.changed ? proofJson : nlohmann::json({{"verdict", "not needed: file unchanged"}})},
             {"seconds", {{"read", readSeconds}, {"passes", passSeconds}}}};
         stages.end();

@@ -9,6 +9,7 @@
 #include <csignal>
 #include <cstring>
 #include <limits.h>
+#include <pthread.h>
 #include <signal.h>
 #include <unistd.h>
 
@@ -43,6 +44,17 @@ extern "C" void onFatalSignal(int sig) {
 }
 
 } // namespace
+
+static_assert(sizeof(sigset_t) <= 128, "SignalBlock keeps the signal mask in 128 bytes");
+
+SignalBlock::SignalBlock() {
+    sigset_t block;
+    sigemptyset(&block);
+    for (int sig : kSignals) sigaddset(&block, sig);
+    pthread_sigmask(SIG_BLOCK, &block, reinterpret_cast<sigset_t*>(saved_));
+}
+
+SignalBlock::~SignalBlock() { pthread_sigmask(SIG_SETMASK, reinterpret_cast<sigset_t*>(saved_), nullptr); }
 
 void installCleanupHandlers() {
     if (gInstalled) return;

@@ -14,6 +14,7 @@
 #include <climits>
 #include <cstdlib>
 #include <cstring>
+#include <optional>
 #include <fcntl.h>
 #include <sys/stat.h>
 #include <unistd.h>
@@ -82,7 +83,10 @@ void replaceRegular(const std::string& target, const std::string& shown, std::st
     std::string tmpl = dirOf(target) + "/." + baseOf(target) + ".kerf-XXXXXX";
     std::vector<char> name(tmpl.begin(), tmpl.end());
     name.push_back('\0');
+    std::optional<SignalBlock> held(std::in_place);   // create and remember as one step
     int fd = mkstemp(name.data());
+    if (fd >= 0) rememberPath(name.data());
+    held.reset();
     if (fd < 0) {
         int err = errno;
         struct stat dst {};
@@ -91,7 +95,6 @@ void replaceRegular(const std::string& target, const std::string& shown, std::st
         throw fileError(fmt::format("cannot write '{}': no file can be created in", shown), dirOf(target), err);
     }
     std::string tmp(name.data());
-    rememberPath(tmp);
     auto fail = [&](const char* what, int err) {
         close(fd);
         unlink(tmp.c_str());
@@ -247,6 +250,7 @@ WorkDir::WorkDir() {
     std::string tmpl = tempRoot() + "/kerf-XXXXXX";
     std::vector<char> name(tmpl.begin(), tmpl.end());
     name.push_back('\0');
+    SignalBlock held;   // create and remember as one step
     if (!mkdtemp(name.data())) throw fileError("cannot create a temporary directory in", tempRoot(), errno);
     dir_ = name.data();
     rememberPath(dir_);
@@ -254,9 +258,13 @@ WorkDir::WorkDir() {
 
 std::string WorkDir::add(const std::string& name, std::string_view text) {
     std::string path = dir_ + "/" + name;
-    int fd = open(path.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);
+    int fd;
+    {
+        SignalBlock held;   // create and remember as one step
+        fd = open(path.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);
+        if (fd >= 0) rememberPath(path);
+    }
     if (fd < 0) throw fileError("cannot create the temporary file", path, errno);
-    rememberPath(path);
     files_.push_back(path);
     try {
         writeAll(fd, text, path);

@@ -4,6 +4,7 @@
 #include <fmt/format.h>
 
 #include <cstdio>
+#include <cstdlib>
 #include <mutex>
 #include <condition_variable>
 #include <sys/resource.h>
@@ -43,13 +44,16 @@ void Progress::start(bool wanted) {
     auto* r = new Redraw;
     thread_ = r;
     auto began = std::chrono::steady_clock::now();
-    r->thread = std::thread([this, r, began] {
+    // KERF_PROGRESS_DELAY (seconds) moves the two-second threshold, e.g. for a demo or a test.
+    double delay = 2.0;
+    if (const char* d = std::getenv("KERF_PROGRESS_DELAY"); d && *d) delay = std::atof(d);
+    r->thread = std::thread([this, r, began, delay] {
         std::unique_lock lock(r->mu);
         while (!r->quit) {
             r->cv.wait_for(lock, std::chrono::milliseconds(250));
             if (r->quit) break;
             double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - began).count();
-            if (secs < 2.0) continue;
+            if (secs < delay) continue;
             std::size_t total = total_, done = done_;
             std::string share = total ? fmt::format("  {:3d}%", static_cast<int>(100.0 * done / total)) : "";
             std::string text = fmt::format("\r\033[Kkerf: {}{}  {:.0f} s", stage_.load(), share, secs);

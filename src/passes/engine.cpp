@@ -1,41 +1,50 @@
-// engine.cpp — recipes and the restructuring engine.
+// engine.cpp — the restructuring engine: a gain-driven scheduler over the
+// techniques.
 //
-// A recipe is a comma-separated list of passes, each with an optional
-// argument after a colon. The engine runs them in order on the network,
-// measuring the factored forms after each (see factored.cpp). The depth
-// bound works at two levels: every pass checks its own edits against the
-// sum-of-products arrival times and undoes an edit that makes a node later
-// than the bound (local undo, see workspace.h); the engine then measures the
-// factored depth and undoes a whole pass whose result is deeper than the
-// bound (a snapshot taken before the pass). At the end the result is kept
-// only if it is no worse than the input on the cost (two-input gates, then
-// literals); otherwise the input is restored. The best network seen after
-// any step is kept, so a recipe may explore (collapse, re-extract) freely. The order of the built-in
-// recipes follows the usual order of multi-level algebraic optimisation
-// (clean up, collapse, minimise nodes, extract shared divisors, reuse nodes,
-// minimise again) as surveyed in
-// R. K. Brayton, G. D. Hachtel, A. L. Sangiovanni-Vincentelli, "Multilevel logic synthesis", Proc. IEEE 78(2), 1990 (from memory).
+// Idea. Every technique (two-level minimisation of nodes, divisor and cube
+// extraction, resubstitution, minimisation against don't-cares, and
+// "regroup": dissolving small nodes and re-optimising what results) is a
+// source of moves. A move is valued by what it actually does to the network
+// that will be written: the two-input gates and depth of the factored forms
+// (passes::measureFactored), compared with the current network. The
+// scheduler keeps, for every source, the gain it showed when last valued.
+// It values the source with the highest recorded gain again on the current
+// network; when that source's fresh gain is still at least every other
+// recorded gain, its move is kept. Recorded gains of the other sources are
+// kept as estimates after a change rather than re-measured at once — the
+// lazy evaluation of greedy algorithms (M. Minoux, "Accelerated greedy
+// algorithms for maximizing submodular set functions", 1978, from memory).
+// The run stops when every source, valued on the current network, gains
+// nothing, or when the effort's budget of trials is spent.
+//
+// Dissolving nodes (elimination) seldom pays by itself: its value is the
+// structure the other techniques find afterwards. A regroup move therefore
+// dissolves nodes whose elimination grows the literals by at most g, runs
+// the same scheduler without regroup moves on the result for a few trials,
+// and is valued by the network it ends with. Regroup sources exist for
+// growth 0, 1, 2, 4, ... up to the effort's maximum growth, so the engine
+// itself finds how far flattening pays on each design.
+//
+// Goals. For Goal::Size a move gains when it saves gates (then literals)
+// within the depth bound; for Goal::Depth when it lowers depth (then gates)
+// without the gates exceeding the input's.
 #include "kerf/passes/engine.h"
 
 #include "kerf/diagnostics.h"
-#include "kerf/passes/factored.h"
-#include "kerf/passes/inline_small.h"
-#include "kerf/passes/reuse_nodes.h"
-#include "kerf/passes/share_cubes.h"
-#include "kerf/passes/share_divisors.h"
 #include "kerf/passes/shrink_nodes.h"
 #include "kerf/passes/tidy.h"
 
 #include <fmt/format.h>
 
-#include <algorithm>
 #include <chrono>
 #include <cstdio>
-#include <stdexcept>
+#include <functional>
+#include <limits>
+#include <map>
+#include <memory>
+#include <optional>
 
 namespace kerf::passes {
-
-// ---- statistics --------------------------------------------------------------
 
 void PassStats::add(const std::string& name, long long amount) {
     for (auto& [n, v] : items_)
@@ -55,284 +64,489 @@ std::string PassStats::str() const {
     return s;
 }
 
-// ---- registry ----------------------------------------------------------------
-
 namespace {
-
-[[noreturn]] void badArg(const std::string& pass, const std::string& arg, const std::string& expected) {
-    throw Error(fmt::format("recipe: pass '{}' does not take the argument '{}' (expected {})", pass, arg, expected));
-}
-
-bool parseInt(const std::string& s, long& out) {
-    if (s.empty()) return false;
-    std::size_t pos = 0;
-    try {
-        out = std::stol(s, &pos);
-    } catch (const std::exception&) {
-        return false;
-    }
-    return pos == s.size();
-}
-
-InlineOptions inlineOptions(const std::string& arg) {
-    InlineOptions o;
-    if (arg.empty()) return o;
-    std::string a = arg, b;
-    if (auto slash = arg.find('/'); slash != std::string::npos) {
-        a = arg.substr(0, slash);
-        b = arg.substr(slash + 1);
-    }
-    long t = 0, c = 0;
-    if (!parseInt(a, t) || t < -1000 || t > 1000) badArg("inline-small", arg, "N or N/CUBES, N an integer literal growth");
-    o.threshold = static_cast<int>(t);
-    if (!b.empty()) {
-        if (!parseInt(b, c) || c < 1 || c > 4096) badArg("inline-small", arg, "N or N/CUBES, CUBES from 1 to 4096");
-        o.maxCubes = static_cast<std::size_t>(c);
-    }
-    return o;
-}
-
-ShareDivisorsOptions divisorOptions(const std::string& arg) {
-    ShareDivisorsOptions o;
-    if (arg.empty() || arg == "pairs") o.method = ShareDivisorsOptions::Method::Pairs;
-    else if (arg == "kernels") o.method = ShareDivisorsOptions::Method::Kernels;
-    else if (arg == "both") o.method = ShareDivisorsOptions::Method::Both;
-    else badArg("share-divisors", arg, "pairs, kernels or both");
-    return o;
-}
-
-ShrinkOptions shrinkOptions(const std::string& arg) {
-    ShrinkOptions o;
-    if (arg == "keep-polarity") o.allowComplement = false;
-    else if (!arg.empty()) badArg("shrink-nodes", arg, "nothing or keep-polarity");
-    return o;
-}
-
-ReuseOptions reuseOptions(const std::string& arg) {
-    ReuseOptions o;
-    if (arg == "plain") o.complements = false;
-    else if (!arg.empty()) badArg("reuse-nodes", arg, "nothing or plain");
-    return o;
-}
-
-void noArg(const std::string& pass, const std::string& arg) {
-    if (!arg.empty()) badArg(pass, arg, "no argument");
-}
-
-// depth-cap argument: -2 none, -1 input, else N.
-long depthCapArg(const std::string& arg) {
-    if (arg == "none") return -2;
-    if (arg == "input" || arg.empty()) return -1;
-    long n = 0;
-    if (!parseInt(arg, n) || n < 0) badArg("depth-cap", arg, "a depth N >= 0, input or none");
-    return n;
-}
-
-std::vector<PassInfo> makeRegistry() {
-    std::vector<PassInfo> r;
-    r.push_back({"tidy", "", "propagate constants, drop buffers and inverter pairs, merge identical nodes, remove dead logic",
-                 [](const std::string& a) { noArg("tidy", a); },
-                 [](net::Network& n, const std::string&, PassContext& c) { tidy(n, c); }});
-    r.push_back({"inline-small", "N[/CUBES]",
-                 "collapse nodes into their fanouts when literals grow by at most N (default 0), covers capped at CUBES cubes",
-                 [](const std::string& a) { inlineOptions(a); },
-                 [](net::Network& n, const std::string& a, PassContext& c) { inlineSmall(n, inlineOptions(a), c); }});
-    r.push_back({"shrink-nodes", "[keep-polarity]",
-                 "two-level minimisation of every node, complementing a node when that is cheaper",
-                 [](const std::string& a) { shrinkOptions(a); },
-                 [](net::Network& n, const std::string& a, PassContext& c) { shrinkNodes(n, shrinkOptions(a), c); }});
-    r.push_back({"share-cubes", "", "extract cubes common to several cubes as new nodes",
-                 [](const std::string& a) { noArg("share-cubes", a); },
-                 [](net::Network& n, const std::string&, PassContext& c) { shareCubes(n, ShareCubesOptions{}, c); }});
-    r.push_back({"share-divisors", "[pairs|kernels|both]",
-                 "extract multi-cube divisors shared by nodes: two-cube divisors (pairs) or common kernels",
-                 [](const std::string& a) { divisorOptions(a); },
-                 [](net::Network& n, const std::string& a, PassContext& c) { shareDivisors(n, divisorOptions(a), c); }});
-    r.push_back({"reuse-nodes", "[plain]",
-                 "divide every node by existing nodes (and their complements unless plain) where that saves literals",
-                 [](const std::string& a) { reuseOptions(a); },
-                 [](net::Network& n, const std::string& a, PassContext& c) { reuseNodes(n, reuseOptions(a), c); }});
-    r.push_back({"depth-cap", "N|input|none", "set the depth bound for the passes that follow",
-                 [](const std::string& a) { depthCapArg(a); }, nullptr});
-    r.push_back({"final-factor", "", "measure the factored forms that will be written (changes nothing)",
-                 [](const std::string& a) { noArg("final-factor", a); }, nullptr});
-    return r;
-}
-
-std::string validNames() {
-    std::string s;
-    for (const PassInfo& p : passRegistry())
-        s += fmt::format("\n  {:<16} {}", p.argHelp.empty() ? p.name : p.name + ":" + p.argHelp, p.summary);
-    return s;
-}
-
-std::string trim(const std::string& s) {
-    std::size_t b = s.find_first_not_of(" \t\n");
-    if (b == std::string::npos) return {};
-    std::size_t e = s.find_last_not_of(" \t\n");
-    return s.substr(b, e - b + 1);
-}
 
 double since(std::chrono::steady_clock::time_point t) {
     return std::chrono::duration<double>(std::chrono::steady_clock::now() - t).count();
 }
 
-bool costBetterOrEqual(const net::Metrics& a, const net::Metrics& b) {
-    return a.gates < b.gates || (a.gates == b.gates && a.literals <= b.literals);
+// ---- limits by name ---------------------------------------------------------
+
+struct LimitInfo {
+    const char* name;
+    const char* meaning;
+    std::function<void(EngineLimits&, long long)> set;    // other fields
+    std::function<long long(const EngineLimits&)> get;
+    long long min = 0;
+};
+
+template <class T>
+LimitInfo field(const char* name, const char* meaning, T EngineLimits::*member, long long min = 0) {
+    LimitInfo li{name, meaning, nullptr, nullptr, min};
+    li.set = [member](EngineLimits& l, long long v) { l.*member = static_cast<T>(v); };
+    li.get = [member](const EngineLimits& l) { return static_cast<long long>(l.*member); };
+    return li;
+}
+
+template <class S, class T>
+LimitInfo sub(const char* name, const char* meaning, S EngineLimits::*group, T S::*member, long long min = 0) {
+    LimitInfo li{name, meaning, nullptr, nullptr, min};
+    li.set = [group, member](EngineLimits& l, long long v) { (l.*group).*member = static_cast<T>(v); };
+    li.get = [group, member](const EngineLimits& l) { return static_cast<long long>((l.*group).*member); };
+    return li;
+}
+
+const std::vector<LimitInfo>& limitTable() {
+    static const std::vector<LimitInfo> t = {
+        field("trials", "moves the scheduler may value before it stops", &EngineLimits::trials, 1),
+        field("max-growth", "largest literal growth per dissolved node in regroup moves", &EngineLimits::maxGrowth),
+        field("regroup-trials", "trials spent re-optimising inside one regroup move", &EngineLimits::regroupTrials),
+        field("give-up-after", "valuations in a row without gain after which a technique is left out",
+              &EngineLimits::giveUpAfter, 1),
+        field("min-gain-permille", "smallest gain kept, in thousandths of the current gates",
+              &EngineLimits::minGainPermille),
+        field("kernels", "1: also extract common kernels (slower)", &EngineLimits::kernels),
+        field("implied-dont-cares", "1: minimise nodes against implied don't-cares", &EngineLimits::impliedDontCares),
+        field("factor-max-cubes", "covers with more cubes are written unfactored", &EngineLimits::factorMaxCubes, 1),
+        sub("minimise-exact-vars", "exact two-level minimum up to this many variables", &EngineLimits::minimize,
+            &minimize::MinimizeOptions::exactVars),
+        sub("minimise-table-vars", "truth-table minimisation up to this many variables (at most 16)",
+            &EngineLimits::minimize, &minimize::MinimizeOptions::tableVars),
+        sub("minimise-heuristic-cubes", "larger covers get only containment", &EngineLimits::minimize,
+            &minimize::MinimizeOptions::maxHeuristicCubes),
+        sub("minimise-cover-search", "branch-and-bound nodes of the exact covering search", &EngineLimits::minimize,
+            &minimize::MinimizeOptions::coverSearchLimit),
+        sub("minimise-implication-steps", "steps of one implication check", &EngineLimits::minimize,
+            &minimize::MinimizeOptions::implicationSteps),
+        sub("minimise-heuristic-steps", "steps of one expand/irredundant run", &EngineLimits::minimize,
+            &minimize::MinimizeOptions::heuristicSteps),
+        sub("minimise-complement-steps", "steps of one complementation", &EngineLimits::minimize,
+            &minimize::MinimizeOptions::complementSteps),
+        sub("dissolve-max-cubes", "cubes a cover may reach when nodes are dissolved into it", &EngineLimits::dissolve,
+            &InlineOptions::maxCubes, 1),
+        sub("dissolve-max-literals", "literals a cover may reach when nodes are dissolved into it",
+            &EngineLimits::dissolve, &InlineOptions::maxLiterals, 1),
+        sub("dissolve-max-fanouts", "nodes with more fanouts are not dissolved", &EngineLimits::dissolve,
+            &InlineOptions::maxFanouts),
+        sub("dissolve-complement-cubes", "cubes of a complement substituted where a node is read inverted",
+            &EngineLimits::dissolve, &InlineOptions::complementCubeCap, 1),
+        sub("cubes-min-literals", "smallest cube extracted", &EngineLimits::cubes, &ShareCubesOptions::minLiterals, 2),
+        sub("cubes-partners", "cube pairs looked at per cube", &EngineLimits::cubes,
+            &ShareCubesOptions::partnersPerCube, 1),
+        sub("cubes-rounds", "rounds of cube extraction per move", &EngineLimits::cubes, &ShareCubesOptions::rounds, 1),
+        sub("cubes-candidates", "candidate cubes valued per round", &EngineLimits::cubes,
+            &ShareCubesOptions::maxCandidates, 1),
+        sub("cubes-work", "cubes looked at per move", &EngineLimits::cubes, &ShareCubesOptions::workBudget, 1),
+        sub("divisors-pair-max-cubes", "nodes with more cubes give no two-cube divisors", &EngineLimits::divisors,
+            &ShareDivisorsOptions::maxCubesForPairs),
+        sub("divisors-literal-pair-max-cube", "cubes with more literals give no two-literal divisors",
+            &EngineLimits::divisors, &ShareDivisorsOptions::maxCubeForLiteralPairs),
+        sub("divisors-kernels-per-node", "kernels enumerated per node", &EngineLimits::divisors,
+            &ShareDivisorsOptions::maxKernelsPerNode, 1),
+        sub("divisors-kernel-work", "steps of one node's kernel enumeration", &EngineLimits::divisors,
+            &ShareDivisorsOptions::kernelWork, 1),
+        sub("divisors-max-extractions", "divisors extracted per move", &EngineLimits::divisors,
+            &ShareDivisorsOptions::maxExtractions, 1),
+        sub("resub-candidates", "existing nodes tried as divisors per node", &EngineLimits::reuse,
+            &ReuseOptions::maxCandidates),
+        sub("resub-complement-cubes", "cubes of a complement used as a divisor", &EngineLimits::reuse,
+            &ReuseOptions::complementCubeCap),
+        sub("resub-max-cubes", "larger covers are neither divided nor used as divisors", &EngineLimits::reuse,
+            &ReuseOptions::maxCubes),
+        sub("resub-fanout-scan", "fanouts of one variable scanned for candidates", &EngineLimits::reuse,
+            &ReuseOptions::fanoutScanLimit),
+        sub("dc-max-fanins", "nodes reading more variables get no don't-cares (at most 16)", &EngineLimits::dontCares,
+            &DontCareOptions::maxFanins),
+        sub("dc-exhaustive-inputs", "simulate every input pattern up to this many inputs (at most 20)",
+            &EngineLimits::dontCares, &DontCareOptions::exhaustiveInputs),
+        sub("dc-simulation-words", "words of 64 random patterns otherwise", &EngineLimits::dontCares,
+            &DontCareOptions::simulationWords, 1),
+        sub("dc-window-nodes", "fanout nodes re-simulated to judge observability", &EngineLimits::dontCares,
+            &DontCareOptions::windowNodes),
+        sub("dc-cone-limit", "nodes in one SAT query", &EngineLimits::dontCares, &DontCareOptions::coneLimit),
+        sub("dc-query-conflicts", "SAT conflicts of one query", &EngineLimits::dontCares,
+            &DontCareOptions::conflictsPerQuery),
+        sub("dc-refinements", "counterexamples taken per node", &EngineLimits::dontCares,
+            &DontCareOptions::refinementsPerNode),
+        sub("dc-total-conflicts", "SAT conflicts of one don't-care move", &EngineLimits::dontCares,
+            &DontCareOptions::totalConflicts),
+        sub("dc-max-network-nodes", "networks with more nodes get no don't-care moves", &EngineLimits::dontCares,
+            &DontCareOptions::maxNetworkNodes),
+        sub("dc-max-nodes", "nodes examined per don't-care move", &EngineLimits::dontCares,
+            &DontCareOptions::maxNodes),
+    };
+    return t;
+}
+
+std::string validLimits() {
+    std::string s;
+    for (const LimitInfo& li : limitTable()) s += fmt::format("\n  {:<30} {}", li.name, li.meaning);
+    return s;
+}
+
+// ---- the network's value for a goal -------------------------------------------
+
+struct Value {
+    long long gates = 0, depth = 0, literals = 0;
+};
+
+Value valueOf(const net::Metrics& m) {
+    return {static_cast<long long>(m.gates), static_cast<long long>(m.depth), static_cast<long long>(m.literals)};
+}
+
+// A gain as one number for ranking: the goal's first figure dominates.
+double gainOf(Goal goal, const Value& from, const Value& to) {
+    const double dg = static_cast<double>(from.gates - to.gates);
+    const double dd = static_cast<double>(from.depth - to.depth);
+    const double dl = static_cast<double>(from.literals - to.literals);
+    if (goal == Goal::Size) return dg + dl * 1e-4;
+    return dd * 1e6 + dg + dl * 1e-4;
+}
+
+struct Source {
+    std::string name;
+    std::function<void(net::Network&, PassContext&)> run;
+    int growth = -1;                       // >= 0: a regroup move dissolving at this growth
+    double estimate = std::numeric_limits<double>::infinity();
+    long valuedAt = -1;                    // network version of the last valuation
+    int misses = 0;                        // valuations in a row without a gain worth keeping
+    std::unique_ptr<net::Network> pending; // the valued result (valid while valuedAt is current)
+    std::optional<net::Metrics> pendingMetrics;
+    PassStats pendingStats;
+};
+
+class Scheduler {
+public:
+    Scheduler(const EngineOptions& opts, EngineResult& res, FactorCache& cache, std::size_t passCap, int measureCap,
+              long long gateCeiling)
+        : opts_(opts), res_(res), cache_(cache), passCap_(passCap), measureCap_(measureCap),
+          gateCeiling_(gateCeiling) {}
+
+    std::vector<Source> makeSources(bool withRegroup) const {
+        const EngineLimits& L = opts_.limits;
+        std::vector<Source> s;
+        auto add = [&](std::string name, std::function<void(net::Network&, PassContext&)> f, int growth = -1) {
+            Source x;
+            x.name = std::move(name);
+            x.run = std::move(f);
+            x.growth = growth;
+            s.push_back(std::move(x));
+        };
+        add("minimise-nodes", [L](net::Network& n, PassContext& c) {
+            ShrinkOptions o;
+            o.minimize = L.minimize;
+            shrinkNodes(n, o, c);
+        });
+        add("extract-divisors", [L](net::Network& n, PassContext& c) {
+            ShareDivisorsOptions o = L.divisors;
+            o.method = ShareDivisorsOptions::Method::Pairs;
+            shareDivisors(n, o, c);
+        });
+        if (L.kernels)
+            add("extract-kernels", [L](net::Network& n, PassContext& c) {
+                ShareDivisorsOptions o = L.divisors;
+                o.method = ShareDivisorsOptions::Method::Kernels;
+                shareDivisors(n, o, c);
+            });
+        add("extract-cubes", [L](net::Network& n, PassContext& c) { shareCubes(n, L.cubes, c); });
+        add("resubstitute", [L](net::Network& n, PassContext& c) { reuseNodes(n, L.reuse, c); });
+        if (L.impliedDontCares || (opts_.dontCares && !opts_.dontCares->outputs().empty())) {
+            const net::Network* declared =
+                opts_.dontCares && !opts_.dontCares->outputs().empty() ? opts_.dontCares : nullptr;
+            DontCareOptions o = L.dontCares;
+            if (!L.impliedDontCares) o.maxNodes = 0;   // declared only: outputs' drivers (see dont_cares.cpp)
+            add("dont-care-minimise",
+                [o, declared](net::Network& n, PassContext& c) { minimiseWithDontCares(n, o, declared, c); });
+        }
+        if (withRegroup) {
+            std::vector<int> growths = {0};
+            for (int g = 1; g <= L.maxGrowth; g = g < 2 ? g + 1 : g * 2) growths.push_back(g);
+            for (int g : growths) {
+                InlineOptions o = L.dissolve;
+                o.threshold = g;
+                add(fmt::format("regroup(max-growth={})", g),
+                    [o](net::Network& n, PassContext& c) { inlineSmall(n, o, c); }, g);
+            }
+        }
+        return s;
+    }
+
+    /// Run the lazy greedy loop on `net` (whose figures are `current`) for at
+    /// most `budget` trials. Returns the figures of the result.
+    net::Metrics run(net::Network& net, net::Metrics current, std::vector<Source>& sources, int budget, bool top) {
+        long version = 0;
+        int trials = 0;
+        for (;;) {
+            // The source with the highest recorded gain (stale or fresh).
+            Source* best = nullptr;
+            bool allFresh = true;
+            for (Source& s : sources) {
+                if (s.misses >= opts_.limits.giveUpAfter) continue;   // left out: it keeps finding nothing
+                if (s.valuedAt != version) allFresh = false;
+                if (!best || s.estimate > best->estimate ||
+                    (s.estimate == best->estimate && best->valuedAt == version && s.valuedAt != version))
+                    best = &s;
+            }
+            if (!best) break;
+            if (best->valuedAt == version) {
+                if (best->estimate >= minGain(current) && best->pending) {
+                    apply(net, current, *best, top);
+                    ++version;
+                    continue;
+                }
+                if (allFresh) break;   // nothing pays on the current network
+                // Fresh sources gain nothing; re-value a stale one.
+                best = nullptr;
+                for (Source& s : sources)
+                    if (s.misses < opts_.limits.giveUpAfter && s.valuedAt != version &&
+                        (!best || s.estimate > best->estimate))
+                        best = &s;
+            }
+            if (trials >= budget) {
+                if (top) limitHit("trials");
+                break;
+            }
+            ++trials;
+            value(net, current, *best, version);
+        }
+        return current;
+    }
+
+private:
+    double minGain(const net::Metrics& current) const {
+        const double rel = static_cast<double>(current.gates) * opts_.limits.minGainPermille / 1000.0;
+        return std::max(1e-6, opts_.goal == Goal::Size ? rel : rel);
+    }
+
+    bool admissible(const net::Metrics& m, const net::Metrics& current) const {
+        if (opts_.goal == Goal::Size) return measureCap_ < 0 || static_cast<long long>(m.depth) <= measureCap_;
+        return static_cast<long long>(m.gates) <= std::max<long long>(gateCeiling_, current.gates);
+    }
+
+    void value(const net::Network& net, const net::Metrics& current, Source& s, long version) {
+        const auto t0 = std::chrono::steady_clock::now();
+        auto trial = std::make_unique<net::Network>(net);
+        PassContext ctx;
+        ctx.depthCap = passCap_;
+        ctx.verbose = opts_.verbose;
+        s.run(*trial, ctx);
+        tidy(*trial, ctx);
+        net::Metrics m = measure(*trial);
+        if (s.growth >= 0) {
+            // Regroup: re-optimise what dissolving left, then value the end result.
+            std::vector<Source> inner = makeSources(false);
+            Scheduler sub(opts_, res_, cache_, passCap_, measureCap_, gateCeiling_);
+            m = sub.run(*trial, m, inner, opts_.limits.regroupTrials, false);
+        }
+        for (const auto& [k, v] : ctx.stats.items())
+            if (v > 0 && k.rfind("limit-hit:", 0) == 0) limitHit(k.substr(10));
+        TechniqueRow& row = rowFor(s.name);
+        ++row.trials;
+        row.seconds += since(t0);
+        s.valuedAt = version;
+        const bool ok = admissible(m, current);
+        s.estimate = ok ? gainOf(opts_.goal, valueOf(current), valueOf(m)) : -1;
+        s.misses = s.estimate >= minGain(current) ? 0 : s.misses + 1;
+        if (s.estimate > 0) {
+            s.pending = std::move(trial);
+            s.pendingMetrics = m;
+            s.pendingStats = ctx.stats;
+        } else {
+            s.pending.reset();
+        }
+        if (opts_.verbose >= 2)
+            std::fprintf(stderr, "kerf: trial %-28s gates %zu depth %zu literals %zu (%.2fs)%s\n", s.name.c_str(),
+                         m.gates, m.depth, m.literals, since(t0), ok ? "" : " out of bounds");
+    }
+
+    void apply(net::Network& net, net::Metrics& current, Source& s, bool top) {
+        const net::Metrics m = *s.pendingMetrics;
+        if (top) {
+            TechniqueRow& row = rowFor(s.name);
+            ++row.applied;
+            row.gatesSaved += static_cast<long long>(current.gates) - static_cast<long long>(m.gates);
+            row.depthSaved += static_cast<long long>(current.depth) - static_cast<long long>(m.depth);
+            for (const auto& [k, v] : s.pendingStats.items()) {
+                auto it = std::find_if(row.counters.begin(), row.counters.end(),
+                                       [&](const auto& p) { return p.first == k; });
+                if (it == row.counters.end()) row.counters.emplace_back(k, v);
+                else it->second += v;
+            }
+            MoveRow mv;
+            mv.technique = s.name;
+            mv.after = m;
+            mv.gatesSaved = row.gatesSaved;
+            mv.gatesSaved = static_cast<long long>(current.gates) - static_cast<long long>(m.gates);
+            mv.depthSaved = static_cast<long long>(current.depth) - static_cast<long long>(m.depth);
+            res_.moves.push_back(mv);
+            if (opts_.verbose >= 2)
+                std::fprintf(stderr, "kerf: kept %-29s gates %zu -> %zu, depth %zu -> %zu\n", s.name.c_str(),
+                             current.gates, m.gates, current.depth, m.depth);
+        }
+        net = std::move(*s.pending);
+        s.pending.reset();
+        current = m;
+    }
+
+    net::Metrics measure(const net::Network& n) { return measureFactored(n, measureCap_, &cache_); }
+
+    TechniqueRow& rowFor(const std::string& name) {
+        for (TechniqueRow& r : res_.techniques)
+            if (r.technique == name) return r;
+        res_.techniques.push_back({});
+        res_.techniques.back().technique = name;
+        return res_.techniques.back();
+    }
+
+    void limitHit(const std::string& name) {
+        if (std::find(res_.limitsHit.begin(), res_.limitsHit.end(), name) == res_.limitsHit.end())
+            res_.limitsHit.push_back(name);
+    }
+
+    const EngineOptions& opts_;
+    EngineResult& res_;
+    FactorCache& cache_;
+    std::size_t passCap_;
+    int measureCap_;
+    long long gateCeiling_;
+};
+
+bool better(Goal goal, const net::Metrics& a, const net::Metrics& b) {
+    return gainOf(goal, valueOf(b), valueOf(a)) > 0;
 }
 
 } // namespace
 
-const std::vector<PassInfo>& passRegistry() {
-    static const std::vector<PassInfo> registry = makeRegistry();
-    return registry;
+Goal parseGoal(const std::string& s) {
+    if (s == "size") return Goal::Size;
+    if (s == "depth") return Goal::Depth;
+    throw Error("unknown goal '" + s + "' (expected size or depth)");
 }
 
-const PassInfo* findPass(const std::string& name) {
-    for (const PassInfo& p : passRegistry())
-        if (p.name == name) return &p;
-    return nullptr;
+Effort parseEffort(const std::string& s) {
+    if (s == "fast") return Effort::Fast;
+    if (s == "default") return Effort::Default;
+    if (s == "thorough") return Effort::Thorough;
+    throw Error("unknown effort '" + s + "' (expected fast, default or thorough)");
 }
 
-std::vector<RecipeStep> parseRecipe(const std::string& recipe) {
-    std::vector<RecipeStep> steps;
-    std::size_t start = 0;
-    while (start <= recipe.size()) {
-        std::size_t comma = recipe.find(',', start);
-        std::string item = trim(recipe.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
-        start = comma == std::string::npos ? recipe.size() + 1 : comma + 1;
-        if (item.empty()) {
-            if (comma == std::string::npos && !steps.empty()) break;
-            throw Error("recipe: empty step in '" + recipe + "'; valid passes:" + validNames());
-        }
-        RecipeStep st;
-        std::size_t colon = item.find(':');
-        st.pass = trim(item.substr(0, colon));
-        if (colon != std::string::npos) st.arg = trim(item.substr(colon + 1));
-        const PassInfo* info = findPass(st.pass);
-        if (!info) throw Error("recipe: unknown pass '" + st.pass + "'; valid passes:" + validNames());
-        info->checkArg(st.arg);
-        steps.push_back(std::move(st));
+EngineLimits limitsFor(Effort e) {
+    EngineLimits l;
+    switch (e) {
+    case Effort::Fast:
+        l.trials = 12;
+        l.maxGrowth = 0;
+        l.regroupTrials = 4;
+        l.minGainPermille = 5;
+        l.impliedDontCares = false;
+        break;
+    case Effort::Default:
+        break;
+    case Effort::Thorough:
+        l.trials = 150;
+        l.maxGrowth = 8;
+        l.regroupTrials = 16;
+        l.minGainPermille = 0;
+        l.kernels = true;
+        l.dontCares.totalConflicts *= 5;
+        break;
     }
-    return steps;
+    return l;
 }
 
-std::string builtinRecipe(const std::string& effort) {
-    // One round = minimise nodes, extract shared divisors, resubstitute,
-    // extract common cubes; rounds are separated by a mild collapse
-    // (inline-small:1) that dissolves small nodes so the next round can
-    // regroup them. The shape follows the classic algebraic scripts; the
-    // thresholds were chosen on the EPFL random/control files (passes_bench).
-    const std::string round = "shrink-nodes,share-divisors,reuse-nodes,share-cubes";
-    const std::string roundK = "shrink-nodes,share-divisors:both,reuse-nodes,share-cubes";
-    if (effort == "fast")
-        return "tidy,inline-small:-1,inline-small:1," + round + ",inline-small:-1,tidy,final-factor";
-    if (effort == "default")
-        return "tidy,inline-small:-1,inline-small:1," + round + ",inline-small:1," + round + ",inline-small:1," +
-               round + ",inline-small:-1,tidy,final-factor";
-    if (effort == "thorough")
-        return "tidy,inline-small:-1,inline-small:1," + roundK + ",inline-small:1," + roundK + ",inline-small:1," +
-               round + ",inline-small:2," + round + ",inline-small:0," + round + ",inline-small:-1,tidy,final-factor";
-    throw Error("unknown effort '" + effort + "' (expected fast, default or thorough)");
+void setLimit(EngineLimits& limits, const std::string& assignment) {
+    const std::size_t eq = assignment.find('=');
+    const std::string name = assignment.substr(0, eq);
+    const LimitInfo* info = nullptr;
+    for (const LimitInfo& li : limitTable())
+        if (name == li.name) info = &li;
+    if (!info) throw Error("unknown limit '" + name + "'; valid limits:" + validLimits());
+    if (eq == std::string::npos) throw Error("limit '" + name + "' needs a value: " + name + "=N");
+    const std::string v = assignment.substr(eq + 1);
+    long long n = 0;
+    std::size_t used = 0;
+    try {
+        n = std::stoll(v, &used);
+    } catch (...) {
+        used = 0;
+    }
+    if (v.empty() || used != v.size() || n < info->min)
+        throw Error(fmt::format("limit {}: '{}' is not a whole number >= {}", name, v, info->min));
+    if ((name == "minimise-table-vars" || name == "dc-max-fanins") && n > 16)
+        throw Error(fmt::format("limit {}: at most 16", name));
+    if (name == "dc-exhaustive-inputs" && n > 20) throw Error("limit dc-exhaustive-inputs: at most 20");
+    if ((name == "kernels" || name == "implied-dont-cares") && n > 1)
+        throw Error(fmt::format("limit {}: 0 or 1", name));
+    info->set(limits, n);
+}
+
+std::string describeLimits() {
+    const EngineLimits d = limitsFor(Effort::Default);
+    std::string s;
+    for (const LimitInfo& li : limitTable()) s += fmt::format("  {:<30} {:>9}  {}\n", li.name, li.get(d), li.meaning);
+    return s;
 }
 
 EngineResult restructure(net::Network& net, const EngineOptions& opts) {
     const auto t0 = std::chrono::steady_clock::now();
     EngineResult res;
-    res.recipe = opts.recipe.empty() ? builtinRecipe(opts.effort) : opts.recipe;
-    const std::vector<RecipeStep> steps = parseRecipe(res.recipe);
-    FactorCache cache;
-    res.before = measureFactored(net, -1, &cache);
-    const long inputDepth = static_cast<long>(res.before.depth);
-    long cap = opts.maxDepth >= 0 ? opts.maxDepth : inputDepth;   // -2 (none) only from a recipe step
-    auto passCap = [&]() { return cap < 0 ? kNoDepthCap : static_cast<std::size_t>(cap); };
-    auto measureCap = [&]() { return cap < 0 ? 1 << 30 : static_cast<int>(cap); };
-    auto depthOk = [&](std::size_t depth, std::size_t previous) {
-        return cap < 0 || static_cast<long>(depth) <= std::max<long>(cap, static_cast<long>(previous));
-    };
+    FactorCache ownCache;
+    FactorCache& cache = opts.cache ? *opts.cache : ownCache;
+    tidy(net);
+    const int inputDepth = static_cast<int>(measureFactored(net, -1, &cache).depth);
+    // Size: forms may use depth up to the bound; depth: always the shallowest forms.
+    const int sizeCap = opts.maxDepth >= 0 ? std::max(opts.maxDepth, 0) : inputDepth;
+    const int measureCap = opts.goal == Goal::Size ? sizeCap : -1;
+    res.before = measureFactored(net, measureCap, &cache);
+    if (opts.goal == Goal::Size && res.before.depth > static_cast<std::size_t>(sizeCap))
+        res.before = measureFactored(net, -1, &cache);   // the bound is below what the input reaches
+    const std::size_t passCap = opts.goal == Goal::Size ? static_cast<std::size_t>(std::max<int>(sizeCap, inputDepth))
+                                                        : static_cast<std::size_t>(inputDepth);
     const net::Network original = net;
-    net::Metrics current = res.before;
-    // The best network seen after any step (cost first, depth within the bound).
-    net::Network best = net;
-    net::Metrics bestM = res.before;
-    bool bestIsInput = true;
-    for (const RecipeStep& step : steps) {
-        const auto ts = std::chrono::steady_clock::now();
-        PassRow row;
-        row.pass = step.str();
-        if (step.pass == "depth-cap") {
-            long c = depthCapArg(step.arg);
-            cap = c == -1 ? inputDepth : c;
-            row.after = current;
-        } else if (step.pass == "final-factor") {
-            current = measureFactored(net, measureCap(), &cache);
-            row.after = current;
-        } else {
-            const PassInfo* info = findPass(step.pass);
-            net::Network snapshot = net;
-            PassContext ctx;
-            ctx.depthCap = passCap();
-            ctx.verbose = opts.verbose;
-            info->run(net, step.arg, ctx);
-            net::Metrics m = measureFactored(net, measureCap(), &cache);
-            if (!depthOk(m.depth, current.depth)) {
-                net = std::move(snapshot);
-                row.undone = true;
-                m = current;
-            }
-            current = m;
-            row.after = m;
-            row.counters = ctx.stats.items();
-            if (!row.undone && depthOk(m.depth, res.before.depth) &&
-                (m.gates < bestM.gates || (m.gates == bestM.gates && m.literals < bestM.literals))) {
-                best = net;
-                bestM = m;
-                bestIsInput = false;
-            }
-        }
-        row.seconds = since(ts);
-        if (opts.verbose >= 2)
-            std::fprintf(stderr, "kerf: %-22s literals %zu gates %zu depth %zu (%.2fs)%s\n", row.pass.c_str(),
-                         row.after.literals, row.after.gates, row.after.depth, row.seconds,
-                         row.undone ? " undone: too deep" : "");
-        res.rows.push_back(std::move(row));
-    }
-    res.after = measureFactored(net, measureCap(), &cache);
-    if (!bestIsInput && (bestM.gates < res.after.gates ||
-                         (bestM.gates == res.after.gates && bestM.literals < res.after.literals))) {
-        net = std::move(best);   // a later step made it worse: go back to the best seen
-        res.after = measureFactored(net, measureCap(), &cache);
-    }
-    const bool depthFine = depthOk(res.after.depth, res.before.depth);
-    if (!depthFine || !costBetterOrEqual(res.after, res.before)) {
+    Scheduler sched(opts, res, cache, passCap, measureCap, static_cast<long long>(res.before.gates));
+    std::vector<Source> sources = sched.makeSources(true);
+    sched.run(net, res.before, sources, opts.limits.trials, true);
+    tidy(net);
+    res.forms = factorNetwork(net, measureCap, &cache);
+    res.after = res.forms.metrics;
+    const bool withinDepth = opts.goal == Goal::Depth || measureCap < 0 ||
+                             res.after.depth <= std::max<std::size_t>(sizeCap, res.before.depth);
+    const bool withinGates = opts.goal == Goal::Size || res.after.gates <= res.before.gates;
+    if (!withinDepth || !withinGates || !better(opts.goal, res.after, res.before)) {
         net = original;
-        res.after = res.before;
+        res.forms = factorNetwork(net, measureCap, &cache);
+        res.after = res.forms.metrics;
         res.keptOriginal = true;
     }
-    res.depthCap = measureCap();
+    res.depthCap = measureCap;
     res.seconds = since(t0);
     return res;
 }
 
-std::string formatPassTable(const EngineResult& r) {
-    std::string s = fmt::format("{:<24} {:>9} {:>8} {:>6} {:>7} {:>9}\n", "pass", "literals", "gates", "depth",
-                                "nodes", "seconds");
-    auto line = [&](const std::string& name, const net::Metrics& m, double sec, const std::string& note) {
-        s += fmt::format("{:<24} {:>9} {:>8} {:>6} {:>7} {:>9.3f}{}\n", name, m.literals, m.gates, m.depth, m.nodes,
-                         sec, note);
-    };
-    line("(input)", r.before, 0.0, "");
-    for (const PassRow& row : r.rows) line(row.pass, row.after, row.seconds, row.undone ? "  undone: too deep" : "");
-    line(r.keptOriginal ? "(result: input kept)" : "(result)", r.after, r.seconds, "");
-    bool any = false;
-    for (const PassRow& row : r.rows) {
-        if (row.counters.empty()) continue;
-        if (!any) s += "pass counters:\n";
-        any = true;
-        std::string c;
-        for (const auto& [n, v] : row.counters) c += fmt::format(" {}={}", n, v);
-        s += fmt::format("  {}:{}\n", row.pass, c);
+std::string formatEngineReport(const EngineResult& r) {
+    std::string s = fmt::format("{:<30} {:>8} {:>6} {:>9}\n", "moves kept", "gates", "depth", "literals");
+    s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", "(input)", r.before.gates, r.before.depth, r.before.literals);
+    for (const MoveRow& m : r.moves)
+        s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", m.technique, m.after.gates, m.after.depth, m.after.literals);
+    s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", r.keptOriginal ? "(result: input kept)" : "(result)",
+                     r.after.gates, r.after.depth, r.after.literals);
+    s += fmt::format("\n{:<30} {:>6} {:>5} {:>11} {:>11} {:>8}\n", "technique", "trials", "kept", "gates saved",
+                     "depth saved", "seconds");
+    for (const TechniqueRow& t : r.techniques) {
+        s += fmt::format("{:<30} {:>6} {:>5} {:>11} {:>11} {:>8.3f}\n", t.technique, t.trials, t.applied,
+                         t.gatesSaved, t.depthSaved, t.seconds);
+        if (!t.counters.empty()) {
+            std::string c;
+            for (const auto& [n, v] : t.counters) c += fmt::format(" {}={}", n, v);
+            s += "   " + c + "\n";
+        }
     }
+    if (!r.limitsHit.empty()) {
+        s += "limits that cut work short (raise with --limit NAME=N):";
+        for (const std::string& l : r.limitsHit) s += " " + l;
+        s += "\n";
+    }
+    s += fmt::format("engine time {:.3f} s\n", r.seconds);
     return s;
 }
 

@@ -1,4 +1,4 @@
-// inline_small.cpp — the pass `inline-small`: collapse small nodes into
+// inline_small.cpp — dissolving nodes, the first half of `regroup` moves: collapse small nodes into
 // their fanouts.
 //
 // Background. Eliminating a node (substituting its function into every
@@ -15,7 +15,7 @@
 // minimised, see twolevel.cpp) is substituted there.
 #include "kerf/passes/inline_small.h"
 
-#include "kerf/passes/twolevel.h"
+#include "kerf/minimize/twolevel.h"
 #include "workspace.h"
 
 #include <algorithm>
@@ -40,6 +40,7 @@ struct Evaluation {
 // no exact search: this runs for every evaluation).
 class ComplementCache {
 public:
+    explicit ComplementCache(std::size_t capCubes) : capCubes_(capCubes) {}
     const Cover* get(const Cover& g, std::size_t cap) {
         std::string key = detail::coverKey(g);
         auto it = cache_.find(key);
@@ -50,9 +51,9 @@ public:
                 e.cover.normalize();
                 e.ok = true;
             } else {
-                MinimizeOptions mo;
+                minimize::MinimizeOptions mo;
                 mo.exactVars = 0;
-                e.ok = complementCover(g, e.cover, 4096, mo);
+                e.ok = minimize::complementCover(g, e.cover, capCubes_, mo);
             }
             it = cache_.emplace(std::move(key), std::move(e)).first;
         }
@@ -62,6 +63,7 @@ public:
 private:
     struct Entry { bool ok = false; Cover cover; };
     std::unordered_map<std::string, Entry> cache_;
+    std::size_t capCubes_;
 };
 
 Evaluation evaluate(detail::Workspace& ws, net::NodeId v, const InlineOptions& opts, ComplementCache& cc) {
@@ -94,7 +96,7 @@ Evaluation evaluate(detail::Workspace& ws, net::NodeId v, const InlineOptions& o
 
 void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx) {
     detail::Workspace ws(net, ctx.depthCap);
-    ComplementCache cc;
+    ComplementCache cc(opts.complementCubeCap);
     using Item = std::pair<long, net::NodeId>;
     std::priority_queue<Item, std::vector<Item>, std::greater<>> heap;
     for (net::NodeId v : net.topoOrder()) {

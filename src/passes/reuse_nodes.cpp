@@ -1,4 +1,4 @@
-// reuse_nodes.cpp — the pass `reuse-nodes`: algebraic resubstitution.
+// reuse_nodes.cpp — the technique of the `resubstitute` move: algebraic resubstitution.
 //
 // Background. A node f may already contain, algebraically, the function of
 // another node g: f = q·g + r by weak division of f's cover by g's. Then g's
@@ -13,7 +13,7 @@
 // again until nothing saves.
 #include "kerf/passes/reuse_nodes.h"
 
-#include "kerf/passes/twolevel.h"
+#include "kerf/minimize/twolevel.h"
 #include "workspace.h"
 
 #include <algorithm>
@@ -57,9 +57,10 @@ void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
         auto it = compCache.find(key);
         if (it != compCache.end()) return it->second;
         Cover c;
-        bool ok = complementCover(g, c, opts.complementCubeCap);
+        bool ok = minimize::complementCover(g, c, opts.complementCubeCap);
         return compCache.emplace(std::move(key), std::make_pair(ok, std::move(c))).first->second;
     };
+    long scanCut = 0;
     long substituted = 0, viaComplement = 0, saved = 0, rejected = 0, divisions = 0;
     std::vector<std::uint32_t> count(net.nodeCount(), 0);
     // Support size per node (only the node being rewritten changes in this pass).
@@ -79,7 +80,7 @@ void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
             std::vector<net::NodeId> seen;
             for (std::uint32_t u : supp) {
                 const auto& fo = ws.fanouts(u);
-                if (fo.size() > 4096) continue;
+                if (fo.size() > opts.fanoutScanLimit) { ++scanCut; continue; }
                 for (net::NodeId g : fo) {
                     if (g == f || !ws.live(g)) continue;
                     if (count[g]++ == 0) seen.push_back(g);
@@ -143,6 +144,7 @@ void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("divisions", divisions);
     ctx.stats.add("depth-rejects", rejected);
+    if (scanCut) ctx.stats.add("limit-hit:resub-fanout-scan", scanCut);
 }
 
 } // namespace kerf::passes

@@ -1,4 +1,4 @@
-// share_cubes.cpp — the pass `share-cubes`: extract cubes common to several
+// share_cubes.cpp — the technique of the `extract-cubes` move: extract cubes common to several
 // cubes of the network.
 //
 // Background. A cube that divides many cubes (in one node or across nodes)
@@ -179,7 +179,7 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
     ctx.stats.add("reused-nodes", reused);
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("candidates", candidates);
-    ctx.stats.add("work-budget-hit", exhausted ? 1 : 0);
+    if (exhausted) ctx.stats.add("limit-hit:cubes-work", 1);
     ctx.stats.add("depth-rejects", static_cast<long long>(ws.depthRejects()));
 }
 

@@ -1,4 +1,4 @@
-// share_divisors.cpp — the pass `share-divisors`: extract divisors shared by
+// share_divisors.cpp — the technique of the `extract-divisors` and `extract-kernels` moves: extract divisors shared by
 // several nodes (or repeated inside one) as new nodes.
 //
 // Background. Multi-level algebraic synthesis treats covers as polynomials
@@ -123,7 +123,7 @@ public:
                 }
         }
         // Large nodes (their pairs would be recounted after every extraction)
-        // leave common cubes to share-cubes.
+        // leave common cubes to extract-cubes.
         if (F.cubes.size() > opts_.maxCubesForPairs) return;
         for (const Cube& cube : F.cubes) {
             if (cube.lits.size() < 2 || cube.lits.size() > opts_.maxCubeForLiteralPairs) continue;
@@ -242,7 +242,7 @@ void runKernels(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ct
     long extracted = 0, reused = 0, saved = 0, rounds = 0;
     algebra::KernelOptions kopts;
     kopts.maxKernels = opts.maxKernelsPerNode;
-    kopts.maxWork = 200000;
+    kopts.maxWork = opts.kernelWork;
     for (int round = 0; round < 4; ++round) {
         ++rounds;
         struct Cand { Cover k; std::vector<net::NodeId> nodes; net::NodeId provider = 0; long value = 0; };

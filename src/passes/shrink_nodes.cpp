@@ -1,4 +1,4 @@
-// shrink_nodes.cpp — the pass `shrink-nodes`: two-level minimisation of
+// shrink_nodes.cpp — the technique of the `minimise-nodes` move: two-level minimisation of
 // every node, taking the complement when its cover is cheaper.
 //
 // Background. Treating each node of a multi-level network as a two-level
@@ -29,11 +29,11 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx)
         // Very large covers over many variables: nothing but containment would
         // run on them, and that is quadratic; leave them alone.
         if (cv.cubes.size() > 4 * opts.minimize.maxHeuristicCubes && cv.support().size() > 16) continue;
-        Cover best = minimizeCover(cv, opts.minimize);
+        Cover best = minimize::minimizeCover(cv, opts.minimize);
         bool flip = false;
         if (opts.allowComplement && (!ws.fanouts(v).empty() || ws.outputRefs(v) > 0)) {
             Cover comp;
-            if (complementCover(cv, comp, 4 * cv.cubes.size() + 16, opts.minimize)) {
+            if (minimize::complementCover(cv, comp, 4 * cv.cubes.size() + 16, opts.minimize)) {
                 std::size_t lc = detail::lits(comp), lb = detail::lits(best);
                 if (lc < lb || (lc == lb && comp.cubes.size() < best.cubes.size())) {
                     best = std::move(comp);

@@ -9,13 +9,19 @@
 // synthetic decoders (1k, 10k, 100k product terms over 32–64 inputs).
 // Every result is also checked by random simulation against the input.
 //
-// Usage: passes_bench [--effort E] [--recipe R] [--epfl DIR] [--skip-synthetic] [--only NAME|synthetic] [--min-terms N] [--max-terms N] [-v]
+// Then a set of case-style decoders with x defaults, restructured with the x
+// read as 0 and with it declared as don't-care (the "checked" column
+// compares outputs wherever the condition is 0).
+//
+// Usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR]
+//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares] [--min-terms N] [--max-terms N] [-v]
 #include "../unit/passes_support.h"
 
 #include "kerf/passes/engine.h"
 #include "kerf/passes/factored.h"
 #include "kerf/passes/tidy.h"
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -68,15 +74,74 @@ net::Network syntheticDecoder(std::size_t terms, std::size_t inputs, std::size_t
     return n;
 }
 
-std::string gRecipe;
+// Outputs of a and b agree on 32 words of random patterns wherever the declared condition is 0.
+bool equalWhereCared(const net::Network& a, const net::Network& b, const net::Network& dc) {
+    std::mt19937_64 rng(5);
+    for (int w = 0; w < 32; ++w) {
+        std::vector<std::uint64_t> in(a.inputs().size());
+        for (auto& x : in) x = rng();
+        auto va = net::simulate(a, in), vb = net::simulate(b, in), vd = net::simulate(dc, in);
+        for (std::size_t o = 0; o < va.size(); ++o)
+            if ((va[o] ^ vb[o]) & ~vd[o]) return false;
+    }
+    return true;
+}
 
-Figures runCase(net::Network net, const std::string& effort, int verbose) {
+// A decoder as a case statement with listed codes and an x default: each of
+// `outputs` outputs is 1 for some of `codes` listed input codes (full
+// compares of `inputs` bits), 0 for the others, and free (x) for every code
+// not listed. Returns the network with x read as 0 and fills `dc` with the
+// don't-care condition (no listed code matches), both over the same inputs.
+net::Network caseDecoder(std::size_t codes, std::size_t inputs, std::size_t outputs, std::uint32_t seed,
+                         net::Network& dc) {
+    std::mt19937 rng(seed);
+    net::Network n;
+    dc = net::Network{};
+    std::vector<net::NodeId> in, din;
+    for (std::size_t i = 0; i < inputs; ++i) {
+        in.push_back(n.addInput("a" + std::to_string(i)));
+        din.push_back(dc.addInput("a" + std::to_string(i)));
+    }
+    std::vector<std::uint32_t> listed;
+    while (listed.size() < codes) {
+        std::uint32_t c = rng() & ((1u << inputs) - 1);
+        if (std::find(listed.begin(), listed.end(), c) == listed.end()) listed.push_back(c);
+    }
+    auto cube = [&](std::uint32_t code, const std::vector<net::NodeId>& vars) {
+        std::vector<algebra::Literal> ls;
+        for (std::size_t i = 0; i < inputs; ++i) ls.push_back(algebra::makeLiteral(vars[i], !((code >> i) & 1)));
+        return algebra::Cube(std::move(ls));
+    };
+    algebra::Cover any;
+    for (std::uint32_t c : listed) any.cubes.push_back(cube(c, din));
+    any.normalize();
+    const net::NodeId anyNode = dc.addLogic(std::move(any));
+    for (std::size_t o = 0; o < outputs; ++o) {
+        algebra::Cover f;
+        for (std::uint32_t c : listed)
+            if (rng() % 3 == 0) f.cubes.push_back(cube(c, in));
+        f.normalize();
+        const std::string name = "d" + std::to_string(o);
+        n.addOutput(name, algebra::makeLiteral(n.addLogic(std::move(f)), false));
+        dc.addOutput(name, algebra::makeLiteral(anyNode, true));
+    }
+    return n;
+}
+
+std::string gGoal = "size";
+std::vector<std::string> gLimits;
+bool gTechniques = false;
+
+Figures runCase(net::Network net, const std::string& effort, int verbose, const net::Network* dontCares = nullptr) {
     Figures f;
     passes::tidy(net);
     const net::Network input = net;
     passes::EngineOptions o;
-    o.effort = effort;
-    o.recipe = gRecipe;
+    o.goal = passes::parseGoal(gGoal);
+    o.effort = passes::parseEffort(effort);
+    o.limits = passes::limitsFor(o.effort);
+    for (const auto& l : gLimits) passes::setLimit(o.limits, l);
+    o.dontCares = dontCares;
     o.verbose = verbose;
     auto t0 = std::chrono::steady_clock::now();
     passes::EngineResult r = passes::restructure(net, o);
@@ -88,8 +153,8 @@ Figures runCase(net::Network net, const std::string& effort, int verbose) {
     f.litsBefore = r.before.literals;
     f.litsAfter = r.after.literals;
     f.kept = r.keptOriginal;
-    f.equivalent = sameFunctions(input, net, 32).empty();
-    if (verbose) std::fprintf(stderr, "%s", passes::formatPassTable(r).c_str());
+    f.equivalent = dontCares ? equalWhereCared(input, net, *dontCares) : sameFunctions(input, net, 32).empty();
+    if (verbose || gTechniques) std::fprintf(stderr, "%s", passes::formatEngineReport(r).c_str());
     return f;
 }
 
@@ -130,19 +195,23 @@ int main(int argc, char** argv) {
         if (a == "--effort" && i + 1 < argc) effort = argv[++i];
         else if (a == "--epfl" && i + 1 < argc) dir = argv[++i];
         else if (a == "--only" && i + 1 < argc) only = argv[++i];
-        else if (a == "--recipe" && i + 1 < argc) gRecipe = argv[++i];
+        else if (a == "--goal" && i + 1 < argc) gGoal = argv[++i];
+        else if (a == "--limit" && i + 1 < argc) gLimits.push_back(argv[++i]);
+        else if (a == "--techniques") gTechniques = true;
         else if (a == "--skip-synthetic") synthetic = false;
         else if (a == "--max-terms" && i + 1 < argc) maxTerms = std::stoul(argv[++i]);
         else if (a == "--min-terms" && i + 1 < argc) minTerms = std::stoul(argv[++i]);
         else if (a == "-v") ++verbose;
         else {
-            std::fprintf(stderr, "usage: passes_bench [--effort E] [--recipe R] [--epfl DIR] [--only NAME] [--skip-synthetic] [-v]\n");
+            std::fprintf(stderr, "usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR] "
+                                 "[--only NAME|synthetic|dont-cares] [--skip-synthetic] [--min-terms N] [--max-terms N] [-v]\n");
             return 2;
         }
     }
     if (dir.empty()) dir = std::string(KERF_SOURCE_DIR) + "/../shared/benchmarks/epfl";
     int failures = 0;
-    std::printf("effort: %s%s%s\n", effort.c_str(), gRecipe.empty() ? "" : ", recipe: ", gRecipe.c_str());
+    std::printf("effort: %s, goal: %s%s\n", effort.c_str(), gGoal.c_str(), gLimits.empty() ? "" : ", limits set:");
+    for (const auto& l : gLimits) std::printf("  %s\n", l.c_str());
     std::printf("%-14s %8s %8s %7s %7s %7s %9s %10s %s\n", "file", "gates", "after", "ratio", "depth", "after",
                 "seconds", "peakRSS", "notes");
     double logSum = 0;
@@ -152,7 +221,7 @@ int main(int argc, char** argv) {
         std::printf("(EPFL benchmarks not found at %s: skipped)\n", dir.c_str());
     } else {
         for (const char* name : files) {
-            if (!only.empty() && only != name) continue;   // --only synthetic skips them all
+            if (!only.empty() && only != name) continue;   // --only synthetic / dont-cares skip them all
             std::string path = dir + "/" + name + ".v";
             Figures f;
             long rss = 0;
@@ -197,6 +266,33 @@ int main(int argc, char** argv) {
                         f.gatesBefore, f.gatesAfter, f.depthAfter, f.seconds, rss / 1024.0,
                         f.equivalent ? "" : " NOT-EQUIVALENT");
             if (!f.equivalent) ++failures;
+            std::fflush(stdout);
+        }
+    }
+    if (only.empty() || only == "dont-cares") {
+        // Declared x defaults: the same decoders restructured with x read as 0
+        // and with the x positions given to the engine as don't-cares.
+        std::printf("\n%-26s %8s %9s %9s %9s %10s\n", "case decoder, x default", "gates", "x as 0", "x free",
+                    "seconds", "checked");
+        struct Dc { std::size_t codes, inputs, outputs; };
+        for (Dc c : {Dc{12, 6, 4}, Dc{24, 8, 8}, Dc{40, 10, 8}, Dc{64, 12, 16}, Dc{100, 14, 16}}) {
+            net::Network dc;
+            const net::Network n = caseDecoder(c.codes, c.inputs, c.outputs, static_cast<std::uint32_t>(c.codes), dc);
+            Figures f0, f1;
+            long rss = 0;
+            bool ok0 = isolated([&] { return runCase(n, effort, verbose); }, f0, rss);
+            bool ok1 = isolated([&] { return runCase(n, effort, verbose, &dc); }, f1, rss);
+            std::string label = std::to_string(c.codes) + " codes/" + std::to_string(c.inputs) + " in/" +
+                                std::to_string(c.outputs) + " out";
+            if (!ok0 || !ok1) {
+                std::printf("%-26s crashed\n", label.c_str());
+                ++failures;
+                continue;
+            }
+            const bool good = f0.equivalent && f1.equivalent;
+            std::printf("%-26s %8zu %9zu %9zu %9.2f %10s\n", label.c_str(), f0.gatesBefore, f0.gatesAfter,
+                        f1.gatesAfter, f1.seconds, good ? "equal" : "NOT-EQUIVALENT");
+            if (!good) ++failures;
             std::fflush(stdout);
         }
     }

@@ -112,23 +112,43 @@ def renamed(text, old, new):
 
 
 def always_comb_as_always_star(text):
-    """`text` with every `always_comb` keyword (found by slang) written `always @(*)`.
+    """`text` with every `always_comb` block that reads a signal written `always @(*)`.
 
     A workaround for Icarus Verilog 11, which can loop forever at one time step on
     `always_comb` blocks that are not in a loop at all, e.g. (reduced from a random module):
         always_comb begin o = a[1]; o = b[1]; end
         always_comb begin w3 = o; w3 = b[0]; end
         always_comb begin w5[1] = w3[0]; end
-    With `always @(*)` it simulates. Both sides of a comparison get the same treatment; the
-    two forms differ only at time zero and in what functions read, neither of which the
-    generated modules depend on (their testbenches set every input before comparing)."""
+    With `always @(*)` it simulates. The two forms differ at time zero (always_comb runs once
+    then, `always @(*)` waits for a change of what it reads), so a block that reads nothing
+    (constant assignments only) keeps `always_comb`; and in what functions read, which the
+    generated modules do not depend on. Both sides of a comparison get the same treatment.
+    Blocks are found and their reads told apart from their targets by slang's syntax tree."""
     from pyslang import syntax
+    names = (syntax.SyntaxKind.IdentifierName, syntax.SyntaxKind.IdentifierSelectName)
+    assigns = (syntax.SyntaxKind.AssignmentExpression, syntax.SyntaxKind.NonblockingAssignmentExpression)
     tree = syntax.SyntaxTree.fromText(text)
     offsets = []
 
+    def count(node, into):
+        def visit(n):
+            if getattr(n, "kind", None) in names:
+                into.append(n)
+            return True
+        node.visit(visit)
+
     def visit(node):
         if getattr(node, "kind", None) == syntax.SyntaxKind.AlwaysCombBlock:
-            offsets.append(node.keyword.location.offset)
+            every, targets = [], []
+            count(node, every)
+
+            def lefts(n):
+                if getattr(n, "kind", None) in assigns:
+                    count(n.left, targets)
+                return True
+            node.visit(lefts)
+            if len(every) > len(targets):
+                offsets.append(node.keyword.location.offset)
         return True
     tree.root.visit(visit)
     raw = text.encode()

@@ -2,6 +2,7 @@
 // kerf-case: a lane count that instances set (2, 4, 6), with a lane mask parameter.
 // kerf-params: N=2
 // kerf-params: N=6 MASK=6'b101101
+// kerf-pin: N=2 other N=4
 module gen_lanes #(
   parameter int          N    = 4,
   parameter logic [N-1:0] MASK = '1

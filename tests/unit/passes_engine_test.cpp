@@ -1,5 +1,5 @@
-// passes_engine_test.cpp — recipes, the engine's bookkeeping and the
-// factored-form figures (final-factor).
+// passes_engine_test.cpp — the engine's limits, goals and bookkeeping,
+// declared don't-cares, and the factored-form figures.
 #include "kerf/passes/engine.h"
 #include "kerf/passes/factored.h"
 #include "kerf/passes/tidy.h"
@@ -9,62 +9,102 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
+
 using namespace kerf;
 using namespace kerf::passes;
 using namespace kerf::passes::testing;
 
-TEST(PassesRecipe, ParsesPassesAndArguments) {
-    auto steps = parseRecipe(" tidy, inline-small:3/16 ,share-divisors:kernels,depth-cap:12,final-factor");
-    ASSERT_EQ(steps.size(), 5u);
-    EXPECT_EQ(steps[0].pass, "tidy");
-    EXPECT_EQ(steps[1].pass, "inline-small");
-    EXPECT_EQ(steps[1].arg, "3/16");
-    EXPECT_EQ(steps[2].arg, "kernels");
-    EXPECT_EQ(steps[3].str(), "depth-cap:12");
-}
-
-TEST(PassesRecipe, RejectsUnknownPassesListingTheValidOnes) {
+TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
+    EngineLimits l = limitsFor(Effort::Default);
+    setLimit(l, "trials=7");
+    setLimit(l, "max-growth=3");
+    setLimit(l, "dc-window-nodes=50");
+    EXPECT_EQ(l.trials, 7);
+    EXPECT_EQ(l.maxGrowth, 3);
+    EXPECT_EQ(l.dontCares.windowNodes, 50u);
     try {
-        parseRecipe("tidy,collapse-all");
+        setLimit(l, "collapse-all=1");
         FAIL() << "expected an error";
     } catch (const Error& e) {
         std::string m = e.what();
         EXPECT_NE(m.find("collapse-all"), std::string::npos);
-        for (const PassInfo& p : passRegistry()) EXPECT_NE(m.find(p.name), std::string::npos) << p.name;
+        EXPECT_NE(m.find("max-growth"), std::string::npos) << "the message lists the valid limits";
         EXPECT_EQ(e.code(), ExitCode::InputError);
+    }
+    for (const char* bad : {"trials", "trials=", "trials=lots", "trials=0", "max-growth=-1", "kernels=2",
+                            "dc-max-fanins=17", "trials=3x"})
+        EXPECT_THROW(setLimit(l, bad), Error) << bad;
+    EXPECT_THROW(parseGoal("area"), Error);
+    EXPECT_THROW(parseEffort("extreme"), Error);
+    EXPECT_EQ(parseGoal("depth"), Goal::Depth);
+    // Every limit is documented with its default.
+    std::string d = describeLimits();
+    for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps"})
+        EXPECT_NE(d.find(name), std::string::npos) << name;
+}
+
+TEST(PassesEngine, KeptMovesEachImproveAndTheReportListsTechniques) {
+    for (std::uint32_t seed = 1; seed <= 4; ++seed) {
+        Network n = randomAig(5 + seed, 10, 200, 5);
+        tidy(n);
+        const Network input = n;
+        EngineOptions o;
+        EngineResult r = restructure(n, o);
+        EXPECT_EQ(sameFunctions(input, n), "");
+        // Each kept move lowers the gates (or, at equal gates, the literals) of the one before.
+        net::Metrics prev = r.before;
+        for (const MoveRow& m : r.moves) {
+            EXPECT_TRUE(m.after.gates < prev.gates || (m.after.gates == prev.gates && m.after.literals < prev.literals))
+                << m.technique;
+            EXPECT_LE(m.after.depth, r.before.depth) << m.technique;
+            prev = m.after;
+        }
+        int trials = 0;
+        for (const TechniqueRow& t : r.techniques) trials += t.trials;
+        EXPECT_LE(static_cast<std::size_t>(r.techniques.size() > 0 ? 1 : 0), trials);
+        std::string t = formatEngineReport(r);
+        for (const char* col : {"moves kept", "technique", "trials", "gates saved", "minimise-nodes"})
+            EXPECT_NE(t.find(col), std::string::npos) << col;
+        // The forms handed to the writer are the ones counted.
+        EXPECT_EQ(r.forms.metrics.gates, r.after.gates);
+        EXPECT_EQ(measureFactored(n, r.depthCap).gates, r.after.gates);
     }
 }
 
-TEST(PassesRecipe, RejectsBadArguments) {
-    EXPECT_THROW(parseRecipe("inline-small:lots"), Error);
-    EXPECT_THROW(parseRecipe("inline-small:2/0"), Error);
-    EXPECT_THROW(parseRecipe("share-divisors:all"), Error);
-    EXPECT_THROW(parseRecipe("tidy:1"), Error);
-    EXPECT_THROW(parseRecipe("depth-cap:-3"), Error);
-    EXPECT_THROW(parseRecipe("tidy,,shrink-nodes"), Error);
-    EXPECT_THROW(parseRecipe(""), Error);
-    EXPECT_THROW(builtinRecipe("extreme"), Error);
-    for (const char* e : {"fast", "default", "thorough"}) EXPECT_NO_THROW(parseRecipe(builtinRecipe(e)));
+TEST(PassesEngine, TrialBudgetIsReportedWhenItCutsWorkShort) {
+    Network n = randomAig(31, 10, 300, 6);
+    tidy(n);
+    const Network input = n;
+    EngineOptions o;
+    o.limits.trials = 2;
+    EngineResult r = restructure(n, o);
+    EXPECT_EQ(sameFunctions(input, n), "");
+    int trials = 0;
+    for (const TechniqueRow& t : r.techniques) trials += t.trials;
+    EXPECT_GE(trials, 2);
+    EXPECT_NE(std::find(r.limitsHit.begin(), r.limitsHit.end(), "trials"), r.limitsHit.end());
 }
 
-TEST(PassesEngine, RowsFollowTheRecipeAndTheTableShowsThem) {
-    Network n = randomAig(5, 10, 200, 5);
-    tidy(n);
-    EngineOptions o;
-    o.recipe = "tidy,inline-small:-1,shrink-nodes,final-factor";
-    EngineResult r = restructure(n, o);
-    ASSERT_EQ(r.rows.size(), 4u);
-    EXPECT_EQ(r.rows[1].pass, "inline-small:-1");
-    EXPECT_EQ(r.recipe, o.recipe);
-    std::string t = formatPassTable(r);
-    for (const char* col : {"pass", "literals", "gates", "depth", "nodes", "seconds", "inline-small:-1", "collapsed="})
-        EXPECT_NE(t.find(col), std::string::npos) << col;
+TEST(PassesEngine, DepthGoalNeverAddsGatesNorDepth) {
+    for (std::uint32_t seed = 1; seed <= 4; ++seed) {
+        Network n = randomAig(60 + seed, 12, 250, 6);
+        tidy(n);
+        const Network input = n;
+        EngineOptions o;
+        o.goal = Goal::Depth;
+        EngineResult r = restructure(n, o);
+        EXPECT_EQ(sameFunctions(input, n), "");
+        EXPECT_LE(r.after.gates, r.before.gates);
+        EXPECT_LE(r.after.depth, r.before.depth);
+        EXPECT_EQ(measureFactored(n, -1).depth, r.after.depth);
+    }
 }
 
 TEST(PassesEngine, WorseResultRestoresTheInput) {
     // A chain of XORs (3 gates each) collapsed into one sum of products is
-    // the 8-cube parity of four inputs, far bigger even when factored; the
-    // engine must give the input back.
+    // the 8-cube parity of four inputs, far bigger even when factored; no
+    // move pays, and the engine gives back a network no bigger than the input.
     Network n;
     std::vector<NodeId> in;
     for (int i = 0; i < 4; ++i) in.push_back(n.addInput("i" + std::to_string(i)));
@@ -73,12 +113,38 @@ TEST(PassesEngine, WorseResultRestoresTheInput) {
     n.addOutput("p", pos(p));
     const Network input = n;
     EngineOptions o;
-    o.recipe = "depth-cap:none,inline-small:1000/256";
+    o.limits.maxGrowth = 64;
+    o.limits.dissolve.maxCubes = 256;
     EngineResult r = restructure(n, o);
-    EXPECT_TRUE(r.keptOriginal);
-    EXPECT_EQ(n.node(p).cover, input.node(p).cover);
-    EXPECT_EQ(r.after.gates, r.before.gates);
+    EXPECT_LE(r.after.gates, r.before.gates);
+    if (r.keptOriginal) EXPECT_EQ(n.node(p).cover, input.node(p).cover);
     EXPECT_EQ(sameFunctions(input, n), "");
+}
+
+// Declared don't-cares (IEEE 1364.1 / 1800 synthesis reading of x): where
+// the condition is 1 the output may take any value. f = a·b + c with a·¬b
+// free may become a + c (the definition of an incompletely specified
+// function, e.g. Brayton et al. 1984, from memory).
+TEST(PassesEngine, DeclaredDontCaresAreUsedAndRespected) {
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c");
+    NodeId f = n.addLogic(cover({{pos(a), pos(b)}, {pos(c)}}));
+    n.addOutput("f", pos(f));
+    Network dc;
+    NodeId da = dc.addInput("a"), db = dc.addInput("b");
+    dc.addInput("c");
+    dc.addOutput("f", pos(dc.addLogic(cover({{pos(da), neg(db)}}))));
+    const Network input = n;
+    EngineOptions o;
+    o.dontCares = &dc;
+    EngineResult r = restructure(n, o);
+    EXPECT_LT(r.after.gates, r.before.gates) << "the freedom a·¬b should remove the AND";
+    // Compare every input pattern: equal wherever the condition is 0.
+    for (std::uint32_t m = 0; m < 8; ++m) {
+        std::vector<std::uint64_t> w = {(m & 1) ? ~0ull : 0, (m & 2) ? ~0ull : 0, (m & 4) ? ~0ull : 0};
+        const bool free = (m & 1) && !(m & 2);
+        if (!free) EXPECT_EQ(net::simulate(input, w)[0] & 1, net::simulate(n, w)[0] & 1) << m;
+    }
 }
 
 TEST(PassesFactored, CountsGatesOnFactoredForms) {

@@ -8,6 +8,7 @@
 #include "kerf/passes/reuse_nodes.h"
 #include "kerf/passes/share_cubes.h"
 #include "kerf/passes/share_divisors.h"
+#include "kerf/passes/dont_cares.h"
 #include "kerf/passes/shrink_nodes.h"
 
 #include "passes_support.h"
@@ -143,11 +144,13 @@ TEST(PassesInline, CubeCapStopsExplosion) {
     NodeId y = n.addLogic(cover({{pos(in[4])}, {pos(in[5])}, {pos(in[6])}, {pos(in[7])}}));
     NodeId z = n.addLogic(cover({{pos(x), pos(y)}}));
     n.addOutput("z", pos(z));
+    Network before = n;
     PassContext ctx;
     InlineOptions o;
     o.threshold = 100;
     o.maxCubes = 8;
     inlineSmall(n, o, ctx);
+    EXPECT_EQ(sameFunctions(before, n), "");   // the cap limits the work, never the function
     EXPECT_LE(n.node(z).cover.cubes.size(), 8u);
     EXPECT_TRUE(n.isLogic(x) || n.isLogic(y));
 }
@@ -262,4 +265,48 @@ TEST(PassesReuse, DividesByAComplement) {
     EXPECT_EQ(sameFunctions(before, n), "");
     EXPECT_EQ(n.node(f).cover, cover({{neg(g), pos(c)}, {pos(e)}}));
     EXPECT_EQ(ctx.stats.get("via-complement"), 1);
+}
+
+// Observability don't-cares (K. A. Bartlett et al., IEEE TCAD 1988; Savoj
+// and Brayton, DAC 1990 — from memory): in out = a·g with g = a⊕b, g is
+// only observed when a = 1, where it equals ¬b; so g may become ¬b. Checked
+// both with every input pattern simulated and through the SAT path.
+TEST(PassesDontCares, UnobservedValuesAreFreed) {
+    for (int exhaustive : {14, 0}) {
+        Network n;
+        NodeId a = n.addInput("a"), b = n.addInput("b");
+        NodeId g = n.addLogic(cover({{pos(a), neg(b)}, {neg(a), pos(b)}}));
+        NodeId out = n.addLogic(cover({{pos(a), pos(g)}}));
+        n.addOutput("out", pos(out));
+        const Network before = n;
+        DontCareOptions o;
+        o.exhaustiveInputs = exhaustive;
+        PassContext ctx;
+        minimiseWithDontCares(n, o, nullptr, ctx);
+        EXPECT_EQ(sameFunctions(before, n), "");
+        EXPECT_LE(n.node(g).cover.literalCount(), 1u) << "exhaustive up to " << exhaustive;
+    }
+}
+
+// Satisfiability don't-cares (same sources): h = x⊕y reads x = a·b and
+// y = a + b; the fanin value x = 1, y = 0 never occurs, and on the values
+// that do occur h equals ¬x·y (2 literals instead of 4).
+TEST(PassesDontCares, ImpossibleFaninValuesAreFreed) {
+    for (int exhaustive : {14, 0}) {
+        Network n;
+        NodeId a = n.addInput("a"), b = n.addInput("b");
+        NodeId x = n.addLogic(cover({{pos(a), pos(b)}}));
+        NodeId y = n.addLogic(cover({{pos(a)}, {pos(b)}}));
+        NodeId h = n.addLogic(cover({{pos(x), neg(y)}, {neg(x), pos(y)}}));
+        n.addOutput("h", pos(h));
+        n.addOutput("x", pos(x));
+        n.addOutput("y", pos(y));
+        const Network before = n;
+        DontCareOptions o;
+        o.exhaustiveInputs = exhaustive;
+        PassContext ctx;
+        minimiseWithDontCares(n, o, nullptr, ctx);
+        EXPECT_EQ(sameFunctions(before, n), "");
+        EXPECT_LE(n.node(h).cover.literalCount(), 2u) << "exhaustive up to " << exhaustive;
+    }
 }

@@ -171,7 +171,6 @@ TEST(ProofEquivalence, ConstantAndInputOutputs) {
 TEST(ProofEquivalence, RandomRestructuringsAreProved) {
     // Restructurings by De Morgan, distribution, consensus and absorption
     // preserve the function; the exhaustive reference confirms each pair.
-    int proved = 0;
     for (std::uint64_t seed = 1; seed <= 40; ++seed) {
         Network a = randomNetwork(seed, 12, 50, 8);
         Network b = restructure(a, seed + 1000, 40);
@@ -182,10 +181,8 @@ TEST(ProofEquivalence, RandomRestructuringsAreProved) {
             o.seed = seed;
             ProofResult r = proveEquivalent(a, b, o);
             ASSERT_EQ(r.verdict, Verdict::Equivalent) << "seed " << seed << " sweep " << sweep;
-            ++proved;
         }
     }
-    EXPECT_EQ(proved, 80);
 }
 
 TEST(ProofEquivalence, MutantsAreRejectedExactlyWhenTheyDiffer) {

@@ -22,15 +22,16 @@ struct RestructureOptions {
     std::string backupSuffix;        ///< --backup: keep the replaced file's old text in FILE+SUFFIX
     bool quiet = false;              ///< no progress line and no summary on stderr
     bool check = false;              ///< CI mode: write nothing, exit 1 when kerf would change the file
-    std::string effort = "default";
-    std::string recipe;
+    std::string effort = "default";   ///< fast | default | thorough
+    std::string goal = "size";        ///< size | depth
+    std::vector<std::string> limits;  ///< engine limits as NAME=N (see passes::describeLimits)
     int maxDepth = -1;
     int verbose = 0;
     std::string reportPath;          ///< --report FILE.json
     bool skipProof = false;
     std::int64_t proofBudget = 10000000;   ///< SAT conflicts over the whole proof
     std::string prefix;              ///< --wire-prefix: prefix of new wire names ("" = descriptive names alone)
-    std::string minGain = "1";       ///< --min-gain: gates ("2") or percent ("5%") a group must save
+    std::string minGain = "2";       ///< --min-gain: gates ("2") or percent ("5%") a group must save
     bool diff = false;               ///< print a unified diff instead of the file
     bool dissolveInternal = false;   ///< internal signals may dissolve into the logic (their declarations go)
     std::vector<std::string> keep;   ///< --keep NAME: signals never restructured through (cut points)

@@ -22,6 +22,19 @@ bool rememberPath(const std::string& path);
 /// The file has been removed or renamed into place: no longer remove it.
 void forgetPath(const std::string& path);
 
+/// Holds back the fatal signals while it lives, so that creating a file and
+/// remembering it happen as one step (a signal between them would leak the file).
+class SignalBlock {
+public:
+    SignalBlock();
+    ~SignalBlock();
+    SignalBlock(const SignalBlock&) = delete;
+    SignalBlock& operator=(const SignalBlock&) = delete;
+
+private:
+    unsigned char saved_[128];   // the previous signal mask (sigset_t)
+};
+
 /// Stop `pid` (SIGTERM) if kerf dies of a signal while it runs.
 void rememberChild(pid_t pid);
 void forgetChild(pid_t pid);

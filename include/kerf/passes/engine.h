@@ -1,10 +1,25 @@
-// kerf/passes/engine.h — the restructuring engine: a recipe of passes run
-// over the network, each pass timed and measured, passes that break the
-// depth bound undone, and the input kept when nothing better was found.
+// kerf/passes/engine.h — the restructuring engine: a gain-driven scheduler
+// over the techniques of src/passes/, with its goal, effort and every work
+// limit as named options.
+//
+// The engine does not follow a fixed sequence of steps. Each technique is a
+// source of moves; a move is one application of the technique to the
+// current network, valued by its measured gain (two-input gates of the
+// written factored forms, then depth or literals). The scheduler applies
+// the move with the largest gain, re-values the others lazily, and stops
+// when no move pays or the effort's budget of trials is spent (see
+// engine.cpp for the method and its published origin).
 #pragma once
 
+#include "kerf/minimize/twolevel.h"
 #include "kerf/network/network.h"
+#include "kerf/passes/dont_cares.h"
+#include "kerf/passes/factored.h"
+#include "kerf/passes/inline_small.h"
 #include "kerf/passes/pass.h"
+#include "kerf/passes/reuse_nodes.h"
+#include "kerf/passes/share_cubes.h"
+#include "kerf/passes/share_divisors.h"
 
 #include <string>
 #include <utility>
@@ -12,39 +27,110 @@
 
 namespace kerf::passes {
 
+/// What the engine optimises.
+enum class Goal {
+    Size,    ///< fewest two-input gates without increasing depth
+    Depth,   ///< least depth without increasing two-input gates
+};
+
+/// How much work the engine may spend.
+enum class Effort { Fast, Default, Thorough };
+
+/// Parse "size"/"depth" and "fast"/"default"/"thorough"; throw kerf::Error (InputError) otherwise.
+Goal parseGoal(const std::string& s);
+Effort parseEffort(const std::string& s);
+
+/// Every work bound of the engine and its techniques, by name. Defaults
+/// depend on the effort (see limitsFor); `--limit NAME=VALUE` overrides one.
+struct EngineLimits {
+    /// Moves (trial applications of a technique) the scheduler may value.
+    int trials = 40;
+    /// Largest literal growth a dissolve move may allow per dissolved node;
+    /// dissolve moves are tried at growth 0, 1, 2, 4, ... up to this.
+    int maxGrowth = 2;
+    /// Trials spent re-optimising after a dissolve, before its gain is valued.
+    int regroupTrials = 6;
+    /// A move is kept only when it saves at least this many thousandths of
+    /// the current gates (and at least something); smaller gains end the run.
+    int minGainPermille = 2;
+    /// A technique whose move gained nothing this many times in a row is not valued again.
+    int giveUpAfter = 3;
+    /// Run kernel extraction (slower; finds multi-cube divisors pairs miss).
+    bool kernels = false;
+    /// Use implied don't-cares (simulation confirmed by SAT).
+    bool impliedDontCares = true;
+    /// Covers of more cubes are written as plain sums of products, not factored.
+    std::size_t factorMaxCubes = 1000;
+    minimize::MinimizeOptions minimize;
+    InlineOptions dissolve;
+    ShareCubesOptions cubes;
+    ShareDivisorsOptions divisors;
+    ReuseOptions reuse;
+    DontCareOptions dontCares;
+};
+
+/// The limits for an effort level.
+EngineLimits limitsFor(Effort e);
+
+/// Set one limit by name ("trials=80"). Throws kerf::Error (InputError)
+/// naming the valid limits when the name or value is wrong.
+void setLimit(EngineLimits& limits, const std::string& assignment);
+
+/// "name  default  meaning" lines, one per limit (for --help and the docs).
+std::string describeLimits();
+
 struct EngineOptions {
-    std::string effort = "default";   ///< fast | default | thorough (when recipe is empty)
-    std::string recipe;               ///< "pass,pass:arg,..." overrides effort
+    Goal goal = Goal::Size;
+    Effort effort = Effort::Default;
+    EngineLimits limits = limitsFor(Effort::Default);
     int maxDepth = -1;                ///< -1: the input's depth
+    /// Declared don't-care conditions of the outputs, by output name (see
+    /// kerf/network/network.h); null or no outputs: none.
+    const net::Network* dontCares = nullptr;
+    /// Shared cache of factored forms (optional; the engine makes one otherwise).
+    FactorCache* cache = nullptr;
     int verbose = 0;
 };
 
-struct PassRow {
-    std::string pass;                 ///< the step as written ("inline-small:2")
-    net::Metrics after;               ///< measureFactored after the step
+/// What one technique did over the whole run.
+struct TechniqueRow {
+    std::string technique;
+    int trials = 0;                   ///< moves valued
+    int applied = 0;                  ///< moves kept
+    long long gatesSaved = 0;         ///< over the kept moves
+    long long depthSaved = 0;
     double seconds = 0;
-    bool undone = false;              ///< its result broke the depth bound and was undone
-    std::vector<std::pair<std::string, long long>> counters;
+    std::vector<std::pair<std::string, long long>> counters;   ///< summed over kept moves
+};
+
+/// One kept move, in the order applied.
+struct MoveRow {
+    std::string technique;
+    net::Metrics after;
+    long long gatesSaved = 0;
+    long long depthSaved = 0;
 };
 
 struct EngineResult {
-    net::Metrics before, after;       ///< measureFactored of the input and of the result
-    std::vector<PassRow> rows;
-    std::string recipe;               ///< the recipe that ran
-    bool keptOriginal = false;        ///< the result was not better: the input was restored
-    int depthCap = -1;                ///< the bound used; pass it to factorNetwork when writing
+    net::Metrics before, after;       ///< figures on the factored forms of the input and of the result
+    std::vector<TechniqueRow> techniques;
+    std::vector<MoveRow> moves;
+    std::vector<std::string> limitsHit;   ///< limits that cut work short ("trials", "dont-care-conflicts", ...)
+    bool keptOriginal = false;        ///< nothing better was found: the input is kept
+    int depthCap = -1;                ///< the depth bound the forms were chosen under
+    FactoredNetwork forms;            ///< the chosen factored form of every node (what the writer prints)
     double seconds = 0;
 };
 
-/// Restructure `net` in place. The result is never worse than the input on
-/// the cost (two-input gates of measureFactored, then literals) and never
-/// deeper than the bound (or the input, if that was deeper); otherwise the
-/// input is restored and keptOriginal is set. Throws kerf::Error for a bad
-/// recipe or effort.
+/// Restructure `net` in place. The result is never worse than the input:
+/// for Goal::Size fewer gates (then literals) within the depth bound; for
+/// Goal::Depth less depth (then fewer gates) with no more gates than the
+/// input. Otherwise the input is kept and keptOriginal is set. The forms in
+/// the result are computed once and are what the writer and report use.
 EngineResult restructure(net::Network& net, const EngineOptions& opts);
 
-/// The table printed at -v: pass, literals, gates, depth, nodes, seconds;
-/// with each pass's counters below it.
-std::string formatPassTable(const EngineResult& r);
+/// The report printed at -v: moves kept, then per technique its trials,
+/// kept moves, gains, time and counters, then the limits that cut work short.
+std::string formatEngineReport(const EngineResult& r);
 
 } // namespace kerf::passes

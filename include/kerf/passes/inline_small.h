@@ -1,4 +1,4 @@
-// kerf/passes/inline_small.h — the pass `inline-small`: collapse a node into
+// kerf/passes/inline_small.h — dissolving nodes, the first half of `regroup` moves: collapse a node into
 // its fanouts when that grows the literal count by at most a threshold.
 //
 // Contract. Needs: any network. Preserves: outputs' functions and the nodes
@@ -17,6 +17,7 @@ struct InlineOptions {
     std::size_t maxCubes = 48;      ///< cap on a fanout cover's cubes after collapsing
     std::size_t maxLiterals = 256;  ///< cap on a fanout cover's literals after collapsing
     std::size_t maxFanouts = 24;    ///< nodes with more fanouts are not collapsed
+    std::size_t complementCubeCap = 4096;  ///< cubes of a complement computed for inverted reads
 };
 
 void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx);

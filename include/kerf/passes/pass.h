@@ -1,6 +1,5 @@
-// kerf/passes/pass.h — what every restructuring pass shares: the context it
-// runs in (depth bound, verbosity, statistics) and the registry of passes
-// that recipes are built from.
+// kerf/passes/pass.h — what every restructuring technique shares: the
+// context it runs in (depth bound, verbosity, statistics).
 //
 // A pass is a function that rewrites a network in place. Every pass keeps
 // these invariants: outputs keep their names, order and functions; inputs are
@@ -12,7 +11,6 @@
 
 #include <cstddef>
 #include <cstdint>
-#include <functional>
 #include <limits>
 #include <string>
 #include <utility>
@@ -45,35 +43,5 @@ struct PassContext {
     int verbose = 0;
     PassStats stats;
 };
-
-/// One step of a recipe: a pass name and its optional argument ("" when none).
-struct RecipeStep {
-    std::string pass;
-    std::string arg;
-    std::string str() const { return arg.empty() ? pass : pass + ":" + arg; }
-};
-
-/// A registered pass.
-struct PassInfo {
-    std::string name;
-    std::string argHelp;     ///< "" when the pass takes no argument
-    std::string summary;
-    /// Throws kerf::Error when `arg` is not valid for this pass.
-    std::function<void(const std::string& arg)> checkArg;
-    /// Runs the pass (depth-cap and final-factor are handled by the engine).
-    std::function<void(net::Network&, const std::string& arg, PassContext&)> run;
-};
-
-/// All passes recipes may name, in documentation order.
-const std::vector<PassInfo>& passRegistry();
-const PassInfo* findPass(const std::string& name);
-
-/// Parse "pass,pass:arg,..." (spaces around items allowed). Throws
-/// kerf::Error (InputError) naming the bad item and listing the valid passes.
-std::vector<RecipeStep> parseRecipe(const std::string& recipe);
-
-/// The built-in recipe for an effort level (fast, default, thorough). Throws
-/// kerf::Error for another name.
-std::string builtinRecipe(const std::string& effort);
 
 } // namespace kerf::passes

@@ -1,4 +1,4 @@
-// kerf/passes/reuse_nodes.h — the pass `reuse-nodes`: algebraic
+// kerf/passes/reuse_nodes.h — the technique of the `resubstitute` move: algebraic
 // resubstitution. Each node is divided by the covers of existing nodes (and
 // by their complements, used through the complemented literal); divisions
 // that save literals are kept.
@@ -13,10 +13,11 @@
 namespace kerf::passes {
 
 struct ReuseOptions {
-    bool complements = true;           ///< argument "plain" turns complement divisors off
+    bool complements = true;           ///< also divide by complements of nodes (through the inverted literal)
     std::size_t maxCandidates = 200;   ///< divisor nodes tried per node
     std::size_t complementCubeCap = 16;
     std::size_t maxCubes = 512;        ///< larger covers are neither divided nor used as divisors
+    std::size_t fanoutScanLimit = 4096;///< variables with more fanouts are not scanned for candidates
 };
 
 void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx);

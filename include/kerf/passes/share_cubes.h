@@ -1,4 +1,4 @@
-// kerf/passes/share_cubes.h — the pass `share-cubes`: extract cubes common to
+// kerf/passes/share_cubes.h — the technique of the `extract-cubes` move: extract cubes common to
 // several cubes of the network (in one node or several) as new nodes.
 //
 // Contract. Needs: any network. Preserves: every node's function, outputs,

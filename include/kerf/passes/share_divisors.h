@@ -1,4 +1,4 @@
-// kerf/passes/share_divisors.h — the pass `share-divisors`: extract
+// kerf/passes/share_divisors.h — the technique of the `extract-divisors` and `extract-kernels` moves: extract
 // multi-cube divisors shared by nodes (or repeated inside one), by literal
 // saving. Two methods: two-cube divisors together with two-literal cubes
 // (fast, incremental; argument "pairs", the default) and kernels common to
@@ -17,9 +17,10 @@ namespace kerf::passes {
 struct ShareDivisorsOptions {
     enum class Method { Pairs, Kernels, Both };
     Method method = Method::Pairs;
-    std::size_t maxCubesForPairs = 64;    ///< nodes with more cubes give no divisors here (see share-cubes)
+    std::size_t maxCubesForPairs = 64;    ///< nodes with more cubes give no divisors here (see extract-cubes)
     std::size_t maxCubeForLiteralPairs = 24; ///< cubes with more literals give no two-literal divisors
     std::size_t maxKernelsPerNode = 200;
+    std::size_t kernelWork = 200000;       ///< steps of one node's kernel enumeration
     std::size_t maxExtractions = 1000000;
 };
 

@@ -1,4 +1,4 @@
-// kerf/passes/shrink_nodes.h — the pass `shrink-nodes`: two-level
+// kerf/passes/shrink_nodes.h — the technique of the `minimise-nodes` move: two-level
 // minimisation of every node's cover, possibly replacing a node by its
 // complement.
 //
@@ -9,13 +9,13 @@
 #pragma once
 
 #include "kerf/passes/pass.h"
-#include "kerf/passes/twolevel.h"
+#include "kerf/minimize/twolevel.h"
 
 namespace kerf::passes {
 
 struct ShrinkOptions {
-    MinimizeOptions minimize;
-    bool allowComplement = true;   ///< argument "keep-polarity" turns it off
+    minimize::MinimizeOptions minimize;
+    bool allowComplement = true;   ///< a node may become its complement when that is cheaper
 };
 
 void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx);

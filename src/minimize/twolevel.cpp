@@ -1,4 +1,6 @@
-// twolevel.cpp — two-level minimisation of one sum of products.
+// minimize/twolevel.cpp — two-level minimisation of one sum of products,
+// with or without don't-care minterms. A library used by the restructuring
+// techniques, not a technique itself.
 //
 // Background. A cover is minimised the way two-level minimisers have done it
 // since the 1980s: make every cube prime (expand: drop literals while the
@@ -18,15 +20,13 @@
 //
 // Functions here are Boolean: x and ¬x are complementary, unlike in the
 // algebraic model of algebra/.
-#include "kerf/passes/twolevel.h"
-
-#include "workspace.h"
+#include "kerf/minimize/twolevel.h"
 
 #include <algorithm>
 #include <bit>
 #include <unordered_map>
 
-namespace kerf::passes {
+namespace kerf::minimize {
 
 using algebra::Cover;
 using algebra::Cube;
@@ -38,6 +38,28 @@ using algebra::negateLiteral;
 using TT = std::vector<std::uint64_t>;
 
 namespace {
+
+// Normalise, drop constant literals (literal 1 in a cube, cubes holding literal 0)
+// and contained cubes.
+void canonical(Cover& f) {
+    std::vector<Cube> out;
+    out.reserve(f.cubes.size());
+    for (Cube& c : f.cubes) {
+        bool zero = false, constant = false;
+        for (Literal l : c.lits)
+            if (literalVar(l) == 0) { constant = true; zero |= l == 0; }
+        if (zero) continue;
+        if (!constant) { out.push_back(std::move(c)); continue; }
+        std::vector<Literal> ls;
+        for (Literal l : c.lits) if (literalVar(l) != 0) ls.push_back(l);
+        out.push_back(Cube(std::move(ls)));
+    }
+    f.cubes = std::move(out);
+    f.normalize();
+    for (const Cube& c : f.cubes)
+        if (c.empty()) { f = Cover::one(); return; }
+    if (f.cubes.size() > 1) algebra::removeContainedCubes(f);
+}
 
 constexpr std::uint64_t kVarMask[6] = {
     0xAAAAAAAAAAAAAAAAull, 0xCCCCCCCCCCCCCCCCull, 0xF0F0F0F0F0F0F0F0ull,
@@ -147,10 +169,10 @@ Cover fromLocalCubes(const std::vector<std::vector<Literal>>& cubes, const std::
 
 // ---- unate recursive tautology and complement on covers -------------------
 
-// Work budget of the recursive procedures (steps left for the current call
-// of the public function). When it runs out, tautology answers "no" and
-// complementation fails: both are the safe answers for their callers.
-thread_local long gWork = 0;
+// The recursive procedures below take `work`, the steps left for the current
+// call of the public function (see MinimizeOptions). When it runs out,
+// tautology answers "no" and complementation fails: both are the safe answers
+// for their callers.
 
 Cover cofactorLit(const Cover& f, Literal l) {
     Cover out;
@@ -181,11 +203,11 @@ Cover cofactorCube(const Cover& f, const Cube& c) {
     return out;
 }
 
-bool tautRec(Cover f);
+bool tautRec(Cover f, long& work);
 
-bool cubeImpliesRaw(const Cube& c, const Cover& f) {
+bool cubeImpliesRaw(const Cube& c, const Cover& f, long& work) {
     if (c.isContradictory()) return true;
-    return tautRec(cofactorCube(f, c));
+    return tautRec(cofactorCube(f, c), work);
 }
 
 // Most binate variable (occurs in both polarities, most often); returns false if none.
@@ -207,8 +229,8 @@ bool mostBinate(const Cover& f, std::uint32_t& var, bool& anyBinate) {
     return best >= 0;
 }
 
-bool tautRec(Cover f) {
-    if (--gWork < 0) return false;
+bool tautRec(Cover f, long& work) {
+    if (--work < 0) return false;
     if (f.cubes.empty()) return false;
     for (const Cube& c : f.cubes) if (c.empty()) return true;
     std::vector<std::uint32_t> supp = supportOf(f);
@@ -228,10 +250,10 @@ bool tautRec(Cover f) {
     bool anyBinate = false;
     mostBinate(g, v, anyBinate);
     if (!anyBinate) return false;
-    return tautRec(cofactorLit(g, makeLiteral(v, false))) && tautRec(cofactorLit(g, makeLiteral(v, true)));
+    return tautRec(cofactorLit(g, makeLiteral(v, false)), work) && tautRec(cofactorLit(g, makeLiteral(v, true)), work);
 }
 
-bool complementRec(const Cover& f, Cover& out, std::size_t cap, int depth) {
+bool complementRec(const Cover& f, Cover& out, std::size_t cap, int depth, long& work) {
     out = Cover{};
     if (f.cubes.empty()) { out = Cover::one(); return true; }
     for (const Cube& c : f.cubes) if (c.empty()) return true;
@@ -240,13 +262,13 @@ bool complementRec(const Cover& f, Cover& out, std::size_t cap, int depth) {
         out.normalize();
         return out.cubes.size() <= cap;
     }
-    if (depth > 64 || --gWork < 0) return false;
+    if (depth > 64 || --work < 0) return false;
     std::uint32_t v = 0;
     bool anyBinate = false;
     mostBinate(f, v, anyBinate);
     Cover c0, c1;
-    if (!complementRec(cofactorLit(f, makeLiteral(v, true)), c0, cap, depth + 1)) return false;
-    if (!complementRec(cofactorLit(f, makeLiteral(v, false)), c1, cap, depth + 1)) return false;
+    if (!complementRec(cofactorLit(f, makeLiteral(v, true)), c0, cap, depth + 1, work)) return false;
+    if (!complementRec(cofactorLit(f, makeLiteral(v, false)), c1, cap, depth + 1, work)) return false;
     // out = ¬v·c0 + v·c1, merging cubes present in both.
     std::sort(c0.cubes.begin(), c0.cubes.end());
     std::sort(c1.cubes.begin(), c1.cubes.end());
@@ -265,24 +287,24 @@ bool complementRec(const Cover& f, Cover& out, std::size_t cap, int depth) {
         ls.push_back(makeLiteral(v, false));
         out.cubes.push_back(Cube(std::move(ls)));
     }
-    detail::canonical(out);
+    canonical(out);
     return out.cubes.size() <= cap;
 }
 
 // Each implication check gets its own small budget; the whole call a larger one.
-bool impliedWithin(const Cube& c, const Cover& f, long& total) {
+bool impliedWithin(const Cube& c, const Cover& f, long& total, long perCheck) {
     if (total <= 0) return false;
-    gWork = std::min<long>(2000, total);
-    long start = gWork;
-    bool r = cubeImpliesRaw(c, f);
-    total -= start - std::max<long>(gWork, 0);
-    return r && gWork >= 0;
+    long work = std::min<long>(perCheck, total);
+    const long start = work;
+    bool r = cubeImpliesRaw(c, f, work);
+    total -= start - std::max<long>(work, 0);
+    return r && work >= 0;
 }
 
 Cover expandIrredundant(Cover f, const MinimizeOptions& opts) {
-    detail::canonical(f);
+    canonical(f);
     if (f.cubes.size() > opts.maxHeuristicCubes || f.cubes.size() < 2) return f;
-    long total = 200000;
+    long total = opts.heuristicSteps;
     // Expand: biggest cubes first, drop every literal the function allows.
     std::vector<std::size_t> order(f.cubes.size());
     for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
@@ -294,7 +316,7 @@ Cover expandIrredundant(Cover f, const MinimizeOptions& opts) {
             std::vector<Literal> ls = c.lits;
             ls.erase(ls.begin() + static_cast<std::ptrdiff_t>(k));
             Cube trial(std::move(ls));
-            if (impliedWithin(trial, f, total)) c = trial;
+            if (impliedWithin(trial, f, total, opts.implicationSteps)) c = trial;
             else ++k;
         }
         f.cubes[i] = c;
@@ -308,7 +330,7 @@ Cover expandIrredundant(Cover f, const MinimizeOptions& opts) {
         Cover rest;
         for (std::size_t j = 0; j < f.cubes.size(); ++j)
             if (j != i) rest.cubes.push_back(f.cubes[j]);
-        if (impliedWithin(f.cubes[i], rest, total)) f.cubes.erase(f.cubes.begin() + static_cast<std::ptrdiff_t>(i));
+        if (impliedWithin(f.cubes[i], rest, total, opts.implicationSteps)) f.cubes.erase(f.cubes.begin() + static_cast<std::ptrdiff_t>(i));
         else ++i;
     }
     f.normalize();
@@ -350,10 +372,24 @@ Cover irredundantPrimeCover(const std::vector<std::uint64_t>& on, const std::vec
 }
 
 Cover minimumCover(const std::vector<std::uint64_t>& on, const std::vector<std::uint32_t>& support, long searchLimit) {
+    return minimumCover(on, on, support, searchLimit);
+}
+
+Cover irredundantPrimeCover(const std::vector<std::uint64_t>& lower, const std::vector<std::uint64_t>& upper,
+                            const std::vector<std::uint32_t>& support) {
+    std::vector<Literal> path;
+    std::vector<std::vector<Literal>> cubes;
+    isopRec(lower, upper, static_cast<int>(support.size()) - 1, path, cubes);
+    return fromLocalCubes(cubes, support);
+}
+
+Cover minimumCover(const std::vector<std::uint64_t>& lower, const std::vector<std::uint64_t>& upper,
+                   const std::vector<std::uint32_t>& support, long searchLimit) {
     const int n = static_cast<int>(support.size());
-    if (n > 10) return irredundantPrimeCover(on, support);
-    if (isZeroTT(on)) return Cover::zero();
-    if (isOneTT(on)) return Cover::one();
+    if (n > 10) return irredundantPrimeCover(lower, upper, support);
+    if (isZeroTT(lower)) return Cover::zero();
+    if (isOneTT(upper)) return Cover::one();
+    const TT& on = lower;
     std::vector<std::uint32_t> pow3(static_cast<std::size_t>(n) + 1, 1);
     for (int i = 1; i <= n; ++i) pow3[static_cast<std::size_t>(i)] = pow3[static_cast<std::size_t>(i) - 1] * 3;
     const std::uint32_t n3 = pow3[static_cast<std::size_t>(n)];
@@ -368,7 +404,7 @@ Cover minimumCover(const std::vector<std::uint64_t>& on, const std::vector<std::
             if (d == 2) { dash = i; break; }
             if (d == 1) m |= 1u << i;
         }
-        imp[c] = dash < 0 ? bitAt(on, m) : (imp[c - 2 * pow3[static_cast<std::size_t>(dash)]] &&
+        imp[c] = dash < 0 ? bitAt(upper, m) : (imp[c - 2 * pow3[static_cast<std::size_t>(dash)]] &&
                                              imp[c - pow3[static_cast<std::size_t>(dash)]]);
     }
     // Minterms of the on-set.
@@ -407,6 +443,7 @@ Cover minimumCover(const std::vector<std::uint64_t>& on, const std::vector<std::
             for (std::size_t k = 0; k < dashes.size(); ++k)
                 if ((s >> k) & 1) m |= 1u << dashes[k];
             int idx = mindex[m];
+            if (idx < 0) continue;   // a don't-care minterm
             p.cov[static_cast<std::size_t>(idx) >> 6] |= 1ull << (idx & 63);
         }
         p.cost = static_cast<long>(p.lits.size()) * 1024 + 1;
@@ -497,7 +534,7 @@ Cover minimumCover(const std::vector<std::uint64_t>& on, const std::vector<std::
 
 Cover minimizeCover(const Cover& f, const MinimizeOptions& opts) {
     Cover F = f;
-    detail::canonical(F);
+    canonical(F);
     if (F.isZero() || F.isOne()) return F;
     std::vector<std::uint32_t> supp = supportOf(F);
     const int n = static_cast<int>(supp.size());
@@ -518,7 +555,7 @@ Cover minimizeCover(const Cover& f, const MinimizeOptions& opts) {
 
 bool complementCover(const Cover& f, Cover& out, std::size_t cubeCap, const MinimizeOptions& opts) {
     Cover F = f;
-    detail::canonical(F);
+    canonical(F);
     if (F.isZero()) { out = Cover::one(); return true; }
     if (F.isOne()) { out = Cover::zero(); return true; }
     std::vector<std::uint32_t> supp = supportOf(F);
@@ -529,22 +566,35 @@ bool complementCover(const Cover& f, Cover& out, std::size_t cubeCap, const Mini
         out = n <= opts.exactVars ? minimumCover(tt, supp, opts.coverSearchLimit) : irredundantPrimeCover(tt, supp);
         return out.cubes.size() <= cubeCap;
     }
-    gWork = 50000;
-    if (!complementRec(F, out, cubeCap, 0)) return false;
+    long work = opts.complementSteps;
+    if (!complementRec(F, out, cubeCap, 0, work)) return false;
     out = expandIrredundant(out, opts);
     return out.cubes.size() <= cubeCap;
 }
 
-bool isTautology(const Cover& f) {
+bool isTautology(const Cover& f, long steps) {
     Cover F = f;
-    detail::canonical(F);
-    gWork = 1000000;
-    return tautRec(F) && gWork >= 0;
+    canonical(F);
+    long work = steps;
+    return tautRec(F, work) && work >= 0;
 }
 
-bool cubeImplies(const Cube& c, const Cover& f) {
-    gWork = 1000000;
-    return cubeImpliesRaw(c, f) && gWork >= 0;
+bool cubeImplies(const Cube& c, const Cover& f, long steps) {
+    long work = steps;
+    return cubeImpliesRaw(c, f, work) && work >= 0;
 }
 
-} // namespace kerf::passes
+} // namespace kerf::minimize
+
+namespace kerf::minimize {
+
+Cover minimizeInterval(const std::vector<std::uint64_t>& lower, const std::vector<std::uint64_t>& upper,
+                       const std::vector<std::uint32_t>& support, const MinimizeOptions& opts) {
+    const int n = static_cast<int>(support.size());
+    if (n <= opts.exactVars) return minimumCover(lower, upper, support, opts.coverSearchLimit);
+    return irredundantPrimeCover(lower, upper, support);
+}
+
+std::vector<std::uint64_t> variableTable(int i, int n) { return varTable(i, n); }
+
+} // namespace kerf::minimize

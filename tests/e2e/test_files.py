@@ -1,0 +1,186 @@
+"""Files kerf writes: in place, through links, with backups, atomically, and nothing left behind.
+
+Each check names the behaviour that common trade practice for command-line
+tools that rewrite files expects (as with editors and formatters): an
+in-place rewrite replaces the target of a symbolic link and keeps the link,
+the file's permission bits and its line endings; a backup holds the old
+text; an interrupted run (Ctrl-C, a closed pipe, a kill) leaves neither a
+partial output nor a temporary file. The rewritten text itself is checked
+by kerf's proof in every run and, here, by Icarus Verilog on the CR LF case.
+"""
+import os
+import pty
+import re
+import select
+import signal
+import shutil
+import stat
+import subprocess
+import sys
+import time
+
+sys.path.insert(0, os.path.dirname(__file__))
+import kerf_e2e as K  # noqa: E402
+
+S = K.Suite(__doc__)
+SAMPLE = "samples/uart_regsel.v"
+
+
+def private_tmp(t):
+    d = os.path.join(t.work, "tmp")
+    os.makedirs(d, exist_ok=True)
+    return d, dict(os.environ, TMPDIR=d)
+
+
+@S.case("in_place_follows_symlink_keeps_mode")
+def _(t):
+    real = os.path.join(t.work, "rtl", "uart_regsel.v")
+    os.makedirs(os.path.dirname(real))
+    shutil.copy(SAMPLE, real)
+    os.chmod(real, 0o640)
+    link = os.path.join(t.work, "link.v")
+    os.symlink(os.path.join("rtl", "uart_regsel.v"), link)
+    expected = K.run([t.kerf, "restructure", SAMPLE, "-q"]).stdout
+    tmp, env = private_tmp(t)
+    r = K.run([t.kerf, "restructure", link, "--in-place"], env=env)
+    t.res.check(r.returncode == 0, f"exit 0: {r.stderr[-800:]}")
+    t.res.check(os.path.islink(link) and os.readlink(link) == os.path.join("rtl", "uart_regsel.v"),
+                "the symbolic link is still the same link")
+    t.res.check(open(real).read() == expected and expected != open(SAMPLE).read(),
+                "its target holds the rewrite (the same text as on standard output)")
+    t.res.check(stat.S_IMODE(os.stat(real).st_mode) == 0o640, "the permission bits are kept (0640)")
+    t.res.check(os.listdir(os.path.dirname(real)) == ["uart_regsel.v"] and os.listdir(tmp) == [],
+                "no temporary file left beside the target or in $TMPDIR")
+
+
+@S.case("backup_keeps_old_text")
+def _(t):
+    p = os.path.join(t.work, "uart_regsel.v")
+    shutil.copy(SAMPLE, p)
+    os.chmod(p, 0o600)
+    old = open(p, "rb").read()
+    r = K.run([t.kerf, "restructure", p, "--in-place", "--backup", ".orig"])
+    t.res.check(r.returncode == 0, f"exit 0: {r.stderr[-800:]}")
+    t.res.check(open(p + ".orig", "rb").read() == old, "FILE.orig holds the old text byte for byte")
+    t.res.check(stat.S_IMODE(os.stat(p + ".orig").st_mode) == 0o600, "the backup has the file's mode")
+    t.res.check(open(p, "rb").read() != old, "the file holds the rewrite")
+    # -o onto an existing file keeps that file's old text too
+    out = os.path.join(t.work, "out.v")
+    open(out, "w").write("// earlier\n")
+    r = K.run([t.kerf, "restructure", SAMPLE, "-o", out, "--backup", "~"])
+    t.res.check(r.returncode == 0 and open(out + "~").read() == "// earlier\n", "-o with --backup keeps the old output")
+
+
+@S.case("crlf_line_endings_kept", needs=("iverilog",))
+def _(t):
+    p = os.path.join(t.work, "uart_regsel.v")
+    open(p, "wb").write(open(SAMPLE, "rb").read().replace(b"\n", b"\r\n"))
+    r = K.run([t.kerf, "restructure", p, "--in-place"])
+    t.res.check(r.returncode == 0, f"exit 0: {r.stderr[-800:]}")
+    data = open(p, "rb").read()
+    original = open(SAMPLE, "rb").read().replace(b"\n", b"\r\n")
+    t.res.check(data != original, "the file was rewritten")
+    t.res.check(data.count(b"\n") == data.count(b"\r\n"),
+                "every line of the rewritten file ends in CR LF, the generated lines included")
+    os.mkdir(os.path.join(t.work, "sim"))
+    ok, log, _ = K.simulate_equal(t.root, [SAMPLE], "uart_regsel", p, os.path.join(t.work, "sim"))
+    t.res.check(ok, f"Icarus Verilog: the CR LF rewrite behaves as the original: {log}")
+
+
+def start_and_interrupt(t, how, sub):
+    """Start a restructure, interrupt it once its work directory exists; return (status, tmp contents)."""
+    tmp = os.path.join(t.work, sub)
+    os.makedirs(tmp)
+    env = dict(os.environ, TMPDIR=tmp)
+    out = os.path.join(t.work, "out.v")
+    p = subprocess.Popen([t.kerf, "restructure", "samples/rv_decoder.sv", "-o", out], env=env,
+                         stdout=subprocess.PIPE, stderr=subprocess.DEVNULL,
+                         preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
+    deadline = time.monotonic() + 60
+    while not os.listdir(tmp) and p.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.01)
+    seen = list(os.listdir(tmp))
+    if how == "pipe":
+        p.stdout.close()
+        p.send_signal(signal.SIGPIPE)   # as a write to the closed pipe would
+    else:
+        p.send_signal(how)
+    status = p.wait()
+    return status, seen, os.listdir(tmp), os.path.exists(out)
+
+
+@S.case("interrupt_leaves_nothing")
+def _(t):
+    for how, name in ((signal.SIGINT, "SIGINT"), (signal.SIGTERM, "SIGTERM"), ("pipe", "SIGPIPE")):
+        status, seen, left, wrote = start_and_interrupt(t, how, name)
+        sig = signal.SIGPIPE if how == "pipe" else how
+        t.res.check(seen != [], f"{name}: kerf had a work directory when interrupted ({seen})")
+        t.res.check(status == -sig, f"{name}: kerf ends by the signal (status {status})")
+        t.res.check(left == [], f"{name}: its temporary files are gone: {left}")
+        t.res.check(not wrote, f"{name}: no output file")
+
+
+@S.case("closed_pipe_on_output")
+def _(t):
+    tmp, env = private_tmp(t)
+    p = subprocess.Popen([t.kerf, "restructure", SAMPLE], env=env, stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+    p.stdout.close()   # like `kerf restructure f.v | head -0`
+    _, err = p.communicate()
+    t.res.check(p.returncode in (0, -signal.SIGPIPE), f"ends quietly or by SIGPIPE: {p.returncode} {err[-300:]}")
+    t.res.check(os.listdir(tmp) == [], "no temporary file left")
+
+
+def run_on_terminal(cmd, env):
+    """Run cmd with standard error on a pseudo-terminal; return what it wrote there."""
+    master, slave = pty.openpty()
+    p = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=slave, env=env)
+    os.close(slave)
+    chunks = []
+    while True:
+        r, _, _ = select.select([master], [], [], 0.2)
+        if r:
+            try:
+                data = os.read(master, 4096)
+            except OSError:
+                break
+            if not data:
+                break
+            chunks.append(data)
+        elif p.poll() is not None:
+            break
+    p.wait()
+    os.close(master)
+    return p.returncode, b"".join(chunks).decode(errors="replace")
+
+
+@S.case("progress_only_on_a_terminal")
+def _(t):
+    env = dict(os.environ, KERF_PROGRESS_DELAY="0")
+    out = os.path.join(t.work, "o.v")
+    code, text = run_on_terminal([t.kerf, "restructure", SAMPLE, "-o", out], env)
+    t.res.check(code == 0 and re.search(r"kerf: (read|lower|restructure|write|prove)", text) is not None,
+                f"on a terminal a progress line names the stage: {text[-300:]!r}")
+    t.res.check(re.search(r"\d+ s", text) is not None, f"and the elapsed time: {text[-300:]!r}")
+    code, text = run_on_terminal([t.kerf, "restructure", SAMPLE, "-o", out, "--quiet"], env)
+    t.res.check(code == 0 and text.strip() == "", f"--quiet: nothing at all: {text[-300:]!r}")
+    r = K.run([t.kerf, "restructure", SAMPLE, "-o", out], env=env)
+    t.res.check(r.returncode == 0 and "\r" not in r.stderr and "\033" not in r.stderr,
+                "not a terminal: no progress line, only the summary")
+
+
+@S.case("report_has_stage_figures")
+def _(t):
+    rep = os.path.join(t.work, "r.json")
+    r = K.run([t.kerf, "restructure", SAMPLE, "-o", os.path.join(t.work, "o.v"), "--report", rep, "-v"])
+    import json
+    stages = json.load(open(rep))["stages"]
+    names = [s["stage"] for s in stages]
+    t.res.check(r.returncode == 0 and all(n in names for n in ("reader", "read", "lower", "restructure", "write",
+                                                                 "prove")), f"every stage is reported: {names}")
+    t.res.check(all(s["seconds"] >= 0 and s["peak_memory_mb"] > 0 for s in stages),
+                f"each with a time and a peak memory: {stages}")
+    t.res.check(re.search(r"^stages: reader [\d.]+ s", r.stderr, re.M) is not None, "-v prints the stage line")
+
+
+if __name__ == "__main__":
+    S.main()
