@@ -52,14 +52,19 @@ RARE = {"param", "xcompare", "divconst", "oob", "xdefault"}
 
 
 def parse_features(text):
-    """'default', 'all', or a comma list of names, '-name' removing from the default set."""
+    """'default', 'all', or a comma list: names; '-name' / '+name' remove from / add to the
+    default set; a list starting with 'all' or 'default' starts from that set."""
     if text in ("", "default"):
         return set(FEATURES) - DEFAULT_OFF
     if text == "all":
         return set(FEATURES)
-    chosen = set(FEATURES) - DEFAULT_OFF if all(t.startswith(("-", "+")) for t in text.split(",")) else set()
-    for t in text.split(","):
-        t = t.strip()
+    parts = [t.strip() for t in text.split(",")]
+    if parts[0] in ("all", "default"):
+        chosen = set(FEATURES) - (set() if parts[0] == "all" else DEFAULT_OFF)
+        parts = parts[1:]
+    else:
+        chosen = set(FEATURES) - DEFAULT_OFF if all(t.startswith(("-", "+")) for t in parts) else set()
+    for t in parts:
         name = t.lstrip("+-")
         if name not in FEATURES:
             raise ValueError(f"unknown feature '{name}' (known: {', '.join(sorted(FEATURES))})")
