@@ -233,12 +233,14 @@ def compare(run, out_path, work, defs, params, exact, what, ref_files=None):
     if not res.ok and ("failed to compile" in res.detail or "printed no result" in res.detail):
         run.problem("build", f"{what}: the rewrite does not build or run under Icarus Verilog: {res.detail}")
     elif not res.ok:
-        run.problem("sim", f"{what}: Icarus Verilog: the rewrite differs from the original "
+        run.problem("sim", f"{what}: {'Icarus Verilog' if c.simulator == 'icarus' else 'Verilator'}: "
+                           f"the rewrite differs from the original "
                             f"({res.errors} output bits):\n{res.detail}")
     elif res.known == 0:
         run.broken.append(f"{what}: the original's outputs are x on every vector; the comparison checks nothing")
     else:
-        run.notes.append(f"{what}: Icarus Verilog: {res.known} of {res.total} compared bits known in the "
+        sim = "Icarus Verilog" if c.simulator == "icarus" else "Verilator (two-valued)"
+        run.notes.append(f"{what}: {sim}: {res.known} of {res.total} compared bits known in the "
                          f"original, all equal")
     # Verilator: no new warnings (the rewrite sits in a file of the case's name, as -Wall expects).
     if not c.lint:
