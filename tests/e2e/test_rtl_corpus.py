@@ -221,8 +221,12 @@ def compare(run, out_path, work, defs, params, exact, what, ref_files=None):
     ref = os.path.join(sim_dir, "ref" + ext)
     new = os.path.join(sim_dir, "new" + ext)
     try:
-        open(ref, "w").write(O.renamed(open(ref_files[-1]).read(), c.top, c.top + "_kerf_ref"))
-        open(new, "w").write(O.renamed(open(out_path).read(), c.top, c.top + "_kerf_new"))
+        # Both sides get the same Icarus workaround as the random modules (see
+        # always_comb_as_always_star): Icarus 11 can loop forever on always_comb blocks that
+        # are not in a loop (min_false_loop's original does).
+        fix = O.always_comb_as_always_star if c.simulator == "icarus" else (lambda t: t)
+        open(ref, "w").write(fix(O.renamed(open(ref_files[-1]).read(), c.top, c.top + "_kerf_ref")))
+        open(new, "w").write(fix(O.renamed(open(out_path).read(), c.top, c.top + "_kerf_new")))
     except RuntimeError as e:
         run.problem("build", f"{what}: cannot locate the module in the rewrite: {e}")
         return

@@ -1,7 +1,7 @@
 // kerf-case: minimal regression (reduced from random module 1429 of campaign seed 21): the writer
 // kerf-case: reuses an internal signal (w4b[2]) inside the logic that computes that signal's own
 // kerf-case: block, creating a loop between statements (not between bits); the rewrite then does
-// kerf-case: not read back (exit 5).
+// kerf-case: not read back (exit 5). Kept as a regression test; Icarus needs the always @(*) workaround on it.
 module min_false_loop (
   input  logic [3:0] in0,
   input  logic in1,
