@@ -9,11 +9,12 @@ reads/writes are then collected conservatively from the whole AST.
 """
 
 import os
-import re
 from collections import Counter
 
 import pyslang
 from pyslang import ast
+
+import kerf_variants
 
 FORMAT = "kerf-module"
 VERSION = 1
@@ -138,13 +139,6 @@ _DECL_SYNTAX = {
     pyslang.syntax.SyntaxKind.PortDeclaration,
     pyslang.syntax.SyntaxKind.UserDefinedNetDeclaration,
 }
-# Preprocessor directives inside a member: rewriting its bytes would lose them.
-_DIRECTIVE = re.compile(
-    rb"`(?:ifdef|ifndef|elsif|else|endif|define|undef|undefineall|include|line|resetall|"
-    rb"timescale|default_nettype|celldefine|endcelldefine|pragma|begin_keywords|end_keywords|"
-    rb"unconnected_drive|nounconnected_drive|protect|endprotect)\b")
-
-
 class Unsupported(Exception):
     """The construct is outside what kerf restructures; the member is kept."""
 
@@ -939,9 +933,7 @@ class Describer:
         attrs = getattr(syn, "attributes", None)
         if attrs is not None and len(attrs) > 0:
             return src, "it carries an attribute (* ... *)"
-        data = self.src.data(syn.sourceRange.start.buffer)
-        if b"`" in data[src["start"]:src["end"]] and _DIRECTIVE.search(data, src["start"], src["end"]):
-            return src, "it contains preprocessor directives"
+        # Directives inside a member are found from slang's trivia (kerf_preproc.py).
         return src, None
 
     # -- constants -----------------------------------------------------------------
@@ -1289,6 +1281,7 @@ class Describer:
 
         members = []
         for sym in members_syms:
+            first = len(members)    # kerf_variants needs each member's symbol
             k = sym.kind
             if k == SK.ContinuousAssign:
                 members.append(self.assign_member(sym))
@@ -1302,7 +1295,11 @@ class Describer:
                 continue
             else:
                 members.append(self.other_member(sym))
+            for m in members[first:]:
+                m["_sym"] = sym
 
+        # Parameters an instance may override and the preprocessor (kerf_variants.py).
+        members = kerf_variants.restrict(self, members)
         self.finish_loop_locals(members)
         members = self.merge_statements(members)
         for i, m in enumerate(members):
@@ -1310,9 +1307,11 @@ class Describer:
 
         msyn = self.top.definition.syntax
         msrc = self.node_src(msyn) if msyn is not None else self.symbol_src(self.top)
-        return {"format": FORMAT, "version": VERSION,
+        desc = {"format": FORMAT, "version": VERSION,
                 "module": {"name": self.top.name, "src": msrc},
                 "ports": ports, "signals": signals, "members": members}
+        kerf_variants.finish(self, members, desc)    # match keys, the parameters list
+        return desc
 
     def finish_loop_locals(self, members):
         """A module variable used as a comb block's loop variable stays local to that
