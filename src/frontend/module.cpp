@@ -108,9 +108,26 @@ ModuleDesc parseDescription(const nlohmann::json& j) {
         mem.netDecl = mj.value("net_decl", false);
         mem.what = mj.value("what", "");
         mem.reason = mj.value("reason", "");
+        mem.matchKey = mj.value("match_key", "");
+        mem.params = names(mj.value("parameters", nlohmann::json::array()));
         if (mem.kind != MemberKind::Kept) mem.body = mj;
         m.members.push_back(std::move(mem));
     }
+    for (const auto& pj : j.value("parameters", nlohmann::json::array())) {
+        Parameter p;
+        p.name = pj.at("name").get<std::string>();
+        p.isType = pj.value("kind", "value") == "type";
+        p.pinned = pj.value("pinned", false);
+        p.value = pj.value("value", "");
+        p.literal = pj.value("literal", "");
+        p.implicitType = pj.value("implicit_type", false);
+        p.keptMembers = pj.value("members", 0);
+        p.src = parseRange(pj.value("src", nlohmann::json::object()));
+        m.parameters.push_back(std::move(p));
+    }
+    for (const auto& cj : j.value("conditionals", nlohmann::json::array()))
+        m.conditionals.push_back(fmt::format("{}:{}: {}", cj.value("file", "?"), cj.value("line", 0),
+                                             cj.value("text", "")));
     return m;
 }
 
@@ -119,6 +136,8 @@ std::vector<std::string> readerArguments(const ReadOptions& opts) {
     if (!opts.top.empty()) { args.push_back("--top"); args.push_back(opts.top); }
     for (const auto& d : opts.includeDirs) { args.push_back("-I"); args.push_back(d); }
     for (const auto& d : opts.defines) { args.push_back("-D"); args.push_back(d); }
+    for (const auto& p : opts.params) { args.push_back("--param"); args.push_back(p); }
+    if (opts.asBuilt) args.push_back("--as-built");
     for (const auto& f : opts.files) {
         auto it = opts.substitute.find(f);
         args.push_back(it == opts.substitute.end() ? f : it->second);
