@@ -145,6 +145,10 @@ def restrict(d, members):
                     m.pop(k, None)
                 m = km
             m["parameters"] = params
+        elif m["kind"] == "kept" and analyse and node is not None and sym is not None:
+            # Kept anyway; say which overridable parameters it depends on (for the summary).
+            reasons = st.refs.closure(st.refs.symbols_of_tokens(node_tokens(node)), st.seed)
+            m["parameters"] = sorted({r[1] for r in reasons if r[0] == "param"})
         out.append(m)
     # Even for one build (AS_BUILT), the text it leaves out is kept and compared by its tokens:
     # `kerf equiv` must not call two files equal that differ there.

@@ -128,53 +128,46 @@ def equiv(a, fa, fb, extra=()):
         return r.returncode, {}, r.stderr
 
 
-def main():
-    a = K.args()
-    os.chdir(a.root)
-    res = K.Results()
-    cases = list(CASES)
-    cases.append(("submodule", SUB_BODY, SUB_BODY, {3}, "the same instance text, different submodules"))
-    for name, body_a, body_b, allowed, what in cases:
-        if a.only and a.only != name:
-            continue
-        with tempfile.TemporaryDirectory() as work:
-            fa = os.path.join(work, "a.sv")
-            fb = os.path.join(work, "b.sv")
-            sub_a = SUB["a"] if name == "submodule" else ""
-            sub_b = SUB["b"] if name == "submodule" else ""
-            head_a = body_a.split("module", 1)[0] if body_a.startswith("`define") else ""
-            head_b = body_b.split("module", 1)[0] if body_b.startswith("`define") else ""
-            if head_a:
-                first_a, rest_a = body_a.split("\n", 1)
-                first_b, rest_b = body_b.split("\n", 1)
-                open(fa, "w").write(first_a + "\n" + HEAD + rest_a + TAIL + sub_a)
-                open(fb, "w").write(first_b + "\n" + HEAD + rest_b + TAIL + sub_b)
-            else:
-                open(fa, "w").write(HEAD + body_a + TAIL + sub_a)
-                open(fb, "w").write(HEAD + body_b + TAIL + sub_b)
-            code, j, err = equiv(a, fa, fb, ["--top", "unit"])
-            verdict = j.get("verdict")
-            differs = icarus_differs(work, fa, fb)
-            if name == "excluded_text":
-                differs = differs or icarus_differs(work, fa, fb, ["UNIT_ALT"])
-            res.check(code in allowed, f"{name} ({what}): exit {code} in {sorted(allowed)}: {j or err[-800:]}")
-            res.check(not (code == 0 and differs),
-                      f"{name}: Icarus Verilog shows the versions differ, so exit 0 would be wrong")
-            res.check(code != 0 or not differs, f"{name}: proved only what Icarus Verilog agrees with")
-            if code == 3:
-                res.check(bool(j.get("uncompared_statements")) or bool(j.get("one_sided_outputs")),
-                          f"{name}: undecided names what was not compared: {j}")
-                for u in j.get("uncompared_statements", []):
-                    res.check(u["line"] > 0 and u["file"] in (fa, fb), f"{name}: located at file:line: {u}")
-            if code == 1:
-                res.check(differs, f"{name}: Icarus Verilog confirms the versions differ")
-                if "counterexample" in j:
-                    ok, log = TE.confirm(a.root, [fa], "unit", fa, fb, j["counterexample"], work)
-                    res.check(ok, f"{name}: Icarus Verilog confirms kerf's counterexample: {log}")
-            if allowed == {0}:
-                res.check(not differs, f"{name}: control pair, Icarus Verilog shows no difference")
-    res.finish()
+def run_case(t, name, body_a, body_b, allowed, what):
+    a, res, work = t.args, t.res, t.work
+    fa = os.path.join(work, "a.sv")
+    fb = os.path.join(work, "b.sv")
+    sub_a = SUB["a"] if name == "submodule" else ""
+    sub_b = SUB["b"] if name == "submodule" else ""
+    if body_a.startswith("`define"):
+        first_a, rest_a = body_a.split("\n", 1)
+        first_b, rest_b = body_b.split("\n", 1)
+        open(fa, "w").write(first_a + "\n" + HEAD + rest_a + TAIL + sub_a)
+        open(fb, "w").write(first_b + "\n" + HEAD + rest_b + TAIL + sub_b)
+    else:
+        open(fa, "w").write(HEAD + body_a + TAIL + sub_a)
+        open(fb, "w").write(HEAD + body_b + TAIL + sub_b)
+    code, j, err = equiv(a, fa, fb, ["--top", "unit"])
+    verdict = j.get("verdict")
+    differs = icarus_differs(work, fa, fb)
+    if name == "excluded_text":
+        differs = differs or icarus_differs(work, fa, fb, ["UNIT_ALT"])
+    res.check(code in allowed, f"{name} ({what}): exit {code} in {sorted(allowed)}: {j or err[-800:]}")
+    res.check(not (code == 0 and differs),
+              f"{name}: Icarus Verilog shows the versions differ, so exit 0 would be wrong")
+    res.check(code != 0 or not differs, f"{name}: proved only what Icarus Verilog agrees with")
+    if code == 3:
+        res.check(bool(j.get("uncompared_statements")) or bool(j.get("one_sided_outputs")),
+                  f"{name}: undecided names what was not compared: {j}")
+        for u in j.get("uncompared_statements", []):
+            res.check(u["line"] > 0 and u["file"] in (fa, fb), f"{name}: located at file:line: {u}")
+    if code == 1:
+        res.check(differs, f"{name}: Icarus Verilog confirms the versions differ")
+        if "counterexample" in j:
+            ok, log = TE.confirm(a.root, [fa], "unit", fa, fb, j["counterexample"], work)
+            res.check(ok, f"{name}: Icarus Verilog confirms kerf's counterexample: {log}")
+    if allowed == {0}:
+        res.check(not differs, f"{name}: control pair, Icarus Verilog shows no difference")
 
+
+S = K.Suite(__doc__)
+for _c in CASES + [("submodule", SUB_BODY, SUB_BODY, {3}, "the same instance text, different submodules")]:
+    S.add(_c[0], lambda t, c=_c: run_case(t, *c), needs=("iverilog",))
 
 if __name__ == "__main__":
-    main()
+    S.main()

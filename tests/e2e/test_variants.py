@@ -122,6 +122,17 @@ PARAM_CASES = [
 ]
 
 
+# Outputs of lane_mask_sv.sv and the parameter each reaches through one channel.
+CHANNELS = {
+    "lane_mask_sv.sv": [("base", "LANES"),       # a typedef from the parameter
+                        ("strobe", "LANES"),     # widths
+                        ("wide", "LANES"),       # directly
+                        ("odd_lanes", "LANES"),  # a function reading a localparam from it
+                        ("mode_hit", "LANES"),   # an enum value from it
+                        ("is_store", None)],     # nothing overridable: restructured
+}
+
+
 def overrides_text(values):
     return ", ".join(f".{k}({v})" for k, v in values.items())
 
@@ -168,62 +179,74 @@ def elaborates(a, work, src, out_file, top, values, ext):
     return verdicts
 
 
-def parameters(res, a):
-    for file, top, settings, used in PARAM_CASES:
-        src = os.path.join(VAR, file)
-        ext = os.path.splitext(file)[1]
-        with tempfile.TemporaryDirectory() as work:
-            # Default: logic depending on an overridable parameter stays as written.
-            out = os.path.join(work, top + ext)
-            r = K.run([a.kerf, "restructure", src, "--top", top, "-o", out])
-            if not res.check(r.returncode == 0, f"{file}: restructure (defaults): {r.stderr[-1500:]}"):
+def parameter_case(res, a, file, top, settings, used):
+    src = os.path.join(VAR, file)
+    ext = os.path.splitext(file)[1]
+    with tempfile.TemporaryDirectory() as work:
+        # Default: logic depending on an overridable parameter stays as written.
+        out = os.path.join(work, top + ext)
+        r = K.run([a.kerf, "restructure", src, "--top", top, "-o", out])
+        if not res.check(r.returncode == 0, f"{file}: restructure (defaults): {r.stderr[-1500:]}"):
+            return
+        res.check(all(p in r.stderr for p in used), f"{file}: the summary names {used}: {r.stderr}")
+        before = reader(a, [src], top)
+        after = reader(a, [out], top)
+        dependent = [m for m in before["members"] if m["kind"] == "kept" and "parameter" in m["reason"]]
+        res.check(len(dependent) > 0, f"{file}: some statements are kept for a parameter")
+        text_in = open(src, "rb").read()
+        text_out = open(out, "rb").read()
+        for m in dependent:
+            s = m["src"]
+            res.check(text_in[s["start"]:s["end"]] in text_out,
+                      f"{file}: statement at line {s['line']} kept byte for byte")
+        res.check(len(kept_members(after)) == len(kept_members(before)), f"{file}: same kept statements")
+        # Every way a parameter reaches logic is seen (IEEE 1800-2017 6.20: localparams, types and
+        # functions are evaluated from the parameter): each output named in CHANNELS depends on it.
+        for out_name, param in CHANNELS.get(file, ()):
+            m = next(m for m in before["members"] if out_name in m["writes"])
+            if param is None:
+                res.check(m["kind"] != "kept" and m.get("parameters") == [],
+                          f"{file}: '{out_name}' depends on no parameter and is restructured: {m}")
+            else:
+                res.check(param in m.get("parameters", []),
+                          f"{file}: '{out_name}' is seen to depend on {param}: {m.get('parameters')} "
+                          f"({m.get('reason')})")
+        check_against_settings(res, a, work, f"{file} (defaults)", src, top, out, settings,
+                               {name for _, name in settings})
+
+        # --param: restructured for that value, guarded against every other.
+        for n, (values, name) in enumerate(settings):
+            if not values:
                 continue
-            res.check(all(p in r.stderr for p in used), f"{file}: the summary names {used}: {r.stderr}")
-            before = reader(a, [src], top)
-            after = reader(a, [out], top)
-            dependent = [m for m in before["members"] if m["kind"] == "kept" and "parameter" in m["reason"]]
-            res.check(len(dependent) > 0, f"{file}: some statements are kept for a parameter")
-            text_in = open(src, "rb").read()
-            text_out = open(out, "rb").read()
-            for m in dependent:
-                s = m["src"]
-                res.check(text_in[s["start"]:s["end"]] in text_out,
-                          f"{file}: statement at line {s['line']} kept byte for byte")
-            res.check(len(kept_members(after)) == len(kept_members(before)), f"{file}: same kept statements")
-            check_against_settings(res, a, work, f"{file} (defaults)", src, top, out, settings,
-                                   {name for _, name in settings})
-
-            # --param: restructured for that value, guarded against every other.
-            for n, (values, name) in enumerate(settings):
-                if not values:
+            pdir = os.path.join(work, f"pinned{n}")
+            os.mkdir(pdir)
+            outp = os.path.join(pdir, top + ext)
+            r = K.run([a.kerf, "restructure", src, "--top", top, "-o", outp] + param_args(values))
+            if not res.check(r.returncode == 0, f"{file} --param {name}: restructure: {r.stderr[-1500:]}"):
+                continue
+            res.check("specialised for" in r.stderr, f"{file} --param {name}: summary says so: {r.stderr}")
+            pinned = reader(a, [outp], top, param_args(values))
+            res.check(len(kept_members(pinned)) < len(kept_members(before)),
+                      f"{file} --param {name}: more logic restructured than by default")
+            res.check("kerf_parameter_guard" in open(outp).read(), f"{file} --param {name}: guard written")
+            check_against_settings(res, a, pdir, f"{file} --param {name}", src, top, outp, settings, {name},
+                                   param_args(values))
+            code = K.run([a.kerf, "equiv", src, outp, "--top", top, "--json"] + param_args(values))
+            res.check(code.returncode == 0, f"{file} --param {name}: kerf equiv proves the rewrite: "
+                                            f"{code.stdout[-800:]}{code.stderr[-800:]}")
+            for other, oname in settings:
+                if oname == name:
                     continue
-                pdir = os.path.join(work, f"pinned{n}")
-                os.mkdir(pdir)
-                outp = os.path.join(pdir, top + ext)
-                r = K.run([a.kerf, "restructure", src, "--top", top, "-o", outp] + param_args(values))
-                if not res.check(r.returncode == 0, f"{file} --param {name}: restructure: {r.stderr[-1500:]}"):
-                    continue
-                res.check("specialised for" in r.stderr, f"{file} --param {name}: summary says so: {r.stderr}")
-                pinned = reader(a, [outp], top, param_args(values))
-                res.check(len(kept_members(pinned)) < len(kept_members(before)),
-                          f"{file} --param {name}: more logic restructured than by default")
-                res.check("kerf_parameter_guard" in open(outp).read(), f"{file} --param {name}: guard written")
-                check_against_settings(res, a, pdir, f"{file} --param {name}", src, top, outp, settings, {name},
-                                       param_args(values))
-                code = K.run([a.kerf, "equiv", src, outp, "--top", top, "--json"] + param_args(values))
-                res.check(code.returncode == 0, f"{file} --param {name}: kerf equiv proves the rewrite: "
-                                                f"{code.stdout[-800:]}{code.stderr[-800:]}")
-                for other, oname in settings:
-                    if oname == name:
-                        continue
-                    v = elaborates(a, pdir, src, outp, top, other, ext)
-                    for tool, (ok, log) in v.items():
-                        res.check(not ok, f"{file} --param {name}: {tool} stops a build with {oname}: {log[-500:]}")
-                v = elaborates(a, pdir, src, outp, top, values, ext)
+                v = elaborates(a, pdir, src, outp, top, other, ext)
                 for tool, (ok, log) in v.items():
-                    res.check(ok, f"{file} --param {name}: {tool} accepts a build with {name}: {log[-800:]}")
+                    res.check(not ok, f"{file} --param {name}: {tool} stops a build with {oname}: {log[-500:]}")
+            v = elaborates(a, pdir, src, outp, top, values, ext)
+            for tool, (ok, log) in v.items():
+                res.check(ok, f"{file} --param {name}: {tool} accepts a build with {name}: {log[-800:]}")
 
-    # Bad --param values: clear message, exit 2, nothing written.
+
+def bad_param_values(res, a):
+    """Bad --param values: clear message, exit 2, nothing written (trade practice for bad input)."""
     with tempfile.TemporaryDirectory() as work:
         out = os.path.join(work, "x.sv")
         for args, words in ((["--param", "LAST=3"], "localparam"), (["--param", "NOPE=1"], "no parameter"),
@@ -246,53 +269,50 @@ def dargs(defs):
     return out
 
 
-def ifdef_variants(res, a):
+def ifdef_variants(res, a, made_with):
     src = os.path.join(VAR, "fifo_flags.v")
     top = "fifo_flags"
-    for made_with in ([], ["WIDE_COUNT", "ALMOST_FLAGS", "THRESH=5"]):
-        label = "fifo_flags.v made with " + (" ".join(made_with) or "no defines")
-        with tempfile.TemporaryDirectory() as work:
-            out = os.path.join(work, top + ".v")
-            r = K.run([a.kerf, "restructure", src, "-o", out] + dargs(made_with))
-            if not res.check(r.returncode == 0, f"{label}: restructure: {r.stderr[-1500:]}"):
-                continue
-            orig = reader(a, [src], top, dargs(made_with))
-            new = reader(a, [out], top, dargs(made_with))
-            res.check([c["text"] for c in orig["conditionals"]] == [c["text"] for c in new["conditionals"]],
-                      f"{label}: the same conditional directives, in the same order")
-            res.check("kerf: restructured logic" in open(out).read() and
-                      sum(m["kind"] != "kept" for m in orig["members"]) > 0, f"{label}: something was restructured")
-            for m in orig["members"]:
-                if m["kind"] == "kept" and m["what"] != "excluded_text":
-                    s = m["src"]
-                    res.check(open(src, "rb").read()[s["start"]:s["end"]] in open(out, "rb").read(),
-                              f"{label}: kept statement at line {s['line']} unchanged")
-            for build in DEFINE_SETS:
-                bname = " ".join(build) or "no defines"
-                # kerf's own proof of that build ...
-                e = K.run([a.kerf, "equiv", src, out, "--json"] + dargs(build))
-                res.check(e.returncode == 0, f"{label}, built with {bname}: kerf equiv: {e.stdout[-1200:]}")
-                # ... and Icarus Verilog's simulation of it.
-                ref = os.path.join(work, "ref.v")
-                renamed_copy(a, src, top, top + "_ref", ref, dargs(build))
-                nw = os.path.join(work, "new.v")
-                renamed_copy(a, out, top, top + "_new", nw, dargs(build))
-                ports = reader(a, [src], top, dargs(build))["ports"]
-                ok, log = icarus_compare(work, [ref, nw], testbench(ports, top + "_ref", top + "_new"),
-                                         defines=build)
-                res.check(ok, f"{label}, built with {bname}: Icarus Verilog agrees on every output: {log}")
+    label = "fifo_flags.v made with " + (" ".join(made_with) or "no defines")
+    with tempfile.TemporaryDirectory() as work:
+        out = os.path.join(work, top + ".v")
+        r = K.run([a.kerf, "restructure", src, "-o", out] + dargs(made_with))
+        if not res.check(r.returncode == 0, f"{label}: restructure: {r.stderr[-1500:]}"):
+            return
+        orig = reader(a, [src], top, dargs(made_with))
+        new = reader(a, [out], top, dargs(made_with))
+        res.check([c["text"] for c in orig["conditionals"]] == [c["text"] for c in new["conditionals"]],
+                  f"{label}: the same conditional directives, in the same order")
+        res.check("kerf: restructured logic" in open(out).read() and
+                  sum(m["kind"] != "kept" for m in orig["members"]) > 0, f"{label}: something was restructured")
+        for m in orig["members"]:
+            if m["kind"] == "kept" and m["what"] != "excluded_text":
+                s = m["src"]
+                res.check(open(src, "rb").read()[s["start"]:s["end"]] in open(out, "rb").read(),
+                          f"{label}: kept statement at line {s['line']} unchanged")
+        for build in DEFINE_SETS:
+            bname = " ".join(build) or "no defines"
+            # kerf's own proof of that build ...
+            e = K.run([a.kerf, "equiv", src, out, "--json"] + dargs(build))
+            res.check(e.returncode == 0, f"{label}, built with {bname}: kerf equiv: {e.stdout[-1200:]}")
+            # ... and Icarus Verilog's simulation of it.
+            ref = os.path.join(work, "ref.v")
+            renamed_copy(a, src, top, top + "_ref", ref, dargs(build))
+            nw = os.path.join(work, "new.v")
+            renamed_copy(a, out, top, top + "_new", nw, dargs(build))
+            ports = reader(a, [src], top, dargs(build))["ports"]
+            ok, log = icarus_compare(work, [ref, nw], testbench(ports, top + "_ref", top + "_new"),
+                                     defines=build)
+            res.check(ok, f"{label}, built with {bname}: Icarus Verilog agrees on every output: {log}")
 
 
-def main():
-    a = K.args()
-    os.chdir(a.root)
-    res = K.Results()
-    for name, fn in (("parameters", parameters), ("ifdef_variants", ifdef_variants)):
-        if a.only and a.only != name:
-            continue
-        fn(res, a)
-    res.finish()
-
+S = K.Suite(__doc__)
+for _file, _top, _settings, _used in PARAM_CASES:
+    S.add("param_" + _top, lambda t, f=_file, tp=_top, st=_settings, u=_used: parameter_case(t.res, t.args, f, tp, st, u),
+          needs=("iverilog", "verilator"))
+S.add("param_bad_values", lambda t: bad_param_values(t.res, t.args))
+S.add("ifdef_made_without_defines", lambda t: ifdef_variants(t.res, t.args, []), needs=("iverilog",))
+S.add("ifdef_made_with_all_defines",
+      lambda t: ifdef_variants(t.res, t.args, ["WIDE_COUNT", "ALMOST_FLAGS", "THRESH=5"]), needs=("iverilog",))
 
 if __name__ == "__main__":
-    main()
+    S.main()
