@@ -27,6 +27,7 @@ analysis can only keep more code as written, never less.
 
 import bisect
 import hashlib
+import re
 
 import pyslang
 from pyslang import ast, parsing, syntax
@@ -296,6 +297,12 @@ class Refs:
 # ---------------------------------------------------------------------------
 # match keys
 
+def _type_text(t):
+    """A type as slang prints its canonical form (enum encodings and struct layouts
+    included), without the numbers slang gives anonymous types (`s$1`)."""
+    return re.sub(r"\$\d+", "", str(t.canonicalType))
+
+
 class Keys:
     """Digests of members for matching kept statements between two designs."""
 
@@ -329,9 +336,9 @@ class Keys:
         self._sym_text[sym] = "%s %s (recursive)" % (sym.kind.name, sym.name)
         k = sym.kind
         if k in (SK.Net, SK.Variable):
-            t = "%s %s : %s" % (k.name, sym.name, sym.type)
+            t = "%s %s : %s" % (k.name, sym.name, _type_text(sym.type))
         elif k == SK.Parameter:
-            t = "parameter %s : %s = %s" % (sym.name, sym.type, sym.value)
+            t = "parameter %s : %s = %s" % (sym.name, _type_text(sym.type), sym.value)
         elif k == SK.EnumValue:
             t = "enum value %s = %s" % (sym.name, sym.value)
         elif k == SK.TypeParameter or k == SK.TypeAlias:

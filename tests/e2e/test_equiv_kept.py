@@ -52,6 +52,12 @@ CASES = [
      "  logic [1:0] t;\n  assign t = a[1:0];\n  always_ff @(posedge clk) y <= {2'b00, t} + 4'd1;\n  assign z = b;\n",
      "  logic [2:0] t;\n  assign t = a[2:0];\n  always_ff @(posedge clk) y <= {2'b00, t} + 4'd1;\n  assign z = b;\n",
      {1, 3}, "the same kept text reading a signal declared with another width"),
+    ("enum_encoding",
+     "  typedef enum logic [3:0] {IDLE = 4'd0, BUSY = 4'd5} st_t;\n  st_t st;\n"
+     "  always_ff @(posedge clk) st <= (a == 4'd0) ? IDLE : BUSY;\n  assign y = st;\n  assign z = b;\n",
+     "  typedef enum logic [3:0] {IDLE = 4'd0, BUSY = 4'd9} st_t;\n  st_t st;\n"
+     "  always_ff @(posedge clk) st <= (a == 4'd0) ? IDLE : BUSY;\n  assign y = st;\n  assign z = b;\n",
+     {1, 3}, "the same kept text, a different enum encoding"),
     ("kept_versus_lowered",
      "  always_comb begin\n    y = a;\n    y[s +: 2] = b[1:0];\n  end\n  assign z = a;\n",
      "  assign y = a ^ b;\n  assign z = a;\n",

@@ -22,16 +22,17 @@ module lane_mask_sv #(parameter int LANES = 4) (
     return ^(off & LAST[2:0]);                           // a function that reads it
   endfunction
 
-  mask_t base;
   always_comb begin
-    case (size)
-      2'd0:    base = mask_t'(1);
-      2'd1:    base = mask_t'(3);
-      2'd2:    base = mask_t'(15);
-      default: base = '1;
-    endcase
+    strobe = mask_t'(0);                                 // through the typedef, a loop bound, a width
+    for (int i = 0; i < LANES; i++) begin
+      case (size)
+        2'd0:    strobe[i] = (wr | rd) & (offset == 3'(i));
+        2'd1:    strobe[i] = (wr | rd) & (offset[2:1] == 2'(i >> 1));
+        2'd2:    strobe[i] = (wr | rd) & (offset[2] == 1'(i >> 2));
+        default: strobe[i] = wr | rd;
+      endcase
+    end
   end
-  assign strobe    = (wr | rd) ? base << offset : '0;    // through the typedef and the width
   assign wide      = LANES > 4 && size == 2'd3;          // directly
   assign odd_lanes = parity_of_lanes(offset) & wr;       // through the function
   assign mode_hit  = opcode[1:0] == M_WIDE;              // through the enum
@@ -39,4 +40,3 @@ module lane_mask_sv #(parameter int LANES = 4) (
   assign busy      = (wr & ~err) | (rd & ~err) | (wr & rd & hold);
   assign grant     = (wr | rd) & ~hold & ~err | (wr & rd & ~err & ~hold);
 endmodule
-
