@@ -1261,8 +1261,14 @@ WriteResult Writer::run() {
     for (const auto& G : res.groups)
         if (G.replaced) replacedNow.insert(G.members.begin(), G.members.end());
     bool sv = m_.src.file.size() > 3 && m_.src.file.compare(m_.src.file.size() - 3, 3, ".sv") == 0;
-    edits.push_back({headerAt, headerAt, indentOf(src_, headerAt) + header +
-                                             parameterGuard(pinnedValues(m_, replacedNow), sv, indentOf(src_, headerAt))});
+    std::string guard = parameterGuard(pinnedValues(m_, replacedNow), sv, indentOf(src_, headerAt));
+    {
+        // kerf run on its own output with the same --param values: the guard is there already
+        // (a second one would redefine its block name).
+        std::size_t a = guard.find("if ("), b = guard.find('\n', a);
+        if (a != std::string::npos && src_.find(guard.substr(a, b - a)) != std::string::npos) guard.clear();
+    }
+    edits.push_back({headerAt, headerAt, indentOf(src_, headerAt) + header + guard});
     std::stable_sort(edits.begin(), edits.end(), [](const Edit& a, const Edit& b) {
         if (a.start != b.start) return a.start < b.start;
         return (a.start == a.end) > (b.start == b.end);   // insertions before replacements
