@@ -365,6 +365,9 @@ int restructure(const RestructureOptions& opts) {
                                          return s;
                                      }(),
                                      g.gatesBefore, g.gatesAfter, g.replaced ? "rewritten" : "kept as written: " + g.reason);
+        // Statements kerf does not restructure at all, each with its reason (kept code,
+        // parameter-dependent logic, text other defines could change).
+        for (const auto& k : proof::keptStatements(desc, low)) std::cerr << "  " << proof::describeKept(k) << "\n";
     }
 
     std::string outputPath = opts.inPlace ? file : opts.output;
@@ -431,6 +434,12 @@ int restructure(const RestructureOptions& opts) {
              }()},
             {"lines_replaced", ranges},
             {"kept_as_written", kept},
+            {"statements_not_restructured", [&] {
+                 nlohmann::json ks = nlohmann::json::array();
+                 for (const auto& k : proof::keptStatements(desc, low))
+                     ks.push_back({{"file", k.src.file}, {"line", k.src.line}, {"what", k.what}, {"reason", k.reason}});
+                 return ks;
+             }()},
             {"signals_added", wr.changed ? wr.wiresAdded : std::vector<std::string>{}},
             {"signals_kept", wr.changed ? wr.namesKept : std::vector<std::string>{}},
             {"goal", opts.goal},

@@ -274,10 +274,17 @@ def ifdef_variants(res, a, made_with):
     label = "fifo_flags.v made with " + (" ".join(made_with) or "no defines")
     with tempfile.TemporaryDirectory() as work:
         out = os.path.join(work, top + ".v")
-        r = K.run([a.kerf, "restructure", src, "-o", out] + dargs(made_with))
+        rep = os.path.join(work, "report.json")
+        r = K.run([a.kerf, "restructure", src, "-o", out, "--report", rep] + dargs(made_with))
         if not res.check(r.returncode == 0, f"{label}: restructure: {r.stderr[-1500:]}"):
             return
         orig = reader(a, [src], top, dargs(made_with))
+        # The report names every statement left as written, with the reader's reason.
+        listed = {(k["line"], k["reason"]) for k in json.load(open(rep)).get("statements_not_restructured", [])}
+        for m in orig["members"]:
+            if m["kind"] == "kept":
+                res.check((m["src"]["line"], m["reason"]) in listed,
+                          f"{label}: report lists line {m['src']['line']} kept as written: {m['reason']}")
         new = reader(a, [out], top, dargs(made_with))
         res.check([c["text"] for c in orig["conditionals"]] == [c["text"] for c in new["conditionals"]],
                   f"{label}: the same conditional directives, in the same order")
