@@ -18,7 +18,8 @@ namespace {
 constexpr const char* kExitCodes =
     "Exit codes: 0 success; 1 designs differ (equiv) or the file would change (--check); "
     "2 bad input (syntax, loop, multiple drivers, latch, unknown module, usage); "
-    "3 proof undecided within its budget; 4 Python or pyslang missing; "
+    "3 proof undecided (budget; for equiv also kept statements without a counterpart); "
+    "4 Python or pyslang missing; "
     "5 internal error (e.g. a rewrite that failed its proof: nothing is written); "
     "6 out of memory or disk space.";
 
@@ -26,7 +27,12 @@ void addReadOptions(CLI::App* cmd, kerf::frontend::ReadOptions& r, bool files = 
     if (files) cmd->add_option("files", r.files, "Verilog/SystemVerilog source files")->required();
     cmd->add_option("--top", r.top, "module to read (default: the only top-level module)");
     cmd->add_option("-I,--include", r.includeDirs, "include directory")->take_all();
-    cmd->add_option("-D,--define", r.defines, "preprocessor define NAME or NAME=VALUE")->take_all();
+    cmd->add_option("-D,--define", r.defines, "preprocessor macro NAME or NAME=VALUE (a `define, not a parameter)")
+        ->take_all();
+    cmd->add_option("--param", r.params,
+                    "set a parameter of the top module, NAME=VALUE, as an instance would (repeatable); logic "
+                    "depending on it is then restructured for that value and the file stops other values")
+        ->take_all();
 }
 
 } // namespace

@@ -21,6 +21,8 @@
 //     never used before it.
 #include "kerf/emit/writer.h"
 
+#include "kerf/emit/guard.h"
+
 #include "expression.h"
 #include "kerf/frontend/references.h"
 #include "kerf/io/files.h"
@@ -1262,10 +1264,22 @@ WriteResult Writer::run() {
     }
     firstChange = std::string::npos;
     for (const auto& e : edits) firstChange = std::min(firstChange, lineStart(src_, e.start));
-    // Header comment above the first change.
+    // Header comment above the first change, and the guard of the --param values the
+    // replaced statements were specialised for (guard.cpp), right below it.
     std::string header = "// kerf: restructured logic\n";
     std::size_t headerAt = firstChange;
-    edits.push_back({headerAt, headerAt, indentOf(src_, headerAt) + header});
+    std::set<int> replacedNow;
+    for (const auto& G : res.groups)
+        if (G.replaced) replacedNow.insert(G.members.begin(), G.members.end());
+    bool sv = m_.src.file.size() > 3 && m_.src.file.compare(m_.src.file.size() - 3, 3, ".sv") == 0;
+    std::string guard = parameterGuard(pinnedValues(m_, replacedNow), sv, indentOf(src_, headerAt));
+    {
+        // kerf run on its own output with the same --param values: the guard is there already
+        // (a second one would redefine its block name).
+        std::size_t a = guard.find("if ("), b = guard.find('\n', a);
+        if (a != std::string::npos && src_.find(guard.substr(a, b - a)) != std::string::npos) guard.clear();
+    }
+    edits.push_back({headerAt, headerAt, indentOf(src_, headerAt) + header + guard});
     std::stable_sort(edits.begin(), edits.end(), [](const Edit& a, const Edit& b) {
         if (a.start != b.start) return a.start < b.start;
         return (a.start == a.end) > (b.start == b.end);   // insertions before replacements

@@ -2,7 +2,9 @@
 #include "kerf/flow/flows.h"
 
 #include "kerf/emit/diff.h"
+#include "kerf/emit/guard.h"
 #include "kerf/emit/writer.h"
+#include "kerf/flow/counterexample.h"
 #include "kerf/frontend/lower.h"
 #include "kerf/io/files.h"
 #include "kerf/io/progress.h"
@@ -10,10 +12,12 @@
 #include "kerf/passes/engine.h"
 #include "kerf/passes/tidy.h"
 #include "kerf/passes/factored.h"
+#include "kerf/proof/boundary.h"
 #include "kerf/proof/equivalence.h"
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -37,23 +41,6 @@ std::string percent(std::size_t before, std::size_t after) {
 nlohmann::json metricsJson(const net::Metrics& m) {
     return {{"inputs", m.inputs}, {"outputs", m.outputs}, {"nodes", m.nodes},
             {"literals", m.literals}, {"gates", m.gates}, {"depth", m.depth}};
-}
-
-std::string describeCounterexample(const proof::Counterexample& cex) {
-    std::string s;
-    for (const auto& [name, v] : cex.inputs) s += fmt::format("  {} = {}\n", name, v ? 1 : 0);
-    return s;
-}
-
-/// Read the module as `kerf equiv` compares it: arithmetic turned into gates,
-/// compared at the ports and at kept code (internal signals may differ between the two).
-frontend::Lowered lowerForProof(const frontend::ReadOptions& read, const std::string& prefix) {
-    frontend::ModuleDesc d = frontend::readModule(read);
-    frontend::LowerOptions lo;
-    lo.bitBlastArithmetic = true;
-    lo.prefix = prefix;
-    lo.dissolveInternal = true;
-    return frontend::lower(d, lo);
 }
 
 nlohmann::json stagesJson(const io::StageLog& log) {
@@ -154,6 +141,20 @@ int restructure(const RestructureOptions& opts) {
     frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
     for (const auto& n : low.notes)
         if (!opts.quiet) std::cerr << n << "\n";
+    if (!opts.quiet) {
+        // Parameters: what stays as written for them (kerf_params.py); --param restructures it.
+        std::vector<std::string> keptFor;
+        for (const auto& p : desc.parameters)
+            if (!p.pinned && p.keptMembers > 0) keptFor.push_back(p.name);
+        if (!keptFor.empty()) {
+            std::string names;
+            for (std::size_t i = 0; i < keptFor.size(); ++i) names += (i ? ", " : "") + keptFor[i];
+            std::cerr << fmt::format("{}: module {}: logic depending on parameter{} {} (which an instance can "
+                                     "override) is kept as written; --param NAME=VALUE restructures it for one "
+                                     "value\n",
+                                     desc.src.file, desc.name, keptFor.size() > 1 ? "s" : "", names);
+        }
+    }
     const net::Network original = low.net;
     passes::FactorCache factorCache;   // shared by the figures and the engine: no cover is factored twice
     passes::FactoredNetwork originalForms = passes::factorNetwork(original, -1, &factorCache);
@@ -190,6 +191,15 @@ int restructure(const RestructureOptions& opts) {
 
     std::size_t groupsReplaced = 0;
     for (const auto& g : wr.groups) groupsReplaced += g.replaced ? 1 : 0;
+    // --param values the written logic is specialised for (the writer put their guard in the file).
+    std::vector<emit::PinnedValue> pins;
+    if (wr.changed) {
+        std::set<int> replacedNow;
+        for (const auto& g : wr.groups)
+            if (g.replaced) replacedNow.insert(g.members.begin(), g.members.end());
+        pins = emit::pinnedValues(desc, replacedNow);
+    }
+    const bool pinned = !pins.empty();
 
     // ---- proof and figures of the written file: read back what was written, through the same reader
     net::Metrics after = asRead;
@@ -262,26 +272,54 @@ int restructure(const RestructureOptions& opts) {
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
             po.verbose = opts.verbose;
-            // The original's declared don't-cares are the only freedom the rewrite may use.
-            proof::ProofResult pr = proof::proveEquivalent(a.net, b.net, po,
-                                                           a.dontCares.outputs().empty() ? nullptr : &a.dontCares);
+            proof::BoundedResult br = proof::proveBounded({desc, a}, {written, b}, po);
+            const proof::ProofResult& pr = br.proof;
             double proofSeconds = since(tProof);
+            // The boundary of the proof (kerf/proof/boundary.h) is kerf's own doing here: every
+            // statement kept as written comes back with its partner, byte for byte; the only
+            // statement the rewrite may add is the --param guard; every output is compared.
+            std::vector<std::string> keptProblems;
+            for (const auto& k : br.kept.onlyA)
+                keptProblems.push_back(fmt::format("{} is missing from the rewrite", proof::describeKept(k)));
+            for (const auto& k : br.kept.onlyB) {
+                std::string bytes = io::readFile(k.src.file);
+                std::string text = k.src.end <= bytes.size() ? bytes.substr(k.src.start, k.src.end - k.src.start) : "";
+                bool isGuard = pinned && k.what == "generate" && k.writes.empty() &&
+                               text.find("kerf_parameter_guard") != std::string::npos;
+                if (!isGuard)
+                    keptProblems.push_back(fmt::format("the rewrite has a statement kerf would keep as written that "
+                                                       "the original does not have: {}", proof::describeKept(k)));
+            }
+            for (const auto& w : proof::keptTextDiffers(br.kept))
+                keptProblems.push_back(fmt::format("the statement at {} is kept as written but its text changed", w));
+            for (const auto& o : br.oneSided) keptProblems.push_back(fmt::format("output {} is not compared", o));
+            for (const auto& o : br.undrivenOnOneSide) keptProblems.push_back(o);
+            if (!keptProblems.empty()) {
+                std::string msg = "kerf's rewrite does not keep the boundary of its proof: " + keptProblems.front();
+                for (std::size_t i = 1; i < keptProblems.size() && i < 5; ++i) msg += "; " + keptProblems[i];
+                std::string dir = keepEvidence();
+                throw Error(fmt::format("{}; nothing was written. This is a kerf bug: please report it with the "
+                                        "files kept in {}/", msg, dir), {}, ExitCode::Internal);
+            }
             proofJson = {{"verdict", pr.verdict == proof::Verdict::Equivalent ? "equivalent"
                                      : pr.verdict == proof::Verdict::Different ? "different" : "undecided"},
                          {"seconds", proofSeconds},
                          {"outputs", pr.stats.outputs},
                          {"by_structure", pr.stats.byStructure},
                          {"by_sat", pr.stats.bySat},
+                         {"kept_statements_paired", br.kept.matched.size()},
                          {"boundary", "combinational equivalence at the module's ports, at its internal signals "
-                                      "and at kept code, whose outputs are matched by name and treated as free inputs"}};
+                                      "and at kept code, whose statements are paired by their text and whose "
+                                      "outputs are free inputs"}};
             if (pr.verdict == proof::Verdict::Different) {
                 std::string dir = keepEvidence();
+                std::string shown;
+                if (pr.cex) shown = formatCounterexample(showCounterexample(*pr.cex, desc, a, written, b));
                 std::cerr << fmt::format("{}: error: kerf's rewrite is NOT equivalent: output '{}' differs "
-                                         "(original {}, rewrite {}) for:\n{}nothing was written. This is a kerf bug: "
+                                         "(original {}, rewrite {})\n{}nothing was written. This is a kerf bug: "
                                          "please report it with the rewrite and the reader's description kept in {}/\n",
                                          file, pr.cex ? pr.cex->output : "?", pr.cex && pr.cex->valueA ? 1 : 0,
-                                         pr.cex && pr.cex->valueB ? 1 : 0, pr.cex ? describeCounterexample(*pr.cex) : "",
-                                         dir);
+                                         pr.cex && pr.cex->valueB ? 1 : 0, shown, dir);
                 return static_cast<int>(ExitCode::Internal);
             }
             if (pr.verdict == proof::Verdict::Undecided) {
@@ -322,6 +360,9 @@ int restructure(const RestructureOptions& opts) {
                                          return s;
                                      }(),
                                      g.gatesBefore, g.gatesAfter, g.replaced ? "rewritten" : "kept as written: " + g.reason);
+        // Statements kerf does not restructure at all, each with its reason (kept code,
+        // parameter-dependent logic, text other defines could change).
+        for (const auto& k : proof::keptStatements(desc, low)) std::cerr << "  " << proof::describeKept(k) << "\n";
     }
 
     std::string outputPath = opts.inPlace ? file : opts.output;
@@ -336,6 +377,8 @@ int restructure(const RestructureOptions& opts) {
                                wr.groups.size() == 1 ? "" : "s");
         if (groupsReplaced < wr.groups.size()) summary += fmt::format(" (the rest kept as written)");
         summary += ", " + proofText;
+        if (pinned) summary += fmt::format(", specialised for {} (--param; the file stops other values)",
+                                           emit::pinnedList(pins));
     }
     if (low.dontCareBits > 0)
         summary += fmt::format("; {} output bit{} can be x in the source and {} used as don't-care{} (--keep-x keeps "
@@ -390,6 +433,12 @@ int restructure(const RestructureOptions& opts) {
              }()},
             {"lines_replaced", ranges},
             {"kept_as_written", kept},
+            {"statements_not_restructured", [&] {
+                 nlohmann::json ks = nlohmann::json::array();
+                 for (const auto& k : proof::keptStatements(desc, low))
+                     ks.push_back({{"file", k.src.file}, {"line", k.src.line}, {"what", k.what}, {"reason", k.reason}});
+                 return ks;
+             }()},
             {"signals_added", wr.changed ? wr.wiresAdded : std::vector<std::string>{}},
             {"signals_kept", wr.changed ? wr.namesKept : std::vector<std::string>{}},
             {"goal", opts.goal},
@@ -398,6 +447,17 @@ int restructure(const RestructureOptions& opts) {
             {"techniques", techRows},
             {"limits_hit", er.limitsHit},
             {"proof", wr.changed ? proofJson : nlohmann::json({{"verdict", "not needed: file unchanged"}})},
+            {"parameters", [&] {
+                 nlohmann::json ps = nlohmann::json::array();
+                 for (const auto& p : desc.parameters) {
+                     bool used = std::any_of(pins.begin(), pins.end(), [&](const emit::PinnedValue& v) {
+                         return v.name == p.name;
+                     });
+                     ps.push_back({{"name", p.name}, {"value", p.value}, {"pinned", p.pinned},
+                                   {"specialised_for", used}, {"statements_kept", p.keptMembers}});
+                 }
+                 return ps;
+             }()},
             {"seconds", {{"read", readSeconds}, {"passes", passSeconds}}}};
         stages.end();
         report["stages"] = stagesJson(stages);
@@ -428,50 +488,6 @@ int restructure(const RestructureOptions& opts) {
     }
     if (!opts.quiet) std::cerr << summary << "\n";
     return 0;
-}
-
-int equiv(const EquivOptions& opts) {
-    auto t0 = Clock::now();
-    frontend::Lowered a = lowerForProof(opts.a, "kf_");
-    frontend::Lowered b = lowerForProof(opts.b, "kf_");
-    proof::ProofOptions po;
-    po.totalConflicts = opts.proofBudget;
-    po.verbose = opts.verbose;
-    proof::ProofResult pr = proof::proveEquivalent(a.net, b.net, po);
-    double seconds = since(t0);
-    const char* verdict = pr.verdict == proof::Verdict::Equivalent ? "equivalent"
-                        : pr.verdict == proof::Verdict::Different ? "different" : "undecided";
-    if (opts.json) {
-        nlohmann::json j = {{"verdict", verdict}, {"seconds", seconds}, {"outputs", pr.stats.outputs},
-                            {"by_structure", pr.stats.byStructure}, {"by_sat", pr.stats.bySat},
-                            {"refuted_by_simulation", pr.stats.bySimulation},
-                            {"undecided_outputs", pr.undecidedOutputs}, {"failing_outputs", pr.failingOutputs}};
-        if (pr.cex) {
-            nlohmann::json in = nlohmann::json::object();
-            for (const auto& [n, v] : pr.cex->inputs) in[n] = v ? 1 : 0;
-            j["counterexample"] = {{"output", pr.cex->output}, {"a", pr.cex->valueA ? 1 : 0},
-                                   {"b", pr.cex->valueB ? 1 : 0}, {"inputs", in}};
-        }
-        std::cout << j.dump(2) << "\n";
-    } else {
-        std::cout << fmt::format("{} ({} outputs; {} by structure, {} by SAT; {:.2f} s)\n", verdict,
-                                 pr.stats.outputs, pr.stats.byStructure, pr.stats.bySat, seconds);
-        if (pr.cex) {
-            std::cout << fmt::format("output '{}' is {} in the first design and {} in the second for:\n{}",
-                                     pr.cex->output, pr.cex->valueA ? 1 : 0, pr.cex->valueB ? 1 : 0,
-                                     describeCounterexample(*pr.cex));
-        }
-        if (!pr.undecidedOutputs.empty())
-            std::cout << fmt::format("undecided within --proof-budget: {} output(s), e.g. '{}'\n",
-                                     pr.undecidedOutputs.size(), pr.undecidedOutputs.front());
-        std::cout << "scope: combinational equivalence at the ports; outputs of kept code (registers, instances) "
-                     "are matched by name and treated as free inputs\n";
-    }
-    switch (pr.verdict) {
-    case proof::Verdict::Equivalent: return 0;
-    case proof::Verdict::Different: return static_cast<int>(ExitCode::Different);
-    default: return static_cast<int>(ExitCode::Unproved);
-    }
 }
 
 } // namespace kerf::flow

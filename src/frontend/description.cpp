@@ -257,6 +257,7 @@ private:
     void addStmt(const json& s);
     void parseTypes(const json& j);
     void parseSignals(const json& root);
+    void parseParameters(const json& root);
     void parseMembers(const json& root);
     void validateExprs();
     void validateStmts();
@@ -639,6 +640,36 @@ void DescriptionBuilder::parseSignals(const json& root) {
     }
 }
 
+void DescriptionBuilder::parseParameters(const json& root) {
+    if (root.contains("parameters")) {
+        const json& ps = root["parameters"];
+        if (!ps.is_array()) invalid("'parameters' is not a list");
+        for (const auto& pj : ps) {
+            Parameter p;
+            p.name = str(pj, "name", "a parameter");
+            std::string where = "parameter '" + p.name + "'";
+            if (!pj.is_object()) invalid(where + " is not an object");
+            p.isType = pj.value("kind", "value") == "type";
+            p.pinned = pj.value("pinned", false);
+            if (pj.contains("value")) p.value = str(pj, "value", where);
+            if (pj.contains("literal")) p.literal = str(pj, "literal", where);
+            p.implicitType = pj.value("implicit_type", false);
+            if (pj.contains("members")) p.keptMembers = static_cast<int>(num(pj, "members", where));
+            if (pj.contains("src")) p.src = parseRange(pj["src"], where + " src");
+            m.parameters.push_back(std::move(p));
+        }
+    }
+    if (root.contains("conditionals")) {
+        const json& cs = root["conditionals"];
+        if (!cs.is_array()) invalid("'conditionals' is not a list");
+        for (const auto& cj : cs) {
+            if (!cj.is_object()) invalid("a conditional is not an object");
+            m.conditionals.push_back(fmt::format("{}:{}: {}", cj.value("file", "?"), cj.value("line", 0),
+                                                 cj.value("text", "")));
+        }
+    }
+}
+
 void DescriptionBuilder::parseMembers(const json& root) {
     const json& mems = field(root, "members", "the description");
     if (!mems.is_array()) invalid("'members' is not a list");
@@ -655,6 +686,8 @@ void DescriptionBuilder::parseMembers(const json& root) {
         mem.reads = names(field(mj, "reads", where), where + " reads");
         mem.writes = names(field(mj, "writes", where), where + " writes");
         mem.netDecl = mj.value("net_decl", false);
+        if (mj.contains("match_key")) mem.matchKey = str(mj, "match_key", where);
+        if (mj.contains("parameters")) mem.params = names(mj["parameters"], where + " parameters");
         if (mem.kind == MemberKind::Kept) {
             mem.what = str(mj, "what", where);
             mem.reason = str(mj, "reason", where);
@@ -775,9 +808,7 @@ void DescriptionBuilder::validateStmts() {
             expr(s.c, i);
             for (std::uint32_t k = 0; k < s.b; ++k) {
                 const ForInit& fi = r.forInits[s.a + k];
-                expr(fi.value, i);
-                if (fi.var >= r.symbols.size() || r.symbols[fi.var].name.empty())
-                    invalid(fmt::format("statement {}: loop variable is not a symbol", i));
+                expr(fi.value, i);   // the loop variable: checked per member (checkOwnership)
             }
             break;
         default:
@@ -836,7 +867,12 @@ void DescriptionBuilder::checkOwnership() {
         }
         if (s.kind == StmtKind::For)
             for (std::uint32_t k = 0; k < s.b; ++k) {
-                const Symbol& y = r.symbols[r.forInits[s.a + k].var];
+                // Nodes of a member the reader kept after describing it belong to no member
+                // and are never read: their symbols are not checked.
+                SymbolId v = r.forInits[s.a + k].var;
+                if (v >= r.symbols.size() || r.symbols[v].name.empty())
+                    invalid(fmt::format("statement {}: loop variable is not a symbol", i));
+                const Symbol& y = r.symbols[v];
                 if (!y.local || y.member != o) invalid(fmt::format("statement {}: loop variable of another block", i));
             }
     }
@@ -898,6 +934,7 @@ void DescriptionBuilder::finish(const json& root) {
     for (const auto& [name, s] : m.signals)
         if (s.type != kNoId && s.type >= m.ir.types.size()) invalid("signal '" + name + "' names an unknown type");
     parseMembers(root);
+    parseParameters(root);
     validateExprs();
     validateStmts();
     checkOwnership();

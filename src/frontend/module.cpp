@@ -33,6 +33,8 @@ std::vector<std::string> readerArguments(const ReadOptions& opts) {
     if (!opts.top.empty()) { args.push_back("--top"); args.push_back(opts.top); }
     for (const auto& d : opts.includeDirs) { args.push_back("-I"); args.push_back(d); }
     for (const auto& d : opts.defines) { args.push_back("-D"); args.push_back(d); }
+    for (const auto& p : opts.params) { args.push_back("--param"); args.push_back(p); }
+    if (opts.asBuilt) args.push_back("--as-built");
     for (const auto& f : opts.files) {
         auto it = opts.substitute.find(f);
         args.push_back(it == opts.substitute.end() ? f : it->second);

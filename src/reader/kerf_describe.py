@@ -11,7 +11,6 @@ is a bug of the reader and is not caught here.
 """
 
 import os
-import re
 from collections import Counter
 
 import pyslang
@@ -19,6 +18,7 @@ from pyslang import ast
 
 from kerf_convert import CHECK, Conv, Tables, Unsupported, dim_offset
 from kerf_types import Types, sv_bits
+import kerf_variants
 
 FORMAT = "kerf-module"
 VERSION = 2
@@ -62,11 +62,6 @@ _DECL_SYNTAX = {
     pyslang.syntax.SyntaxKind.PortDeclaration,
     pyslang.syntax.SyntaxKind.UserDefinedNetDeclaration,
 }
-# Preprocessor directives inside a member: rewriting its bytes would lose them.
-_DIRECTIVE = re.compile(
-    rb"`(?:ifdef|ifndef|elsif|else|endif|define|undef|undefineall|include|line|resetall|"
-    rb"timescale|default_nettype|celldefine|endcelldefine|pragma|begin_keywords|end_keywords|"
-    rb"unconnected_drive|nounconnected_drive|protect|endprotect)\b")
 _COMMENTS = (TK.LineComment, TK.BlockComment)
 
 
@@ -209,9 +204,7 @@ class Describer:
         attrs = getattr(syn, "attributes", None)
         if attrs is not None and len(attrs) > 0:
             return src, "it carries an attribute (* ... *)"
-        data = self.src.data(syn.sourceRange.start.buffer)
-        if b"`" in data[src["start"]:src["end"]] and _DIRECTIVE.search(data, src["start"], src["end"]):
-            return src, "it contains preprocessor directives"
+        # Directives inside a member are found from slang's trivia (kerf_preproc.py).
         return src, None
 
     # -- comments ------------------------------------------------------------------
@@ -810,6 +803,7 @@ class Describer:
 
         members = []
         for sym in members_syms:
+            first = len(members)    # kerf_variants needs each member's symbol
             k = sym.kind
             if k == SK.ContinuousAssign:
                 members.append(self.assign_member(sym))
@@ -823,7 +817,11 @@ class Describer:
                 continue
             else:
                 members.append(self.other_member(sym))
+            for m in members[first:]:
+                m["_sym"] = sym
 
+        # Parameters an instance may override and the preprocessor (kerf_variants.py).
+        members = kerf_variants.restrict(self, members)
         self.finish_loop_locals(members)
         members = self.merge_statements(members)
         for i, m in enumerate(members):
@@ -834,12 +832,15 @@ class Describer:
         files = [{"path": n, "line_starts": ls} for n, ls in sorted(self.src.lines.items())]
         # Key order matters to no reader, but the big tables come last so that a
         # streaming reader has the small ones in hand first.
-        return {"format": FORMAT, "version": VERSION,
+        desc = {"format": FORMAT, "version": VERSION,
                 "module": {"name": self.top.name, "src": msrc},
                 "files": files,
                 "types": self.types.entries,
-                "ports": ports, "signals": signals, "members": members,
-                "exprs": self.tables.exprs, "stmts": self.tables.stmts}
+                "ports": ports, "signals": signals, "members": members}
+        kerf_variants.finish(self, members, desc)    # match keys, the parameters list
+        desc["exprs"] = self.tables.exprs
+        desc["stmts"] = self.tables.stmts
+        return desc
 
     def finish_loop_locals(self, members):
         """A module variable used as a comb block's loop variable stays local to that

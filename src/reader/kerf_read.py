@@ -5,7 +5,7 @@ Runs slang (through pyslang) on the user's files, elaborates one module and
 prints its description as one compact JSON object on stdout, in the format
 documented in docs/reader-format.md (`kerf-module`, version 1).
 
-    python3 kerf_read.py [--top NAME] [-I DIR]... [-D NAME[=VALUE]]... FILE...
+    python3 kerf_read.py [--top NAME] [-I DIR]... [-D NAME[=VALUE]]... [--param NAME=VALUE]... FILE...
 
 Exit codes: 0 success; 1 slang reported errors (on stderr, in slang's own
 format); 2 usage error, module not found or ambiguous; 3 pyslang missing;
@@ -55,10 +55,19 @@ def parse_args(argv):
                    help="add an include directory")
     p.add_argument("-D", dest="defines", action="append", default=[], metavar="NAME[=VALUE]",
                    help="define a preprocessor macro")
+    p.add_argument("--param", dest="params", action="append", default=[], metavar="NAME=VALUE",
+                   help="set a parameter of the top module (a top-level override)")
+    p.add_argument("--as-built", action="store_true",
+                   help="describe this build only: do not keep logic that depends on parameters an instance "
+                        "could override or on the preprocessor (for proofs of one build)")
     p.add_argument("files", nargs="*", metavar="FILE")
     args = p.parse_args(argv)
     if not args.files:
         p.error("no input files")
+    for a in args.params:
+        name, eq, value = a.partition("=")
+        if not eq or not name.strip() or not value.strip():
+            p.error("--param takes NAME=VALUE, got '%s'" % a)
     return args
 
 
@@ -120,6 +129,8 @@ def main(argv=None):
         cmd += ["-I", d]
     for d in args.defines:
         cmd += ["-D", d]
+    for a in args.params:
+        cmd += ["-G", a]
     if args.top:
         cmd += ["--top", args.top]
     cmd += args.files
@@ -161,6 +172,20 @@ def main(argv=None):
                                  "--top NAME\n" % names)
             return EXIT_USAGE
         top = tops[0]
+
+    import kerf_params
+    import kerf_variants
+    pinned = {}
+    for a in args.params:
+        name, _, value = a.partition("=")
+        pinned[name.strip()] = value.strip()
+    bad = kerf_params.check_pinned(top.body, pinned)
+    if bad is not None:
+        sys.stderr.write("kerf_read: %s\n" % bad)
+        return EXIT_USAGE
+    kerf_variants.PINNED = pinned
+    kerf_variants.DEFINES = [d.partition("=")[0] for d in args.defines]
+    kerf_variants.AS_BUILT = args.as_built
 
     try:
         for f in args.files:

@@ -22,7 +22,7 @@ sys.path.insert(0, os.path.dirname(__file__))
 import kerf_e2e as K  # noqa: E402
 
 GEN = re.compile(r"^(\s*(?:assign\s+|wire\s+)?[A-Za-z_]\w*(?:\s*\[[^\]]*\])?\s*=\s*)(.*);\s*$")
-IDENT = re.compile(r"(~?)(\\\S+ |[A-Za-z_][A-Za-z0-9_$]*(?:\[\d+\])?)")
+IDENT = re.compile(r"(?<![\w'])(~?)(\\\S+ |[A-Za-z_][A-Za-z0-9_$]*(?:\[\d+\])?)")
 ORIGINAL = {"lines": set()}
 
 
@@ -105,19 +105,16 @@ def confirm(root, files, top, a_file, b_file, cex, work):
     tb.append(f"  cx_b ub ({', '.join(cb)});")
     sigbits = port_bits(desc, "signals")
     tb.append("  initial begin")
-    forced = {}
-    for name, v in cex["inputs"].items():
-        if name in bits and bits[name][0]["direction"] == "input":
-            p, off = bits[name]
-            tb.append(f"    in{ins.index(p)}[{off}] = 1'b{v};")
-        elif name in sigbits:
+    # kerf lists whole buses (bits most significant first) and only those the output depends on;
+    # every other input stays 0.
+    by_name = {p["name"]: i for i, p in enumerate(ins)}
+    for b in cex["inputs"]:
+        if b["port"] and b["name"] in by_name:
+            tb.append(f"    in{by_name[b['name']]} = {b['width']}'b{b['bits']};")
+        else:
             # Outputs of kept code (registers, instances) are free inputs of the proof: force them.
-            sig, off = sigbits[name]
-            forced.setdefault(sig["name"], [sig, 0])
-            forced[sig["name"]][1] |= int(v) << off
-    for name, (sig, value) in forced.items():
-        for inst in ("ua", "ub"):
-            tb.append(f"    force {inst}.{K.vname(name)} = {sig['width']}'d{value};")
+            for inst in ("ua", "ub"):
+                tb.append(f"    force {inst}.{K.vname(b['name'])} = {b['width']}'b{b['bits']};")
     if cex["output"] in bits:
         p, off = bits[cex["output"]]
         o = outs.index(p)

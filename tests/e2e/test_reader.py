@@ -381,7 +381,9 @@ def for_loops():
 
 @test
 def struct_package_enum_parameter_flattening():
-    d = read("pkg_struct.sv")
+    # --as-built: describe this build, parameter-dependent logic included (kerf_params.py keeps
+    # it otherwise; see parameter_dependent_logic_is_kept)
+    d = read("--as-built", "pkg_struct.sv")
     eq(d["module"]["name"], "router", "module")
     req = signal(d, "req")
     eq((req["width"], req["msb"], req["lsb"], req["vector"]), (19, 18, 0, True), "struct flattened")
@@ -797,7 +799,12 @@ def top_selection():
 
 @test
 def include_dirs_and_defines():
+    # A macro from the command line may differ between builds: kept unless --as-built.
     d = read("-I", "inc", "-D", "READY_EXPR=(st == 2'd3)", "includes.sv")
+    m = member_writing(d, "ready")
+    eq(m["kind"], "kept", "assign using a -D macro")
+    assert "command line" in m["reason"], m["reason"]
+    d = read("--as-built", "-I", "inc", "-D", "READY_EXPR=(st == 2'd3)", "includes.sv")
     m = member_writing(d, "ready")
     eq(m["kind"], "assign", "assign from an included file")
     assert m["src"]["file"].endswith("flags.svh"), m["src"]

@@ -51,7 +51,9 @@ def refusal_reason(stderr):
     for line in stderr.splitlines():
         m = re.search(r"error: (.*)", line)
         if m:
-            text = re.sub(r"'[A-Za-z_][^']*'", "'…'", m.group(1))     # names, not operators
+            text = re.sub(r"(?<=[\s(])'[A-Za-z_][^']*'", "'…'", m.group(1))   # names, not operators
+            text = re.sub(r"\(driven at [^)]*\)", "", text)
+            text = re.sub(r"module \S+", "module …", text)
             text = re.sub(r"\b\d+\b", "N", text)
             return text.strip()[:120]
     return (stderr.strip().splitlines() or ["(no message)"])[-1][:120]

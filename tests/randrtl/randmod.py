@@ -29,6 +29,7 @@ FEATURES = {
     "loop": "constant-bound for loops in always_comb",
     "varsel": "variable-index bit selects and part-selects (in range)",
     "varwrite": "variable-index bit and part-select writes (in range)",
+    "narrowwrite": "variable-index writes whose index is narrower than the target's positions",
     "shift": "shifts by constants and by signals",
     "arith": "word arithmetic kept by kerf (+, -, *)",
     "compare": "comparisons between signals and against constants",
@@ -52,14 +53,19 @@ RARE = {"param", "xcompare", "divconst", "oob", "xdefault"}
 
 
 def parse_features(text):
-    """'default', 'all', or a comma list of names, '-name' removing from the default set."""
+    """'default', 'all', or a comma list: names; '-name' / '+name' remove from / add to the
+    default set; a list starting with 'all' or 'default' starts from that set."""
     if text in ("", "default"):
         return set(FEATURES) - DEFAULT_OFF
     if text == "all":
         return set(FEATURES)
-    chosen = set(FEATURES) - DEFAULT_OFF if all(t.startswith(("-", "+")) for t in text.split(",")) else set()
-    for t in text.split(","):
-        t = t.strip()
+    parts = [t.strip() for t in text.split(",")]
+    if parts[0] in ("all", "default"):
+        chosen = set(FEATURES) - (set() if parts[0] == "all" else DEFAULT_OFF)
+        parts = parts[1:]
+    else:
+        chosen = set(FEATURES) - DEFAULT_OFF if all(t.startswith(("-", "+")) for t in parts) else set()
+    for t in parts:
         name = t.lstrip("+-")
         if name not in FEATURES:
             raise ValueError(f"unknown feature '{name}' (known: {', '.join(sorted(FEATURES))})")
@@ -83,8 +89,10 @@ def _decl_type(width, signed):
 class ModuleGen:
     def __init__(self, seed, index, features):
         self.rng = random.Random(f"kerf-randmod-{seed}-{index}")
+        # (a draw of its own per construct, so that adding a construct leaves the others' draws alone)
         self.f = {f for f in sorted(features)
-                  if f in CORE or self.rng.random() < (0.35 if f in RARE else 0.7)}
+                  if f in CORE or random.Random(f"kerf-randmod-{seed}-{index}-{f}").random() <
+                  (0.35 if f in RARE else 0.7)}
         self.name = f"rm_{seed}_{index}"
         self.used = set()
         self.readable = []          # signals an expression may read (inputs, registers, earlier wires)
@@ -169,8 +177,11 @@ class ModuleGen:
                 return f"{s.name}[{idx2}*{k} +: {k}]", k
         return f"{s.name}[{idx} +: {k}]", k
 
-    def index_expr(self, width, k, scaled=False):
-        """An index into `width` positions for a k-bit select, in range unless 'oob' allows."""
+    def index_expr(self, width, k, scaled=False, write=False):
+        """An index into `width` positions for a k-bit select, in range unless 'oob' allows.
+
+        In range means narrow where `width` is not a power of two: a 1-bit index into 3 bits.
+        For writes that is a construct of its own ('narrowwrite')."""
         oob = self.on("oob", 0.3)
         span = width - k + 1 if not scaled else width
         bits = 0
@@ -179,6 +190,10 @@ class ModuleGen:
         if oob:
             bits += 1
             self.use("oob")
+        elif write and (1 << bits) < span:
+            if "narrowwrite" not in self.f:
+                return None, 0
+            self.use("narrowwrite")
         if bits == 0:
             return None, 0
         s = self.pick(lambda s: s.width >= bits and not s.signed)
@@ -284,7 +299,7 @@ class ModuleGen:
             k = self.rng.choice([1, 1, 2])
             if k > t.width - 1:
                 k = 1
-            idx, _ = self.index_expr(t.width, k)
+            idx, _ = self.index_expr(t.width, k, write=True)
             if idx is not None:
                 self.use("varwrite")
                 if k == 1:

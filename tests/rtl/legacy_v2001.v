@@ -3,6 +3,8 @@
 // kerf-case: scratch-register option chosen by `ifdef outside the block.
 // kerf-defines: -
 // kerf-defines: HAS_SCRATCH
+// kerf-params: ADDR_W=4
+// kerf-pin: ADDR_W=4 other ADDR_W=3
 module legacy_v2001 (addr, dlab, rd, wr, sel_rbr, sel_thr, sel_ier, sel_dll, sel_dlm, sel_lcr, sel_scr, bad);
   parameter ADDR_W = 3;
   localparam RBR = 3'd0, IER = 3'd1, LCR = 3'd3, SCR = 3'd7;

@@ -3,6 +3,7 @@
 // Data flows one way: read (slang) → network → passes → write → prove.
 #pragma once
 
+#include "kerf/frontend/lower.h"
 #include "kerf/frontend/module.h"
 #include "kerf/network/network.h"
 
@@ -70,7 +71,15 @@ struct EquivOptions {
     std::int64_t proofBudget = 10000000;
     int verbose = 0;
 };
-/// Run `kerf equiv`; returns 0 equivalent, 1 different, 3 undecided.
+/// Run `kerf equiv` (src/flow/equiv.cpp); returns 0 equivalent, 1 different, 3 undecided
+/// (including when any statement kept as written has no counterpart with the same text).
 int equiv(const EquivOptions& opts);
+
+/// A module as read and lowered for a proof (arithmetic turned into gates).
+struct ProofInput {
+    frontend::ModuleDesc desc;
+    frontend::Lowered low;
+};
+ProofInput readForProof(const frontend::ReadOptions& read, const std::string& prefix);
 
 } // namespace kerf::flow

@@ -93,6 +93,24 @@ struct Member {
     std::map<std::string, std::vector<std::pair<int, int>>> writeRanges;
     /// Kept members: every module signal their text names, inactive generate branches included.
     std::vector<std::string> mentions;
+    /// Digest of the member's tokens and of what its names mean (src/reader/kerf_symbols.py):
+    /// two kept members with equal keys behave alike on equal inputs (`kerf equiv`).
+    std::string matchKey;
+    /// Overridable parameters the member's function depends on (src/reader/kerf_params.py);
+    /// for a member kerf may restructure, all of them are pinned with --param.
+    std::vector<std::string> params;
+};
+
+/// A parameter of the module that an instance can override (src/reader/kerf_params.py).
+struct Parameter {
+    std::string name;
+    bool isType = false;
+    bool pinned = false;        ///< set with --param: the logic depending on it is specialised
+    std::string value;          ///< the value elaborated, as slang prints it
+    std::string literal;        ///< a sized Verilog literal of the value ("" when not integral)
+    bool implicitType = false;  ///< declared without a type, so an override may change its width
+    int keptMembers = 0;        ///< members kept as written because they depend on it (not pinned)
+    SourceRange src;
 };
 
 /// The module as read.
@@ -102,6 +120,8 @@ struct ModuleDesc {
     std::vector<std::string> portOrder;
     std::map<std::string, Signal> signals;
     std::vector<Member> members;
+    std::vector<Parameter> parameters;   ///< overridable parameters, declaration order
+    std::vector<std::string> conditionals; ///< "file:line: `ifdef X" directives inside the module
     Ir ir;
 
     /// The signal of a symbol, or null for a block local.
@@ -115,6 +135,10 @@ struct ReadOptions {
     std::vector<std::string> files;
     std::vector<std::string> includeDirs;
     std::vector<std::string> defines;
+    std::vector<std::string> params;     ///< NAME=VALUE top-level parameter overrides (--param)
+    /// Describe this build only: lower logic that depends on overridable parameters or on the
+    /// preprocessor for the values and defines given (proofs of one build, `kerf equiv`).
+    bool asBuilt = false;
     std::string top;
     /// Replace a file by another when reading (used to read back kerf's own output).
     std::map<std::string, std::string> substitute;

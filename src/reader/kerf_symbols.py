@@ -1,0 +1,393 @@
+"""What a piece of a module refers to, with slang's tokens and name lookup.
+
+Three services for the analyses that decide what kerf may restructure
+(kerf_params.py, kerf_preproc.py) and for matching kept statements between
+two designs (`kerf equiv`):
+
+- `Tokens`: the preprocessor directives slang saw (trivia), and on demand
+  every token slang lexed indexed by the byte offset where it stands in a
+  file (a token that comes out of a macro expansion stands at the macro's
+  use). Nothing here reads Verilog text: it is slang's own token stream.
+- `Refs`: the module-scope and package symbols a syntax node names,
+  resolved with slang's `lookupName`, and the syntax that declares each
+  symbol (type, dimensions, initializer; a function's whole text). A
+  dependency closure over those declarations answers questions such as
+  "does this statement depend, through localparams, typedefs, widths or
+  functions, on parameter W?".
+- `match_key`: a digest of a member's tokens (whitespace and comments
+  ignored) together with what its names mean (the types of the signals it
+  touches, the values of the parameters, the text of the functions and of
+  the modules it instantiates). Two kept statements with equal keys behave
+  alike when their inputs are equal.
+
+Resolution by name is conservative on purpose: a local variable that
+shares a module parameter's name is taken to mean the parameter, so an
+analysis can only keep more code as written, never less.
+"""
+
+import bisect
+import hashlib
+import re
+
+import pyslang
+from pyslang import ast, parsing, syntax
+
+SK = ast.SymbolKind
+TK = parsing.TokenKind
+TRK = parsing.TriviaKind
+SXK = syntax.SyntaxKind
+
+_SKIP_TOKENS = {TK.Placeholder, TK.EndOfFile}
+
+
+def node_tokens(node):
+    """The tokens of a syntax node, in order (empty placeholders left out)."""
+    out = []
+
+    def cb(n):
+        if isinstance(n, parsing.Token) and n.kind not in _SKIP_TOKENS and not n.isMissing:
+            out.append(n)
+        return True
+
+    if node is None:
+        return out
+    if isinstance(node, parsing.Token):
+        cb(node)
+    elif isinstance(node, syntax.SyntaxNode):
+        node.visit(cb)
+    else:                      # a token list, e.g. a macro body
+        for n in node:
+            if isinstance(n, parsing.Token):
+                cb(n)
+            elif n is not None:
+                n.visit(cb)
+    return out
+
+
+def directive_name(tok):
+    """`NAME` of a directive token such as "`NAME" (macro usages included)."""
+    t = tok.valueText or tok.rawText
+    return t[1:] if t.startswith("`") else t
+
+
+class Tokens:
+    """slang's preprocessor directives per buffer and, on demand, its tokens
+    indexed by file offset.
+
+    Directives (`ifdef`, `define`, macro usages, ...) are listed as
+    (offset, end, syntax) per buffer, in order. Token entries are
+    (offset, seq, kind, text, token); the offset is the token's place in its
+    file: for text produced by a macro, the place of the macro use. The
+    token index is built only when an analysis asks for a range.
+    """
+
+    def __init__(self, comp):
+        self.sm = comp.sourceManager
+        self.trees = list(comp.getSyntaxTrees())
+        self.directives = {}     # buffer id -> [(start, end, syntax)]
+        self.buffers = {}        # buffer id -> a SourceBuffer (a location's .buffer)
+        self.macro_usages = 0
+        self.by_buffer = None
+        self._offsets = {}
+        d = parsing.TriviaKind.Directive
+        tok_type = parsing.Token
+        found = []
+
+        def cb(n):
+            if type(n) is tok_type:
+                for tv in n.trivia:
+                    if tv.kind == d:
+                        s = tv.syntax()
+                        if s is not None:
+                            found.append(s)
+            return True
+
+        for tree in self.trees:
+            tree.root.visit(cb)
+        for s in found:
+            r = s.sourceRange
+            start = self._file_loc(r.start)
+            bid = start.buffer.id
+            self.buffers.setdefault(bid, start.buffer)
+            self.directives.setdefault(bid, []).append((start.offset, self._file_loc(r.end).offset, s))
+            if s.kind == SXK.MacroUsage:
+                self.macro_usages += 1
+        for lst in self.directives.values():
+            lst.sort(key=lambda e: e[0])
+
+    def _file_loc(self, loc):
+        sm = self.sm
+        if sm.isFileLoc(loc):
+            return loc
+        return sm.getFullyExpandedLoc(loc)
+
+    def _index(self):
+        sm = self.sm
+        self.by_buffer = {}
+        seq = [0]
+        tok_type = parsing.Token
+
+        def cb(n):
+            if type(n) is not tok_type or n.kind in _SKIP_TOKENS or n.isMissing:
+                return True
+            loc = self._file_loc(n.location)
+            bid = loc.buffer.id
+            self.buffers.setdefault(bid, loc.buffer)
+            seq[0] += 1
+            self.by_buffer.setdefault(bid, []).append((loc.offset, seq[0], n.kind, n.rawText, n))
+            return True
+
+        for tree in self.trees:
+            tree.root.visit(cb)
+        for bid, entries in self.by_buffer.items():
+            entries.sort(key=lambda e: (e[0], e[1]))
+            self._offsets[bid] = [e[0] for e in entries]
+
+    def in_range(self, bid, start, end):
+        """Token entries of buffer `bid` standing in [start, end)."""
+        if self.by_buffer is None:
+            self._index()
+        offs = self._offsets.get(bid)
+        if not offs:
+            return []
+        entries = self.by_buffer[bid]
+        return entries[bisect.bisect_left(offs, start):bisect.bisect_left(offs, end)]
+
+    def directives_in(self, bid, start, end):
+        return [d for d in self.directives.get(bid, ()) if start <= d[0] < end]
+
+
+class Refs:
+    """Names in syntax, resolved to symbols; declarations and their closure."""
+
+    def __init__(self, body):
+        self.body = body
+        self._lookup = {}        # (scope id, name) -> symbol or None
+        self._decl = {}          # symbol -> [syntax nodes]
+        self._deps = {}          # symbol -> [symbols]
+
+    # -- names ------------------------------------------------------------------
+
+    @staticmethod
+    def token_names(tokens):
+        """Names written in a token sequence: `a`, and `pkg::a` for scoped names."""
+        names = []
+        n = len(tokens)
+        i = 0
+        while i < n:
+            t = tokens[i]
+            k = t.kind
+            if k in (TK.Identifier, TK.UnitSystemName) and i + 2 < n and tokens[i + 1].kind == TK.DoubleColon \
+                    and tokens[i + 2].kind == TK.Identifier:
+                names.append(t.valueText + "::" + tokens[i + 2].valueText)
+                i += 3
+                continue
+            if k == TK.Identifier:
+                names.append(t.valueText)
+            i += 1
+        return names
+
+    def resolve(self, name, scope=None):
+        scope = scope if scope is not None else self.body
+        key = (id(scope), name)
+        if key in self._lookup:
+            return self._lookup[key]
+        try:
+            sym = scope.lookupName(name)
+        except Exception:       # a name slang cannot look up from here: not ours to judge
+            sym = None
+        self._lookup[key] = sym
+        return sym
+
+    def symbols_in(self, node, scope=None):
+        """Symbols named in a syntax node, in order of first mention."""
+        return self.symbols_of_tokens(node_tokens(node), scope)
+
+    def symbols_of_tokens(self, tokens, scope=None):
+        out = []
+        seen = set()
+        for name in self.token_names(tokens):
+            sym = self.resolve(name, scope)
+            if sym is not None and sym not in seen:
+                seen.add(sym)
+                out.append(sym)
+        return out
+
+    # -- declarations -------------------------------------------------------------
+
+    def decl_nodes(self, sym):
+        """The syntax that gives `sym` its meaning (for signals: the type and
+        dimensions, not the initializer, which is a statement of its own)."""
+        got = self._decl.get(sym)
+        if got is not None:
+            return got
+        nodes = []
+        k = sym.kind
+        syn = sym.syntax
+        if k in (SK.Net, SK.Variable, SK.Parameter, SK.Port):
+            target = sym
+            if k == SK.Port and sym.internalSymbol is not None:
+                target = sym.internalSymbol
+            dt = getattr(target, "declaredType", None)
+            if dt is not None and dt.typeSyntax is not None:
+                nodes.append(dt.typeSyntax)
+            tsyn = target.syntax
+            if tsyn is not None and tsyn.kind == SXK.Declarator:
+                if k == SK.Parameter:
+                    nodes.append(tsyn)
+                else:
+                    nodes.extend(x for x in tsyn.dimensions)
+            elif tsyn is not None and k == SK.Parameter:
+                nodes.append(tsyn)
+            if k == SK.Port and syn is not None:
+                nodes.append(syn)
+        elif k == SK.EnumValue:
+            n = syn
+            while n is not None and n.kind != SXK.EnumType:
+                n = n.parent
+            if n is not None:
+                nodes.append(n)
+        elif syn is not None:
+            # typedefs, type parameters, functions and tasks, and anything else
+            # declared by one piece of syntax: all of it
+            nodes.append(syn)
+        self._decl[sym] = nodes
+        return nodes
+
+    def deps(self, sym):
+        """Symbols named by `sym`'s declaration."""
+        got = self._deps.get(sym)
+        if got is not None:
+            return got
+        self._deps[sym] = []          # cycle guard
+        scope = sym if isinstance(sym, ast.Scope) else self._scope_of(sym)
+        out = []
+        seen = set()
+        for node in self.decl_nodes(sym):
+            for d in self.symbols_in(node, scope):
+                if d is not sym and d not in seen:
+                    seen.add(d)
+                    out.append(d)
+        self._deps[sym] = out
+        return out
+
+    def _scope_of(self, sym):
+        p = sym.parentScope
+        return p if p is not None else self.body
+
+    def closure(self, roots, seed):
+        """{symbol: reasons} for symbols reachable from `roots` through declarations,
+        where `seed(symbol)` gives the reasons a symbol contributes itself (a set).
+        Returns the union of reasons over the closure."""
+        reasons = set()
+        stack = list(roots)
+        seen = set()
+        while stack:
+            s = stack.pop()
+            if s in seen:
+                continue
+            seen.add(s)
+            r = seed(s)
+            if r:
+                reasons |= r
+            stack.extend(self.deps(s))
+        return reasons
+
+
+# ---------------------------------------------------------------------------
+# match keys
+
+def _type_text(t):
+    """A type as slang prints its canonical form (enum encodings and struct layouts
+    included), without the numbers slang gives anonymous types (`s$1`)."""
+    return re.sub(r"\$\d+", "", str(t.canonicalType))
+
+
+class Keys:
+    """Digests of members for matching kept statements between two designs."""
+
+    def __init__(self, comp, tokens, refs):
+        self.comp = comp
+        self.tokens = tokens
+        self.refs = refs
+        self._sym_text = {}
+        self._def_text = {}
+
+    @staticmethod
+    def token_text(tokens):
+        """Token texts, with the directives standing between them (whitespace and comments left out)."""
+        out = []
+        for i, tok in enumerate(tokens):
+            if i == 0:
+                out.append(tok.rawText)
+                continue         # directives before the first token stand outside the member
+            for tv in tok.trivia:
+                if tv.kind == TRK.Directive and tv.syntax() is not None:
+                    out.append("#" + " ".join(t.rawText for t in node_tokens(tv.syntax())))
+            out.append(tok.rawText)
+        return out
+
+    def symbol_text(self, sym):
+        """What a name means, as text: type of a signal, value of a parameter,
+        the whole declaration of a function or type (and what it names)."""
+        got = self._sym_text.get(sym)
+        if got is not None:
+            return got
+        self._sym_text[sym] = "%s %s (recursive)" % (sym.kind.name, sym.name)
+        k = sym.kind
+        if k in (SK.Net, SK.Variable):
+            t = "%s %s : %s" % (k.name, sym.name, _type_text(sym.type))
+        elif k == SK.Parameter:
+            t = "parameter %s : %s = %s" % (sym.name, _type_text(sym.type), sym.value)
+        elif k == SK.EnumValue:
+            t = "enum value %s = %s" % (sym.name, sym.value)
+        elif k == SK.TypeParameter or k == SK.TypeAlias:
+            t = "type %s = %s" % (sym.name, getattr(sym, "targetType", None) and sym.targetType.type)
+        else:
+            parts = ["%s %s" % (k.name, sym.name)]
+            for node in self.refs.decl_nodes(sym):
+                parts.extend(t.rawText for t in node_tokens(node))
+            for d in self.refs.deps(sym):
+                parts.append("{" + self.symbol_text(d) + "}")
+            t = " ".join(parts)
+        self._sym_text[sym] = t
+        return t
+
+    def definition_text(self, name):
+        """The text of a module (interface, program) definition and of every
+        definition its text instantiates, found by name as slang's
+        compilation knows them."""
+        got = self._def_text.get(name)
+        if got is not None:
+            return got
+        self._def_text[name] = "definition %s (recursive)" % name
+        found = self.comp.tryGetDefinition(name, self.comp.getRoot())
+        defn = found.definition if found is not None else None
+        syn = defn.syntax if defn is not None else None
+        if syn is None:
+            t = "definition %s: unknown" % name
+        else:
+            parts = ["definition %s:" % name] + [x.rawText for x in node_tokens(syn)]
+            inner = []
+
+            def cb(n):
+                if isinstance(n, syntax.SyntaxNode) and n.kind == SXK.HierarchyInstantiation:
+                    inner.append(n.type.valueText)
+                return True
+
+            syn.visit(cb)
+            for n in sorted(set(inner)):
+                parts.append("{" + self.definition_text(n) + "}")
+            t = " ".join(parts)
+        self._def_text[name] = t
+        return t
+
+    def key(self, what, tokens, instances=()):
+        """Digest of a member given its tokens; `instances` are the names of the
+        definitions it instantiates."""
+        parts = [what, " ".join(self.token_text(tokens))]
+        for s in self.refs.symbols_of_tokens(tokens):
+            parts.append(self.symbol_text(s))
+        for n in instances:
+            parts.append(self.definition_text(n))
+        return hashlib.sha256("\n".join(parts).encode("utf-8", "surrogateescape")).hexdigest()[:32]

@@ -1,0 +1,208 @@
+"""Keep what other builds of the same source could see differently.
+
+Entry points called by kerf_describe.Describer.run (two small hooks):
+
+- `restrict(describer, members)`: members whose function depends on an
+  overridable parameter that is not pinned (kerf_params.py), or on the
+  preprocessor (kerf_preproc.py), become kept members with the reason;
+  the text the current defines leave out becomes kept members of its own.
+  (Generate branches another parameter value would take already count
+  as reads: the describer's collection visits uninstantiated blocks.)
+- `finish(describer, members, description)`: a `match_key` on every
+  member (kerf_symbols.Keys; `kerf equiv` and the proof pair kept statements
+  by it), the description's `parameters` list and its `conditionals`.
+
+Settings come from kerf_read.py through module globals (`PINNED`,
+`DEFINES`, `AS_BUILT`), like kerf_describe.GIVEN_FILES.
+"""
+
+import hashlib
+
+from pyslang import ast, syntax
+
+import kerf_params
+from kerf_preproc import Preproc
+from kerf_symbols import Keys, Refs, Tokens, TK, directive_name, node_tokens
+
+SK = ast.SymbolKind
+SXK = syntax.SyntaxKind
+
+PINNED = {}          # name -> value text, from --param
+DEFINES = []         # names given with -D
+AS_BUILT = False     # describe this build only (kerf equiv): lower what depends on parameters or defines
+
+
+class _State:
+    def __init__(self, d):
+        self.tokens = Tokens(d.comp)
+        self.refs = Refs(d.body)
+        self.pre = Preproc(self.tokens, d, DEFINES)
+        self.params = kerf_params.overridable(d.body)
+        self.param_set = set(self.params)
+        self.keys = Keys(d.comp, self.tokens, self.refs)
+        self.used_by = {}
+        self.syntax_by_src = {}      # (file, start, end) -> the member's syntax node
+        self.instances = None
+
+    def seed(self, sym):
+        r = set()
+        if sym in self.param_set:
+            r.add(("param", sym.name))
+        why = self.pre.symbol_reason(sym, self.refs)
+        if why is not None:
+            r.add(("define", why))
+        return r
+
+    def anything_varies(self):
+        """False when no member can depend on parameters or defines: no overridable
+        parameter, no conditional region, no directive inside the module and no
+        unstable macro used anywhere. Then the per-member analysis is skipped."""
+        if self.params or self.pre.regions:
+            return True
+        m = self.pre.mod
+        for bid, dirs in self.tokens.directives.items():
+            for start, end, s in dirs:
+                if s.kind != SXK.MacroUsage:
+                    if m is not None and bid == m[0] and m[1] <= start < m[2]:
+                        return True
+                    continue
+                names = [directive_name(s.directive)]
+                if s.args is not None:
+                    names += [directive_name(t) for t in node_tokens(s.args) if t.kind == TK.Directive]
+                if any(self.pre.macro_reason(n) is not None for n in names):
+                    return True
+        return False
+
+
+def _state(d):
+    st = getattr(d, "_kerf_variants", None)
+    if st is None:
+        st = _State(d)
+        d._kerf_variants = st
+    return st
+
+
+def _member_node(d, m, sym):
+    if sym is None:
+        return None
+    if m.get("net_decl"):
+        syn = sym.syntax
+        return syn.parent if syn is not None and syn.parent is not None else syn
+    return d.member_syntax(sym)
+
+
+def _kept_what(m):
+    if m["kind"] == "assign":
+        return "assign"
+    return {"always_comb": "always_comb", "always_star": "always"}.get(m.get("style"), "always")
+
+
+def _src_key(src):
+    return (src["file"], src["start"], src["end"])
+
+
+def restrict(d, members):
+    st = _state(d)
+    analyse = not AS_BUILT and st.anything_varies()
+    out = []
+    for m in members:
+        sym = m.pop("_sym", None)
+        node = None
+        if sym is not None and (m["kind"] == "kept" or analyse):
+            node = _member_node(d, m, sym)
+            if node is not None:
+                st.syntax_by_src.setdefault(_src_key(m["src"]), node)
+        if m["kind"] in ("assign", "comb") and analyse and node is not None:
+            # `assign a = x, b = y;` has one member per assignment: look at this one only.
+            own = sym.syntax if sym.kind == SK.ContinuousAssign and sym.syntax is not None else node
+            toks = node_tokens(own)
+            loc = st.tokens._file_loc(node.sourceRange.start)
+            s = m["src"]
+            why = st.pre.member_reason(loc.buffer.id, s["start"], s["end"], toks)
+            named = st.refs.symbols_of_tokens(toks)
+            if m.get("net_decl") and sym is not None:
+                named.append(sym)            # the net's own declared type
+            reasons = st.refs.closure(named, st.seed)
+            params = sorted({r[1] for r in reasons if r[0] == "param"})
+            defines = sorted(r[1] for r in reasons if r[0] == "define")
+            if why is None and defines:
+                why = "it depends on a declaration other builds may see differently: " + defines[0]
+            free = [p for p in params if p not in PINNED]
+            if why is None and free:
+                why = ("its function depends on the parameter%s %s, which an instance can override "
+                       "(restructure it for one value with --param %s=VALUE)"
+                       % ("s" if len(free) > 1 else "", ", ".join(free), free[0]))
+            if why is not None:
+                for p in free:
+                    st.used_by[p] = st.used_by.get(p, 0) + 1
+                if m.get("net_decl"):
+                    km = d.kept_member("assign", why, m["src"], [sym.initializer],
+                                       extra_writes=[d.sig.get(sym)])
+                    km["net_decl"] = True
+                else:
+                    km = d.kept_member(_kept_what(m), why, m["src"], [sym])
+                for k in ("_localized", "_symbol", "_what"):
+                    m.pop(k, None)
+                m = km
+            m["parameters"] = params
+        elif m["kind"] == "kept" and analyse and node is not None and sym is not None:
+            # Kept anyway; say which overridable parameters it depends on (for the summary).
+            reasons = st.refs.closure(st.refs.symbols_of_tokens(node_tokens(node)), st.seed)
+            m["parameters"] = sorted({r[1] for r in reasons if r[0] == "param"})
+        out.append(m)
+    # Even for one build (AS_BUILT), the text it leaves out is kept and compared by its tokens:
+    # `kerf equiv` must not call two files equal that differ there.
+    out.extend(st.pre.excluded_members(set(d.sig_by_name)))
+    return out
+
+
+def _instances_in(d, st, file, start, end):
+    """Names of the definitions instantiated by code in [start, end) of `file`, elaborated or not."""
+    if st.instances is None:
+        idx = []
+        sm = st.tokens.sm
+
+        def cb(n):
+            if isinstance(n, (ast.InstanceSymbol, ast.UninstantiatedDefSymbol)):
+                loc = n.location
+                if not sm.isFileLoc(loc):
+                    loc = sm.getFullyExpandedLoc(loc)
+                name = n.definition.name if isinstance(n, ast.InstanceSymbol) else n.definitionName
+                idx.append((d.src.name(loc.buffer), loc.offset, name))
+                return ast.VisitAction.Skip
+            return ast.VisitAction.Advance
+
+        d.body.visit(cb)
+        st.instances = idx
+    return sorted({n for (f, o, n) in st.instances if f == file and start <= o < end})
+
+
+def finish(d, members, description):
+    st = _state(d)
+    for m in members:
+        key_text = m.pop("_key_text", None)
+        # Every member gets a key: the lowering may still decline an assignment or a block,
+        # and then it is paired by this key like any kept member.
+        what = "kept:" + (m.get("what", "") if m["kind"] == "kept" else _kept_what(m))
+        if key_text is not None:
+            m["match_key"] = hashlib.sha256((what + "\n" + key_text).encode("utf-8", "surrogateescape")) \
+                .hexdigest()[:32]
+            continue
+        src = m["src"]
+        node = st.syntax_by_src.get(_src_key(src))
+        if node is not None:
+            toks = node_tokens(node)
+        else:
+            bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]), None)
+            if bid is None:
+                st.tokens.in_range(-1, 0, 0)          # builds the index, which knows every buffer
+                bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]), None)
+            toks = [e[4] for e in st.tokens.in_range(bid, src["start"], src["end"])] if bid is not None else []
+        if not toks:
+            # Nothing to compare it by: a key no other member can have.
+            m["match_key"] = "unmatched:%s:%d:%d" % (src["file"], src["start"], src["end"])
+            continue
+        m["match_key"] = st.keys.key(what, toks, _instances_in(d, st, src["file"], src["start"], src["end"]))
+    from kerf_describe import sv_bits
+    description["parameters"] = kerf_params.describe(d.body, set(PINNED), st.used_by, sv_bits, d.symbol_src)
+    description["conditionals"] = st.pre.conditionals()
