@@ -23,6 +23,7 @@
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
+#include <map>
 #include <set>
 
 namespace kerf::flow {
@@ -57,9 +58,10 @@ nlohmann::json stagesJson(const io::StageLog& log) {
 /// the rewrite, so that kerf's new wires are not compared).
 frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bitBlast, const std::string& prefix,
                           const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {},
-                          bool keepX = false) {
+                          bool keepX = false, const std::map<int, std::string>& kept = {}) {
     frontend::LowerOptions lo;
     lo.keepX = keepX;
+    lo.keptMembers = kept;
     lo.bitBlastArithmetic = bitBlast;
     lo.prefix = prefix;
     lo.keep = keep;
@@ -69,6 +71,27 @@ frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bit
     // Figures count the logic that reaches an output, nothing overwritten or unread.
     low.net.removeUnreachable();
     return low;
+}
+
+/// Members a lowering left as written, with the reasons.
+std::map<int, std::string> keptIn(const frontend::Lowered& low) {
+    std::map<int, std::string> k;
+    for (const auto& s : low.kept) k.emplace(s.member, s.reason);
+    return k;
+}
+
+/// Members of `other` whose match key (same tokens, same meaning) is that of a member of
+/// `orig` in `kept`: the statements the original's lowering kept, found in the rewrite.
+std::map<int, std::string> keptByKey(const frontend::ModuleDesc& orig, const std::map<int, std::string>& kept,
+                                     const frontend::ModuleDesc& other) {
+    std::map<std::string, std::string> keys;
+    for (const auto& [id, why] : kept)
+        if (id >= 0 && static_cast<std::size_t>(id) < orig.members.size() && !orig.members[id].matchKey.empty())
+            keys.emplace(orig.members[id].matchKey, why);
+    std::map<int, std::string> out;
+    for (const auto& m : other.members)
+        if (auto it = keys.find(m.matchKey); it != keys.end()) out.emplace(m.id, it->second);
+    return out;
 }
 
 WordOperators countWords(const frontend::Lowered& low) {
@@ -139,6 +162,20 @@ int restructure(const RestructureOptions& opts) {
     }
     stages.begin("lower");
     frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
+    if (!opts.skipProof) {
+        // The proof lowers arithmetic into gates, where an x the language produces can reach
+        // statements the word-level lowering restructures: what either lowering keeps as
+        // written, both keep, so that they agree on what is kerf's to rewrite.
+        for (int round = 0; round < 8; ++round) {
+            std::map<int, std::string> before = keptIn(low);
+            frontend::Lowered probe =
+                lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX, before);
+            std::map<int, std::string> both = keptIn(probe);
+            if (both.size() == before.size()) break;
+            low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX, both);
+        }
+    }
+    const std::map<int, std::string> agreedKept = keptIn(low);
     for (const auto& n : low.notes)
         if (!opts.quiet) std::cerr << n << "\n";
     if (!opts.quiet) {
@@ -256,22 +293,42 @@ int restructure(const RestructureOptions& opts) {
         for (const auto& [n, sg] : desc.signals) authorSignals.insert(n);
         frontend::Lowered writtenLow;
         try {
-            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
+            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX,
+                                 keptByKey(desc, agreedKept, written));
         } catch (const Error& e) {
             ownFault(e, "lower");
         }
         after = passes::measureFactored(writtenLow.net);
         if (!opts.skipProof) {
-            frontend::Lowered a = lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX);
-            frontend::Lowered b =
-                lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep, opts.keepX);
-            // kerf writes no x: x in the rewrite where the original has none would be a difference
-            // the comparison under the original's don't-cares cannot see.
-            if (b.dontCareBits > 0)
-                ownFault(Error("the rewrite can be x where kerf wrote logic", {}, ExitCode::Internal), "stay free of x");
+            frontend::Lowered a =
+                lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX, agreedKept);
+            frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep,
+                                          opts.keepX, keptByKey(desc, agreedKept, written));
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
             po.verbose = opts.verbose;
+            // kerf writes no x of its own: x in the rewrite where the original has none would be a
+            // difference the comparison under the original's don't-cares cannot see. The rewrite may
+            // be x only where the original is (an author's x kept as written, or lowered alike): its
+            // x conditions must imply the original's, output by output (proved, not assumed).
+            if (b.dontCareBits > 0) {
+                std::set<std::string> bNames;
+                for (const auto& o : b.dontCares.outputs()) bNames.insert(o.name);
+                net::Network aSub = a.dontCares;
+                auto& outs = aSub.outputs();
+                outs.erase(std::remove_if(outs.begin(), outs.end(), [&](const net::Output& o) { return !bNames.count(o.name); }),
+                           outs.end());
+                bool contained = outs.size() == bNames.size();
+                if (contained) {
+                    aSub.removeUnreachable();
+                    proof::ProofOptions xo = po;
+                    xo.verbose = false;
+                    // Compared only where the original is known: there the rewrite's x condition must be 0.
+                    contained = proof::proveEquivalent(aSub, b.dontCares, xo, &aSub).verdict == proof::Verdict::Equivalent;
+                }
+                if (!contained)
+                    ownFault(Error("the rewrite can be x where kerf wrote logic", {}, ExitCode::Internal), "stay free of x");
+            }
             proof::BoundedResult br = proof::proveBounded({desc, a}, {written, b}, po);
             const proof::ProofResult& pr = br.proof;
             double proofSeconds = since(tProof);

@@ -425,7 +425,7 @@ std::string bitName(const ModuleDesc& m, const BitRef& b) {
 
 Lowered lower(const ModuleDesc& m, const LowerOptions& opts) {
     // A member the lowering finds it must keep after all is kept, and the module lowered again.
-    std::map<int, std::string> forced;
+    std::map<int, std::string> forced = opts.keptMembers;
     for (;;) {
         try {
             detail::Lowerer l(m, opts, forced);

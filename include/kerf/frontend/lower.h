@@ -13,6 +13,7 @@
 #include "kerf/network/network.h"
 
 #include <cstdint>
+#include <map>
 #include <string>
 #include <vector>
 
@@ -60,6 +61,9 @@ struct LowerOptions {
     /// Keep statements whose value can be x as written instead of reading x as a
     /// don't-care (the synthesis reading of IEEE 1364.1 / 1800).
     bool keepX = false;
+    /// Members (by id) to keep as written, with the reason: another lowering of the same
+    /// module kept them, and both must agree on what kerf may rewrite.
+    std::map<int, std::string> keptMembers;
 };
 
 /// Where a network output goes.

@@ -36,9 +36,9 @@ module rv_decoder (
   wire reg_write_t9 = opcode[6] & opcode[2] & opcode_5_4_is_10;
   wire reg_write_t5 = reg_write_t4 & reg_write_t9;
   wire reg_write_t3 = reg_write_t8 | reg_write_t7;
-  wire alu_op0_t0 = branch_t0 | reg_write_t3;
   wire reg_write_t2 = reg_write_t6 | reg_write_t5;
   wire reg_write_t0 = reg_write_t3 | reg_write_t2;
+  wire alu_op0_t0 = branch_t0 | reg_write_t3;
   always_comb begin
     mem_read = reg_write_t6;
     mem_write = reg_write_t4 & reg_write_t10 & opcode_5_4_is_10;
