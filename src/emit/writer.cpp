@@ -412,14 +412,14 @@ void Writer::chooseWires() {
             for (Literal l : c.lits) work.push_back(literalVar(l));
     }
     // Consumers: distinct logic nodes reading v, plus outputs that refer to v without defining it.
-    std::vector<std::uint32_t> users(n, 0), posUses(n, 0), negUses(n, 0);
+    std::vector<std::uint32_t> users(n, 0), logicUsers(n, 0), posUses(n, 0), negUses(n, 0);
     std::vector<NodeId> order = net_.topoOrder();
     for (NodeId u : order) {
         if (!live[u]) continue;
         std::set<NodeId> seen;
         for (const auto& c : net_.node(u).cover.cubes)
             for (Literal l : c.lits) seen.insert(literalVar(l));
-        for (NodeId v : seen) ++users[v];
+        for (NodeId v : seen) ++users[v], ++logicUsers[v];
         std::function<void(const Factored&)> walk = [&](const Factored& f) {
             if (f.kind == Factored::Kind::Lit) (literalNegated(f.lit) ? negUses : posUses)[literalVar(f.lit)]++;
             for (const auto& k : f.kids) walk(k);
@@ -435,7 +435,10 @@ void Writer::chooseWires() {
     }
     for (NodeId v : order) {
         if (!live[v] || refs_[v]) continue;
-        if (users[v] <= 1) continue;
+        // A node read by another node keeps its own statement even when read once: the reader
+        // flattens a statement into a sum of products, and nesting a node into another's text
+        // could count larger when the written file is read back.
+        if (users[v] <= 1 && logicUsers[v] == 0) continue;
         isWire_[v] = 1;
         wires_.push_back(v);
         VarRef r;

@@ -299,7 +299,24 @@ int restructure(const RestructureOptions& opts) {
             ownFault(e, "lower");
         }
         after = passes::measureFactored(writtenLow.net);
-        if (!opts.skipProof) {
+        // The file as a whole must get smaller by the margin too: groups are judged on the
+        // engine's figures, the file on what the reader makes of the text.
+        double gain = static_cast<double>(asRead.gates) - static_cast<double>(after.gates);
+        bool enough = wo.minGain.percent ? gain * 100.0 >= wo.minGain.value * static_cast<double>(asRead.gates)
+                                         : gain >= wo.minGain.value;
+        if (!(enough && (gain > 0 || wo.minGain.value == 0))) {
+            for (auto& g : wr.groups)
+                if (g.replaced)
+                    g.replaced = false, g.reason = fmt::format("the written file would not be smaller by --min-gain "
+                                                               "{} ({} -> {} gates)", wo.minGain.str(),
+                                                               asRead.gates, after.gates);
+            wr.text = original_text;
+            wr.changed = false;
+            wr.wiresAdded.clear();
+            wr.namesKept.clear();
+            after = asRead;
+            groupsReplaced = 0;
+        } else if (!opts.skipProof) {
             frontend::Lowered a =
                 lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX, agreedKept);
             frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep,

@@ -128,7 +128,7 @@ const std::vector<LimitInfo>& limitTable() {
             &EngineLimits::dissolve, &InlineOptions::maxLiterals, 1),
         sub("dissolve-max-fanouts", "nodes with more fanouts are not dissolved", &EngineLimits::dissolve,
             &InlineOptions::maxFanouts),
-        sub("dissolve-complement-cubes", "cubes of a complement substituted where a node is read inverted",
+        sub("dissolve-complement-cubes", "largest complement computed where a node is read inverted (bounds its work)",
             &EngineLimits::dissolve, &InlineOptions::complementCubeCap, 1),
         sub("cubes-min-literals", "smallest cube extracted", &EngineLimits::cubes, &ShareCubesOptions::minLiterals, 2),
         sub("cubes-partners", "cube pairs looked at per cube", &EngineLimits::cubes,

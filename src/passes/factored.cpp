@@ -30,32 +30,85 @@ using algebra::Cube;
 using algebra::Factored;
 using algebra::literalVar;
 
+// Every cover the engine meets is factored once: the cache holds, per
+// cover, its Best, Quick and plain forms and their gate counts (a form's
+// gates do not depend on when its literals arrive). Measuring a network
+// then costs one hash lookup and a walk over each node's forms, without
+// allocating — it runs once per trial of the engine.
 struct FactorCache::Impl {
-    std::unordered_map<std::string, Factored> best, quick;
+    struct Entry {
+        Factored best, quick, sop;
+        std::size_t bestGates = 0, quickGates = 0, sopGates = 0;
+        bool hasBest = false, hasQuick = false, hasSop = false;
+    };
+    std::unordered_map<Cover, Entry, algebra::CoverHash> entries;
+    std::size_t factored = 0;
+    Entry& entry(const Cover& f) { return entries[f]; }
 };
+
+namespace {
+
+// Scratch stack shared by the recursive walks below (reused across calls,
+// so the walks allocate nothing once warm).
+thread_local std::vector<std::size_t> tScratch;
+
+std::size_t gatesOf(const Factored& f) {
+    if (f.kind != Factored::Kind::And && f.kind != Factored::Kind::Or) return 0;
+    std::size_t g = f.kids.size() > 1 ? f.kids.size() - 1 : 0;
+    for (const Factored& k : f.kids) g += gatesOf(k);
+    return g;
+}
+
+} // namespace
 
 FactorCache::FactorCache() : impl_(std::make_unique<Impl>()) {}
 FactorCache::~FactorCache() = default;
 
 const Factored& FactorCache::best(const Cover& f) {
-    std::string key = detail::coverKey(f);
-    auto it = impl_->best.find(key);
-    if (it != impl_->best.end()) return it->second;
-    return impl_->best.emplace(std::move(key), algebra::factor(f, algebra::FactorMethod::Best)).first->second;
+    Impl::Entry& e = impl_->entry(f);
+    if (!e.hasBest) {
+        e.best = algebra::factor(f, algebra::FactorMethod::Best);
+        e.bestGates = gatesOf(e.best);
+        e.hasBest = true;
+        ++impl_->factored;
+    }
+    return e.best;
 }
 
 const Factored& FactorCache::quick(const Cover& f) {
-    std::string key = detail::coverKey(f);
-    auto it = impl_->quick.find(key);
-    if (it != impl_->quick.end()) return it->second;
-    return impl_->quick.emplace(std::move(key), algebra::factor(f, algebra::FactorMethod::Quick)).first->second;
+    Impl::Entry& e = impl_->entry(f);
+    if (!e.hasQuick) {
+        e.quick = algebra::factor(f, algebra::FactorMethod::Quick);
+        e.quickGates = gatesOf(e.quick);
+        e.hasQuick = true;
+        ++impl_->factored;
+    }
+    return e.quick;
 }
 
-std::size_t FactorCache::size() const { return impl_->best.size() + impl_->quick.size(); }
+std::size_t FactorCache::size() const { return impl_->factored; }
 
 namespace {
 
 constexpr std::size_t kMaxFactoredCubes = 1000;
+
+// Merge arrival times two earliest first (a min-heap over t[0..k)); returns
+// the root's arrival. Allocation-free.
+std::size_t balanceInPlace(std::size_t* t, std::size_t k) {
+    if (k == 0) return 0;
+    if (k == 1) return t[0];
+    if (k == 2) return std::max(t[0], t[1]) + 1;
+    std::make_heap(t, t + k, std::greater<>());
+    while (k > 1) {
+        std::pop_heap(t, t + k, std::greater<>());
+        const std::size_t a = t[--k];
+        std::pop_heap(t, t + k, std::greater<>());
+        const std::size_t b = t[k - 1];
+        t[k - 1] = std::max(a, b) + 1;
+        std::push_heap(t, t + k, std::greater<>());
+    }
+    return t[0];
+}
 
 // Merge arrival times two earliest first; depthOut[i] gets how many gates lie
 // between item i and the root.
@@ -85,6 +138,28 @@ std::size_t balance(const std::vector<std::size_t>& times, std::vector<std::size
 
 std::size_t arrivalOf(const std::vector<std::size_t>& at, std::uint32_t v) { return v < at.size() ? at[v] : 0; }
 
+// Arrival of a form's root (gates come from the cache). Allocation-free
+// once the scratch stack has grown.
+std::size_t formArrival(const Factored& f, const std::vector<std::size_t>& at) {
+    switch (f.kind) {
+    case Factored::Kind::Zero:
+    case Factored::Kind::One:
+        return 0;
+    case Factored::Kind::Lit:
+        return arrivalOf(at, literalVar(f.lit));
+    default: {
+        const std::size_t base = tScratch.size();
+        for (const Factored& k : f.kids) {
+            const std::size_t a = formArrival(k, at);
+            tScratch.push_back(a);
+        }
+        const std::size_t r = balanceInPlace(tScratch.data() + base, f.kids.size());
+        tScratch.resize(base);
+        return r;
+    }
+    }
+}
+
 // Required time of every leaf variable of `f` given the root's required time.
 void pushRequired(const Factored& f, long required, const std::vector<std::size_t>& at, std::vector<long>& rt) {
     switch (f.kind) {
@@ -98,7 +173,8 @@ void pushRequired(const Factored& f, long required, const std::vector<std::size_
     }
     default: {
         std::vector<std::size_t> times;
-        for (const Factored& k : f.kids) times.push_back(formCost(k, at).arrival);
+        times.reserve(f.kids.size());
+        for (const Factored& k : f.kids) times.push_back(formArrival(k, at));
         std::vector<std::size_t> depth;
         balance(times, &depth);
         for (std::size_t i = 0; i < f.kids.size(); ++i)
@@ -107,29 +183,21 @@ void pushRequired(const Factored& f, long required, const std::vector<std::size_
     }
 }
 
+// A node's candidate forms, fewest gates first by construction order (Best,
+// Quick, plain); `gates` beside each.
+struct Candidates {
+    const Factored* form[3] = {nullptr, nullptr, nullptr};
+    std::size_t gates[3] = {0, 0, 0};
+    int count = 0;
+};
+
 } // namespace
 
 FormCost formCost(const Factored& f, const std::vector<std::size_t>& at) {
     FormCost c;
-    switch (f.kind) {
-    case Factored::Kind::Zero:
-    case Factored::Kind::One:
-        return c;
-    case Factored::Kind::Lit:
-        c.arrival = arrivalOf(at, literalVar(f.lit));
-        return c;
-    default: {
-        std::vector<std::size_t> times;
-        for (const Factored& k : f.kids) {
-            FormCost kc = formCost(k, at);
-            c.gates += kc.gates;
-            times.push_back(kc.arrival);
-        }
-        if (f.kids.size() > 1) c.gates += f.kids.size() - 1;
-        c.arrival = balance(times, nullptr);
-        return c;
-    }
-    }
+    c.gates = gatesOf(f);
+    c.arrival = formArrival(f, at);
+    return c;
 }
 
 Factored sopForm(const Cover& f) {
@@ -154,36 +222,47 @@ Factored sopForm(const Cover& f) {
     return out;
 }
 
-FactoredNetwork factorNetwork(const net::Network& net, int maxDepth, FactorCache* cache) {
-    FactorCache local;
-    FactorCache& fc = cache ? *cache : local;
+namespace {
+
+FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& fc, bool keepForms) {
     FactoredNetwork out;
     const std::vector<net::NodeId> order = net.topoOrder();
     const std::size_t n = net.nodeCount();
-    out.forms.assign(n, Factored{});
+    if (keepForms) out.forms.assign(n, Factored{});
 
-    // Candidate forms per node, fewest gates first.
-    std::vector<std::vector<const Factored*>> cand(n);
-    std::vector<Factored> sops(n);
+    // Candidate forms per node (from the cache: every cover is factored once).
+    std::vector<Candidates> cand(n);
     for (net::NodeId v : order) {
         const Cover& cv = net.node(v).cover;
-        sops[v] = sopForm(cv);
+        FactorCache::Impl::Entry& e = fc.impl().entry(cv);
+        if (!e.hasSop) {
+            e.sop = sopForm(cv);
+            e.sopGates = gatesOf(e.sop);
+            e.hasSop = true;
+        }
+        Candidates& c = cand[v];
         // Factoring a cover of thousands of cubes costs more than every pass
         // together; such nodes are written as plain sums of products.
-        if (cv.cubes.size() > kMaxFactoredCubes) cand[v] = {&sops[v]};
-        else cand[v] = {&fc.best(cv), &fc.quick(cv), &sops[v]};
+        if (cv.cubes.size() <= kMaxFactoredCubes) {
+            fc.best(cv);
+            fc.quick(cv);
+            c.form[c.count] = &e.best, c.gates[c.count++] = e.bestGates;
+            c.form[c.count] = &e.quick, c.gates[c.count++] = e.quickGates;
+        }
+        c.form[c.count] = &e.sop, c.gates[c.count++] = e.sopGates;
     }
     // Phase 1: earliest-arriving forms.
     std::vector<std::size_t> atMin(n, 0);
     std::vector<const Factored*> minForm(n, nullptr);
     for (net::NodeId v : order) {
         std::size_t bestA = SIZE_MAX, bestG = SIZE_MAX;
-        for (const Factored* f : cand[v]) {
-            FormCost c = formCost(*f, atMin);
-            if (c.arrival < bestA || (c.arrival == bestA && c.gates < bestG)) {
-                bestA = c.arrival;
-                bestG = c.gates;
-                minForm[v] = f;
+        const Candidates& c = cand[v];
+        for (int i = 0; i < c.count; ++i) {
+            const std::size_t a = formArrival(*c.form[i], atMin);
+            if (a < bestA || (a == bestA && c.gates[i] < bestG)) {
+                bestA = a;
+                bestG = c.gates[i];
+                minForm[v] = c.form[i];
             }
         }
         atMin[v] = bestA;
@@ -204,26 +283,27 @@ FactoredNetwork factorNetwork(const net::Network& net, int maxDepth, FactorCache
     // Phase 2: fewest gates meeting the required time.
     std::vector<std::size_t> at(n, 0);
     for (net::NodeId v : order) {
+        const Candidates& c = cand[v];
         const Factored* pick = nullptr;
-        FormCost pc;
-        std::size_t bestG = SIZE_MAX;
-        for (const Factored* f : cand[v]) {
-            FormCost c = formCost(*f, at);
-            if (rt[v] != LONG_MAX && static_cast<long>(c.arrival) > rt[v]) continue;
-            if (c.gates < bestG || (c.gates == bestG && c.arrival < pc.arrival)) {
-                bestG = c.gates;
-                pick = f;
-                pc = c;
+        std::size_t pickA = 0, bestG = SIZE_MAX;
+        for (int i = 0; i < c.count; ++i) {
+            const std::size_t a = formArrival(*c.form[i], at);
+            if (rt[v] != LONG_MAX && static_cast<long>(a) > rt[v]) continue;
+            if (c.gates[i] < bestG || (c.gates[i] == bestG && a < pickA)) {
+                bestG = c.gates[i];
+                pick = c.form[i];
+                pickA = a;
             }
         }
         if (!pick) {  // cannot happen by construction; keep the earliest form
             pick = minForm[v];
-            pc = formCost(*pick, at);
+            pickA = formArrival(*pick, at);
+            bestG = gatesOf(*pick);
         }
-        at[v] = pc.arrival;
-        out.forms[v] = *pick;
+        at[v] = pickA;
+        if (keepForms) out.forms[v] = *pick;
         ++out.metrics.nodes;
-        out.metrics.gates += pc.gates;
+        out.metrics.gates += bestG;
         out.metrics.literals += pick->literalCount();
     }
     out.metrics.inputs = net.inputs().size();
@@ -233,8 +313,16 @@ FactoredNetwork factorNetwork(const net::Network& net, int maxDepth, FactorCache
     return out;
 }
 
+} // namespace
+
+FactoredNetwork factorNetwork(const net::Network& net, int maxDepth, FactorCache* cache) {
+    FactorCache local;
+    return chooseForms(net, maxDepth, cache ? *cache : local, true);
+}
+
 net::Metrics measureFactored(const net::Network& net, int maxDepth, FactorCache* cache) {
-    return factorNetwork(net, maxDepth, cache).metrics;
+    FactorCache local;
+    return chooseForms(net, maxDepth, cache ? *cache : local, false).metrics;
 }
 
 } // namespace kerf::passes

@@ -26,10 +26,13 @@ public:
     FactorCache& operator=(const FactorCache&) = delete;
     const algebra::Factored& best(const algebra::Cover& f);
     const algebra::Factored& quick(const algebra::Cover& f);
+    /// Number of factorings done (each cover and method at most once).
     std::size_t size() const;
 
-private:
     struct Impl;
+    Impl& impl() { return *impl_; }
+
+private:
     std::unique_ptr<Impl> impl_;
 };
 

@@ -17,7 +17,10 @@ struct InlineOptions {
     std::size_t maxCubes = 48;      ///< cap on a fanout cover's cubes after collapsing
     std::size_t maxLiterals = 256;  ///< cap on a fanout cover's literals after collapsing
     std::size_t maxFanouts = 24;    ///< nodes with more fanouts are not collapsed
-    std::size_t complementCubeCap = 4096;  ///< cubes of a complement computed for inverted reads
+    /// Largest complement computed for inverted reads. It also bounds the work:
+    /// every step of the complementation tidies a cover of up to this many
+    /// cubes, and only complements of at most maxCubes cubes are used anyway.
+    std::size_t complementCubeCap = 64;
 };
 
 void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx);

@@ -35,25 +35,27 @@ module rv_decoder (
   wire reg_write_t1 = ~opcode[6] & opcode[4] & opcode[2] & reg_write_t4;
   wire reg_write_t9 = opcode[6] & opcode[2] & opcode_5_4_is_10;
   wire reg_write_t5 = reg_write_t4 & reg_write_t9;
+  wire funct3_not_000 = funct3 != 3'b000;
   wire reg_write_t3 = reg_write_t8 | reg_write_t7;
+  wire alu_op0_t0 = branch_t0 | reg_write_t3;
+  wire alu_op3_t0 = reg_write_t8 | ((funct3 == 3'b101) & reg_write_t7);
   wire reg_write_t2 = reg_write_t6 | reg_write_t5;
   wire reg_write_t0 = reg_write_t3 | reg_write_t2;
-  wire alu_op0_t0 = branch_t0 | reg_write_t3;
   always_comb begin
     mem_read = reg_write_t6;
     mem_write = reg_write_t4 & reg_write_t10 & opcode_5_4_is_10;
     branch = branch_t0;
     alu_src[0] = reg_write_t7 | reg_write_t2 | mem_write | (opcode[5] & reg_write_t1);
     alu_op[2:0] = funct3 & {3{alu_op0_t0}};
-    alu_op[3] = branch_t0 | (f7_alt & (reg_write_t8 | ((funct3 == 3'b101) & reg_write_t7)));
+    alu_op[3] = branch_t0 | (f7_alt & alu_op3_t0);
     imm_sel[0] = reg_write_t1 | mem_write;
     imm_sel[1] = branch_t0 | reg_write_t1;
     imm_sel[2] = opcode[3] & opcode_1_0_is_11 & reg_write_t9;
     reg_write = reg_write_t1 | reg_write_t0 | imm_sel[2];
     jump = reg_write_t5 | imm_sel[2];
     alu_src[1] = imm_sel[2] | (~opcode[5] & reg_write_t1);
-    illegal = ((funct3 != 3'b000) & reg_write_t5)
-            | ((funct3[2:1] == 2'b01) & branch_t0)
+    illegal = ((funct3[2:1] == 2'b01) & branch_t0)
+            | (reg_write_t5 & funct3_not_000)
             | ~(branch_t0 | reg_write_t0 | imm_sel[2] | imm_sel[0]);
   end
 endmodule

@@ -23,6 +23,8 @@ module uart_regsel (
 
   // kerf: 2 of 2 groups rewritten, gates 77 -> 30, depth 5 -> 5, proved equivalent
   wire psel_penable = psel & penable;
+  wire paddr5_or_paddr1 = paddr[5] | paddr[1];
+  wire pslverr_t0 = paddr5_or_paddr1 | paddr[0];
   wire acc_w = psel_penable & pwrite;
   wire acc_r;
   assign acc_r = psel_penable & ~pwrite;
@@ -51,6 +53,6 @@ module uart_regsel (
   assign re_msr = paddr_3_2_is_10 & re_lsr_t0;
 
   // Unaligned or out-of-window accesses answer with an error.
-  assign pslverr = psel_penable & (paddr[5] | (paddr[1:0] != 2'b00));
+  assign pslverr = psel_penable & pslverr_t0;
 
 endmodule
