@@ -37,10 +37,10 @@ module rv_decoder (
   wire reg_write_t5 = reg_write_t4 & reg_write_t9;
   wire funct3_not_000 = funct3 != 3'b000;
   wire reg_write_t3 = reg_write_t8 | reg_write_t7;
-  wire alu_op0_t0 = branch_t0 | reg_write_t3;
-  wire alu_op3_t0 = reg_write_t8 | ((funct3 == 3'b101) & reg_write_t7);
   wire reg_write_t2 = reg_write_t6 | reg_write_t5;
   wire reg_write_t0 = reg_write_t3 | reg_write_t2;
+  wire alu_op0_t0 = branch_t0 | reg_write_t3;
+  wire alu_op3_t0 = reg_write_t8 | ((funct3 == 3'b101) & reg_write_t7);
   always_comb begin
     mem_read = reg_write_t6;
     mem_write = reg_write_t4 & reg_write_t10 & opcode_5_4_is_10;
