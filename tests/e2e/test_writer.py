@@ -367,6 +367,13 @@ def draw_case(files, top):
                            f"{top}: restructure and draw: {r.stderr[-800:]} {d.stderr[-800:]}"):
             return
         text = open(dot).read()
+        svg = os.path.join(t.work, top + ".svg")
+        if shutil.which("dot"):
+            t.res.check(os.path.exists(svg) and b"<svg" in open(svg, "rb").read(),
+                        f"{top}: with Graphviz installed, the SVG is written beside the DOT")
+        else:
+            t.res.check(not os.path.exists(svg) and "not installed" in d.stderr,
+                        f"{top}: without Graphviz, no SVG and a note saying so: {d.stderr[-300:]}")
         t.res.check(text.count("digraph ") == 1 and text.rstrip().endswith("}"),
                     f"{top}: one digraph")
         nodes, edges = _parse_dot(text)
