@@ -9,6 +9,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <iterator>
 #include <map>
 
 namespace kerf::emit {
@@ -63,7 +64,13 @@ SignalGraph signalGraph(const frontend::ModuleDesc& m, const frontend::Lowered& 
             if (isPort(sig) != (pass == 1)) continue;
             net::NodeId d = algebra::literalVar(net.outputs()[i].driver);
             if (net.isLogic(d) && owner[d].empty()) owner[d] = vertexOf(sig);
+            // A wire holding a word operation's result (or kept code's) is what its readers read.
+            if (net.node(d).kind == net::NodeKind::Input && owner[d].empty() && !isPort(inputSig[d]))
+                owner[d] = vertexOf(sig);
         }
+    auto source = [&](net::NodeId f, const std::string& reader) {
+        return !owner[f].empty() && owner[f] != reader ? owner[f] : inputSig[f];
+    };
 
     SignalGraph g;
     std::set<std::string> named;
@@ -74,7 +81,7 @@ SignalGraph signalGraph(const frontend::ModuleDesc& m, const frontend::Lowered& 
         std::string sig = vertexOf(low.outputBits[i].signal);
         named.insert(sig);
         net::NodeId d = algebra::literalVar(net.outputs()[i].driver);
-        if (net.node(d).kind == net::NodeKind::Input) edge(inputSig[d], sig);
+        if (net.node(d).kind == net::NodeKind::Input) edge(source(d, sig), sig);
         else if (net.isLogic(d) && owner[d] != sig) edge(owner[d], sig);
     }
     // Each owned node: back through anonymous nodes to named ones.
@@ -91,12 +98,34 @@ SignalGraph signalGraph(const frontend::ModuleDesc& m, const frontend::Lowered& 
                     net::NodeId f = algebra::literalVar(l);
                     if (!seen.insert(f).second) continue;
                     const net::Node& fn = net.node(f);
-                    if (fn.kind == net::NodeKind::Input) edge(inputSig[f], sig);
+                    if (fn.kind == net::NodeKind::Input) edge(source(f, sig), sig);
                     else if (fn.kind != net::NodeKind::Logic || fn.dead) continue;
                     else if (!owner[f].empty()) edge(owner[f], sig);
                     else stack.push_back(f);
                 }
         }
+    }
+
+    // Operands that are the author's signals feed their operation directly.
+    for (const auto& w : low.wordOps)
+        for (const auto& o : w.operands)
+            if (!o.generated) edge(o.name, w.result);
+    // Other generated names (not a signal of the module, not an operation) pass straight through.
+    std::set<std::string> ends = named;
+    for (const auto& [a, b] : g.edges) ends.insert(a), ends.insert(b);
+    for (const auto& x : ends) {
+        if (m.signals.count(x) || opLabel.count(x)) continue;
+        std::vector<std::string> preds, succs;
+        for (const auto& [a, b] : g.edges) {
+            if (b == x) preds.push_back(a);
+            if (a == x) succs.push_back(b);
+        }
+        for (auto it = g.edges.begin(); it != g.edges.end();)
+            it = (it->first == x || it->second == x) ? g.edges.erase(it) : std::next(it);
+        for (const auto& a : preds)
+            for (const auto& b : succs) edge(a, b);
+        named.erase(x);
+        netInputs.erase(x);
     }
 
     std::set<std::string> all = named;
