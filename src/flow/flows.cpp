@@ -525,7 +525,11 @@ int restructureAll(const RestructureOptions& opts) {
         args.push_back(f);
     }
     std::vector<std::string> names = io::listModules(args);
-    if (names.empty()) throw Error("--all-modules: the given files declare no module");
+    if (names.empty()) {
+        // A package file, say, in a pre-commit run over changed files: nothing to do.
+        if (!opts.quiet) std::cerr << "--all-modules: the given files declare no module; nothing to do\n";
+        return 0;
+    }
     // Each module is read, restructured, proved and (with --in-place) written on its
     // own, in file order: a later module of the same file is read with the earlier
     // one's proved rewrite in place. A module that fails leaves its text as it was.

@@ -422,6 +422,37 @@ for _files, _top in ((["samples/uart_regsel.v"], "uart_regsel"), (["samples/dma_
     S.add("draw_" + _top, draw_case(_files, _top))
 
 
+@S.case("pre_commit_hook")
+def _(t):
+    """The hook's entry from .pre-commit-hooks.yaml, run as the pre-commit framework runs it (bash, files as arguments)."""
+    text = open(os.path.join(t.root, ".pre-commit-hooks.yaml")).read()
+    m = re.search(r"^  entry: (.*)$", text, re.M)
+    if not t.res.check(m is not None, "the hook has an entry"):
+        return
+    entry = m.group(1)
+    if entry.startswith("bash -c '"):
+        # entry: bash -c '<script>' --   (the framework appends the changed files)
+        script = entry[len("bash -c '"):entry.rindex("'")]
+        argv = ["bash", "-c", script, "--"]
+    else:
+        argv = entry.split()
+    bindir = os.path.join(t.work, "bin")
+    os.mkdir(bindir)
+    os.symlink(os.path.abspath(t.kerf), os.path.join(bindir, "kerf"))
+    env = dict(os.environ, PATH=bindir + os.pathsep + os.environ.get("PATH", ""))
+    dec = os.path.join(t.work, "decoders.v")
+    pkg = os.path.join(t.work, "regs_pkg.sv")
+    plain = os.path.join(t.work, "glue.v")
+    open(dec, "w").write(ALL_DECODERS)
+    open(pkg, "w").write("package regs_pkg;\n  localparam int unsigned NREGS = 5;\nendpackage\n")
+    open(plain, "w").write("module glue_and (input wire a, b, output wire y);\n  assign y = a & b;\nendmodule\n")
+    r = K.run(argv + [pkg, plain], env=env)
+    t.res.check(r.returncode == 0, f"a package file and a module with nothing to gain pass: {r.stderr[-600:]}")
+    r = K.run(argv + [plain, dec], env=env)
+    t.res.check(r.returncode != 0 and "dec_rd" in r.stderr and open(dec).read() == ALL_DECODERS,
+                f"a file with two modules kerf would shrink fails the hook, unchanged: {r.stderr[-600:]}")
+
+
 @S.case("usage_errors")
 def _(t):
     out = os.path.join(t.work, "x.v")
