@@ -1,4 +1,4 @@
-// main.cpp — the kerf command line: restructure, stats, equiv, algebra.
+// main.cpp — the kerf command line: restructure (one module or --all-modules), stats, equiv, draw, algebra.
 #include "kerf/algebra/algebra_command.h"
 #include "kerf/diagnostics.h"
 #include "kerf/flow/flows.h"

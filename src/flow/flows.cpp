@@ -1,4 +1,4 @@
-// flows.cpp — restructure, stats and equiv: reading, passes, writing and proof glued together.
+// flows.cpp — restructure (and --all-modules), stats and draw: reading, passes, writing and proof glued together.
 #include "kerf/flow/flows.h"
 
 #include "kerf/emit/diff.h"
