@@ -128,6 +128,10 @@ ModuleDesc parseDescription(const nlohmann::json& j) {
     for (const auto& cj : j.value("conditionals", nlohmann::json::array()))
         m.conditionals.push_back(fmt::format("{}:{}: {}", cj.value("file", "?"), cj.value("line", 0),
                                              cj.value("text", "")));
+    if (auto pm = j.find("port_members"); pm != j.end() && pm->is_object())
+        for (const auto& [port, list] : pm->items())
+            for (const auto& e : list)
+                m.portMembers[port].push_back({e.at("name").get<std::string>(), e.value("offset", 0), e.value("width", 1)});
     return m;
 }
 
