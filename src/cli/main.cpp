@@ -1,4 +1,4 @@
-// main.cpp — the kerf command line: restructure, stats, equiv, algebra.
+// main.cpp — the kerf command line: restructure (one module or --all-modules), stats, equiv, draw, algebra.
 #include "kerf/algebra/algebra_command.h"
 #include "kerf/diagnostics.h"
 #include "kerf/flow/flows.h"
@@ -80,6 +80,9 @@ int main(int argc, char** argv) {
                    "rewrite a group of statements only when it saves at least this many two-input gates, "
                    "or this percentage with a % sign (default 2)");
     rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
+    rs->add_flag("--all-modules", ro.allModules,
+                 "every module declared in the files, each proved on its own, one summary line each "
+                 "(with --check or --in-place)");
     rs->add_flag("--dissolve-internal", ro.dissolveInternal,
                  "let internal signals dissolve into the logic (their declarations go); for flat netlists");
     rs->add_flag("--keep-x", ro.keepX,
@@ -114,6 +117,20 @@ int main(int argc, char** argv) {
     ev->add_flag("-v,--verbose", eq.verbose, "print proof statistics");
     ev->footer(kExitCodes);
 
+    kerf::flow::DrawOptions dr;
+    auto* dw = app.add_subcommand("draw", "draw a module's restructured, proved logic as a graph of its named signals "
+                                          "(Graphviz DOT; SVG beside it when 'dot' is installed)");
+    addReadOptions(dw, dr.how.read);
+    dw->add_option("-o,--output", dr.output, "FILE.dot to write (default: DOT on standard output); FILE.svg too "
+                                             "when Graphviz's 'dot' is installed");
+    dw->add_flag("-q,--quiet", dr.how.quiet, "no progress line and no summary on standard error");
+    dw->add_option("--effort", dr.how.effort, "as for restructure")
+        ->check(CLI::IsMember({"fast", "default", "thorough"}));
+    dw->add_option("--min-gain", dr.how.minGain, "as for restructure (default 2)");
+    dw->add_option("--wire-prefix", dr.how.prefix, "as for restructure");
+    dw->add_flag("--dissolve-internal", dr.how.dissolveInternal, "as for restructure");
+    dw->footer(kExitCodes);
+
     app.add_subcommand("algebra", "explore the algebraic model on one expression: divide, kernels, factor "
                                   "(see `kerf algebra --help`)");
 
@@ -137,9 +154,20 @@ int main(int argc, char** argv) {
                 throw kerf::Error("--backup needs --in-place or --output: standard output has nothing to back up");
             if (ro.backupSuffix.find('/') != std::string::npos)
                 throw kerf::Error("--backup takes a suffix for the file name, without '/'");
+            if (ro.allModules) {
+                if (!ro.check && !ro.inPlace)
+                    throw kerf::Error("--all-modules writes each file in place or checks it: give --in-place "
+                                      "or --check");
+                if (!ro.read.top.empty() || !ro.read.params.empty() || !ro.reportPath.empty() ||
+                    !ro.backupSuffix.empty())
+                    throw kerf::Error("--all-modules takes every module: it cannot be combined with --top, "
+                                      "--param, --report or --backup");
+                return kerf::flow::restructureAll(ro);
+            }
             kerf::io::Progress::global().start(!ro.quiet);
             return kerf::flow::restructure(ro);
         }
+        if (*dw) return kerf::flow::draw(dr);
         if (*st) {
             auto r = kerf::flow::stats(so, statsDissolve);
             if (statsJson) {

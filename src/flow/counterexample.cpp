@@ -3,7 +3,8 @@
 // Support: the inputs reachable backwards from the differing output's driver
 // in either network (and in the first design's don't-care network). Bits of
 // a shown bus outside the support keep the value the proof happened to
-// choose; they do not matter for this output.
+// choose; they do not matter for this output. A packed struct or union port
+// is also shown member by member (the reader's port_members).
 #include "kerf/flow/counterexample.h"
 
 #include <fmt/format.h>
@@ -141,6 +142,13 @@ ShownCounterexample showCounterexample(const proof::Counterexample& cex, const f
             if (v != values.end() && v->second) b.bits[static_cast<std::size_t>(width - 1 - off)] = '1';
         }
         b.literal = literalOf(b.bits);
+        if (auto pm = d.portMembers.find(name); pm != d.portMembers.end())
+            for (const auto& f : pm->second) {
+                if (f.offset < 0 || f.width < 1 || f.offset + f.width > width) continue;
+                std::size_t from = static_cast<std::size_t>(width - f.offset - f.width);
+                b.members.push_back(fmt::format("{} = {}", f.name,
+                                                literalOf(b.bits.substr(from, static_cast<std::size_t>(f.width)))));
+            }
         s.inputs.push_back(std::move(b));
     }
     return s;
@@ -166,7 +174,14 @@ nlohmann::json counterexampleJson(const ShownCounterexample& c) {
     for (const auto& b : c.inputs) {
         nlohmann::json e = {{"name", b.name}, {"width", b.width}, {"value", b.literal}, {"bits", b.bits},
                             {"port", b.port}};
-        if (!b.members.empty()) e["members"] = b.members;
+        if (!b.members.empty()) {
+            nlohmann::json ms = nlohmann::json::array();
+            for (const auto& m : b.members) {
+                std::size_t eq = m.find(" = ");
+                ms.push_back({{"name", m.substr(0, eq)}, {"value", eq == std::string::npos ? "" : m.substr(eq + 3)}});
+            }
+            e["members"] = ms;
+        }
         in.push_back(e);
     }
     nlohmann::json j = {{"output", c.output}, {"signal", c.signal}, {"a", c.valueA ? 1 : 0},

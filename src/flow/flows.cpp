@@ -1,12 +1,14 @@
-// flows.cpp — restructure, stats and equiv: reading, passes, writing and proof glued together.
+// flows.cpp — restructure (and --all-modules), stats and draw: reading, passes, writing and proof glued together.
 #include "kerf/flow/flows.h"
 
 #include "kerf/emit/diff.h"
+#include "kerf/emit/draw.h"
 #include "kerf/emit/guard.h"
 #include "kerf/emit/writer.h"
 #include "kerf/flow/counterexample.h"
 #include "kerf/frontend/lower.h"
 #include "kerf/io/files.h"
+#include "kerf/io/process.h"
 #include "kerf/io/progress.h"
 #include "kerf/io/reader.h"
 #include "kerf/passes/engine.h"
@@ -142,7 +144,8 @@ StatsResult stats(const frontend::ReadOptions& read, bool dissolveInternal) {
     return r;
 }
 
-int restructure(const RestructureOptions& opts) {
+int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
+    if (outcome) *outcome = {};
     if (!emit::validIdentifierPrefix(opts.prefix))
         throw Error(fmt::format("--wire-prefix '{}' is not the start of a Verilog identifier "
                                 "(a letter or _, then letters, digits, _ or $)", opts.prefix));
@@ -540,6 +543,11 @@ int restructure(const RestructureOptions& opts) {
     if (opts.verbose > 0) std::cerr << stages.line() << "\n";
     io::Progress::global().stop();
 
+    if (outcome) *outcome = {wr.changed, file, wr.text, wr.changed ? wr.wiresAdded : std::vector<std::string>{}};
+    if (opts.noOutput) {
+        if (!opts.quiet) std::cerr << summary << "\n";
+        return 0;
+    }
     if (opts.check) {
         if (!opts.quiet) std::cerr << summary << "\n";
         if (wr.changed) {
@@ -561,6 +569,100 @@ int restructure(const RestructureOptions& opts) {
         io::writeStdout(wr.text);
     }
     if (!opts.quiet) std::cerr << summary << "\n";
+    return 0;
+}
+
+int restructureAll(const RestructureOptions& opts) {
+    std::vector<std::string> args;
+    for (const auto& d : opts.read.includeDirs) { args.push_back("-I"); args.push_back(d); }
+    for (const auto& d : opts.read.defines) { args.push_back("-D"); args.push_back(d); }
+    for (const auto& f : opts.read.files) {
+        io::checkSourceFile(f);
+        args.push_back(f);
+    }
+    std::vector<std::string> names = io::listModules(args);
+    if (names.empty()) {
+        // A package file, say, in a pre-commit run over changed files: nothing to do.
+        if (!opts.quiet) std::cerr << "--all-modules: the given files declare no module; nothing to do\n";
+        return 0;
+    }
+    // Each module is read, restructured, proved and (with --in-place) written on its
+    // own, in file order: a later module of the same file is read with the earlier
+    // one's proved rewrite in place. A module that fails leaves its text as it was.
+    int worst = 0;
+    std::size_t rewritten = 0, unchanged = 0, failed = 0;
+    for (const std::string& name : names) {
+        RestructureOptions o = opts;
+        o.read.top = name;
+        RestructureOutcome outcome;
+        int rc = 0;
+        try {
+            io::Progress::global().start(!o.quiet);
+            rc = restructure(o, &outcome);
+        } catch (const Error& e) {
+            io::Progress::global().stop();
+            // Without Python/pyslang or memory no other module can do better.
+            if (e.code() == ExitCode::ToolMissing || e.code() == ExitCode::Resources) throw;
+            std::cerr << e.render() << "\n";
+            rc = static_cast<int>(e.code());
+        }
+        io::Progress::global().stop();
+        if (rc != 0 && !(opts.check && rc == static_cast<int>(ExitCode::Different))) {
+            ++failed;
+            std::cerr << fmt::format("module {}: not restructured (exit {}); its text is unchanged\n", name, rc);
+        } else if (outcome.changed) {
+            ++rewritten;
+        } else {
+            ++unchanged;
+        }
+        worst = std::max(worst, rc);
+    }
+    if (!opts.quiet || failed > 0)
+        std::cerr << fmt::format("--all-modules: {} module{}: {} {}, {} unchanged, {} failed\n", names.size(),
+                                 names.size() == 1 ? "" : "s", rewritten,
+                                 opts.check ? "would be rewritten" : "rewritten", unchanged, failed);
+    return worst;
+}
+
+int draw(const DrawOptions& opts) {
+    RestructureOptions o = opts.how;
+    o.noOutput = true;
+    RestructureOutcome done;
+    io::Progress::global().start(!o.quiet);
+    if (int rc = restructure(o, &done); rc != 0) return rc;
+    // The graph is of the written text, read back as the proof read it.
+    io::WorkDir work;
+    std::string rewritten = work.add(std::filesystem::path(done.file).filename().string(), done.text);
+    frontend::ReadOptions back = o.read;
+    for (const auto& f : o.read.files) {
+        std::error_code ec;
+        if (f == done.file || std::filesystem::equivalent(f, done.file, ec)) back.substitute[f] = rewritten;
+    }
+    back.includeDirs.push_back(std::filesystem::path(done.file).parent_path().empty()
+                                   ? "."
+                                   : std::filesystem::path(done.file).parent_path().string());
+    frontend::ModuleDesc written = frontend::readModule(back);
+    frontend::Lowered low = lowerAs(written, o.dissolveInternal, false, o.prefix.empty() ? "kf_" : o.prefix);
+    std::set<std::string> added(done.added.begin(), done.added.end());
+    std::string dot = emit::toDot(emit::signalGraph(written, low), written.name, added);
+    if (opts.output.empty()) {
+        io::writeStdout(dot);
+        return 0;
+    }
+    io::writeFileAtomic(opts.output, dot);
+    // SVG beside it when Graphviz's `dot` is installed.
+    std::filesystem::path svg = opts.output;
+    svg.replace_extension(".svg");
+    io::ProcessResult r = io::runCaptured({"dot", "-Tsvg", opts.output});
+    if (r.spawnError != 0) {
+        if (!o.quiet) std::cerr << fmt::format("{}: written; Graphviz 'dot' is not installed, so no SVG\n", opts.output);
+        return 0;
+    }
+    if (r.exitCode != 0)
+        throw Error(fmt::format("Graphviz 'dot' failed on {} (exit {}); the .dot file is written, no SVG",
+                                opts.output, r.exitCode), {}, ExitCode::Internal);
+    io::writeFileAtomic(svg.string(), r.out);
+    if (!o.quiet) std::cerr << fmt::format("{} and {}: written\n", opts.output, svg.string());
     return 0;
 }
 

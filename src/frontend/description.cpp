@@ -659,6 +659,22 @@ void DescriptionBuilder::parseParameters(const json& root) {
             m.parameters.push_back(std::move(p));
         }
     }
+    if (root.contains("port_members")) {
+        const json& pm = root["port_members"];
+        if (!pm.is_object()) invalid("'port_members' is not an object");
+        for (const auto& [port, list] : pm.items()) {
+            std::string where = "port members of '" + port + "'";
+            if (!list.is_array()) invalid(where + " are not a list");
+            for (const auto& e : list) {
+                ModuleDesc::PortMember pmem;
+                pmem.name = str(e, "name", where);
+                pmem.offset = static_cast<int>(num(e, "offset", where));
+                pmem.width = static_cast<int>(num(e, "width", where));
+                if (pmem.offset < 0 || pmem.width < 1) invalid(where + ": a member outside the port");
+                m.portMembers[port].push_back(std::move(pmem));
+            }
+        }
+    }
     if (root.contains("conditionals")) {
         const json& cs = root["conditionals"];
         if (!cs.is_array()) invalid("'conditionals' is not a list");

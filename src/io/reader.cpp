@@ -10,6 +10,8 @@
 #include <csignal>
 #include <cstdlib>
 #include <cstring>
+#include <filesystem>
+#include <sstream>
 #include <unistd.h>
 
 namespace kerf::io {
@@ -36,9 +38,49 @@ std::string pythonInterpreter() {
     return "python3";
 }
 
+std::string installedScript(const std::string& name) {
+    // An installed kerf (cmake --install) finds its scripts beside itself:
+    // PREFIX/bin/kerf and PREFIX/share/kerf/reader/NAME.
+    std::error_code ec;
+    std::filesystem::path exe = std::filesystem::read_symlink("/proc/self/exe", ec);
+    if (ec) return {};
+    std::filesystem::path p = exe.parent_path().parent_path() / "share" / "kerf" / "reader" / name;
+    return std::filesystem::exists(p, ec) ? p.string() : std::string();
+}
+
 std::string readerScript() {
     if (const char* p = std::getenv("KERF_READER"); p && *p) return p;
+    if (std::string s = installedScript("kerf_read.py"); !s.empty()) return s;
     return KERF_READER_PATH;
+}
+
+std::string modulesScript() {
+    if (std::string s = installedScript("kerf_modules.py"); !s.empty()) return s;
+    // In the source tree: src/flow/kerf_modules.py, beside src/reader/.
+    return (std::filesystem::path(KERF_READER_PATH).parent_path().parent_path() / "flow" / "kerf_modules.py").string();
+}
+
+std::vector<std::string> listModules(const std::vector<std::string>& args) {
+    std::vector<std::string> argv{pythonInterpreter(), modulesScript()};
+    argv.insert(argv.end(), args.begin(), args.end());
+    ProcessResult r = runCaptured(argv);
+    if (r.spawnError != 0)
+        throw Error(fmt::format("cannot start '{}': {}. Install Python 3 and run 'pip install -r requirements.txt' "
+                                "(or set KERF_PYTHON)", argv[0], std::strerror(r.spawnError)), {},
+                    r.spawnError == ENOMEM || r.spawnError == EAGAIN ? ExitCode::Resources : ExitCode::ToolMissing);
+    if (r.exitCode == kReaderDesignErrors) throw Error("the design has errors (reported above by slang); nothing was written");
+    if (r.exitCode == kReaderNoPyslang || r.exitCode == 126 || r.exitCode == 127)
+        throw Error("pyslang is not installed for this Python: run 'pip install -r requirements.txt' "
+                    "(or set KERF_PYTHON)", {}, ExitCode::ToolMissing);
+    if (r.exitCode != kReaderOk)
+        throw Error(fmt::format("listing the modules failed (exit {}, signal {}); its messages are above. This is "
+                                "a kerf bug: please report it with the input", r.exitCode, r.signal), {},
+                    ExitCode::Internal);
+    std::vector<std::string> names;
+    std::istringstream in(r.out);
+    for (std::string line; std::getline(in, line);)
+        if (!line.empty()) names.push_back(line);
+    return names;
 }
 
 ReaderOutput runReader(const std::vector<std::string>& args) {

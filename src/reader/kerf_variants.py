@@ -206,3 +206,30 @@ def finish(d, members, description):
     from kerf_describe import sv_bits
     description["parameters"] = kerf_params.describe(d.body, set(PINNED), st.used_by, sv_bits, d.symbol_src)
     description["conditionals"] = st.pre.conditionals()
+    description["port_members"] = port_members(d.body)
+
+
+def port_members(body):
+    """Members of packed struct and union ports, for counterexamples shown by member:
+    {port: [{"name": "inner.a", "offset": bit offset from the LSB, "width": W}...]},
+    leaves only, most significant first (declaration order of a struct)."""
+    out = {}
+
+    def leaves(t, prefix, base, acc):
+        ct = t.canonicalType
+        if ct.kind not in (SK.PackedStructType, SK.PackedUnionType):
+            acc.append({"name": prefix, "offset": base, "width": int(ct.bitWidth)})
+            return
+        for f in ct:
+            if f.kind == SK.Field:
+                leaves(f.type, (prefix + "." if prefix else "") + f.name, base + int(f.bitOffset), acc)
+
+    for p in body.portList:
+        t = getattr(p, "type", None)
+        if t is None or t.canonicalType.kind not in (SK.PackedStructType, SK.PackedUnionType):
+            continue
+        acc = []
+        leaves(t, "", 0, acc)
+        if acc:
+            out[p.name] = acc
+    return out

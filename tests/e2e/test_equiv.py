@@ -215,5 +215,69 @@ for _name in K.EPFL:
         continue  # covered by the round-trip proof; its simulation dominates the run time
     S.add(f"epfl_{_name}", design_case(None, None, f"epfl/{_name}", 2), needs=("iverilog", "epfl"))
 
+
+# A struct port shown by member: an invented command bus (package typedef, nested struct).
+# (Compilation-unit typedefs and `!` on the nested member: Icarus Verilog 11 stops on a
+# struct-typed member in a package and on `~` applied to a nested member.)
+STRUCT_PKG = """typedef struct packed { logic hi; logic [1:0] sel; } route_t;
+typedef struct packed { logic [2:0] op; route_t route; logic valid; } cmd_t;
+"""
+STRUCT_MOD = """module cmd_gate (input cmd_t cmd, input logic [3:0] lanes, output logic go, output logic [1:0] pick);
+  assign go = cmd.valid & (cmd.op == 3'd5) & !cmd.route.hi & (lanes != 4'd0);
+  assign pick = cmd.route.sel ^ lanes[1:0];
+endmodule
+"""
+
+
+@S.case("struct_port_members", needs=("iverilog",))
+def struct_port_members(t):
+    """The counterexample shows a struct port member by member; Icarus Verilog (outside
+    reference), given only the members by name, sees the output differ as kerf says."""
+    pkg = os.path.join(t.work, "cmd_types.sv")
+    fa = os.path.join(t.work, "a", "cmd_gate.sv")
+    fb = os.path.join(t.work, "b", "cmd_gate.sv")
+    os.makedirs(os.path.dirname(fa))
+    os.makedirs(os.path.dirname(fb))
+    open(pkg, "w").write(STRUCT_PKG)
+    mod_b = STRUCT_MOD.replace("!cmd.route.hi", "cmd.route.hi")
+    open(fa, "w").write(STRUCT_PKG + STRUCT_MOD)   # the types in the file's own compilation unit
+    open(fb, "w").write(STRUCT_PKG + mod_b)
+    r = K.run([t.kerf, "equiv", fa, fb, "--top", "cmd_gate", "--json"])
+    if not t.res.check(r.returncode == 1, f"exit 1 for a mutant: {r.returncode} {r.stdout[-800:]} {r.stderr[-800:]}"):
+        return
+    cex = json.loads(r.stdout)["counterexample"]
+    buses = {b["name"]: b for b in cex["inputs"]}
+    if not t.res.check("cmd" in buses and buses["cmd"].get("members"), f"cmd shown by member: {cex}"):
+        return
+    names = [m["name"] for m in buses["cmd"]["members"]]
+    t.res.check(names == ["op", "route.hi", "route.sel", "valid"], f"members in declaration order: {names}")
+    t.res.check("lanes" not in buses or not buses["lanes"].get("members"), "a plain vector has no members")
+    # Icarus: set the struct through its members only, as kerf printed them.
+    tb = ["module tb;", "  cmd_t c; logic [3:0] l; wire ga, gb; wire [1:0] pa, pb;",
+          "  cmd_gate_a ua (.cmd(c), .lanes(l), .go(ga), .pick(pa));",
+          "  cmd_gate_b ub (.cmd(c), .lanes(l), .go(gb), .pick(pb));",
+          "  initial begin", "    c = '0; l = '0;"]
+    for m in buses["cmd"]["members"]:
+        tb.append(f"    c.{m['name']} = {m['value']};")
+    if "lanes" in buses:
+        tb.append(f"    l = {buses['lanes']['value']};")
+    tb += ["    #1 $display(\"CX %b %b\", ga, gb);", "    $finish;", "  end", "endmodule"]
+    files = []
+    for tag, text in (("a", STRUCT_MOD), ("b", mod_b)):
+        p = os.path.join(t.work, f"ren_{tag}.sv")
+        open(p, "w").write(text.replace("module cmd_gate", f"module cmd_gate_{tag}"))
+        files.append(p)
+    tbp = os.path.join(t.work, "tb.sv")
+    open(tbp, "w").write("\n".join(tb) + "\n")
+    sim = os.path.join(t.work, "tb.vvp")
+    c = K.run(["iverilog", "-g2012", "-o", sim, pkg] + files + [tbp])
+    if not t.res.check(c.returncode == 0, f"iverilog: {c.stderr[:800]}"):
+        return
+    out = K.run(["vvp", "-n", sim]).stdout
+    m = re.search(r"CX (\S+) (\S+)", out)
+    t.res.check(cex["output"] == "go" and m is not None and (m.group(1), m.group(2)) == (str(cex["a"]), str(cex["b"])),
+                f"Icarus Verilog gives go = {m and m.groups()} for the members shown, kerf says {cex['a']} {cex['b']}")
+
+
 if __name__ == "__main__":
     S.main()

@@ -13,7 +13,9 @@ Outside reference: Icarus Verilog simulates both versions on the same
 vectors (all inputs, clock included, driven together; exhaustive where
 small). A pair Icarus shows different must never get exit 0; a verdict
 "different" must come with a counterexample that Icarus confirms on both
-files; a control Icarus shows equal must be proved (exit 0).
+files; a control Icarus shows equal must be proved (exit 0). Each version is
+also restructured, and Icarus Verilog checks the written file against its
+source.
 """
 import json
 import os
@@ -25,8 +27,11 @@ sys.path.insert(0, os.path.dirname(__file__))
 import kerf_e2e as K  # noqa: E402
 import test_equiv as TE  # noqa: E402  (Icarus confirmation of counterexamples)
 
-HEAD = "module unit (input logic clk, input logic [3:0] a, b, input logic [1:0] s, output logic [3:0] y, z);\n"
-TAIL = "endmodule\n"
+HEAD = ("module unit (input logic clk, input logic [3:0] a, b, input logic [1:0] s, output logic [3:0] y, z,\n"
+        "             output logic w);\n")
+# The same restructurable output in every version, so that restructuring each version changes it.
+TAIL = ("  assign w = (a[0] & b[0]) | (a[0] & b[1]) | (a[0] & s[0]) | (a[1] & b[0]) | (a[1] & b[1]) | (a[1] & s[0]);\n"
+        "endmodule\n")
 
 # name, body of A, body of B, allowed exit codes, what the pair tests
 CASES = [
@@ -101,15 +106,15 @@ def icarus_differs(work, fa, fb, defines=()):
     rb = os.path.join(work, "ib.sv")
     open(ra, "w").write(re.sub(r"\bunit\b", "unit_a", re.sub(r"\bunit_cell\b", "unit_cell_a", open(fa).read())))
     open(rb, "w").write(re.sub(r"\bunit\b", "unit_b", re.sub(r"\bunit_cell\b", "unit_cell_b", open(fb).read())))
-    tb = ["module tb;", "  logic clk; logic [3:0] a, b; logic [1:0] s; wire [3:0] ya, za, yb, zb;",
-          "  unit_a ua (.clk(clk), .a(a), .b(b), .s(s), .y(ya), .z(za));",
-          "  unit_b ub (.clk(clk), .a(a), .b(b), .s(s), .y(yb), .z(zb));",
+    tb = ["module tb;", "  logic clk; logic [3:0] a, b; logic [1:0] s; wire [3:0] ya, za, yb, zb; wire wa, wb;",
+          "  unit_a ua (.clk(clk), .a(a), .b(b), .s(s), .y(ya), .z(za), .w(wa));",
+          "  unit_b ub (.clk(clk), .a(a), .b(b), .s(s), .y(yb), .z(zb), .w(wb));",
           "  integer k, diffs;",
           "  initial begin",
           "    diffs = 0; clk = 0;",
           "    for (k = 0; k < 2048; k = k + 1) begin",
           "      {s, b, a} = k[9:0]; clk = k[10];",
-          "      #1; if (ya !== yb || za !== zb) diffs = diffs + 1;",
+          "      #1; if (ya !== yb || za !== zb || wa !== wb) diffs = diffs + 1;",
           "    end",
           "    $display(\"DIFFS %0d\", diffs);",
           "    $finish;",
@@ -169,6 +174,21 @@ def run_case(t, name, body_a, body_b, allowed, what):
             res.check(ok, f"{name}: Icarus Verilog confirms kerf's counterexample: {log}")
     if allowed == {0}:
         res.check(not differs, f"{name}: control pair, Icarus Verilog shows no difference")
+    # Each version restructured: the written file behaves like its source in Icarus Verilog
+    # (outputs compared with !==, so x and z count) for every define set the case uses.
+    builds = [[], ["UNIT_ALT"]] if name == "excluded_text" else [[]]
+    for side, src in (("first", fa), ("second", fb)):
+        sub = os.path.join(work, "rs_" + side)
+        os.mkdir(sub)
+        out = os.path.join(sub, "unit.sv")
+        r = K.run([a.kerf, "restructure", src, "--top", "unit", "-o", out, "--min-gain", "0"])
+        if not res.check(r.returncode == 0, f"{name}: restructure of the {side} version: {r.stderr[-800:]}"):
+            continue
+        res.check(open(out).read() != open(src).read(), f"{name}: the {side} version is restructured (w at least)")
+        for build in builds:
+            res.check(not icarus_differs(sub, src, out, build),
+                      f"{name}: the {side} version restructured simulates like its source in Icarus Verilog "
+                      f"(defines: {' '.join(build) or 'none'})")
 
 
 S = K.Suite(__doc__)

@@ -182,5 +182,42 @@ def _(t):
     t.res.check(re.search(r"^stages: reader [\d.]+ s", r.stderr, re.M) is not None, "-v prints the stage line")
 
 
+
+@S.case("installed_kerf_runs_anywhere")
+def _(t):
+    """cmake --install into a fresh prefix: P/bin/kerf runs from another directory with its own reader."""
+    build = os.path.dirname(os.path.abspath(t.kerf))
+    if not os.path.exists(os.path.join(build, "cmake_install.cmake")):
+        t.res.skip(f"{build} is not a CMake build directory")
+        return
+    prefix = os.path.join(t.work, "prefix")
+    r = K.run(["cmake", "--install", build, "--prefix", prefix])
+    if not t.res.check(r.returncode == 0, f"cmake --install: {r.stdout[-500:]} {r.stderr[-800:]}"):
+        return
+    kerf = os.path.join(prefix, "bin", "kerf")
+    t.res.check(os.access(kerf, os.X_OK), "P/bin/kerf is installed and executable")
+    t.res.check(os.path.exists(os.path.join(prefix, "share", "kerf", "reader", "kerf_read.py")),
+                "the reader is installed in P/share/kerf/reader")
+    # The user's Python: a stand-in interpreter that records which reader script kerf starts.
+    log = os.path.join(t.work, "python.log")
+    wrapper = os.path.join(t.work, "python3")
+    open(wrapper, "w").write(f'#!/bin/sh\necho "$1" >> "{log}"\nexec "{sys.executable}" "$@"\n')
+    os.chmod(wrapper, 0o755)
+    elsewhere = os.path.join(t.work, "elsewhere")
+    os.mkdir(elsewhere)
+    shutil.copy(os.path.join(t.root, SAMPLE), os.path.join(elsewhere, "regsel.v"))
+    env = {k: v for k, v in os.environ.items() if k not in ("KERF_READER", "KERF_PYTHON")}
+    env["PATH"] = t.work + os.pathsep + env.get("PATH", "")
+    c = K.run([kerf, "restructure", "regsel.v", "-o", "out.v"], cwd=elsewhere, env=env)
+    t.res.check(c.returncode == 0 and os.path.exists(os.path.join(elsewhere, "out.v")) and "proved equivalent" in c.stderr,
+                f"the installed kerf restructures and proves a file in another directory: {c.returncode} {c.stderr[-800:]}")
+    used = open(log).read().split() if os.path.exists(log) else []
+    t.res.check(bool(used) and all(u.startswith(os.path.join(prefix, "share", "kerf", "reader")) for u in used),
+                f"it starts the installed reader with the python3 on PATH: {used[:3]}")
+    m = K.run([kerf, "restructure", "--all-modules", "--check", "regsel.v"], cwd=elsewhere, env=env)
+    t.res.check(m.returncode == 1 and "1 modules" not in m.stderr and "1 module:" in m.stderr,
+                f"--all-modules lists modules with the installed script: {m.returncode} {m.stderr[-600:]}")
+
+
 if __name__ == "__main__":
     S.main()

@@ -245,11 +245,220 @@ def _(t):
             t.res.check(all(not l.startswith(b"  ") for l in new), f"tabs: written lines indent with tabs: {new[:3]}")
 
 
+# Two invented peripheral decoders in one file (the second reads a shifted address window), and
+# a file with a module that has nothing to gain and one with a loop between statements.
+ALL_DECODERS = """// Invented register decoders of a small timer block, for --all-modules.
+module dec_wr (
+    input  wire       psel, penable, pwrite,
+    input  wire [3:0] addr,
+    output wire       w0, w1, w2, w3, w4
+);
+  assign w0 = psel & penable & pwrite & ~addr[3] & ~addr[2] & ~addr[1] & ~addr[0];
+  assign w1 = psel & penable & pwrite & ~addr[3] & ~addr[2] & ~addr[1] & addr[0];
+  assign w2 = psel & penable & pwrite & ~addr[3] & ~addr[2] & addr[1] & ~addr[0];
+  assign w3 = psel & penable & pwrite & ~addr[3] & ~addr[2] & addr[1] & addr[0];
+  assign w4 = psel & penable & pwrite & ~addr[3] & addr[2] & ~addr[1] & ~addr[0];
+endmodule
+
+module dec_rd (
+    input  wire       psel, penable, pwrite,
+    input  wire [3:0] addr,
+    output wire       r0, r1, r2, r3
+);
+  assign r0 = psel & penable & ~pwrite & addr[3] & ~addr[2] & ~addr[1] & ~addr[0];
+  assign r1 = psel & penable & ~pwrite & addr[3] & ~addr[2] & ~addr[1] & addr[0];
+  assign r2 = psel & penable & ~pwrite & addr[3] & ~addr[2] & addr[1] & ~addr[0];
+  assign r3 = psel & penable & ~pwrite & addr[3] & ~addr[2] & addr[1] & addr[0] | psel & penable & ~pwrite & addr[3] & addr[2];
+endmodule
+"""
+OTHER_MODULES = """// Invented glue: one module with nothing to gain, one whose statements form a loop.
+module glue_and (input wire a, b, output wire y);
+  assign y = a & b;
+endmodule
+
+module glue_loop (input wire a, b, output wire y);
+  wire p, q;
+  assign p = q & a;
+  assign q = p | b;
+  assign y = p;
+endmodule
+"""
+
+
+def _simulate_module(t, original_text, rewritten_text, path, top, names):
+    """Icarus Verilog: module `top` of the rewritten file behaves like the original's."""
+    sim = os.path.join(t.work, "sim_" + top)
+    os.mkdir(sim)
+    desc = K.read_module(t.root, [path], top)
+    files = []
+    for text, suffix in ((original_text, "_ref"), (rewritten_text, "_new")):
+        for n in names:   # our own test text: module names are whole words found only in headers
+            text = re.sub(r"\bmodule\s+" + n + r"\b", "module " + n + suffix, text)
+        f = os.path.join(sim, top + suffix + ".v")
+        open(f, "w").write(text)
+        files.append(f)
+    tb, _ = K.testbench(desc, top + "_ref", top + "_new", vectors=2000)
+    tbf = os.path.join(sim, "tb.sv")
+    open(tbf, "w").write(tb)
+    vvp = os.path.join(sim, "sim.vvp")
+    c = K.run(["iverilog", "-g2012", "-o", vvp, *files, tbf])
+    if c.returncode != 0:
+        return False, c.stderr[:1500]
+    r = K.run(["vvp", "-n", vvp])
+    return "KERF_TB errors=0" in r.stdout, r.stdout[-1500:]
+
+
+@S.case("all_modules", needs=("iverilog",))
+def _(t):
+    """--all-modules: every module, each proved, one line each; the worst module's exit code."""
+    dec = os.path.join(t.work, "decoders.v")
+    other = os.path.join(t.work, "glue.v")
+    open(dec, "w").write(ALL_DECODERS)
+    open(other, "w").write(OTHER_MODULES)
+    c = K.run([t.kerf, "restructure", "--all-modules", "--check", dec])
+    t.res.check(c.returncode == 1, f"--check: exit 1 when a module would change: {c.returncode} {c.stderr[-1500:]}")
+    t.res.check(open(dec).read() == ALL_DECODERS, "--check writes nothing")
+    for m in ("dec_wr", "dec_rd"):
+        t.res.check(len(re.findall(r"module " + m + r"\b", c.stderr)) >= 1, f"--check: a summary line names {m}")
+    t.res.check("2 modules: 2 would be rewritten, 0 unchanged, 0 failed" in c.stderr,
+                f"--check: the closing count: {c.stderr[-400:]}")
+    g = K.run([t.kerf, "restructure", "--all-modules", "--check", other])
+    t.res.check(g.returncode == 2 and "module glue_loop: not restructured (exit 2)" in g.stderr
+                and "module glue_and" in g.stderr,
+                f"--check: a module with a loop is an input error (2), the other still checked: {g.stderr[-800:]}")
+
+    r = K.run([t.kerf, "restructure", "--all-modules", "--in-place", "-q", dec, other])
+    t.res.check(r.returncode == 2, f"--in-place: the worst exit code (2, the loop): {r.returncode} {r.stderr[-1500:]}")
+    t.res.check("4 modules: 2 rewritten, 1 unchanged, 1 failed" in r.stderr,
+                f"--in-place -q: the failure and the closing count still shown: {r.stderr[-600:]}")
+    t.res.check(open(other).read() == OTHER_MODULES, "the file of the unchanged and the failing module is untouched")
+    new = open(dec).read()
+    t.res.check(new != ALL_DECODERS and new.count("endmodule") == 2, "both decoders rewritten in one file")
+    for m in ("dec_wr", "dec_rd"):
+        ok, log = _simulate_module(t, ALL_DECODERS, new, dec, m, ("dec_wr", "dec_rd"))
+        t.res.check(ok, f"{m}: the rewrite in place simulates like the original (Icarus Verilog): {log}")
+    again = K.run([t.kerf, "restructure", "--all-modules", "--check", dec])
+    t.res.check(again.returncode == 0, f"--check after --in-place: nothing left to do: {again.stderr[-800:]}")
+
+    for args, what in ((["--all-modules", dec], "without --check or --in-place"),
+                       (["--all-modules", "--check", "--top", "dec_wr", dec], "with --top"),
+                       (["--all-modules", "--in-place", "--report", os.path.join(t.work, "r.json"), dec],
+                        "with --report")):
+        u = K.run([t.kerf, "restructure", *args])
+        t.res.check(u.returncode == 2 and "--all-modules" in u.stderr and not os.path.exists(os.path.join(t.work, "r.json")),
+                    f"--all-modules {what}: usage error 2: {u.returncode} {u.stderr[-300:]}")
+
+
+def _parse_dot(text):
+    """Vertices (name -> attributes) and edges of the DOT kerf draw writes (Graphviz's DOT language)."""
+    nodes = {m.group(1): m.group(2) for m in re.finditer(r'^  "([^"]+)" \[(.*)\];$', text, re.M)}
+    edges = {(m.group(1), m.group(2)) for m in re.finditer(r'^  "([^"]+)" -> "([^"]+)";$', text, re.M)}
+    return nodes, edges
+
+
+def draw_case(files, top):
+    def run(t):
+        ext = os.path.splitext(files[-1])[1]
+        out = os.path.join(t.work, top + ext)
+        r = restructure(t, files, top, out)
+        dot = os.path.join(t.work, top + ".dot")
+        d = K.run([t.kerf, "draw", *files, "--top", top, "-o", dot, *SAMPLE_PARAMS.get(top, [])])
+        if not t.res.check(r.returncode == 0 and d.returncode == 0 and os.path.exists(dot),
+                           f"{top}: restructure and draw: {r.stderr[-800:]} {d.stderr[-800:]}"):
+            return
+        text = open(dot).read()
+        svg = os.path.join(t.work, top + ".svg")
+        if shutil.which("dot"):
+            t.res.check(os.path.exists(svg) and b"<svg" in open(svg, "rb").read(),
+                        f"{top}: with Graphviz installed, the SVG is written beside the DOT")
+        else:
+            t.res.check(not os.path.exists(svg) and "not installed" in d.stderr,
+                        f"{top}: without Graphviz, no SVG and a note saying so: {d.stderr[-300:]}")
+        t.res.check(text.count("digraph ") == 1 and text.rstrip().endswith("}"),
+                    f"{top}: one digraph")
+        nodes, edges = _parse_dot(text)
+        # A kept word operation is drawn as a node of its own between its operands and the signal
+        # it feeds; the statement that holds it reads the operands.
+        for op in [n for n, a in nodes.items() if "hexagon" in a]:
+            ins = {a for a, b in edges if b == op}
+            outs = {b for a, b in edges if a == op}
+            edges = {e for e in edges if op not in e} | {(a, b) for a in ins for b in outs}
+        # Reference: the written file as slang reads it (the reader's reads/writes of each statement).
+        written = [f if f != module_file(t, files, top) else out for f in files]
+        desc = K.read_module(t.root, written, top)
+        ports = {p["name"]: p["direction"] for p in desc["ports"]}
+        for name, direction in ports.items():
+            want = "style=bold" if direction == "output" else "style=rounded"
+            t.res.check(name in nodes and want in nodes[name], f"{top}: port {name} drawn as an {direction}")
+        readers = {}
+        for m in desc["members"]:
+            reads = set(m.get("reads", [])) - set(m.get("writes", []))
+            if m["kind"] == "assign":
+                (w,) = m["writes"]
+                want = {(r, w) for r in reads}
+                got = {e for e in edges if e[1] == w}
+                t.res.check(got == want, f"{top}: edges into {w} are the signals its statement reads: "
+                                         f"drawn {sorted(got)}, read {sorted(want)}")
+            elif m["kind"] == "comb":
+                got = {e for e in edges if e[1] in m["writes"]}
+                t.res.check(got <= {(r, w) for r in reads for w in m["writes"]},
+                            f"{top}: edges into the block's signals come from what it reads: {sorted(got)}")
+                t.res.check({r for r, _ in got} == reads,
+                            f"{top}: every signal the block reads is drawn feeding it: {sorted(reads)}")
+            else:
+                continue
+            for r in reads:
+                readers.setdefault(r, set()).update(m["writes"])
+        for name, attrs in nodes.items():
+            if name in ports or name not in readers or "ellipse" not in attrs:
+                continue
+            t.res.check(("filled" in attrs) == (len(readers[name]) >= 2),
+                        f"{top}: wire {name} highlighted exactly when read by two or more signals ({attrs})")
+    return run
+
+
+for _files, _top in ((["samples/uart_regsel.v"], "uart_regsel"), (["samples/dma_fsm.sv"], "dma_fsm"),
+                     (["tests/rtl/alu_slice.sv"], "alu_slice")):
+    S.add("draw_" + _top, draw_case(_files, _top))
+
+
+@S.case("pre_commit_hook")
+def _(t):
+    """The hook's entry from .pre-commit-hooks.yaml, run as the pre-commit framework runs it (bash, files as arguments)."""
+    text = open(os.path.join(t.root, ".pre-commit-hooks.yaml")).read()
+    m = re.search(r"^  entry: (.*)$", text, re.M)
+    if not t.res.check(m is not None, "the hook has an entry"):
+        return
+    entry = m.group(1)
+    if entry.startswith("bash -c '"):
+        # entry: bash -c '<script>' --   (the framework appends the changed files)
+        script = entry[len("bash -c '"):entry.rindex("'")]
+        argv = ["bash", "-c", script, "--"]
+    else:
+        argv = entry.split()
+    bindir = os.path.join(t.work, "bin")
+    os.mkdir(bindir)
+    os.symlink(os.path.abspath(t.kerf), os.path.join(bindir, "kerf"))
+    env = dict(os.environ, PATH=bindir + os.pathsep + os.environ.get("PATH", ""))
+    dec = os.path.join(t.work, "decoders.v")
+    pkg = os.path.join(t.work, "regs_pkg.sv")
+    plain = os.path.join(t.work, "glue.v")
+    open(dec, "w").write(ALL_DECODERS)
+    open(pkg, "w").write("package regs_pkg;\n  localparam int unsigned NREGS = 5;\nendpackage\n")
+    open(plain, "w").write("module glue_and (input wire a, b, output wire y);\n  assign y = a & b;\nendmodule\n")
+    r = K.run(argv + [pkg, plain], env=env)
+    t.res.check(r.returncode == 0, f"a package file and a module with nothing to gain pass: {r.stderr[-600:]}")
+    r = K.run(argv + [plain, dec], env=env)
+    t.res.check(r.returncode != 0 and "dec_rd" in r.stderr and open(dec).read() == ALL_DECODERS,
+                f"a file with two modules kerf would shrink fails the hook, unchanged: {r.stderr[-600:]}")
+
+
 @S.case("usage_errors")
 def _(t):
     out = os.path.join(t.work, "x.v")
     for args, what in ((["--check", "-o", out], "--check with -o"),
                        (["--max-depth", "0"], "--max-depth 0"),
+                       (["--max-depth", "100001"], "--max-depth 100001"),
                        (["--wire-prefix", "9x"], "an invalid prefix"),
                        (["--min-gain", "lots"], "a malformed --min-gain"),
                        (["--diff", "-o", out], "--diff with -o")):

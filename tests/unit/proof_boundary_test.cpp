@@ -208,3 +208,37 @@ TEST(Counterexample, ShowsOnlyTheSupportAsWholeBusesInPortOrder) {
     // The values shown make y differ (checked on both networks).
     EXPECT_NE(evalOutput(a.low.net, "y", r.proof.cex->inputs), evalOutput(b.low.net, "y", r.proof.cex->inputs));
 }
+
+TEST(Counterexample, StructPortsAreShownByMember) {
+    // b is a packed struct {mode[3:2], flag[1], low[0]} (leaf members, MSB first);
+    // y = b[3] & ~b[1] in one design, b[3] | ~b[1] in the other.
+    Side a, b;
+    for (Side* s : {&a, &b}) {
+        s->desc.portMembers["b"] = {{"mode", 2, 2}, {"flag", 1, 1}, {"low", 0, 1}};
+        Literal b3 = s->in("b", 3), b1 = s->in("b", 1);
+        s->out("y", 0, s == &a ? and2(s->low.net, b3, negateLiteral(b1)) : or2(s->low.net, b3, negateLiteral(b1)));
+        s->out("z", 0, s->in("b", 0));
+    }
+    BoundedResult r = proveBounded({a.desc, a.low}, {b.desc, b.low}, {});
+    ASSERT_EQ(r.verdict, Verdict::Different);
+    ASSERT_TRUE(r.proof.cex.has_value());
+    flow::ShownCounterexample c = flow::showCounterexample(*r.proof.cex, a.desc, a.low, b.desc, b.low);
+    ASSERT_EQ(c.inputs.size(), 1u);
+    const flow::BusValue& bus = c.inputs[0];
+    ASSERT_EQ(bus.name, "b");
+    ASSERT_EQ(bus.members.size(), 3u);
+    // Each member's literal is the slice of the bus the proof chose, in declaration order.
+    auto bits = [&](int hi, int lo) {
+        unsigned v = 0;
+        for (int i = hi; i >= lo; --i) v = v * 2 + (bus.bits[static_cast<std::size_t>(bus.width - 1 - i)] == '1');
+        return v;
+    };
+    EXPECT_EQ(bus.members[0], fmt::format("mode = 2'h{:x}", bits(3, 2)));
+    EXPECT_EQ(bus.members[1], fmt::format("flag = 1'b{}", bits(1, 1)));
+    EXPECT_EQ(bus.members[2], fmt::format("low = 1'b{}", bits(0, 0)));
+    std::string text = flow::formatCounterexample(c);
+    EXPECT_NE(text.find(".mode = "), std::string::npos) << text;
+    nlohmann::json j = flow::counterexampleJson(c);
+    ASSERT_EQ(j["inputs"][0]["members"].size(), 3u);
+    EXPECT_EQ(j["inputs"][0]["members"][1]["name"], "flag");
+}

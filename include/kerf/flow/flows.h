@@ -37,10 +37,35 @@ struct RestructureOptions {
     bool dissolveInternal = false;   ///< internal signals may dissolve into the logic (their declarations go)
     std::vector<std::string> keep;   ///< --keep NAME: signals never restructured through (cut points)
     bool keepX = false;              ///< --keep-x: statements whose value can be x stay as written
+    bool allModules = false;         ///< --all-modules: every module of the files (restructureAll)
+    bool noOutput = false;           ///< write nothing, exit 0 (kerf draw takes the text from the outcome)
+};
+
+/// What a run of `restructure` produced, for callers that go on with it.
+struct RestructureOutcome {
+    bool changed = false;   ///< kerf rewrote (or with --check would rewrite) the module
+    std::string file;       ///< the file holding the module
+    std::string text;       ///< that file's proved rewrite (its text as read when unchanged)
+    std::vector<std::string> added;   ///< wires kerf added
 };
 
 /// Run `kerf restructure`; returns the process exit code. Messages go to stderr.
-int restructure(const RestructureOptions& opts);
+int restructure(const RestructureOptions& opts, RestructureOutcome* outcome = nullptr);
+
+/// Options of `kerf draw`: the restructure run to draw, and where the picture goes.
+struct DrawOptions {
+    RestructureOptions how;   ///< read and engine options (nothing is written)
+    std::string output;       ///< FILE.dot ("" → DOT on stdout); FILE.svg beside it when `dot` is installed
+};
+/// Run `kerf draw` (src/flow/draw.cpp): the proved rewrite of the module as a Graphviz
+/// graph of its named signals. Returns the process exit code.
+int draw(const DrawOptions& opts);
+
+/// `kerf restructure --all-modules` (with --check or --in-place): every module
+/// declared in the files, one after the other, each proved on its own, one
+/// summary line each and a closing count. Returns the largest exit code of any
+/// module; stops early only when Python/pyslang or memory is missing.
+int restructureAll(const RestructureOptions& opts);
 
 /// Word-level operators kept as written, by kind.
 struct WordOperators {

@@ -122,6 +122,13 @@ struct ModuleDesc {
     std::vector<Member> members;
     std::vector<Parameter> parameters;   ///< overridable parameters, declaration order
     std::vector<std::string> conditionals; ///< "file:line: `ifdef X" directives inside the module
+    /// Leaf members of packed struct/union ports ("inner.a", bit offset from the LSB, width),
+    /// most significant first; for counterexamples shown by member.
+    struct PortMember {
+        std::string name;
+        int offset = 0, width = 1;
+    };
+    std::map<std::string, std::vector<PortMember>> portMembers;
     Ir ir;
 
     /// The signal of a symbol, or null for a block local.

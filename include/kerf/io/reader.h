@@ -18,7 +18,8 @@ struct ReaderOutput {
 };
 
 /// The Python interpreter (`KERF_PYTHON`, default `python3`) and the reader
-/// script (`KERF_READER`, default the one in the source tree).
+/// script (`KERF_READER`; else PREFIX/share/kerf/reader/ beside an installed
+/// PREFIX/bin/kerf; else the one in the source tree).
 std::string pythonInterpreter();
 std::string readerScript();
 
@@ -26,6 +27,11 @@ std::string readerScript();
 /// kerf::Error with the right exit code when it cannot start or fails;
 /// slang's and the reader's own messages have reached stderr by then.
 ReaderOutput runReader(const std::vector<std::string>& args);
+
+/// The modules declared at file level in the files of `args` (`-I DIR`, `-D
+/// NAME`, then the files), in file and declaration order, each name once
+/// (src/flow/kerf_modules.py; for `restructure --all-modules`). Throws like `runReader`.
+std::vector<std::string> listModules(const std::vector<std::string>& args);
 
 /// Time and peak memory of the most recent successful reader run (for the stage figures).
 ReaderOutput lastReaderFigures();
