@@ -116,8 +116,9 @@ int encodeCover(CaDiCaL::Solver& s, int& nextVar, const Cover& f, LitMap lit) {
 
 class DontCareRun {
 public:
-    DontCareRun(net::Network& net, const DontCareOptions& o, const net::Network* declared, PassContext& ctx)
-        : net_(net), o_(o), declared_(declared), ctx_(ctx), ws_(net, ctx.depthCap) {}
+    DontCareRun(net::Network& net, const DontCareOptions& o, const net::Network* declared, PassContext& ctx,
+                DontCareMemo* memo)
+        : net_(net), o_(o), declared_(declared), ctx_(ctx), ws_(net, ctx.depthCap), memo_(memo) {}
 
     void run() {
         order_ = net_.topoOrder();
@@ -130,13 +131,22 @@ public:
         for (auto it = order_.rbegin(); it != order_.rend(); ++it) {
             if (examined >= o_.maxNodes) { ctx_.stats.add("limit-hit:dc-max-nodes", 1); break; }
             if (conflictsLeft_ <= 0) { ctx_.stats.add("limit-hit:dc-total-conflicts", 1); break; }
+            if (work_ > workLimit_) { ctx_.stats.add("limit-hit:dc-work-per-node", 1); break; }
             NodeId v = *it;
             if (!ws_.live(v)) continue;
+            std::uint64_t key = 0;
+            if (memo_) {
+                key = fingerprint(v);
+                if (memo_->fruitless.count(key)) { ++memoSkips_; continue; }
+            }
             ++examined;
+            const long long before = simplified_;
             node(v);
+            if (memo_ && simplified_ == before) memo_->fruitless.insert(key);
             if (pendingBits_ > 0 && pendingDirty_) flushPending();
         }
         ctx_.stats.add("nodes-examined", static_cast<long long>(examined));
+        if (memoSkips_) ctx_.stats.add("nodes-unchanged", memoSkips_);
         ctx_.stats.add("nodes-simplified", simplified_);
         ctx_.stats.add("complemented", complemented_);
         ctx_.stats.add("literals-saved", saved_);
@@ -228,6 +238,24 @@ private:
         }
     }
 
+    // The node's cover, its fanins' and its fanouts' covers, and whether it drives an output.
+    std::uint64_t fingerprint(NodeId v) const {
+        algebra::CoverHash h;
+        auto mix = [](std::uint64_t a, std::uint64_t b) {
+            return a ^ (b + 0x9e3779b97f4a7c15ull + (a << 6) + (a >> 2));
+        };
+        const Cover& f = net_.node(v).cover;
+        std::uint64_t k = mix(h(f), ws_.outputRefs(v));
+        for (const Cube& c : f.cubes)
+            for (Literal l : c.lits) {
+                const NodeId u = literalVar(l);
+                if (net_.isLogic(u)) k = mix(k, h(net_.node(u).cover));
+            }
+        std::uint64_t fo = 0;   // fanout order is not canonical: combine commutatively
+        for (NodeId g : ws_.fanouts(v)) fo += mix(g, h(net_.node(g).cover));
+        return mix(k, fo);
+    }
+
     // ---- one node -------------------------------------------------------------
 
     void node(NodeId v) {
@@ -256,6 +284,7 @@ private:
         }
         if (edges.empty()) return;   // nothing observes the node (dead logic: tidy removes it)
 
+        work_ += static_cast<std::int64_t>(window.size() * words_);
         // Which fanin values are observed, by simulation.
         const std::size_t tableBits = std::size_t{1} << k;
         std::vector<std::uint8_t> care(tableBits, 0);
@@ -358,24 +387,45 @@ private:
 
     bool confirm(NodeId v, const std::vector<std::uint32_t>& fanins, const std::vector<NodeId>& window,
                  std::size_t, std::vector<std::uint8_t>& care) {
-        // The cone: every node the window and the fanins read, transitively.
+        // The cone: the nodes the window and the fanins read, up to
+        // coneLevels levels back (breadth first). Nodes at the last level are
+        // free variables: they may then take values no input pattern gives,
+        // which can only mark more values as care — never fewer — so the
+        // don't-cares found stay sound, and a query costs the window's
+        // neighbourhood instead of the whole cone.
         std::vector<NodeId> cone;
-        std::vector<NodeId> stack(window.begin(), window.end());
-        for (auto f : fanins) stack.push_back(f);
+        std::vector<std::uint8_t>& freeVar = free_;
+        freeVar.resize(net_.nodeCount(), 0);
         seen_.resize(net_.nodeCount(), 0);
-        while (!stack.empty()) {
-            NodeId u = stack.back();
-            stack.pop_back();
-            if (seen_[u]) continue;
+        auto visit = [&](NodeId u) {
+            if (seen_[u]) return;
             seen_[u] = 1;
             cone.push_back(u);
-            if (net_.isLogic(u))
-                for (const Cube& c : net_.node(u).cover.cubes)
-                    for (Literal l : c.lits)
-                        if (!seen_[literalVar(l)]) stack.push_back(literalVar(l));
+        };
+        for (NodeId u : window) visit(u);
+        for (auto f : fanins) visit(f);
+        std::size_t levelEnd = cone.size();
+        int level = 0;
+        for (std::size_t i = 0; i < cone.size(); ++i) {
+            if (i == levelEnd) { ++level; levelEnd = cone.size(); }
+            const NodeId u = cone[i];
+            if (!net_.isLogic(u)) continue;
+            if (level >= o_.coneLevels && !std::binary_search(window.begin(), window.end(), u,
+                                                              [&](NodeId a, NodeId b) { return pos_[a] < pos_[b]; })) {
+                freeVar[u] = 1;
+                continue;
+            }
+            for (const Cube& c : net_.node(u).cover.cubes)
+                for (Literal l : c.lits) visit(literalVar(l));
+            if (cone.size() > o_.coneLimit) break;
         }
         for (NodeId u : cone) seen_[u] = 0;
-        if (cone.size() > o_.coneLimit) { ++coneSkips_; return false; }
+        work_ += static_cast<std::int64_t>(cone.size());
+        if (cone.size() > o_.coneLimit) {
+            for (NodeId u : cone) freeVar[u] = 0;
+            ++coneSkips_;
+            return false;
+        }
         std::sort(cone.begin(), cone.end(), [&](NodeId a, NodeId b) {
             const bool la = net_.isLogic(a), lb = net_.isLogic(b);
             if (la != lb) return !la;
@@ -397,9 +447,10 @@ private:
         };
         for (NodeId u : cone) {
             if (u == 0) continue;
-            if (!net_.isLogic(u)) x[u] = ++nextVar;
+            if (!net_.isLogic(u) || freeVar[u]) x[u] = ++nextVar;
             else x[u] = encodeCover(s, nextVar, net_.node(u).cover, litX);
         }
+        for (NodeId u : cone) freeVar[u] = 0;
         auto litY = [&](Literal l) {
             auto it = y.find(literalVar(l));
             int b = it != y.end() ? it->second : x.at(literalVar(l));
@@ -519,7 +570,7 @@ private:
     detail::Workspace ws_;
     std::vector<NodeId> order_;
     std::vector<std::uint32_t> pos_;
-    std::vector<std::uint8_t> seen_;
+    std::vector<std::uint8_t> seen_, free_;
     bool exhaustive_ = false;
     std::size_t words_ = 0;
     std::vector<Words> vals_;
@@ -528,24 +579,30 @@ private:
     int pendingBits_ = 0;
     bool pendingDirty_ = false;
     std::int64_t conflictsLeft_ = 0;
+    std::int64_t work_ = 0, workLimit_ = 0;   // window simulations and encoded cone nodes
     long long simplified_ = 0, complemented_ = 0, saved_ = 0, queries_ = 0, cexes_ = 0;
-    long long coneSkips_ = 0, budgetSkips_ = 0, refineSkips_ = 0;
+    long long coneSkips_ = 0, budgetSkips_ = 0, refineSkips_ = 0, memoSkips_ = 0;
+    DontCareMemo* memo_ = nullptr;
 
 public:
-    void setBudget(std::int64_t c) { conflictsLeft_ = c; }
+    void setBudget(std::int64_t c, std::int64_t work) {
+        conflictsLeft_ = c;
+        workLimit_ = work;
+    }
 };
 
 } // namespace
 
 void minimiseWithDontCares(net::Network& net, const DontCareOptions& opts, const net::Network* declared,
-                           PassContext& ctx) {
+                           PassContext& ctx, DontCareMemo* memo) {
     if (net.inputs().empty()) return;
     if (net.logicCount() > opts.maxNetworkNodes) {
         ctx.stats.add("limit-hit:dc-max-network-nodes", 1);
         return;
     }
-    DontCareRun run(net, opts, declared, ctx);
-    run.setBudget(opts.totalConflicts);
+    DontCareRun run(net, opts, declared, ctx, memo);
+    run.setBudget(opts.totalConflicts,
+                  opts.workPerNode * static_cast<std::int64_t>(std::max<std::size_t>(net.logicCount(), 64)));
     run.run();
 }
 

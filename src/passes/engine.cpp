@@ -164,6 +164,10 @@ const std::vector<LimitInfo>& limitTable() {
         sub("dc-window-nodes", "fanout nodes re-simulated to judge observability", &EngineLimits::dontCares,
             &DontCareOptions::windowNodes),
         sub("dc-cone-limit", "nodes in one SAT query", &EngineLimits::dontCares, &DontCareOptions::coneLimit),
+        sub("dc-cone-levels", "levels of logic one SAT query reaches back (further nodes are free)",
+            &EngineLimits::dontCares, &DontCareOptions::coneLevels, 1),
+        sub("dc-work-per-node", "work of one don't-care move per network node (patterns simulated, nodes encoded)",
+            &EngineLimits::dontCares, &DontCareOptions::workPerNode, 1),
         sub("dc-query-conflicts", "SAT conflicts of one query", &EngineLimits::dontCares,
             &DontCareOptions::conflictsPerQuery),
         sub("dc-refinements", "counterexamples taken per node", &EngineLimits::dontCares,
@@ -232,10 +236,11 @@ public:
             x.growth = growth;
             s.push_back(std::move(x));
         };
-        add("minimise-nodes", [L](net::Network& n, PassContext& c) {
+        ShrinkMemo* shrinkMemo = shrinkMemo_;
+        add("minimise-nodes", [L, shrinkMemo](net::Network& n, PassContext& c) {
             ShrinkOptions o;
             o.minimize = L.minimize;
-            shrinkNodes(n, o, c);
+            shrinkNodes(n, o, c, shrinkMemo);
         });
         add("extract-divisors", [L](net::Network& n, PassContext& c) {
             ShareDivisorsOptions o = L.divisors;
@@ -255,8 +260,10 @@ public:
                 opts_.dontCares && !opts_.dontCares->outputs().empty() ? opts_.dontCares : nullptr;
             DontCareOptions o = L.dontCares;
             if (!L.impliedDontCares) o.maxNodes = 0;   // declared only: outputs' drivers (see dont_cares.cpp)
-            add("dont-care-minimise",
-                [o, declared](net::Network& n, PassContext& c) { minimiseWithDontCares(n, o, declared, c); });
+            DontCareMemo* memo = dcMemo_;
+            add("dont-care-minimise", [o, declared, memo](net::Network& n, PassContext& c) {
+                minimiseWithDontCares(n, o, declared, c, memo);
+            });
         }
         if (withRegroup) {
             std::vector<int> growths = {0};
@@ -336,6 +343,8 @@ private:
             // Regroup: re-optimise what dissolving left, then value the end result.
             std::vector<Source> inner = makeSources(false);
             Scheduler sub(opts_, res_, cache_, passCap_, measureCap_, gateCeiling_);
+            sub.dcMemo_ = dcMemo_;
+            sub.shrinkMemo_ = shrinkMemo_;
             m = sub.run(*trial, m, inner, opts_.limits.regroupTrials, false);
         }
         for (const auto& [k, v] : ctx.stats.items())
@@ -409,6 +418,10 @@ private:
     std::size_t passCap_;
     int measureCap_;
     long long gateCeiling_;
+
+public:
+    DontCareMemo* dcMemo_ = nullptr;   // shared by the whole run (see DontCareMemo)
+    ShrinkMemo* shrinkMemo_ = nullptr; // shared by the whole run (see ShrinkMemo)
 };
 
 bool better(Goal goal, const net::Metrics& a, const net::Metrics& b) {
@@ -504,6 +517,10 @@ EngineResult restructure(net::Network& net, const EngineOptions& opts) {
                                                         : static_cast<std::size_t>(inputDepth);
     const net::Network original = net;
     Scheduler sched(opts, res, cache, passCap, measureCap, static_cast<long long>(res.before.gates));
+    DontCareMemo dcMemo;
+    sched.dcMemo_ = &dcMemo;
+    ShrinkMemo shrinkMemo;
+    sched.shrinkMemo_ = &shrinkMemo;
     std::vector<Source> sources = sched.makeSources(true);
     sched.run(net, res.before, sources, opts.limits.trials, true);
     tidy(net);

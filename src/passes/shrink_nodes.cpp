@@ -18,9 +18,9 @@ namespace kerf::passes {
 
 using algebra::Cover;
 
-void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx) {
+void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx, ShrinkMemo* memo) {
     detail::Workspace ws(net, ctx.depthCap);
-    long shrunk = 0, complemented = 0, saved = 0, rejected = 0;
+    long shrunk = 0, complemented = 0, saved = 0, rejected = 0, remembered = 0;
     for (net::NodeId v : net.topoOrder()) {
         if (!ws.live(v)) continue;
         const Cover& cv = ws.cover(v);
@@ -29,9 +29,12 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx)
         // Very large covers over many variables: nothing but containment would
         // run on them, and that is quadratic; leave them alone.
         if (cv.cubes.size() > 4 * opts.minimize.maxHeuristicCubes && cv.support().size() > 16) continue;
+        const bool read = !ws.fanouts(v).empty() || ws.outputRefs(v) > 0;
+        const std::uint64_t key = memo ? algebra::CoverHash{}(cv) : 0;
+        if (memo && read && memo->minimal.count(key)) { ++remembered; continue; }
         Cover best = minimize::minimizeCover(cv, opts.minimize);
         bool flip = false;
-        if (opts.allowComplement && (!ws.fanouts(v).empty() || ws.outputRefs(v) > 0)) {
+        if (opts.allowComplement && read) {
             Cover comp;
             if (minimize::complementCover(cv, comp, 4 * cv.cubes.size() + 16, opts.minimize)) {
                 std::size_t lc = detail::lits(comp), lb = detail::lits(best);
@@ -43,7 +46,10 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx)
         }
         std::size_t after = detail::lits(best);
         bool better = after < before || (after == before && best.cubes.size() < cv.cubes.size());
-        if (!better) continue;
+        if (!better) {
+            if (memo && read) memo->minimal.insert(key);
+            continue;
+        }
         ws.begin();
         if (flip) {
             ws.flipNode(v, std::move(best));
@@ -60,6 +66,7 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx)
     ctx.stats.add("complemented", complemented);
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("depth-rejects", rejected);
+    if (remembered) ctx.stats.add("known-minimal", remembered);
 }
 
 } // namespace kerf::passes

@@ -158,7 +158,9 @@ Figures runCase(net::Network net, const std::string& effort, int verbose, const 
     return f;
 }
 
-// Run `work` in a child; returns its figures and peak RSS (KiB).
+double gLastCpu = 0;   // user CPU seconds of the last isolated run (the machine is shared: wall time is noisy)
+
+// Run `work` in a child; returns its figures and peak RSS (KiB); its user CPU time in gLastCpu.
 template <typename Work>
 bool isolated(Work work, Figures& out, long& rssKiB) {
     int fd[2];
@@ -179,6 +181,7 @@ bool isolated(Work work, Figures& out, long& rssKiB) {
     struct rusage ru {};
     wait4(pid, &status, 0, &ru);
     rssKiB = ru.ru_maxrss;
+    gLastCpu = static_cast<double>(ru.ru_utime.tv_sec) + static_cast<double>(ru.ru_utime.tv_usec) / 1e6;
     out = f;
     return got == static_cast<ssize_t>(sizeof f) && WIFEXITED(status) && WEXITSTATUS(status) == 0;
 }
@@ -212,8 +215,8 @@ int main(int argc, char** argv) {
     int failures = 0;
     std::printf("effort: %s, goal: %s%s\n", effort.c_str(), gGoal.c_str(), gLimits.empty() ? "" : ", limits set:");
     for (const auto& l : gLimits) std::printf("  %s\n", l.c_str());
-    std::printf("%-14s %8s %8s %7s %7s %7s %9s %10s %s\n", "file", "gates", "after", "ratio", "depth", "after",
-                "seconds", "peakRSS", "notes");
+    std::printf("%-14s %8s %8s %7s %7s %7s %9s %9s %10s %s\n", "file", "gates", "after", "ratio", "depth", "after",
+                "seconds", "cpu", "peakRSS", "notes");
     double logSum = 0;
     int count = 0;
     const char* files[] = {"ctrl", "dec", "int2float", "router", "priority", "voter"};
@@ -239,15 +242,15 @@ int main(int argc, char** argv) {
             if (f.kept) notes += " input-kept";
             if (f.gatesAfter > f.gatesBefore) { notes += " GREW"; ++failures; }
             if (f.depthAfter > f.depthBefore) { notes += " DEEPER"; ++failures; }
-            std::printf("%-14s %8zu %8zu %7.3f %7zu %7zu %9.2f %8.1fMB%s\n", name, f.gatesBefore, f.gatesAfter, ratio,
-                        f.depthBefore, f.depthAfter, f.seconds, rss / 1024.0, notes.c_str());
+            std::printf("%-14s %8zu %8zu %7.3f %7zu %7zu %9.2f %9.2f %8.1fMB%s\n", name, f.gatesBefore, f.gatesAfter,
+                        ratio, f.depthBefore, f.depthAfter, f.seconds, gLastCpu, rss / 1024.0, notes.c_str());
             std::fflush(stdout);
         }
         if (count) std::printf("geometric mean ratio: %.3f over %d files\n", std::exp(logSum / count), count);
     }
     if (synthetic && (only.empty() || only == "synthetic")) {
-        std::printf("\n%-22s %8s %8s %9s %7s %7s %9s %10s\n", "synthetic decoder", "lits", "after", "gates", "after",
-                    "depth", "seconds", "peakRSS");
+        std::printf("\n%-22s %8s %8s %9s %7s %7s %9s %9s %10s\n", "synthetic decoder", "lits", "after", "gates", "after",
+                    "depth", "seconds", "cpu", "peakRSS");
         struct Cfg { std::size_t terms, inputs, outputs; };
         for (Cfg c : {Cfg{1000, 32, 16}, Cfg{10000, 48, 32}, Cfg{100000, 64, 64}}) {
             if (minTerms && c.terms < minTerms) continue;
@@ -262,8 +265,8 @@ int main(int argc, char** argv) {
                 ++failures;
                 continue;
             }
-            std::printf("%-22s %8zu %8zu %9zu %7zu %7zu %9.2f %8.1fMB%s\n", label.c_str(), f.litsBefore, f.litsAfter,
-                        f.gatesBefore, f.gatesAfter, f.depthAfter, f.seconds, rss / 1024.0,
+            std::printf("%-22s %8zu %8zu %9zu %7zu %7zu %9.2f %9.2f %8.1fMB%s\n", label.c_str(), f.litsBefore,
+                        f.litsAfter, f.gatesBefore, f.gatesAfter, f.depthAfter, f.seconds, gLastCpu, rss / 1024.0,
                         f.equivalent ? "" : " NOT-EQUIVALENT");
             if (!f.equivalent) ++failures;
             std::fflush(stdout);

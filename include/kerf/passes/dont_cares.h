@@ -17,6 +17,7 @@
 #include "kerf/passes/pass.h"
 
 #include <cstdint>
+#include <unordered_set>
 
 namespace kerf::passes {
 
@@ -26,6 +27,8 @@ struct DontCareOptions {
     int simulationWords = 32;           ///< otherwise this many words of 64 random patterns
     std::size_t windowNodes = 100;      ///< fanout nodes re-simulated to judge observability; the window's edge counts as observed
     std::size_t coneLimit = 1000;       ///< nodes in one SAT query; nodes needing more keep their cover
+    int coneLevels = 1000;              ///< levels of logic a SAT query reaches back; nodes beyond are free variables (sound, finds fewer)
+    std::int64_t workPerNode = 20000;   ///< work of one run (window patterns simulated + nodes encoded) per network node
     std::int64_t conflictsPerQuery = 2000;  ///< SAT conflicts of one query (past it: no don't-cares for that node)
     int refinementsPerNode = 24;        ///< counterexamples taken per node before it keeps its cover
     std::int64_t totalConflicts = 200000;   ///< SAT conflicts of one run
@@ -34,7 +37,16 @@ struct DontCareOptions {
     minimize::MinimizeOptions minimize;
 };
 
+/// Nodes already examined without result, by a fingerprint of the node's
+/// cover and its neighbours' covers. Shared across the runs of one engine
+/// run, so that a run on a network that changed in a few places examines
+/// mostly those places (a node whose neighbourhood is unchanged would most
+/// likely find nothing again; skipping it can only miss a gain).
+struct DontCareMemo {
+    std::unordered_set<std::uint64_t> fruitless;
+};
+
 void minimiseWithDontCares(net::Network& net, const DontCareOptions& opts, const net::Network* declared,
-                           PassContext& ctx);
+                           PassContext& ctx, DontCareMemo* memo = nullptr);
 
 } // namespace kerf::passes

@@ -11,6 +11,9 @@
 #include "kerf/passes/pass.h"
 #include "kerf/minimize/twolevel.h"
 
+#include <cstdint>
+#include <unordered_set>
+
 namespace kerf::passes {
 
 struct ShrinkOptions {
@@ -18,6 +21,14 @@ struct ShrinkOptions {
     bool allowComplement = true;   ///< a node may become its complement when that is cheaper
 };
 
-void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx);
+/// Covers already found minimal (by hash), shared across the runs of one
+/// engine run: minimisation is a function of the cover alone, so a run on a
+/// network that changed in a few places minimises only those places. (A
+/// hash collision can only leave a node unminimised, never change one.)
+struct ShrinkMemo {
+    std::unordered_set<std::uint64_t> minimal;
+};
+
+void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx, ShrinkMemo* memo = nullptr);
 
 } // namespace kerf::passes
