@@ -7,8 +7,16 @@ Runs kerf on the shared EPFL random/control files (published sizes in
 emit them), and prints one table. Gates are two-input AND/OR (inverters free)
 as `kerf stats` counts them.
 
-    python3 tests/bench/restructure_bench.py [--kerf build/kerf] [--effort default]
+    python3 tests/bench/restructure_bench.py [--kerf build/kerf] [--efforts fast,default,thorough]
            [--only NAME] [--synthetic 1000,10000,100000] [--no-proof]
+
+One row per design: the original gates and depth, then for each effort
+kerf's gates and depth, its user CPU seconds (end to end, reader and proof
+included: the machine is shared, so CPU time is more honest than wall time)
+and peak memory (the largest of kerf's and the reader's stages). The table of
+decoders with declared x defaults (with and without --keep-x) is printed by
+build/tests/bench/passes_bench until the front end fills the declared
+don't-cares (--keep-x).
 """
 import argparse
 import json
@@ -62,17 +70,18 @@ def run_kerf(kerf, path, effort, proof, top=None):
         wall = time.time() - t0
         if r.returncode != 0:
             return None, r.stderr[-2000:]
-        rss = int(re.search(r"Maximum resident set size \(kbytes\): (\d+)", r.stderr).group(1))
         j = json.load(open(rep))
         j["wall"] = wall
-        j["rss_mb"] = rss / 1024
+        j["cpu"] = float(re.search(r"User time \(seconds\): ([0-9.]+)", r.stderr).group(1))
+        stages = j.get("stages", [])
+        j["rss_mb"] = max([s.get("peak_memory_mb", 0) for s in stages] or [0])
         return j, None
 
 
 def main():
     p = argparse.ArgumentParser()
     p.add_argument("--kerf", default=os.path.join(ROOT, "build", "kerf"))
-    p.add_argument("--effort", default="default")
+    p.add_argument("--efforts", default="fast,default,thorough")
     p.add_argument("--only", default="")
     p.add_argument("--synthetic", default="1000,10000,100000")
     p.add_argument("--no-proof", action="store_true")
@@ -83,12 +92,14 @@ def main():
     if not os.path.isdir(epfl):
         print(f"EPFL benchmarks not found at {epfl}: skipping them")
         names = []
+    efforts = [e for e in a.efforts.split(",") if e]
+    print_header(efforts)
     for n in names:
         if a.only and a.only != n:
             continue
-        j, err = run_kerf(a.kerf, os.path.join(epfl, n + ".v"), a.effort, not a.no_proof)
-        rows.append((f"epfl/{n}", j, err))
-        print_row(rows[-1], flush=True)
+        path = os.path.join(epfl, n + ".v")
+        rows.append((f"epfl/{n}", [run_kerf(a.kerf, path, e, not a.no_proof) for e in efforts]))
+        print_row(rows[-1])
     with tempfile.TemporaryDirectory() as work:
         for t in [int(x) for x in a.synthetic.split(",") if x]:
             if a.only and a.only != f"dec{t}":
@@ -96,33 +107,35 @@ def main():
             inputs = 32 if t <= 1000 else 48 if t <= 10000 else 64
             path = os.path.join(work, f"synth_dec_{t}.v")
             decoder(path, t, inputs, 16, seed=t)
-            j, err = run_kerf(a.kerf, path, a.effort, not a.no_proof)
-            rows.append((f"synthetic {t} terms/{inputs} in", j, err))
-            print_row(rows[-1], flush=True)
-    ratios = [r[1]["after"]["gates"] / r[1]["before"]["gates"] for r in rows
-              if r[1] and r[0].startswith("epfl/") and r[1]["before"]["gates"]]
-    if ratios:
-        g = math.exp(sum(math.log(x) for x in ratios) / len(ratios))
-        print(f"\ngeometric mean of gates after/before over {len(ratios)} EPFL files: {g:.3f}")
+            rows.append((f"synthetic {t}/{inputs} in", [run_kerf(a.kerf, path, e, not a.no_proof) for e in efforts]))
+            print_row(rows[-1])
+    for k, e in enumerate(efforts):
+        ratios = [r[1][k][0]["after"]["gates"] / r[1][k][0]["before"]["gates"] for r in rows
+                  if r[1][k][0] and r[0].startswith("epfl/") and r[1][k][0]["before"]["gates"]]
+        if ratios:
+            g = math.exp(sum(math.log(x) for x in ratios) / len(ratios))
+            print(f"geometric mean of gates after/before over {len(ratios)} EPFL files, effort {e}: {g:.3f}")
 
 
-HEADER_DONE = [False]
+def print_header(efforts):
+    head = f"{'design':24} {'gates':>6} {'depth':>5}"
+    for e in efforts:
+        head += f" | {e + ' gates':>14} {'depth':>5} {'cpu s':>7} {'MB':>5}"
+    print(head, flush=True)
 
 
-def print_row(row, flush=False):
-    if not HEADER_DONE[0]:
-        print(f"{'design':28} {'gates':>7} {'->':>7} {'ratio':>6} {'depth':>5} {'->':>4} "
-              f"{'passes s':>8} {'proof s':>7} {'wall s':>7} {'peak MB':>8}")
-        HEADER_DONE[0] = True
-    name, j, err = row
-    if j is None:
-        print(f"{name:28} FAILED: {err}")
-        return
-    b, af = j["before"], j["after"]
-    ratio = af["gates"] / b["gates"] if b["gates"] else 1.0
-    proof = j.get("proof", {}).get("seconds", float("nan"))
-    print(f"{name:28} {b['gates']:7} {af['gates']:7} {ratio:6.3f} {b['depth']:5} {af['depth']:4} "
-          f"{j['seconds']['passes']:8.2f} {proof:7.2f} {j['wall']:7.2f} {j['rss_mb']:8.1f}", flush=flush)
+def print_row(row):
+    name, results = row
+    line = None
+    for j, err in results:
+        if j is None:
+            print(f"{name:24} FAILED: {err}", flush=True)
+            return
+        if line is None:
+            line = f"{name:24} {j['before']['gates']:6} {j['before']['depth']:5}"
+        line += f" | {j['after']['gates']:14} {j['after']['depth']:5} {j['cpu']:7.2f} {j['rss_mb']:5}"
+    print(line, flush=True)
+
 
 
 if __name__ == "__main__":
