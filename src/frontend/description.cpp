@@ -259,6 +259,7 @@ private:
     void parseSignals(const json& root);
     void parseParameters(const json& root);
     void parseMembers(const json& root);
+    void parseFunctions(const json& root);
     void validateExprs();
     void validateStmts();
     void checkOwnership();
@@ -381,6 +382,19 @@ void DescriptionBuilder::addExpr(const json& e) {
         need(5);
         x.kind = ExprKind::Convert;
         x.a = operand(4);
+    } else if (kind == "call") {
+        need(6);
+        x.kind = ExprKind::Call;
+        x.a = asIndex(e[4], where + " function");
+        if (x.a == kNoId) invalid(where + " names no function");
+        if (!e[5].is_array()) invalid(where + ": call arguments are not a list");
+        x.b = static_cast<std::uint32_t>(ir().lists.size());
+        for (std::size_t k = 0; k < e[5].size(); ++k) {
+            std::uint32_t o = asIndex(e[5][k], where);
+            if (o == kNoId || o >= id) invalid(where + " names an argument that does not precede it");
+            ir().lists.push_back(o);
+        }
+        x.c = static_cast<std::uint32_t>(e[5].size());
     } else {
         invalid(fmt::format("{} has the unknown kind '{}'", where, kind));
     }
@@ -442,11 +456,16 @@ void DescriptionBuilder::addStmt(const json& s) {
         if (!s[6].is_array()) invalid(where + ": case items are not a list");
         x.b = static_cast<std::uint32_t>(ir().caseItems.size());
         for (const auto& it : s[6]) {
-            if (!it.is_array() || it.size() != 2) invalid(where + ": malformed case item");
+            if (!it.is_array() || (it.size() != 2 && it.size() != 3)) invalid(where + ": malformed case item");
             CaseItem ci;
             ci.exprs = listOf(it[0], where + " item");
             ci.count = static_cast<std::uint32_t>(it[0].size());
             ci.body = child(it[1], false);
+            if (it.size() == 3) {
+                if (!it[2].is_array() || it[2].size() != it[0].size()) invalid(where + ": malformed item conditions");
+                ci.conditions = static_cast<std::uint32_t>(ir().itemIsCondition.size());
+                for (const auto& f : it[2]) ir().itemIsCondition.push_back(asInt(f, where) != 0);
+            }
             ir().caseItems.push_back(ci);
         }
         x.c = static_cast<std::uint32_t>(s[6].size());
@@ -749,11 +768,56 @@ void DescriptionBuilder::parseMembers(const json& root) {
     }
 }
 
+void DescriptionBuilder::parseFunctions(const json& root) {
+    if (!root.contains("functions")) return;
+    const json& fns = root["functions"];
+    if (!fns.is_array()) invalid("'functions' is not a list");
+    for (std::size_t i = 0; i < fns.size(); ++i) {
+        const json& fj = fns[i];
+        std::string where = fmt::format("function {}", i);
+        Function f;
+        f.name = str(fj, "name", where);
+        f.automatic = flag(fj, "automatic", where);
+        SourceRange src = parseRange(field(fj, "src", where), where);
+        f.file = src.file;
+        f.loc = src.loc();
+        f.body = asIndex(field(fj, "body", where), where + " body");
+        if (f.body >= m.ir.stmts.size()) invalid(where + " names an unknown statement");
+        const json& locals = field(fj, "locals", where);
+        if (!locals.is_array()) invalid(where + ": locals are not a list");
+        for (const auto& l : locals) {
+            std::string lw = where + " local";
+            Signal sg = parseSignal(l, lw);
+            Symbol y = symbolOf(sg, m.ir, lw);
+            y.local = true;
+            y.function = static_cast<int>(i);
+            std::int64_t id = num(l, "id", lw);
+            placeSymbol(m.ir, id, std::move(y), lw);
+            f.locals.push_back(static_cast<SymbolId>(id));
+        }
+        auto ownLocal = [&](std::int64_t id, const std::string& what) {
+            if (std::find(f.locals.begin(), f.locals.end(), static_cast<SymbolId>(id)) == f.locals.end())
+                invalid(fmt::format("{}: its {} is not one of its locals", where, what));
+            return static_cast<SymbolId>(id);
+        };
+        f.result = ownLocal(num(fj, "result", where), "result");
+        const json& args = field(fj, "args", where);
+        if (!args.is_array()) invalid(where + ": arguments are not a list");
+        for (const auto& a : args) f.args.push_back(ownLocal(asInt(a, where), "argument"));
+        m.ir.functions.push_back(std::move(f));
+    }
+}
+
 SourceLoc DescriptionBuilder::exprLoc(ExprId id) const {
     int owner = exprMember(id);
     if (owner < 0) return {};
     const Expr& e = m.ir.exprs[id];
-    return m.locate(m.members[static_cast<std::size_t>(owner)], e.start);
+    std::size_t o = static_cast<std::size_t>(owner);
+    if (o < m.members.size()) return m.locate(m.members[o], e.start);
+    o -= m.members.size();
+    if (o >= m.ir.functions.size()) return {};
+    SourceLoc l = m.ir.locate(m.ir.functions[o].file, e.start);
+    return l.file.empty() ? m.ir.functions[o].loc : l;
 }
 
 void DescriptionBuilder::validateExprs() {
@@ -795,6 +859,13 @@ void DescriptionBuilder::validateExprs() {
                 std::int64_t span = std::abs(static_cast<std::int64_t>(e.left()) - e.right()) + 1;
                 if (static_cast<std::uint64_t>(span) * ew != e.width) fail("part select bounds do not match its width");
             }
+            break;
+        }
+        case ExprKind::Call: {
+            if (e.a >= r.functions.size()) fail("calls an unknown function");
+            const Function& fn = r.functions[e.a];
+            if (e.c != fn.args.size()) fail("calls a function with the wrong number of arguments");
+            if (r.symbols[fn.result].width != static_cast<int>(e.width)) fail("call width differs from the function's");
             break;
         }
         default:
@@ -852,6 +923,10 @@ void DescriptionBuilder::checkOwnership() {
             own(stmtOwner_, mem.body, mem.id, "statement");
         }
     }
+    // A function's body is its own owner, after the members.
+    const int firstFunction = static_cast<int>(m.members.size());
+    for (std::size_t f = 0; f < r.functions.size(); ++f)
+        own(stmtOwner_, r.functions[f].body, firstFunction + static_cast<int>(f), "statement");
     for (std::size_t i = r.stmts.size(); i-- > 0;) {
         int o = stmtOwner_[i];
         if (o < 0) continue;
@@ -889,7 +964,8 @@ void DescriptionBuilder::checkOwnership() {
                 if (v >= r.symbols.size() || r.symbols[v].name.empty())
                     invalid(fmt::format("statement {}: loop variable is not a symbol", i));
                 const Symbol& y = r.symbols[v];
-                if (!y.local || y.member != o) invalid(fmt::format("statement {}: loop variable of another block", i));
+                bool mine = y.function >= 0 ? o == firstFunction + y.function : y.member == o;
+                if (!y.local || !mine) invalid(fmt::format("statement {}: loop variable of another block", i));
             }
     }
     for (std::size_t i = r.exprs.size(); i-- > 0;) {
@@ -903,10 +979,14 @@ void DescriptionBuilder::checkOwnership() {
             if (e.a >= r.symbols.size() || r.symbols[e.a].name.empty())
                 invalid(fmt::format("expression {} names an unknown symbol", i), exprLoc(static_cast<ExprId>(i)));
             const Symbol& y = r.symbols[e.a];
-            if (y.local && y.member != o)
+            bool mine = y.function >= 0 ? o == firstFunction + y.function : y.member == o;
+            if (y.local && !mine)
                 invalid(fmt::format("expression {} names a local of another block", i), exprLoc(static_cast<ExprId>(i)));
             break;
         }
+        case ExprKind::Call:
+            for (std::uint32_t k = 0; k < e.c; ++k) ex(r.lists[e.b + k]);
+            break;
         case ExprKind::Unary: case ExprKind::Convert: ex(e.a); break;
         case ExprKind::Replicate: ex(e.a); break;
         case ExprKind::Binary: case ExprKind::Index: case ExprKind::Indexed: ex(e.a); ex(e.b); break;
@@ -951,6 +1031,7 @@ void DescriptionBuilder::finish(const json& root) {
         if (s.type != kNoId && s.type >= m.ir.types.size()) invalid("signal '" + name + "' names an unknown type");
     parseMembers(root);
     parseParameters(root);
+    parseFunctions(root);
     validateExprs();
     validateStmts();
     checkOwnership();

@@ -87,6 +87,7 @@ inline int dimOffset(int index, int msb, int lsb) { return msb >= lsb ? index - 
 /// environment maps each symbol the block writes to its current bit values.
 struct Env {
     std::map<SymbolId, Bits> vars;
+    Env* parent = nullptr;   ///< a function's environment: the caller's, for module signals
 };
 
 /// Thrown while lowering a member that must be kept as written after all
@@ -143,11 +144,15 @@ public:
     Lits add(const Lits& a, const Lits& b, Literal cin);
     Lits mul(const Lits& a, const Lits& b, int w);
     Lits shift(const Lits& a, const Lits& amount, bool left, Literal fill, int w);
+    /// Quotient (or remainder) of w-bit values, truncating toward zero (11.4.2); `b` not 0.
+    Lits divide(const Lits& a, const Lits& b, bool isSigned, bool remainder);
     /// Literal true when `idx` (its own width and signedness) equals the position `p`;
     /// false when `p` is a value `idx` cannot take.
     Literal indexIs(const Lits& idx, bool isSigned, std::int64_t p);
     Bits selectElement(const Bits& v, const Bits& idx, bool idxSigned, int msb, int lsb, int ew);
     Bits evalRef(SymbolId s, int width);
+    /// The value of a call: the function's body run on the arguments (its locals are its own).
+    Bits callFunction(std::uint32_t f, const std::vector<Bits>& args, int width);
     Bits readBits(SymbolId s, const std::vector<int>& offs);
     Bits wordOp(ExprId e, int w, std::string_view op, bool unary, const Bits* a, const Bits* b, Literal x,
                 Literal sx);
@@ -192,6 +197,8 @@ public:
     // On a loop the tail of this chain from the repeated member names the loop.
     std::vector<std::pair<int, SymbolId>> resolving_;
     int stmtDepth_ = 0;
+    int callDepth_ = 0;
+    const Function* function_ = nullptr;       // the function whose body is being lowered, if any
     int wordCount_ = 0;
     std::set<std::string> usedNames_;
 };

@@ -32,6 +32,10 @@ void Lowerer::keep(const std::string& reason) const {
 }
 
 SourceLoc Lowerer::here(std::uint32_t start) const {
+    if (function_) {
+        SourceLoc l = start == kNoId ? SourceLoc{} : ir_.locate(function_->file, start);
+        return l.file.empty() ? function_->loc : l;
+    }
     if (!current_) return {};
     return m_.locate(*current_, start);
 }
@@ -66,17 +70,24 @@ void Lowerer::recordBit(SymbolId s, int off, Bit b) {
 }
 
 Bit Lowerer::signalBit(SymbolId s, int off) {
-    if (env_) {
-        auto it = env_->vars.find(s);
-        if (it != env_->vars.end() && off < static_cast<int>(it->second.size())) {
+    // Innermost environment first: a function's locals, then its caller's block.
+    for (Env* e = env_; e; e = e->parent) {
+        auto it = e->vars.find(s);
+        if (it == e->vars.end()) continue;
+        if (off < static_cast<int>(it->second.size())) {
             Bit l = it->second[off];
             if (!isSentinel(l)) return l;
             if (l.v != kExternal) {
+                if (ir_.symbols[s].function >= 0)   // a static function's variable from an earlier call
+                    keep(fmt::format("the function '{}' reads '{}' before assigning it",
+                                     ir_.functions[static_cast<std::size_t>(ir_.symbols[s].function)].name,
+                                     ir_.symbols[s].name));
                 const char* what = isLocal(s) ? "is read before it is assigned"
                                               : "is read before this block assigns it (a combinational loop or a latch)";
                 fail(fmt::format("'{}' {}", ir_.symbols[s].name, what), current_->src.loc());
             }
         }
+        break;
     }
     if (isLocal(s)) fail(fmt::format("'{}' is read outside its block", ir_.symbols[s].name), here(kNoId), ExitCode::Internal);
     if (cut_[s]) return inputBit(s, off);

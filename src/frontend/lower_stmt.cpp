@@ -24,46 +24,110 @@ constexpr int kMaxLoopIterations = 65536;
 
 // ---- what a member touches --------------------------------------------------------
 
-std::vector<ExprId> memberExprs(const Ir& ir, const Member& m) {
-    std::vector<ExprId> roots;
-    if (m.kind == MemberKind::Assign) {
-        roots = {m.lhs, m.rhs};
-    } else if (m.kind == MemberKind::Comb) {
-        std::vector<StmtId> work{m.body};
-        while (!work.empty()) {
-            const Stmt& s = ir.stmt(work.back());
-            work.pop_back();
-            switch (s.kind) {
-            case StmtKind::Block:
-                for (std::uint32_t k = 0; k < s.b; ++k) work.push_back(ir.lists[s.a + k]);
-                break;
-            case StmtKind::Assign: roots.push_back(s.a); roots.push_back(s.b); break;
-            case StmtKind::If:
-                roots.push_back(s.a);
-                work.push_back(s.b);
-                if (s.c != kNoId) work.push_back(s.c);
-                break;
-            case StmtKind::Case:
-                roots.push_back(s.a);
-                for (std::uint32_t k = 0; k < s.c; ++k) {
-                    const CaseItem& ci = ir.caseItems[s.b + k];
-                    for (std::uint32_t j = 0; j < ci.count; ++j) roots.push_back(ir.lists[ci.exprs + j]);
-                    work.push_back(ci.body);
-                }
-                if (s.d != kNoId) work.push_back(s.d);
-                break;
-            case StmtKind::For:
-                for (std::uint32_t k = 0; k < s.b; ++k) roots.push_back(ir.forInits[s.a + k].value);
-                roots.push_back(s.c);
-                for (std::uint32_t k = 0; k < s.e; ++k) work.push_back(ir.lists[s.d + k]);
-                work.push_back(s.f);
-                break;
-            case StmtKind::Empty: break;
+namespace {
+
+/// Root expressions of a statement tree (targets, values, conditions, case items, loop parts).
+void stmtRoots(const Ir& ir, StmtId root, std::vector<ExprId>& roots) {
+    std::vector<StmtId> work{root};
+    while (!work.empty()) {
+        const Stmt& s = ir.stmt(work.back());
+        work.pop_back();
+        switch (s.kind) {
+        case StmtKind::Block:
+            for (std::uint32_t k = 0; k < s.b; ++k) work.push_back(ir.lists[s.a + k]);
+            break;
+        case StmtKind::Assign: roots.push_back(s.a); roots.push_back(s.b); break;
+        case StmtKind::If:
+            roots.push_back(s.a);
+            work.push_back(s.b);
+            if (s.c != kNoId) work.push_back(s.c);
+            break;
+        case StmtKind::Case:
+            roots.push_back(s.a);
+            for (std::uint32_t k = 0; k < s.c; ++k) {
+                const CaseItem& ci = ir.caseItems[s.b + k];
+                for (std::uint32_t j = 0; j < ci.count; ++j) roots.push_back(ir.lists[ci.exprs + j]);
+                work.push_back(ci.body);
             }
+            if (s.d != kNoId) work.push_back(s.d);
+            break;
+        case StmtKind::For:
+            for (std::uint32_t k = 0; k < s.b; ++k) roots.push_back(ir.forInits[s.a + k].value);
+            roots.push_back(s.c);
+            for (std::uint32_t k = 0; k < s.e; ++k) work.push_back(ir.lists[s.d + k]);
+            work.push_back(s.f);
+            break;
+        case StmtKind::Empty: break;
         }
     }
+}
+
+/// Values a statement tree assigns (right-hand sides).
+void stmtValues(const Ir& ir, StmtId root, std::vector<ExprId>& values) {
+    std::vector<StmtId> work{root};
+    while (!work.empty()) {
+        const Stmt& st = ir.stmt(work.back());
+        work.pop_back();
+        switch (st.kind) {
+        case StmtKind::Block:
+            for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir.lists[st.a + k]);
+            break;
+        case StmtKind::Assign: values.push_back(st.b); break;
+        case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
+        case StmtKind::Case:
+            for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir.caseItems[st.b + k].body);
+            if (st.d != kNoId) work.push_back(st.d);
+            break;
+        case StmtKind::For: work.push_back(st.f); break;
+        case StmtKind::Empty: break;
+        }
+    }
+}
+
+void memberValues(const Ir& ir, const Member& mem, std::vector<ExprId>& values) {
+    if (mem.kind == MemberKind::Assign) values.push_back(mem.rhs);
+    else if (mem.kind == MemberKind::Comb) stmtValues(ir, mem.body, values);
+}
+
+/// Constants that can reach an assigned value unchanged: through ?: branches,
+/// concatenations, replications, conversions, selects, and the values a called
+/// function assigns. `each` is called on every such constant.
+template <typename F>
+void valueConstants(const Ir& ir, std::vector<ExprId> work, F each) {
+    std::set<std::uint32_t> functions;
+    std::set<ExprId> seen;
+    while (!work.empty()) {
+        ExprId id = work.back();
+        work.pop_back();
+        if (!seen.insert(id).second) continue;
+        const Expr& e = ir.expr(id);
+        switch (e.kind) {
+        case ExprKind::Const: each(id, e); break;
+        case ExprKind::Cond: work.push_back(e.b); work.push_back(e.c); break;
+        case ExprKind::Concat:
+            for (std::uint32_t k = 0; k < e.b; ++k) work.push_back(ir.lists[e.a + k]);
+            break;
+        case ExprKind::Replicate: case ExprKind::Convert: case ExprKind::Index: case ExprKind::Range:
+        case ExprKind::Indexed:
+            work.push_back(e.a);
+            break;
+        case ExprKind::Call:
+            if (functions.insert(e.a).second) stmtValues(ir, ir.functions[e.a].body, work);
+            break;
+        default: break;
+        }
+    }
+}
+
+} // namespace
+
+std::vector<ExprId> memberExprs(const Ir& ir, const Member& m) {
+    std::vector<ExprId> roots;
+    if (m.kind == MemberKind::Assign) roots = {m.lhs, m.rhs};
+    else if (m.kind == MemberKind::Comb) stmtRoots(ir, m.body, roots);
     std::vector<ExprId> out;
     std::unordered_set<ExprId> seen;
+    std::set<std::uint32_t> functions;
     std::vector<ExprId> work(roots.rbegin(), roots.rend());
     while (!work.empty()) {
         ExprId id = work.back();
@@ -88,6 +152,15 @@ std::vector<ExprId> memberExprs(const Ir& ir, const Member& m) {
         case ExprKind::Concat:
             for (std::uint32_t k = e.b; k-- > 0;) work.push_back(ir.lists[e.a + k]);
             break;
+        case ExprKind::Call: {
+            for (std::uint32_t k = e.c; k-- > 0;) work.push_back(ir.lists[e.b + k]);
+            if (functions.insert(e.a).second) {
+                std::vector<ExprId> fr;
+                stmtRoots(ir, ir.functions[e.a].body, fr);
+                work.insert(work.end(), fr.rbegin(), fr.rend());
+            }
+            break;
+        }
         }
     }
     return out;
@@ -120,6 +193,8 @@ bool refersOnlyToLocals(const Ir& ir, ExprId root) {
         case ExprKind::Concat:
             for (std::uint32_t k = 0; k < e.b; ++k) work.push_back(ir.lists[e.a + k]);
             break;
+        case ExprKind::Call:
+            return false;   // a function may read signals
         }
     }
     return true;
@@ -139,8 +214,6 @@ std::string targetReason(const Ir& ir, ExprId lv) {
             break;
         case ExprKind::Index: case ExprKind::Range: case ExprKind::Indexed:
             if (ir.expr(e.a).kind != ExprKind::Ref) return "a nested select on the left-hand side is left as written";
-            if (e.kind == ExprKind::Indexed && !refersOnlyToLocals(ir, e.b))
-                return "a part select with a variable base on the left-hand side is left as written";
             break;
         default:
             return "the left-hand side is not an assignable target";
@@ -149,115 +222,50 @@ std::string targetReason(const Ir& ir, ExprId lv) {
     return {};
 }
 
-/// True when a constant holding `c` ('z' or 'x') can reach the value of an assignment
-/// unchanged: through ?: branches, concatenations, replications, conversions and selects.
-bool valueCarries(const Ir& ir, ExprId rhs, char c) {
-    std::vector<ExprId> work{rhs};
-    while (!work.empty()) {
-        const Expr& e = ir.expr(work.back());
-        work.pop_back();
-        switch (e.kind) {
-        case ExprKind::Const:
-            for (std::uint32_t i = 0; i < e.width; ++i)
-                if (ir.constBit(e, i) == c) return true;
-            break;
-        case ExprKind::Cond: work.push_back(e.b); work.push_back(e.c); break;
-        case ExprKind::Concat:
-            for (std::uint32_t k = 0; k < e.b; ++k) work.push_back(ir.lists[e.a + k]);
-            break;
-        case ExprKind::Replicate: case ExprKind::Convert: case ExprKind::Index: case ExprKind::Range:
-        case ExprKind::Indexed:
-            work.push_back(e.a);
-            break;
-        default: break;
-        }
-    }
-    return false;
-}
-
 } // namespace
 
 void collectAssignedX(const Ir& ir, const Member& mem, std::set<ExprId>& out) {
     std::vector<ExprId> values;
-    if (mem.kind == MemberKind::Assign) values.push_back(mem.rhs);
-    else if (mem.kind == MemberKind::Comb) {
-        std::vector<StmtId> work{mem.body};
-        while (!work.empty()) {
-            const Stmt& st = ir.stmt(work.back());
-            work.pop_back();
-            switch (st.kind) {
-            case StmtKind::Block:
-                for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir.lists[st.a + k]);
-                break;
-            case StmtKind::Assign: values.push_back(st.b); break;
-            case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
-            case StmtKind::Case:
-                for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir.caseItems[st.b + k].body);
-                if (st.d != kNoId) work.push_back(st.d);
-                break;
-            case StmtKind::For: work.push_back(st.f); break;
-            case StmtKind::Empty: break;
-            }
-        }
-    }
-    // Constants reaching an assigned value unchanged: through ?: branches,
-    // concatenations, replications and conversions.
-    std::vector<ExprId> work(values.begin(), values.end());
-    while (!work.empty()) {
-        ExprId id = work.back();
-        work.pop_back();
-        const Expr& e = ir.expr(id);
-        switch (e.kind) {
-        case ExprKind::Const: out.insert(id); break;
-        case ExprKind::Cond: work.push_back(e.b); work.push_back(e.c); break;
-        case ExprKind::Concat:
-            for (std::uint32_t k = 0; k < e.b; ++k) work.push_back(ir.lists[e.a + k]);
-            break;
-        case ExprKind::Replicate: case ExprKind::Convert: work.push_back(e.a); break;
-        default: break;
-        }
-    }
+    memberValues(ir, mem, values);
+    valueConstants(ir, values, [&](ExprId id, const Expr&) { out.insert(id); });
 }
 
 std::string Lowerer::unsupportedReason(const Member& mem) const {
-    // Values assigned: an assign's right-hand side, every blocking assignment's.
+    // Values assigned, through the functions it calls: a z there drives z; an x there,
+    // with --keep-x, keeps the statement.
     std::vector<ExprId> values;
-    if (mem.kind == MemberKind::Assign) values.push_back(mem.rhs);
-    else {
-        std::vector<StmtId> work{mem.body};
-        while (!work.empty()) {
-            const Stmt& st = ir_.stmt(work.back());
-            work.pop_back();
-            switch (st.kind) {
-            case StmtKind::Block:
-                for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir_.lists[st.a + k]);
-                break;
-            case StmtKind::Assign: values.push_back(st.b); break;
-            case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
-            case StmtKind::Case:
-                for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir_.caseItems[st.b + k].body);
-                if (st.d != kNoId) work.push_back(st.d);
-                break;
-            case StmtKind::For: work.push_back(st.f); break;
-            case StmtKind::Empty: break;
-            }
+    memberValues(ir_, mem, values);
+    bool drivesZ = false, assignsX = false;
+    valueConstants(ir_, values, [&](ExprId, const Expr& e) {
+        for (std::uint32_t i = 0; i < e.width; ++i) {
+            char c = ir_.constBit(e, i);
+            drivesZ = drivesZ || c == 'z';
+            assignsX = assignsX || c == 'x';
         }
-    }
-    for (ExprId v : values) {
-        if (valueCarries(ir_, v, 'z')) return "it can drive z (a tri-state driver), which kerf always keeps as written";
-        if (opts_.keepX && valueCarries(ir_, v, 'x'))
-            return "it assigns x (a don't-care); --keep-x keeps it as written";
-    }
+    });
+    if (drivesZ) return "it can drive z (a tri-state driver), which kerf always keeps as written";
+    if (opts_.keepX && assignsX) return "it assigns x (a don't-care); --keep-x keeps it as written";
     for (ExprId id : memberExprs(ir_, mem)) {
         const Expr& e = ir_.expr(id);
         if (e.kind != ExprKind::Binary) continue;
         BinaryOp o = e.binaryOp();
-        if (o == BinaryOp::Div || o == BinaryOp::Mod || o == BinaryOp::Pow)
-            return fmt::format("operator '{}' is left as written", opText(o));
+        // Division, modulo and power by a constant (or a loop variable, constant once the
+        // loop is unrolled) are lowered; by a signal they stay as written.
+        if ((o == BinaryOp::Div || o == BinaryOp::Mod || o == BinaryOp::Pow) && !refersOnlyToLocals(ir_, e.b))
+            return fmt::format("operator '{}' with a variable right operand is left as written", opText(o));
     }
-    if (mem.kind == MemberKind::Assign) return targetReason(ir_, mem.lhs);
-    // Targets of every assignment, and the nesting depth (an `else if` chain counts once).
-    std::vector<std::pair<StmtId, int>> work{{mem.body, 0}};
+    // Targets of every assignment, and the nesting depth (an `else if` chain counts once),
+    // in the member and in the functions it calls.
+    std::vector<std::pair<StmtId, int>> work;
+    if (mem.kind == MemberKind::Assign) {
+        if (auto r = targetReason(ir_, mem.lhs); !r.empty()) return r;
+    } else {
+        work.push_back({mem.body, 0});
+    }
+    std::set<std::uint32_t> called;
+    for (ExprId id : memberExprs(ir_, mem))
+        if (ir_.expr(id).kind == ExprKind::Call && called.insert(ir_.expr(id).a).second)
+            work.push_back({ir_.functions[ir_.expr(id).a].body, 0});
     while (!work.empty()) {
         auto [id, depth] = work.back();
         work.pop_back();
@@ -449,7 +457,7 @@ void Lowerer::assignTarget(ExprId lvId, const Bits& rhs0, bool inBlock) {
         }
         return;
     }
-    // Indexed part select whose base is constant here (loop variables only).
+    // Indexed part select: the bits each base would write, merged under the base's value.
     if (auto k = constValue(idx)) {
         int n = std::abs(lv.msb - lv.lsb) + 1;
         int ew = std::max(1, pw / n);
@@ -462,7 +470,37 @@ void Lowerer::assignTarget(ExprId lvId, const Bits& rhs0, bool inBlock) {
             if (offLo + i >= 0 && offLo + i < pw) set(s, static_cast<int>(offLo + i), rhs[i]);
         return;
     }
-    fail("a variable part select on the left-hand side is not supported", here(lv.start));
+    {
+        int lo = std::min(lv.msb, lv.lsb), hi = std::max(lv.msb, lv.lsb);
+        int n = hi - lo + 1;
+        int ew = std::max(1, pw / n);
+        int count = std::max(1, w / ew);
+        Lits bv = values(idx);
+        Literal baseKnown = negateLiteral(anyX(idx));
+        for (std::int64_t start = static_cast<std::int64_t>(lo) - count + 1; start <= hi + count - 1; ++start) {
+            Literal sel = b_.and2(indexIs(bv, idxSigned, start), baseKnown);
+            if (sel == kFalse) continue;
+            std::int64_t first = lv.up ? start : start - count + 1;   // lowest index written
+            for (int el = 0; el < count; ++el) {
+                std::int64_t index = first + el;
+                if (index < lo || index > hi) continue;   // out of range: not written (11.5.1)
+                int off = dimOffset(static_cast<int>(index), lv.msb, lv.lsb);
+                int slot = lv.msb >= lv.lsb ? el : count - 1 - el;
+                for (int i = 0; i < ew; ++i) {
+                    int bit = off * ew + i;
+                    if (bit < 0 || bit >= pw) continue;
+                    Bit old = get(s, bit);
+                    const Bit& nv = rhs[static_cast<std::size_t>(slot * ew + i)];
+                    if (isSentinel(old)) {
+                        if (sel == kTrue) set(s, bit, nv);
+                        else set(s, bit, known(kPartial));
+                        continue;
+                    }
+                    set(s, bit, bMux(sel, nv, old));
+                }
+            }
+        }
+    }
 }
 
 // ---- statements ------------------------------------------------------------
@@ -598,7 +636,10 @@ void Lowerer::execCase(StmtId id) {
             const Expr& x = ir_.expr(xid);
             std::string pattern;
             Literal c;
-            if (x.kind == ExprKind::Const) {
+            if (ci.conditions != kNoId && ir_.itemIsCondition[ci.conditions + j]) {
+                allConst = false;
+                c = truth(eval(xid)).v;   // a range of a case inside: matches when true (x: no match)
+            } else if (x.kind == ExprKind::Const) {
                 // The item's bits, MSB first, extended to the case width.
                 std::string bits;
                 for (std::uint32_t i = x.width; i-- > 0;) bits.push_back(ir_.constBit(x, i));

@@ -165,6 +165,12 @@ class Tables:
         self.stmts = []     # statement arrays ("Statements")
         self.symbols = {}   # name of a module signal -> symbol index
         self.next_symbol = 0
+        self.functions = []     # FUNCTION entries, by index
+        self.fn_index = {}      # subroutine symbol -> index, or the reason it is not described
+        self.fn_busy = set()    # functions being described (a call back into one is recursion)
+        # Everything up to here belongs to described functions: a member dropped later
+        # must not take it along.
+        self.watermark = (0, 0, 0)
 
     def new_symbol(self):
         i = self.next_symbol
@@ -196,12 +202,16 @@ class Conv:
         self.shared = {}          # leaf key -> node index (leaves shared within the member)
         self.shared_ids = set()
         self.depth = 0
+        self.function = None      # the function's return variable (symbol index) in function mode
+        self.tail = False         # the statement being converted is the last one on its path
 
     def drop(self):
-        """Forget every node this member added (it is kept after all)."""
-        del self.ex[self.mark[0]:]
-        del self.st[self.mark[1]:]
-        self.t.next_symbol = self.mark[2]
+        """Forget every node this member added (it is kept after all). Nodes of functions
+        described meanwhile stay (the member's nodes before them are left unused)."""
+        w = self.t.watermark
+        del self.ex[max(self.mark[0], w[0]):]
+        del self.st[max(self.mark[1], w[1]):]
+        self.t.next_symbol = max(self.mark[2], w[2])
         self.shared.clear()
         self.shared_ids.clear()
 
@@ -625,7 +635,18 @@ class Conv:
         c = self.fold(e)
         if c is not None:
             return c
-        raise Unsupported("calls the function '%s'" % e.subroutineName)
+        sub = e.subroutine
+        if not isinstance(sub, ast.SubroutineSymbol):
+            raise Unsupported("calls the function '%s'" % e.subroutineName)
+        fi = self.d.function_index(sub)
+        formals = list(sub.arguments)
+        actuals = list(e.arguments)
+        if len(formals) != len(actuals):
+            raise Unsupported("calls the function '%s' with arguments kerf cannot match" % sub.name)
+        args = [self.expr(a) for a in actuals]
+        self.reads.update(self.t.functions[fi]["reads"])
+        ti = self.type_of(e)
+        return self.add(["call", ti] + list(self.span(e)) + [fi, args])
 
     # -- lvalues -------------------------------------------------------------------
 
@@ -715,6 +736,15 @@ class Conv:
 
     def stmt(self, s):
         k = s.kind
+        if k == STK.Return and self.function is not None:
+            # `return e;` as the last statement on its path: the result is e.
+            if not self.tail:
+                raise Unsupported("returns from the middle of the function")
+            if s.expr is None:
+                raise Unsupported("returns without a value")
+            ti, idx = self.function
+            lhs = self.leaf(("r", ti, idx), ["ref", ti, -1, -1, idx])
+            return self.add_stmt(["assign"] + self.sspan(s) + [lhs, self.expr(s.expr)])
         if k == STK.Block:
             if s.blockKind != ast.StatementBlockKind.Sequential:
                 raise Unsupported("contains a fork-join block")
@@ -751,13 +781,25 @@ class Conv:
         if k == STK.Case:
             sel = self.expr(s.expr)
             items = []
+            bit = self.types.vector(1, False)
             for g in s.items:
                 exprs = []
+                conds = []
                 for x in g.expressions:
                     if x.kind == EK.ValueRange:
-                        raise Unsupported("contains a case inside with a value range")
-                    exprs.append(self.expr(x))
-                items.append([exprs, self.stmt_or_empty(g.stmt)])
+                        # `[lo:hi]` of a case inside: a condition, lo <= selector <= hi (12.5.4, 11.4.13)
+                        if x.syntax is not None and ("+/-" in str(x.syntax) or "+%-" in str(x.syntax)):
+                            raise Unsupported("contains a case inside range with a tolerance")
+                        sp = list(self.span(x))
+                        ge = self.add(["binary", bit] + sp + [">=", sel, self.expr(x.left)])
+                        le = self.add(["binary", bit] + sp + ["<=", sel, self.expr(x.right)])
+                        exprs.append(self.add(["binary", bit] + sp + ["&&", ge, le]))
+                        conds.append(1)
+                    else:
+                        exprs.append(self.expr(x))
+                        conds.append(0)
+                body = self.stmt_or_empty(g.stmt)
+                items.append([exprs, body, conds] if any(conds) else [exprs, body])
             dflt = self.stmt_or_empty(s.defaultCase) if s.defaultCase is not None else -1
             return self.add_stmt(["case"] + self.sspan(s) + [_CASE_KIND[s.condition], CHECK[s.check],
                                                             sel, items, dflt, self.d.case_attributes(s)])
@@ -773,11 +815,14 @@ class Conv:
 
     def block(self, s, where):
         items = []
-        lst = s.list if s.kind == STK.List else [s]
-        for x in lst:
+        lst = list(s.list) if s.kind == STK.List else [s]
+        tail = self.tail
+        for i, x in enumerate(lst):
+            self.tail = tail and i == len(lst) - 1
             r = self.stmt(x)
             if r is not None:
                 items.append(r)
+        self.tail = tail
         return self.add_stmt(["block"] + self.sspan(where) + [items])
 
     def expr_stmt(self, x, s):
@@ -842,7 +887,9 @@ class Conv:
                 raise Unsupported("has a for loop without a condition")
             cond = self.expr(s.stopExpr)
             step = [self.expr_stmt(x, None) for x in s.steps]
+            tail, self.tail = self.tail, False
             body = self.stmt_or_empty(s.body)
+            self.tail = tail
         finally:
             for sym in pushed:
                 del self.loop_syms[sym]

@@ -16,7 +16,7 @@ from collections import Counter
 import pyslang
 from pyslang import ast
 
-from kerf_convert import CHECK, Conv, Tables, Unsupported, dim_offset
+from kerf_convert import Conv, Tables, Unsupported, dim_offset
 from kerf_types import Types, sv_bits
 import kerf_variants
 
@@ -620,6 +620,73 @@ class Describer:
         m["mentions"] = sorted(self.mentions(syn) | reads | set(writes))
         return m
 
+    # -- functions -----------------------------------------------------------------
+
+    def function_index(self, sub):
+        """Index of the description of function `sub` (described on first use), or
+        Unsupported with the reason it cannot be."""
+        t = self.tables
+        got = t.fn_index.get(sub)
+        if isinstance(got, str):
+            raise Unsupported(got)
+        if got is not None:
+            return got
+        if sub in t.fn_busy:
+            raise Unsupported("calls the function '%s' recursively" % sub.name)
+        t.fn_busy.add(sub)
+        try:
+            entry = self.describe_function(sub)
+        except Unsupported as u:
+            reason = "calls the function '%s', which %s" % (sub.name, str(u))
+            t.fn_index[sub] = reason
+            raise Unsupported(reason)
+        finally:
+            t.fn_busy.discard(sub)
+        idx = len(t.functions)
+        t.functions.append(entry)
+        t.fn_index[sub] = idx
+        t.watermark = (len(t.exprs), len(t.stmts), t.next_symbol)
+        return idx
+
+    def describe_function(self, sub):
+        if sub.subroutineKind != ast.SubroutineKind.Function:
+            raise Unsupported("is a task")
+        if sub.isVirtual or sub.thisVar is not None:
+            raise Unsupported("is a class method")
+        res = sub.returnValVar
+        if res is None or not res.type.isIntegral:
+            raise Unsupported("returns no packed value")
+        syn = sub.syntax
+        if syn is None:
+            raise Unsupported("has no source text")
+        c = Conv(self)
+        rng = syn.sourceRange
+        c.buf = rng.start.buffer
+        self.src.note_file(c.buf)
+        c.macros = b"`" in self.src.data(c.buf)[rng.start.offset:rng.end.offset]
+        try:
+            args = []
+            for a in sub.arguments:
+                if a.direction != ast.ArgumentDirection.In:
+                    raise Unsupported("has an argument that is not an input")
+                args.append(c.add_local(a)[1])
+            _, ridx = c.add_local(res)
+            c.function = (self.types.of(res.type), ridx)
+            c.tail = True
+            b = c.stmt_or_empty(sub.body)
+            if c.st[b][0] != "block":
+                b = c.add_stmt(["block"] + c.sspan(sub.body) + [[b]])
+            if c.writes:
+                raise Unsupported("assigns '%s' of the module" % sorted(c.writes)[0])
+            if c.localized:
+                raise Unsupported("uses a module variable as a loop variable")
+        except Unsupported:
+            c.drop()
+            raise
+        return {"name": sub.name, "automatic": sub.defaultLifetime == ast.VariableLifetime.Automatic,
+                "result": ridx, "args": args, "locals": c.local_list, "body": b, "reads": sorted(c.reads),
+                "src": self.src.range_src(rng)[0]}
+
     # -- members -------------------------------------------------------------------
 
     def start_conv(self, syn):
@@ -838,6 +905,7 @@ class Describer:
                 "types": self.types.entries,
                 "ports": ports, "signals": signals, "members": members}
         kerf_variants.finish(self, members, desc)    # match keys, the parameters list
+        desc["functions"] = self.tables.functions
         desc["exprs"] = self.tables.exprs
         desc["stmts"] = self.tables.stmts
         return desc

@@ -82,6 +82,7 @@ enum class ExprKind : std::uint8_t {
     Range,      ///< constant part select value[left:right] in declared coordinates
     Indexed,    ///< value[base +: width] / value[base -: width], base not constant
     Convert,    ///< extend (by the operand's signedness) or truncate to the node's width
+    Call,       ///< a call of a function of Ir::functions, its body inlined
 };
 
 enum class UnaryOp : std::uint8_t { Plus, Minus, BitNot, RedAnd, RedNand, RedOr, RedNor, RedXor, RedXnor, LogicNot };
@@ -111,6 +112,7 @@ std::string_view opText(BinaryOp op);
 ///   Range      a = value, left()/right(); msb/lsb of the selected dimension
 ///   Indexed    a = value, b = base, up = `+:`; msb/lsb of the selected dimension
 ///   Convert    a = operand
+///   Call       a = function (Ir::functions), b = offset in Ir::lists, c = count (arguments)
 struct Expr {
     ExprKind kind = ExprKind::Const;
     std::uint8_t op = 0;
@@ -141,6 +143,9 @@ enum CaseAttr : std::uint8_t { kFullCase = 1, kParallelCase = 2 };
 struct CaseItem {
     std::uint32_t exprs = 0, count = 0;   ///< offset/count in Ir::lists (ExprIds)
     StmtId body = kNoId;
+    /// Offset in Ir::itemIsCondition of one flag per expression (kNoId: none is): a flagged
+    /// expression is a condition (a `case inside` range) rather than a value to match.
+    std::uint32_t conditions = kNoId;
 };
 
 struct ForInit {
@@ -174,8 +179,21 @@ struct Symbol {
     bool isSigned = false;
     int msb = 0, lsb = 0;
     bool local = false;
-    int member = -1;      ///< locals: index of the member that declares them
+    int member = -1;      ///< locals of a block: index of the member that declares them
+    int function = -1;    ///< locals of a function (arguments and result included): its index
     int signal = -1;      ///< module signals: position in the description's signal list
+};
+
+/// A function the module calls, described once; every call lowers its body.
+struct Function {
+    std::string name;
+    bool automatic = true;           ///< variables start as x at each call; static ones keep values
+    SymbolId result = kNoId;         ///< the variable named like the function
+    std::vector<SymbolId> args;      ///< input arguments, in order
+    std::vector<SymbolId> locals;    ///< every variable of the function (arguments and result included)
+    StmtId body = kNoId;             ///< a block
+    std::string file;                ///< where it is declared (node ranges are offsets in it)
+    SourceLoc loc;
 };
 
 /// Line starts of a file whose byte offsets the description uses.
@@ -194,8 +212,10 @@ struct Ir {
     std::vector<std::uint32_t> lists;
     std::vector<CaseItem> caseItems;
     std::vector<ForInit> forInits;
+    std::vector<std::uint8_t> itemIsCondition;
     std::string constBits;           ///< all constants, LSB first
     std::vector<Symbol> symbols;     ///< indexed by SymbolId
+    std::vector<Function> functions;
     std::vector<FileLines> files;
 
     const Expr& expr(ExprId id) const { return exprs[id]; }
