@@ -260,6 +260,10 @@ private:
     void parseParameters(const json& root);
     void parseMembers(const json& root);
     void parseFunctions(const json& root);
+    /// The "locals" list of a member or function: each placed as a local symbol, `owner` marking
+    /// whose it is.
+    std::vector<SymbolId> parseLocals(const json& j, const std::string& where,
+                                      const std::function<void(Symbol&)>& owner);
     void validateExprs();
     void validateStmts();
     void checkOwnership();
@@ -751,21 +755,27 @@ void DescriptionBuilder::parseMembers(const json& root) {
             mem.style = str(mj, "style", where);
             mem.body = asIndex(field(mj, "body", where), where + " body");
             if (mem.body >= m.ir.stmts.size()) invalid(where + " names an unknown statement");
-            const json& locals = field(mj, "locals", where);
-            if (!locals.is_array()) invalid(where + ": locals are not a list");
-            for (const auto& l : locals) {
-                std::string lw = where + " local";
-                Signal s = parseSignal(l, lw);
-                Symbol y = symbolOf(s, m.ir, lw);
-                y.local = true;
-                y.member = static_cast<int>(i);
-                std::int64_t id = num(l, "id", lw);
-                placeSymbol(m.ir, id, std::move(y), lw);
-                mem.locals.push_back(static_cast<SymbolId>(id));
-            }
+            mem.locals = parseLocals(mj, where, [&](Symbol& y) { y.member = static_cast<int>(i); });
         }
         m.members.push_back(std::move(mem));
     }
+}
+
+std::vector<SymbolId> DescriptionBuilder::parseLocals(const json& j, const std::string& where,
+                                                      const std::function<void(Symbol&)>& owner) {
+    const json& locals = field(j, "locals", where);
+    if (!locals.is_array()) invalid(where + ": locals are not a list");
+    std::vector<SymbolId> ids;
+    for (const auto& l : locals) {
+        std::string lw = where + " local";
+        Symbol y = symbolOf(parseSignal(l, lw), m.ir, lw);
+        y.local = true;
+        owner(y);
+        std::int64_t id = num(l, "id", lw);
+        placeSymbol(m.ir, id, std::move(y), lw);
+        ids.push_back(static_cast<SymbolId>(id));
+    }
+    return ids;
 }
 
 void DescriptionBuilder::parseFunctions(const json& root) {
@@ -783,18 +793,7 @@ void DescriptionBuilder::parseFunctions(const json& root) {
         f.loc = src.loc();
         f.body = asIndex(field(fj, "body", where), where + " body");
         if (f.body >= m.ir.stmts.size()) invalid(where + " names an unknown statement");
-        const json& locals = field(fj, "locals", where);
-        if (!locals.is_array()) invalid(where + ": locals are not a list");
-        for (const auto& l : locals) {
-            std::string lw = where + " local";
-            Signal sg = parseSignal(l, lw);
-            Symbol y = symbolOf(sg, m.ir, lw);
-            y.local = true;
-            y.function = static_cast<int>(i);
-            std::int64_t id = num(l, "id", lw);
-            placeSymbol(m.ir, id, std::move(y), lw);
-            f.locals.push_back(static_cast<SymbolId>(id));
-        }
+        f.locals = parseLocals(fj, where, [&](Symbol& y) { y.function = static_cast<int>(i); });
         auto ownLocal = [&](std::int64_t id, const std::string& what) {
             if (std::find(f.locals.begin(), f.locals.end(), static_cast<SymbolId>(id)) == f.locals.end())
                 invalid(fmt::format("{}: its {} is not one of its locals", where, what));
