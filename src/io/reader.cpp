@@ -56,8 +56,8 @@ std::string readerScript() {
 
 std::string modulesScript() {
     if (std::string s = installedScript("kerf_modules.py"); !s.empty()) return s;
-    // In the source tree: src/flow/kerf_modules.py, beside src/reader/.
-    return (std::filesystem::path(KERF_READER_PATH).parent_path().parent_path() / "flow" / "kerf_modules.py").string();
+    // In the source tree: src/reader/kerf_modules.py, beside the reader.
+    return (std::filesystem::path(KERF_READER_PATH).parent_path() / "kerf_modules.py").string();
 }
 
 std::vector<std::string> listModules(const std::vector<std::string>& args) {

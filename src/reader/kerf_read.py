@@ -78,17 +78,38 @@ def _quote(arg):
     return '"' + arg.replace("\\", "\\\\").replace('"', '\\"') + '"'
 
 
-def _declared_modules(drv):
-    """Names of the modules, interfaces and programs declared at file level."""
+def declared_modules(drv, kinds=None):
+    """Names of the modules (by default also interfaces and programs) declared at file level,
+    in the order of the files and of the declarations, each name once."""
     from pyslang import syntax
-    kinds = (syntax.SyntaxKind.ModuleDeclaration, syntax.SyntaxKind.InterfaceDeclaration,
-             syntax.SyntaxKind.ProgramDeclaration)
-    names = set()
+    if kinds is None:
+        kinds = (syntax.SyntaxKind.ModuleDeclaration, syntax.SyntaxKind.InterfaceDeclaration,
+                 syntax.SyntaxKind.ProgramDeclaration)
+    names = []
     for tree in drv.syntaxTrees:
         for m in getattr(tree.root, "members", None) or []:
-            if m.kind in kinds:
-                names.add(m.header.name.valueText)
+            if m.kind in kinds and m.header.name.valueText not in names:
+                names.append(m.header.name.valueText)
     return names
+
+
+def open_sources(prog, include_dirs, defines, files, extra=()):
+    """Set up slang's driver for the given files with kerf's include directories and macro
+    definitions and parse them (no elaboration). Returns (driver, parsed) or an exit code."""
+    from pyslang import driver as sdriver
+    cmd = [prog]
+    for d in include_dirs:
+        cmd += ["-I", d]
+    for d in defines:
+        cmd += ["-D", d]
+    cmd += list(extra) + list(files)
+    drv = sdriver.Driver()
+    drv.addStandardArgs()
+    if not drv.parseCommandLine(" ".join(_quote(a) for a in cmd), sdriver.CommandLineOptions()):
+        return EXIT_USAGE
+    if not drv.processOptions():
+        return EXIT_ERRORS
+    return drv, drv.parseAllSources()
 
 
 def _out_of_memory(exc):
@@ -115,7 +136,7 @@ def main(argv=None):
                          "'pip install -r requirements.txt' from the kerf source tree\n" % (found, PYSLANG_PIN))
         return EXIT_WRONG_VERSION
     try:
-        from pyslang import driver as sdriver
+        from pyslang import driver  # noqa: F401  (checked here for a clear message)
     except ImportError as exc:
         sys.stderr.write("kerf_read: cannot import pyslang's driver (%s); run "
                          "'pip install -r requirements.txt' from the kerf source tree\n" % exc)
@@ -124,25 +145,16 @@ def main(argv=None):
     sys.dont_write_bytecode = True     # keep the source tree free of __pycache__
     import kerf_describe
 
-    cmd = ["kerf_read"]
-    for d in args.include_dirs:
-        cmd += ["-I", d]
-    for d in args.defines:
-        cmd += ["-D", d]
+    extra = []
     for a in args.params:
-        cmd += ["-G", a]
+        extra += ["-G", a]
     if args.top:
-        cmd += ["--top", args.top]
-    cmd += args.files
-
-    drv = sdriver.Driver()
-    drv.addStandardArgs()
-    if not drv.parseCommandLine(" ".join(_quote(a) for a in cmd), sdriver.CommandLineOptions()):
-        return EXIT_USAGE
-    if not drv.processOptions():
-        return EXIT_ERRORS
-    parsed = drv.parseAllSources()
-    if args.top and args.top not in _declared_modules(drv):
+        extra += ["--top", args.top]
+    opened = open_sources("kerf_read", args.include_dirs, args.defines, args.files, extra)
+    if isinstance(opened, int):
+        return opened
+    drv, parsed = opened
+    if args.top and args.top not in declared_modules(drv):
         ok = drv.reportParseDiags()
         drv.reportDiagnostics(True)
         if not parsed or not ok:

@@ -30,7 +30,7 @@ ReaderOutput runReader(const std::vector<std::string>& args);
 
 /// The modules declared at file level in the files of `args` (`-I DIR`, `-D
 /// NAME`, then the files), in file and declaration order, each name once
-/// (src/flow/kerf_modules.py; for `restructure --all-modules`). Throws like `runReader`.
+/// (src/reader/kerf_modules.py; for `restructure --all-modules`). Throws like `runReader`.
 std::vector<std::string> listModules(const std::vector<std::string>& args);
 
 /// Time and peak memory of the most recent successful reader run (for the stage figures).
