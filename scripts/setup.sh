@@ -5,7 +5,7 @@ set -euo pipefail
 
 KERF_ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 APT_PACKAGES=(cmake g++ make python3 python3-pip libfmt-dev libcli11-dev libgtest-dev
-              libbenchmark-dev libcadical-dev nlohmann-json3-dev iverilog verilator)
+              libbenchmark-dev libcadical-dev nlohmann-json3-dev iverilog verilator graphviz)
 
 missing=()
 for p in "${APT_PACKAGES[@]}"; do
