@@ -9,6 +9,7 @@
 // parentheses around comparisons, exclusive-ors and choices inside `&`/`|`
 // for the reader's sake even where the standard does not need them.
 #include "expression.h"
+#include "kerf/frontend/references.h"
 
 #include <fmt/format.h>
 
@@ -126,6 +127,7 @@ std::string constText(int width, const std::vector<int>& bitsMsbFirst) {
 int indexOf(const VarRef& r, int offset) { return r.msb >= r.lsb ? r.lsb + offset : r.lsb - offset; }
 
 std::string sliceText(const VarRef& r, int loOff, int hiOff) {
+    if (r.module) return frontend::referenceText(*r.module, r.signal, loOff, hiOff - loOff + 1);
     std::string base = r.text.substr(0, r.text.rfind('['));
     if (loOff == 0 && hiOff == r.width - 1) return base;
     if (loOff == hiOff) return fmt::format("{}[{}]", base, indexOf(r, loOff));

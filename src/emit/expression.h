@@ -10,6 +10,10 @@
 
 #include "kerf/algebra/cover.h"
 
+namespace kerf::frontend {
+struct ModuleDesc;
+}
+
 #include <cstdint>
 #include <optional>
 #include <string>
@@ -27,6 +31,9 @@ struct VarRef {
     int msb = 0, lsb = 0;      ///< the vector's declared range
     bool inverted = false;     ///< the name holds the complement of the variable
     int rank = 0;              ///< order among operands of one AND/OR (lower first)
+    /// The module whose signal `signal` is: slices are then named as its declared type
+    /// allows (`m[1][3:2]`, `req.hdr.tag`); null for vectors kerf generates (indexed flat).
+    const frontend::ModuleDesc* module = nullptr;
 };
 
 /// A printable expression.

@@ -123,8 +123,8 @@ std::string bitText(const frontend::ModuleDesc& m, const BitRef& b) {
         if (g != generatedWidths().end() && g->second == 1) return verilogName(b.signal);
         return fmt::format("{}[{}]", verilogName(b.signal), b.offset);
     }
-    if (!it->second.vector && it->second.width == 1) return verilogName(b.signal);
-    return fmt::format("{}[{}]", verilogName(b.signal), it->second.indexOf(b.offset));
+    // As the declared type names the bit: `m[1][3]`, `req.hdr.tag[0]`, never a flat offset.
+    return frontend::referenceText(m, b);
 }
 
 /// A name fragment from a reference: `paddr[3]` -> `paddr3`.
@@ -132,6 +132,7 @@ std::string fragment(const std::string& text) {
     std::string s;
     for (char c : text)
         if (std::isalnum(static_cast<unsigned char>(c)) || c == '_') s += c;
+        else if (c == '.') s += '_';   // req.hdr.tag[0] -> req_hdr_tag0
     return s;
 }
 
@@ -336,6 +337,7 @@ VarRef Writer::refFor(const BitRef& b, int rankBase) const {
         r.width = width;
         r.msb = it->second.msb;
         r.lsb = it->second.lsb;
+        r.module = &m_;
     } else if (it == m_.signals.end() && generatedWidths().count(b.signal) && generatedWidths()[b.signal] > 1) {
         r.signal = b.signal;
         r.offset = b.offset;
@@ -511,10 +513,11 @@ void Writer::nameWires() {
             if (p.kind == PExpr::Kind::Compare && !p.neg) {
                 // "paddr[5:2] == 4'h0" -> "paddr_5_2_is_0"
                 std::string lhs = p.text.substr(0, p.text.find(' '));
+                if (lhs.empty() || lhs[0] == '{') return "";   // a concatenation: no short name
                 bool eq = p.text.find("==") != std::string::npos;
                 std::string value = p.text.substr(p.text.find('\'') + 2);
                 std::string f;
-                for (char c : lhs) f += (c == '[' || c == ':') ? '_' : c;
+                for (char c : lhs) f += (c == '[' || c == ':' || c == '.') ? '_' : c;
                 if (!f.empty() && f.back() == ']') f.pop_back();
                 std::string out;
                 for (char c : f)
@@ -1003,11 +1006,20 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                     break;
                 }
             }
+            std::string lhs;
             if (bestT) {
                 int lo = outs_[idx[k]].bit.offset, hi = outs_[idx[best]].bit.offset;
-                std::string lhs = (lo == 0 && hi == sig.width - 1)
-                                      ? verilogName(s)
-                                      : fmt::format("{}[{}:{}]", verilogName(s), sig.indexOf(hi), sig.indexOf(lo));
+                if (lo == 0 && hi == sig.width - 1) {
+                    lhs = verilogName(s);
+                } else {
+                    // The range as the declared type names it; a range that needs a value
+                    // conversion (a one-bit enum field) is written bit by bit.
+                    auto pieces = frontend::targetPieces(m_, s, lo, hi - lo + 1);
+                    if (pieces.size() == 1 && pieces[0].valuePrefix.empty()) lhs = pieces[0].lhs;
+                    else bestT.reset();
+                }
+            }
+            if (bestT) {
                 // Reads of the template are the per-bit reads.
                 Assignment a{lhs, *bestT, s, {}, {}, {}};
                 for (std::size_t q = k; q <= best; ++q) collectRefs(es[q], a.reads);
@@ -1015,7 +1027,10 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                 as.push_back(std::move(a));
                 k = best + 1;
             } else {
-                add(bitText(m_, outs_[idx[k]].bit), es[k]);
+                auto pieces = frontend::targetPieces(m_, s, outs_[idx[k]].bit.offset, 1);
+                add(pieces.front().lhs, es[k]);
+                as.back().prefix = pieces.front().valuePrefix;
+                as.back().suffix = pieces.front().valueSuffix;
                 ++k;
             }
         }
