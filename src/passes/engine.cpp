@@ -375,16 +375,17 @@ private:
             ++row.applied;
             row.gatesSaved += static_cast<long long>(current.gates) - static_cast<long long>(m.gates);
             row.depthSaved += static_cast<long long>(current.depth) - static_cast<long long>(m.depth);
-            for (const auto& [k, v] : s.pendingStats.items()) {
+            for (const auto& kv : s.pendingStats.items()) {
+                // Named copies, not structured bindings: clang 14 cannot capture those in a lambda.
+                const auto& key = kv.first;
                 auto it = std::find_if(row.counters.begin(), row.counters.end(),
-                                       [&](const auto& p) { return p.first == k; });
-                if (it == row.counters.end()) row.counters.emplace_back(k, v);
-                else it->second += v;
+                                       [&](const auto& p) { return p.first == key; });
+                if (it == row.counters.end()) row.counters.emplace_back(key, kv.second);
+                else it->second += kv.second;
             }
             MoveRow mv;
             mv.technique = s.name;
             mv.after = m;
-            mv.gatesSaved = row.gatesSaved;
             mv.gatesSaved = static_cast<long long>(current.gates) - static_cast<long long>(m.gates);
             mv.depthSaved = static_cast<long long>(current.depth) - static_cast<long long>(m.depth);
             res_.moves.push_back(mv);
