@@ -89,6 +89,7 @@ class Tokens:
         self.macro_usages = 0
         self.by_buffer = None
         self._offsets = {}
+        self._directive_starts = {}
         d = parsing.TriviaKind.Directive
         tok_type = parsing.Token
         found = []
@@ -155,6 +156,33 @@ class Tokens:
 
     def directives_in(self, bid, start, end):
         return [d for d in self.directives.get(bid, ()) if start <= d[0] < end]
+
+    def has_directive_in(self, bid, start, end):
+        """Whether a directive (macro use, `include, ...) starts in [start, end) of buffer `bid`."""
+        starts = self._directive_starts.get(bid)
+        if starts is None:
+            starts = self._directive_starts[bid] = [d[0] for d in self.directives.get(bid, ())]
+        i = bisect.bisect_left(starts, start)
+        return i < len(starts) and starts[i] < end
+
+    def node_in_range(self, node, bid, start, end):
+        """The same entries' tokens as `in_range(bid, start, end)`, from one syntax node
+        covering that range, without indexing every token of every file; None when that
+        cannot be shown cheaply (the node's text holds a directive: a macro's expansion
+        or an included file may bring tokens standing elsewhere)."""
+        r = node.sourceRange
+        if not (self.sm.isFileLoc(r.start) and self.sm.isFileLoc(r.end)):
+            return None
+        if r.start.buffer.id != bid or r.end.buffer.id != bid:
+            return None
+        lo, hi = r.start.offset, r.end.offset
+        if lo > start or hi < end or self.has_directive_in(bid, lo, hi):
+            return None
+        toks = node_tokens(node)
+        if lo == start and hi == end:
+            return toks
+        # Without directives every token stands where it is written, in order.
+        return [t for t in toks if start <= t.location.offset < end]
 
 
 class Refs:

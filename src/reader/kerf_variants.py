@@ -42,6 +42,7 @@ class _State:
         self.keys = Keys(d.comp, self.tokens, self.refs)
         self.used_by = {}
         self.syntax_by_src = {}      # (file, start, end) -> the member's syntax node
+        self.node_by_src = {}        # (file, start, end) -> the syntax node holding every member's text
         self.instances = None
 
     def seed(self, sym):
@@ -108,10 +109,14 @@ def restrict(d, members):
     for m in members:
         sym = m.pop("_sym", None)
         node = None
-        if sym is not None and (m["kind"] == "kept" or analyse):
+        if sym is not None:
             node = _member_node(d, m, sym)
             if node is not None:
-                st.syntax_by_src.setdefault(_src_key(m["src"]), node)
+                st.node_by_src.setdefault(_src_key(m["src"]), node)
+                if m["kind"] == "kept" or analyse:
+                    st.syntax_by_src.setdefault(_src_key(m["src"]), node)
+                else:
+                    node = None
         if m["kind"] in ("assign", "comb") and analyse and node is not None:
             # `assign a = x, b = y;` has one member per assignment: look at this one only.
             own = sym.syntax if sym.kind == SK.ContinuousAssign and sym.syntax is not None else node
@@ -170,6 +175,10 @@ def _instances_in(d, st, file, start, end):
                 name = n.definition.name if isinstance(n, ast.InstanceSymbol) else n.definitionName
                 idx.append((d.src.name(loc.buffer), loc.offset, name))
                 return ast.VisitAction.Skip
+            if isinstance(n, (ast.ProceduralBlockSymbol, ast.ContinuousAssignSymbol)):
+                # Instances are members of scopes, never inside processes or assignments:
+                # their statements and expressions (most of a big design) need no visit.
+                return ast.VisitAction.Skip
             return ast.VisitAction.Advance
 
         d.body.visit(cb)
@@ -193,11 +202,22 @@ def finish(d, members, description):
         if node is not None:
             toks = node_tokens(node)
         else:
-            bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]), None)
-            if bid is None:
-                st.tokens.in_range(-1, 0, 0)          # builds the index, which knows every buffer
+            toks = None
+            holder = st.node_by_src.get(_src_key(src))
+            if holder is not None:
+                # The member's own syntax gives the tokens of its range directly (the common
+                # case); indexing every token of every file costs time and memory in
+                # proportion to the whole design, for each run.
+                r = holder.sourceRange
+                if st.tokens.sm.isFileLoc(r.start) and d.src.name(r.start.buffer) == src["file"]:
+                    toks = st.tokens.node_in_range(holder, r.start.buffer.id, src["start"], src["end"])
+            if toks is None:
                 bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]), None)
-            toks = [e[4] for e in st.tokens.in_range(bid, src["start"], src["end"])] if bid is not None else []
+                if bid is None:
+                    st.tokens.in_range(-1, 0, 0)          # builds the index, which knows every buffer
+                    bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]),
+                               None)
+                toks = [e[4] for e in st.tokens.in_range(bid, src["start"], src["end"])] if bid is not None else []
         if not toks:
             # Nothing to compare it by: a key no other member can have.
             m["match_key"] = "unmatched:%s:%d:%d" % (src["file"], src["start"], src["end"])
