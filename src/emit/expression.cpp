@@ -540,7 +540,7 @@ std::string layoutText(const PExpr& e, std::size_t col, std::size_t limit, std::
     return s;
 }
 
-std::optional<PExpr> vectorTemplate(const std::vector<PExpr>& bits) {
+std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits) {
     if (bits.size() < 2) return std::nullopt;
     for (std::size_t i = 1; i < bits.size(); ++i)
         if (!sameShape(bits[0], bits[i])) return std::nullopt;

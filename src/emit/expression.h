@@ -16,6 +16,7 @@ struct ModuleDesc;
 
 #include <cstdint>
 #include <optional>
+#include <span>
 #include <string>
 #include <unordered_map>
 #include <vector>
@@ -89,7 +90,10 @@ std::string layoutText(const PExpr& e, std::size_t col, std::size_t limit, std::
 /// Vector template: if the per-bit expressions `bits` (least significant
 /// first) differ only in referring to consecutive bits of the same vectors
 /// (or to the same scalar), the one vector-wide expression; else empty.
-std::optional<PExpr> vectorTemplate(const std::vector<PExpr>& bits);
+/// Whether a run has a template is closed under shortening the run from its
+/// end (every condition holds for a prefix of at least two bits), which lets the
+/// writer find the longest run by bisection.
+std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits);
 
 /// Two-input gates of a factored form (a k-input AND/OR is k-1 gates; inverters free).
 std::size_t formGates(const algebra::Factored& f);

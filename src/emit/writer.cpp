@@ -995,15 +995,30 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         }
         std::size_t k = 0;
         while (k < idx.size()) {
+            // The longest run of consecutive bits from k with a vector template. Runs with
+            // a template are closed under shortening (expression.h), so bisect between the
+            // shortest run (two bits) and the last consecutive bit: n log n, not cubic.
             std::size_t best = k;
             std::optional<PExpr> bestT;
-            for (std::size_t t = idx.size(); t-- > k + 1;) {
-                if (outs_[idx[t]].bit.offset - outs_[idx[k]].bit.offset != static_cast<int>(t - k)) continue;
-                std::vector<PExpr> run(es.begin() + static_cast<std::ptrdiff_t>(k), es.begin() + static_cast<std::ptrdiff_t>(t + 1));
-                if (auto T = vectorTemplate(run)) {
-                    best = t;
+            std::size_t last = k;
+            while (last + 1 < idx.size() &&
+                   outs_[idx[last + 1]].bit.offset - outs_[idx[k]].bit.offset == static_cast<int>(last + 1 - k))
+                ++last;
+            auto runFrom = [&](std::size_t t) { return std::span<const PExpr>(es.data() + k, t + 1 - k); };
+            if (last > k) {
+                if (auto T = vectorTemplate(runFrom(k + 1))) {
+                    std::size_t lo = k + 1, hi = last;   // lo has a template; find the largest that has
                     bestT = std::move(T);
-                    break;
+                    while (lo < hi) {
+                        std::size_t mid = lo + (hi - lo + 1) / 2;
+                        if (auto M = vectorTemplate(runFrom(mid))) {
+                            lo = mid;
+                            bestT = std::move(M);
+                        } else {
+                            hi = mid - 1;
+                        }
+                    }
+                    best = lo;   // bestT is lo's template: the last run that had one
                 }
             }
             std::string lhs;
