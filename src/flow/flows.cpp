@@ -49,8 +49,8 @@ nlohmann::json metricsJson(const net::Metrics& m) {
 nlohmann::json stagesJson(const io::StageLog& log) {
     nlohmann::json rows = nlohmann::json::array();
     for (const auto& r : log.rows())
-        rows.push_back({{"stage", r.stage}, {"seconds", r.seconds}, {"peak_memory_mb", (r.peakRssKb + 1023) / 1024},
-                        {"process", r.child ? "reader" : "kerf"}});
+        rows.push_back({{"stage", r.stage}, {"seconds", r.seconds}, {"cpu_seconds", r.cpuSeconds},
+                        {"peak_memory_mb", (r.peakRssKb + 1023) / 1024}, {"process", r.child ? "reader" : "kerf"}});
     return rows;
 }
 
@@ -161,7 +161,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     double readSeconds = since(t0);
     {
         io::ReaderOutput rf = io::lastReaderFigures();
-        stages.addChild("reader", rf.seconds, rf.peakRssKb);
+        stages.addChild("reader", rf.seconds, rf.peakRssKb, rf.cpuSeconds);
     }
     stages.begin("lower");
     frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
@@ -247,6 +247,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     std::string proofText;
     if (wr.changed) {
         stages.begin("prove");
+        io::Progress::global().stage("prove (reading the rewrite back)");   // the share shown is the lowering's
         auto tProof = Clock::now();
         // The rewrite is read back from a private directory under the original's
         // file name, so the reader's messages about it read naturally.
@@ -324,6 +325,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                 lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX, agreedKept);
             frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep,
                                           opts.keepX, keptByKey(desc, agreedKept, written));
+            io::Progress::global().stage("prove");
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
             po.verbose = opts.verbose;

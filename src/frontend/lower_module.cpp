@@ -10,6 +10,7 @@
 // restructured code drives stays an output (its declaration stays), unless
 // `dissolveInternal` asks for the old behaviour.
 #include "lower_internal.h"
+#include "kerf/io/progress.h"
 
 #include <algorithm>
 #include <unordered_set>
@@ -329,7 +330,12 @@ Lowered Lowerer::run() {
             }
         }
     }
-    for (int i : order) lowerMember(i);
+    std::size_t lowered = 0;
+    for (int i : order) {
+        io::Progress::global().share(lowered++, order.size());
+        lowerMember(i);
+    }
+    io::Progress::global().share(lowered, order.size());
     for (std::size_t i = 0; i < n; ++i)
         if (restructured_[i]) out_.replaced.push_back(members_[i]->id);
 

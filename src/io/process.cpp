@@ -72,6 +72,8 @@ ProcessResult runCaptured(const std::vector<std::string>& args) {
     forgetChild(pid);
     r.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     r.peakRssKb = ru.ru_maxrss;
+    r.cpuSeconds = static_cast<double>(ru.ru_utime.tv_sec + ru.ru_stime.tv_sec) +
+                   static_cast<double>(ru.ru_utime.tv_usec + ru.ru_stime.tv_usec) * 1e-6;
     if (WIFEXITED(status)) r.exitCode = WEXITSTATUS(status);
     else if (WIFSIGNALED(status)) r.signal = WTERMSIG(status);
     return r;

@@ -3,6 +3,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cstdio>
 #include <cstdlib>
 #include <mutex>
@@ -47,10 +48,13 @@ void Progress::start(bool wanted) {
     // KERF_PROGRESS_DELAY (seconds) moves the two-second threshold, e.g. for a demo or a test.
     double delay = 2.0;
     if (const char* d = std::getenv("KERF_PROGRESS_DELAY"); d && *d) delay = std::atof(d);
-    r->thread = std::thread([this, r, began, delay] {
+    // KERF_PROGRESS_INTERVAL (milliseconds, default 250) is the redraw period, short in a test.
+    long interval = 250;
+    if (const char* d = std::getenv("KERF_PROGRESS_INTERVAL"); d && *d) interval = std::max(1L, std::atol(d));
+    r->thread = std::thread([this, r, began, delay, interval] {
         std::unique_lock lock(r->mu);
         while (!r->quit) {
-            r->cv.wait_for(lock, std::chrono::milliseconds(250));
+            r->cv.wait_for(lock, std::chrono::milliseconds(interval));
             if (r->quit) break;
             double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - began).count();
             if (secs < delay) continue;
@@ -98,32 +102,44 @@ long peakRssKb() {
     return ru.ru_maxrss;
 }
 
+namespace {
+double cpuSecondsSoFar() {
+    struct rusage ru {};
+    getrusage(RUSAGE_SELF, &ru);
+    return static_cast<double>(ru.ru_utime.tv_sec + ru.ru_stime.tv_sec) +
+           static_cast<double>(ru.ru_utime.tv_usec + ru.ru_stime.tv_usec) * 1e-6;
+}
+} // namespace
+
 StageLog::StageLog() = default;
 
 void StageLog::begin(const char* name) {
     end();
     current_ = name;
     t0_ = std::chrono::steady_clock::now();
+    cpu0_ = cpuSecondsSoFar();
     Progress::global().stage(name);
 }
 
 void StageLog::end() {
     if (current_.empty()) return;
     double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0_).count();
-    rows_.push_back(Row{current_, secs, peakRssKb(), false});
+    rows_.push_back(Row{current_, secs, peakRssKb(), false, cpuSecondsSoFar() - cpu0_});
     current_.clear();
 }
 
-void StageLog::addChild(const char* name, double seconds, long peak) {
-    rows_.push_back(Row{name, seconds, peak, true});
+void StageLog::addChild(const char* name, double seconds, long peak, double cpuSeconds) {
+    if (!current_.empty()) t0_ += std::chrono::duration_cast<std::chrono::steady_clock::duration>(
+                               std::chrono::duration<double>(seconds));
+    rows_.push_back(Row{name, seconds, peak, true, cpuSeconds});
 }
 
 std::string StageLog::line() const {
     std::string s = "stages:";
     const char* sep = " ";
     for (const auto& r : rows_) {
-        s += fmt::format("{}{} {:.2f} s ({} {} MB)", sep, r.stage, r.seconds, r.child ? "reader" : "kerf",
-                         (r.peakRssKb + 1023) / 1024);
+        s += fmt::format("{}{} {:.2f} s, CPU {:.2f} s ({} {} MB)", sep, r.stage, r.seconds, r.cpuSeconds,
+                         r.child ? "reader" : "kerf", (r.peakRssKb + 1023) / 1024);
         sep = ", ";
     }
     return s;

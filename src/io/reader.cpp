@@ -31,7 +31,7 @@ ReaderOutput gLast;
 
 } // namespace
 
-ReaderOutput lastReaderFigures() { return ReaderOutput{{}, gLast.seconds, gLast.peakRssKb}; }
+ReaderOutput lastReaderFigures() { return ReaderOutput{{}, gLast.seconds, gLast.peakRssKb, gLast.cpuSeconds}; }
 
 std::string pythonInterpreter() {
     if (const char* p = std::getenv("KERF_PYTHON"); p && *p) return p;
@@ -131,7 +131,8 @@ ReaderOutput runReader(const std::vector<std::string>& args) {
     }
     gLast.seconds = r.seconds;
     gLast.peakRssKb = r.peakRssKb;
-    return ReaderOutput{std::move(r.out), r.seconds, r.peakRssKb};
+    gLast.cpuSeconds = r.cpuSeconds;
+    return ReaderOutput{std::move(r.out), r.seconds, r.peakRssKb, r.cpuSeconds};
 }
 
 } // namespace kerf::io

@@ -22,6 +22,7 @@
 // hashes, which splits the classes.
 #include "kerf/proof/equivalence.h"
 #include "kerf/proof/simulation.h"
+#include "kerf/io/progress.h"
 
 #include <cadical.hpp>
 #include <fmt/format.h>
@@ -184,6 +185,7 @@ private:
 
     std::vector<AigNode> simAll_, simAnds_;     // cone of every pair: simulated
     std::vector<AigNode> needAll_, needAnds_;   // cone of undecided pairs: swept
+    std::size_t outputsToCompare_ = 0;          // for the progress share after the sweep
     std::vector<std::uint64_t> hash_, keyHash_;
     int foldsSinceRebuild_ = 0;
     std::vector<std::uint64_t> supp_;         // structural support, one bit per input (mod 64)
@@ -647,6 +649,8 @@ void Sweeper::sweep() {
         AigLit a = mapLit(g_.fanin0(n)), b = mapLit(g_.fanin1(n));
         AigLit r;
         ++done;
+        // Progress: the sweep's nodes, then the outputs compared one by one (run()).
+        if ((done & 4095) == 0) io::Progress::global().share(done, needAnds_.size() + outputsToCompare_);
         if (opt_.verbose >= 2 && done % 100000 == 0)
             fmt::print(stderr, "kerf proof: swept {}/{} nodes, {} merged, {} SAT calls, {:.1f} s\n", done,
                        needAnds_.size(), st_.internalMerged, st_.satCalls, secondsSince(t0));
@@ -704,10 +708,12 @@ PairsReport Sweeper::run(const std::vector<std::pair<AigLit, AigLit>>& pairs) {
     markCone(pairs, todo, needAll_, needAnds_);
     for (std::size_t i = 0; i < pairs.size(); ++i)
         if (todo[i]) isDriver_[aigNode(pairs[i].first)] = isDriver_[aigNode(pairs[i].second)] = 1;
+    outputsToCompare_ = pairs.size();
     sweep();
 
     std::vector<std::uint8_t> pattern;
     for (std::size_t i = 0; i < pairs.size(); ++i) {
+        if ((i & 63) == 0) io::Progress::global().share(needAnds_.size() + i, needAnds_.size() + pairs.size());
         if (!todo[i]) continue;
         PairOutcome& o = rep.pairs[i];
         AigLit x = mapLit(pairs[i].first), y = mapLit(pairs[i].second);

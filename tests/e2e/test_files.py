@@ -168,6 +168,36 @@ def _(t):
                 "not a terminal: no progress line, only the summary")
 
 
+def lane_selects(path, lanes=160):
+    """An invented lane-select block: one assignment per lane, each a sum of products over
+    a shared opcode (many members to lower, shared terms to restructure and prove)."""
+    with open(path, "w") as f:
+        f.write("module lane_sel (input logic [7:0] op, input logic [%d:0] req, output logic [%d:0] sel);\n"
+                % (lanes - 1, lanes - 1))
+        for i in range(lanes):
+            f.write("  assign sel[%d] = (op[0] & op[1] & req[%d]) | (op[0] & op[1] & op[%d]) | (~op[2] & req[%d]);\n"
+                    % (i, i, 2 + i % 6, (i + 1) % lanes))
+        f.write("endmodule\n")
+
+
+@S.case("progress_shows_share_done")
+def _(t):
+    """On a terminal the line gives the stage and the share done of lowering (members) and
+    of the proof (nodes swept, outputs compared), each between 0 and 100 %."""
+    src = os.path.join(t.work, "lane_sel.sv")
+    lane_selects(src)
+    env = dict(os.environ, KERF_PROGRESS_DELAY="0", KERF_PROGRESS_INTERVAL="1")
+    code, text = run_on_terminal([t.kerf, "restructure", src, "-o", os.path.join(t.work, "o.sv")], env)
+    shares = re.findall(r"kerf: (lower|prove)\s+(\d+)%", text)
+    t.res.check(code == 0, f"the run succeeds: {text[-300:]!r}")
+    t.res.check(any(s == "lower" for s, _ in shares), f"lowering shows its share done: {text[-600:]!r}")
+    t.res.check(any(s == "prove" for s, _ in shares), f"the proof shows its share done: {text[-600:]!r}")
+    t.res.check(all(0 <= int(p) <= 100 for _, p in shares), f"shares are percentages: {shares[:20]}")
+    r = K.run([t.kerf, "restructure", src, "-o", os.path.join(t.work, "o2.sv")], env=env)
+    t.res.check(r.returncode == 0 and "kerf: " not in r.stderr and "\r" not in r.stderr and "\033" not in r.stderr,
+                f"not a terminal: no progress at all: {r.stderr[-300:]!r}")
+
+
 @S.case("report_has_stage_figures")
 def _(t):
     rep = os.path.join(t.work, "r.json")
@@ -179,6 +209,9 @@ def _(t):
                                                                  "prove")), f"every stage is reported: {names}")
     t.res.check(all(s["seconds"] >= 0 and s["peak_memory_mb"] > 0 for s in stages),
                 f"each with a time and a peak memory: {stages}")
+    t.res.check(all(0 <= s["cpu_seconds"] <= s["seconds"] * 2 + 0.5 for s in stages)
+                and any(s["cpu_seconds"] > 0 for s in stages if s["stage"] == "reader"),
+                f"and the CPU time of the process doing it: {stages}")
     t.res.check(re.search(r"^stages: reader [\d.]+ s", r.stderr, re.M) is not None, "-v prints the stage line")
 
 

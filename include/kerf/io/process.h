@@ -13,6 +13,7 @@ struct ProcessResult {
     int signal = 0;           ///< the signal that ended it, else 0
     std::string out;          ///< everything it wrote on standard output
     double seconds = 0;       ///< wall time
+    double cpuSeconds = 0;    ///< its user + system CPU time (from wait4)
     long peakRssKb = 0;       ///< its peak resident memory (from wait4)
 };
 

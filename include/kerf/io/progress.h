@@ -2,9 +2,13 @@
 //
 // Progress is for a person watching a terminal: it appears only when standard
 // error is a terminal, only once a run has taken more than two seconds, and
-// not with --quiet. It redraws one line ("kerf: proving  40%  12 s") from a
-// background thread; the work only stores the stage and the share done.
-// StageLog records wall time and peak memory per stage for -v and the JSON report.
+// not with --quiet. It redraws one line ("kerf: prove  40%  12 s") from a
+// background thread; the work only stores the stage and the share done (lowering:
+// members; proof: nodes swept, then outputs compared). KERF_PROGRESS_DELAY
+// (seconds) and KERF_PROGRESS_INTERVAL (milliseconds) move the threshold and the
+// redraw period, for a demo or a test.
+// StageLog records wall time, CPU time and peak memory per stage for -v and the
+// JSON report (CPU time tells a stage's own cost on a machine shared with other work).
 #pragma once
 
 #include <atomic>
@@ -40,7 +44,7 @@ private:
 /// Peak resident memory of kerf itself so far, in KiB.
 long peakRssKb();
 
-/// Wall time and peak memory per stage of a run.
+/// Wall time, CPU time and peak memory per stage of a run.
 class StageLog {
 public:
     struct Row {
@@ -48,14 +52,16 @@ public:
         double seconds = 0;
         long peakRssKb = 0;      ///< peak of the process doing the stage (kerf, or the reader)
         bool child = false;      ///< measured on the reader process
+        double cpuSeconds = 0;   ///< user + system CPU time of that process during the stage
     };
     StageLog();
     /// Close the running stage (if any) and start `name`; also tells Progress.
     void begin(const char* name);
     /// Close the running stage.
     void end();
-    /// A stage that ran in a child process, measured there.
-    void addChild(const char* name, double seconds, long peakRssKb);
+    /// A stage that ran in a child process, measured there. Its wall time is taken out
+    /// of the running stage's, which waited for it (the child's CPU is never kerf's).
+    void addChild(const char* name, double seconds, long peakRssKb, double cpuSeconds = 0);
     const std::vector<Row>& rows() const { return rows_; }
     /// "stages: read 1.20 s (reader 310 MB), lower 0.40 s (kerf 120 MB), ..."
     std::string line() const;
@@ -64,6 +70,7 @@ private:
     std::vector<Row> rows_;
     std::string current_;
     std::chrono::steady_clock::time_point t0_;
+    double cpu0_ = 0;
 };
 
 } // namespace kerf::io

@@ -15,6 +15,7 @@ struct ReaderOutput {
     std::string text;        ///< the description as printed
     double seconds = 0;      ///< wall time of the reader process
     long peakRssKb = 0;      ///< its peak resident memory
+    double cpuSeconds = 0;   ///< its user + system CPU time
 };
 
 /// The Python interpreter (`KERF_PYTHON`, default `python3`) and the reader
