@@ -544,18 +544,21 @@ void Writer::nameWires() {
     }
     // The rest: the first output they feed, with an index counted within that output's logic.
     std::map<std::string, int> counter;
+    // A wire an earlier output reached is named, and so is every wire behind it: later
+    // outputs neither list nor walk it again (linear in the logic, not outputs x wires).
+    std::vector<std::uint8_t> reached(net_.nodeCount(), 0);
     for (std::size_t i = 0; i < outs_.size(); ++i) {
         Literal d = net_.outputs()[i].driver;
         NodeId v = literalVar(d);
         std::string base = fragment(bitText(m_, outs_[i].bit));
         std::vector<NodeId> found;
-        coneOf(v, definer_[v] == static_cast<int>(i),
-               [&](NodeId w) { found.push_back(w); }, [](NodeId) {}, [](const std::string&) {});
+        auto reach = [&](NodeId w) {
+            if (!reached[w]) reached[w] = 1, found.push_back(w);
+        };
+        coneOf(v, definer_[v] == static_cast<int>(i), reach, [](NodeId) {}, [](const std::string&) {});
         // Wires reached through other wires: breadth by discovery, deterministic.
         for (std::size_t q = 0; q < found.size(); ++q)
-            coneOf(found[q], true, [&](NodeId w) {
-                if (std::find(found.begin(), found.end(), w) == found.end()) found.push_back(w);
-            }, [](NodeId) {}, [](const std::string&) {});
+            coneOf(found[q], true, reach, [](NodeId) {}, [](const std::string&) {});
         for (NodeId w : found) {
             std::size_t k = wireIndex.at(w);
             if (!names[k].empty()) continue;
@@ -784,6 +787,7 @@ void Writer::decide() {
     std::vector<int> groupOfOutput(outs_.size(), -1);
     for (std::size_t g = 0; g < groups_.size(); ++g)
         for (std::size_t i : outsOf[g]) groupOfOutput[i] = static_cast<int>(g);
+    std::vector<std::uint32_t> wireStamp(net_.nodeCount(), 0);   // wires listed for group g carry g + 1
     for (std::size_t g = 0; g < groups_.size(); ++g) {
         StatementGroup& G = groups_[g];
         G.members.clear();
@@ -804,8 +808,9 @@ void Writer::decide() {
         // After: every node the group's text computes.
         std::set<NodeId> nodes;
         std::vector<NodeId> wires;
+        const auto stamp = static_cast<std::uint32_t>(g + 1);
         auto addWire = [&](NodeId w) {
-            if (std::find(wires.begin(), wires.end(), w) == wires.end()) wires.push_back(w);
+            if (wireStamp[w] != stamp) wireStamp[w] = stamp, wires.push_back(w);
         };
         for (std::size_t i : outsOf[g]) {
             NodeId v = literalVar(net_.outputs()[i].driver);
