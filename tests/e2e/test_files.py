@@ -198,6 +198,35 @@ def _(t):
                 f"not a terminal: no progress at all: {r.stderr[-300:]!r}")
 
 
+COUNTING_READER = """import os, runpy, sys
+with open(os.environ["KERF_READER_LOG"], "a") as f:
+    f.write(sys.argv[-1] + "\\n")
+real = os.environ["KERF_REAL_READER"]
+sys.argv[0] = real
+sys.path.insert(0, os.path.dirname(real))
+runpy.run_path(real, run_name="__main__")
+"""
+
+
+@S.case("reader_runs_once_per_file")
+def _(t):
+    """A restructure runs the reader once on the input and once on the rewrite (for the
+    proof), never again: the description is read once per run (issue 12)."""
+    wrapper = os.path.join(t.work, "counting_reader.py")
+    with open(wrapper, "w") as f:
+        f.write(COUNTING_READER)
+    log = os.path.join(t.work, "reader.log")
+    env = dict(os.environ, KERF_READER=wrapper, KERF_READER_LOG=log,
+               KERF_REAL_READER=os.path.join(t.root, "src/reader/kerf_read.py"))
+    src = os.path.join(t.work, "lane_sel.sv")
+    lane_selects(src, 8)
+    r = K.run([t.kerf, "restructure", src, "-o", os.path.join(t.work, "o.sv")], env=env)
+    runs = open(log).read().split() if os.path.exists(log) else []
+    t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr, f"the run proves its rewrite: {r.stderr[-300:]}")
+    t.res.check(len(runs) == 2 and runs[0] == src and os.path.basename(runs[1]) == "lane_sel.sv" and runs[1] != src,
+                f"the reader ran on the input, then on the rewrite, nothing more: {runs}")
+
+
 @S.case("report_has_stage_figures")
 def _(t):
     rep = os.path.join(t.work, "r.json")
