@@ -469,12 +469,18 @@ Factored factor(const Cover& f, FactorMethod method) {
     Cover g = f;
     g.normalize();
     if (method == FactorMethod::Quick) return factorRec(std::move(g), method);
+    const Factored quick = factorRec(g, FactorMethod::Quick);
+    return factorBest(f, quick);
+}
+
+Factored factorBest(const Cover& f, const Factored& quickForm) {
+    Cover g = f;
+    g.normalize();
     // Choosing the divisor that saves most at each step is greedy: now and
     // then the quick divisors end up with fewer literals overall. Best keeps
     // whichever form is smaller (ties: its own), so it is never worse than quick.
-    Factored quick = factorRec(g, FactorMethod::Quick);
     Factored best = factorRec(std::move(g), FactorMethod::Best);
-    return quick.literalCount() < best.literalCount() ? std::move(quick) : std::move(best);
+    return quickForm.literalCount() < best.literalCount() ? quickForm : std::move(best);
 }
 
 } // namespace kerf::algebra

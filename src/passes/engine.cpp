@@ -523,7 +523,40 @@ EngineResult restructure(net::Network& net, const EngineOptions& opts) {
     ShrinkMemo shrinkMemo;
     sched.shrinkMemo_ = &shrinkMemo;
     std::vector<Source> sources = sched.makeSources(true);
-    sched.run(net, res.before, sources, opts.limits.trials, true);
+    if (opts.goal == Goal::Depth) {
+        // Greedy depth moves from the input can stop deeper than the size
+        // goal's result (smaller logic is often shallower too). So the depth
+        // goal starts from the size goal's result when that is admissible
+        // (no more gates than the input on the shallowest forms) and keeps
+        // lowering depth from there; its depth is then never above the size
+        // goal's. The input is the start otherwise.
+        EngineOptions sizeOpts = opts;
+        sizeOpts.goal = Goal::Size;
+        sizeOpts.cache = &cache;
+        sizeOpts.maxDepth = -1;
+        net::Network sized = net;
+        EngineResult first = restructure(sized, sizeOpts);
+        const net::Metrics m = measureFactored(sized, -1, &cache);
+        if (!first.keptOriginal && m.gates <= res.before.gates && better(Goal::Depth, m, res.before)) {
+            net = std::move(sized);
+            for (TechniqueRow row : first.techniques) {
+                row.technique = "size phase: " + row.technique;
+                res.techniques.push_back(std::move(row));
+            }
+            for (MoveRow mv : first.moves) {
+                mv.technique = "size phase: " + mv.technique;
+                res.moves.push_back(std::move(mv));
+            }
+            for (const std::string& l : first.limitsHit)
+                if (std::find(res.limitsHit.begin(), res.limitsHit.end(), l) == res.limitsHit.end())
+                    res.limitsHit.push_back(l);
+            sched.run(net, m, sources, opts.limits.trials, true);
+        } else {
+            sched.run(net, res.before, sources, opts.limits.trials, true);
+        }
+    } else {
+        sched.run(net, res.before, sources, opts.limits.trials, true);
+    }
     tidy(net);
     res.forms = factorNetwork(net, measureCap, &cache);
     res.after = res.forms.metrics;

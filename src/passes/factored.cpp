@@ -67,7 +67,10 @@ FactorCache::~FactorCache() = default;
 const Factored& FactorCache::best(const Cover& f) {
     Impl::Entry& e = impl_->entry(f);
     if (!e.hasBest) {
-        e.best = algebra::factor(f, algebra::FactorMethod::Best);
+        // Best compares against the quick form: take it from the entry
+        // rather than letting factor() compute it a second time.
+        const Factored& q = quick(f);
+        e.best = algebra::factorBest(f, q);
         e.bestGates = gatesOf(e.best);
         e.hasBest = true;
         ++impl_->factored;

@@ -27,6 +27,7 @@
 #include "workspace.h"
 
 #include <algorithm>
+#include <climits>
 #include <queue>
 #include <unordered_map>
 
@@ -47,7 +48,12 @@ using detail::Workspace;
 struct Divisor {
     Cover d;
     long saving = 0;
-    std::vector<net::NodeId> nodes;      // one entry per occurrence
+    // Nodes that held the divisor when they were (re-)entered; entries of
+    // nodes since changed are not removed one by one (that costs the list's
+    // length per change); duplicates are dropped each time the list has
+    // doubled. A stale entry costs one failed division.
+    std::vector<net::NodeId> nodes;
+    std::size_t compactAt = 32;   // list length at which duplicates are next dropped
     std::vector<net::NodeId> providers;  // nodes whose cover is d
     std::uint32_t version = 0;
     bool blocked = false;
@@ -75,35 +81,14 @@ public:
         return 0;
     }
 
-    void remove(net::NodeId f) {
-        if (f >= contrib_.size()) return;
-        Contribution& c = contrib_[f];
-        for (auto [id, s] : c.items) {
-            Divisor& dv = divs_[static_cast<std::size_t>(id)];
-            dv.saving -= s;
-            auto it = std::find(dv.nodes.begin(), dv.nodes.end(), f);
-            if (it != dv.nodes.end()) { *it = dv.nodes.back(); dv.nodes.pop_back(); }
-            touched_.push_back(id);
-        }
-        if (c.provides >= 0) {
-            auto& pv = divs_[static_cast<std::size_t>(c.provides)].providers;
-            pv.erase(std::remove(pv.begin(), pv.end(), f), pv.end());
-            touched_.push_back(c.provides);
-        }
-        c = Contribution{};
-    }
-
-    void add(net::NodeId f) {
-        if (f >= contrib_.size()) contrib_.resize(ws_.net().nodeCount());
-        Contribution& c = contrib_[f];
+    // f's divisors and savings, summed per divisor and sorted by divisor.
+    Contribution compute(net::NodeId f) {
+        Contribution c;
         const Cover& F = ws_.cover(f);
         const bool selfDouble = F.cubes.size() == 2 && algebra::commonCube(F).empty();
         const bool selfSingle = F.cubes.size() == 1 && F.cubes[0].lits.size() == 2;
         if (selfDouble || selfSingle) {
-            int id = idOf(F);
-            divs_[static_cast<std::size_t>(id)].providers.push_back(f);
-            c.provides = id;
-            touched_.push_back(id);
+            c.provides = idOf(F);
         }
         if (F.cubes.size() >= 2 && F.cubes.size() <= opts_.maxCubesForPairs) {
             for (std::size_t i = 0; i < F.cubes.size(); ++i)
@@ -119,19 +104,70 @@ public:
                     long s = static_cast<long>(da.size() + db.size() + base.size()) - 1;
                     Cover d{{Cube(std::move(da)), Cube(std::move(db))}};
                     d.normalize();
-                    note(c, f, idOf(d), s);
+                    c.items.push_back({idOf(d), s});
                 }
         }
         // Large nodes (their pairs would be recounted after every extraction)
         // leave common cubes to extract-cubes.
-        if (F.cubes.size() > opts_.maxCubesForPairs) return;
+        if (F.cubes.size() > opts_.maxCubesForPairs) return finish(c);
         for (const Cube& cube : F.cubes) {
             if (cube.lits.size() < 2 || cube.lits.size() > opts_.maxCubeForLiteralPairs) continue;
             if (selfSingle) continue;
             for (std::size_t i = 0; i < cube.lits.size(); ++i)
                 for (std::size_t j = i + 1; j < cube.lits.size(); ++j)
-                    note(c, f, pairId(cube.lits[i], cube.lits[j]), 1);
+                    c.items.push_back({pairId(cube.lits[i], cube.lits[j]), 1});
         }
+        return finish(c);
+    }
+
+    static Contribution finish(Contribution& c) {
+        std::sort(c.items.begin(), c.items.end());
+        std::size_t k = 0;
+        for (std::size_t i = 0; i < c.items.size(); ++i) {
+            if (k && c.items[k - 1].first == c.items[i].first) c.items[k - 1].second += c.items[i].second;
+            else c.items[k++] = c.items[i];
+        }
+        c.items.resize(k);
+        return std::move(c);
+    }
+
+    /// Enter f, or re-enter it after it changed: only divisors whose saving
+    /// from f changed are touched (a changed node keeps most of its pairs).
+    void add(net::NodeId f) {
+        if (f >= contrib_.size()) contrib_.resize(ws_.net().nodeCount());
+        Contribution next = compute(f);
+        Contribution& old = contrib_[f];
+        std::size_t i = 0, j = 0;
+        while (i < old.items.size() || j < next.items.size()) {
+            if (j == next.items.size() || (i < old.items.size() && old.items[i].first < next.items[j].first)) {
+                Divisor& dv = divs_[static_cast<std::size_t>(old.items[i].first)];
+                dv.saving -= old.items[i].second;
+                touched_.push_back(old.items[i].first);
+                ++i;
+            } else if (i == old.items.size() || next.items[j].first < old.items[i].first) {
+                note(f, next.items[j].first, next.items[j].second);
+                ++j;
+            } else {
+                if (old.items[i].second != next.items[j].second) {
+                    divs_[static_cast<std::size_t>(old.items[i].first)].saving -= old.items[i].second;
+                    note(f, next.items[j].first, next.items[j].second);
+                }
+                ++i;
+                ++j;
+            }
+        }
+        if (old.provides != next.provides) {
+            if (old.provides >= 0) {
+                auto& pv = divs_[static_cast<std::size_t>(old.provides)].providers;
+                pv.erase(std::remove(pv.begin(), pv.end(), f), pv.end());
+                touched_.push_back(old.provides);
+            }
+            if (next.provides >= 0) {
+                divs_[static_cast<std::size_t>(next.provides)].providers.push_back(f);
+                touched_.push_back(next.provides);
+            }
+        }
+        old = std::move(next);
     }
 
     std::vector<int> takeTouched() {
@@ -143,12 +179,19 @@ public:
     }
 
     Divisor& div(int id) { return divs_[static_cast<std::size_t>(id)]; }
+    /// Does f's current contribution count divisor id?
+    bool holds(net::NodeId f, int id) const {
+        if (f >= contrib_.size()) return false;
+        const auto& it = contrib_[f].items;
+        auto p = std::lower_bound(it.begin(), it.end(), std::pair<int, long>{id, LONG_MIN});
+        return p != it.end() && p->first == id;
+    }
     std::size_t size() const { return divs_.size(); }
 
 private:
     int pairId(Literal a, Literal b) {
         std::uint64_t key = (std::uint64_t{a} << 32) | b;
-        auto [it, fresh] = pairIndex_.emplace(key, static_cast<int>(divs_.size()));
+        auto [it, fresh] = pairIndex_.try_emplace(key, static_cast<int>(divs_.size()));
         if (fresh) {
             Divisor dv;
             dv.d = Cover{{Cube({a, b})}};
@@ -159,7 +202,7 @@ private:
     int idOf(const Cover& d) {
         if (d.cubes.size() == 1 && d.cubes[0].lits.size() == 2) return pairId(d.cubes[0].lits[0], d.cubes[0].lits[1]);
         std::string key = detail::coverKey(d);
-        auto [it, fresh] = index_.emplace(std::move(key), static_cast<int>(divs_.size()));
+        auto [it, fresh] = index_.try_emplace(std::move(key), static_cast<int>(divs_.size()));
         if (fresh) {
             Divisor dv;
             dv.d = d;
@@ -167,11 +210,15 @@ private:
         }
         return it->second;
     }
-    void note(Contribution& c, net::NodeId f, int id, long s) {
+    void note(net::NodeId f, int id, long s) {
         Divisor& dv = divs_[static_cast<std::size_t>(id)];
         dv.saving += s;
-        dv.nodes.push_back(f);
-        c.items.push_back({id, s});
+        if (dv.nodes.size() >= dv.compactAt) {   // amortised: the threshold doubles
+            std::sort(dv.nodes.begin(), dv.nodes.end());
+            dv.nodes.erase(std::unique(dv.nodes.begin(), dv.nodes.end()), dv.nodes.end());
+            dv.compactAt = 2 * dv.nodes.size() + 32;
+        }
+        if (dv.nodes.empty() || dv.nodes.back() != f) dv.nodes.push_back(f);
         touched_.push_back(id);
     }
 
@@ -208,6 +255,8 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
         std::vector<net::NodeId> targets = dv.nodes;
         std::sort(targets.begin(), targets.end());
         targets.erase(std::unique(targets.begin(), targets.end()), targets.end());
+        targets.erase(std::remove_if(targets.begin(), targets.end(), [&](net::NodeId f) { return !table.holds(f, e.id); }),
+                      targets.end());
         net::NodeId provider = table.liveProvider(e.id);
         Cover d = dv.d;
         net::NodeId created = 0;
@@ -220,10 +269,7 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
         (provider ? reused : extracted) += 1;
         if (d.cubes.size() == 1) ++singles;
         saved += gain;
-        for (net::NodeId f : changed) {
-            table.remove(f);
-            table.add(f);
-        }
+        for (net::NodeId f : changed) table.add(f);
         if (created) table.add(created);
         for (int id : table.takeTouched()) push(id);
     }

@@ -111,10 +111,77 @@ std::string coverKey(const Cover& f) {
     return key;
 }
 
+std::size_t balancedArrival(std::size_t* t, std::size_t k) {
+    // Merging the two earliest leaves first: k leaves at the earliest level
+    // t leave ceil(k/2) at t+1 (an odd one out pairs later with something at
+    // least as late as t+1, so it behaves as if it arrived at t+1).
+    if (k == 0) return 0;
+    std::sort(t, t + k);
+    std::size_t level = t[0], count = 0;
+    for (std::size_t i = 0; i < k; ++i) {
+        while (level < t[i] && count > 1) { count = (count + 1) / 2; ++level; }
+        if (level < t[i]) level = t[i];
+        ++count;
+    }
+    while (count > 1) { count = (count + 1) / 2; ++level; }
+    return level;
+}
+
+std::size_t balancedArrival(const std::vector<std::uint32_t>& hist) {
+    std::size_t first = 0;
+    while (first < hist.size() && !hist[first]) ++first;
+    if (first == hist.size()) return 0;
+    std::size_t last = hist.size() - 1;
+    while (!hist[last]) --last;
+    std::size_t count = 0, level = first;
+    for (std::size_t t = first;; ++t) {
+        count += hist[t];
+        if (t == last) break;
+        count = (count + 1) / 2;   // carried to t+1
+        level = t + 1;
+    }
+    while (count > 1) { count = (count + 1) / 2; ++level; }
+    return level;
+}
+
+namespace {
+
+template <class ArrivalOf>
+std::size_t cubeArrivalBy(const Cube& c, ArrivalOf arrivalOf) {
+    const std::size_t k = c.lits.size();
+    if (k == 0) return 0;
+    if (k == 1) return arrivalOf(literalVar(c.lits[0]));
+    constexpr std::size_t kStack = 64;
+    std::size_t stack[kStack];
+    std::vector<std::size_t> heap;
+    std::size_t* t = stack;
+    if (k > kStack) { heap.resize(k); t = heap.data(); }
+    for (std::size_t i = 0; i < k; ++i) t[i] = arrivalOf(literalVar(c.lits[i]));
+    return balancedArrival(t, k);
+}
+
+} // namespace
+
+std::size_t cubeArrival(const Cube& c, const std::vector<std::size_t>& at) {
+    return cubeArrivalBy(c, [&](NodeId v) { return v < at.size() ? at[v] : std::size_t{0}; });
+}
+
 Workspace::Workspace(net::Network& net, std::size_t depthCap) : net_(net), cap_(depthCap) {
     ensureSize();
-    for (NodeId v = 0; v < net_.nodeCount(); ++v)
-        if (net_.isLogic(v)) indexCover(v, net_.node(v).cover, true);
+    std::vector<NodeId> vars;
+    for (NodeId v = 0; v < net_.nodeCount(); ++v) {
+        if (!net_.isLogic(v)) continue;
+        vars.clear();
+        for (const Cube& c : net_.node(v).cover.cubes)
+            for (Literal l : c.lits) vars.push_back(literalVar(l));
+        std::sort(vars.begin(), vars.end());
+        auto& r = reads_[v];
+        for (NodeId u : vars) {
+            if (!r.empty() && r.back().first == u) { ++r.back().second; continue; }
+            r.push_back({u, 1});
+            fanouts_[u].push_back(v);
+        }
+    }
     for (const net::Output& o : net_.outputs()) ++outRefs_[literalVar(o.driver)];
     at_ = net::arrivalTimes(net_);
     at_.resize(net_.nodeCount(), 0);
@@ -127,46 +194,44 @@ void Workspace::ensureSize() {
         outRefs_.resize(n, 0);
         at_.resize(n, 0);
         queued_.resize(n, 0);
+        hist_.resize(n);
+        histValid_.resize(n, 0);
+        reads_.resize(n);
+        for (auto* m : {&processed_, &changed_, &needFull_, &createdMark_, &firstCoverMark_}) m->resize(n, 0);
+        preAt_.resize(n, 0);
+        firstCover_.resize(n, 0);
     }
 }
 
-namespace {
-std::vector<NodeId> coverVars(const Cover& c) {
-    std::vector<NodeId> vs;
-    for (const Cube& cube : c.cubes)
-        for (Literal l : cube.lits) vs.push_back(literalVar(l));
-    std::sort(vs.begin(), vs.end());
-    vs.erase(std::unique(vs.begin(), vs.end()), vs.end());
-    return vs;
-}
-} // namespace
-
-void Workspace::indexCover(NodeId v, const Cover& c, bool add) {
-    for (NodeId u : coverVars(c)) {
-        auto& fo = fanouts_[u];
-        auto it = std::find(fo.begin(), fo.end(), v);
-        if (add) {
-            if (it == fo.end()) fo.push_back(v);
-        } else if (it != fo.end()) {
-            *it = fo.back();
-            fo.pop_back();
-        }
+void Workspace::countVar(NodeId v, NodeId u, int delta) {
+    auto& r = reads_[v];
+    auto it = std::lower_bound(r.begin(), r.end(), u, [](const auto& p, NodeId x) { return p.first < x; });
+    if (delta > 0) {
+        if (it != r.end() && it->first == u) { ++it->second; return; }
+        r.insert(it, {u, 1});
+        fanouts_[u].push_back(v);
+        return;
     }
+    if (it == r.end() || it->first != u) return;   // cannot happen: counts mirror the cover
+    if (--it->second > 0) return;
+    r.erase(it);
+    auto& fo = fanouts_[u];
+    auto f = std::find(fo.begin(), fo.end(), v);
+    if (f != fo.end()) { *f = fo.back(); fo.pop_back(); }
 }
 
 void Workspace::reindex(NodeId v, const Cover& before, const Cover& after) {
-    // Only variables that appear or disappear touch the fanout lists.
-    std::vector<NodeId> a = coverVars(before), b = coverVars(after), gone, come;
-    std::set_difference(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(gone));
-    std::set_difference(b.begin(), b.end(), a.begin(), a.end(), std::back_inserter(come));
-    for (NodeId u : gone) {
-        auto& fo = fanouts_[u];
-        auto it = std::find(fo.begin(), fo.end(), v);
-        if (it != fo.end()) { *it = fo.back(); fo.pop_back(); }
-    }
-    for (NodeId u : come) {
-        auto& fo = fanouts_[u];
-        if (std::find(fo.begin(), fo.end(), v) == fo.end()) fo.push_back(v);
+    // Only cubes that differ touch the counts (covers are sorted; if one is
+    // not, equal cubes paired up still cancel, so the counts stay exact).
+    const auto& a = before.cubes;
+    const auto& b = after.cubes;
+    std::size_t i = 0, j = 0;
+    auto drop = [&](const Cube& c) { for (Literal l : c.lits) countVar(v, literalVar(l), -1); };
+    auto take = [&](const Cube& c) { for (Literal l : c.lits) countVar(v, literalVar(l), +1); };
+    while (i < a.size() || j < b.size()) {
+        if (j == b.size() || (i < a.size() && a[i] < b[j])) drop(a[i++]);
+        else if (i == a.size() || b[j] < a[i]) take(b[j++]);
+        else { ++i; ++j; }
     }
 }
 
@@ -176,12 +241,16 @@ void Workspace::begin() {
     arrivals_.clear();
     outputs_.clear();
     touched_.clear();
+    hists_.clear();
     open_ = true;
 }
 
 NodeId Workspace::addNode(Cover c) {
     NodeId id = net_.addLogic(Cover{}, {});
     ensureSize();
+    reads_[id].clear();
+    hist_[id].clear();
+    histValid_[id] = 0;
     created_.push_back(id);
     covers_.push_back({id, Cover{}, false});
     setCoverRaw(id, std::move(c));
@@ -214,31 +283,94 @@ void Workspace::flipNode(NodeId v, Cover comp) {
 
 void Workspace::kill(NodeId v) {
     covers_.push_back({v, net_.node(v).cover, net_.node(v).dead});
-    indexCover(v, net_.node(v).cover, false);
+    reindex(v, net_.node(v).cover, Cover{});
     net_.node(v).cover = Cover{};
     net_.node(v).dead = true;
+    histValid_[v] = 0;
+}
+
+std::size_t Workspace::arrivalBeforeCommit(NodeId u) const {
+    if (u >= at_.size()) return 0;
+    return changed_[u] == stamp_ ? preAt_[u] : at_[u];
+}
+
+std::size_t Workspace::retime(NodeId v, const Cover* before, bool full) {
+    auto& h = hist_[v];
+    hists_.push_back({v, h, histValid_[v] != 0});
+    const Cover& now = net_.node(v).cover;
+    auto bump = [&](std::size_t t) {
+        if (t >= h.size()) h.resize(t + 1, 0);
+        ++h[t];
+        ++cubesTimed_;
+    };
+    bool rebuild = full || !before || !histValid_[v];
+    if (!rebuild) {
+        const auto& a = before->cubes;
+        const auto& b = now.cubes;
+        std::size_t i = 0, j = 0;
+        auto old = [&](NodeId u) { return arrivalBeforeCommit(u); };
+        while (i < a.size() || j < b.size()) {
+            if (j == b.size() || (i < a.size() && a[i] < b[j])) {
+                const std::size_t t = cubeArrivalBy(a[i++], old);
+                ++cubesTimed_;
+                if (t >= h.size() || h[t] == 0) { rebuild = true; break; }   // out of step: rebuild
+                --h[t];
+            } else if (i == a.size() || b[j] < a[i]) {
+                bump(cubeArrival(b[j++], at_));
+            } else {
+                ++i;
+                ++j;
+            }
+        }
+        while (!h.empty() && h.back() == 0) h.pop_back();
+    }
+    if (rebuild) {
+        h.clear();
+        for (const Cube& c : now.cubes) bump(cubeArrival(c, at_));
+    }
+    histValid_[v] = 1;
+    return balancedArrival(h);
 }
 
 bool Workspace::commit() {
     // Propagate arrival changes (FIFO to a fixed point; the network is a DAG).
+    // A node edited in this step is re-timed by the cubes that changed, as
+    // long as none of the variables its other cubes read changed arrival;
+    // otherwise (or when reached only through a fanin) it is re-timed in full.
+    ++stamp_;
+    for (std::size_t i = 0; i < covers_.size(); ++i) {
+        const NodeId id = covers_[i].id;
+        if (firstCoverMark_[id] != stamp_) { firstCoverMark_[id] = stamp_; firstCover_[id] = i; }
+    }
     std::deque<NodeId> work;
+    for (NodeId v : created_) {
+        createdMark_[v] = stamp_;
+        if (!queued_[v]) { queued_[v] = 1; work.push_back(v); }
+    }
     for (NodeId v : touched_)
         if (!queued_[v]) { queued_[v] = 1; work.push_back(v); }
     std::vector<NodeId> grown;
-    std::size_t steps = 0;
     while (!work.empty()) {
         NodeId v = work.front();
         work.pop_front();
         queued_[v] = 0;
-        ++steps;
         if (!net_.isLogic(v)) continue;
-        std::size_t a = net::sopCost(net_.node(v).cover, at_).arrival;
+        const bool edited = firstCoverMark_[v] == stamp_ && !covers_[firstCover_[v]].wasDead;
+        const bool full = needFull_[v] == stamp_ || createdMark_[v] == stamp_ || !edited;
+        processed_[v] = stamp_;
+        std::size_t a = retime(v, full ? nullptr : &covers_[firstCover_[v]].old, full);
         if (a == at_[v]) continue;
         if (a > at_[v] && a > cap_) grown.push_back(v);
+        if (changed_[v] != stamp_) { changed_[v] = stamp_; preAt_[v] = at_[v]; }
         arrivals_.push_back({v, at_[v]});
         at_[v] = a;
-        for (NodeId g : fanouts_[v])
+        const bool fresh = createdMark_[v] == stamp_;
+        for (NodeId g : fanouts_[v]) {
+            // g's recorded cube times used v's old arrival unless v is new
+            // here and g has not been timed yet in this commit.
+            if (!fresh || processed_[g] == stamp_) needFull_[g] = stamp_;
             if (!queued_[g]) { queued_[g] = 1; work.push_back(g); }
+        }
     }
     bool ok = true;
     if (cap_ != kNoDepthCap) {
@@ -247,10 +379,7 @@ bool Workspace::commit() {
         for (NodeId v : grown) {
             if (at_[v] <= cap_) continue;
             if (fanouts_[v].empty() && outRefs_[v] == 0) continue;
-            std::size_t old = at_[v];
-            for (const ArrivalChange& ch : arrivals_)
-                if (ch.id == v) { old = ch.old; break; }
-            if (at_[v] > old) { ok = false; break; }
+            if (at_[v] > preAt_[v]) { ok = false; break; }
         }
     }
     if (!ok) {
@@ -264,22 +393,23 @@ bool Workspace::commit() {
 
 void Workspace::rollback() {
     for (auto it = arrivals_.rbegin(); it != arrivals_.rend(); ++it) at_[it->id] = it->old;
+    for (auto it = hists_.rbegin(); it != hists_.rend(); ++it) {
+        hist_[it->id] = std::move(it->old);
+        histValid_[it->id] = it->wasValid ? 1 : 0;
+    }
     for (auto it = covers_.rbegin(); it != covers_.rend(); ++it) {
         Node& node = net_.node(it->id);
-        if (node.dead == it->wasDead && !node.dead) {
-            reindex(it->id, node.cover, it->old);
-        } else {
-            if (!node.dead) indexCover(it->id, node.cover, false);
-            if (!it->wasDead) indexCover(it->id, it->old, true);
-        }
+        reindex(it->id, node.dead ? Cover{} : node.cover, it->wasDead ? Cover{} : it->old);
         node.cover = std::move(it->old);
         node.dead = it->wasDead;
     }
     for (NodeId id : created_) {
-        indexCover(id, net_.node(id).cover, false);
+        reindex(id, net_.node(id).cover, Cover{});
         net_.node(id).cover = Cover{};
         net_.node(id).dead = true;
         at_[id] = 0;
+        histValid_[id] = 0;
+        hist_[id].clear();
     }
     auto& outs = net_.outputs();
     for (auto it = outputs_.rbegin(); it != outputs_.rend(); ++it) outs[it->index].driver = it->old;
@@ -288,6 +418,7 @@ void Workspace::rollback() {
     arrivals_.clear();
     outputs_.clear();
     touched_.clear();
+    hists_.clear();
     open_ = false;
 }
 

@@ -6,6 +6,11 @@
 // Arrival times follow net::sopCost (the sum-of-products depth); commit
 // propagates changed arrivals to the fanouts and rejects the edit when a
 // node's arrival grows above the bound.
+//
+// Updates are incremental: each node keeps how many of its cubes arrive at
+// each time (a histogram) and how many cubes read each variable, so an edit
+// that swaps a few cubes of a large cover costs the cubes it swapped, not
+// the cover (see commit()).
 #pragma once
 
 #include "kerf/network/network.h"
@@ -45,6 +50,17 @@ Cover flipVar(const Cover& f, NodeId v);
 /// A byte string identifying a cover (for hash tables).
 std::string coverKey(const Cover& f);
 
+/// Arrival of the root of a balanced two-input tree over leaves arriving at
+/// `times` (merged two earliest first, as net::sopCost does). The times are
+/// sorted in place. Empty: 0.
+std::size_t balancedArrival(std::size_t* times, std::size_t count);
+
+/// The same for leaves given as a histogram: count[t] leaves arrive at t.
+std::size_t balancedArrival(const std::vector<std::uint32_t>& count);
+
+/// Arrival of a cube's AND tree (its literals' arrivals from `at`).
+std::size_t cubeArrival(const Cube& c, const std::vector<std::size_t>& at);
+
 class Workspace {
 public:
     Workspace(net::Network& net, std::size_t depthCap);
@@ -71,16 +87,23 @@ public:
 
     /// Number of edits rejected for depth so far.
     std::size_t depthRejects() const { return rejects_; }
+    /// Cubes whose arrival was computed by commits so far (a measure of work).
+    std::size_t cubesTimed() const { return cubesTimed_; }
 
 private:
     void ensureSize();
-    void indexCover(NodeId v, const Cover& c, bool add);
     void reindex(NodeId v, const Cover& before, const Cover& after);
+    void countVar(NodeId v, NodeId u, int delta);
     void setCoverRaw(NodeId v, Cover c);
+    /// New arrival of v: its histogram rebuilt (full) or updated by the
+    /// cubes that differ between `before` and its cover (before: null → full).
+    std::size_t retime(NodeId v, const Cover* before, bool full);
+    std::size_t arrivalBeforeCommit(NodeId u) const;
 
     struct CoverChange { NodeId id; Cover old; bool wasDead; };
     struct ArrivalChange { NodeId id; std::size_t old; };
     struct OutputChange { std::size_t index; Literal old; };
+    struct HistChange { NodeId id; std::vector<std::uint32_t> old; bool wasValid; };
 
     net::Network& net_;
     std::size_t cap_;
@@ -95,6 +118,18 @@ private:
     std::vector<NodeId> touched_;
     std::vector<std::uint8_t> queued_;
     std::size_t rejects_ = 0;
+    std::size_t cubesTimed_ = 0;
+    // Incremental timing: per node, cubes per arrival time (valid when
+    // histValid_), and per node the (variable, cubes reading it) pairs sorted by variable.
+    std::vector<std::vector<std::uint32_t>> hist_;
+    std::vector<std::uint8_t> histValid_;
+    std::vector<std::vector<std::pair<NodeId, std::uint32_t>>> reads_;
+    std::vector<HistChange> hists_;
+    // Per-commit marks (compared with stamp_): processed, arrival changed (preAt_ holds the old one),
+    // must be rebuilt in full; per-edit: created, first journal entry (firstCover_).
+    std::uint32_t stamp_ = 0;
+    std::vector<std::uint32_t> processed_, changed_, needFull_, createdMark_, firstCoverMark_;
+    std::vector<std::size_t> preAt_, firstCover_;
 };
 
 /// f rewritten as q·lit + r with the weak division of f by d (by the single

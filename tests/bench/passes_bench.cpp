@@ -6,7 +6,8 @@
 // two-input gates before/after (counted on the written factored forms),
 // their ratio, depth before/after, seconds and the peak resident memory of
 // that run (each case runs in its own child process). It then times
-// synthetic decoders (1k, 10k, 100k product terms over 32–64 inputs).
+// synthetic decoders (1k, 10k, 100k product terms over 64 inputs and 256
+// outputs, the issue-9 shape) with the time each technique took.
 // Every result is also checked by random simulation against the input.
 //
 // Then a set of case-style decoders with x defaults, restructured with the x
@@ -43,6 +44,11 @@ struct Figures {
     double seconds = 0;
     int equivalent = 1;
     int kept = 0;
+    // Seconds per technique (the engine's own timers; plain data: it crosses a pipe).
+    int techniques = 0;
+    char techName[16][40] = {};
+    double techSeconds[16] = {};
+    int techTrials[16] = {};
 };
 
 // Decoder-style PLA: `terms` product terms over `inputs` inputs, each a
@@ -153,6 +159,13 @@ Figures runCase(net::Network net, const std::string& effort, int verbose, const 
     f.litsBefore = r.before.literals;
     f.litsAfter = r.after.literals;
     f.kept = r.keptOriginal;
+    for (const auto& t : r.techniques) {
+        if (f.techniques >= 16) break;
+        std::snprintf(f.techName[f.techniques], sizeof f.techName[0], "%s", t.technique.c_str());
+        f.techSeconds[f.techniques] = t.seconds;
+        f.techTrials[f.techniques] = t.trials;
+        ++f.techniques;
+    }
     f.equivalent = dontCares ? equalWhereCared(input, net, *dontCares) : sameFunctions(input, net, 32).empty();
     if (verbose || gTechniques) std::fprintf(stderr, "%s", passes::formatEngineReport(r).c_str());
     return f;
@@ -252,7 +265,8 @@ int main(int argc, char** argv) {
         std::printf("\n%-22s %8s %8s %9s %7s %7s %9s %9s %10s\n", "synthetic decoder", "lits", "after", "gates", "after",
                     "depth", "seconds", "cpu", "peakRSS");
         struct Cfg { std::size_t terms, inputs, outputs; };
-        for (Cfg c : {Cfg{1000, 32, 16}, Cfg{10000, 48, 32}, Cfg{100000, 64, 64}}) {
+        // The shape of the issue-9 generator at every size: 64 inputs, 256 outputs.
+        for (Cfg c : {Cfg{1000, 64, 256}, Cfg{10000, 64, 256}, Cfg{100000, 64, 256}}) {
             if (minTerms && c.terms < minTerms) continue;
             if (maxTerms && c.terms > maxTerms) continue;
             Figures f;
@@ -269,6 +283,11 @@ int main(int argc, char** argv) {
                         f.litsAfter, f.gatesBefore, f.gatesAfter, f.depthAfter, f.seconds, gLastCpu, rss / 1024.0,
                         f.equivalent ? "" : " NOT-EQUIVALENT");
             if (!f.equivalent) ++failures;
+            std::string per = "    time per technique (s, trials):";
+            for (int t = 0; t < f.techniques; ++t)
+                per += " " + std::string(f.techName[t]) + " " + std::to_string(f.techSeconds[t]).substr(0, 6) + " (" +
+                       std::to_string(f.techTrials[t]) + ")";
+            std::printf("%s\n", per.c_str());
             std::fflush(stdout);
         }
     }

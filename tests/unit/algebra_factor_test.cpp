@@ -156,9 +156,6 @@ TEST(AlgebraFactor, RandomCoversKeepFunctionCubesAndNeverGrow) {
     EXPECT_LT(factoredBest, factoredQuick);
 }
 
-} // namespace
-} // namespace kerf::algebra
-
 namespace kerf::algebra {
 namespace {
 
@@ -205,6 +202,24 @@ TEST(AlgebraFactor, SparseVariableNumbersGiveTheSameResults) {
             ASSERT_EQ(g.literalCount(), h.literalCount());
             ASSERT_EQ(spread(g.toCover(), stride), h.toCover());
         }
+    }
+}
+
+} // namespace
+} // namespace kerf::algebra
+
+TEST(AlgebraFactor, BestFromAGivenQuickFormIsTheSameAsBestAlone) {
+    // FactorCache hands Best the quick form it already holds (factored once);
+    // the result must be the one factor(f, Best) gives, with f's function.
+    std::mt19937 rng(2024);
+    for (int iter = 0; iter < 500; ++iter) {
+        const unsigned vars = 3 + rng() % 10;
+        const Cover f = testing::randomCover(rng, vars, 1 + rng() % 20, 5);
+        const Factored quick = factor(f, FactorMethod::Quick);
+        const Factored viaQuick = factorBest(f, quick);
+        const Factored alone = factor(f, FactorMethod::Best);
+        ASSERT_EQ(viaQuick.literalCount(), alone.literalCount()) << "iteration " << iter;
+        ASSERT_EQ(testing::evalFactored(viaQuick, vars), testing::evalCover(f, vars)) << "iteration " << iter;
     }
 }
 

@@ -101,6 +101,23 @@ TEST(PassesEngine, DepthGoalNeverAddsGatesNorDepth) {
     }
 }
 
+TEST(PassesEngine, DepthGoalIsNeverDeeperThanTheSizeGoal) {
+    // What --goal depth promises beside --goal size (issue 11): on the same
+    // input its result is at most as deep, with no more gates than the input.
+    for (std::uint32_t seed = 1; seed <= 4; ++seed) {
+        Network base = randomAig(80 + seed, 12, 300, 6);
+        tidy(base);
+        Network bySize = base, byDepth = base;
+        EngineOptions s, d;
+        d.goal = Goal::Depth;
+        EngineResult rs = restructure(bySize, s);
+        EngineResult rd = restructure(byDepth, d);
+        EXPECT_EQ(sameFunctions(base, byDepth), "");
+        EXPECT_LE(rd.after.depth, rs.after.depth) << "seed " << seed;
+        EXPECT_LE(rd.after.gates, rd.before.gates) << "seed " << seed;
+    }
+}
+
 TEST(PassesEngine, WorseResultRestoresTheInput) {
     // A chain of XORs (3 gates each) collapsed into one sum of products is
     // the 8-cube parity of four inputs, far bigger even when factored; no

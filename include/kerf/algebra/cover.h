@@ -201,6 +201,10 @@ enum class FactorMethod {
 /// (no Boolean simplification): it has the same function and never more literals.
 Factored factor(const Cover& f, FactorMethod method = FactorMethod::Best);
 
+/// Best factoring of f given its Quick form (factor(f, Quick)), which Best
+/// compares against: callers that hold both forms factor each once.
+Factored factorBest(const Cover& f, const Factored& quickForm);
+
 /// The cover as a factored form without factoring (an OR of ANDs).
 Factored sumOfProducts(const Cover& f);
 
