@@ -65,7 +65,9 @@ SignalGraph signalGraph(const frontend::ModuleDesc& m, const frontend::Lowered& 
             net::NodeId d = algebra::literalVar(net.outputs()[i].driver);
             if (net.isLogic(d) && owner[d].empty()) owner[d] = vertexOf(sig);
             // A wire holding a word operation's result (or kept code's) is what its readers read.
-            if (net.node(d).kind == net::NodeKind::Input && owner[d].empty() && !isPort(inputSig[d]))
+            // (An operation's generated operand only copies it: the operation reads the wire.)
+            if (net.node(d).kind == net::NodeKind::Input && owner[d].empty() && !isPort(inputSig[d]) &&
+                !alias.count(sig))
                 owner[d] = vertexOf(sig);
         }
     auto source = [&](net::NodeId f, const std::string& reader) {

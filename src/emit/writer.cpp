@@ -83,6 +83,7 @@ void setHeader(WriteResult& r, const std::string& line) {
     if (r.headerLen == 0) return;
     std::size_t start = r.text.find("//", r.headerPos);
     std::string text = "// kerf: " + line;
+    if (!r.unusedWire.empty()) text += "; bits no longer read: see " + r.unusedWire;
     r.text.replace(start, r.headerPos + r.headerLen - start, text);
     r.headerLen = start - r.headerPos + text.size();
 }
@@ -187,9 +188,17 @@ private:
     PExpr outputExpr(std::size_t i);
     std::string statementsFor(int unitMember, const std::string& ind, std::set<std::string>* refsOut);
     std::string wireBlock(int group, const std::string& ind);
+    /// A generated word operand whose bits (offset -> output index) are all names or constants,
+    /// as one concatenation text; nothing when some bit is logic.
+    std::optional<std::string> inlineOperand(const std::map<int, std::size_t>& bits, int width);
     std::string statement(const std::string& ind, const std::string& lead, const PExpr& e) const;
 
+    /// Every name output i's text reads: an author's copy of an input reads that input;
+    /// otherwise the node's name (when output i does not define it) and its definition's names.
+    void namesRead(std::size_t i, const std::function<void(const std::string&)>& onName);
     void collectRefs(const PExpr& e, std::set<std::string>& out) const;
+    /// Bits the replaced statements read that the written text no longer reads.
+    std::vector<std::string> unreadBits();
     void coneOf(NodeId v, bool viaDefinition, std::function<void(NodeId)> onWire,
                 std::function<void(NodeId)> onNode, std::function<void(const std::string&)> onName);
 
@@ -233,6 +242,13 @@ private:
     std::vector<VarRef> inputRefs_;            ///< per input variable: its own name
     std::vector<int> aliasOf_;                 ///< per input variable: the output that lends it a name
     const std::vector<Factored>* origForms_ = nullptr;
+    int notReadWidth_ = 0;                     ///< total width of unreadBits()
+    std::map<std::string, std::string> sameAs_; ///< result of a repeated word operation -> the first one's
+    std::map<std::string, std::string> resultName_;   ///< word result -> the author's signal that is exactly it
+    std::map<std::string, std::string> inlined_;      ///< generated operand -> its inline concatenation
+    bool inlinedDone_ = false;
+    std::string operationText(const frontend::WordOp& w);
+    void inlineOperands();
 };
 
 // ------------------------------------------------------------------ set-up
@@ -309,6 +325,76 @@ void Writer::indexOutputs() {
         }
     }
     oneGroup_ = oneGroup_ || !low_.wordOps.empty();
+    // A word operation computed twice (the same operator on operands of the same function) is
+    // written once: later copies' results are read under the first one's name.
+    std::map<std::string, std::vector<Literal>> operandBits;
+    for (std::size_t i = 0; i < outs_.size(); ++i)
+        if (outs_[i].generated) {
+            auto& v = operandBits[outs_[i].bit.signal];
+            if (static_cast<int>(v.size()) <= outs_[i].bit.offset) v.resize(static_cast<std::size_t>(outs_[i].bit.offset) + 1, ~Literal{0});
+            v[static_cast<std::size_t>(outs_[i].bit.offset)] = net_.outputs()[i].driver;
+        }
+    std::map<std::string, std::string> firstOf;
+    std::map<NodeId, std::size_t> inputOf;
+    for (std::size_t k = 0; k < net_.inputs().size(); ++k) inputOf[net_.inputs()[k]] = k;
+    for (const auto& w : low_.wordOps) {
+        std::string key = fmt::format("{}|{}|{}|{}", w.op, w.unary, w.isSigned, w.resultWidth);
+        for (const auto& o : w.operands) {
+            if (!o.generated) {
+                key += "|n:" + o.name;
+                continue;
+            }
+            key += fmt::format("|g{}:", o.width);
+            for (Literal l : operandBits[o.name]) {
+                // A bit that is a result of another operation compares under that result's first name.
+                auto in = inputOf.find(literalVar(l));
+                if (in == inputOf.end()) {
+                    key += fmt::format("{},", l);
+                    continue;
+                }
+                BitRef b = low_.inputBits[in->second];
+                if (auto same = sameAs_.find(b.signal); same != sameAs_.end()) b.signal = same->second;
+                key += fmt::format("{}:{}:{},", b.signal, b.offset, literalNegated(l) ? 1 : 0);
+            }
+        }
+        auto [it, fresh] = firstOf.emplace(key, w.result);
+        if (!fresh) sameAs_[w.result] = it->second;
+    }
+    // An author's signal that is exactly a word operation's result (`assign shifted = word >> n;`)
+    // is written as that operation, and its name names the result: no generated wire it copies.
+    std::size_t firstStmt = std::string::npos;
+    for (int st : stmts_) firstStmt = std::min(firstStmt, byId_.at(st)->src.start);
+    std::map<std::string, std::vector<std::size_t>> outsOfSignal;
+    for (std::size_t i = 0; i < outs_.size(); ++i)
+        if (!outs_[i].generated) outsOfSignal[outs_[i].bit.signal].push_back(i);
+    std::set<std::string> claimed;
+    for (const auto& w : low_.wordOps) {
+        if (sameAs_.count(w.result)) continue;
+        std::vector<NodeId> resultNode(static_cast<std::size_t>(w.resultWidth), 0);
+        for (std::size_t k = 0; k < net_.inputs().size(); ++k)
+            if (low_.inputBits[k].signal == w.result && low_.inputBits[k].offset < w.resultWidth)
+                resultNode[static_cast<std::size_t>(low_.inputBits[k].offset)] = net_.inputs()[k];
+        for (const auto& [sig, idx] : outsOfSignal) {
+            const auto& S = m_.signals.at(sig);
+            if (S.width != w.resultWidth || static_cast<int>(idx.size()) != S.width || claimed.count(sig)) continue;
+            if (S.type != frontend::kNoId && S.type < m_.ir.types.size()) {
+                auto kind = m_.ir.types[S.type].kind;
+                if (kind != frontend::TypeKind::Vector && kind != frontend::TypeKind::Logic) continue;
+            }
+            if (!isPort(sig) && declPos(sig) > firstStmt) continue;
+            bool all = true;
+            for (std::size_t i : idx) {
+                Literal d = net_.outputs()[i].driver;
+                int k = outs_[i].bit.offset;
+                all = all && !literalNegated(d) && k >= 0 && k < w.resultWidth &&
+                      resultNode[static_cast<std::size_t>(k)] != 0 && literalVar(d) == resultNode[static_cast<std::size_t>(k)];
+            }
+            if (!all) continue;
+            resultName_[w.result] = sig;
+            claimed.insert(sig);
+            break;
+        }
+    }
 }
 
 std::size_t Writer::declPos(const std::string& signal) const {
@@ -326,7 +412,10 @@ int Writer::signalRank(const std::string& s) const {
     return kRankInternal + static_cast<int>(std::min<std::size_t>(declPos(s), 255)) * 4096;
 }
 
-VarRef Writer::refFor(const BitRef& b, int rankBase) const {
+VarRef Writer::refFor(const BitRef& bitIn, int rankBase) const {
+    BitRef b = bitIn;
+    if (auto same = sameAs_.find(b.signal); same != sameAs_.end()) b.signal = same->second;
+    if (auto named = resultName_.find(b.signal); named != resultName_.end()) b.signal = named->second;
     VarRef r;
     r.text = bitText(m_, b);
     auto it = m_.signals.find(b.signal);
@@ -677,15 +766,12 @@ bool Writer::checkDeclarationOrder() {
         if (outs_[i].generated) continue;
         const auto* mem = byId_.at(outs_[i].stmt);
         std::size_t here = mem->src.start;
-        NodeId v = literalVar(net_.outputs()[i].driver);
         std::string bad;
         auto check = [&](const std::string& s) {
             if (s == outs_[i].bit.signal) return;
             if (bad.empty() && m_.signals.count(s) && !isPort(s) && declPos(s) >= here) bad = s;
         };
-        if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
-            check(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
-        coneOf(v, definer_[v] == static_cast<int>(i), [](NodeId) {}, [](NodeId) {}, check);
+        namesRead(i, check);
         if (!bad.empty() && withdraw(bad)) return false;
     }
     return true;
@@ -727,10 +813,9 @@ bool Writer::checkCycles() {
                     long t = writerOf(n);
                     if (t >= 0 && static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n});
                 };
-                if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
-                    onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
+                namesRead(i, onName);
                 coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) { adj[from].push_back({wid.at(w), ""}); },
-                       [](NodeId) {}, onName);
+                       [](NodeId) {}, [](const std::string&) {});
             }
         }
     }
@@ -882,10 +967,7 @@ void Writer::keepReaders() {
             auto onName = [&](const std::string& n) { read.insert(n); };
             for (std::size_t i = 0; i < outs_.size(); ++i) {
                 if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;
-                NodeId v = literalVar(net_.outputs()[i].driver);
-                if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
-                    onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
-                coneOf(v, definer_[v] == static_cast<int>(i), [](NodeId) {}, [](NodeId) {}, onName);
+                namesRead(i, onName);
             }
             for (NodeId w : groupWires_[g]) coneOf(w, true, [](NodeId) {}, [](NodeId) {}, onName);
             if (!low_.wordOps.empty() && g == 0)
@@ -907,6 +989,121 @@ void Writer::keepReaders() {
 }
 
 // ------------------------------------------------------------------ text
+
+void Writer::namesRead(std::size_t i, const std::function<void(const std::string&)>& onName) {
+    NodeId v = literalVar(net_.outputs()[i].driver);
+    if (v != 0 && !net_.isLogic(v) && aliasOf_[v] == static_cast<int>(i)) {
+        const VarRef& r = inputRefs_[v];
+        std::string n = r.signal.empty() ? r.text : r.signal;
+        // A signal written as a word operation reads that operation's operands (word block).
+        if (n != outs_[i].bit.signal && n != verilogName(outs_[i].bit.signal)) onName(n);
+        return;
+    }
+    if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
+        onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
+    coneOf(v, definer_[v] == static_cast<int>(i), [](NodeId) {}, [](NodeId) {}, onName);
+}
+
+std::vector<std::string> Writer::unreadBits() {
+    // Bits the written text names: every reference of the replaced groups' statements and wires
+    // and of the word operations' operands, by (signal, offset); scalars by their name.
+    std::set<std::pair<std::string, int>> read;
+    std::set<std::string> wholeRead;
+    auto record = [&](const VarRef& r) {
+        if (!r.signal.empty()) read.insert({r.signal, r.offset});
+        else read.insert({r.text, 0});
+    };
+    std::vector<NodeId> work;
+    std::set<NodeId> expanded;
+    auto expand = [&](NodeId root) {
+        work.push_back(root);
+        while (!work.empty()) {
+            NodeId v = work.back();
+            work.pop_back();
+            if (!expanded.insert(v).second) continue;
+            std::function<void(const Factored&)> walk = [&](const Factored& f) {
+                if (f.kind == Factored::Kind::Lit) {
+                    NodeId u = literalVar(f.lit);
+                    if (u == 0 || isWire_[u]) return;   // wires: their own definitions are roots
+                    if (refs_[u]) record(*refs_[u]);
+                    else if (net_.isLogic(u)) work.push_back(u);
+                }
+                for (const auto& k : f.kids) walk(k);
+            };
+            walk(forms_[v]);
+        }
+    };
+    bool wordsWritten = false;
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        int g = outs_[i].generated ? (groups_.empty() ? -1 : 0) : groupOfStmt_.at(outs_[i].stmt);
+        if (g < 0 || !groups_[static_cast<std::size_t>(g)].replaced) continue;
+        if (outs_[i].generated) wordsWritten = true;
+        NodeId v = literalVar(net_.outputs()[i].driver);
+        if (v == 0) continue;
+        if (!net_.isLogic(v) && aliasOf_[v] == static_cast<int>(i)) record(inputRefs_[v]);
+        else if (definer_[v] == static_cast<int>(i)) expand(v);
+        else if (refs_[v] && !isWire_[v]) record(*refs_[v]);
+    }
+    for (NodeId w : wires_)
+        if (wireGroup_[w] >= 0 && groups_[static_cast<std::size_t>(wireGroup_[w])].replaced) expand(w);
+    wordsWritten = wordsWritten || (!low_.wordOps.empty() && !groups_.empty() && groups_[0].replaced);
+    if (wordsWritten)
+        for (const auto& w : low_.wordOps)
+            for (const auto& o : w.operands)
+                if (!o.generated) wholeRead.insert(o.name);
+    // What the replaced statements read and nothing kept reads.
+    std::set<std::string> replacedReads, keptReads, written;
+    std::set<int> replacedIds;
+    for (std::size_t g = 0; g < groups_.size(); ++g)
+        for (int st : groupStmts_[g])
+            for (int mid : membersOfStmt_.at(st)) {
+                const auto& rd = byId_.at(mid)->reads;
+                if (groups_[g].replaced) {
+                    replacedIds.insert(mid);
+                    replacedReads.insert(rd.begin(), rd.end());
+                    written.insert(byId_.at(mid)->writes.begin(), byId_.at(mid)->writes.end());
+                }
+                else keptReads.insert(rd.begin(), rd.end());
+            }
+    for (const auto& mem : m_.members)
+        if (!replacedIds.count(mem.id)) keptReads.insert(mem.reads.begin(), mem.reads.end());
+    std::set<std::string> driven;
+    for (const auto& o : outs_)
+        if (!o.generated) driven.insert(o.bit.signal);
+    std::vector<std::string> out;
+    notReadWidth_ = 0;
+    auto runs = [&](const std::string& name, int width, bool scalar, const std::function<std::string(int, int)>& text) {
+        if (wholeRead.count(name)) return;
+        int lo = -1;
+        for (int k = 0; k <= width; ++k) {
+            bool unread = k < width && !read.count(scalar ? std::make_pair(verilogName(name), 0) : std::make_pair(name, k));
+            if (unread && lo < 0) lo = k;
+            if (!unread && lo >= 0) {
+                out.push_back(text(lo, k - lo));
+                notReadWidth_ += k - lo;
+                lo = -1;
+            }
+        }
+    };
+    for (const auto& name : replacedReads) {
+        auto it = m_.signals.find(name);
+        // Signals the replaced statements write are theirs to keep read (keepReaders), or dissolved.
+        if (it == m_.signals.end() || keptReads.count(name) || driven.count(name) || written.count(name) ||
+            std::find(low_.dissolved.begin(), low_.dissolved.end(), name) != low_.dissolved.end())
+            continue;
+        const auto& sig = it->second;
+        if (sig.dir == frontend::PortDir::Output || sig.dir == frontend::PortDir::Inout) continue;
+        bool scalar = !sig.vector && sig.width == 1;
+        runs(name, sig.width, scalar, [&](int lo, int n) { return frontend::referenceText(m_, name, lo, n); });
+    }
+    if (wordsWritten)
+        for (const auto& w : low_.wordOps)
+            if (!sameAs_.count(w.result) && !resultName_.count(w.result)) runs(w.result, w.resultWidth, w.resultWidth == 1, [&](int lo, int n) {
+                if (w.resultWidth == 1) return verilogName(w.result);
+                return n == 1 ? fmt::format("{}[{}]", w.result, lo) : fmt::format("{}[{}:{}]", w.result, lo + n - 1, lo);
+            });
+    return out;
+}
 
 void Writer::collectRefs(const PExpr& e, std::set<std::string>& out) const {
     if (e.kind == PExpr::Kind::Ref && e.ref) out.insert(e.ref->signal.empty() ? e.ref->text : e.ref->signal);
@@ -990,6 +1187,16 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
             a.reads.erase(s);
             as.push_back(std::move(a));
         };
+        const frontend::WordOp* op = nullptr;
+        for (const auto& w : low_.wordOps)
+            if (auto named = resultName_.find(w.result); named != resultName_.end() && named->second == s) op = &w;
+        if (op) {
+            PExpr e;
+            e.kind = PExpr::Kind::Ref;
+            e.text = operationText(*op);
+            add(verilogName(s), e);
+            continue;
+        }
         if (!sig.vector && sig.width == 1) {
             // The front end's target text: a one-bit enum is assigned through its values.
             auto pieces = frontend::targetPieces(m_, s, 0, 1);
@@ -1113,18 +1320,115 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
     return out;
 }
 
+std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t>& bits, int width) {
+    if (static_cast<int>(bits.size()) != width || width < 1) return std::nullopt;
+    struct Piece {
+        const VarRef* ref = nullptr;   // null: a constant run
+        int lo = 0, n = 0;             // ref: offsets [lo, lo + n); constant: bits in `value` (msb first)
+        std::string value;
+    };
+    std::vector<Piece> pieces;   // most significant first
+    for (int k = width - 1; k >= 0; --k) {
+        auto it = bits.find(k);
+        if (it == bits.end()) return std::nullopt;
+        PExpr e = outputExpr(it->second);
+        if (e.kind == PExpr::Kind::Zero || e.kind == PExpr::Kind::One) {
+            char c = (e.kind == PExpr::Kind::One) != e.neg ? '1' : '0';
+            if (!pieces.empty() && !pieces.back().ref) pieces.back().value += c;
+            else pieces.push_back({nullptr, 0, 0, std::string(1, c)});
+            continue;
+        }
+        if (e.kind != PExpr::Kind::Ref || e.neg || !e.ref) return std::nullopt;
+        const VarRef* r = e.ref;
+        if (!pieces.empty() && pieces.back().ref && !r->signal.empty() && pieces.back().ref->signal == r->signal &&
+            pieces.back().lo == r->offset + 1) {
+            pieces.back().lo = r->offset;
+            ++pieces.back().n;
+            continue;
+        }
+        pieces.push_back({r, r->offset, 1, {}});
+    }
+    std::vector<std::string> texts;
+    for (const auto& p : pieces) {
+        if (!p.ref) {
+            texts.push_back(fmt::format("{}'b{}", p.value.size(), p.value));
+        } else if (p.ref->signal.empty()) {
+            texts.push_back(p.ref->text);
+        } else if (p.ref->module) {
+            texts.push_back(frontend::referenceText(*p.ref->module, p.ref->signal, p.lo, p.n));
+        } else {
+            auto gw = generatedWidths().find(p.ref->signal);
+            bool whole = p.lo == 0 && gw != generatedWidths().end() && gw->second == p.n;
+            std::string name = verilogName(p.ref->signal);
+            texts.push_back(whole ? name
+                                  : p.n == 1 ? fmt::format("{}[{}]", name, p.lo)
+                                             : fmt::format("{}[{}:{}]", name, p.lo + p.n - 1, p.lo));
+        }
+    }
+    if (texts.size() == 1) {
+        // A part select or a constant is unsigned; a whole name might be declared signed.
+        const std::string& t = texts[0];
+        bool generated = pieces[0].ref && !pieces[0].ref->module && !pieces[0].ref->signal.empty();
+        if (!t.empty() && (generated || t.back() == ']' || t.find('\'') != std::string::npos)) return t;
+        return "{" + t + "}";
+    }
+    std::string cat = "{";
+    for (std::size_t q = 0; q < texts.size(); ++q) cat += (q ? ", " : "") + texts[q];
+    return cat + "}";
+}
+
+void Writer::inlineOperands() {
+    if (inlinedDone_) return;
+    inlinedDone_ = true;
+    std::map<std::string, std::map<int, std::size_t>> bitsOf;
+    for (std::size_t i = 0; i < outs_.size(); ++i)
+        if (outs_[i].generated) bitsOf[outs_[i].bit.signal][outs_[i].bit.offset] = i;
+    for (const auto& w : low_.wordOps)
+        for (const auto& o : w.operands) {
+            if (!o.generated || inlined_.count(o.name)) continue;
+            if (auto text = inlineOperand(bitsOf[o.name], o.width)) inlined_[o.name] = *text;
+        }
+}
+
+std::string Writer::operationText(const frontend::WordOp& w) {
+    inlineOperands();
+    auto operandText = [&](std::size_t i) {
+        auto in = inlined_.find(w.operands[i].name);
+        std::string n = in != inlined_.end() ? in->second : verilogName(w.operands[i].name);
+        if (in == inlined_.end() && !w.operands[i].generated) {
+            // A result read whole under an author's name.
+            if (auto named = resultName_.find(w.operands[i].name); named != resultName_.end()) n = verilogName(named->second);
+        }
+        bool sign = w.isSigned && !(i == 1 && (w.op == "<<" || w.op == ">>" || w.op == "<<<" || w.op == ">>>"));
+        // `$signed` of one braced name needs no braces: `$signed(a)`.
+        if (sign && n.size() > 2 && n.front() == '{' && n.find(',') == std::string::npos && n.find('{', 1) == std::string::npos)
+            n = n.substr(1, n.size() - 2);
+        return sign ? fmt::format("$signed({})", n) : n;
+    };
+    return w.unary ? fmt::format("{}{}", w.op, operandText(0))
+                   : fmt::format("{} {} {}", operandText(0), w.op, operandText(1));
+}
+
 std::string Writer::wireBlock(int g, const std::string& ind) {
     ExprBuilder eb(refs_, forms_);
     std::string out;
     bool words = !low_.wordOps.empty() && g == 0;
+    inlineOperands();
+    const auto& inlined = inlined_;
+    std::set<std::string> repeatedOperands;   // operands of a repeated operation: not written
+    for (const auto& w : low_.wordOps)
+        if (sameAs_.count(w.result))
+            for (const auto& o : w.operands) repeatedOperands.insert(o.name);
     if (words) {
         for (const auto& w : low_.wordOps) {
+            if (sameAs_.count(w.result)) continue;
             for (const auto& o : w.operands)
-                if (o.generated)
+                if (o.generated && !inlined.count(o.name))
                     out += ind + (o.width > 1 ? fmt::format("wire [{}:0] {};\n", o.width - 1, o.name)
                                               : fmt::format("wire {};\n", o.name));
-            out += ind + (w.resultWidth > 1 ? fmt::format("wire [{}:0] {};\n", w.resultWidth - 1, w.result)
-                                            : fmt::format("wire {};\n", w.result));
+            if (!resultName_.count(w.result))
+                out += ind + (w.resultWidth > 1 ? fmt::format("wire [{}:0] {};\n", w.resultWidth - 1, w.result)
+                                                : fmt::format("wire {};\n", w.result));
         }
     }
     for (NodeId w : wires_) {
@@ -1133,16 +1437,11 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
     }
     if (words) {
         for (std::size_t i = 0; i < outs_.size(); ++i)
-            if (outs_[i].generated)
+            if (outs_[i].generated && !inlined.count(outs_[i].bit.signal) && !repeatedOperands.count(outs_[i].bit.signal))
                 out += ind + statement(ind, "assign " + bitText(m_, outs_[i].bit) + " = ", outputExpr(i)) + "\n";
         for (const auto& w : low_.wordOps) {
-            auto operandText = [&](std::size_t i) {
-                std::string n = verilogName(w.operands[i].name);
-                bool sign = w.isSigned && !(i == 1 && (w.op == "<<" || w.op == ">>" || w.op == "<<<" || w.op == ">>>"));
-                return sign ? fmt::format("$signed({})", n) : n;
-            };
-            std::string rhs = w.unary ? fmt::format("{}{}", w.op, operandText(0))
-                                      : fmt::format("{} {} {}", operandText(0), w.op, operandText(1));
+            if (sameAs_.count(w.result) || resultName_.count(w.result)) continue;
+            std::string rhs = operationText(w);
             out += ind + fmt::format("assign {} = {};\n", w.result, rhs);
         }
     }
@@ -1299,6 +1598,29 @@ WriteResult Writer::run() {
         res.text = src_;
         for (auto& G : res.groups) G.replaced = false, G.reason = "rewritten into the same text";
         return res;
+    }
+    // Bits the function no longer depends on: read by one wire named *unused* just before
+    // `endmodule`, so that lint reports no unused signal the original did not have.
+    res.notRead = unreadBits();
+    if (!res.notRead.empty()) {
+        std::size_t endAt = src_.rfind("endmodule", m_.src.end);
+        if (endAt == std::string::npos || endAt < m_.src.start)
+            throw Error("writer: the module's end was not found", {}, ExitCode::Internal);
+        std::set<std::string> used = taken_;
+        for (NodeId w : wires_) used.insert(refs_[w]->text);
+        std::string name = opts_.prefix.empty() ? "kf_unused" : opts_.prefix + "unused";
+        for (int k = 2; used.count(name); ++k) name = fmt::format("{}{}_{}", opts_.prefix.empty() ? "kf_" : opts_.prefix, "unused", k);
+        std::string cat;
+        for (std::size_t k = res.notRead.size(); k-- > 0;) cat += res.notRead[k] + (k ? ", " : "");
+        if (res.notRead.size() > 1) cat = "{" + cat + "}";
+        std::string ind = indentOf(src_, edits.empty() ? endAt : edits.front().start);
+        if (ind.empty()) ind = "  ";
+        std::string block = ind + "// kerf: the restructured logic does not depend on these bits; they are read here so\n" +
+                            ind + "// that lint reports no unused signal (a name containing 'unused': common practice)\n" +
+                            ind + (notReadWidth_ == 1 ? fmt::format("wire {} = {};\n", name, cat)
+                                                     : fmt::format("wire [{}:0] {} = {};\n", notReadWidth_ - 1, name, cat));
+        edits.push_back({lineStart(src_, endAt), lineStart(src_, endAt), block});
+        res.unusedWire = name;
     }
     firstChange = std::string::npos;
     for (const auto& e : edits) firstChange = std::min(firstChange, lineStart(src_, e.start));

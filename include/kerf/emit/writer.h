@@ -58,6 +58,11 @@ struct WriteResult {
     /// its byte offset and length in `text`, so the caller can fill in the figures.
     std::size_t headerPos = 0, headerLen = 0;
     std::string newline = "\n";   ///< the file's line ending
+    /// Bits the replaced statements read and the rewrite no longer does (its function does not
+    /// depend on them), as Verilog references; they are gathered in `unusedWire` so that lint
+    /// does not report them (a signal named `*unused*`: common trade practice). Empty: none.
+    std::vector<std::string> notRead;
+    std::string unusedWire;
 };
 
 /// What the writer needs besides the module description.
