@@ -9,6 +9,7 @@
 // parentheses around comparisons, exclusive-ors and choices inside `&`/`|`
 // for the reader's sake even where the standard does not need them.
 #include "expression.h"
+#include "kerf/frontend/module.h"
 #include "kerf/frontend/references.h"
 
 #include <fmt/format.h>
@@ -132,6 +133,22 @@ std::string sliceText(const VarRef& r, int loOff, int hiOff) {
     if (loOff == 0 && hiOff == r.width - 1) return base;
     if (loOff == hiOff) return fmt::format("{}[{}]", base, indexOf(r, loOff));
     return fmt::format("{}[{}:{}]", base, indexOf(r, hiOff), indexOf(r, loOff));
+}
+
+/// A whole enum-typed signal compared with one of its values: the value's name, as the
+/// source refers to it (`state_q == ST_IDLE`, IEEE 1800-2017 6.19), never a raw code.
+std::optional<std::string> constantName(const VarRef& r, int loOff, int hiOff, const std::vector<int>& bitsMsbFirst) {
+    if (!r.module || loOff != 0 || hiOff != r.width - 1) return std::nullopt;
+    auto it = r.module->signals.find(r.signal);
+    if (it == r.module->signals.end()) return std::nullopt;
+    const auto& types = r.module->ir.types;
+    frontend::TypeId t = it->second.type;
+    if (t == frontend::kNoId || t >= types.size() || types[t].kind != frontend::TypeKind::Enum) return std::nullopt;
+    std::string bits;
+    for (int b : bitsMsbFirst) bits += b ? '1' : '0';
+    for (const auto& v : types[t].values)
+        if (v.bits == bits && !v.ref.empty()) return v.ref;
+    return std::nullopt;
 }
 
 } // namespace
@@ -360,7 +377,7 @@ void ExprBuilder::groupSlices(PExpr& e) {
                 PExpr c;
                 c.kind = PExpr::Kind::Compare;
                 c.text = fmt::format("{} {} {}", sliceText(r0, lo, hi), isAnd ? "==" : "!=",
-                                     constText(static_cast<int>(len), bits));
+                                     constantName(r0, lo, hi, bits).value_or(constText(static_cast<int>(len), bits)));
                 c.rank = e.kids[idx[s]].rank;
                 std::size_t first = idx[s];
                 for (std::size_t q = s; q <= t; ++q) {

@@ -604,7 +604,10 @@ void Writer::nameWires() {
                 std::string lhs = p.text.substr(0, p.text.find(' '));
                 if (lhs.empty() || lhs[0] == '{') return "";   // a concatenation: no short name
                 bool eq = p.text.find("==") != std::string::npos;
-                std::string value = p.text.substr(p.text.find('\'') + 2);
+                std::size_t tick = p.text.find('\'');
+                // A named value (`state_q == ST_IDLE`): the name.
+                std::string value = tick == std::string::npos ? fragment(p.text.substr(p.text.rfind(' ') + 1))
+                                                              : p.text.substr(tick + 2);
                 std::string f;
                 for (char c : lhs) f += (c == '[' || c == ':' || c == '.') ? '_' : c;
                 if (!f.empty() && f.back() == ']') f.pop_back();
