@@ -35,6 +35,7 @@
 #include "kerf/passes/dont_cares.h"
 
 #include "kerf/proof/simulation.h"
+#include "cone_logic.h"
 #include "workspace.h"
 
 #include <cadical.hpp>
@@ -56,63 +57,9 @@ namespace {
 
 using Words = std::vector<std::uint64_t>;
 
-struct ConflictCounter : CaDiCaL::Learner {
-    std::int64_t count = 0;
-    bool learning(int) override {
-        ++count;
-        return false;
-    }
-    void learn(int) override {}
-};
-
-std::uint64_t evalCover(const Cover& f, const std::vector<Words>& vals, std::size_t w) {
-    std::uint64_t out = 0;
-    for (const Cube& c : f.cubes) {
-        std::uint64_t t = ~0ull;
-        for (Literal l : c.lits) {
-            const std::uint64_t x = vals[literalVar(l)][w];
-            t &= literalNegated(l) ? ~x : x;
-            if (!t) break;
-        }
-        out |= t;
-        if (out == ~0ull) break;
-    }
-    return out;
-}
-
-// Clauses for `z = cover` where each literal of the cover maps to a solver
-// literal through `lit`. Returns z's solver literal.
-template <class LitMap>
-int encodeCover(CaDiCaL::Solver& s, int& nextVar, const Cover& f, LitMap lit) {
-    if (f.isZero()) {
-        int z = ++nextVar;
-        s.add(-z), s.add(0);
-        return z;
-    }
-    std::vector<int> cubes;
-    for (const Cube& c : f.cubes) {
-        if (c.lits.size() == 1) { cubes.push_back(lit(c.lits[0])); continue; }
-        if (c.lits.empty()) {
-            int t = ++nextVar;
-            s.add(t), s.add(0);
-            cubes.push_back(t);
-            continue;
-        }
-        int a = ++nextVar;
-        for (Literal l : c.lits) s.add(-a), s.add(lit(l)), s.add(0);
-        s.add(a);
-        for (Literal l : c.lits) s.add(-lit(l));
-        s.add(0);
-        cubes.push_back(a);
-    }
-    if (cubes.size() == 1) return cubes[0];
-    int z = ++nextVar;
-    s.add(-z);
-    for (int c : cubes) s.add(c);
-    s.add(0);
-    for (int c : cubes) s.add(z), s.add(-c), s.add(0);
-    return z;
-}
+using detail::ConflictCounter;
+using detail::encodeCover;
+using detail::evalCover;
 
 class DontCareRun {
 public:

@@ -155,6 +155,30 @@ const std::vector<LimitInfo>& limitTable() {
             &ReuseOptions::maxCubes),
         sub("resub-fanout-scan", "fanouts of one variable scanned for candidates", &EngineLimits::reuse,
             &ReuseOptions::fanoutScanLimit),
+        sub("bresub-divisors", "existing nodes tried as divisors per node (Boolean resubstitution)",
+            &EngineLimits::booleanResub, &BooleanResubOptions::divisors),
+        sub("bresub-window-nodes", "fanout nodes re-simulated to judge where a node is observed",
+            &EngineLimits::booleanResub, &BooleanResubOptions::windowNodes),
+        sub("bresub-exhaustive-inputs", "Boolean resubstitution simulates every input pattern up to this many inputs (at most 20)",
+            &EngineLimits::booleanResub, &BooleanResubOptions::exhaustiveInputs),
+        sub("bresub-simulation-words", "words of 64 random patterns otherwise (candidates then confirmed by SAT)",
+            &EngineLimits::booleanResub, &BooleanResubOptions::simulationWords, 1),
+        sub("bresub-cone-limit", "nodes in one confirming SAT query", &EngineLimits::booleanResub,
+            &BooleanResubOptions::coneLimit),
+        sub("bresub-cone-levels", "levels of logic one confirming query reaches back (further nodes are free)",
+            &EngineLimits::booleanResub, &BooleanResubOptions::coneLevels, 1),
+        sub("bresub-query-conflicts", "SAT conflicts of one confirmation", &EngineLimits::booleanResub,
+            &BooleanResubOptions::conflictsPerQuery),
+        sub("bresub-total-conflicts", "SAT conflicts of one Boolean resubstitution move", &EngineLimits::booleanResub,
+            &BooleanResubOptions::totalConflicts),
+        sub("bresub-queries", "SAT confirmations of one Boolean resubstitution move", &EngineLimits::booleanResub,
+            &BooleanResubOptions::maxQueries),
+        sub("bresub-forms-per-node", "candidate forms tried per node, cheapest first", &EngineLimits::booleanResub,
+            &BooleanResubOptions::formsPerNode, 1),
+        sub("bresub-max-network-nodes", "networks with more nodes get no Boolean resubstitution",
+            &EngineLimits::booleanResub, &BooleanResubOptions::maxNetworkNodes),
+        sub("bresub-max-nodes", "nodes examined per Boolean resubstitution move (0: technique off)",
+            &EngineLimits::booleanResub, &BooleanResubOptions::maxNodes),
         sub("dc-max-fanins", "nodes reading more variables get no don't-cares (at most 16)", &EngineLimits::dontCares,
             &DontCareOptions::maxFanins),
         sub("dc-exhaustive-inputs", "simulate every input pattern up to this many inputs (at most 20)",
@@ -255,6 +279,8 @@ public:
             });
         add("extract-cubes", [L](net::Network& n, PassContext& c) { shareCubes(n, L.cubes, c); });
         add("resubstitute", [L](net::Network& n, PassContext& c) { reuseNodes(n, L.reuse, c); });
+        if (L.booleanResub.maxNodes > 0)
+            add("resubstitute-boolean", [L](net::Network& n, PassContext& c) { resubstituteBoolean(n, L.booleanResub, c); });
         if (L.impliedDontCares || (opts_.dontCares && !opts_.dontCares->outputs().empty())) {
             const net::Network* declared =
                 opts_.dontCares && !opts_.dontCares->outputs().empty() ? opts_.dontCares : nullptr;
@@ -488,7 +514,8 @@ void setLimit(EngineLimits& limits, const std::string& assignment) {
         throw Error(fmt::format("limit {}: '{}' is not a whole number >= {}", name, v, info->min));
     if ((name == "minimise-table-vars" || name == "dc-max-fanins") && n > 16)
         throw Error(fmt::format("limit {}: at most 16", name));
-    if (name == "dc-exhaustive-inputs" && n > 20) throw Error("limit dc-exhaustive-inputs: at most 20");
+    if ((name == "dc-exhaustive-inputs" || name == "bresub-exhaustive-inputs") && n > 20)
+        throw Error(fmt::format("limit {}: at most 20", name));
     if ((name == "kernels" || name == "implied-dont-cares") && n > 1)
         throw Error(fmt::format("limit {}: 0 or 1", name));
     info->set(limits, n);

@@ -17,6 +17,7 @@
 #include "kerf/passes/factored.h"
 #include "kerf/passes/inline_small.h"
 #include "kerf/passes/pass.h"
+#include "kerf/passes/resub_boolean.h"
 #include "kerf/passes/reuse_nodes.h"
 #include "kerf/passes/share_cubes.h"
 #include "kerf/passes/share_divisors.h"
@@ -66,6 +67,7 @@ struct EngineLimits {
     ShareCubesOptions cubes;
     ShareDivisorsOptions divisors;
     ReuseOptions reuse;
+    BooleanResubOptions booleanResub;
     DontCareOptions dontCares;
 };
 

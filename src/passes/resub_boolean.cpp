@@ -1,0 +1,394 @@
+// resub_boolean.cpp — the technique `resubstitute-boolean`: a node
+// re-expressed with nodes the network already has, as far as the
+// don't-cares allow.
+//
+// Idea. Algebraic resubstitution (resubstitute) finds an existing node only
+// when it divides a cover as a polynomial. Boolean resubstitution asks the
+// functional question instead: is there an existing node d (or its
+// complement) equal to node v wherever v matters — or two, d1 and d2, whose
+// AND or OR is? "Wherever v matters" brings in both kinds of implied
+// don't-cares: input patterns are simulated, so value combinations of the
+// divisors that never occur impose nothing (satisfiability don't-cares), and
+// a pattern counts only when flipping v changes an output or the edge of v's
+// fanout window (observability don't-cares). The divisors are the nodes
+// near v (its fanins a few levels back and the other readers of its
+// fanins), never in v's fanout cone, so the network stays acyclic. With few
+// inputs every input pattern is simulated and the answer is exact; with more,
+// the random patterns only propose, and the SAT solver confirms: it looks
+// for an input pattern where the new form differs from v and the difference
+// reaches a window edge; none exists → the change is kept.
+//
+// The method is Boolean resubstitution with don't-cares found by
+// simulation and confirmed by SAT in windows, as published by A. Mishchenko,
+// R. Brayton, J.-H. R. Jiang and S. Jang, "Scalable don't-care-based logic
+// optimization and resynthesis", FPGA 2009 (from memory); the idea of
+// re-expressing a node with existing ones goes back to resubstitution in the
+// multi-level synthesis survey of R. K. Brayton, G. D. Hachtel and
+// A. L. Sangiovanni-Vincentelli, Proc. IEEE 78(2), 1990 (from memory). The
+// code is our own.
+//
+// Soundness. v changes only on input patterns where no window edge can
+// change (proved by exhaustive simulation or by the SAT query), so nothing
+// outside the window changes and every output keeps its function. The proof
+// of the whole rewrite re-checks this.
+#include "kerf/passes/resub_boolean.h"
+
+#include "kerf/proof/simulation.h"
+#include "cone_logic.h"
+#include "workspace.h"
+
+#include <algorithm>
+#include <unordered_map>
+
+namespace kerf::passes {
+
+using algebra::Cover;
+using algebra::Cube;
+using algebra::Literal;
+using algebra::literalNegated;
+using algebra::literalVar;
+using algebra::makeLiteral;
+using detail::ConflictCounter;
+using detail::encodeCover;
+using detail::evalCover;
+using detail::Words;
+using net::NodeId;
+
+namespace {
+
+class ResubRun {
+public:
+    ResubRun(net::Network& net, const BooleanResubOptions& o, PassContext& ctx)
+        : net_(net), o_(o), ctx_(ctx), ws_(net, ctx.depthCap) {}
+
+    void run() {
+        order_ = net_.topoOrder();
+        pos_.assign(net_.nodeCount(), 0);
+        for (std::size_t i = 0; i < order_.size(); ++i) pos_[order_[i]] = static_cast<std::uint32_t>(i);
+        setUpPatterns();
+        for (NodeId v : order_) simulate(v);
+        conflictsLeft_ = o_.totalConflicts;
+        std::size_t examined = 0;
+        const std::vector<NodeId> visit = order_;   // order_ itself is renewed when a change reorders nodes
+        for (auto it = visit.rbegin(); it != visit.rend(); ++it) {
+            if (examined >= o_.maxNodes) { ctx_.stats.add("limit-hit:bresub-max-nodes", 1); break; }
+            if (conflictsLeft_ <= 0) { ctx_.stats.add("limit-hit:bresub-total-conflicts", 1); break; }
+            if (static_cast<std::size_t>(queries_) >= o_.maxQueries) { ctx_.stats.add("limit-hit:bresub-queries", 1); break; }
+            if (!ws_.live(*it)) continue;
+            ++examined;
+            node(*it);
+        }
+        ctx_.stats.add("nodes-examined", static_cast<long long>(examined));
+        ctx_.stats.add("replaced-by-one", byOne_);
+        ctx_.stats.add("replaced-by-two", byTwo_);
+        ctx_.stats.add("literals-saved", saved_);
+        ctx_.stats.add("sat-queries", queries_);
+        ctx_.stats.add("refuted", refuted_);
+        ctx_.stats.add("depth-rejects", static_cast<long long>(ws_.depthRejects()));
+        if (coneSkips_) ctx_.stats.add("limit-hit:bresub-cone-limit", coneSkips_);
+        if (budgetSkips_) ctx_.stats.add("limit-hit:bresub-query-conflicts", budgetSkips_);
+    }
+
+private:
+    void setUpPatterns() {
+        const std::size_t n = net_.inputs().size();
+        exhaustive_ = static_cast<int>(n) <= std::min(o_.exhaustiveInputs, 20);
+        words_ = exhaustive_ ? (n <= 6 ? 1 : std::size_t{1} << (n - 6)) : static_cast<std::size_t>(o_.simulationWords);
+        vals_.assign(net_.nodeCount(), Words(words_, 0));
+        proof::Random rng(0x72657375ull);
+        static constexpr std::uint64_t kMask[6] = {0xAAAAAAAAAAAAAAAAull, 0xCCCCCCCCCCCCCCCCull,
+                                                   0xF0F0F0F0F0F0F0F0ull, 0xFF00FF00FF00FF00ull,
+                                                   0xFFFF0000FFFF0000ull, 0xFFFFFFFF00000000ull};
+        for (std::size_t i = 0; i < n; ++i) {
+            Words& x = vals_[net_.inputs()[i]];
+            for (std::size_t w = 0; w < words_; ++w)
+                x[w] = exhaustive_ ? (i < 6 ? kMask[i] : (((w >> (i - 6)) & 1) ? ~0ull : 0ull)) : rng.next();
+        }
+        // Fewer than 64 patterns in the single word: the unused bits repeat
+        // patterns already there (the masks above are periodic), so they are harmless.
+    }
+
+    void simulate(NodeId v) {
+        for (std::size_t w = 0; w < words_; ++w) vals_[v][w] = evalCover(net_.node(v).cover, vals_, w);
+    }
+
+    // v's fanout cone (all of it, marked in tfo_) and its first windowNodes+1 nodes in topological order.
+    std::vector<NodeId> fanoutCone(NodeId v) {
+        std::vector<NodeId> cone{v}, stack{v};
+        tfo_.resize(net_.nodeCount(), 0);
+        tfo_[v] = 1;
+        while (!stack.empty()) {
+            const NodeId u = stack.back();
+            stack.pop_back();
+            for (NodeId x : ws_.fanouts(u))
+                if (!tfo_[x] && ws_.live(x)) {
+                    tfo_[x] = 1;
+                    cone.push_back(x);
+                    stack.push_back(x);
+                }
+        }
+        std::sort(cone.begin(), cone.end(), [&](NodeId a, NodeId b) { return pos_[a] < pos_[b]; });
+        return cone;
+    }
+
+    // Nodes near v to try as divisors: fanins a few levels back, then other readers of v's fanins.
+    std::vector<NodeId> divisorsNear(NodeId v) {
+        std::vector<NodeId> out;
+        seen_.resize(net_.nodeCount(), 0);
+        auto take = [&](NodeId u) {
+            if (u == 0 || seen_[u] || tfo_[u] || out.size() >= o_.divisors) return;
+            if (!net_.isLogic(u) && net_.node(u).kind != net::NodeKind::Input) return;
+            seen_[u] = 1;
+            out.push_back(u);
+        };
+        const std::vector<std::uint32_t> fanins = net_.node(v).cover.support();
+        for (NodeId u : fanins) take(u);
+        for (std::size_t i = 0; i < out.size() && out.size() < o_.divisors && i < 4 * o_.divisors; ++i)
+            if (net_.isLogic(out[i]))
+                for (NodeId u : net_.node(out[i]).cover.support()) take(u);
+        for (NodeId f : fanins)
+            for (NodeId u : ws_.fanouts(f)) take(u);
+        for (NodeId u : out) seen_[u] = 0;
+        return out;
+    }
+
+    struct Form {
+        int kind = -1;   // 0: one literal, 1: AND of two, 2: OR of two
+        Literal a = 0, b = 0;
+        Cover cover() const {
+            if (kind == 0) return Cover::literal(a);
+            if (kind == 1) return Cover{{Cube({a, b})}};
+            Cover f{{Cube({a}), Cube({b})}};
+            f.normalize();
+            return f;
+        }
+    };
+
+    void node(NodeId v) {
+        const Cover f = ws_.cover(v);
+        const std::size_t lits = f.literalCount();
+        if (lits < 2 || f.isOne()) return;
+        const std::vector<NodeId> cone = fanoutCone(v);
+        std::vector<NodeId> window(cone.begin(), cone.begin() + static_cast<std::ptrdiff_t>(
+                                                               std::min(cone.size(), o_.windowNodes + 1)));
+        std::vector<NodeId> divs = divisorsNear(v);
+        for (NodeId u : cone) tfo_[u] = 0;
+        if (divs.empty()) return;
+
+        // Window edges: nodes read outside the window or driving an output.
+        std::unordered_map<NodeId, std::size_t> inWindow;
+        for (std::size_t i = 0; i < window.size(); ++i) inWindow[window[i]] = i;
+        std::vector<NodeId> edges;
+        for (NodeId u : window) {
+            bool edge = ws_.outputRefs(u) > 0;
+            for (NodeId x : ws_.fanouts(u))
+                if (!inWindow.count(x)) { edge = true; break; }
+            if (edge) edges.push_back(u);
+        }
+        if (edges.empty()) return;
+
+        // Where v is observed: flip it and re-simulate the window.
+        Words care(words_, 0);
+        std::vector<Words> flipped(window.size(), Words(words_));
+        for (std::size_t w = 0; w < words_; ++w) {
+            for (std::size_t i = 0; i < window.size(); ++i) {
+                const NodeId u = window[i];
+                if (u == v) { flipped[i][w] = ~vals_[v][w]; continue; }
+                std::uint64_t out = 0;
+                for (const Cube& c : ws_.cover(u).cubes) {
+                    std::uint64_t t = ~0ull;
+                    for (Literal l : c.lits) {
+                        auto it = inWindow.find(literalVar(l));
+                        const std::uint64_t x = it != inWindow.end() ? flipped[it->second][w] : vals_[literalVar(l)][w];
+                        t &= literalNegated(l) ? ~x : x;
+                    }
+                    out |= t;
+                }
+                flipped[i][w] = out;
+            }
+            for (NodeId e : edges) care[w] |= flipped[inWindow[e]][w] ^ vals_[e][w];
+        }
+
+        // Candidates by simulation, cheapest first: one literal, then two.
+        auto lit = [&](std::size_t i, bool neg, std::size_t w) {
+            const std::uint64_t x = vals_[divs[i]][w];
+            return neg ? ~x : x;
+        };
+        const Words& t = vals_[v];
+        std::vector<Form> tries;
+        const std::size_t m = divs.size();
+        std::vector<std::pair<std::size_t, bool>> covering, inside;   // literals holding v's onset / inside it
+        for (std::size_t i = 0; i < m; ++i)
+            for (bool neg : {false, true}) {
+                bool equal = true, covers = true, within = true;
+                for (std::size_t w = 0; w < words_; ++w) {
+                    const std::uint64_t x = lit(i, neg, w);
+                    if ((x ^ t[w]) & care[w]) equal = false;
+                    if (t[w] & ~x & care[w]) covers = false;
+                    if (x & ~t[w] & care[w]) within = false;
+                }
+                const Literal l = makeLiteral(divs[i], neg);
+                if (equal) tries.push_back({0, l, 0});
+                if (covers) covering.push_back({i, neg});
+                if (within) inside.push_back({i, neg});
+            }
+        if (lits > 2) {
+            auto pairs = [&](const std::vector<std::pair<std::size_t, bool>>& ls, int kind) {
+                for (std::size_t p = 0; p < ls.size() && tries.size() < 8; ++p)
+                    for (std::size_t q = p + 1; q < ls.size() && tries.size() < 8; ++q) {
+                        if (ls[p].first == ls[q].first) continue;
+                        bool ok = true;
+                        for (std::size_t w = 0; w < words_ && ok; ++w) {
+                            const std::uint64_t a = lit(ls[p].first, ls[p].second, w);
+                            const std::uint64_t b = lit(ls[q].first, ls[q].second, w);
+                            const std::uint64_t g = kind == 1 ? (a & b) : (a | b);
+                            ok = ((g ^ t[w]) & care[w]) == 0;
+                        }
+                        if (ok)
+                            tries.push_back({kind, makeLiteral(divs[ls[p].first], ls[p].second),
+                                             makeLiteral(divs[ls[q].first], ls[q].second)});
+                    }
+            };
+            pairs(covering, 1);
+            pairs(inside, 2);
+        }
+        if (tries.size() > o_.formsPerNode) tries.resize(o_.formsPerNode);
+        for (const Form& form : tries) {
+            const Cover next = form.cover();
+            if (next.literalCount() >= lits) continue;
+            if (!exhaustive_ && !confirm(v, window, edges, form)) continue;
+            ws_.begin();
+            ws_.setCover(v, next);
+            if (!ws_.commit()) continue;
+            // v now reads a node that may come after it in order_: renew the
+            // order (windows and SAT cones are laid out by it).
+            if (pos_[literalVar(form.a)] > pos_[v] || (form.kind > 0 && pos_[literalVar(form.b)] > pos_[v])) {
+                order_ = net_.topoOrder();
+                for (std::size_t i = 0; i < order_.size(); ++i) pos_[order_[i]] = static_cast<std::uint32_t>(i);
+                window = fanoutCone(v);   // the cone is unchanged; only its order
+                for (NodeId u : window) tfo_[u] = 0;
+                if (window.size() > o_.windowNodes + 1) window.resize(o_.windowNodes + 1);
+            }
+            (form.kind == 0 ? byOne_ : byTwo_) += 1;
+            saved_ += static_cast<long long>(lits - next.literalCount());
+            for (NodeId u : window) simulate(u);   // values change only inside the window
+            return;
+        }
+    }
+
+    // Is there an input pattern where `form` differs from v and the
+    // difference reaches a window edge? None (UNSAT) → true.
+    bool confirm(NodeId v, const std::vector<NodeId>& window, const std::vector<NodeId>& edges, const Form& form) {
+        // The cone the query needs, breadth first from the window and the
+        // divisors, up to coneLevels levels; nodes at the last level are
+        // free variables (more behaviours than the circuit has: a query can
+        // only fail more often, so a confirmation stays sound).
+        std::vector<NodeId> cone;
+        seen_.resize(net_.nodeCount(), 0);
+        free_.resize(net_.nodeCount(), 0);
+        inWin_.resize(net_.nodeCount(), 0);
+        for (NodeId u : window) inWin_[u] = 1;
+        auto visit = [&](NodeId u) {
+            if (seen_[u]) return;
+            seen_[u] = 1;
+            cone.push_back(u);
+        };
+        for (NodeId u : window) visit(u);
+        visit(literalVar(form.a));
+        if (form.kind > 0) visit(literalVar(form.b));
+        std::size_t levelEnd = cone.size();
+        int level = 0;
+        for (std::size_t i = 0; i < cone.size() && cone.size() <= o_.coneLimit; ++i) {
+            if (i == levelEnd) { ++level; levelEnd = cone.size(); }
+            const NodeId u = cone[i];
+            if (!net_.isLogic(u)) continue;
+            if (level >= o_.coneLevels && !inWin_[u]) { free_[u] = 1; continue; }
+            for (const Cube& c : net_.node(u).cover.cubes)
+                for (Literal l : c.lits) visit(literalVar(l));
+        }
+        auto clear = [&] {
+            for (NodeId u : cone) seen_[u] = free_[u] = 0;
+            for (NodeId u : window) inWin_[u] = 0;
+        };
+        if (cone.size() > o_.coneLimit) {
+            clear();
+            ++coneSkips_;
+            return false;
+        }
+        std::sort(cone.begin(), cone.end(), [&](NodeId a, NodeId b) {
+            const bool la = net_.isLogic(a), lb = net_.isLogic(b);
+            if (la != lb) return !la;
+            return la ? pos_[a] < pos_[b] : a < b;
+        });
+        CaDiCaL::Solver s;
+        s.set("quiet", 1);
+        ConflictCounter counter;
+        s.connect_learner(&counter);
+        int nextVar = 0;
+        std::unordered_map<NodeId, int> x, y;
+        x[0] = ++nextVar;
+        s.add(-x[0]), s.add(0);
+        auto litX = [&](Literal l) {
+            const int b = x.at(literalVar(l));
+            return literalNegated(l) ? -b : b;
+        };
+        for (NodeId u : cone) {
+            if (u == 0) continue;
+            x[u] = (!net_.isLogic(u) || free_[u]) ? ++nextVar : encodeCover(s, nextVar, net_.node(u).cover, litX);
+        }
+        clear();
+        auto litY = [&](Literal l) {
+            auto it = y.find(literalVar(l));
+            const int b = it != y.end() ? it->second : x.at(literalVar(l));
+            return literalNegated(l) ? -b : b;
+        };
+        for (NodeId u : window)
+            y[u] = u == v ? encodeCover(s, nextVar, form.cover(), litX) : encodeCover(s, nextVar, net_.node(u).cover, litY);
+        std::vector<int> diffs;
+        for (NodeId e : edges) {
+            const int a = x.at(e), b = y.at(e), d = ++nextVar;
+            s.add(-d), s.add(a), s.add(b), s.add(0);
+            s.add(-d), s.add(-a), s.add(-b), s.add(0);
+            diffs.push_back(d);
+        }
+        for (int d : diffs) s.add(d);
+        s.add(0);
+        const std::int64_t allowance = std::min<std::int64_t>(o_.conflictsPerQuery, conflictsLeft_);
+        if (allowance <= 0) return false;
+        s.limit("conflicts", static_cast<int>(allowance));
+        ++queries_;
+        const int r = s.solve();
+        conflictsLeft_ -= counter.count;
+        if (r == 20) return true;
+        if (r == 10) ++refuted_;
+        else ++budgetSkips_;
+        return false;
+    }
+
+    net::Network& net_;
+    const BooleanResubOptions& o_;
+    PassContext& ctx_;
+    detail::Workspace ws_;
+    std::vector<NodeId> order_;
+    std::vector<std::uint32_t> pos_;
+    std::vector<std::uint8_t> tfo_, seen_, free_, inWin_;
+    bool exhaustive_ = false;
+    std::size_t words_ = 0;
+    std::vector<Words> vals_;
+    std::int64_t conflictsLeft_ = 0;
+    long long byOne_ = 0, byTwo_ = 0, saved_ = 0, queries_ = 0, refuted_ = 0, coneSkips_ = 0, budgetSkips_ = 0;
+};
+
+} // namespace
+
+void resubstituteBoolean(net::Network& net, const BooleanResubOptions& opts, PassContext& ctx) {
+    if (net.inputs().empty()) return;
+    if (net.logicCount() > opts.maxNetworkNodes) {
+        ctx.stats.add("limit-hit:bresub-max-network-nodes", 1);
+        return;
+    }
+    ResubRun run(net, opts, ctx);
+    run.run();
+}
+
+} // namespace kerf::passes
