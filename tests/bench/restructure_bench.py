@@ -13,10 +13,15 @@ as `kerf stats` counts them.
 One row per design: the original gates and depth, then for each effort
 kerf's gates and depth, its user CPU seconds (end to end, reader and proof
 included: the machine is shared, so CPU time is more honest than wall time)
-and peak memory (the largest of kerf's and the reader's stages). The table of
-decoders with declared x defaults (with and without --keep-x) is printed by
-build/tests/bench/passes_bench until the front end fills the declared
-don't-cares (--keep-x).
+and peak memory (the largest of kerf's and the reader's stages).
+
+Then a table of case decoders with an x default (`default: y = 'x`, an
+invented address decoder: listed codes set the outputs, every other code
+leaves them free): the original gates (x read as 0 by `kerf stats`), gates
+at the default effort with the x read as a don't-care (the default), and
+what --keep-x does (x kept as written: the statement is left unchanged).
+Both runs are proved. passes_bench prints the engine-level comparison
+(x read as 0 versus x free) on the same shapes.
 """
 import argparse
 import json
@@ -55,14 +60,26 @@ def decoder(path, terms, inputs, outputs, seed):
         f.write("endmodule\n")
 
 
-def run_kerf(kerf, path, effort, proof, top=None):
+def case_decoder(path, codes, inputs, outputs, seed):
+    """`codes` listed input codes (full compares) each set the outputs; the default assigns x."""
+    rng = random.Random(seed)
+    listed = rng.sample(range(1 << inputs), codes)
+    with open(path, "w") as f:
+        f.write(f"module xdec (input logic [{inputs-1}:0] a, output logic [{outputs-1}:0] y);\n")
+        f.write("  always_comb begin\n    case (a)\n")
+        for c in listed:
+            f.write(f"      {inputs}'d{c}: y = {outputs}'h{rng.getrandbits(outputs):x};\n")
+        f.write(f"      default: y = 'x;\n    endcase\n  end\nendmodule\n")
+
+
+def run_kerf(kerf, path, effort, proof, top=None, extra=()):
     with tempfile.TemporaryDirectory() as work:
         out = os.path.join(work, "out.v")
         rep = os.path.join(work, "report.json")
         # --dissolve-internal: the EPFL netlists' numbered wires may dissolve into the logic
         # (otherwise each one pins its logic); the synthetic files have no internal signals.
         cmd = ["/usr/bin/time", "-v", kerf, "restructure", path, "-o", out, "--report", rep, "--effort", effort,
-               "--dissolve-internal"]
+               "--dissolve-internal", *extra]
         if not proof:
             cmd.append("--skip-proof")
         t0 = time.time()
@@ -109,6 +126,23 @@ def main():
             decoder(path, t, inputs, 16, seed=t)
             rows.append((f"synthetic {t}/{inputs} in", [run_kerf(a.kerf, path, e, not a.no_proof) for e in efforts]))
             print_row(rows[-1])
+    if not a.only or a.only == "x-default":
+        print(f"\n{'case decoder, x default':28} {'gates':>6} {'x free':>7} {'--keep-x':>9} {'cpu s':>7}", flush=True)
+        with tempfile.TemporaryDirectory() as work:
+            for codes, inputs, outputs in [(12, 6, 4), (24, 8, 8), (40, 10, 8), (64, 12, 16), (100, 14, 16)]:
+                path = os.path.join(work, f"xdec_{codes}.v")
+                case_decoder(path, codes, inputs, outputs, seed=codes)
+                free, err1 = run_kerf(a.kerf, path, "default", not a.no_proof)
+                kept, err2 = run_kerf(a.kerf, path, "default", not a.no_proof, extra=("--keep-x",))
+                label = f"{codes} codes/{inputs} in/{outputs} out"
+                if free is None or kept is None:
+                    print(f"{label:28} FAILED: {err1 or err2}", flush=True)
+                    continue
+                # With --keep-x the x stays as written: a statement holding it is kept
+                # unchanged (nothing restructured, shown as "kept").
+                keptCol = "kept" if kept["before"]["gates"] == 0 else str(kept["after"]["gates"])
+                print(f"{label:28} {free['before']['gates']:6} {free['after']['gates']:7} {keptCol:>9} "
+                      f"{free['cpu'] + kept['cpu']:7.2f}", flush=True)
     for k, e in enumerate(efforts):
         ratios = [r[1][k][0]["after"]["gates"] / r[1][k][0]["before"]["gates"] for r in rows
                   if r[1][k][0] and r[0].startswith("epfl/") and r[1][k][0]["before"]["gates"]]
