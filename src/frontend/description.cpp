@@ -739,6 +739,7 @@ void DescriptionBuilder::parseMembers(const json& root) {
                 }
             }
             if (mj.contains("mentions")) mem.mentions = names(mj["mentions"], where + " mentions");
+            mem.mayBeX = mj.value("may_be_x", false);
         } else {
             if (mj.contains("comments")) {
                 const json& c = mj["comments"];

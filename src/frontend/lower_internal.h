@@ -18,6 +18,7 @@
 
 #include <fmt/format.h>
 
+#include <functional>
 #include <map>
 #include <optional>
 #include <set>
@@ -108,6 +109,8 @@ public:
     Bit inputBit(SymbolId sym, int off);
     void recordBit(SymbolId sym, int off, Bit b);
     void lowerMember(int idx);
+    /// Keep restructured statements that read what kept code can make x (and so on downstream).
+    void keepReadersOfKeptX(const std::function<SymbolId(const std::string&)>& symbolOf);
     [[noreturn]] void fail(const std::string& msg, const SourceLoc& loc, ExitCode c = ExitCode::InputError) const {
         throw Error(msg, loc, c);
     }

@@ -13,6 +13,8 @@
 #include "kerf/io/progress.h"
 
 #include <algorithm>
+#include <cstdlib>
+#include <functional>
 #include <unordered_set>
 
 namespace kerf::frontend::detail {
@@ -22,6 +24,76 @@ namespace {
 // On-demand lowering of members inside one dependency cycle of whole signals recurses;
 // beyond this depth kerf stops with a message instead of exhausting its stack.
 constexpr int kMaxMemberDepth = 20000;
+
+/// Every value `idx` can take, plus `extra` positions above it, lies in [lo, hi].
+bool indexFits(const Ir& ir, ExprId idx, std::int64_t lo, std::int64_t hi, std::int64_t extra) {
+    const Expr& e = ir.expr(idx);
+    if (e.kind == ExprKind::Const) {
+        if (e.width > 62) return false;
+        std::int64_t v = 0;
+        for (std::uint32_t i = e.width; i-- > 0;) {
+            char c = ir.constBit(e, i);
+            if (c != '0' && c != '1') return false;
+            v = v * 2 + (c == '1');
+        }
+        if (e.isSigned && e.width > 0 && ir.constBit(e, e.width - 1) == '1') v -= std::int64_t{1} << e.width;
+        return lo <= v && v + extra <= hi;
+    }
+    if (e.isSigned || e.width >= 31) return false;
+    return lo <= 0 && (std::int64_t{1} << e.width) - 1 + extra <= hi;
+}
+
+/// Code left as written whose own text can make a value x or z by the language's rules: an
+/// x/z constant, a select that can fall out of range (IEEE 1800 11.5.1), a division, modulo
+/// or power by what can be 0 (11.4.2). Conservative: a target's select counts too.
+bool textMayBeX(const Ir& ir, const Member& mem) {
+    if (mem.kind == MemberKind::Kept) return mem.mayBeX;
+    for (ExprId id : memberExprs(ir, mem)) {
+        const Expr& e = ir.expr(id);
+        switch (e.kind) {
+        case ExprKind::Const:
+            for (std::uint32_t i = 0; i < e.width; ++i)
+                if (char c = ir.constBit(e, i); c != '0' && c != '1') return true;
+            break;
+        case ExprKind::Index:
+            if (!indexFits(ir, e.b, std::min(e.msb, e.lsb), std::max(e.msb, e.lsb), 0)) return true;
+            break;
+        case ExprKind::Range:
+            if (std::min(e.left(), e.right()) < std::min(e.msb, e.lsb) ||
+                std::max(e.left(), e.right()) > std::max(e.msb, e.lsb))
+                return true;
+            break;
+        case ExprKind::Indexed: {
+            // Positions per element of the selected dimension, and elements selected.
+            std::int64_t count = std::abs(static_cast<std::int64_t>(e.msb) - e.lsb) + 1;
+            std::int64_t valueWidth = ir.expr(e.a).width;
+            std::int64_t elem = count > 0 && valueWidth % count == 0 ? valueWidth / count : 0;
+            if (elem <= 0 || !e.up || !indexFits(ir, e.b, std::min(e.msb, e.lsb), std::max(e.msb, e.lsb),
+                                                 static_cast<std::int64_t>(e.width) / elem - 1))
+                return true;
+            break;
+        }
+        case ExprKind::Binary: {
+            BinaryOp o = e.binaryOp();
+            if (o == BinaryOp::Div || o == BinaryOp::Mod || o == BinaryOp::Pow) {
+                const Expr& d = ir.expr(e.b);
+                if (o == BinaryOp::Pow || d.kind != ExprKind::Const) return true;
+                bool nonzero = false;
+                for (std::uint32_t i = 0; i < d.width; ++i) {
+                    char c = ir.constBit(d, i);
+                    if (c != '0' && c != '1') return true;
+                    nonzero = nonzero || c == '1';
+                }
+                if (!nonzero) return true;
+            }
+            break;
+        }
+        default:
+            break;
+        }
+    }
+    return false;
+}
 
 } // namespace
 
@@ -179,6 +251,49 @@ void Lowerer::lowerMember(int idx) {
     state_[idx] = 2;
 }
 
+void Lowerer::keepReadersOfKeptX(const std::function<SymbolId(const std::string&)>& symbolOf) {
+    // Signals that code left as written can make x (F19). The lowering takes what kept code
+    // drives as 0/1, so a restructured statement reading such a signal could be rewritten into
+    // gates that propagate an x where the source's `if`/`case` takes the else branch on it
+    // (IEEE 1800 12.4, 12.5) or `?:` merges it (11.4.11). Such statements are kept as written,
+    // and what they drive can then be x in turn, until nothing changes.
+    const std::size_t n = members_.size();
+    std::vector<std::uint8_t> xSym(ir_.symbols.size(), 0);
+    std::vector<std::uint8_t> source(n, 0);
+    auto markWrites = [&](std::size_t i) {
+        source[i] = 1;
+        for (const auto& name : members_[i]->writes)
+            if (SymbolId s = symbolOf(name); s != kNoId && s < xSym.size()) xSym[s] = 1;
+    };
+    auto readX = [&](std::size_t i) -> const std::string* {
+        for (const auto& name : members_[i]->reads)
+            if (SymbolId s = symbolOf(name); s != kNoId && s < xSym.size() && xSym[s]) return &name;
+        return nullptr;
+    };
+    for (std::size_t i = 0; i < n; ++i)
+        if (!restructured_[i] && textMayBeX(ir_, *members_[i])) markWrites(i);
+    for (bool changed = true; changed;) {
+        changed = false;
+        for (std::size_t i = 0; i < n; ++i) {
+            if (source[i]) continue;
+            const std::string* name = readX(i);
+            if (!name) continue;
+            if (restructured_[i]) {
+                const Member& mem = *members_[i];
+                std::string what = mem.kind == MemberKind::Assign ? "assign"
+                                 : mem.style == "always_star" ? "always" : mem.style;
+                std::string why = fmt::format("it reads '{}', which code kept as written can make x; gates in its "
+                                              "place would not treat that x as the source does", *name);
+                out_.notes.push_back(fmt::format("{}: left as written: {}", mem.src.loc().str(), why));
+                out_.kept.push_back({mem.id, mem.src.loc(), what, why});
+                restructured_[i] = 0;
+            }
+            markWrites(i);
+            changed = true;
+        }
+    }
+}
+
 Lowered Lowerer::run() {
     const std::string& moduleFile = m_.src.file;
     const std::size_t nsym = ir_.symbols.size();
@@ -224,6 +339,8 @@ Lowered Lowerer::run() {
         }
         restructured_[i] = 1;
     }
+
+    keepReadersOfKeptX(symbolOf);
 
     // Bit-level drivers: two statements driving one bit is an error unless both are kept code.
     for (std::size_t i = 0; i < n; ++i) {

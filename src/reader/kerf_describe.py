@@ -595,6 +595,95 @@ class Describer:
             syn.visit(cb)
         return out
 
+    # -- x from kept code ---------------------------------------------------------
+
+    def _dim_range(self, t):
+        """(lower, upper) index bounds of the outermost dimension of slang type `t`, or None."""
+        ct = t.canonicalType
+        if ct.kind in (SK.PackedArrayType, SK.FixedSizeUnpackedArrayType):
+            r = ct.range
+            return min(r.left, r.right), max(r.left, r.right)
+        if ct.isIntegral:
+            return 0, ct.bitWidth - 1
+        return None
+
+    def _index_fits(self, sel, lo, hi, extra=0):
+        """True when every value `sel` can take (and `extra` positions above it) lies in [lo, hi]."""
+        c = self.try_const(sel)
+        if c is not None:
+            if c.hasUnknown:
+                return False
+            v = int(c.toString(_DEC, False))
+            return lo <= v and v + extra <= hi
+        w = sel.type.bitWidth
+        if sel.type.isSigned or w >= 31:
+            return False
+        return lo <= 0 and (1 << w) - 1 + extra <= hi
+
+    def may_be_x(self, nodes):
+        """True when kept code can itself produce x or z by the language's rules: an x/z
+        constant, a select that can fall out of range (IEEE 1800 11.5.1 reads x), a division
+        or modulo by something that can be 0 (11.4.2), a gate primitive. Reading a signal that
+        can be x is followed on the C++ side; ports and instance outputs are taken as 0/1, as
+        in the proof; a register or memory before its first write is outside the model."""
+        found = [False]
+        seen_subs = set()
+
+        def cb(n):
+            if found[0]:
+                return ast.VisitAction.Skip
+            if isinstance(n, ast.Expression):
+                k = n.kind
+                if k in (EK.IntegerLiteral, EK.UnbasedUnsizedIntegerLiteral):
+                    c = self.try_const(n)
+                    if c is None or c.hasUnknown:
+                        found[0] = True
+                elif k == EK.ElementSelect:
+                    r = self._dim_range(n.value.type)
+                    if r is None or not self._index_fits(n.selector, r[0], r[1]):
+                        found[0] = True
+                elif k == EK.RangeSelect:
+                    r = self._dim_range(n.value.type)
+                    if r is None:
+                        found[0] = True
+                    elif n.selectionKind == ast.RangeSelectionKind.Simple:
+                        a, b = self.const_int(n.left), self.const_int(n.right)
+                        if a is None or b is None or not (r[0] <= min(a, b) and max(a, b) <= r[1]):
+                            found[0] = True
+                    else:
+                        cnt = self.const_int(n.right)
+                        up = n.selectionKind == ast.RangeSelectionKind.IndexedUp
+                        if cnt is None or not up or not self._index_fits(n.left, r[0], r[1], cnt - 1):
+                            found[0] = True
+                elif k == EK.BinaryOp and n.op in (ast.BinaryOperator.Divide, ast.BinaryOperator.Mod,
+                                                   ast.BinaryOperator.Power):
+                    c = self.try_const(n.right)
+                    if c is None or c.hasUnknown or int(c.toString(_DEC, False)) == 0 \
+                            or n.op == ast.BinaryOperator.Power:
+                        found[0] = True
+                elif k == EK.Call and not n.isSystemCall:
+                    sub = n.subroutine
+                    if isinstance(sub, ast.SubroutineSymbol) and sub not in seen_subs:
+                        seen_subs.add(sub)
+                        body = getattr(sub, "body", None)
+                        if body is not None:
+                            body.visit(cb)
+            elif isinstance(n, ast.InstanceSymbol):
+                return ast.VisitAction.Skip     # instance outputs: 0/1, like ports
+            elif isinstance(n, ast.PrimitiveInstanceSymbol):
+                found[0] = True                 # bufif0, nmos, ...: can drive z
+            elif isinstance(n, ast.SubroutineSymbol):
+                return ast.VisitAction.Skip
+            elif isinstance(n, ast.GenerateBlockSymbol):
+                if n.isUninstantiated:
+                    return ast.VisitAction.Skip
+            return None
+
+        for node in nodes:
+            if node is not None and not found[0]:
+                node.visit(cb)
+        return found[0]
+
     def kept_member(self, what, reason, src, collect_from, extra_writes=(), syn=None):
         reads, writes = set(), {}
         for node in collect_from:
@@ -602,11 +691,13 @@ class Describer:
                 self.collect(node, reads, writes)
         for n in extra_writes:
             writes[n] = None
-        return self.kept_entry(what, reason, src, reads, writes, syn)
+        return self.kept_entry(what, reason, src, reads, writes, syn, self.may_be_x(collect_from))
 
-    def kept_entry(self, what, reason, src, reads, writes, syn):
+    def kept_entry(self, what, reason, src, reads, writes, syn, may_x=False):
         m = {"kind": "kept", "src": src, "what": what, "reason": reason,
              "reads": sorted(reads), "writes": sorted(writes)}
+        if may_x and writes:
+            m["may_be_x"] = True
         ranges = {}
         for name, rs in writes.items():
             if rs is None:
@@ -837,7 +928,8 @@ class Describer:
             both = reads | set(writes)
             reads = set(both)
             writes = {n: None for n in both}
-        return self.kept_entry(what, why, src, reads, writes, syn)
+        may_x = k == SK.PrimitiveInstance or (k != SK.Instance and self.may_be_x([sym]))
+        return self.kept_entry(what, why, src, reads, writes, syn, may_x)
 
     # -- the whole module -------------------------------------------------------
 
@@ -965,6 +1057,8 @@ class Describer:
                         else:
                             whole.add(n)
                 m = dict(m, reads=sorted(reads), writes=sorted(writes), mentions=sorted(mentions))
+                if any(g.get("may_be_x") for g in group):
+                    m["may_be_x"] = True
                 wr = {n: _merge_ranges(r) for n, r in ranges.items() if n not in whole}
                 if wr:
                     m["write_ranges"] = wr
@@ -977,7 +1071,7 @@ class Describer:
                 m = {"kind": "kept", "src": m["src"], "what": "assign",
                      "reason": "it shares its statement with an assignment that is kept (%s)"
                      % kept[0]["reason"], "reads": m["reads"], "writes": m["writes"],
-                     "mentions": sorted(set(m["reads"]) | set(m["writes"]))}
+                     "mentions": sorted(set(m["reads"]) | set(m["writes"])), "may_be_x": True}
             out.append(m)
         return out
 

@@ -93,6 +93,10 @@ struct Member {
     std::map<std::string, std::vector<std::pair<int, int>>> writeRanges;
     /// Kept members: every module signal their text names, inactive generate branches included.
     std::vector<std::string> mentions;
+    /// Kept members: their own text can make what they write x or z by the language's rules
+    /// (an x/z constant, a select that can fall out of range, a division by what can be 0, a
+    /// gate primitive); reading a signal that can be x is followed by the lowering.
+    bool mayBeX = false;
     /// Digest of the member's tokens and of what its names mean (src/reader/kerf_symbols.py):
     /// two kept members with equal keys behave alike on equal inputs (`kerf equiv`).
     std::string matchKey;
