@@ -477,6 +477,32 @@ class Conv:
                 return c
         return self.add(["concat", ti] + list(self.span(e)) + [parts])
 
+    def x_pattern(self, e):
+        """An assignment pattern of a packed type (`'{valid: 1'b1, write: we, kind: 2'd1}`,
+        `'{default: '0, ...}`, `'{a, b}`, `'{2{x}}`) is the concatenation of its elements,
+        first element most significant (IEEE 1800 10.9, 7.2.2, 7.4.1). slang has already
+        resolved member names, type keys and defaults into one element per member, each
+        converted to the member's type."""
+        if not e.type.isIntegral:
+            raise Unsupported(_expr_reason(e))
+        ti = self.type_of(e)
+        n = 1
+        if e.kind == EK.ReplicatedAssignmentPattern:
+            n = self.d.const_int(e.count)
+            if n is None or n <= 0:
+                raise Unsupported("uses a replicated assignment pattern with a count that is not a positive constant")
+        elems = list(e.elements)
+        if not elems or sum(x.type.bitWidth for x in elems) * n != e.type.bitWidth:
+            raise Unsupported(_expr_reason(e))
+        parts = [self.expr(x) for x in elems] * n
+        if all(self.is_const(p) for p in parts):
+            c = self.fold(e)
+            if c is not None:
+                return c
+        if len(parts) == 1:
+            return self.add(["convert", ti] + list(self.span(e)) + [parts[0]])
+        return self.add(["concat", ti] + list(self.span(e)) + [parts])
+
     def x_replicate(self, e):
         ti = self.type_of(e)
         n = self.d.const_int(e.count)
@@ -910,9 +936,9 @@ def _expr_reason(e):
     reasons = {
         EK.Streaming: "uses a streaming concatenation",
         EK.Assignment: "uses an assignment inside an expression",
-        EK.SimpleAssignmentPattern: "uses an assignment pattern that is not constant",
-        EK.StructuredAssignmentPattern: "uses an assignment pattern that is not constant",
-        EK.ReplicatedAssignmentPattern: "uses an assignment pattern that is not constant",
+        EK.SimpleAssignmentPattern: "uses an assignment pattern of a type that is not packed",
+        EK.StructuredAssignmentPattern: "uses an assignment pattern of a type that is not packed",
+        EK.ReplicatedAssignmentPattern: "uses an assignment pattern of a type that is not packed",
         EK.RealLiteral: "uses a real number",
         EK.Dist: "uses a distribution",
         EK.MinTypMax: "uses a min:typ:max expression",
@@ -935,6 +961,9 @@ _EXPR = {
     EK.Inside: Conv.x_inside,
     EK.Concatenation: Conv.x_concat,
     EK.Replication: Conv.x_replicate,
+    EK.SimpleAssignmentPattern: Conv.x_pattern,
+    EK.StructuredAssignmentPattern: Conv.x_pattern,
+    EK.ReplicatedAssignmentPattern: Conv.x_pattern,
     EK.ElementSelect: Conv.x_element,
     EK.RangeSelect: Conv.x_range,
     EK.MemberAccess: Conv.x_member,
