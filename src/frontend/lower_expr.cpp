@@ -343,6 +343,17 @@ Literal Lowerer::indexIs(const Lits& idx, bool isSigned, std::int64_t p) {
     return equal(idx, cv);
 }
 
+namespace {
+/// Every value an index of this width and signedness can take lies in [lo, hi]: then some
+/// position is always named, and the select reads x only through an unknown index.
+bool indexAlwaysNames(std::size_t n, bool isSigned, std::int64_t lo, std::int64_t hi) {
+    if (n == 0 || n >= 62) return n == 0 && lo <= 0 && 0 <= hi;
+    std::int64_t ilo = isSigned ? -(std::int64_t{1} << (n - 1)) : 0;
+    std::int64_t ihi = isSigned ? (std::int64_t{1} << (n - 1)) - 1 : (std::int64_t{1} << n) - 1;
+    return lo <= ilo && ihi <= hi;
+}
+} // namespace
+
 Bits Lowerer::selectElement(const Bits& v, const Bits& idx, bool idxSigned, int msb, int lsb, int ew) {
     int count = static_cast<int>(v.size()) / std::max(ew, 1);
     if (auto k = constValue(idx)) {
@@ -376,7 +387,8 @@ Bits Lowerer::selectElement(const Bits& v, const Bits& idx, bool idxSigned, int 
     }
     // Out of range, or an unknown index: x by the rules (an index unknown because the
     // source assigned x counts as a rule too: the select's x is not the author's value).
-    Literal miss = b_.or2(negateLiteral(b_.orN(hits)), anyX(idx));
+    Literal miss = indexAlwaysNames(iv.size(), idxSigned, lo, hi) ? anyX(idx)
+                 : b_.or2(negateLiteral(b_.orN(hits)), anyX(idx));
     Bits r(static_cast<std::size_t>(ew));
     for (int i = 0; i < ew; ++i) {
         xt[i].push_back(miss);
@@ -1061,7 +1073,8 @@ Bits Lowerer::eval(ExprId root) {
                     if (b.s != kFalse) st[i].push_back(b_.and2(sel, b.s));
                 }
             }
-            Literal miss = b_.or2(negateLiteral(b_.orN(hits)), anyX(baseBits));
+            Literal miss = indexAlwaysNames(bv.size(), baseSigned, lo - count + 1, hi + count - 1)
+                         ? anyX(baseBits) : b_.or2(negateLiteral(b_.orN(hits)), anyX(baseBits));
             Bits r(static_cast<std::size_t>(w));
             for (int i = 0; i < w; ++i) {
                 xt[i].push_back(miss);

@@ -170,6 +170,13 @@ public:
     /// become don't-cares.
     void unassignedToUnknown(Env& env);
     void assignTarget(ExprId lv, const Bits& rhs, bool inBlock);
+    /// One place a target can name: the condition that it is the one named, and per bit of
+    /// the target the symbol's bit written there (-1: out of range, not written).
+    using Placement = std::pair<Literal, std::vector<int>>;
+    /// The places a chain of selects down to a symbol (`sym`) can name.
+    std::vector<Placement> targetPlaces(ExprId lv, SymbolId& sym);
+    /// Bits of its symbol a target may write (every bit a variable select can reach).
+    std::vector<int> targetBits(ExprId lv, SymbolId& sym) const;
     void targetWriteSet(ExprId lv, std::vector<std::pair<SymbolId, int>>& out) const;
     void stmtWriteSet(StmtId s, std::vector<std::pair<SymbolId, int>>& out) const;
     /// Why a member cannot be lowered (empty when it can).

@@ -201,7 +201,7 @@ bool refersOnlyToLocals(const Ir& ir, ExprId root) {
 }
 
 /// Targets the lowering cannot write: a part select whose base depends on a
-/// signal, selects nested under a select, anything that is not a target.
+/// signal, anything that is not a target.
 std::string targetReason(const Ir& ir, ExprId lv) {
     std::vector<ExprId> work{lv};
     while (!work.empty()) {
@@ -212,9 +212,14 @@ std::string targetReason(const Ir& ir, ExprId lv) {
         case ExprKind::Concat:
             for (std::uint32_t k = 0; k < e.b; ++k) work.push_back(ir.lists[e.a + k]);
             break;
-        case ExprKind::Index: case ExprKind::Range: case ExprKind::Indexed:
-            if (ir.expr(e.a).kind != ExprKind::Ref) return "a nested select on the left-hand side is left as written";
+        case ExprKind::Index: case ExprKind::Range: case ExprKind::Indexed: {
+            // A chain of selects down to a signal (`m[i][j]`, `req[i].hdr.tag`).
+            const Expr* base = &ir.expr(e.a);
+            while (base->kind == ExprKind::Index || base->kind == ExprKind::Range || base->kind == ExprKind::Indexed)
+                base = &ir.expr(base->a);
+            if (base->kind != ExprKind::Ref) return "the left-hand side is not an assignable target";
             break;
+        }
         default:
             return "the left-hand side is not an assignable target";
         }
@@ -305,42 +310,48 @@ void Lowerer::targetWriteSet(ExprId lv, std::vector<std::pair<SymbolId, int>>& o
         return;
     }
     SymbolId s = kNoId;
-    std::vector<int> offs;
+    std::vector<int> offs = targetBits(lv, s);
+    if (s == kNoId || isLocal(s)) return;
+    for (int o : offs) out.emplace_back(s, o);
+}
+
+std::vector<int> Lowerer::targetBits(ExprId lv, SymbolId& s) const {
+    const Expr& e = ir_.expr(lv);
     if (e.kind == ExprKind::Ref) {
         s = e.a;
-        for (int i = 0; i < ir_.symbols[s].width; ++i) offs.push_back(i);
-    } else {
-        const Expr& parent = ir_.expr(e.a);
-        if (parent.kind != ExprKind::Ref) return;
-        s = parent.a;
-        int pw = ir_.symbols[s].width;
-        int w = static_cast<int>(e.width);
-        if (e.kind == ExprKind::Index && ir_.expr(e.b).kind == ExprKind::Const) {
-            const Expr& ix = ir_.expr(e.b);
-            std::uint64_t k = 0;
-            bool known = true;
-            for (std::uint32_t i = ix.width; i-- > 0;) {
-                char c = ir_.constBit(ix, i);
-                if (c != '0' && c != '1') known = false;
-                if (i < 63) k |= std::uint64_t(c == '1') << i;
-            }
-            if (known && k < (std::uint64_t{1} << 31)) {
-                int off = dimOffset(static_cast<int>(k), e.msb, e.lsb);
-                for (int i = 0; i < w; ++i)
-                    if (off >= 0 && off * w + i < pw) offs.push_back(off * w + i);
-            }
-        } else if (e.kind == ExprKind::Range) {
-            int lo = dimOffset(e.right(), e.msb, e.lsb), hi = dimOffset(e.left(), e.msb, e.lsb);
-            if (lo > hi) std::swap(lo, hi);
-            int ew = std::max(1, w / (hi - lo + 1));
-            for (int i = lo * ew; i < (hi + 1) * ew; ++i)
-                if (i >= 0 && i < pw) offs.push_back(i);
-        } else {
-            for (int i = 0; i < pw; ++i) offs.push_back(i);   // variable select: may write any bit
-        }
+        std::vector<int> all(static_cast<std::size_t>(ir_.symbols[s].width));
+        for (std::size_t i = 0; i < all.size(); ++i) all[i] = static_cast<int>(i);
+        return all;
     }
-    if (isLocal(s)) return;
-    for (int o : offs) out.emplace_back(s, o);
+    if (e.kind != ExprKind::Index && e.kind != ExprKind::Range && e.kind != ExprKind::Indexed) return {};
+    std::vector<int> parent = targetBits(e.a, s);
+    int pw = static_cast<int>(parent.size());
+    int w = static_cast<int>(e.width);
+    std::vector<int> offs;
+    if (e.kind == ExprKind::Index && ir_.expr(e.b).kind == ExprKind::Const) {
+        const Expr& ix = ir_.expr(e.b);
+        std::uint64_t k = 0;
+        bool known = true;
+        for (std::uint32_t i = ix.width; i-- > 0;) {
+            char c = ir_.constBit(ix, i);
+            if (c != '0' && c != '1') known = false;
+            if (i < 63) k |= std::uint64_t(c == '1') << i;
+        }
+        if (known && k < (std::uint64_t{1} << 31)) {
+            int off = dimOffset(static_cast<int>(k), e.msb, e.lsb);
+            for (int i = 0; i < w; ++i)
+                if (off >= 0 && off * w + i < pw) offs.push_back(parent[static_cast<std::size_t>(off * w + i)]);
+        }
+    } else if (e.kind == ExprKind::Range) {
+        int lo = dimOffset(e.right(), e.msb, e.lsb), hi = dimOffset(e.left(), e.msb, e.lsb);
+        if (lo > hi) std::swap(lo, hi);
+        int ew = std::max(1, w / (hi - lo + 1));
+        for (int i = lo * ew; i < (hi + 1) * ew; ++i)
+            if (i >= 0 && i < pw) offs.push_back(parent[static_cast<std::size_t>(i)]);
+    } else {
+        offs = parent;   // variable select: may write any bit of its parent
+    }
+    return offs;
 }
 
 void Lowerer::stmtWriteSet(StmtId root, std::vector<std::pair<SymbolId, int>>& out) const {
@@ -406,101 +417,100 @@ void Lowerer::assignTarget(ExprId lvId, const Bits& rhs0, bool inBlock) {
         for (int i = 0; i < w; ++i) set(lv.a, i, rhs[i]);
         return;
     }
-    const Expr& parent = ir_.expr(lv.a);
-    if (parent.kind != ExprKind::Ref) fail("nested selects on the left-hand side are not supported", here(lv.start));
-    SymbolId s = parent.a;
-    int pw = static_cast<int>(parent.width);
-    if (lv.kind == ExprKind::Range) {
-        int lo = dimOffset(lv.right(), lv.msb, lv.lsb), hi = dimOffset(lv.left(), lv.msb, lv.lsb);
-        if (lo > hi) std::swap(lo, hi);
-        int ew = std::max(1, w / (hi - lo + 1));
-        for (int i = lo * ew, k = 0; i < (hi + 1) * ew; ++i, ++k)
-            if (i >= 0 && i < pw) set(s, i, rhs[k]);
-        return;
-    }
-    Bits idx = eval(lv.b);
-    bool idxSigned = ir_.expr(lv.b).isSigned;
-    auto toPos = [&](std::uint64_t k) {
-        std::int64_t p = static_cast<std::int64_t>(k);
-        if (idxSigned && idx.size() < 64 && !idx.empty() && ((k >> (idx.size() - 1)) & 1)) p -= std::int64_t{1} << idx.size();
-        return p;
-    };
-    if (lv.kind == ExprKind::Index) {
-        // 11.5.1: a write to a position out of range, or through an unknown index, does nothing.
-        if (auto k = constValue(idx)) {
-            std::int64_t pos = toPos(*k);
-            std::int64_t off = lv.msb >= lv.lsb ? pos - lv.lsb : lv.lsb - pos;
-            std::int64_t count = std::abs(static_cast<std::int64_t>(lv.msb) - lv.lsb) + 1;
-            if (off < 0 || off >= count) return;
-            for (int i = 0; i < w; ++i)
-                if (off * w + i < pw) set(s, static_cast<int>(off * w + i), rhs[i]);
-            return;
+    // A chain of selects (`m[i][j]`, `req[i].hdr.tag`, `y[s*2 +: 2]`): every place the target
+    // can name, each under the condition that it is the one named, written in turn (the
+    // conditions are exclusive: distinct index values).
+    SymbolId s = kNoId;
+    std::vector<Placement> places = targetPlaces(lvId, s);
+    for (const auto& [sel, offs] : places) {
+        for (int i = 0; i < w && i < static_cast<int>(offs.size()); ++i) {
+            int bit = offs[static_cast<std::size_t>(i)];
+            if (bit < 0) continue;   // out of range: not written (11.5.1)
+            if (sel == kTrue) {
+                set(s, bit, rhs[static_cast<std::size_t>(i)]);
+                continue;
+            }
+            Bit old = get(s, bit);
+            if (isSentinel(old)) set(s, bit, known(kPartial));
+            else set(s, bit, bMux(sel, rhs[static_cast<std::size_t>(i)], old));
         }
+    }
+}
+
+std::vector<Lowerer::Placement> Lowerer::targetPlaces(ExprId lvId, SymbolId& sym) {
+    const Expr& lv = ir_.expr(lvId);
+    if (lv.kind == ExprKind::Ref) {
+        sym = lv.a;
+        std::vector<int> all(static_cast<std::size_t>(ir_.symbols[lv.a].width));
+        for (std::size_t i = 0; i < all.size(); ++i) all[i] = static_cast<int>(i);
+        return {{kTrue, std::move(all)}};
+    }
+    if (lv.kind != ExprKind::Index && lv.kind != ExprKind::Range && lv.kind != ExprKind::Indexed)
+        fail("the left-hand side is not an assignable target", here(lv.start), ExitCode::Internal);
+    std::vector<Placement> outer = targetPlaces(lv.a, sym);
+    const int w = static_cast<int>(lv.width);
+    const int pw = static_cast<int>(ir_.expr(lv.a).width);
+    const int lo = std::min(lv.msb, lv.lsb), hi = std::max(lv.msb, lv.lsb);
+    const int n = hi - lo + 1;
+    // Sub-places within the parent's bits: (condition, parent bit per target bit, -1 none).
+    std::vector<Placement> inner;
+    auto at = [&](std::int64_t bit) { return bit >= 0 && bit < pw ? static_cast<int>(bit) : -1; };
+    if (lv.kind == ExprKind::Range) {
+        int a = dimOffset(lv.right(), lv.msb, lv.lsb), b = dimOffset(lv.left(), lv.msb, lv.lsb);
+        if (a > b) std::swap(a, b);
+        int ew = std::max(1, w / (b - a + 1));
+        std::vector<int> offs;
+        for (int i = a * ew; i < (b + 1) * ew; ++i) offs.push_back(at(i));
+        inner.push_back({kTrue, std::move(offs)});
+    } else {
+        Bits idx = eval(lv.b);
+        bool idxSigned = ir_.expr(lv.b).isSigned;
         Lits iv = values(idx);
         Literal idxKnown = negateLiteral(anyX(idx));
-        int count = pw / std::max(w, 1);
-        int lo = std::min(lv.msb, lv.lsb), hi = std::max(lv.msb, lv.lsb);
-        for (int index = lo; index <= hi; ++index) {
-            int off = dimOffset(index, lv.msb, lv.lsb);
-            if (off < 0 || off >= count) continue;
-            Literal sel = b_.and2(indexIs(iv, idxSigned, index), idxKnown);
-            if (sel == kFalse) continue;   // a position the index cannot name is never written
-            for (int i = 0; i < w; ++i) {
-                Bit old = get(s, off * w + i);
-                if (isSentinel(old)) {
-                    if (sel == kTrue) set(s, off * w + i, rhs[i]);
-                    else set(s, off * w + i, known(kPartial));
-                    continue;
-                }
-                set(s, off * w + i, bMux(sel, rhs[i], old));
+        if (lv.kind == ExprKind::Index) {
+            // 11.5.1: a write to a position out of range, or through an unknown index, does nothing.
+            for (int index = lo; index <= hi; ++index) {
+                Literal c = b_.and2(indexIs(iv, idxSigned, index), idxKnown);
+                if (c == kFalse) continue;   // a position the index cannot name is never written
+                int off = dimOffset(index, lv.msb, lv.lsb);
+                std::vector<int> offs;
+                for (int i = 0; i < w; ++i) offs.push_back(at(static_cast<std::int64_t>(off) * w + i));
+                inner.push_back({c, std::move(offs)});
             }
-        }
-        return;
-    }
-    // Indexed part select: the bits each base would write, merged under the base's value.
-    if (auto k = constValue(idx)) {
-        int n = std::abs(lv.msb - lv.lsb) + 1;
-        int ew = std::max(1, pw / n);
-        int count = std::max(1, w / ew);
-        std::int64_t first = toPos(*k), last = lv.up ? first + count - 1 : first - count + 1;
-        std::int64_t a = lv.msb >= lv.lsb ? first - lv.lsb : lv.lsb - first;
-        std::int64_t b = lv.msb >= lv.lsb ? last - lv.lsb : lv.lsb - last;
-        std::int64_t offLo = std::min(a, b) * ew;
-        for (int i = 0; i < w; ++i)
-            if (offLo + i >= 0 && offLo + i < pw) set(s, static_cast<int>(offLo + i), rhs[i]);
-        return;
-    }
-    {
-        int lo = std::min(lv.msb, lv.lsb), hi = std::max(lv.msb, lv.lsb);
-        int n = hi - lo + 1;
-        int ew = std::max(1, pw / n);
-        int count = std::max(1, w / ew);
-        Lits bv = values(idx);
-        Literal baseKnown = negateLiteral(anyX(idx));
-        for (std::int64_t start = static_cast<std::int64_t>(lo) - count + 1; start <= hi + count - 1; ++start) {
-            Literal sel = b_.and2(indexIs(bv, idxSigned, start), baseKnown);
-            if (sel == kFalse) continue;
-            std::int64_t first = lv.up ? start : start - count + 1;   // lowest index written
-            for (int el = 0; el < count; ++el) {
-                std::int64_t index = first + el;
-                if (index < lo || index > hi) continue;   // out of range: not written (11.5.1)
-                int off = dimOffset(static_cast<int>(index), lv.msb, lv.lsb);
-                int slot = lv.msb >= lv.lsb ? el : count - 1 - el;
-                for (int i = 0; i < ew; ++i) {
-                    int bit = off * ew + i;
-                    if (bit < 0 || bit >= pw) continue;
-                    Bit old = get(s, bit);
-                    const Bit& nv = rhs[static_cast<std::size_t>(slot * ew + i)];
-                    if (isSentinel(old)) {
-                        if (sel == kTrue) set(s, bit, nv);
-                        else set(s, bit, known(kPartial));
-                        continue;
+        } else {
+            // Indexed part select: the elements each base would write (those in range).
+            int ew = std::max(1, pw / n);
+            int count = std::max(1, w / ew);
+            for (std::int64_t start = static_cast<std::int64_t>(lo) - count + 1; start <= hi + count - 1; ++start) {
+                Literal c = b_.and2(indexIs(iv, idxSigned, start), idxKnown);
+                if (c == kFalse) continue;
+                std::int64_t first = lv.up ? start : start - count + 1;   // lowest index written
+                std::vector<int> offs(static_cast<std::size_t>(w), -1);
+                for (int el = 0; el < count; ++el) {
+                    std::int64_t index = first + el;
+                    if (index < lo || index > hi) continue;
+                    int off = dimOffset(static_cast<int>(index), lv.msb, lv.lsb);
+                    int slot = lv.msb >= lv.lsb ? el : count - 1 - el;
+                    for (int i = 0; i < ew; ++i) {
+                        std::size_t t = static_cast<std::size_t>(slot * ew + i);
+                        if (t < offs.size()) offs[t] = at(static_cast<std::int64_t>(off) * ew + i);
                     }
-                    set(s, bit, bMux(sel, nv, old));
                 }
+                inner.push_back({c, std::move(offs)});
             }
         }
     }
+    std::vector<Placement> out;
+    for (const auto& [oc, ooffs] : outer)
+        for (const auto& [ic, ioffs] : inner) {
+            Literal c = b_.and2(oc, ic);
+            if (c == kFalse) continue;
+            std::vector<int> offs;
+            offs.reserve(ioffs.size());
+            for (int p : ioffs) offs.push_back(p >= 0 && p < static_cast<int>(ooffs.size()) ? ooffs[static_cast<std::size_t>(p)] : -1);
+            out.push_back({c, std::move(offs)});
+        }
+    return out;
 }
 
 // ---- statements ------------------------------------------------------------

@@ -709,8 +709,11 @@ class Conv:
         node = self.ex[n]
         op = node[0]
         if op == "concat":
-            node[4] = [self.flatten_lvalue(p) for p in node[4]]
-            return n
+            # Flattened parts are new nodes: a concatenation naming them must follow them.
+            parts = [self.flatten_lvalue(p) for p in node[4]]
+            if parts == node[4]:
+                return n
+            return self.add(node[:4] + [parts])
         if op not in ("index", "range") or self.ex[node[4]][0] == "ref":
             return n
         span = self._const_span(n)
