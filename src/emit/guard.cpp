@@ -52,8 +52,20 @@ std::string parameterGuard(const std::vector<PinnedValue>& pins, bool systemVeri
     t += fmt::format("{}// values stops here: run kerf restructure again for them.\n", indent);
     t += fmt::format("{}generate\n", indent);
     t += fmt::format("{}  if ({}) begin : kerf_parameter_guard\n", indent, cond);
-    t += fmt::format("{}    wire kerf_restructured_for_other_{}_values = {{(0 - 1){{1'b0}}}};  // stops elaboration\n",
-                     indent, names);
+    // The branch is elaborated only under another value. SystemVerilog stops it with an
+    // elaboration-time $error (IEEE 1800 20.11); Verilog-2005 has none, and Icarus Verilog 11
+    // does not read one here (it defines __ICARUS__), so there a declaration that cannot be
+    // elaborated (a negative replication count) stops the build instead.
+    std::string wire = fmt::format("{}    wire kerf_restructured_for_other_{}_values = {{(0 - 1){{1'b0}}}};  // stops elaboration\n",
+                                   indent, names);
+    if (systemVerilog) {
+        t += "`ifdef __ICARUS__\n" + wire + "`else\n";
+        t += fmt::format("{}    $error(\"kerf: this logic is restructured for {} (--param); run kerf restructure again "
+                         "for other values\");\n", indent, list);
+        t += "`endif\n";
+    } else {
+        t += wire;
+    }
     t += fmt::format("{}  end\n", indent);
     t += fmt::format("{}endgenerate\n", indent);
     return t;

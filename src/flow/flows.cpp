@@ -360,11 +360,22 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             std::vector<std::string> keptProblems;
             for (const auto& k : br.kept.onlyA)
                 keptProblems.push_back(fmt::format("{} is missing from the rewrite", proof::describeKept(k)));
-            for (const auto& k : br.kept.onlyB) {
+            // The guard, and in SystemVerilog the text of its Icarus Verilog branch (which the
+            // reader sees as text the defines leave out), may be new.
+            std::vector<std::pair<std::string, std::pair<std::size_t, std::size_t>>> guards;
+            auto isGuardText = [&](const auto& k) {
+                if (!pinned || k.what != "generate" || !k.writes.empty()) return false;
                 std::string bytes = io::readFile(k.src.file);
                 std::string text = k.src.end <= bytes.size() ? bytes.substr(k.src.start, k.src.end - k.src.start) : "";
-                bool isGuard = pinned && k.what == "generate" && k.writes.empty() &&
-                               text.find("kerf_parameter_guard") != std::string::npos;
+                return text.find("kerf_parameter_guard") != std::string::npos;
+            };
+            for (const auto& k : br.kept.onlyB)
+                if (isGuardText(k)) guards.push_back({k.src.file, {k.src.start, k.src.end}});
+            for (const auto& k : br.kept.onlyB) {
+                bool isGuard = isGuardText(k);
+                for (const auto& [file, range] : guards)
+                    isGuard = isGuard || (k.what == "excluded_text" && k.src.file == file &&
+                                          k.src.start >= range.first && k.src.end <= range.second);
                 if (!isGuard)
                     keptProblems.push_back(fmt::format("the rewrite has a statement kerf would keep as written that "
                                                        "the original does not have: {}", proof::describeKept(k)));

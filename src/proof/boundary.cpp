@@ -188,10 +188,20 @@ BoundedResult proveBounded(const ProofSide& a, const ProofSide& b, const ProofOp
     auto inert = [](const KeptStatement& k) {
         return k.writes.empty() && (k.what == "generate" || k.what == "elaboration_task");
     };
+    // Text the defines leave out inside such a construct (the Icarus Verilog branch of kerf's
+    // SystemVerilog guard) names nothing and goes with it.
+    auto inside = [](const KeptStatement& k, const std::vector<KeptStatement>& side, const auto& isInert) {
+        if (k.what != "excluded_text" || !k.writes.empty()) return false;
+        for (const auto& g : side)
+            if (&g != &k && isInert(g) && g.src.file == k.src.file && g.src.start <= k.src.start &&
+                k.src.end <= g.src.end)
+                return true;
+        return false;
+    };
     bool uncompared = !r.oneSided.empty();
     for (const auto* side : {&r.kept.onlyA, &r.kept.onlyB})
         for (const auto& k : *side) {
-            if (inert(k)) r.inert.push_back(k);
+            if (inert(k) || inside(k, *side, inert)) r.inert.push_back(k);
             else uncompared = true;
         }
     if (r.proof.verdict == Verdict::Different || !r.undrivenOnOneSide.empty()) r.verdict = Verdict::Different;
