@@ -31,6 +31,20 @@ std::string pinnedList(const std::vector<PinnedValue>& pins) {
     return s;
 }
 
+namespace {
+
+// Text inside a Verilog string literal: quote and backslash escaped (a string parameter's value).
+std::string stringLiteralBody(const std::string& text) {
+    std::string s;
+    for (char c : text) {
+        if (c == '"' || c == '\\') s += '\\';
+        s += c;
+    }
+    return s;
+}
+
+} // namespace
+
 std::string parameterGuard(const std::vector<PinnedValue>& pins, bool systemVerilog, const std::string& indent) {
     if (pins.empty()) return {};
     std::string cond, names;
@@ -60,8 +74,9 @@ std::string parameterGuard(const std::vector<PinnedValue>& pins, bool systemVeri
                                    indent, names);
     if (systemVerilog) {
         t += "`ifdef __ICARUS__\n" + wire + "`else\n";
-        t += fmt::format("{}    $error(\"kerf: this logic is restructured for {} (--param); run kerf restructure again "
-                         "for other values\");\n", indent, list);
+        // The values go in as an argument on a line of their own, so the line stays within 100 columns.
+        t += fmt::format("{}    $error(\"kerf: restructured for %s only (--param); run kerf restructure again for others\",\n"
+                         "{}           \"{}\");\n", indent, indent, stringLiteralBody(list));
         t += "`endif\n";
     } else {
         t += wire;

@@ -25,6 +25,18 @@ struct ConflictCounter : CaDiCaL::Learner {
     void learn(int) override {}
 };
 
+/// Word w of input i's column in the truth table over all inputs (input i
+/// toggles every 2^i patterns): exhaustive simulation of a small window.
+inline std::uint64_t truthTableWord(std::size_t i, std::size_t w) {
+    static constexpr std::uint64_t kPeriodic[6] = {0xAAAAAAAAAAAAAAAAull, 0xCCCCCCCCCCCCCCCCull,
+                                                   0xF0F0F0F0F0F0F0F0ull, 0xFF00FF00FF00FF00ull,
+                                                   0xFFFF0000FFFF0000ull, 0xFFFFFFFF00000000ull};
+    return i < 6 ? kPeriodic[i] : (((w >> (i - 6)) & 1) ? ~0ull : 0ull);
+}
+
+/// Words of 64 patterns needed to hold every pattern of n inputs.
+inline std::size_t truthTableWords(std::size_t n) { return n <= 6 ? 1 : std::size_t{1} << (n - 6); }
+
 /// Word w of the cover's value, its variables' values in vals[var][w].
 inline std::uint64_t evalCover(const algebra::Cover& f, const std::vector<Words>& vals, std::size_t w) {
     std::uint64_t out = 0;

@@ -59,6 +59,8 @@ using Words = std::vector<std::uint64_t>;
 
 using detail::ConflictCounter;
 using detail::encodeCover;
+using detail::truthTableWord;
+using detail::truthTableWords;
 using detail::evalCover;
 
 class DontCareRun {
@@ -112,19 +114,16 @@ private:
         const std::size_t n = net_.inputs().size();
         exhaustive_ = static_cast<int>(n) <= std::min(o_.exhaustiveInputs, 20);
         if (exhaustive_) {
-            words_ = n <= 6 ? 1 : std::size_t{1} << (n - 6);
+            words_ = truthTableWords(n);
         } else {
             words_ = static_cast<std::size_t>(o_.simulationWords) + 1;   // the last word collects counterexamples
         }
         vals_.assign(net_.nodeCount(), Words(words_, 0));
         proof::Random rng(0x6b657266ull);
-        static constexpr std::uint64_t kMask[6] = {0xAAAAAAAAAAAAAAAAull, 0xCCCCCCCCCCCCCCCCull,
-                                                   0xF0F0F0F0F0F0F0F0ull, 0xFF00FF00FF00FF00ull,
-                                                   0xFFFF0000FFFF0000ull, 0xFFFFFFFF00000000ull};
         for (std::size_t i = 0; i < n; ++i) {
             Words& x = vals_[net_.inputs()[i]];
             for (std::size_t w = 0; w < words_; ++w) {
-                if (exhaustive_) x[w] = i < 6 ? kMask[i] : (((w >> (i - 6)) & 1) ? ~0ull : 0ull);
+                if (exhaustive_) x[w] = truthTableWord(i, w);
                 else x[w] = w + 1 == words_ ? 0 : rng.next();
             }
         }

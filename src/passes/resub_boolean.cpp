@@ -51,6 +51,8 @@ using algebra::makeLiteral;
 using detail::ConflictCounter;
 using detail::encodeCover;
 using detail::evalCover;
+using detail::truthTableWord;
+using detail::truthTableWords;
 using detail::Words;
 using net::NodeId;
 
@@ -93,16 +95,12 @@ private:
     void setUpPatterns() {
         const std::size_t n = net_.inputs().size();
         exhaustive_ = static_cast<int>(n) <= std::min(o_.exhaustiveInputs, 20);
-        words_ = exhaustive_ ? (n <= 6 ? 1 : std::size_t{1} << (n - 6)) : static_cast<std::size_t>(o_.simulationWords);
+        words_ = exhaustive_ ? truthTableWords(n) : static_cast<std::size_t>(o_.simulationWords);
         vals_.assign(net_.nodeCount(), Words(words_, 0));
         proof::Random rng(0x72657375ull);
-        static constexpr std::uint64_t kMask[6] = {0xAAAAAAAAAAAAAAAAull, 0xCCCCCCCCCCCCCCCCull,
-                                                   0xF0F0F0F0F0F0F0F0ull, 0xFF00FF00FF00FF00ull,
-                                                   0xFFFF0000FFFF0000ull, 0xFFFFFFFF00000000ull};
         for (std::size_t i = 0; i < n; ++i) {
             Words& x = vals_[net_.inputs()[i]];
-            for (std::size_t w = 0; w < words_; ++w)
-                x[w] = exhaustive_ ? (i < 6 ? kMask[i] : (((w >> (i - 6)) & 1) ? ~0ull : 0ull)) : rng.next();
+            for (std::size_t w = 0; w < words_; ++w) x[w] = exhaustive_ ? truthTableWord(i, w) : rng.next();
         }
         // Fewer than 64 patterns in the single word: the unused bits repeat
         // patterns already there (the masks above are periodic), so they are harmless.
