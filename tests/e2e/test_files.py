@@ -188,7 +188,9 @@ def _(t):
     lane_selects(src)
     env = dict(os.environ, KERF_PROGRESS_DELAY="0", KERF_PROGRESS_INTERVAL="1")
     code, text = run_on_terminal([t.kerf, "restructure", src, "-o", os.path.join(t.work, "o.sv")], env)
-    shares = re.findall(r"kerf: (lower|prove)\s+(\d+)%", text)
+    # A stage may name its current step in parentheses ("prove (reading the rewrite back)"); on a
+    # fast machine the sweep can finish between two redraws, so any step of the proof counts.
+    shares = re.findall(r"kerf: (lower|prove)(?: \([^)]*\))?\s+(\d+)%", text)
     t.res.check(code == 0, f"the run succeeds: {text[-300:]!r}")
     t.res.check(any(s == "lower" for s, _ in shares), f"lowering shows its share done: {text[-600:]!r}")
     t.res.check(any(s == "prove" for s, _ in shares), f"the proof shows its share done: {text[-600:]!r}")
