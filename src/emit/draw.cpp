@@ -5,6 +5,7 @@
 // anonymous nodes to the next named signal or input gives the edges. DOT is
 // the open graph language of Graphviz (graphviz.org); the layout is left to it.
 #include "kerf/emit/draw.h"
+#include "kerf/emit/guard.h"
 
 #include <fmt/format.h>
 
@@ -155,25 +156,12 @@ SignalGraph signalGraph(const frontend::ModuleDesc& m, const frontend::Lowered& 
     return g;
 }
 
-namespace {
-
-std::string quoted(const std::string& s) {
-    std::string q = "\"";
-    for (char c : s) {
-        if (c == '"' || c == '\\') q += '\\';
-        q += c;
-    }
-    return q + "\"";
-}
-
-} // namespace
-
 std::string toDot(const SignalGraph& g, const std::string& module, const std::set<std::string>& added) {
     using K = SignalGraph::Kind;
     std::set<std::string> shared = g.shared();
     std::string out = fmt::format("// kerf draw: module {} as restructured and proved; inputs left, outputs right,\n"
                                   "// shared wires filled, wires kerf added dashed.\n", module);
-    out += fmt::format("digraph {} {{\n  rankdir=LR;\n  node [fontname=\"Helvetica\"];\n", quoted(module));
+    out += fmt::format("digraph {} {{\n  rankdir=LR;\n  node [fontname=\"Helvetica\"];\n", doubleQuoted(module));
     for (const auto& v : g.vertices) {
         std::string attrs;
         switch (v.kind) {
@@ -188,10 +176,10 @@ std::string toDot(const SignalGraph& g, const std::string& module, const std::se
             else if (added.count(v.name)) attrs += ", style=dashed";
             break;
         }
-        if (v.label != v.name) attrs += ", label=" + quoted(v.label);
-        out += fmt::format("  {} [{}];\n", quoted(v.name), attrs);
+        if (v.label != v.name) attrs += ", label=" + doubleQuoted(v.label);
+        out += fmt::format("  {} [{}];\n", doubleQuoted(v.name), attrs);
     }
-    for (const auto& [from, to] : g.edges) out += fmt::format("  {} -> {};\n", quoted(from), quoted(to));
+    for (const auto& [from, to] : g.edges) out += fmt::format("  {} -> {};\n", doubleQuoted(from), doubleQuoted(to));
     out += "}\n";
     return out;
 }

@@ -31,19 +31,14 @@ std::string pinnedList(const std::vector<PinnedValue>& pins) {
     return s;
 }
 
-namespace {
-
-// Text inside a Verilog string literal: quote and backslash escaped (a string parameter's value).
-std::string stringLiteralBody(const std::string& text) {
-    std::string s;
+std::string doubleQuoted(const std::string& text) {
+    std::string q = "\"";
     for (char c : text) {
-        if (c == '"' || c == '\\') s += '\\';
-        s += c;
+        if (c == '"' || c == '\\') q += '\\';
+        q += c;
     }
-    return s;
+    return q + "\"";
 }
-
-} // namespace
 
 std::string parameterGuard(const std::vector<PinnedValue>& pins, bool systemVerilog, const std::string& indent) {
     if (pins.empty()) return {};
@@ -76,7 +71,7 @@ std::string parameterGuard(const std::vector<PinnedValue>& pins, bool systemVeri
         t += "`ifdef __ICARUS__\n" + wire + "`else\n";
         // The values go in as an argument on a line of their own, so the line stays within 100 columns.
         t += fmt::format("{}    $error(\"kerf: restructured for %s only (--param); run kerf restructure again for others\",\n"
-                         "{}           \"{}\");\n", indent, indent, stringLiteralBody(list));
+                         "{}           {});\n", indent, indent, doubleQuoted(list));
         t += "`endif\n";
     } else {
         t += wire;

@@ -3,16 +3,16 @@
 // `kerf restructure --param NAME=VALUE` specialises the logic that depends on
 // NAME for that value. The written file then carries a generate branch that
 // is elaborated only when a build sets NAME to something else, and that
-// stops the build there: it declares a net whose initial value replicates a
-// negative number of times, which no tool elaborates (IEEE 1364-2005 5.1.14,
-// IEEE 1800-2017 11.4.12.1). The net's name and the comment above it say what
-// happened. Measured: slang and Icarus Verilog 11 report an error, Verilator
-// 5 a warning that is fatal by default. (An elaboration-time `$error` would
-// read better in SystemVerilog, but Icarus Verilog 11 rejects it as a module
-// item even in a branch not taken, and Verilator treats it as the same kind
-// of fatal-by-default warning.) The writer prints the text this file
-// produces; the proof checks that it is the only statement the rewrite adds
-// to what kerf keeps as written.
+// stops the build there. In SystemVerilog files it is an elaboration-time
+// `$error` naming the pinned values (IEEE 1800-2017 20.11). Verilog-2005 has
+// no such task, and Icarus Verilog 11 does not read one as a module item, so
+// `.v` files — and `.sv` files under Icarus (`ifdef __ICARUS__`) — declare a
+// net whose initial value replicates a negative number of times, which no
+// tool elaborates (IEEE 1364-2005 5.1.14, IEEE 1800-2017 11.4.12.1); the
+// net's name and the comment above it say what happened. Measured: slang and
+// Verilator stop on the `$error`, Icarus Verilog 11 on the net. The writer
+// prints the text this file produces; the proof checks that it is the only
+// statement the rewrite adds to what kerf keeps as written.
 #pragma once
 
 #include "kerf/frontend/lower.h"
@@ -37,6 +37,10 @@ std::vector<PinnedValue> pinnedValues(const frontend::ModuleDesc& m, const std::
 
 /// The guard block (lines ending in '\n', each starting with `indent`), or "" when `pins` is empty.
 std::string parameterGuard(const std::vector<PinnedValue>& pins, bool systemVerilog, const std::string& indent);
+
+/// `text` between double quotes, with `"` and `\\` escaped: a Verilog string literal
+/// (IEEE 1800-2017 5.9) and a Graphviz DOT quoted identifier alike.
+std::string doubleQuoted(const std::string& text);
 
 /// "W = 4, MODE = 2'b01" — for headers and summaries.
 std::string pinnedList(const std::vector<PinnedValue>& pins);
