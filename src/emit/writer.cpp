@@ -199,8 +199,14 @@ private:
     void collectRefs(const PExpr& e, std::set<std::string>& out) const;
     /// Bits the replaced statements read that the written text no longer reads.
     std::vector<std::string> unreadBits();
-    void coneOf(NodeId v, bool viaDefinition, std::function<void(NodeId)> onWire,
-                std::function<void(NodeId)> onNode, std::function<void(const std::string&)> onName);
+    void coneOf(NodeId v, bool viaDefinition, const std::function<void(NodeId)>& onWire,
+                const std::function<void(NodeId)>& onNode, const std::function<void(const std::string&)>& onName);
+    // coneOf's marks: node v was seen by the walk with stamp coneStamp_ (one counter per
+    // walk instead of a set per walk: the walks of a big network are many and short).
+    std::vector<std::uint32_t> coneSeen_;
+    std::uint32_t coneStamp_ = 0;
+    std::vector<NodeId> coneWork_;
+    std::vector<const Factored*> coneForms_;
 
     const frontend::ModuleDesc& m_;
     const frontend::Lowered& low_;
@@ -505,12 +511,14 @@ void Writer::chooseWires() {
     // Consumers: distinct logic nodes reading v, plus outputs that refer to v without defining it.
     std::vector<std::uint32_t> users(n, 0), logicUsers(n, 0), posUses(n, 0), negUses(n, 0);
     std::vector<NodeId> order = net_.topoOrder();
+    std::vector<NodeId> countedFor(n, static_cast<NodeId>(-1));   // v was last counted as read by this node
     for (NodeId u : order) {
         if (!live[u]) continue;
-        std::set<NodeId> seen;
         for (const auto& c : net_.node(u).cover.cubes)
-            for (Literal l : c.lits) seen.insert(literalVar(l));
-        for (NodeId v : seen) ++users[v], ++logicUsers[v];
+            for (Literal l : c.lits) {
+                NodeId v = literalVar(l);
+                if (countedFor[v] != u) countedFor[v] = u, ++users[v], ++logicUsers[v];
+            }
         std::function<void(const Factored&)> walk = [&](const Factored& f) {
             if (f.kind == Factored::Kind::Lit) (literalNegated(f.lit) ? negUses : posUses)[literalVar(f.lit)]++;
             for (const auto& k : f.kids) walk(k);
@@ -546,10 +554,19 @@ void Writer::chooseWires() {
     }
 }
 
-void Writer::coneOf(NodeId root, bool viaDefinition, std::function<void(NodeId)> onWire,
-                    std::function<void(NodeId)> onNode, std::function<void(const std::string&)> onName) {
-    std::vector<NodeId> work{root};
-    std::set<NodeId> seen;
+void Writer::coneOf(NodeId root, bool viaDefinition, const std::function<void(NodeId)>& onWire,
+                    const std::function<void(NodeId)>& onNode, const std::function<void(const std::string&)>& onName) {
+    if (coneSeen_.size() != net_.nodeCount() || ++coneStamp_ == 0) {
+        coneSeen_.assign(net_.nodeCount(), 0);
+        coneStamp_ = 1;
+    }
+    const std::uint32_t stamp = coneStamp_;
+    // The callbacks must not start a walk of their own (the marks are shared); the
+    // stacks are reused from walk to walk.
+    std::vector<NodeId>& work = coneWork_;
+    std::vector<const Factored*>& forms = coneForms_;
+    work.clear();
+    work.push_back(root);
     bool first = viaDefinition;
     while (!work.empty()) {
         NodeId v = work.back();
@@ -558,7 +575,8 @@ void Writer::coneOf(NodeId root, bool viaDefinition, std::function<void(NodeId)>
         bool expand = first;
         first = false;
         if (!expand) {
-            if (!seen.insert(v).second) continue;
+            if (coneSeen_[v] == stamp) continue;
+            coneSeen_[v] = stamp;
             if (refs_[v] && !isWire_[v]) {
                 onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
                 continue;
@@ -570,11 +588,15 @@ void Writer::coneOf(NodeId root, bool viaDefinition, std::function<void(NodeId)>
             }
         }
         onNode(v);
-        std::function<void(const Factored&)> walk = [&](const Factored& f) {
-            if (f.kind == Factored::Kind::Lit) work.push_back(literalVar(f.lit));
-            for (const auto& k : f.kids) walk(k);
-        };
-        walk(forms_[v]);
+        // The form's literals in written order (a pre-order walk without recursion).
+        forms.clear();
+        forms.push_back(&forms_[v]);
+        while (!forms.empty()) {
+            const Factored* f = forms.back();
+            forms.pop_back();
+            if (f->kind == Factored::Kind::Lit) work.push_back(literalVar(f->lit));
+            for (auto k = f->kids.rbegin(); k != f->kids.rend(); ++k) forms.push_back(&*k);
+        }
     }
 }
 
@@ -668,23 +690,23 @@ void Writer::formGroups() {
     for (std::size_t s = 0; s < stmts_.size(); ++s) index[stmts_[s]] = static_cast<int>(s);
     UnionFind uf(stmts_.size() + 1);
     const int wordUnit = static_cast<int>(stmts_.size());
-    std::map<NodeId, int> wireOwner;
+    std::vector<int> wireOwner(net_.nodeCount(), -1);   // per wire: the first unit found reading it
     for (std::size_t i = 0; i < outs_.size(); ++i) {
         int unit = outs_[i].generated ? wordUnit : index.at(outs_[i].stmt);
         NodeId v = literalVar(net_.outputs()[i].driver);
         coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) {
-            auto [it, fresh] = wireOwner.emplace(w, unit);
-            if (!fresh) uf.unite(it->second, unit);
+            if (wireOwner[w] < 0) wireOwner[w] = unit;
+            else uf.unite(wireOwner[w], unit);
         }, [](NodeId) {}, [](const std::string&) {});
     }
     // Wires used by wires belong with their users.
     for (auto it = wires_.rbegin(); it != wires_.rend(); ++it) {
         NodeId w = *it;
-        auto own = wireOwner.find(w);
-        if (own == wireOwner.end()) continue;
+        const int own = wireOwner[w];
+        if (own < 0) continue;
         coneOf(w, true, [&](NodeId x) {
-            auto [jt, fresh] = wireOwner.emplace(x, own->second);
-            if (!fresh) uf.unite(jt->second, own->second);
+            if (wireOwner[x] < 0) wireOwner[x] = own;
+            else uf.unite(wireOwner[x], own);
         }, [](NodeId) {}, [](const std::string&) {});
     }
     if (oneGroup_)
@@ -714,9 +736,8 @@ void Writer::formGroups() {
     wireGroup_.assign(net_.nodeCount(), -1);
     groupWires_.assign(groups_.size(), {});
     for (NodeId w : wires_) {
-        auto own = wireOwner.find(w);
-        if (own == wireOwner.end()) continue;
-        int g = groupOfUnit(own->second);
+        if (wireOwner[w] < 0) continue;
+        int g = groupOfUnit(wireOwner[w]);
         if (g < 0) continue;
         wireGroup_[w] = g;
         groupWires_[static_cast<std::size_t>(g)].push_back(w);
@@ -876,6 +897,10 @@ void Writer::decide() {
     for (std::size_t g = 0; g < groups_.size(); ++g)
         for (std::size_t i : outsOf[g]) groupOfOutput[i] = static_cast<int>(g);
     std::vector<std::uint32_t> wireStamp(net_.nodeCount(), 0);   // wires listed for group g carry g + 1
+    std::vector<std::uint32_t> nodeStamp(net_.nodeCount(), 0);   // nodes counted for group g carry g + 1
+    // The original's nodes walked for group g, the other groups' outputs and g's own, marked g + 1.
+    std::vector<std::uint32_t> origSeen(orig_.nodeCount(), 0), origStop(orig_.nodeCount(), 0),
+        origRoot(orig_.nodeCount(), 0);
     for (std::size_t g = 0; g < groups_.size(); ++g) {
         StatementGroup& G = groups_[g];
         G.members.clear();
@@ -894,35 +919,34 @@ void Writer::decide() {
         for (std::size_t i : outsOf[g])
             if (!outs_[i].generated && outNames.insert(outs_[i].bit.signal).second) G.outputs.push_back(outs_[i].bit.signal);
         // After: every node the group's text computes.
-        std::set<NodeId> nodes;
         std::vector<NodeId> wires;
         const auto stamp = static_cast<std::uint32_t>(g + 1);
         auto addWire = [&](NodeId w) {
             if (wireStamp[w] != stamp) wireStamp[w] = stamp, wires.push_back(w);
         };
+        G.gatesAfter = 0;
+        auto addNode = [&](NodeId x) {
+            if (nodeStamp[x] != stamp) nodeStamp[x] = stamp, G.gatesAfter += formGates(forms_[x]);
+        };
         for (std::size_t i : outsOf[g]) {
             NodeId v = literalVar(net_.outputs()[i].driver);
-            coneOf(v, definer_[v] == static_cast<int>(i), addWire, [&](NodeId x) { nodes.insert(x); },
-                   [](const std::string&) {});
+            coneOf(v, definer_[v] == static_cast<int>(i), addWire, addNode, [](const std::string&) {});
         }
         for (std::size_t q = 0; q < wires.size(); ++q)
-            coneOf(wires[q], true, addWire, [&](NodeId x) { nodes.insert(x); }, [](const std::string&) {});
-        G.gatesAfter = 0;
-        for (NodeId x : nodes) G.gatesAfter += formGates(forms_[x]);
+            coneOf(wires[q], true, addWire, addNode, [](const std::string&) {});
         // Before: the logic of the group's outputs as read, up to signals other statements compute.
-        std::set<NodeId> stops;
         for (std::size_t i = 0; i < outs_.size(); ++i)
-            if (groupOfOutput[i] != static_cast<int>(g)) stops.insert(literalVar(orig_.outputs()[i].driver));
-        std::set<NodeId> seen;
+            if (groupOfOutput[i] != static_cast<int>(g)) origStop[literalVar(orig_.outputs()[i].driver)] = stamp;
         std::vector<NodeId> work;
         for (std::size_t i : outsOf[g]) work.push_back(literalVar(orig_.outputs()[i].driver));
-        std::set<NodeId> roots(work.begin(), work.end());
+        for (NodeId r : work) origRoot[r] = stamp;
         G.gatesBefore = 0;
         while (!work.empty()) {
             NodeId v = work.back();
             work.pop_back();
-            if (!orig_.isLogic(v) || !seen.insert(v).second) continue;
-            if (stops.count(v) && !roots.count(v)) continue;
+            if (!orig_.isLogic(v) || origSeen[v] == stamp) continue;
+            origSeen[v] = stamp;
+            if (origStop[v] == stamp && origRoot[v] != stamp) continue;
             G.gatesBefore += formGates(origForms[v]);
             for (const auto& c : orig_.node(v).cover.cubes)
                 for (Literal l : c.lits) work.push_back(literalVar(l));
@@ -1017,13 +1041,14 @@ std::vector<std::string> Writer::unreadBits() {
         else read.insert({r.text, 0});
     };
     std::vector<NodeId> work;
-    std::set<NodeId> expanded;
+    std::vector<std::uint8_t> expanded(net_.nodeCount(), 0);
     auto expand = [&](NodeId root) {
         work.push_back(root);
         while (!work.empty()) {
             NodeId v = work.back();
             work.pop_back();
-            if (!expanded.insert(v).second) continue;
+            if (expanded[v]) continue;
+            expanded[v] = 1;
             std::function<void(const Factored&)> walk = [&](const Factored& f) {
                 if (f.kind == Factored::Kind::Lit) {
                     NodeId u = literalVar(f.lit);
