@@ -26,6 +26,7 @@
 #include <filesystem>
 #include <iostream>
 #include <map>
+#include <optional>
 #include <set>
 
 namespace kerf::flow {
@@ -165,6 +166,9 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     }
     stages.begin("lower");
     frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
+    // The original as the proof sees it (arithmetic as gates), lowered once: the last probe
+    // below when it was lowered with the kept members finally agreed on.
+    std::optional<frontend::Lowered> proofOriginal;
     if (!opts.skipProof) {
         // The proof lowers arithmetic into gates, where an x the language produces can reach
         // statements the word-level lowering restructures: what either lowering keeps as
@@ -174,7 +178,10 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             frontend::Lowered probe =
                 lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX, before);
             std::map<int, std::string> both = keptIn(probe);
-            if (both.size() == before.size()) break;
+            if (both.size() == before.size()) {
+                proofOriginal = std::move(probe);
+                break;
+            }
             low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX, both);
         }
     }
@@ -226,6 +233,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     wi.originalForms = &originalForms.forms;
     wi.oneGroup = opts.dissolveInternal;
     emit::WriteResult wr = emit::writeModule(wi, wo);
+    if (!wr.changed) proofOriginal.reset();   // nothing to prove
     const std::string& file = desc.src.file;
     const std::string original_text = io::readFile(file);
 
@@ -321,8 +329,10 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             after = asRead;
             groupsReplaced = 0;
         } else if (!opts.skipProof) {
-            frontend::Lowered a =
-                lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr, opts.keep, opts.keepX, agreedKept);
+            frontend::Lowered a = proofOriginal ? std::move(*proofOriginal)
+                                                : lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr,
+                                                          opts.keep, opts.keepX, agreedKept);
+            proofOriginal.reset();
             frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep,
                                           opts.keepX, keptByKey(desc, agreedKept, written));
             io::Progress::global().stage("prove");
