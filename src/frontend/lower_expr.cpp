@@ -16,6 +16,7 @@
 #include "lower_internal.h"
 
 #include <algorithm>
+#include <stdexcept>
 
 namespace kerf::frontend::detail {
 
@@ -107,6 +108,43 @@ std::optional<std::uint64_t> constValue(const Bits& b) {
     }
     return v;
 }
+
+namespace {
+
+/// The w-bit constant `v` (w <= 64) as known bits.
+Bits constantBits(std::uint64_t v, int w) {
+    Bits r(static_cast<std::size_t>(w));
+    for (int i = 0; i < w; ++i) r[i] = known(((v >> i) & 1) ? kTrue : kFalse);
+    return r;
+}
+
+/// a op b on two known w-bit values (w <= 64, b != 0 for / and %): the value arithmetic of
+/// IEEE 1800 11.4.2 — modulo 2^w; signed division truncates toward zero and the remainder
+/// takes the sign of the first operand. Folding here keeps constant arithmetic (loop indices,
+/// widths) from building gates that only fold away afterwards.
+std::uint64_t foldArithmetic(BinaryOp o, std::uint64_t a, std::uint64_t b, int w, bool sign) {
+    const std::uint64_t mask = w >= 64 ? ~std::uint64_t{0} : (std::uint64_t{1} << w) - 1;
+    auto asSigned = [&](std::uint64_t v) {
+        if (w < 64 && ((v >> (w - 1)) & 1)) v |= ~mask;
+        return static_cast<std::int64_t>(v);
+    };
+    switch (o) {
+    case BinaryOp::Add: return (a + b) & mask;
+    case BinaryOp::Sub: return (a - b) & mask;
+    case BinaryOp::Mul: return (a * b) & mask;
+    case BinaryOp::Div:
+    case BinaryOp::Mod: {
+        if (!sign) return (o == BinaryOp::Div ? a / b : a % b) & mask;
+        std::int64_t sa = asSigned(a), sb = asSigned(b);
+        if (sb == -1) return (o == BinaryOp::Div ? std::uint64_t{0} - a : 0) & mask;   // no INT64_MIN / -1
+        return static_cast<std::uint64_t>(o == BinaryOp::Div ? sa / sb : sa % sb) & mask;
+    }
+    default: break;
+    }
+    throw std::logic_error("foldArithmetic: not an arithmetic operator");
+}
+
+} // namespace
 
 Bits extend(Bits b, int width, bool sign) {
     Bit fill = sign && !b.empty() ? b.back() : known(kFalse);
@@ -752,6 +790,10 @@ Bits Lowerer::eval(ExprId root) {
                 b = extend(std::move(b), w, rs);
                 Literal x = b_.or2(anyX(a), anyX(b)), sx = b_.or2(anyS(a), anyS(b));
                 bool consts = constValue(a) && constValue(b);
+                if (consts && w <= 64) {
+                    done(constantBits(foldArithmetic(o, *constValue(a), *constValue(b), w, false), w));
+                    break;
+                }
                 if (o == BinaryOp::Mul && !consts) {
                     // By a constant power of two: a shift, wires only.
                     auto ka = constValue(a), kb = constValue(b);
@@ -838,6 +880,10 @@ Bits Lowerer::eval(ExprId root) {
                     break;
                 }
                 if (!kb) keep(fmt::format("operator '{}' with a right operand that is not constant here", opText(o)));
+                if (auto ka = constValue(a); ka && w <= 64) {
+                    done(constantBits(foldArithmetic(o, *ka, *kb, w, sign), w));
+                    break;
+                }
                 if (!sign && (*kb & (*kb - 1)) == 0) {
                     // Unsigned by a power of two: a shift or the low bits, wires only.
                     int sh = 0;
