@@ -97,9 +97,21 @@ def _drop_ref_signal(desc):
     raise SystemExit("refresh_corpus: no reference to damage")
 
 
+def _narrow_loop_step(desc):
+    """The loop's `i + 1` gets the 2-bit type of `pair`: the index wraps and the loop never
+    ends (rejected at the iteration limit; it once took minutes to get there)."""
+    narrow = next(s["type"] for s in desc["signals"] if s["name"] == "pair")
+    for row in desc["exprs"]:
+        if row[0] == "binary" and row[4] == "+":
+            row[1] = narrow
+            return desc
+    raise SystemExit("refresh_corpus: no loop step to damage")
+
+
 # regression seed -> (source files, module, damage)
 REGRESSIONS = {
     "regression-missing-name": (["tests/e2e/bad/two_drivers.sv"], "two_drivers", _drop_ref_signal),
+    "regression-endless-loop": (["tests/rtl/min_loop_const_div.sv"], "min_loop_const_div", _narrow_loop_step),
 }
 
 

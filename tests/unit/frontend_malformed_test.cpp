@@ -2,7 +2,7 @@
 //
 // Each tests/fuzz/corpus/description/regression-*.json once made parseDescription
 // or lowering read freed memory (AddressSanitizer report from
-// tests/fuzz/fuzz_description). A malformed description must end in an
+// tests/fuzz/fuzz_description) or run for minutes (a libFuzzer timeout). A malformed description must end in an
 // exception, which kerf reports as an internal error — and it must be rejected
 // for its damage, not for an old format version (tests/fuzz/refresh_corpus.py
 // writes the corpus in the current format).
