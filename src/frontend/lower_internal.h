@@ -99,6 +99,12 @@ struct KeepMember {
     std::string reason;
 };
 
+/// Members found to read bits that kept code can make x, with their reasons: all of them
+/// are kept, and the module lowered again.
+struct KeepMembers {
+    std::map<int, std::string> members;
+};
+
 class Lowerer {
 public:
     Lowerer(const ModuleDesc& m, const LowerOptions& o, const std::map<int, std::string>& forcedKept);
@@ -109,8 +115,8 @@ public:
     Bit inputBit(SymbolId sym, int off);
     void recordBit(SymbolId sym, int off, Bit b);
     void lowerMember(int idx);
-    /// Keep restructured statements that read what kept code can make x (and so on downstream).
-    void keepReadersOfKeptX(const std::function<SymbolId(const std::string&)>& symbolOf);
+    /// The bits kept code can make x (keptX_); restructured statements reading them are kept.
+    void markKeptXBits(const std::function<SymbolId(const std::string&)>& symbolOf);
     [[noreturn]] void fail(const std::string& msg, const SourceLoc& loc, ExitCode c = ExitCode::InputError) const {
         throw Error(msg, loc, c);
     }
@@ -197,6 +203,8 @@ public:
     std::vector<std::uint8_t> keptReads_;      // per symbol: read by kept code
     std::vector<std::uint8_t> cut_;            // per symbol: `(* keep *)` / --keep: never restructured through
     std::vector<std::uint8_t> mentioned_;      // per symbol: named by kept code (inactive branches included)
+    std::vector<std::vector<std::uint8_t>> keptX_;  // per symbol, per bit: kept code can make it x
+    std::map<int, std::string> xReaders_;      // restructured members reading such a bit -> why kept
     std::vector<Literal> outputUnknown_;       // per network output: its unknown flag
     std::vector<Literal> outputRuleX_;         // per network output: unknown by a rule of the language
     std::set<ExprId> assignedX_;               // constants whose x bits the current member assigns as values

@@ -124,6 +124,11 @@ Bit Lowerer::inputBit(SymbolId s, int off) {
     auto& v = inputLits_[s];
     if (v.empty()) v.assign(static_cast<std::size_t>(std::max(ir_.symbols[s].width, 1)), known(kUnassigned));
     if (off < 0 || off >= static_cast<int>(v.size())) return kRuleX;
+    if (current_ && s < keptX_.size() && off < static_cast<int>(keptX_[s].size()) && keptX_[s][off] &&
+        !xReaders_.count(current_->id))
+        xReaders_[current_->id] = fmt::format(
+            "it reads '{}', which code kept as written can make x; gates in its place would not treat that x "
+            "as the source does", bitName(s, off));
     if (v[off].v == kUnassigned) {
         BitRef br{ir_.symbols[s].name, off};
         v[off] = known(algebra::makeLiteral(out_.net.addInput(bitName(s, off)), false));
@@ -251,43 +256,54 @@ void Lowerer::lowerMember(int idx) {
     state_[idx] = 2;
 }
 
-void Lowerer::keepReadersOfKeptX(const std::function<SymbolId(const std::string&)>& symbolOf) {
-    // Signals that code left as written can make x (F19). The lowering takes what kept code
-    // drives as 0/1, so a restructured statement reading such a signal could be rewritten into
-    // gates that propagate an x where the source's `if`/`case` takes the else branch on it
-    // (IEEE 1800 12.4, 12.5) or `?:` merges it (11.4.11). Such statements are kept as written,
-    // and what they drive can then be x in turn, until nothing changes.
+void Lowerer::markKeptXBits(const std::function<SymbolId(const std::string&)>& symbolOf) {
+    // Bits that code left as written can make x (F19), per bit: the bits a kept member writes
+    // (its bit ranges, or every bit a lowerable member's targets can reach) when its own text
+    // can make x or it reads a signal with such a bit (by name: what kept code reads is not
+    // known per bit), until nothing changes. A restructured statement that reads one of these
+    // bits is kept as written (inputBit), and what it writes joins them on the next lowering.
     const std::size_t n = members_.size();
-    std::vector<std::uint8_t> xSym(ir_.symbols.size(), 0);
-    std::vector<std::uint8_t> source(n, 0);
+    keptX_.assign(ir_.symbols.size(), {});
+    std::vector<std::uint8_t> anyX(ir_.symbols.size(), 0), source(n, 0);
     auto markWrites = [&](std::size_t i) {
         source[i] = 1;
-        for (const auto& name : members_[i]->writes)
-            if (SymbolId s = symbolOf(name); s != kNoId && s < xSym.size()) xSym[s] = 1;
+        const Member& mem = *members_[i];
+        std::vector<std::pair<SymbolId, int>> bits;
+        if (mem.kind == MemberKind::Kept) {
+            for (const auto& name : mem.writes) {
+                SymbolId s = symbolOf(name);
+                if (s == kNoId || s >= keptX_.size()) continue;
+                auto r = mem.writeRanges.find(name);
+                if (r == mem.writeRanges.end()) {
+                    for (int b = 0; b < ir_.symbols[s].width; ++b) bits.emplace_back(s, b);
+                } else {
+                    for (auto [lo, hi] : r->second)
+                        for (int b = std::max(lo, 0); b <= hi && b < ir_.symbols[s].width; ++b) bits.emplace_back(s, b);
+                }
+            }
+        } else if (mem.kind == MemberKind::Assign) {
+            targetWriteSet(mem.lhs, bits);
+        } else {
+            stmtWriteSet(mem.body, bits);
+        }
+        for (auto [s, off] : bits) {
+            if (s >= keptX_.size() || isLocal(s) || off < 0 || off >= ir_.symbols[s].width) continue;
+            auto& v = keptX_[s];
+            if (v.empty()) v.assign(static_cast<std::size_t>(ir_.symbols[s].width), 0);
+            v[static_cast<std::size_t>(off)] = 1;
+            anyX[s] = 1;
+        }
     };
-    auto readX = [&](std::size_t i) -> const std::string* {
+    auto readsX = [&](std::size_t i) {
         for (const auto& name : members_[i]->reads)
-            if (SymbolId s = symbolOf(name); s != kNoId && s < xSym.size() && xSym[s]) return &name;
-        return nullptr;
+            if (SymbolId s = symbolOf(name); s != kNoId && s < anyX.size() && anyX[s]) return true;
+        return false;
     };
-    for (std::size_t i = 0; i < n; ++i)
-        if (!restructured_[i] && textMayBeX(ir_, *members_[i])) markWrites(i);
     for (bool changed = true; changed;) {
         changed = false;
         for (std::size_t i = 0; i < n; ++i) {
-            if (source[i]) continue;
-            const std::string* name = readX(i);
-            if (!name) continue;
-            if (restructured_[i]) {
-                const Member& mem = *members_[i];
-                std::string what = mem.kind == MemberKind::Assign ? "assign"
-                                 : mem.style == "always_star" ? "always" : mem.style;
-                std::string why = fmt::format("it reads '{}', which code kept as written can make x; gates in its "
-                                              "place would not treat that x as the source does", *name);
-                out_.notes.push_back(fmt::format("{}: left as written: {}", mem.src.loc().str(), why));
-                out_.kept.push_back({mem.id, mem.src.loc(), what, why});
-                restructured_[i] = 0;
-            }
+            if (source[i] || restructured_[i]) continue;
+            if (!textMayBeX(ir_, *members_[i]) && !readsX(i)) continue;
             markWrites(i);
             changed = true;
         }
@@ -340,7 +356,7 @@ Lowered Lowerer::run() {
         restructured_[i] = 1;
     }
 
-    keepReadersOfKeptX(symbolOf);
+    markKeptXBits(symbolOf);
 
     // Bit-level drivers: two statements driving one bit is an error unless both are kept code.
     for (std::size_t i = 0; i < n; ++i) {
@@ -453,6 +469,9 @@ Lowered Lowerer::run() {
         lowerMember(i);
     }
     io::Progress::global().share(lowered, order.size());
+    // Restructured statements that read a bit kept code can make x are kept, all at once; the
+    // module is lowered again with them kept (what they write can then be x in turn).
+    if (!xReaders_.empty()) throw KeepMembers{std::move(xReaders_)};
     for (std::size_t i = 0; i < n; ++i)
         if (restructured_[i]) out_.replaced.push_back(members_[i]->id);
 
@@ -569,6 +588,13 @@ Lowered lower(const ModuleDesc& m, const LowerOptions& opts) {
                 throw Error(fmt::format("lowering kept asking to keep member {} ({})", k.member, k.reason), {},
                             ExitCode::Internal);
             forced[k.member] = k.reason;
+        } catch (const detail::KeepMembers& k) {
+            for (const auto& [member, reason] : k.members) {
+                if (member < 0 || forced.count(member))
+                    throw Error(fmt::format("lowering kept asking to keep member {} ({})", member, reason), {},
+                                ExitCode::Internal);
+                forced[member] = reason;
+            }
         }
     }
 }
