@@ -618,6 +618,8 @@ class Conv:
     def x_convert(self, e):
         t = e.type
         op = e.operand
+        if op.kind == EK.Streaming and t.isIntegral:
+            return self.x_stream(e, op)
         if not t.isIntegral or not op.type.isIntegral:
             c = self.fold(e)
             if c is not None:
@@ -640,9 +642,105 @@ class Conv:
             a = self.add(["convert", self.types.vector(aw, ext_signed)] + sp + [a])
         return self.add(["convert", ti] + sp + [a])
 
+    def x_stream(self, e, op):
+        """A streaming concatenation assigned or cast to an integral type (IEEE 1800 11.4.14):
+        the operands' bits in order; for `<<` cut into slices of `sliceSize` bits from the right
+        and put in reverse order (`>>` keeps the stream); left-justified in a wider target and
+        zero-filled on the right (as slang evaluates it). A concatenation of part selects."""
+        c = self.fold(e)
+        if c is not None:
+            return c
+        ti = self.types.of(e.type)
+        w = e.type.bitWidth
+        sp = list(self.span(e))
+        parts = []
+        for st in op.streams:
+            o = st.operand
+            if st.withExpr is not None or o.kind == EK.Streaming or not o.type.isIntegral:
+                raise Unsupported("uses a streaming concatenation with a nested stream, a `with` range "
+                                  "or a value that is not a packed vector")
+            if o.type.bitWidth > 0:
+                parts.append(self.expr(o))
+        sw = sum(self.wsig(x)[0] for x in parts)
+        if not parts or sw > w:
+            raise Unsupported("uses a streaming concatenation wider than its target")
+        flat = self.types.vector(sw, False)
+        stream = parts[0] if len(parts) == 1 else self.add(["concat", flat] + sp + [parts])
+        n = op.sliceSize
+        if 0 < n < sw:
+            # `<<`: slices of n bits from the least significant end (a shorter one left over at
+            # the most significant end), the least significant slice first.
+            slices = []
+            for lo in range(0, sw, n):
+                hi = min(lo + n, sw) - 1
+                slices.append(self.add(["range", self.types.vector(hi - lo + 1, False)] + sp +
+                                       [stream, hi, lo, sw - 1, 0]))
+            stream = self.add(["concat", flat] + sp + [slices])
+        if w > sw:
+            stream = self.add(["concat", self.types.vector(w, False)] + sp +
+                              [[stream, self.const("0" * (w - sw), False, e)]])
+        return self.add(["convert", ti] + sp + [stream])
+
+    def ones(self, e, arg):
+        """Per bit of `arg`, least significant first, a 1-bit node that is 1 where the bit is 1:
+        `arg[i] === 1'b1`, so an x or z bit counts as not 1, as the system functions on bit
+        counts say (IEEE 1800 20.9); the nodes are never x."""
+        v = self.expr(arg)
+        w = self.wsig(v)[0]
+        sp = list(self.span(e))
+        bit = self.types.vector(1, False)
+        one = self.const("1", False, e)
+        return [self.add(["binary", bit] + sp + ["===", self.add(["range", bit] + sp + [v, i, i, w - 1, 0]), one])
+                for i in range(w)], sp, bit
+
+    def count_ones(self, e, arg):
+        """`$countones(v)`: the sum of v's ones in just enough bits, zero-extended to int."""
+        ts, sp, bit = self.ones(e, arg)
+        m = len(ts).bit_length()
+        it = self.types.vector(m, False)
+        terms = [self.add(["convert", it] + sp + [t]) for t in ts]
+        while len(terms) > 1:
+            nxt = [self.add(["binary", it] + sp + ["+", terms[i], terms[i + 1]])
+                   for i in range(0, len(terms) - 1, 2)]
+            if len(terms) % 2:
+                nxt.append(terms[-1])
+            terms = nxt
+        return self.add(["convert", self.types.vector(32, True)] + sp + [terms[0]])
+
+    def one_hot(self, e, arg, zero_ok):
+        """`$onehot(v)` (exactly one bit is 1) or `$onehot0(v)` (at most one), as gates: a bit
+        that is 1 while a lower one was already 1 is a conflict."""
+        ts, sp, bit = self.ones(e, arg)
+        seen, conflict = ts[0], None
+        for t in ts[1:]:
+            c = self.add(["binary", bit] + sp + ["&", t, seen])
+            conflict = c if conflict is None else self.add(["binary", bit] + sp + ["|", conflict, c])
+            seen = self.add(["binary", bit] + sp + ["|", seen, t])
+        if conflict is None:
+            return self.const("1", False, e) if zero_ok else seen
+        ok = self.add(["unary", bit] + sp + ["~", conflict])
+        return ok if zero_ok else self.add(["binary", bit] + sp + ["&", seen, ok])
+
     def x_call(self, e):
         if e.isSystemCall:
             name = e.subroutineName
+            if name in ("$countones", "$onehot", "$onehot0") and len(e.arguments) == 1 \
+                    and e.arguments[0].type.isIntegral and e.arguments[0].type.bitWidth > 0:
+                c = self.fold(e)
+                if c is not None:
+                    return c
+                ti = self.type_of(e)
+                w, s = self.types.width_signed(ti)
+                sp = list(self.span(e))
+                if name == "$countones":
+                    n = self.count_ones(e, e.arguments[0])
+                    if (w, s) == (32, True):
+                        return n
+                else:
+                    n = self.one_hot(e, e.arguments[0], name == "$onehot0")
+                    if (w, s) == (1, False):
+                        return n
+                return self.add(["convert", ti] + sp + [n])
             if name in ("$signed", "$unsigned"):
                 args = e.arguments
                 ti = self.type_of(e)
@@ -834,6 +932,8 @@ class Conv:
                                                             sel, items, dflt, self.d.case_attributes(s)])
         if k == STK.ForLoop:
             return self.for_loop(s)
+        if k == STK.ForeachLoop:
+            return self.foreach_loop(s)
         if k == STK.Invalid:
             raise Unsupported("contains a statement slang could not bind")
         raise Unsupported("contains %s" % _STMT_REASON.get(k, "a %s statement" % k.name))
@@ -923,6 +1023,39 @@ class Conv:
             for sym in pushed:
                 del self.loop_syms[sym]
         return self.add_stmt(["for"] + self.sspan(s) + [init, cond, step, body])
+
+
+    def foreach_loop(self, s):
+        """`foreach (a[i, j])` over fixed-size dimensions: nested for loops, each running its
+        variable from the dimension's left bound to its right bound (IEEE 1800 12.7.3)."""
+        dims = []
+        for d in s.loopDims:
+            if d.loopVar is None:
+                continue
+            if d.range is None:
+                raise Unsupported("has a foreach loop over a dimension that is not of fixed size")
+            dims.append((d.loopVar, d.range.left, d.range.right))
+        if not dims:
+            raise Unsupported("has a foreach loop without a loop variable")
+        loops = [(self.add_local(v)[1], v, l, r) for v, l, r in dims]
+        tail, self.tail = self.tail, False
+        body = self.stmt_or_empty(s.body)
+        self.tail = tail
+        sp = self.sspan(s)
+        bit = self.types.vector(1, False)
+        for idx, v, l, r in reversed(loops):
+            ti = self.types.of(v.type)
+            w, sg = self.types.width_signed(ti)
+            if w < 32 or not sg:
+                raise Unsupported("has a foreach loop variable of type '%s'" % v.type)
+            def k(n):
+                return self.const(format(n & ((1 << w) - 1), "0%db" % w), True)
+            ref = self.ref(s, ti, idx)
+            cond = self.add(["binary", bit] + sp + ["<=" if l <= r else ">=", ref, k(r)])
+            nxt = self.add(["binary", ti] + sp + ["+" if l <= r else "-", ref, k(1)])
+            step = self.add_stmt(["assign"] + sp + [ref, nxt])
+            body = self.add_stmt(["for"] + sp + [[[idx, k(l)]], cond, [step], body])
+        return body
 
 
 def _text(e):
