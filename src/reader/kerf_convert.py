@@ -204,6 +204,9 @@ class Conv:
         self.depth = 0
         self.function = None      # the function's return variable (symbol index) in function mode
         self.tail = False         # the statement being converted is the last one on its path
+        # Early exits written as flags (1-bit locals): the innermost loop's `break` and
+        # `continue`, and a function's `return` before its end (symbol indices, or None).
+        self.flags = {"break": None, "continue": None, "return": None}
 
     def drop(self):
         """Forget every node this member added (it is kept after all). Nodes of functions
@@ -864,14 +867,23 @@ class Conv:
     def stmt(self, s):
         k = s.kind
         if k == STK.Return and self.function is not None:
-            # `return e;` as the last statement on its path: the result is e.
-            if not self.tail:
+            # `return e;` as the last statement on its path: the result is e. Before the end,
+            # the return flag is set too, and what follows runs only while it is clear.
+            if not self.tail and self.flags["return"] is None:
                 raise Unsupported("returns from the middle of the function")
             if s.expr is None:
                 raise Unsupported("returns without a value")
             ti, idx = self.function
             lhs = self.leaf(("r", ti, idx), ["ref", ti, -1, -1, idx])
-            return self.add_stmt(["assign"] + self.sspan(s) + [lhs, self.expr(s.expr)])
+            a = self.add_stmt(["assign"] + self.sspan(s) + [lhs, self.expr(s.expr)])
+            if self.flags["return"] is None:
+                return a
+            return self.add_stmt(["block"] + self.sspan(s) + [[a, self.set_flag(self.flags["return"], 1, s)]])
+        if k in (STK.Break, STK.Continue):
+            f = self.flags["break" if k == STK.Break else "continue"]
+            if f is None:
+                raise Unsupported("contains %s" % _STMT_REASON[k])
+            return self.set_flag(f, 1, s)
         if k == STK.Block:
             if s.blockKind != ast.StatementBlockKind.Sequential:
                 raise Unsupported("contains a fork-join block")
@@ -943,16 +955,90 @@ class Conv:
         return r if r is not None else self.add_stmt(["empty"] + self.sspan(s))
 
     def block(self, s, where):
-        items = []
         lst = list(s.list) if s.kind == STK.List else [s]
+        return self.block_items(lst, where)
+
+    def block_items(self, lst, where):
+        items = []
         tail = self.tail
         for i, x in enumerate(lst):
             self.tail = tail and i == len(lst) - 1
             r = self.stmt(x)
             if r is not None:
                 items.append(r)
+            if i + 1 < len(lst) and self.may_exit(x):
+                # What follows an early exit runs only while no exit flag is set.
+                self.tail = tail
+                rest = self.block_items(lst[i + 1:], where)
+                items.append(self.add_stmt(["if"] + self.sspan(where) + [self.no_exit(where), rest, -1, "none"]))
+                break
         self.tail = tail
         return self.add_stmt(["block"] + self.sspan(where) + [items])
+
+    # -- early exits ---------------------------------------------------------------------
+
+    def new_flag(self, name, where):
+        """A 1-bit local of the member (or function) holding an early exit."""
+        idx = self.t.new_symbol()
+        base, n = "%s@exit" % name, 1
+        fname = base
+        while fname in self.local_names:
+            fname = "%s%d" % (base, n)
+            n += 1
+        self.local_names.add(fname)
+        src = self.d.src.range_src(where.sourceRange)[0]
+        self.local_list.append({"name": fname, "id": idx, "kind": "variable", "type": self.types.vector(1, False),
+                                "width": 1, "signed": False, "msb": 0, "lsb": 0, "port": False,
+                                "vector": False, "src": src, "decl": None})
+        return idx
+
+    def flag_ref(self, idx):
+        bit = self.types.vector(1, False)
+        return self.leaf(("r", bit, idx), ["ref", bit, -1, -1, idx])
+
+    def set_flag(self, idx, v, where):
+        return self.add_stmt(["assign"] + self.sspan(where) + [self.flag_ref(idx), self.const(str(v), False)])
+
+    def no_exit(self, where):
+        """1 while none of the active exit flags is set."""
+        bit = self.types.vector(1, False)
+        sp = list(self.sspan(where))
+        refs = [self.flag_ref(f) for f in self.flags.values() if f is not None]
+        acc = refs[0]
+        for r in refs[1:]:
+            acc = self.add(["binary", bit] + sp + ["|", acc, r])
+        return self.add(["unary", bit] + sp + ["~", acc])
+
+    def may_exit(self, s):
+        """Statement s contains a `break`/`continue` of the loop being converted (one not inside a
+        nested loop) or a `return`, while the flag for it is active."""
+        want_loop = self.flags["break"] is not None or self.flags["continue"] is not None
+        want_ret = self.flags["return"] is not None
+        if not want_loop and not want_ret:
+            return False
+        return _contains_exit(s, want_loop, want_ret)
+
+    def loop_body(self, s, body_stmt):
+        """Convert a loop body with flags for its own `break`/`continue` when it has them: returns
+        (statements to put before the loop, the body). The body runs only while no exit flag is
+        set; `continue` is cleared at the start of every iteration."""
+        saved = dict(self.flags)
+        has_b = _contains_exit(body_stmt, True, False, kinds=(STK.Break,))
+        has_c = _contains_exit(body_stmt, True, False, kinds=(STK.Continue,))
+        self.flags["break"] = self.new_flag("break", s) if has_b else None
+        self.flags["continue"] = self.new_flag("continue", s) if has_c else None
+        try:
+            before = [self.set_flag(self.flags["break"], 0, s)] if has_b else []
+            body = self.stmt_or_empty(body_stmt)
+            items = [self.set_flag(self.flags["continue"], 0, s)] if has_c else []
+            if has_b or self.flags["return"] is not None:
+                self.flags["continue"] = None    # cleared here; only break/return guard the body
+                body = self.add_stmt(["if"] + self.sspan(s) + [self.no_exit(s), body, -1, "none"])
+            if items:
+                body = self.add_stmt(["block"] + self.sspan(s) + [items + [body]])
+            return before, body
+        finally:
+            self.flags = saved
 
     def expr_stmt(self, x, s):
         k = x.kind
@@ -1017,12 +1103,13 @@ class Conv:
             cond = self.expr(s.stopExpr)
             step = [self.expr_stmt(x, None) for x in s.steps]
             tail, self.tail = self.tail, False
-            body = self.stmt_or_empty(s.body)
+            before, body = self.loop_body(s, s.body)
             self.tail = tail
         finally:
             for sym in pushed:
                 del self.loop_syms[sym]
-        return self.add_stmt(["for"] + self.sspan(s) + [init, cond, step, body])
+        loop = self.add_stmt(["for"] + self.sspan(s) + [init, cond, step, body])
+        return self.add_stmt(["block"] + self.sspan(s) + [before + [loop]]) if before else loop
 
 
     def foreach_loop(self, s):
@@ -1039,7 +1126,7 @@ class Conv:
             raise Unsupported("has a foreach loop without a loop variable")
         loops = [(self.add_local(v)[1], v, l, r) for v, l, r in dims]
         tail, self.tail = self.tail, False
-        body = self.stmt_or_empty(s.body)
+        before, body = self.loop_body(s, s.body)
         self.tail = tail
         sp = self.sspan(s)
         bit = self.types.vector(1, False)
@@ -1055,7 +1142,37 @@ class Conv:
             nxt = self.add(["binary", ti] + sp + ["+" if l <= r else "-", ref, k(1)])
             step = self.add_stmt(["assign"] + sp + [ref, nxt])
             body = self.add_stmt(["for"] + sp + [[[idx, k(l)]], cond, [step], body])
-        return body
+        return self.add_stmt(["block"] + sp + [before + [body]]) if before else body
+
+
+def _contains_exit(s, loop, ret, kinds=(STK.Break, STK.Continue)):
+    """Statement s contains (`loop`) a break/continue of one of `kinds` outside any loop nested
+    in s, or (`ret`) a return anywhere."""
+    work = [(s, True)]
+    while work:
+        x, outer = work.pop()
+        if x is None:
+            continue
+        k = x.kind
+        if k == STK.Return and ret:
+            return True
+        if k in kinds and loop and outer:
+            return True
+        if k == STK.Block:
+            work.append((x.body, outer))
+        elif k == STK.List:
+            work.extend((y, outer) for y in x.list)
+        elif k == STK.Conditional:
+            work.append((x.ifTrue, outer))
+            work.append((x.ifFalse, outer))
+        elif k == STK.Case:
+            work.extend((g.stmt, outer) for g in x.items)
+            work.append((x.defaultCase, outer))
+        elif k in (STK.ForLoop, STK.ForeachLoop):
+            work.append((x.body, False))
+        elif k == STK.Timed:
+            work.append((x.stmt, outer))
+    return False
 
 
 def _text(e):

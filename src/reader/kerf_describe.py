@@ -764,7 +764,21 @@ class Describer:
             _, ridx = c.add_local(res)
             c.function = (self.types.of(res.type), ridx)
             c.tail = True
+            pre = []
+            if _early_return(sub.body, True):
+                # A return before the end: a flag, clear at the start, guards what follows.
+                c.flags["return"] = c.new_flag("return", syn)
+                pre = [c.set_flag(c.flags["return"], 0, syn)]
+                if _ends_in_return(sub.body):
+                    # Every path assigns the result (an early return or the last one), so a
+                    # start value is never seen; without it the result would look x until then.
+                    rti = self.types.of(res.type)
+                    w = self.types.width_signed(rti)[0]
+                    pre.append(c.add_stmt(["assign"] + c.sspan(syn) + [c.leaf(("r", rti, ridx), ["ref", rti, -1, -1, ridx]),
+                                                                     c.const_of_type("0" * w, rti, syn)]))
             b = c.stmt_or_empty(sub.body)
+            if pre:
+                b = c.add_stmt(["block"] + c.sspan(sub.body) + [pre + [b]])
             if c.st[b][0] != "block":
                 b = c.add_stmt(["block"] + c.sspan(sub.body) + [[b]])
             if c.writes:
@@ -1074,6 +1088,38 @@ class Describer:
                      "mentions": sorted(set(m["reads"]) | set(m["writes"])), "may_be_x": True}
             out.append(m)
         return out
+
+
+def _early_return(s, tail):
+    """A `return` that is not the last statement on its path (as Conv.block counts the tail)."""
+    if s is None:
+        return False
+    k = s.kind
+    if k == STK.Return:
+        return not tail
+    if k == STK.Block:
+        return _early_return(s.body, tail)
+    if k == STK.List:
+        lst = list(s.list)
+        return any(_early_return(x, tail and i == len(lst) - 1) for i, x in enumerate(lst))
+    if k == STK.Conditional:
+        return _early_return(s.ifTrue, tail) or _early_return(s.ifFalse, tail)
+    if k == STK.Case:
+        return any(_early_return(g.stmt, tail) for g in s.items) or _early_return(s.defaultCase, tail)
+    if k in (STK.ForLoop, STK.ForeachLoop):
+        return _early_return(s.body, False)
+    return False
+
+
+def _ends_in_return(s):
+    """The last statement of a function body is `return e;`."""
+    while s is not None and s.kind in (STK.Block, STK.List):
+        if s.kind == STK.Block:
+            s = s.body
+        else:
+            lst = list(s.list)
+            s = lst[-1] if lst else None
+    return s is not None and s.kind == STK.Return and s.expr is not None
 
 
 def _merge_ranges(rs):
