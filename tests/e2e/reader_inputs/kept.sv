@@ -34,7 +34,7 @@ module timer #(parameter int N = 4, parameter bit USE_FAST = 0) (
   end
   always_comb tick_f = chain(count);
   always_comb nb <= enable;
-  assign ones = $countones(load);
+  assign ones = {2'b00, $isunknown(load)};
   `TICK_ASSIGN
   (* keep *) assign attr_y = enable;
   always_comb begin
