@@ -68,8 +68,19 @@ public:
 
     Literal andN(Lits in);
     Literal orN(Lits in);
-    Literal and2(Literal a, Literal b) { return andN({a, b}); }
-    Literal or2(Literal a, Literal b) { return orN({a, b}); }
+    // Constants answer at once: constant arithmetic (loop indices) makes most of these calls.
+    Literal and2(Literal a, Literal b) {
+        if (a == kFalse || b == kFalse) return kFalse;
+        if (a == kTrue) return b;
+        if (b == kTrue) return a;
+        return andN({a, b});
+    }
+    Literal or2(Literal a, Literal b) {
+        if (a == kTrue || b == kTrue) return kTrue;
+        if (a == kFalse) return b;
+        if (b == kFalse) return a;
+        return orN({a, b});
+    }
     Literal xor2(Literal a, Literal b);
     Literal mux(Literal s, Literal t, Literal e);
 
