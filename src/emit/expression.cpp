@@ -135,20 +135,56 @@ std::string sliceText(const VarRef& r, int loOff, int hiOff) {
     return fmt::format("{}[{}:{}]", base, indexOf(r, hiOff), indexOf(r, loOff));
 }
 
-/// A whole enum-typed signal compared with one of its values: the value's name, as the
-/// source refers to it (`state_q == ST_IDLE`, IEEE 1800-2017 6.19), never a raw code.
-std::optional<std::string> constantName(const VarRef& r, int loOff, int hiOff, const std::vector<int>& bitsMsbFirst) {
-    if (!r.module || loOff != 0 || hiOff != r.width - 1) return std::nullopt;
-    auto it = r.module->signals.find(r.signal);
-    if (it == r.module->signals.end()) return std::nullopt;
-    const auto& types = r.module->ir.types;
+/// The name of the value bits `lo..hi` of `r` are compared with, as the source names it:
+/// a whole enum-typed signal by the value's name (`state_q == ST_IDLE`, IEEE 1800-2017 6.19);
+/// bits the source compared with a localparam or package constant by that constant
+/// (`cmd == CMD_RD`, `addr[15:12] == BASE[15:12]` where the source compared `BASE[15:8]`).
+/// `constant` is set to the latter's index.
+std::optional<std::string> constantName(const VarRef& r, int loOff, int hiOff, const std::vector<int>& bitsMsbFirst,
+                                        int& constant) {
+    constant = -1;
+    if (!r.module) return std::nullopt;
+    const frontend::ModuleDesc& m = *r.module;
+    auto it = m.signals.find(r.signal);
+    if (it == m.signals.end()) return std::nullopt;
+    const auto& types = m.ir.types;
     frontend::TypeId t = it->second.type;
-    if (t == frontend::kNoId || t >= types.size() || types[t].kind != frontend::TypeKind::Enum) return std::nullopt;
-    std::string bits;
-    for (int b : bitsMsbFirst) bits += b ? '1' : '0';
-    for (const auto& v : types[t].values)
-        if (v.bits == bits && !v.ref.empty()) return v.ref;
-    return std::nullopt;
+    if (loOff == 0 && hiOff == r.width - 1 && t != frontend::kNoId && t < types.size() &&
+        types[t].kind == frontend::TypeKind::Enum) {
+        std::string bits;
+        for (int b : bitsMsbFirst) bits += b ? '1' : '0';
+        for (const auto& v : types[t].values)
+            if (v.bits == bits && !v.ref.empty()) return v.ref;
+        return std::nullopt;
+    }
+    int len = hiOff - loOff + 1;
+    std::optional<std::string> sliced;
+    int slicedIndex = -1;
+    for (std::size_t ci = 0; ci < m.constants.size(); ++ci) {
+        const auto& c = m.constants[ci];
+        for (const auto& k : c.compared) {
+            if (k.signal != r.signal || loOff < k.lo || hiOff > k.hi) continue;
+            int clo = k.constLo + (loOff - k.lo);
+            bool same = true;
+            for (int j = 0; j < len && same; ++j)
+                same = (bitsMsbFirst[static_cast<std::size_t>(len - 1 - j)] != 0) == c.bit(clo + j);
+            if (!same) continue;
+            if (clo == 0 && len == c.width()) {
+                constant = static_cast<int>(ci);
+                return c.ref;
+            }
+            // A part of the constant only where the source compared a part of it
+            // (`addr[15:8] == BASE[15:8]`): `st[1:0] == IDLE[1:0]` would misread a whole-value test.
+            bool partial = k.constLo != 0 || k.hi - k.lo + 1 != c.width();
+            if (!sliced && partial && c.sliceable && c.msb >= c.lsb) {
+                int ilo = c.lsb + clo, ihi = c.lsb + clo + len - 1;
+                sliced = len == 1 ? fmt::format("{}[{}]", c.ref, ilo) : fmt::format("{}[{}:{}]", c.ref, ihi, ilo);
+                slicedIndex = static_cast<int>(ci);
+            }
+        }
+    }
+    constant = slicedIndex;
+    return sliced;
 }
 
 } // namespace
@@ -377,7 +413,7 @@ void ExprBuilder::groupSlices(PExpr& e) {
                 PExpr c;
                 c.kind = PExpr::Kind::Compare;
                 c.text = fmt::format("{} {} {}", sliceText(r0, lo, hi), isAnd ? "==" : "!=",
-                                     constantName(r0, lo, hi, bits).value_or(constText(static_cast<int>(len), bits)));
+                                     constantName(r0, lo, hi, bits, c.constant).value_or(constText(static_cast<int>(len), bits)));
                 c.rank = e.kids[idx[s]].rank;
                 std::size_t first = idx[s];
                 for (std::size_t q = s; q <= t; ++q) {
@@ -409,6 +445,11 @@ void ExprBuilder::groupSlices(PExpr& e) {
         }
         e = std::move(only);
     }
+}
+
+void collectConstants(const PExpr& e, std::set<int>& out) {
+    if (e.constant >= 0) out.insert(e.constant);
+    for (const auto& k : e.kids) collectConstants(k, out);
 }
 
 // ---------------------------------------------------------------- text

@@ -16,6 +16,7 @@ struct ModuleDesc;
 
 #include <cstdint>
 #include <optional>
+#include <set>
 #include <span>
 #include <string>
 #include <unordered_map>
@@ -44,6 +45,7 @@ struct PExpr {
     bool neg = false;            ///< printed with `~` in front
     std::string text;            ///< Ref: the reference; Compare: the whole comparison
     const VarRef* ref = nullptr; ///< Ref: what it names
+    int constant = -1;           ///< Compare: the named constant it names (ModuleDesc::constants)
     int rank = 0;
     std::vector<PExpr> kids;     ///< And/Or/Xor operands; Mux: select, then, else
 
@@ -77,6 +79,9 @@ private:
     const std::vector<algebra::Factored>& forms_;
     std::unordered_map<const algebra::Factored*, int> memo_[2];
 };
+
+/// Adds to `out` the named constants (ModuleDesc::constants indices) that `e` names.
+void collectConstants(const PExpr& e, std::set<int>& out);
 
 /// Flat text of an expression (no line breaks).
 std::string flatText(const PExpr& e);

@@ -83,7 +83,13 @@ void setHeader(WriteResult& r, const std::string& line) {
     if (r.headerLen == 0) return;
     std::size_t start = r.text.find("//", r.headerPos);
     std::string text = "// kerf: " + line;
-    if (!r.unusedWire.empty()) text += "; bits no longer read: see " + r.unusedWire;
+    if (!r.unusedWire.empty()) {
+        std::string more = "bits no longer read: see " + r.unusedWire;
+        std::string indent = r.text.substr(r.headerPos, start - r.headerPos);
+        // Within 100 columns: the note goes on a comment line of its own when the figures are long.
+        if (indent.size() + text.size() + 2 + more.size() > 100) text += ";" + r.newline + indent + "// " + more;
+        else text += "; " + more;
+    }
     r.text.replace(start, r.headerPos + r.headerLen - start, text);
     r.headerLen = start - r.headerPos + text.size();
 }
@@ -249,6 +255,7 @@ private:
     std::vector<int> aliasOf_;                 ///< per input variable: the output that lends it a name
     const std::vector<Factored>* origForms_ = nullptr;
     int notReadWidth_ = 0;                     ///< total width of unreadBits()
+    mutable std::set<int> constantsNamed_;     ///< named constants the written statements name
     std::map<std::string, std::string> sameAs_; ///< result of a repeated word operation -> the first one's
     std::map<std::string, std::string> resultName_;   ///< word result -> the author's signal that is exactly it
     std::map<std::string, std::string> inlined_;      ///< generated operand -> its inline concatenation
@@ -1157,6 +1164,7 @@ PExpr Writer::outputExpr(std::size_t i) {
 std::string Writer::statement(const std::string& ind, const std::string& lead, const PExpr& e) const {
     std::size_t col = ind.size() + lead.size();
     std::string body = layoutText(e, col, opts_.lineLimit, 1);
+    collectConstants(e, constantsNamed_);
     // Continuation lines are padded with spaces; keep the statement's own indentation characters.
     std::string out = lead;
     std::size_t pos = 0;
@@ -1337,7 +1345,11 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         auto idx = bySignal[s];
         std::sort(idx.begin(), idx.end(), [&](std::size_t a, std::size_t b) { return outs_[a].bit.offset > outs_[b].bit.offset; });
         std::string cat = " = {";
-        for (std::size_t q = 0; q < idx.size(); ++q) cat += (q ? ", " : "") + flatText(outputExpr(idx[q]));
+        for (std::size_t q = 0; q < idx.size(); ++q) {
+            PExpr e = outputExpr(idx[q]);
+            collectConstants(e, constantsNamed_);
+            cat += (q ? ", " : "") + flatText(e);
+        }
         return cat + "}";
     }
     std::string out;
@@ -1630,6 +1642,25 @@ WriteResult Writer::run() {
     // Bits the function no longer depends on: read by one wire named *unused* just before
     // `endmodule`, so that lint reports no unused signal the original did not have.
     res.notRead = unreadBits();
+    // Named constants only the replaced statements named and the new text does not: read by
+    // the same wire, so that lint reports no unused parameter the original did not have.
+    {
+        std::set<int> replacedNamed, keptNamed;
+        std::set<int> replacedIds;
+        for (std::size_t g = 0; g < groups_.size(); ++g)
+            if (groups_[g].replaced)
+                for (int st : groupStmts_[g])
+                    for (int mid : membersOfStmt_.at(st)) replacedIds.insert(mid);
+        for (const auto& mem : m_.members)
+            (replacedIds.count(mem.id) ? replacedNamed : keptNamed).insert(mem.constants.begin(), mem.constants.end());
+        for (int c : replacedNamed) {
+            const auto& nc = m_.constants[static_cast<std::size_t>(c)];
+            if (keptNamed.count(c) || nc.elsewhere || constantsNamed_.count(c)) continue;
+            res.constantsNotNamed.push_back(nc.ref);
+            res.notRead.push_back(nc.ref);
+            notReadWidth_ += nc.width();
+        }
+    }
     if (!res.notRead.empty()) {
         std::size_t endAt = src_.rfind("endmodule", m_.src.end);
         if (endAt == std::string::npos || endAt < m_.src.start)
@@ -1645,6 +1676,8 @@ WriteResult Writer::run() {
         if (ind.empty()) ind = "  ";
         std::string block = ind + "// kerf: the restructured logic does not depend on these bits; they are read here so\n" +
                             ind + "// that lint reports no unused signal (a name containing 'unused': common practice)\n" +
+                            (res.constantsNotNamed.empty() ? std::string()
+                                                           : ind + "// (named constants it no longer compares with are read here too)\n") +
                             ind + (notReadWidth_ == 1 ? fmt::format("wire {} = {};\n", name, cat)
                                                      : fmt::format("wire [{}:0] {} = {};\n", notReadWidth_ - 1, name, cat));
         edits.push_back({lineStart(src_, endAt), lineStart(src_, endAt), block});

@@ -682,6 +682,37 @@ void DescriptionBuilder::parseParameters(const json& root) {
             m.parameters.push_back(std::move(p));
         }
     }
+    if (root.contains("constants")) {
+        const json& cs = root["constants"];
+        if (!cs.is_array()) invalid("'constants' is not a list");
+        for (const auto& cj : cs) {
+            if (!cj.is_object()) invalid("a named constant is not an object");
+            NamedConstant c;
+            c.name = str(cj, "name", "a named constant");
+            std::string where = "named constant '" + c.name + "'";
+            c.ref = str(cj, "ref", where);
+            c.bits = str(cj, "bits", where);
+            if (c.bits.empty() || c.bits.find_first_not_of("01") != std::string::npos) invalid(where + ": its bits are not 0/1");
+            c.msb = static_cast<int>(num(cj, "msb", where));
+            c.lsb = static_cast<int>(num(cj, "lsb", where));
+            c.sliceable = cj.value("sliceable", false);
+            c.elsewhere = cj.value("elsewhere", false);
+            if (cj.contains("compared")) {
+                const json& cmp = cj["compared"];
+                if (!cmp.is_array()) invalid(where + ": compared is not a list");
+                for (const auto& e : cmp) {
+                    if (!e.is_array() || e.size() != 4 || !e[0].is_string() || !e[1].is_number_integer() ||
+                        !e[2].is_number_integer() || !e[3].is_number_integer())
+                        invalid(where + ": a comparison is not [signal, lo, hi, constant lo]");
+                    NamedConstant::Compare k{e[0].get<std::string>(), e[1].get<int>(), e[2].get<int>(), e[3].get<int>()};
+                    if (k.lo < 0 || k.hi < k.lo || k.constLo < 0 || k.constLo + (k.hi - k.lo) >= c.width())
+                        invalid(where + ": a comparison outside the constant");
+                    c.compared.push_back(std::move(k));
+                }
+            }
+            m.constants.push_back(std::move(c));
+        }
+    }
     if (root.contains("port_members")) {
         const json& pm = root["port_members"];
         if (!pm.is_object()) invalid("'port_members' is not an object");
@@ -727,6 +758,14 @@ void DescriptionBuilder::parseMembers(const json& root) {
         mem.netDecl = mj.value("net_decl", false);
         if (mj.contains("match_key")) mem.matchKey = str(mj, "match_key", where);
         if (mj.contains("parameters")) mem.params = names(mj["parameters"], where + " parameters");
+        if (mj.contains("constants")) {
+            const json& cs = mj["constants"];
+            if (!cs.is_array()) invalid(where + ": constants are not a list");
+            for (const auto& c : cs) {
+                if (!c.is_number_integer()) invalid(where + ": a constant is not an index");
+                mem.constants.push_back(c.get<int>());
+            }
+        }
         if (mem.kind == MemberKind::Kept) {
             mem.what = str(mj, "what", where);
             mem.reason = str(mj, "reason", where);
@@ -1031,6 +1070,10 @@ void DescriptionBuilder::finish(const json& root) {
         if (s.type != kNoId && s.type >= m.ir.types.size()) invalid("signal '" + name + "' names an unknown type");
     parseMembers(root);
     parseParameters(root);
+    for (const auto& mem : m.members)
+        for (int c : mem.constants)
+            if (c < 0 || c >= static_cast<int>(m.constants.size()))
+                invalid(fmt::format("member {} names an unknown constant", mem.id));
     parseFunctions(root);
     validateExprs();
     validateStmts();

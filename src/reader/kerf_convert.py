@@ -42,6 +42,7 @@ _UNARY = {
     ast.UnaryOperator.BitwiseXnor: "~^",
     ast.UnaryOperator.LogicalNot: "!",
 }
+_EQUALITY = ("==", "!=", "===", "!==", "==?", "!=?")
 _INCDEC = {
     ast.UnaryOperator.Preincrement: "+",
     ast.UnaryOperator.Postincrement: "+",
@@ -408,6 +409,8 @@ class Conv:
     def x_binary(self, e):
         ti = self.type_of(e)
         op = _BINARY[e.op]
+        if op in _EQUALITY:
+            self.d.note_compare(e.left, e.right)
         l = self.expr(e.left)
         r = self.expr(e.right)
         if self.is_const(l) and self.is_const(r):
@@ -451,6 +454,7 @@ class Conv:
             else:
                 if not it.type.isIntegral:
                     raise Unsupported("uses inside with a value of type '%s'" % it.type)
+                self.d.note_compare(e.left, it)
                 v = self.expr(it)
                 consts = consts and self.is_const(v)
                 terms.append(self.add(["binary", bit] + sp + ["==?", left, v]))
@@ -935,6 +939,7 @@ class Conv:
                         exprs.append(self.add(["binary", bit] + sp + ["&&", ge, le]))
                         conds.append(1)
                     else:
+                        self.d.note_compare(s.expr, x)
                         exprs.append(self.expr(x))
                         conds.append(0)
                 body = self.stmt_or_empty(g.stmt)

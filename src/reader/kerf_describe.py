@@ -171,6 +171,93 @@ class Describer:
         self._decl_counts = {}
         self._next_token = {}    # start offset of a module member's syntax -> the token after it
         self._ctx = ast.EvalContext(self.body)
+        self.constants = []      # named constants the logic compares against or names (below)
+        self._const_ix = {}      # parameter symbol -> index in self.constants, or None
+        self._compared = set()
+
+    # -- named constants -------------------------------------------------------------
+    # A localparam or package constant the source compares a signal with (`cmd == CMD_RD`,
+    # `addr[15:8] == BASE[15:8]`, a case item): the writer names it where it writes that
+    # comparison, and lists the ones its rewrite no longer names (docs/reader-format.md).
+
+    def constant_index(self, sym):
+        """Index of a named constant the module can name (None for anything else)."""
+        if sym.kind != SK.Parameter:
+            return None
+        if sym in self._const_ix:
+            return self._const_ix[sym]
+        idx = None
+        t = sym.type
+        local = sym.isLocalParam or "::" in sym.hierarchicalPath
+        ref = self.types._qualified(sym.name, sym) if local else None
+        v = sym.value
+        sv = v.value if v is not None else None
+        if ref is not None and t.isIntegral and isinstance(sv, pyslang.SVInt):
+            w = t.bitWidth
+            bits = sv_bits(sv, w)
+            if "x" not in bits and "z" not in bits:
+                ct = t.canonicalType
+                msb, lsb, sliceable = w - 1, 0, False
+                if ct.kind == SK.PackedArrayType and ct.elementType.canonicalType.kind == SK.ScalarType:
+                    msb, lsb, sliceable = ct.range.left, ct.range.right, True
+                elif ct.kind == SK.PredefinedIntegerType:
+                    sliceable = True
+                idx = len(self.constants)
+                self.constants.append({"name": sym.name, "ref": ref, "bits": bits, "msb": msb, "lsb": lsb,
+                                       "sliceable": sliceable, "elsewhere": False, "compared": []})
+        self._const_ix[sym] = idx
+        return idx
+
+    def note_compare(self, x, c):
+        """`x` compared with `c` (both orders are tried): bits of a module signal against
+        bits of a named constant, aligned at their least significant bits."""
+        for a, b in ((x, c), (c, x)):
+            s = self.static_bits(a)
+            if s is None or s[1] is None:
+                continue
+            k = self.static_bits(b, self.constant_index)
+            if k is None or k[1] is None:
+                continue
+            n = min(s[2] - s[1], k[2] - k[1]) + 1
+            key = (s[0], s[1], s[1] + n - 1, k[0], k[1])
+            if key not in self._compared:
+                self._compared.add(key)
+                self.constants[k[0]]["compared"].append([s[0], s[1], s[1] + n - 1, k[1]])
+
+    def constants_named(self, sym):
+        """Counter of the named-constant symbols `sym`'s text refers to."""
+        out = Counter()
+
+        def cb(n):
+            if isinstance(n, ast.Expression) and n.kind == EK.NamedValue and n.symbol.kind == SK.Parameter:
+                out[n.symbol] += 1
+        sym.visit(cb)
+        return out
+
+    def finish_constants(self, members, named_by_src):
+        """Each member's list of named constants; a constant named outside the members (a
+        declaration, another constant) is marked `elsewhere`."""
+        total = self.constants_named(self.body)
+        in_members = Counter()
+        for key, c in named_by_src.items():
+            in_members.update(c)
+        def key(m):
+            s = m.get("src")
+            return (s["file"], s["start"], s["end"]) if s is not None else None
+        for m in members:
+            if m["kind"] == "kept":
+                continue
+            for sym in named_by_src.get(key(m), ()):
+                self.constant_index(sym)
+        for sym, n in total.items():
+            i = self._const_ix.get(sym)
+            if i is not None and n > in_members[sym]:
+                self.constants[i]["elsewhere"] = True
+        for m in members:
+            got = named_by_src.get(key(m), ())
+            ix = sorted({self._const_ix[s] for s in got if self._const_ix.get(s) is not None})
+            if ix:
+                m["constants"] = ix
 
     # -- sources -------------------------------------------------------------------
 
@@ -389,12 +476,13 @@ class Describer:
 
     # -- reads and writes of kept code ------------------------------------------
 
-    def static_bits(self, x):
+    def static_bits(self, x, base=None):
         """(name, lo, hi) of the bits a select chain names, offsets from the signal's LSB;
-        (name, None, None) when they are not known statically; None for no module signal."""
+        (name, None, None) when they are not known statically; None for no module signal.
+        `base` names the chain's root instead (a symbol -> key or None), e.g. for constants."""
         k = x.kind
         if k in (EK.NamedValue, EK.HierarchicalValue):
-            n = self.sig.get(x.symbol)
+            n = self.sig.get(x.symbol) if base is None else base(x.symbol)
             if n is None:
                 return None
             t = x.type
@@ -402,10 +490,10 @@ class Describer:
                 return n, None, None
             return n, 0, t.bitWidth - 1
         if k == EK.Conversion:
-            return self.static_bits(x.operand)
+            return self.static_bits(x.operand, base)
         if k not in (EK.ElementSelect, EK.RangeSelect, EK.MemberAccess):
             return None
-        inner = self.static_bits(x.value)
+        inner = self.static_bits(x.value, base)
         if inner is None or inner[1] is None:
             return inner
         name, plo, phi = inner
@@ -975,6 +1063,7 @@ class Describer:
         signals = [self.signal_entry(s, s in port_internal) for s in signal_syms]
 
         members = []
+        named_by_src = {}        # member's (file, start, end) -> named constants its text refers to
         for sym in members_syms:
             first = len(members)    # kerf_variants needs each member's symbol
             k = sym.kind
@@ -992,6 +1081,11 @@ class Describer:
                 members.append(self.other_member(sym))
             for m in members[first:]:
                 m["_sym"] = sym
+                if m["src"] is not None:
+                    key = (m["src"]["file"], m["src"]["start"], m["src"]["end"])
+                    named = self.constants_named(sym.initializer if k == SK.Net else sym)
+                    if named:
+                        named_by_src.setdefault(key, Counter()).update(named)
 
         # Parameters an instance may override and the preprocessor (kerf_variants.py).
         members = kerf_variants.restrict(self, members)
@@ -999,6 +1093,7 @@ class Describer:
         members = self.merge_statements(members)
         for i, m in enumerate(members):
             m["id"] = i
+        self.finish_constants(members, named_by_src)
 
         msyn = self.top.definition.syntax
         msrc = self.node_src(msyn) if msyn is not None else self.symbol_src(self.top)
@@ -1011,6 +1106,8 @@ class Describer:
                 "types": self.types.entries,
                 "ports": ports, "signals": signals, "members": members}
         kerf_variants.finish(self, members, desc)    # match keys, the parameters list
+        if self.constants:
+            desc["constants"] = self.constants
         desc["functions"] = self.tables.functions
         desc["exprs"] = self.tables.exprs
         desc["stmts"] = self.tables.stmts

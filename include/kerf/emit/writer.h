@@ -62,6 +62,9 @@ struct WriteResult {
     /// depend on them), as Verilog references; they are gathered in `unusedWire` so that lint
     /// does not report them (a signal named `*unused*`: common trade practice). Empty: none.
     std::vector<std::string> notRead;
+    /// Named constants (localparams, package constants) only the replaced statements named and
+    /// the new text does not; also read by `unusedWire` (and listed in `notRead`).
+    std::vector<std::string> constantsNotNamed;
     std::string unusedWire;
 };
 

@@ -103,6 +103,28 @@ struct Member {
     /// Overridable parameters the member's function depends on (src/reader/kerf_params.py);
     /// for a member kerf may restructure, all of them are pinned with --param.
     std::vector<std::string> params;
+    /// Named constants its text refers to (indices into ModuleDesc::constants).
+    std::vector<int> constants;
+};
+
+/// A localparam or package constant the logic names (src/reader/kerf_describe.py): the writer
+/// names it where it writes a comparison the source made with it (`cmd == CMD_RD`).
+struct NamedConstant {
+    std::string name;
+    std::string ref;           ///< text naming it from the module (`CMD_RD`, `pkg::CMD_RD`)
+    std::string bits;          ///< its value, most significant bit first (0/1 only)
+    int msb = 0, lsb = 0;      ///< its declared range
+    bool sliceable = false;    ///< a one-dimensional vector: `NAME[7:4]` is valid text
+    bool elsewhere = false;    ///< also named outside the members (declarations, constants)
+    /// Bits `lo..hi` (offsets) of `signal` compared with the constant's bits from `constLo` up.
+    struct Compare {
+        std::string signal;
+        int lo = 0, hi = 0, constLo = 0;
+    };
+    std::vector<Compare> compared;
+    int width() const { return static_cast<int>(bits.size()); }
+    /// Bit at offset `k` (0 = least significant).
+    bool bit(int k) const { return bits[bits.size() - 1 - static_cast<std::size_t>(k)] == '1'; }
 };
 
 /// A parameter of the module that an instance can override (src/reader/kerf_params.py).
@@ -125,6 +147,7 @@ struct ModuleDesc {
     std::map<std::string, Signal> signals;
     std::vector<Member> members;
     std::vector<Parameter> parameters;   ///< overridable parameters, declaration order
+    std::vector<NamedConstant> constants; ///< named constants the logic compares with or names
     std::vector<std::string> conditionals; ///< "file:line: `ifdef X" directives inside the module
     /// Leaf members of packed struct/union ports ("inner.a", bit offset from the LSB, width),
     /// most significant first; for counterexamples shown by member.

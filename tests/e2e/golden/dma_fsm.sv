@@ -24,26 +24,31 @@ module dma_fsm (
     else        state_q <= state_d;
   end
 
-  // kerf: 1 of 1 group rewritten, gates 68 -> 24, depth 6 -> 6, proved equivalent
+  // kerf: 1 of 1 group rewritten, gates 68 -> 24, depth 6 -> 6, proved equivalent;
+  // bits no longer read: see kf_unused
   wire state_q_1_0_is_00 = state_q[1:0] == 2'b00;
   wire nstate_q2_state_q0 = ~state_q[2] & state_q[0];
   wire req_t0 = nstate_q2_state_q0 & ~state_q[1];
   wire state_d0_t1 = req_t0 & ~cancel;
-  wire state_q_is_010 = state_q == 3'b010;
-  wire req_t1 = state_q_is_010 & ~err;
+  wire state_q_is_XFER = state_q == XFER;
+  wire req_t1 = state_q_is_XFER & ~err;
   wire state_d0_t0 = req_t1 & ~cancel;
   always_comb begin
     state_d[0] = (state_d0_t0 & last_beat)
                | (state_d0_t1 & ~grant)
                | (state_q_1_0_is_00 & start & ~state_q[2]);
     state_d[1] = state_d0_t0 | (state_d0_t1 & grant);
-    state_d[2] = err_irq | (state_q_is_010 & err);
+    state_d[2] = err_irq | (state_q_is_XFER & err);
   end
 
   always @(*) begin
     req = req_t0 | (req_t1 & ~last_beat);
-    busy = req_t0 | state_q_is_010;
+    busy = req_t0 | state_q_is_XFER;
     done_irq = nstate_q2_state_q0 & state_q[1];
     err_irq = state_q_1_0_is_00 & ~cancel & state_q[2];
   end
+  // kerf: the restructured logic does not depend on these bits; they are read here so
+  // that lint reports no unused signal (a name containing 'unused': common practice)
+  // (named constants it no longer compares with are read here too)
+  wire [8:0] kf_unused = {FAULT, DONE, ARB};
 endmodule
