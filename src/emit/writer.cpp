@@ -819,12 +819,51 @@ bool Writer::checkCycles() {
     const std::size_t S = stmts_.size();
     std::map<NodeId, std::size_t> wid;
     for (NodeId w : wires_) wid[w] = S + wid.size();
-    std::vector<std::vector<std::pair<std::size_t, std::string>>> adj(S + wires_.size());
+    // Word operations written in the word block are nodes too: reading a result reads the
+    // operation's operands (F26: a block reading `kf_w0 = {out1} >= {out1}` reads out1).
+    std::map<std::string, std::size_t> wordNode;   // result name as written -> node
+    std::vector<const frontend::WordOp*> wordOfNode;
+    for (const auto& w : low_.wordOps) {
+        if (sameAs_.count(w.result) || resultName_.count(w.result)) continue;
+        wordNode[w.result] = S + wires_.size() + wordOfNode.size();
+        wordOfNode.push_back(&w);
+    }
+    std::vector<std::vector<std::pair<std::size_t, std::string>>> adj(S + wires_.size() + wordOfNode.size());
     std::string selfRef;
     auto writerOf = [&](const std::string& name) -> long {
+        if (auto w = wordNode.find(name); w != wordNode.end()) return static_cast<long>(w->second);
         auto it = unitOfSignal_.find(name);
         return it == unitOfSignal_.end() ? -1 : static_cast<long>(idx.at(it->second));
     };
+    // What an operation reads: its named operands, and the names and wires its generated
+    // operands' logic reads. The operation's node is its result's (an author's signal that is
+    // exactly the result: that signal's statement).
+    for (const auto& w : low_.wordOps) {
+        if (sameAs_.count(w.result)) continue;
+        long from = resultName_.count(w.result) ? writerOf(resultName_.at(w.result)) : writerOf(w.result);
+        if (from < 0) continue;
+        auto edge = [&](const std::string& n) {
+            std::string name = n;
+            if (auto same = sameAs_.find(name); same != sameAs_.end()) name = same->second;
+            if (auto named = resultName_.find(name); named != resultName_.end()) name = named->second;
+            long t = writerOf(name);
+            if (t >= 0 && t != from) adj[static_cast<std::size_t>(from)].push_back({static_cast<std::size_t>(t), name});
+        };
+        for (const auto& o : w.operands) {
+            if (!o.generated) {
+                edge(o.name);
+                continue;
+            }
+            for (std::size_t i = 0; i < outs_.size(); ++i) {
+                if (!outs_[i].generated || outs_[i].bit.signal != o.name) continue;
+                NodeId v = literalVar(net_.outputs()[i].driver);
+                namesRead(i, edge);
+                coneOf(v, definer_[v] == static_cast<int>(i),
+                       [&](NodeId x) { adj[static_cast<std::size_t>(from)].push_back({wid.at(x), ""}); }, [](NodeId) {},
+                       [](const std::string&) {});
+            }
+        }
+    }
     for (std::size_t g = 0; g < groups_.size(); ++g) {
         for (int st : groupStmts_[g]) {
             std::size_t from = idx.at(st);
@@ -872,8 +911,15 @@ bool Writer::checkCycles() {
         for (const auto& [t, name] : adj[u]) {
             pathNames.push_back(name);
             if (state[t] == 1) {
+                // The latest name on the cycle whose statement kerf may still keep as written
+                // (a word operation's result is not one: the statement reading it is).
+                auto withdrawable = [&](const std::string& n) {
+                    for (std::size_t i = 0; i < outs_.size(); ++i)
+                        if (allowed_[i] && outs_[i].bit.signal == n) return true;
+                    return false;
+                };
                 for (auto it = pathNames.rbegin(); it != pathNames.rend(); ++it)
-                    if (!it->empty()) { culprit = *it; break; }
+                    if (!it->empty() && withdrawable(*it)) { culprit = *it; break; }
                 return true;
             }
             if (state[t] == 0 && dfs(t)) return true;
