@@ -169,6 +169,7 @@ SopCost sopCost(const Cover& cover, const std::vector<std::size_t>& arrivalByVar
 
 std::vector<std::size_t> arrivalTimes(const Network& net) {
     std::vector<std::size_t> at(net.nodeCount(), 0);
+    for (NodeId in : net.inputs()) at[in] = net.node(in).arrival;
     for (NodeId id : net.topoOrder()) at[id] = sopCost(net.node(id).cover, at).arrival;
     return at;
 }
@@ -178,6 +179,7 @@ Metrics measure(const Network& net) {
     m.inputs = net.inputs().size();
     m.outputs = net.outputs().size();
     std::vector<std::size_t> at(net.nodeCount(), 0);
+    for (NodeId in : net.inputs()) at[in] = net.node(in).arrival;
     for (NodeId id : net.topoOrder()) {
         const Cover& cv = net.node(id).cover;
         SopCost c = sopCost(cv, at);
@@ -186,7 +188,7 @@ Metrics measure(const Network& net) {
         m.gates += c.gates;
         for (const Cube& cube : cv.cubes) m.literals += cube.lits.size();
     }
-    for (const Output& o : net.outputs()) m.depth = std::max(m.depth, at[literalVar(o.driver)]);
+    for (const Output& o : net.outputs()) m.depth = std::max(m.depth, at[literalVar(o.driver)] + o.tail);
     return m;
 }
 

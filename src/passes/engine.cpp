@@ -33,6 +33,7 @@
 #include "kerf/diagnostics.h"
 #include "kerf/passes/shrink_nodes.h"
 #include "kerf/passes/tidy.h"
+#include "regions.h"
 
 #include <fmt/format.h>
 
@@ -108,6 +109,9 @@ const std::vector<LimitInfo>& limitTable() {
         field("kernels", "1: also extract common kernels (slower)", &EngineLimits::kernels),
         field("implied-dont-cares", "1: minimise nodes against implied don't-cares", &EngineLimits::impliedDontCares),
         field("factor-max-cubes", "covers with more cubes are written unfactored", &EngineLimits::factorMaxCubes, 1),
+        field("region-literals",
+              "networks of more than twice this many literals are restructured region by region (0: whole)",
+              &EngineLimits::regionLiterals),
         sub("minimise-exact-vars", "exact two-level minimum up to this many variables", &EngineLimits::minimize,
             &minimize::MinimizeOptions::exactVars),
         sub("minimise-table-vars", "truth-table minimisation up to this many variables (at most 16)",
@@ -130,6 +134,9 @@ const std::vector<LimitInfo>& limitTable() {
             &InlineOptions::maxFanouts),
         sub("dissolve-complement-cubes", "largest complement computed where a node is read inverted (bounds its work)",
             &EngineLimits::dissolve, &InlineOptions::complementCubeCap, 1),
+        sub("dissolve-revalue-cubes",
+            "fanins of a cover up to this many cubes are re-valued at once after a dissolve (wider: when next taken)",
+            &EngineLimits::dissolve, &InlineOptions::revalueMaxCubes),
         sub("cubes-min-literals", "smallest cube extracted", &EngineLimits::cubes, &ShareCubesOptions::minLiterals, 2),
         sub("cubes-partners", "cube pairs looked at per cube", &EngineLimits::cubes,
             &ShareCubesOptions::partnersPerCube, 1),
@@ -529,6 +536,7 @@ std::string describeLimits() {
 }
 
 EngineResult restructure(net::Network& net, const EngineOptions& opts) {
+    if (detail::useRegions(net, opts)) return detail::restructureByRegions(net, opts);
     const auto t0 = std::chrono::steady_clock::now();
     EngineResult res;
     FactorCache ownCache;
@@ -606,6 +614,7 @@ std::string formatEngineReport(const EngineResult& r) {
     s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", "(input)", r.before.gates, r.before.depth, r.before.literals);
     for (const MoveRow& m : r.moves)
         s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", m.technique, m.after.gates, m.after.depth, m.after.literals);
+    if (r.regions > 0) s += fmt::format("({} regions, restructured one by one; their moves not listed)\n", r.regions);
     s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", r.keptOriginal ? "(result: input kept)" : "(result)",
                      r.after.gates, r.after.depth, r.after.literals);
     s += fmt::format("\n{:<30} {:>6} {:>5} {:>11} {:>11} {:>8}\n", "technique", "trials", "kept", "gates saved",

@@ -227,7 +227,8 @@ Factored sopForm(const Cover& f) {
 
 namespace {
 
-FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& fc, bool keepForms) {
+FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& fc, bool keepForms,
+                            DepthSlack* slack = nullptr) {
     FactoredNetwork out;
     const std::vector<net::NodeId> order = net.topoOrder();
     const std::size_t n = net.nodeCount();
@@ -256,6 +257,7 @@ FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& 
     }
     // Phase 1: earliest-arriving forms.
     std::vector<std::size_t> atMin(n, 0);
+    for (net::NodeId in : net.inputs()) atMin[in] = net.node(in).arrival;
     std::vector<const Factored*> minForm(n, nullptr);
     for (net::NodeId v : order) {
         std::size_t bestA = SIZE_MAX, bestG = SIZE_MAX;
@@ -271,20 +273,26 @@ FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& 
         atMin[v] = bestA;
     }
     std::size_t dMin = 0;
-    for (const net::Output& o : net.outputs()) dMin = std::max(dMin, atMin[literalVar(o.driver)]);
+    for (const net::Output& o : net.outputs()) dMin = std::max(dMin, atMin[literalVar(o.driver)] + o.tail);
     const long cap = maxDepth < 0 ? static_cast<long>(dMin) : std::max<long>(maxDepth, static_cast<long>(dMin));
 
     // Required times through the earliest forms.
     std::vector<long> rt(n, LONG_MAX);
     for (const net::Output& o : net.outputs()) {
         auto v = literalVar(o.driver);
-        rt[v] = std::min(rt[v], cap);
+        rt[v] = std::min(rt[v], cap - static_cast<long>(o.tail));
     }
     for (auto it = order.rbegin(); it != order.rend(); ++it)
         if (rt[*it] != LONG_MAX) pushRequired(*minForm[*it], rt[*it], atMin, rt);
+    if (slack) {
+        slack->earliest = atMin;
+        slack->required = rt;
+        return out;
+    }
 
     // Phase 2: fewest gates meeting the required time.
     std::vector<std::size_t> at(n, 0);
+    for (net::NodeId in : net.inputs()) at[in] = net.node(in).arrival;
     for (net::NodeId v : order) {
         const Candidates& c = cand[v];
         const Factored* pick = nullptr;
@@ -312,7 +320,7 @@ FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& 
     out.metrics.inputs = net.inputs().size();
     out.metrics.outputs = net.outputs().size();
     for (const net::Output& o : net.outputs())
-        out.metrics.depth = std::max(out.metrics.depth, at[literalVar(o.driver)]);
+        out.metrics.depth = std::max(out.metrics.depth, at[literalVar(o.driver)] + o.tail);
     return out;
 }
 
@@ -326,6 +334,13 @@ FactoredNetwork factorNetwork(const net::Network& net, int maxDepth, FactorCache
 net::Metrics measureFactored(const net::Network& net, int maxDepth, FactorCache* cache) {
     FactorCache local;
     return chooseForms(net, maxDepth, cache ? *cache : local, false).metrics;
+}
+
+DepthSlack depthSlack(const net::Network& net, int maxDepth, FactorCache* cache) {
+    FactorCache local;
+    DepthSlack s;
+    chooseForms(net, maxDepth, cache ? *cache : local, false, &s);
+    return s;
 }
 
 } // namespace kerf::passes

@@ -99,21 +99,37 @@ void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx)
     ComplementCache cc(opts.complementCubeCap);
     using Item = std::pair<long, net::NodeId>;
     std::priority_queue<Item, std::vector<Item>, std::greater<>> heap;
+    // queued[v]: v has an entry in the heap. Nodes whose fanouts changed are
+    // queued at their last value (or the threshold) and valued when taken,
+    // not at once: a node read by a wide cover is touched by every node
+    // collapsed into that cover, and valuing it each time made the pass
+    // grow with the square of the cover's fanins.
+    std::vector<std::uint8_t> queued(net.nodeCount(), 0);
+    std::vector<long> lastValue(net.nodeCount(), opts.threshold);
+    long evaluations = 0;
     for (net::NodeId v : net.topoOrder()) {
         Evaluation e = evaluate(ws, v, opts, cc);
-        if (e.ok && e.value <= opts.threshold) heap.push({e.value, v});
+        ++evaluations;
+        if (e.ok && e.value <= opts.threshold) {
+            heap.push({e.value, v});
+            queued[v] = 1;
+            lastValue[v] = e.value;
+        }
     }
-    long collapsed = 0, rejected = 0, growth = 0, evaluations = 0;
+    long collapsed = 0, rejected = 0, growth = 0;
     std::vector<std::uint8_t> blocked(net.nodeCount(), 0);
     while (!heap.empty()) {
         auto [value, v] = heap.top();
         heap.pop();
+        if (v < queued.size()) queued[v] = 0;
         if (v < blocked.size() && blocked[v]) continue;
         Evaluation e = evaluate(ws, v, opts, cc);
         ++evaluations;
         if (!e.ok || e.value > opts.threshold) continue;
         if (e.value > value) {   // stale entry: requeue at its real value
             heap.push({e.value, v});
+            queued[v] = 1;
+            lastValue[v] = e.value;
             continue;
         }
         std::vector<net::NodeId> fo = ws.fanouts(v);
@@ -128,20 +144,38 @@ void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx)
         }
         ++collapsed;
         growth += e.value;
-        // Re-evaluate the fanouts and every fanin of theirs (their fanouts changed).
-        std::vector<net::NodeId> touch;
+        // Re-value the fanouts and every fanin of theirs (their fanouts
+        // changed): at once where the fanout's cover is small, when taken
+        // from the heap where it is wide (see `queued`).
+        std::vector<net::NodeId> touch, later;
         for (net::NodeId f : fo) {
             touch.push_back(f);
+            auto& to = ws.cover(f).cubes.size() <= opts.revalueMaxCubes ? touch : later;
             for (const Cube& c : ws.cover(f).cubes)
-                for (auto l : c.lits) touch.push_back(literalVar(l));
+                for (auto l : c.lits) to.push_back(literalVar(l));
         }
         std::sort(touch.begin(), touch.end());
         touch.erase(std::unique(touch.begin(), touch.end()), touch.end());
+        std::sort(later.begin(), later.end());
+        later.erase(std::unique(later.begin(), later.end()), later.end());
+        if (queued.size() < net.nodeCount()) {
+            queued.resize(net.nodeCount(), 0);
+            lastValue.resize(net.nodeCount(), opts.threshold);
+        }
         for (net::NodeId u : touch) {
             if (!ws.live(u) || (u < blocked.size() && blocked[u])) continue;
             Evaluation eu = evaluate(ws, u, opts, cc);
             ++evaluations;
-            if (eu.ok && eu.value <= opts.threshold) heap.push({eu.value, u});
+            if (eu.ok && eu.value <= opts.threshold) {
+                heap.push({eu.value, u});
+                queued[u] = 1;
+                lastValue[u] = eu.value;
+            }
+        }
+        for (net::NodeId u : later) {
+            if (!ws.live(u) || (u < blocked.size() && blocked[u]) || queued[u]) continue;
+            heap.push({std::min<long>(lastValue[u], opts.threshold), u});
+            queued[u] = 1;
         }
     }
     ctx.stats.add("collapsed", collapsed);

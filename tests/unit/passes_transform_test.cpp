@@ -90,6 +90,36 @@ TEST(PassesInline, CollapsesAndChainsIntoOneCube) {
     EXPECT_EQ(n.node(z).cover, cover({{pos(a), pos(b), pos(c), pos(d)}}));
 }
 
+TEST(PassesInline, WideCoversRevaluedLaterGiveTheSameCollapse) {
+    // A wide OR of 20 two-literal ANDs: its fanins are re-valued when taken
+    // (revalueMaxCubes below the width) or at once; both collapse every AND
+    // into the OR, keep the function and end with the same cover.
+    for (std::size_t revalue : {std::size_t{0}, std::size_t{64}}) {
+        Network n;
+        std::vector<NodeId> in;
+        for (int i = 0; i < 40; ++i) in.push_back(n.addInput("i" + std::to_string(i)));
+        std::vector<algebra::Cube> terms;
+        for (int k = 0; k < 20; ++k) {
+            NodeId t = n.addLogic(cover({{pos(in[2 * k]), neg(in[2 * k + 1])}}));
+            terms.push_back(algebra::Cube({pos(t)}));
+        }
+        Cover orCover;
+        orCover.cubes = terms;
+        orCover.normalize();
+        NodeId z = n.addLogic(std::move(orCover));
+        n.addOutput("z", pos(z));
+        Network before = n;
+        PassContext ctx;
+        InlineOptions o;
+        o.threshold = 0;
+        o.revalueMaxCubes = revalue;
+        inlineSmall(n, o, ctx);
+        EXPECT_EQ(sameFunctions(before, n), "") << revalue;
+        EXPECT_EQ(liveNodes(n), std::vector<NodeId>{z}) << revalue;
+        EXPECT_EQ(n.node(z).cover.cubes.size(), 20u) << revalue;
+    }
+}
+
 TEST(PassesInline, ComplementedReadersGetTheComplement) {
     // z = ~(a&b) & c  →  a'c + b'c
     Network n;

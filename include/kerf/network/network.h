@@ -38,12 +38,19 @@ struct Node {
     Cover cover;              ///< Logic only
     std::string name;         ///< Input: the bit name; Logic: optional hint for the writer
     SourceLoc loc;            ///< where the logic came from, when known
+    /// Input only: the time (depth) at which the bit arrives; 0 for a primary
+    /// input, later for a cut point of a region taken from a larger network.
+    std::uint32_t arrival = 0;
 };
 
 /// A primary output: a named bit driven by a literal.
 struct Output {
     std::string name;
     Literal driver = kFalse;
+    /// Depth that follows this output (0 for a primary output; a region's
+    /// output feeding deeper logic counts that logic). Depth figures count
+    /// arrival + tail.
+    std::uint32_t tail = 0;
 };
 
 // Don't-care conditions travel beside a network, never inside it, so that no
@@ -90,7 +97,7 @@ private:
 /// Size and depth figures, counted on each node's sum of products:
 /// a cube of k literals is k-1 two-input ANDs, a cover of m cubes adds m-1
 /// two-input ORs, inverters are free; depth balances each AND/OR tree by
-/// arrival time.
+/// arrival time (inputs arrive at their `arrival`, outputs add their `tail`).
 struct Metrics {
     std::size_t inputs = 0;
     std::size_t outputs = 0;

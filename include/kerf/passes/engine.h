@@ -62,6 +62,9 @@ struct EngineLimits {
     bool impliedDontCares = true;
     /// Covers of more cubes are written as plain sums of products, not factored.
     std::size_t factorMaxCubes = 1000;
+    /// Networks of more than twice this many literals are restructured region
+    /// by region, regions of about this many literals (0: always whole).
+    std::size_t regionLiterals = 20000;
     minimize::MinimizeOptions minimize;
     InlineOptions dissolve;
     ShareCubesOptions cubes;
@@ -121,6 +124,7 @@ struct EngineResult {
     bool keptOriginal = false;        ///< nothing better was found: the input is kept
     int depthCap = -1;                ///< the depth bound the forms were chosen under
     FactoredNetwork forms;            ///< the chosen factored form of every node (what the writer prints)
+    int regions = 0;                  ///< regions restructured one by one (0: the whole network at once)
     double seconds = 0;
 };
 

@@ -53,6 +53,17 @@ FactoredNetwork factorNetwork(const net::Network& net, int maxDepth = -1, Factor
 /// k-1 two-input gates, inverters are free, depth balanced by arrival time.
 net::Metrics measureFactored(const net::Network& net, int maxDepth = -1, FactorCache* cache = nullptr);
 
+/// Per node, the earliest arrival reachable with the forms that arrive
+/// first, and the latest arrival that keeps every output within
+/// max(maxDepth, the earliest depth) through those forms (LONG_MAX where no
+/// output is reached). A region cut from the network gets its inputs'
+/// arrivals and its outputs' tails from these.
+struct DepthSlack {
+    std::vector<std::size_t> earliest;
+    std::vector<long> required;
+};
+DepthSlack depthSlack(const net::Network& net, int maxDepth, FactorCache* cache = nullptr);
+
 /// Gates and arrival of one factored form whose literals arrive at `arrival`.
 struct FormCost {
     std::size_t gates = 0;

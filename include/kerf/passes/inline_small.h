@@ -21,6 +21,10 @@ struct InlineOptions {
     /// every step of the complementation tidies a cover of up to this many
     /// cubes, and only complements of at most maxCubes cubes are used anyway.
     std::size_t complementCubeCap = 64;
+    /// After a collapse, the fanins of a fanout cover of up to this many
+    /// cubes are re-valued at once; those of wider covers when next taken
+    /// (valuing them at once costs the square of the cover's width).
+    std::size_t revalueMaxCubes = 16;
 };
 
 void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx);

@@ -1,0 +1,16 @@
+// regions.h — restructuring a large network region by region (regions.cpp).
+#pragma once
+
+#include "kerf/passes/engine.h"
+
+namespace kerf::passes::detail {
+
+/// Whether `net` is large enough to be restructured region by region
+/// (limit region-literals; goal size; no declared don't-cares).
+bool useRegions(const net::Network& net, const EngineOptions& opts);
+
+/// restructure() for a large network: the scheduler runs on each region
+/// with the effort's limits; the result is never worse than the input.
+EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts);
+
+} // namespace kerf::passes::detail
