@@ -486,6 +486,7 @@ EngineLimits limitsFor(Effort e) {
         l.regroupTrials = 4;
         l.minGainPermille = 5;
         l.impliedDontCares = false;
+        l.regionLiterals = 20000;
         break;
     case Effort::Default:
         break;

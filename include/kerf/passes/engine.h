@@ -63,8 +63,9 @@ struct EngineLimits {
     /// Covers of more cubes are written as plain sums of products, not factored.
     std::size_t factorMaxCubes = 1000;
     /// Networks of more than twice this many literals are restructured region
-    /// by region, regions of about this many literals (0: always whole).
-    std::size_t regionLiterals = 20000;
+    /// by region, regions of about this many literals (0: always whole; the
+    /// default for --effort fast is 20000).
+    std::size_t regionLiterals = 0;
     minimize::MinimizeOptions minimize;
     InlineOptions dissolve;
     ShareCubesOptions cubes;
