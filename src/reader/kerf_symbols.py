@@ -103,8 +103,13 @@ class Tokens:
                             found.append(s)
             return True
 
-        for tree in self.trees:
-            tree.root.visit(cb)
+        # Every directive (`define, `ifdef, `include, a macro use, ...) starts with a
+        # backtick: sources without one have none, and visiting every token of a big
+        # generated file for its trivia is a good part of the reader's time.
+        self.any_directives = self._may_hold_directives()
+        if self.any_directives:
+            for tree in self.trees:
+                tree.root.visit(cb)
         for s in found:
             r = s.sourceRange
             start = self._file_loc(r.start)
@@ -115,6 +120,11 @@ class Tokens:
                 self.macro_usages += 1
         for lst in self.directives.values():
             lst.sort(key=lambda e: e[0])
+
+    def _may_hold_directives(self):
+        """Whether any source buffer slang loaded has a backtick in its text."""
+        sm = self.sm
+        return any("`" in sm.getSourceText(b) for b in sm.getAllBuffers())
 
     def _file_loc(self, loc):
         sm = self.sm
@@ -164,6 +174,17 @@ class Tokens:
             starts = self._directive_starts[bid] = [d[0] for d in self.directives.get(bid, ())]
         i = bisect.bisect_left(starts, start)
         return i < len(starts) and starts[i] < end
+
+    def covers_exactly(self, node, bid, start, end):
+        """Whether `node_in_range(node, bid, start, end)` would be all of the node's own
+        tokens (the node spans exactly [start, end) of the buffer, without directives)."""
+        r = node.sourceRange
+        if not (self.sm.isFileLoc(r.start) and self.sm.isFileLoc(r.end)):
+            return False
+        if r.start.buffer.id != bid or r.end.buffer.id != bid:
+            return False
+        lo, hi = r.start.offset, r.end.offset
+        return lo == start and hi == end and not self.has_directive_in(bid, lo, hi)
 
     def node_in_range(self, node, bid, start, end):
         """The same entries' tokens as `in_range(bid, start, end)`, from one syntax node
@@ -232,9 +253,12 @@ class Refs:
         return self.symbols_of_tokens(node_tokens(node), scope)
 
     def symbols_of_tokens(self, tokens, scope=None):
+        return self.symbols_of_names(self.token_names(tokens), scope)
+
+    def symbols_of_names(self, names, scope=None):
         out = []
         seen = set()
-        for name in self.token_names(tokens):
+        for name in names:
             sym = self.resolve(name, scope)
             if sym is not None and sym not in seen:
                 seen.add(sym)
@@ -419,3 +443,67 @@ class Keys:
         for n in instances:
             parts.append(self.definition_text(n))
         return hashlib.sha256("\n".join(parts).encode("utf-8", "surrogateescape")).hexdigest()[:32]
+
+    def node_key(self, what, node, instances=()):
+        """`key(what, node_tokens(node), instances)` without holding the tokens: their
+        texts go into the digest while the node is visited (a generated member has
+        millions of tokens), and only the names are kept for the symbols. None when the
+        node has no tokens."""
+        h = hashlib.sha256()
+        enc = "utf-8"
+        h.update(what.encode(enc, "surrogateescape") + b"\n")
+        tok_type = parsing.Token
+        placeholder, eof = TK.Placeholder, TK.EndOfFile
+        ident, unit_name, colons = TK.Identifier, TK.UnitSystemName, TK.DoubleColon
+        directive = TRK.Directive
+        trivia = self.tokens.any_directives
+        named = []           # (position, kind, value text) of the tokens names are made of
+        chunk = []
+        count = [0]
+
+        def cb(n):
+            if type(n) is not tok_type:
+                return True
+            k = n.kind
+            if k is placeholder or k is eof or n.isMissing:
+                return True
+            i = count[0]
+            count[0] = i + 1
+            if i:
+                if trivia:
+                    for tv in n.trivia:
+                        if tv.kind == directive and tv.syntax() is not None:
+                            chunk.append("#" + " ".join(t.rawText for t in node_tokens(tv.syntax())))
+                chunk.append(n.rawText)
+                if len(chunk) > 4096:
+                    h.update((" " + " ".join(chunk)).encode(enc, "surrogateescape"))
+                    chunk.clear()
+            else:
+                h.update(n.rawText.encode(enc, "surrogateescape"))
+            if k is ident or k is unit_name or k is colons:
+                named.append((i, k, n.valueText))
+            return True
+
+        node.visit(cb)
+        if not count[0]:
+            return None
+        if chunk:
+            h.update((" " + " ".join(chunk)).encode(enc, "surrogateescape"))
+        # The names as Refs.token_names finds them: `a`, and `pkg::a` from three adjacent tokens.
+        names = []
+        j = 0
+        while j < len(named):
+            i, k, text = named[j]
+            if k is not colons and j + 2 < len(named) and named[j + 1][0] == i + 1 and named[j + 1][1] is colons \
+                    and named[j + 2][0] == i + 2 and named[j + 2][1] is ident:
+                names.append(text + "::" + named[j + 2][2])
+                j += 3
+                continue
+            if k is ident:
+                names.append(text)
+            j += 1
+        for s in self.refs.symbols_of_names(names):
+            h.update(b"\n" + self.symbol_text(s).encode(enc, "surrogateescape"))
+        for n in instances:
+            h.update(b"\n" + self.definition_text(n).encode(enc, "surrogateescape"))
+        return h.hexdigest()[:32]

@@ -199,10 +199,13 @@ def finish(d, members, description):
             continue
         src = m["src"]
         node = st.syntax_by_src.get(_src_key(src))
-        if node is not None:
+        whole = None         # a syntax node whose tokens are exactly the member's
+        toks = None
+        if isinstance(node, syntax.SyntaxNode):
+            whole = node
+        elif node is not None:
             toks = node_tokens(node)
         else:
-            toks = None
             holder = st.node_by_src.get(_src_key(src))
             if holder is not None:
                 # The member's own syntax gives the tokens of its range directly (the common
@@ -210,14 +213,22 @@ def finish(d, members, description):
                 # proportion to the whole design, for each run.
                 r = holder.sourceRange
                 if st.tokens.sm.isFileLoc(r.start) and d.src.name(r.start.buffer) == src["file"]:
-                    toks = st.tokens.node_in_range(holder, r.start.buffer.id, src["start"], src["end"])
-            if toks is None:
-                bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]), None)
-                if bid is None:
-                    st.tokens.in_range(-1, 0, 0)          # builds the index, which knows every buffer
-                    bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]),
-                               None)
-                toks = [e[4] for e in st.tokens.in_range(bid, src["start"], src["end"])] if bid is not None else []
+                    if st.tokens.covers_exactly(holder, r.start.buffer.id, src["start"], src["end"]):
+                        whole = holder
+                    else:
+                        toks = st.tokens.node_in_range(holder, r.start.buffer.id, src["start"], src["end"])
+        if whole is not None:
+            key = st.keys.node_key(what, whole, _instances_in(d, st, src["file"], src["start"], src["end"]))
+            m["match_key"] = key if key is not None else \
+                "unmatched:%s:%d:%d" % (src["file"], src["start"], src["end"])
+            continue
+        if toks is None:
+            bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]), None)
+            if bid is None:
+                st.tokens.in_range(-1, 0, 0)          # builds the index, which knows every buffer
+                bid = next((b for b, buf in st.tokens.buffers.items() if d.src.name(buf) == src["file"]),
+                           None)
+            toks = [e[4] for e in st.tokens.in_range(bid, src["start"], src["end"])] if bid is not None else []
         if not toks:
             # Nothing to compare it by: a key no other member can have.
             m["match_key"] = "unmatched:%s:%d:%d" % (src["file"], src["start"], src["end"])

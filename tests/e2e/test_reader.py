@@ -870,6 +870,56 @@ def include_dirs_and_defines():
 
 
 @test
+def match_keys_streamed_like_token_lists():
+    # A member's match key is digested while its syntax is visited (kerf_symbols.Keys.node_key)
+    # instead of from a list of its tokens (Keys.key): both must give the same key, with
+    # macro uses between the tokens, package-scoped names and directives anywhere in the
+    # file, and the token visit for directives is skipped only for sources without a backtick.
+    # Reference: the token-list digest itself (the form every earlier key was made by).
+    sys.path.insert(0, os.path.dirname(READER))
+    import pyslang
+    from pyslang import syntax as sx
+    import kerf_symbols as ks
+    with_macros = ("package cfg_pkg; localparam logic [3:0] MODE_A = 4'h3; endpackage\n"
+                   "`define SEL(a, b) ((a) & ~(b))\n"
+                   "module km (input logic [3:0] x, input logic s, output logic [3:0] y, output logic z);\n"
+                   "  assign y = `SEL(x, cfg_pkg::MODE_A) | {4{s}};  // macro between tokens\n"
+                   "  always_comb begin\n    z = 1'b0;\n`ifdef KM_WIDE\n    z = x[3];\n`endif\n"
+                   "    if (x == cfg_pkg::MODE_A) z = s ^ x[0];\n  end\nendmodule\n")
+    plain = with_macros.replace("`define SEL(a, b) ((a) & ~(b))\n", "").replace("`SEL(x, cfg_pkg::MODE_A)", "(x & ~cfg_pkg::MODE_A)") \
+        .replace("`ifdef KM_WIDE\n    z = x[3];\n`endif\n", "")
+    tmp = tempfile.mkdtemp(prefix="kerf-keys-")
+    try:
+        for text, directives in ((with_macros, True), (plain, False)):
+            path = os.path.join(tmp, "km.sv")
+            with open(path, "w") as f:
+                f.write(text)
+            sm = pyslang.SourceManager()   # of its own: the default one keeps every earlier file
+            tree = pyslang.syntax.SyntaxTree.fromFile(path, sm)
+            comp = pyslang.ast.Compilation()
+            comp.addSyntaxTree(tree)
+            top = comp.getRoot().topInstances[0]
+            tokens = ks.Tokens(comp)
+            eq(tokens.any_directives, directives, "source with a backtick")
+            eq(bool(tokens.directives), directives, "directives found")
+            keys = ks.Keys(comp, tokens, ks.Refs(top.body))
+            members = [m for m in top.body.syntax.members]
+            assert len(members) == 2, members
+            seen = set()
+            for m in members:
+                nodes = [m] + ([m.statement] if hasattr(m, "statement") else [])
+                for node in nodes:
+                    if not isinstance(node, sx.SyntaxNode):
+                        continue
+                    want = keys.key("kept:x", ks.node_tokens(node), ["km"])
+                    eq(keys.node_key("kept:x", node, ["km"]), want, "streamed key of %s" % node.kind)
+                    seen.add(want)
+            assert len(seen) == 3, "distinct members give distinct keys: %s" % seen
+    finally:
+        shutil.rmtree(tmp, ignore_errors=True)
+
+
+@test
 def missing_pyslang_exit_3():
     with tempfile.TemporaryDirectory() as tmp:
         os.mkdir(os.path.join(tmp, "pyslang"))
