@@ -35,6 +35,7 @@
 #include <functional>
 #include <map>
 #include <numeric>
+#include <optional>
 #include <set>
 #include <sstream>
 
@@ -97,6 +98,142 @@ void setHeader(WriteResult& r, const std::string& line) {
 namespace {
 
 constexpr int kRankInternal = 0, kRankWire = 1 << 20, kRankPort = 2 << 20;
+
+/// Bits of module signals a member's text reads: a constant select chain (`a[3]`, `m[1][7:4]`,
+/// `req.hdr.tag`) reads its bits, any other reference the whole signal (`whole`). Targets'
+/// roots are written, not read; their indices are read. What functions read inside their
+/// bodies is not followed: a signal the member reads by name and no walked reference names
+/// counts whole (so a bit is never taken for unread by the original when it might be read).
+void originalReads(const frontend::ModuleDesc& m, const frontend::Member& mem,
+                   std::set<std::pair<std::string, int>>& bits, std::set<std::string>& whole) {
+    using frontend::ExprKind;
+    using frontend::StmtKind;
+    const auto& ir = m.ir;
+    std::set<std::string> named;
+    auto signalName = [&](frontend::SymbolId y) -> const std::string* {
+        if (y >= ir.symbols.size()) return nullptr;
+        const auto& sym = ir.symbols[y];
+        if (sym.local || sym.function >= 0 || !m.signals.count(sym.name)) return nullptr;
+        return &sym.name;
+    };
+    auto constValue = [&](frontend::ExprId id, long& v) {
+        const auto& e = ir.expr(id);
+        if (e.kind != ExprKind::Const || e.width > 62) return false;
+        v = 0;
+        for (std::uint32_t i = e.width; i-- > 0;) {
+            char c = ir.constBit(e, i);
+            if (c != '0' && c != '1') return false;
+            v = v * 2 + (c == '1');
+        }
+        if (e.isSigned && e.width > 0 && ir.constBit(e, e.width - 1) == '1') v -= 1L << e.width;
+        return true;
+    };
+    // (symbol, lowest offset) of a constant select chain on a module signal; width is the node's.
+    struct Span { frontend::SymbolId sym; long lo; };
+    std::function<std::optional<Span>(frontend::ExprId)> chain = [&](frontend::ExprId id) -> std::optional<Span> {
+        const auto& e = ir.expr(id);
+        auto off = [&](long i) { return e.msb >= e.lsb ? i - e.lsb : e.lsb - i; };
+        auto inDim = [&](long i) { return e.msb >= e.lsb ? (i >= e.lsb && i <= e.msb) : (i >= e.msb && i <= e.lsb); };
+        if (e.kind == ExprKind::Ref) {
+            if (!signalName(e.a)) return std::nullopt;
+            return Span{e.a, 0};
+        }
+        if (e.kind == ExprKind::Index) {
+            long i = 0;
+            if (!constValue(e.b, i) || !inDim(i)) return std::nullopt;
+            auto p = chain(e.a);
+            if (!p) return std::nullopt;
+            return Span{p->sym, p->lo + off(i) * static_cast<long>(e.width)};
+        }
+        if (e.kind == ExprKind::Range) {
+            long l = e.left(), r = e.right();
+            if (!inDim(l) || !inDim(r)) return std::nullopt;
+            long count = std::labs(l - r) + 1;
+            if (count <= 0 || e.width % count != 0) return std::nullopt;
+            auto p = chain(e.a);
+            if (!p) return std::nullopt;
+            return Span{p->sym, p->lo + std::min(off(l), off(r)) * static_cast<long>(e.width / count)};
+        }
+        return std::nullopt;
+    };
+    std::vector<frontend::ExprId> reads, targets;
+    auto read = [&](frontend::ExprId id) { if (id != frontend::kNoId) reads.push_back(id); };
+    // Statements.
+    std::vector<frontend::StmtId> stmts;
+    if (mem.body != frontend::kNoId) stmts.push_back(mem.body);
+    if (mem.lhs != frontend::kNoId) targets.push_back(mem.lhs);
+    read(mem.rhs);
+    while (!stmts.empty()) {
+        frontend::StmtId sid = stmts.back();
+        stmts.pop_back();
+        if (sid == frontend::kNoId) continue;
+        const auto& st = ir.stmt(sid);
+        switch (st.kind) {
+        case StmtKind::Block:
+            for (std::uint32_t k = 0; k < st.b; ++k) stmts.push_back(ir.list(st.a)[k]);
+            break;
+        case StmtKind::Assign: targets.push_back(st.a); read(st.b); break;
+        case StmtKind::If: read(st.a); stmts.push_back(st.b); stmts.push_back(st.c); break;
+        case StmtKind::Case:
+            read(st.a);
+            for (std::uint32_t k = 0; k < st.c; ++k) {
+                const auto& item = ir.caseItems[st.b + k];
+                for (std::uint32_t q = 0; q < item.count; ++q) read(ir.list(item.exprs)[q]);
+                stmts.push_back(item.body);
+            }
+            stmts.push_back(st.d);
+            break;
+        case StmtKind::For:
+            for (std::uint32_t k = 0; k < st.b; ++k) read(ir.forInits[st.a + k].value);
+            read(st.c);
+            for (std::uint32_t k = 0; k < st.e; ++k) stmts.push_back(ir.list(st.d)[k]);
+            stmts.push_back(st.f);
+            break;
+        case StmtKind::Empty: break;
+        }
+    }
+    while (!targets.empty()) {
+        frontend::ExprId id = targets.back();
+        targets.pop_back();
+        const auto& e = ir.expr(id);
+        switch (e.kind) {
+        case ExprKind::Index: case ExprKind::Indexed: targets.push_back(e.a); read(e.b); break;
+        case ExprKind::Range: targets.push_back(e.a); break;
+        case ExprKind::Concat:
+            for (std::uint32_t k = 0; k < e.b; ++k) targets.push_back(ir.list(e.a)[k]);
+            break;
+        default: break;
+        }
+    }
+    while (!reads.empty()) {
+        frontend::ExprId id = reads.back();
+        reads.pop_back();
+        const auto& e = ir.expr(id);
+        if (auto c = chain(id)) {
+            const std::string& name = *signalName(c->sym);
+            named.insert(name);
+            for (long k = 0; k < static_cast<long>(e.width); ++k) bits.insert({name, static_cast<int>(c->lo + k)});
+            continue;
+        }
+        switch (e.kind) {
+        case ExprKind::Const: break;
+        case ExprKind::Ref:
+            if (const std::string* n = signalName(e.a)) whole.insert(*n), named.insert(*n);
+            break;
+        case ExprKind::Unary: case ExprKind::Convert: case ExprKind::Replicate: case ExprKind::Range: read(e.a); break;
+        case ExprKind::Binary: case ExprKind::Index: case ExprKind::Indexed: read(e.a); read(e.b); break;
+        case ExprKind::Cond: read(e.a); read(e.b); read(e.c); break;
+        case ExprKind::Concat:
+            for (std::uint32_t k = 0; k < e.b; ++k) read(ir.list(e.a)[k]);
+            break;
+        case ExprKind::Call:
+            for (std::uint32_t k = 0; k < e.c; ++k) read(ir.list(e.b)[k]);
+            break;
+        }
+    }
+    for (const auto& n : mem.reads)
+        if (!named.count(n)) whole.insert(n);
+}
 
 std::string indentOf(const std::string& src, std::size_t pos) {
     std::size_t ls = pos;
@@ -226,7 +363,8 @@ private:
     std::map<int, const frontend::Member*> byId_;
     std::vector<int> stmts_;                   ///< replaced members, one per statement (shared src merged)
     std::map<int, int> stmtOf_;                ///< member id -> representative member id
-    std::map<std::string, int> unitOfSignal_;  ///< signal -> representative statement
+    std::map<std::string, int> unitOfSignal_;  ///< signal -> its first writing statement
+    std::map<std::string, std::vector<int>> writersOf_;   ///< signal -> every statement writing bits of it
     std::map<int, std::vector<int>> membersOfStmt_;
     // outputs
     struct Out {
@@ -284,30 +422,17 @@ void Writer::indexMembers() {
         }
         membersOfStmt_[stmtOf_[id]].push_back(id);
     }
-    // Statements writing one signal (bits split between them) go together.
-    UnionFind uf(ids.empty() ? 1 : static_cast<std::size_t>(*std::max_element(ids.begin(), ids.end())) + 1);
+    // Statements writing bits of one signal stay apart, as the source kept them (issue 10:
+    // logic the source kept in separate blocks is not merged); each output bit is written by
+    // the statement whose logic computes it (indexOutputs).
     std::map<std::string, int> firstWriter;
     for (int id : ids)
         for (const auto& w : byId_.at(id)->writes) {
-            auto [it, fresh] = firstWriter.emplace(w, stmtOf_[id]);
-            if (!fresh) uf.unite(it->second, stmtOf_[id]);
+            firstWriter.emplace(w, stmtOf_[id]);
+            auto& ws = writersOf_[w];
+            if (std::find(ws.begin(), ws.end(), stmtOf_[id]) == ws.end()) ws.push_back(stmtOf_[id]);
         }
     for (auto& [w, s] : firstWriter) unitOfSignal_[w] = s;
-    // Re-point every statement at its unit's first statement.
-    std::map<int, int> unitRep;
-    for (int s : stmts_) unitRep[s] = uf.find(s);
-    for (auto& [w, s] : unitOfSignal_) s = unitRep[s];
-    std::vector<int> reps;
-    for (int s : stmts_) {
-        int r = unitRep[s];
-        if (r != s) {
-            for (int mid : membersOfStmt_[s]) membersOfStmt_[r].push_back(mid), stmtOf_[mid] = r;
-            membersOfStmt_.erase(s);
-        } else {
-            reps.push_back(s);
-        }
-    }
-    stmts_ = reps;
 }
 
 void Writer::indexOutputs() {
@@ -321,6 +446,9 @@ void Writer::indexOutputs() {
         outs_[i].generated = generated.count(outs_[i].bit.signal) > 0;
         auto it = unitOfSignal_.find(outs_[i].bit.signal);
         outs_[i].stmt = it == unitOfSignal_.end() ? -1 : it->second;
+        // The statement whose logic computes this bit, where the signal's bits are split.
+        if (i < low_.outputSources.size() && low_.outputSources[i].member >= 0)
+            if (auto st = stmtOf_.find(low_.outputSources[i].member); st != stmtOf_.end()) outs_[i].stmt = st->second;
         if (!outs_[i].generated && outs_[i].stmt < 0)
             throw Error(fmt::format("writer: no statement writes output '{}'", outs_[i].bit.signal), {},
                         ExitCode::Internal);
@@ -835,6 +963,17 @@ bool Writer::checkCycles() {
         auto it = unitOfSignal_.find(name);
         return it == unitOfSignal_.end() ? -1 : static_cast<long>(idx.at(it->second));
     };
+    // Every statement writing bits of `name` (a signal split between blocks has several).
+    auto writersOf = [&](const std::string& name) -> std::vector<long> {
+        auto it = writersOf_.find(name);
+        if (it == writersOf_.end() || wordNode.count(name)) {
+            long t = writerOf(name);
+            return t >= 0 ? std::vector<long>{t} : std::vector<long>{};
+        }
+        std::vector<long> out;
+        for (int st : it->second) out.push_back(static_cast<long>(idx.at(st)));
+        return out;
+    };
     // What an operation reads: its named operands, and the names and wires its generated
     // operands' logic reads. The operation's node is its result's (an author's signal that is
     // exactly the result: that signal's statement).
@@ -846,8 +985,8 @@ bool Writer::checkCycles() {
             std::string name = n;
             if (auto same = sameAs_.find(name); same != sameAs_.end()) name = same->second;
             if (auto named = resultName_.find(name); named != resultName_.end()) name = named->second;
-            long t = writerOf(name);
-            if (t >= 0 && t != from) adj[static_cast<std::size_t>(from)].push_back({static_cast<std::size_t>(t), name});
+            for (long t : writersOf(name))
+                if (t != from) adj[static_cast<std::size_t>(from)].push_back({static_cast<std::size_t>(t), name});
         };
         for (const auto& o : w.operands) {
             if (!o.generated) {
@@ -870,8 +1009,8 @@ bool Writer::checkCycles() {
             if (!groups_[g].replaced) {
                 for (int mid : membersOfStmt_.at(st))
                     for (const auto& r : byId_.at(mid)->reads) {
-                        long t = writerOf(r);
-                        if (t >= 0 && static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), ""});
+                        for (long t : writersOf(r))
+                            if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), ""});
                     }
                 continue;
             }
@@ -880,8 +1019,8 @@ bool Writer::checkCycles() {
                 NodeId v = literalVar(net_.outputs()[i].driver);
                 auto onName = [&](const std::string& n) {
                     if (n == outs_[i].bit.signal) selfRef = n;   // a vector reading its own bits
-                    long t = writerOf(n);
-                    if (t >= 0 && static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n});
+                    for (long t : writersOf(n))
+                        if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n});
                 };
                 namesRead(i, onName);
                 coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) { adj[from].push_back({wid.at(w), ""}); },
@@ -893,8 +1032,7 @@ bool Writer::checkCycles() {
         std::size_t from = wid.at(w);
         coneOf(w, true, [&](NodeId x) { adj[from].push_back({wid.at(x), ""}); }, [](NodeId) {},
                [&](const std::string& n) {
-                   long t = writerOf(n);
-                   if (t >= 0) adj[from].push_back({static_cast<std::size_t>(t), n});
+                   for (long t : writersOf(n)) adj[from].push_back({static_cast<std::size_t>(t), n});
                });
     }
     if (!selfRef.empty()) {
@@ -1148,16 +1286,23 @@ std::vector<std::string> Writer::unreadBits() {
             }
     for (const auto& mem : m_.members)
         if (!replacedIds.count(mem.id)) keptReads.insert(mem.reads.begin(), mem.reads.end());
+    // Bits the replaced statements' own text read: only those are listed (a bit the original
+    // left unread keeps its lint warning, as in the original).
+    std::set<std::pair<std::string, int>> origBits;
+    std::set<std::string> origWhole;
+    for (int mid : replacedIds) originalReads(m_, *byId_.at(mid), origBits, origWhole);
     std::set<std::string> driven;
     for (const auto& o : outs_)
         if (!o.generated) driven.insert(o.bit.signal);
     std::vector<std::string> out;
     notReadWidth_ = 0;
+    std::string origName;   // the author's signal `runs` is listing ("" for kerf's own results)
     auto runs = [&](const std::string& name, int width, bool scalar, const std::function<std::string(int, int)>& text) {
         if (wholeRead.count(name)) return;
         int lo = -1;
         for (int k = 0; k <= width; ++k) {
-            bool unread = k < width && !read.count(scalar ? std::make_pair(verilogName(name), 0) : std::make_pair(name, k));
+            bool unread = k < width && !read.count(scalar ? std::make_pair(verilogName(name), 0) : std::make_pair(name, k)) &&
+                          (origName.empty() || origWhole.count(origName) || origBits.count({origName, k}));
             if (unread && lo < 0) lo = k;
             if (!unread && lo >= 0) {
                 out.push_back(text(lo, k - lo));
@@ -1167,6 +1312,7 @@ std::vector<std::string> Writer::unreadBits() {
         }
     };
     for (const auto& name : replacedReads) {
+        origName = name;
         auto it = m_.signals.find(name);
         // Signals the replaced statements write are theirs to keep read (keepReaders), or dissolved.
         if (it == m_.signals.end() || keptReads.count(name) || driven.count(name) || written.count(name) ||
@@ -1177,6 +1323,7 @@ std::vector<std::string> Writer::unreadBits() {
         bool scalar = !sig.vector && sig.width == 1;
         runs(name, sig.width, scalar, [&](int lo, int n) { return frontend::referenceText(m_, name, lo, n); });
     }
+    origName.clear();
     if (wordsWritten)
         for (const auto& w : low_.wordOps)
             if (!sameAs_.count(w.result) && !resultName_.count(w.result)) runs(w.result, w.resultWidth, w.resultWidth == 1, [&](int lo, int n) {

@@ -19,6 +19,7 @@ import sys
 
 sys.path.insert(0, os.path.dirname(__file__))
 import kerf_e2e as K  # noqa: E402
+import outside_check as O  # noqa: E402
 
 S = K.Suite(__doc__)
 GOLDEN = os.path.join(os.path.dirname(__file__), "golden")
@@ -212,6 +213,63 @@ def _(t):
     os.mkdir(sim)
     ok, log, _ = K.simulate_equal(t.root, [b_in], "two_decoders", b_out, sim, vectors=3000)
     t.res.check(ok, f"the edited design's rewrite simulates like it (Icarus Verilog): {log}")
+
+
+@S.case("separate_blocks_stay_separate", needs=("iverilog",))
+def _(t):
+    """Two always_comb blocks writing different fields of one struct stay two blocks, each
+    writing its own fields (issue 10: logic the source kept in separate blocks is not merged)."""
+    files = [os.path.join(t.root, "tests", "rtl", "include", "periph_pkg.sv"),
+             os.path.join(t.root, "tests", "rtl", "struct_two_blocks.sv")]
+    out = os.path.join(t.work, "struct_two_blocks.sv")
+    r = restructure(t, files, "struct_two_blocks", out, "--min-gain", "0")
+    if not t.res.check(r.returncode == 0, f"restructure: {r.stderr}"):
+        return
+    text = open(out).read()
+    t.res.check(text != open(files[1]).read(), "the blocks are rewritten")
+    blocks = re.findall(r"always_comb begin\n(.*?)\n\s*end\n", text, re.S)
+    t.res.check(len(blocks) == 2, f"two always_comb blocks, as in the source: {len(blocks)}")
+    fields = [set(re.findall(r"\bhdr\.(\w+)[^=]*=", b)) for b in blocks]
+    if len(fields) == 2:
+        t.res.check(fields[0] and fields[0] <= {"valid", "write", "size"},
+                    f"the first block writes only the flags: {sorted(fields[0])}")
+        t.res.check(fields[1] == {"tag"}, f"the second block writes only the tag: {sorted(fields[1])}")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, files, "struct_two_blocks", out, sim, vectors=3000)
+    t.res.check(ok, f"the rewrite simulates like the source (Icarus Verilog): {log}")
+
+
+PEEK = """module peek (
+  input  logic [7:0] a,
+  input  logic       en,
+  output logic       y
+);
+  assign y = en & (a[1] | ~a[1]) & a[0] | en & a[2] & ~a[0];
+endmodule
+"""
+
+
+@S.case("unused_wire_lists_only_bits_read", needs=("verilator",))
+def _(t):
+    """The `unused` wire lists the bits the replaced statements read and the rewrite does not
+    (a[1]), never bits the source already left unread (a[7:3]): Verilator -Wall reports the same
+    unused-signal warnings for the rewrite as for the source (outside reference)."""
+    src = os.path.join(t.work, "peek.sv")
+    open(src, "w").write(PEEK)
+    out_dir = os.path.join(t.work, "out")
+    os.mkdir(out_dir)
+    out = os.path.join(out_dir, "peek.sv")
+    r = restructure(t, [src], "peek", out, "--min-gain", "0")
+    if not t.res.check(r.returncode == 0, f"restructure: {r.stderr}"):
+        return
+    text = open(out).read()
+    t.res.check(re.search(r"\bwire\b[^;]*unused", text) is not None, f"a wire reads the bit no longer read: {text}")
+    _, before, _ = O.lint([src], "peek")
+    _, after, raw = O.lint([out], "peek")
+    unused = lambda ws: {w for w in ws if w[0].startswith("UNUSED")}
+    t.res.check(unused(before), f"the source has an unused-bits warning: {before}")
+    t.res.check(unused(after) == unused(before), f"the same unused warnings: {unused(before)} vs {unused(after)}: {raw}")
 
 
 @S.case("min_gain_keeps_file")
