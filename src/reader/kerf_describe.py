@@ -174,6 +174,7 @@ class Describer:
         self.constants = []      # named constants the logic compares against or names (below)
         self._const_ix = {}      # parameter symbol -> index in self.constants, or None
         self._compared = set()
+        self._param_names = None # names of the module's and the packages' parameters
 
     # -- named constants -------------------------------------------------------------
     # A localparam or package constant the source compares a signal with (`cmd == CMD_RD`,
@@ -232,6 +233,21 @@ class Describer:
             if isinstance(n, ast.Expression) and n.kind == EK.NamedValue and n.symbol.kind == SK.Parameter:
                 out[n.symbol] += 1
         sym.visit(cb)
+        # Names slang folds into a type (a cast's width `IW'(i)`) are no expressions: their tokens.
+        syn = getattr(sym, "syntax", None)
+        if self._param_names is None:
+            names = {p.name for p in self.body if p.kind == SK.Parameter}
+            for pkg in self.comp.getPackages():
+                names.update(p.name for p in pkg if p.kind == SK.Parameter)
+            self._param_names = names
+        if syn is not None and self._param_names:
+            def tok(n):
+                if isinstance(n, pyslang.parsing.Token) and n.kind == pyslang.parsing.TokenKind.Identifier \
+                        and n.valueText in self._param_names:
+                    f = self.body.lookupName(n.valueText)
+                    if f is not None and f.kind == SK.Parameter and f not in out:
+                        out[f] += 1
+            syn.visit(tok)
         return out
 
     def finish_constants(self, members, named_by_src):
