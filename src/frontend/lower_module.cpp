@@ -264,13 +264,16 @@ void Lowerer::markKeptXBits(const std::function<SymbolId(const std::string&)>& s
     // bits is kept as written (inputBit), and what it writes joins them on the next lowering.
     const std::size_t n = members_.size();
     keptX_.assign(ir_.symbols.size(), {});
+    // Per member: 0 not a source, 1 the signals its own text makes x (xWrites), 2 everything
+    // it writes (it reads a signal that can be x, or its text can make all of them x).
     std::vector<std::uint8_t> anyX(ir_.symbols.size(), 0), source(n, 0);
-    auto markWrites = [&](std::size_t i) {
-        source[i] = 1;
+    auto markWrites = [&](std::size_t i, bool all) {
+        source[i] = all ? 2 : 1;
         const Member& mem = *members_[i];
         std::vector<std::pair<SymbolId, int>> bits;
         if (mem.kind == MemberKind::Kept) {
-            for (const auto& name : mem.writes) {
+            const auto& names = all || mem.xWrites.empty() ? mem.writes : mem.xWrites;
+            for (const auto& name : names) {
                 SymbolId s = symbolOf(name);
                 if (s == kNoId || s >= keptX_.size()) continue;
                 auto r = mem.writeRanges.find(name);
@@ -302,10 +305,14 @@ void Lowerer::markKeptXBits(const std::function<SymbolId(const std::string&)>& s
     for (bool changed = true; changed;) {
         changed = false;
         for (std::size_t i = 0; i < n; ++i) {
-            if (source[i] || restructured_[i]) continue;
-            if (!textMayBeX(ir_, *members_[i]) && !readsX(i)) continue;
-            markWrites(i);
-            changed = true;
+            if (source[i] == 2 || restructured_[i]) continue;
+            if (readsX(i)) {
+                markWrites(i, true);
+                changed = true;
+            } else if (source[i] == 0 && textMayBeX(ir_, *members_[i])) {
+                markWrites(i, false);
+                changed = true;
+            }
         }
     }
 }

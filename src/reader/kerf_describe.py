@@ -724,6 +724,92 @@ class Describer:
             return False
         return lo <= 0 and (1 << w) - 1 + extra <= hi
 
+    def x_writes(self, nodes):
+        """Which signals kept code can make x by its own text: None when it cannot; otherwise
+        the names written by assignments (and declarations' initial values) whose value can be
+        x — an x source in the value, or a variable such an assignment wrote, local ones
+        included — or True for every signal it writes when it holds a gate primitive or calls a
+        task or a function with an output argument. An x source only in an `if`/`case`
+        condition, a case item or an event control makes no value x (IEEE 1800 12.4, 12.5:
+        the else branch or no item is taken)."""
+        if not self.may_be_x(nodes):
+            return None
+        assigns = []     # (symbols the target names, module signals it names, value expressions)
+        other = [False]
+
+        def symbols(e):
+            out = set()
+
+            def f(n):
+                if isinstance(n, ast.Expression) and n.kind == EK.NamedValue:
+                    out.add(n.symbol)
+                return None
+            e.visit(f)
+            return out
+
+        def cb(n):
+            if isinstance(n, ast.Expression):
+                k = n.kind
+                if k == EK.Assignment:
+                    assigns.append((symbols(n.left), self._target_names(n.left),
+                                    [n.right, n.left] if n.isCompound else [n.right]))
+                    return ast.VisitAction.Skip
+                if k == EK.UnaryOp and n.op in _INCDEC:
+                    assigns.append((symbols(n.operand), self._target_names(n.operand), [n.operand]))
+                    return ast.VisitAction.Skip
+                if k == EK.Call and not n.isSystemCall:
+                    sub = n.subroutine
+                    if not isinstance(sub, ast.SubroutineSymbol) or \
+                            sub.subroutineKind != ast.SubroutineKind.Function or \
+                            any(a.direction != ast.ArgumentDirection.In for a in sub.arguments):
+                        other[0] = True
+            elif isinstance(n, ast.PrimitiveInstanceSymbol):
+                other[0] = True
+            elif isinstance(n, (ast.InstanceSymbol, ast.SubroutineSymbol)):
+                return ast.VisitAction.Skip
+            elif isinstance(n, ast.GenerateBlockSymbol) and n.isUninstantiated:
+                return ast.VisitAction.Skip
+            elif isinstance(n, (ast.VariableSymbol, ast.NetSymbol)):
+                init = getattr(n, "initializer", None)
+                if init is not None:
+                    name = self.sig.get(n)
+                    assigns.append(({n}, {name} if name is not None else set(), [init]))
+            return None
+
+        for node in nodes:
+            if node is not None:
+                node.visit(cb)
+        if other[0]:
+            return True
+        xsyms = set()
+        done = [False] * len(assigns)
+        changed = True
+        while changed:
+            changed = False
+            for i, (tsyms, _, values) in enumerate(assigns):
+                if not done[i] and (self.may_be_x(values) or any(symbols(v) & xsyms for v in values)):
+                    done[i] = True
+                    xsyms |= tsyms
+                    changed = True
+        names = set()
+        for i, (_, tnames, _) in enumerate(assigns):
+            if done[i]:
+                names |= tnames
+        return names
+
+    def _target_names(self, lhs):
+        """Module signals a target expression names (every one, selects' own indices included)."""
+        out = set()
+
+        def f(n):
+            if isinstance(n, ast.Expression) and n.kind == EK.NamedValue:
+                name = self.sig.get(n.symbol)
+                if name is not None:
+                    out.add(name)
+            return None
+        lhs.visit(f)
+        return out
+
     def may_be_x(self, nodes):
         """True when kept code can itself produce x or z by the language's rules: an x/z
         constant, a select that can fall out of range (IEEE 1800 11.5.1 reads x), a division
@@ -795,13 +881,22 @@ class Describer:
                 self.collect(node, reads, writes)
         for n in extra_writes:
             writes[n] = None
-        return self.kept_entry(what, reason, src, reads, writes, syn, self.may_be_x(collect_from))
+        return self.kept_entry(what, reason, src, reads, writes, syn, self.x_writes(collect_from))
 
     def kept_entry(self, what, reason, src, reads, writes, syn, may_x=False):
+        """`may_x`: False/None (its text makes no x), True (it can make every signal it writes
+        x) or the set of names it can make x."""
         m = {"kind": "kept", "src": src, "what": what, "reason": reason,
              "reads": sorted(reads), "writes": sorted(writes)}
-        if may_x and writes:
-            m["may_be_x"] = True
+        if may_x is not None and may_x is not False and writes:
+            if may_x is True:
+                m["may_be_x"] = True
+            else:
+                xw = sorted(set(writes) & set(may_x))
+                if xw:
+                    m["may_be_x"] = True
+                    if xw != sorted(writes):
+                        m["x_writes"] = xw
         ranges = {}
         for name, rs in writes.items():
             if rs is None:
@@ -1046,7 +1141,7 @@ class Describer:
             both = reads | set(writes)
             reads = set(both)
             writes = {n: None for n in both}
-        may_x = k == SK.PrimitiveInstance or (k != SK.Instance and self.may_be_x([sym]))
+        may_x = True if k == SK.PrimitiveInstance else None if k == SK.Instance else self.x_writes([sym])
         return self.kept_entry(what, why, src, reads, writes, syn, may_x)
 
     # -- the whole module -------------------------------------------------------
@@ -1184,8 +1279,13 @@ class Describer:
                         else:
                             whole.add(n)
                 m = dict(m, reads=sorted(reads), writes=sorted(writes), mentions=sorted(mentions))
+                m.pop("x_writes", None)
                 if any(g.get("may_be_x") for g in group):
                     m["may_be_x"] = True
+                    if all("x_writes" in g for g in group if g.get("may_be_x")):
+                        xw = sorted(set().union(*(g["x_writes"] for g in group if g.get("may_be_x"))))
+                        if xw != sorted(writes):
+                            m["x_writes"] = xw
                 wr = {n: _merge_ranges(r) for n, r in ranges.items() if n not in whole}
                 if wr:
                     m["write_ranges"] = wr

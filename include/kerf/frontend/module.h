@@ -97,6 +97,9 @@ struct Member {
     /// (an x/z constant, a select that can fall out of range, a division by what can be 0, a
     /// gate primitive); reading a signal that can be x is followed by the lowering.
     bool mayBeX = false;
+    /// Kept members whose text can make only some of what they write x: those signals
+    /// (empty: every signal it writes, when mayBeX).
+    std::vector<std::string> xWrites;
     /// Digest of the member's tokens and of what its names mean (src/reader/kerf_symbols.py):
     /// two kept members with equal keys behave alike on equal inputs (`kerf equiv`).
     std::string matchKey;
