@@ -187,6 +187,27 @@ std::optional<std::string> constantName(const VarRef& r, int loOff, int hiOff, c
     return sliced;
 }
 
+/// An AND/OR/XOR of more than kMaxChain operands is written as parenthesised groups of
+/// kMaxChain, nested as needed: slang's elaboration time grows with the square of a flat
+/// chain's length (measured: 10,000 wires joined by `|` take 1.2 s, the same grouped 0.02 s),
+/// and the proof reads the written file back. No one reads a chain this long term by term.
+void groupLongChain(PExpr& e) {
+    constexpr std::size_t kMaxChain = 64;
+    if (e.kind != PExpr::Kind::And && e.kind != PExpr::Kind::Or && e.kind != PExpr::Kind::Xor) return;
+    while (e.kids.size() > kMaxChain) {
+        std::vector<PExpr> groups;
+        for (std::size_t i = 0; i < e.kids.size(); i += kMaxChain) {
+            PExpr g;
+            g.kind = e.kind;
+            std::size_t end = std::min(e.kids.size(), i + kMaxChain);
+            for (std::size_t j = i; j < end; ++j) g.kids.push_back(std::move(e.kids[j]));
+            if (g.kids.size() == 1) groups.push_back(std::move(g.kids[0]));
+            else groups.push_back(std::move(g));
+        }
+        e.kids = std::move(groups);
+    }
+}
+
 } // namespace
 
 // ---------------------------------------------------------------- costs
@@ -374,6 +395,7 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
     std::vector<PExpr> sorted;
     for (std::size_t i : perm) sorted.push_back(std::move(e.kids[i]));
     e.kids = std::move(sorted);
+    groupLongChain(e);
     return e;
 }
 
