@@ -42,12 +42,17 @@ void Network::addOutput(std::string name, Literal driver) {
 }
 
 std::vector<NodeId> Network::topoOrder() const {
+    std::vector<NodeId> all(nodes_.size());
+    for (NodeId id = 0; id < all.size(); ++id) all[id] = id;
+    return postOrderFrom(all);
+}
+
+std::vector<NodeId> Network::postOrderFrom(const std::vector<NodeId>& roots) const {
     // Iterative DFS post-order; fanins of a live node are live by construction.
     std::vector<NodeId> order;
     std::vector<std::uint8_t> state(nodes_.size(), 0);  // 0 new, 1 open, 2 done
     std::vector<std::pair<NodeId, std::size_t>> stack;
-    std::vector<NodeId> fanin;
-    for (NodeId root = 0; root < nodes_.size(); ++root) {
+    for (NodeId root : roots) {
         if (!isLogic(root) || state[root]) continue;
         stack.push_back({root, 0});
         state[root] = 1;

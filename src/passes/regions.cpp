@@ -54,45 +54,17 @@ constexpr Literal kUnmapped = ~Literal{0};
 std::vector<int> cutRegions(const net::Network& net, std::size_t regionLiterals, int& count,
                             std::vector<net::NodeId>& order) {
     std::vector<int> region(net.nodeCount(), -1);
-    std::vector<std::uint8_t> state(net.nodeCount(), 0);
-    std::vector<std::pair<net::NodeId, std::size_t>> stack;
+    std::vector<net::NodeId> roots;
+    for (const net::Output& o : net.outputs()) roots.push_back(literalVar(o.driver));
+    order = net.postOrderFrom(roots);
     int current = 0;
     std::size_t literals = 0;
-    for (const net::Output& o : net.outputs()) {
-        const net::NodeId root = literalVar(o.driver);
-        if (!net.isLogic(root) || state[root]) continue;
-        stack.push_back({root, 0});
-        state[root] = 1;
-        while (!stack.empty()) {
-            auto& [id, next] = stack.back();
-            const Cover& cv = net.node(id).cover;
-            bool pushed = false;
-            std::size_t k = 0;
-            for (const Cube& c : cv.cubes) {
-                for (Literal l : c.lits) {
-                    if (k++ < next) continue;
-                    ++next;
-                    const net::NodeId v = literalVar(l);
-                    if (net.isLogic(v) && state[v] == 0) {
-                        state[v] = 1;
-                        stack.push_back({v, 0});
-                        pushed = true;
-                        break;
-                    }
-                }
-                if (pushed) break;
-            }
-            if (pushed) continue;
-            const net::NodeId done = id;
-            stack.pop_back();
-            state[done] = 2;
-            region[done] = current;
-            order.push_back(done);
-            literals += net.node(done).cover.literalCount();
-            if (literals >= regionLiterals) {
-                ++current;
-                literals = 0;
-            }
+    for (net::NodeId id : order) {
+        region[id] = current;
+        literals += net.node(id).cover.literalCount();
+        if (literals >= regionLiterals) {
+            ++current;
+            literals = 0;
         }
     }
     count = literals > 0 ? current + 1 : current;

@@ -79,6 +79,9 @@ public:
     bool isLogic(NodeId id) const { return nodes_[id].kind == NodeKind::Logic && !nodes_[id].dead; }
     /// Live logic nodes in topological order (fanins before fanouts), reachable or not.
     std::vector<NodeId> topoOrder() const;
+    /// The logic nodes that `roots` reach (logic roots only), depth-first post-order from each
+    /// root in turn: fanins before fanouts, each node once.
+    std::vector<NodeId> postOrderFrom(const std::vector<NodeId>& roots) const;
     /// Fanout lists of every node (logic nodes and outputs' drivers are counted separately: see outputRefs).
     std::vector<std::vector<NodeId>> fanouts() const;
     /// Number of outputs each node drives.
