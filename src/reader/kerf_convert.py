@@ -381,7 +381,7 @@ class Conv:
         raise Unsupported("refers to '%s', which is not a signal of this module" % sym.name)
 
     def x_hier(self, e):
-        raise Unsupported("uses the hierarchical reference '%s'" % _text(e))
+        raise Unsupported("%s '%s'" % (_hier_what(e, "uses"), _text(e)))
 
     def x_lvref(self, e):
         if self.lvref is None:
@@ -803,7 +803,7 @@ class Conv:
             parts = [self.lvalue(o) for o in e.operands if o.type.bitWidth != 0]
             return self.add(["concat", ti] + list(self.span(e)) + [parts])
         if k == EK.HierarchicalValue:
-            raise Unsupported("assigns the hierarchical reference '%s'" % _text(e))
+            raise Unsupported("%s '%s'" % (_hier_what(e, "assigns"), _text(e)))
         raise Unsupported("assigns a target of kind %s" % k.name)
 
     def target(self, e):
@@ -1178,6 +1178,15 @@ def _contains_exit(s, loop, ret, kinds=(STK.Break, STK.Continue)):
         elif k == STK.Timed:
             work.append((x.stmt, outer))
     return False
+
+
+def _hier_what(e, verb):
+    """How a message names a hierarchical reference: a member of an interface port (reached
+    through its modport) is the module's own boundary, kept as written like a port (F29)."""
+    sym = getattr(e, "symbol", None)
+    if sym is not None and sym.kind == SK.ModportPort:
+        return "%s a member of an interface port" % verb
+    return "%s the hierarchical reference" % verb
 
 
 def _text(e):

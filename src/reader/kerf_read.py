@@ -145,7 +145,7 @@ def main(argv=None):
     sys.dont_write_bytecode = True     # keep the source tree free of __pycache__
     import kerf_describe
 
-    extra = []
+    extra = ["--allow-toplevel-iface-ports"]   # a module with interface ports is read on its own (F29)
     for a in args.params:
         extra += ["-G", a]
     if args.top:

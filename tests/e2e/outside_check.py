@@ -41,7 +41,8 @@ def _slang_compile(files, top, defines=(), params=(), include_dirs=()):
         cmd += ["-D", d]
     for p in params:
         cmd += ["-G", p]
-    cmd += ["--top", top] + list(files)
+    # A module with interface ports is elaborated on its own, as kerf's reader does (F29).
+    cmd += ["--allow-toplevel-iface-ports", "--top", top] + list(files)
     drv = sdriver.Driver()
     drv.addStandardArgs()
     if not drv.parseCommandLine(" ".join(_quote(a) for a in cmd), sdriver.CommandLineOptions()) \
@@ -59,7 +60,10 @@ def _slang_compile(files, top, defines=(), params=(), include_dirs=()):
 def signals(files, top, defines=(), params=(), include_dirs=()):
     """(ports, internals) of `top` as slang elaborates it.
 
-    ports: dicts with name, dir (in/out/inout), width, signed, in declaration order.
+    ports: dicts with name, dir (in/out/inout), width, signed, in declaration order. An
+    interface port with a modport gives one entry per modport member, named `port.member`, with
+    "iface": (port name, interface name) — a testbench instantiates the interface per side and
+    drives or reads the member through it.
     internals: dicts with name and width of the nets and variables declared directly in the
     module body (not in generate blocks) with an integral type — the names a testbench can
     refer to, which a rewrite must keep declared and driven with the same values."""
@@ -70,6 +74,9 @@ def signals(files, top, defines=(), params=(), include_dirs=()):
         raise RuntimeError(f"slang finds no top module {top} in {files}")
     out = []
     for p in tops[0].body.portList:
+        if p.kind == ast.SymbolKind.InterfacePort:
+            out += _interface_members(p)
+            continue
         d = str(p.direction).split(".")[-1]
         out.append({"name": p.name, "dir": {"In": "in", "Out": "out", "InOut": "inout"}.get(d, d.lower()),
                     "width": p.type.bitWidth, "signed": bool(p.type.isSigned)})
@@ -80,6 +87,25 @@ def signals(files, top, defines=(), params=(), include_dirs=()):
                 and m.type.isIntegral:
             internals.append({"name": m.name, "width": m.type.bitWidth})
     return out, internals
+
+
+def _interface_members(port):
+    """The members of an interface port's modport as port entries (see `signals`)."""
+    from pyslang import ast
+    inst = port.connection[0] if isinstance(port.connection, tuple) else port.connection
+    if not port.modport or inst is None:
+        raise RuntimeError(f"interface port {port.name}: the testbench needs a modport to know "
+                           "which members are inputs")
+    found = []
+    for m in inst.body:
+        if m.kind == ast.SymbolKind.Modport and m.name == port.modport:
+            for mm in m:
+                d = str(mm.direction).split(".")[-1]
+                found.append({"name": f"{port.name}.{mm.name}",
+                              "dir": {"In": "in", "Out": "out", "InOut": "inout"}.get(d, d.lower()),
+                              "width": mm.type.bitWidth, "signed": bool(mm.type.isSigned),
+                              "iface": (port.name, port.interfaceDef.name)})
+    return found
 
 
 def ports(files, top, defines=(), params=(), include_dirs=()):
@@ -224,9 +250,27 @@ def testbench_module(pair, name, finish=False):
     for i, p in enumerate(outs):
         L.append(f"  wire [{p['width'] - 1}:0] ra{i}, rb{i};")
 
+    # Interface ports: one interface instance per side, its modport members driven and read
+    # through hierarchical references.
+    ifaces = {}
+    for p in pair.ports:
+        if "iface" in p:
+            ifaces.setdefault(p["iface"][0], p["iface"][1])
+    for port, idef in ifaces.items():
+        L.append(f"  {idef} ifa_{port} ();")
+        L.append(f"  {idef} ifb_{port} ();")
+    for side in "ab":
+        for i, p in enumerate(ins):
+            if "iface" in p:
+                L.append(f"  assign if{side}_{p['name']} = in{i};")
+        for i, p in enumerate(outs):
+            if "iface" in p:
+                L.append(f"  assign r{side}{i} = if{side}_{p['name']};")
+
     def conns(side):
-        c = [f".{_vname(p['name'])}(in{i})" for i, p in enumerate(ins)]
-        c += [f".{_vname(p['name'])}(r{side}{i})" for i, p in enumerate(outs)]
+        c = [f".{_vname(p['name'])}(in{i})" for i, p in enumerate(ins) if "iface" not in p]
+        c += [f".{_vname(p['name'])}(r{side}{i})" for i, p in enumerate(outs) if "iface" not in p]
+        c += [f".{_vname(port)}(if{side}_{port})" for port in ifaces]
         if pair.clock:
             c.append(f".{_vname(pair.clock)}(clk_r)")
         if pair.reset:
