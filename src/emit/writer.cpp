@@ -183,6 +183,11 @@ void originalReads(const frontend::ModuleDesc& m, const frontend::Member& mem,
             }
             stmts.push_back(st.d);
             break;
+        case StmtKind::CaseTable:
+            read(st.a);
+            for (frontend::ExprId t : ir.caseTables[st.b].targets) targets.push_back(t);
+            stmts.push_back(st.d);
+            break;
         case StmtKind::For:
             for (std::uint32_t k = 0; k < st.b; ++k) read(ir.forInits[st.a + k].value);
             read(st.c);

@@ -23,7 +23,7 @@ namespace {
 
 using json = nlohmann::json;
 
-constexpr int kFormatVersion = 2;
+constexpr int kFormatVersion = 3;
 // Widths beyond this are refused as malformed (no packed type in real RTL comes near).
 constexpr std::uint32_t kMaxWidth = 1u << 24;
 
@@ -233,6 +233,25 @@ CheckKind checkKind(const json& v, const std::string& where) {
     invalid(fmt::format("{}: unknown check '{}'", where, s));
 }
 
+CaseKind caseKind(const json& v, const std::string& where) {
+    if (!v.is_string()) invalid(where + ": case kind is not a string");
+    std::string k = v.get<std::string>();
+    if (k == "case") return CaseKind::Normal;
+    if (k == "casez") return CaseKind::Z;
+    if (k == "casex") return CaseKind::X;
+    if (k == "inside") return CaseKind::Inside;
+    invalid(where + ": unknown case kind " + k);
+}
+
+std::uint8_t caseAttrs(const json& v, const std::string& where) {
+    std::uint8_t attrs = 0;
+    for (const auto& a : names(v, where + " attributes")) {
+        if (a == "full_case") attrs |= kFullCase;
+        if (a == "parallel_case") attrs |= kParallelCase;
+    }
+    return attrs;
+}
+
 // ---- the builder --------------------------------------------------------------
 
 class DescriptionBuilder {
@@ -255,6 +274,12 @@ private:
     }
     void addExpr(const json& e);
     void addStmt(const json& s);
+    /// The columns of a `case_table` statement; bit strings go to Ir::constBits, LSB first.
+    CaseTable caseTable(const json& t, const std::string& where);
+    /// `run` runs of `width` characters of `text` (MSB first each) appended to Ir::constBits
+    /// LSB first; returns their offset.
+    std::uint32_t bitRuns(const std::string& text, std::uint32_t width, std::uint32_t runs, bool unset,
+                          const std::string& where);
     void parseTypes(const json& j);
     void parseSignals(const json& root);
     void parseParameters(const json& root);
@@ -451,10 +476,7 @@ void DescriptionBuilder::addStmt(const json& s) {
     } else if (kind == "case") {
         need(9);
         x.kind = StmtKind::Case;
-        if (!s[3].is_string()) invalid(where + ": case kind is not a string");
-        std::string k = s[3].get<std::string>();
-        x.caseKind = k == "case" ? CaseKind::Normal : k == "casez" ? CaseKind::Z : k == "casex" ? CaseKind::X
-                   : k == "inside" ? CaseKind::Inside : (invalid(where + ": unknown case kind " + k), CaseKind::Normal);
+        x.caseKind = caseKind(s[3], where);
         x.check = checkKind(s[4], where);
         x.a = asIndex(s[5], where);
         if (!s[6].is_array()) invalid(where + ": case items are not a list");
@@ -474,10 +496,17 @@ void DescriptionBuilder::addStmt(const json& s) {
         }
         x.c = static_cast<std::uint32_t>(s[6].size());
         x.d = child(s[7], true);
-        for (const auto& a : names(s[8], where + " attributes")) {
-            if (a == "full_case") x.attrs |= kFullCase;
-            if (a == "parallel_case") x.attrs |= kParallelCase;
-        }
+        x.attrs = caseAttrs(s[8], where);
+    } else if (kind == "case_table") {
+        need(9);
+        x.kind = StmtKind::CaseTable;
+        x.caseKind = caseKind(s[3], where);
+        x.check = checkKind(s[4], where);
+        x.a = asIndex(s[5], where);
+        x.b = static_cast<std::uint32_t>(ir().caseTables.size());
+        ir().caseTables.push_back(caseTable(s[6], where));
+        x.d = child(s[7], true);
+        x.attrs = caseAttrs(s[8], where);
     } else if (kind == "for") {
         need(7);
         x.kind = StmtKind::For;
@@ -499,6 +528,71 @@ void DescriptionBuilder::addStmt(const json& s) {
         invalid(fmt::format("{} has the unknown kind '{}'", where, kind));
     }
     ir().stmts.push_back(x);
+}
+
+std::uint32_t DescriptionBuilder::bitRuns(const std::string& text, std::uint32_t width, std::uint32_t runs,
+                                          bool unset, const std::string& where) {
+    if (static_cast<std::uint64_t>(width) * runs != text.size()) invalid(where + " has the wrong length");
+    std::string& out = ir().constBits;
+    if (out.size() + text.size() >= kNoId) invalid(where + ": too many constant bits");
+    std::uint32_t off = static_cast<std::uint32_t>(out.size());
+    out.reserve(out.size() + text.size());
+    for (std::uint32_t r = 0; r < runs; ++r) {
+        const char* run = text.data() + static_cast<std::size_t>(r) * width;
+        for (std::uint32_t i = width; i-- > 0;) {
+            char c = run[i];
+            if (c != '0' && c != '1' && c != 'x' && c != 'z' && !(unset && c == '-'))
+                invalid(fmt::format("{} holds the character '{}'", where, c));
+            out.push_back(c);
+        }
+    }
+    return off;
+}
+
+CaseTable DescriptionBuilder::caseTable(const json& t, const std::string& where) {
+    CaseTable ct;
+    std::int64_t w = num(t, "width", where + " table");
+    if (w < 1 || w > kMaxWidth) invalid(where + ": label width out of range");
+    ct.width = static_cast<std::uint32_t>(w);
+    ct.labelsSigned = flag(t, "signed", where + " table");
+    const std::string labels = str(t, "labels", where + " table");
+    if (labels.size() % ct.width != 0) invalid(where + ": labels are not a whole number of labels");
+    ct.labelCount = static_cast<std::uint32_t>(labels.size() / ct.width);
+    if (ct.labelCount == 0) invalid(where + ": a case table without labels");
+    ct.labels = bitRuns(labels, ct.width, ct.labelCount, false, where + " labels");
+    if (t.contains("counts")) {
+        const json& c = t["counts"];
+        if (!c.is_array()) invalid(where + ": label counts are not a list");
+        ct.firstLabel.push_back(0);
+        std::uint64_t sum = 0;
+        for (const auto& n : c) {
+            std::int64_t k = asInt(n, where + " label count");
+            if (k < 1) invalid(where + ": an item without labels");
+            sum += static_cast<std::uint64_t>(k);
+            if (sum > ct.labelCount) invalid(where + ": label counts exceed the labels");
+            ct.firstLabel.push_back(static_cast<std::uint32_t>(sum));
+        }
+        if (sum != ct.labelCount) invalid(where + ": label counts do not add up to the labels");
+        ct.items = static_cast<std::uint32_t>(c.size());
+    } else {
+        ct.items = ct.labelCount;
+    }
+    const json& targets = field(t, "targets", where + " table");
+    const json& values = field(t, "values", where + " table");
+    if (!targets.is_array() || !values.is_array() || targets.size() != values.size())
+        invalid(where + ": targets and values do not pair up");
+    for (std::size_t k = 0; k < targets.size(); ++k) {
+        ExprId e = asIndex(targets[k], where + " target");
+        if (e == kNoId) invalid(where + " names no target");
+        ct.targets.push_back(e);
+        if (!values[k].is_string()) invalid(where + ": values are not a string");
+        const std::string& v = values[k].get_ref<const std::string&>();
+        // The target's width is known once the expressions are read: checked in validateStmts.
+        if (v.size() % ct.items != 0) invalid(where + ": values are not a whole number per item");
+        ct.columnWidths.push_back(static_cast<std::uint32_t>(v.size() / ct.items));
+        ct.columns.push_back(bitRuns(v, ct.columnWidths.back(), ct.items, true, where + " values"));
+    }
+    return ct;
 }
 
 void DescriptionBuilder::parseTypes(const json& j) {
@@ -931,6 +1025,22 @@ void DescriptionBuilder::validateStmts() {
                 for (std::uint32_t j = 0; j < ci.count; ++j) expr(r.lists[ci.exprs + j], i);
             }
             break;
+        case StmtKind::CaseTable: {
+            expr(s.a, i);
+            const CaseTable& ct = r.caseTables[s.b];
+            for (std::size_t k = 0; k < ct.targets.size(); ++k) {
+                ExprId t = ct.targets[k];
+                expr(t, i);
+                const Expr& e = r.exprs[t];
+                bool ok = e.kind == ExprKind::Ref;
+                if ((e.kind == ExprKind::Range || e.kind == ExprKind::Index) && r.exprs[e.a].kind == ExprKind::Ref)
+                    ok = e.kind == ExprKind::Range || r.exprs[e.b].kind == ExprKind::Const;
+                if (!ok) invalid(fmt::format("statement {}: a case table target that is not a fixed part of a signal", i));
+                if (ct.columnWidths[k] != e.width)
+                    invalid(fmt::format("statement {}: case table values do not match the target's width", i));
+            }
+            break;
+        }
         case StmtKind::For:
             expr(s.c, i);
             for (std::uint32_t k = 0; k < s.b; ++k) {
@@ -986,6 +1096,11 @@ void DescriptionBuilder::checkOwnership() {
                 for (std::uint32_t j = 0; j < ci.count; ++j) ex(r.lists[ci.exprs + j]);
                 sub(ci.body);
             }
+            sub(s.d);
+            break;
+        case StmtKind::CaseTable:
+            ex(s.a);
+            for (ExprId t : r.caseTables[s.b].targets) ex(t);
             sub(s.d);
             break;
         case StmtKind::For:

@@ -180,7 +180,14 @@ public:
 
     // -- statements and targets (lower_stmt.cpp)
     void exec(StmtId s);
+    /// A `case` or a case table: every label's condition, then the items' values merged per bit
+    /// (a parallel sum of products when the labels are exclusive constants, else a priority chain).
     void execCase(StmtId s);
+    /// The condition that a constant label (bits MSB first) matches the selector `selW`, already
+    /// at the case width (12.5); `pattern` gets the label's bits MSB first with '-' for a
+    /// wildcard, and is left empty when the label can never match.
+    Literal caseLabelCond(const std::string& bits, bool labelSigned, bool selSigned, const Bits& selW,
+                          CaseKind kind, bool selMaybeUnknown, std::string& pattern);
     void mergeInto(Env& target, const Env& other, Literal cond);
     /// Bits a block leaves unassigned on a path that cannot happen by the source's
     /// own statement (an incomplete `unique`/`priority` case or if, `(* full_case *)`)
@@ -234,6 +241,8 @@ public:
 
 /// Every expression reachable from a member's statements and targets, each once.
 std::vector<ExprId> memberExprs(const Ir& ir, const Member& m);
+/// The case tables of a member's statements and of the functions it calls.
+std::vector<const CaseTable*> memberCaseTables(const Ir& ir, const Member& m);
 /// Constants a member assigns as values (through ?:, concatenations, conversions):
 /// their x bits are the author's don't-cares.
 void collectAssignedX(const Ir& ir, const Member& m, std::set<ExprId>& out);

@@ -48,6 +48,15 @@ bool indexFits(const Ir& ir, ExprId idx, std::int64_t lo, std::int64_t hi, std::
 /// or power by what can be 0 (11.4.2). Conservative: a target's select counts too.
 bool textMayBeX(const Ir& ir, const Member& mem) {
     if (mem.kind == MemberKind::Kept) return mem.mayBeX;
+    for (const CaseTable* t : memberCaseTables(ir, mem)) {
+        // Labels and values are constants of the text; '-' marks a value not assigned.
+        std::size_t end = t->labels + static_cast<std::size_t>(t->labelCount) * t->width;
+        for (std::size_t i = t->labels; i < end; ++i)
+            if (char c = ir.constBits[i]; c == 'x' || c == 'z') return true;
+        for (std::size_t k = 0; k < t->columns.size(); ++k)
+            for (std::size_t i = 0, n = static_cast<std::size_t>(t->columnWidths[k]) * t->items; i < n; ++i)
+                if (char c = ir.constBits[t->columns[k] + i]; c == 'x' || c == 'z') return true;
+    }
     for (ExprId id : memberExprs(ir, mem)) {
         const Expr& e = ir.expr(id);
         switch (e.kind) {

@@ -51,6 +51,11 @@ void stmtRoots(const Ir& ir, StmtId root, std::vector<ExprId>& roots) {
             }
             if (s.d != kNoId) work.push_back(s.d);
             break;
+        case StmtKind::CaseTable:
+            roots.push_back(s.a);
+            for (ExprId t : ir.caseTables[s.b].targets) roots.push_back(t);
+            if (s.d != kNoId) work.push_back(s.d);
+            break;
         case StmtKind::For:
             for (std::uint32_t k = 0; k < s.b; ++k) roots.push_back(ir.forInits[s.a + k].value);
             roots.push_back(s.c);
@@ -78,10 +83,25 @@ void stmtValues(const Ir& ir, StmtId root, std::vector<ExprId>& values) {
             for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir.caseItems[st.b + k].body);
             if (st.d != kNoId) work.push_back(st.d);
             break;
+        case StmtKind::CaseTable:   // its values are columns, not expressions (tableValueBits)
+            if (st.d != kNoId) work.push_back(st.d);
+            break;
         case StmtKind::For: work.push_back(st.f); break;
         case StmtKind::Empty: break;
         }
     }
+}
+
+/// Every value character ('0' '1' 'x' 'z') of the case tables of a member and of the
+/// functions it calls.
+template <typename F>
+void tableValueBits(const Ir& ir, const Member& mem, F each) {
+    for (const CaseTable* t : memberCaseTables(ir, mem))
+        for (std::size_t k = 0; k < t->columns.size(); ++k)
+            for (std::size_t i = 0, n = static_cast<std::size_t>(t->columnWidths[k]) * t->items; i < n; ++i) {
+                char c = ir.constBits[t->columns[k] + i];
+                if (c != '-') each(c);
+            }
 }
 
 void memberValues(const Ir& ir, const Member& mem, std::vector<ExprId>& values) {
@@ -120,6 +140,37 @@ void valueConstants(const Ir& ir, std::vector<ExprId> work, F each) {
 }
 
 } // namespace
+
+std::vector<const CaseTable*> memberCaseTables(const Ir& ir, const Member& mem) {
+    std::vector<const CaseTable*> out;
+    if (mem.kind != MemberKind::Comb) return out;
+    std::vector<StmtId> work{mem.body};
+    std::set<std::uint32_t> functions;
+    for (ExprId id : memberExprs(ir, mem))
+        if (ir.expr(id).kind == ExprKind::Call && functions.insert(ir.expr(id).a).second)
+            work.push_back(ir.functions[ir.expr(id).a].body);
+    while (!work.empty()) {
+        const Stmt& st = ir.stmt(work.back());
+        work.pop_back();
+        switch (st.kind) {
+        case StmtKind::Block:
+            for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir.lists[st.a + k]);
+            break;
+        case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
+        case StmtKind::Case:
+            for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir.caseItems[st.b + k].body);
+            if (st.d != kNoId) work.push_back(st.d);
+            break;
+        case StmtKind::CaseTable:
+            out.push_back(&ir.caseTables[st.b]);
+            if (st.d != kNoId) work.push_back(st.d);
+            break;
+        case StmtKind::For: work.push_back(st.f); break;
+        case StmtKind::Assign: case StmtKind::Empty: break;
+        }
+    }
+    return out;
+}
 
 std::vector<ExprId> memberExprs(const Ir& ir, const Member& m) {
     std::vector<ExprId> roots;
@@ -248,6 +299,10 @@ std::string Lowerer::unsupportedReason(const Member& mem) const {
             assignsX = assignsX || c == 'x';
         }
     });
+    tableValueBits(ir_, mem, [&](char c) {
+        drivesZ = drivesZ || c == 'z';
+        assignsX = assignsX || c == 'x';
+    });
     if (drivesZ) return "it can drive z (a tri-state driver), which kerf always keeps as written";
     if (opts_.keepX && assignsX) return "it assigns x (a don't-care); --keep-x keeps it as written";
     for (ExprId id : memberExprs(ir_, mem)) {
@@ -289,6 +344,11 @@ std::string Lowerer::unsupportedReason(const Member& mem) const {
             break;
         case StmtKind::Case:
             for (std::uint32_t k = 0; k < s.c; ++k) work.push_back({ir_.caseItems[s.b + k].body, depth + 1});
+            if (s.d != kNoId) work.push_back({s.d, depth + 1});
+            break;
+        case StmtKind::CaseTable:
+            for (ExprId t : ir_.caseTables[s.b].targets)
+                if (auto r = targetReason(ir_, t); !r.empty()) return r;
             if (s.d != kNoId) work.push_back({s.d, depth + 1});
             break;
         case StmtKind::For:
@@ -370,6 +430,10 @@ void Lowerer::stmtWriteSet(StmtId root, std::vector<std::pair<SymbolId, int>>& o
             break;
         case StmtKind::Case:
             for (std::uint32_t k = 0; k < s.c; ++k) work.push_back(ir_.caseItems[s.b + k].body);
+            if (s.d != kNoId) work.push_back(s.d);
+            break;
+        case StmtKind::CaseTable:
+            for (ExprId t : ir_.caseTables[s.b].targets) targetWriteSet(t, out);
             if (s.d != kNoId) work.push_back(s.d);
             break;
         case StmtKind::For:
@@ -592,6 +656,7 @@ void Lowerer::exec(StmtId id) {
         return;
     }
     case StmtKind::Case:
+    case StmtKind::CaseTable:
         execCase(id);
         return;
     case StmtKind::For: {
@@ -616,20 +681,62 @@ void Lowerer::exec(StmtId id) {
     }
 }
 
+Literal Lowerer::caseLabelCond(const std::string& labelBits, bool labelSigned, bool selSigned, const Bits& selW,
+                               CaseKind kind, bool selMaybeUnknown, std::string& pattern) {
+    // The label's bits, MSB first, extended to the case width.
+    const std::size_t width = selW.size();
+    std::string bits = labelBits;
+    char fillc = labelSigned && selSigned && !bits.empty() ? bits[0] : '0';
+    if (bits.size() < width) bits.insert(bits.begin(), width - bits.size(), fillc);
+    pattern.clear();
+    Lits terms;
+    bool never = false;
+    for (std::size_t i = 0; i < width; ++i) {
+        char ch = bits[bits.size() - 1 - i];
+        bool unknownItem = ch == 'x' || ch == 'z';
+        bool wild = ch == 'z' ? kind != CaseKind::Normal
+                  : ch == 'x' ? (kind == CaseKind::X || kind == CaseKind::Inside)
+                              : false;
+        if (wild) { pattern.push_back('-'); continue; }
+        if (unknownItem) {
+            // Matches only the same x or z in the selector (12.5).
+            if (selMaybeUnknown) keep("a case item with x or z bits compared with a selector that can be x or z");
+            never = true;
+            continue;
+        }
+        pattern.push_back(ch);
+        const Bit& b = selW[i];
+        Literal eq = ch == '1' ? b.v : negateLiteral(b.v);
+        // casex: an unknown selector bit matches anything; elsewhere it matches nothing.
+        terms.push_back(kind == CaseKind::X ? b_.or2(b.x, eq) : b_.and2(negateLiteral(b.x), eq));
+    }
+    std::reverse(pattern.begin(), pattern.end());
+    if (never) {
+        pattern.clear();
+        return kFalse;
+    }
+    return b_.andN(terms);
+}
+
 void Lowerer::execCase(StmtId id) {
     const Stmt& s = ir_.stmt(id);
+    const CaseTable* table = s.kind == StmtKind::CaseTable ? &ir_.caseTables[s.b] : nullptr;
     const Expr& sel = ir_.expr(s.a);
     Bits selBits = eval(s.a);
-    struct Item {
-        Literal cond;          // the item matches (x/z compared as 12.5 says)
-        StmtId body;
+    struct Arm {
+        Literal cond;          // the label matches (x/z compared as 12.5 says)
+        std::uint32_t item;    // the item (case item or table row) it belongs to
         std::string pattern;   // constant pattern, MSB first ('-' = wildcard); empty when not constant
     };
-    std::vector<Item> items;
+    std::vector<Arm> arms;
     std::size_t width = selBits.size();
-    for (std::uint32_t k = 0; k < s.c; ++k) {
-        const CaseItem& ci = ir_.caseItems[s.b + k];
-        for (std::uint32_t j = 0; j < ci.count; ++j) width = std::max<std::size_t>(width, ir_.expr(ir_.lists[ci.exprs + j]).width);
+    if (table) {
+        width = std::max<std::size_t>(width, table->width);
+    } else {
+        for (std::uint32_t k = 0; k < s.c; ++k) {
+            const CaseItem& ci = ir_.caseItems[s.b + k];
+            for (std::uint32_t j = 0; j < ci.count; ++j) width = std::max<std::size_t>(width, ir_.expr(ir_.lists[ci.exprs + j]).width);
+        }
     }
     bool selSigned = sel.isSigned;
     Bits selW = extend(selBits, static_cast<int>(width), selSigned);
@@ -639,65 +746,55 @@ void Lowerer::execCase(StmtId id) {
     if (selMaybeUnknown && kind == CaseKind::Z)
         keep("a casez selector that can be x or z (x is not told apart from z here)");
     bool allConst = true;
-    for (std::uint32_t k = 0; k < s.c; ++k) {
-        const CaseItem& ci = ir_.caseItems[s.b + k];
-        for (std::uint32_t j = 0; j < ci.count; ++j) {
-            ExprId xid = ir_.lists[ci.exprs + j];
-            const Expr& x = ir_.expr(xid);
-            std::string pattern;
-            Literal c;
-            if (ci.conditions != kNoId && ir_.itemIsCondition[ci.conditions + j]) {
-                allConst = false;
-                c = truth(eval(xid)).v;   // a range of a case inside: matches when true (x: no match)
-            } else if (x.kind == ExprKind::Const) {
-                // The item's bits, MSB first, extended to the case width.
-                std::string bits;
-                for (std::uint32_t i = x.width; i-- > 0;) bits.push_back(ir_.constBit(x, i));
-                char fillc = x.isSigned && selSigned && !bits.empty() ? bits[0] : '0';
-                while (bits.size() < width) bits.insert(bits.begin(), fillc);
-                Lits terms;
-                bool never = false;
-                for (std::size_t i = 0; i < width; ++i) {
-                    char ch = bits[bits.size() - 1 - i];
-                    bool unknownItem = ch == 'x' || ch == 'z';
-                    bool wild = ch == 'z' ? kind != CaseKind::Normal
-                              : ch == 'x' ? (kind == CaseKind::X || kind == CaseKind::Inside)
-                                          : false;
-                    if (wild) { pattern.insert(pattern.begin(), '-'); continue; }
-                    if (unknownItem) {
-                        // Matches only the same x or z in the selector (12.5).
-                        if (selMaybeUnknown) keep("a case item with x or z bits compared with a selector that can be x or z");
-                        never = true;
-                        continue;
-                    }
-                    pattern.insert(pattern.begin(), ch);
-                    const Bit& b = selW[i];
-                    Literal eq = ch == '1' ? b.v : negateLiteral(b.v);
-                    // casex: an unknown selector bit matches anything; elsewhere it matches nothing.
-                    terms.push_back(kind == CaseKind::X ? b_.or2(b.x, eq) : b_.and2(negateLiteral(b.x), eq));
-                }
-                c = never ? kFalse : b_.andN(terms);
-                if (never) pattern.clear(), allConst = false;
-            } else {
-                allConst = false;
-                Bits item = extend(eval(xid), static_cast<int>(width), x.isSigned && selSigned);
-                Literal itemX = anyX(item);
-                if (kind == CaseKind::Inside) {
-                    c = equality(selW, item, true).v;   // `==?` true (12.5.4)
-                } else {
-                    if (itemX != kFalse && (selMaybeUnknown || kind != CaseKind::Normal))
-                        keep("a case item that can be x or z compared with x/z semantics kerf does not model");
-                    if (kind == CaseKind::X) {
-                        Lits terms;
-                        for (std::size_t i = 0; i < width; ++i)
-                            terms.push_back(b_.or2(selW[i].x, negateLiteral(b_.xor2(selW[i].v, item[i].v))));
-                        c = b_.andN(terms);
-                    } else {
-                        c = b_.andN({negateLiteral(selX), negateLiteral(itemX), equal(values(selW), values(item))});
-                    }
-                }
+    if (table) {
+        std::string bits(table->width, '0');
+        arms.reserve(table->labelCount);
+        for (std::uint32_t k = 0; k < table->items; ++k)
+            for (std::uint32_t j = table->labelBegin(k); j < table->labelEnd(k); ++j) {
+                const char* lsbFirst = ir_.constBits.data() + table->labels + static_cast<std::size_t>(j) * table->width;
+                for (std::uint32_t i = 0; i < table->width; ++i) bits[table->width - 1 - i] = lsbFirst[i];
+                Arm arm{kFalse, k, {}};
+                arm.cond = caseLabelCond(bits, table->labelsSigned, selSigned, selW, kind, selMaybeUnknown, arm.pattern);
+                if (arm.pattern.empty()) allConst = false;
+                arms.push_back(std::move(arm));
             }
-            items.push_back(Item{c, ci.body, pattern});
+    } else {
+        for (std::uint32_t k = 0; k < s.c; ++k) {
+            const CaseItem& ci = ir_.caseItems[s.b + k];
+            for (std::uint32_t j = 0; j < ci.count; ++j) {
+                ExprId xid = ir_.lists[ci.exprs + j];
+                const Expr& x = ir_.expr(xid);
+                std::string pattern;
+                Literal c;
+                if (ci.conditions != kNoId && ir_.itemIsCondition[ci.conditions + j]) {
+                    allConst = false;
+                    c = truth(eval(xid)).v;   // a range of a case inside: matches when true (x: no match)
+                } else if (x.kind == ExprKind::Const) {
+                    std::string bits;
+                    for (std::uint32_t i = x.width; i-- > 0;) bits.push_back(ir_.constBit(x, i));
+                    c = caseLabelCond(bits, x.isSigned, selSigned, selW, kind, selMaybeUnknown, pattern);
+                    if (pattern.empty()) allConst = false;
+                } else {
+                    allConst = false;
+                    Bits item = extend(eval(xid), static_cast<int>(width), x.isSigned && selSigned);
+                    Literal itemX = anyX(item);
+                    if (kind == CaseKind::Inside) {
+                        c = equality(selW, item, true).v;   // `==?` true (12.5.4)
+                    } else {
+                        if (itemX != kFalse && (selMaybeUnknown || kind != CaseKind::Normal))
+                            keep("a case item that can be x or z compared with x/z semantics kerf does not model");
+                        if (kind == CaseKind::X) {
+                            Lits terms;
+                            for (std::size_t i = 0; i < width; ++i)
+                                terms.push_back(b_.or2(selW[i].x, negateLiteral(b_.xor2(selW[i].v, item[i].v))));
+                            c = b_.andN(terms);
+                        } else {
+                            c = b_.andN({negateLiteral(selX), negateLiteral(itemX), equal(values(selW), values(item))});
+                        }
+                    }
+                }
+                arms.push_back(Arm{c, k, pattern});
+            }
         }
     }
     // Mutually exclusive items (no two patterns can match the same value) merge in
@@ -705,16 +802,17 @@ void Lowerer::execCase(StmtId id) {
     bool exclusive = allConst && !selMaybeUnknown;
     if (exclusive) {
         bool wild = false;
-        for (const auto& it : items) wild = wild || it.pattern.find('-') != std::string::npos;
+        for (const auto& it : arms) wild = wild || it.pattern.find('-') != std::string::npos;
         if (!wild) {
             std::unordered_set<std::string> seen;
-            for (const auto& it : items)
+            seen.reserve(arms.size());
+            for (const auto& it : arms)
                 if (!seen.insert(it.pattern).second) exclusive = false;
-        } else if (items.size() <= 4000) {
-            for (std::size_t i = 0; i < items.size() && exclusive; ++i)
-                for (std::size_t j = i + 1; j < items.size() && exclusive; ++j) {
-                    const auto& p = items[i].pattern;
-                    const auto& q = items[j].pattern;
+        } else if (arms.size() <= 4000) {
+            for (std::size_t i = 0; i < arms.size() && exclusive; ++i)
+                for (std::size_t j = i + 1; j < arms.size() && exclusive; ++j) {
+                    const auto& p = arms[i].pattern;
+                    const auto& q = arms[j].pattern;
                     bool overlap = true;
                     for (std::size_t b = 0; b < p.size(); ++b)
                         if (p[b] != '-' && q[b] != '-' && p[b] != q[b]) { overlap = false; break; }
@@ -728,7 +826,7 @@ void Lowerer::execCase(StmtId id) {
     bool full = false;
     if (allConst && !selMaybeUnknown && width <= 16) {
         std::vector<std::uint8_t> hit(std::size_t{1} << width, 0);
-        for (const auto& it : items) {
+        for (const auto& it : arms) {
             std::vector<std::size_t> vals{0};
             for (std::size_t b = 0; b < width; ++b) {
                 char ch = it.pattern[width - 1 - b];
@@ -746,11 +844,12 @@ void Lowerer::execCase(StmtId id) {
 
     Env before = *env_;
     std::vector<Env> results;
-    for (const auto& it : items) {
-        *env_ = before;
-        if (it.cond != kFalse) exec(it.body);
-        results.push_back(*env_);
-    }
+    if (!table)
+        for (const auto& it : arms) {
+            *env_ = before;
+            if (it.cond != kFalse) exec(ir_.caseItems[s.b + it.item].body);
+            results.push_back(*env_);
+        }
     *env_ = before;
     if (hasDefault && !full) exec(s.d);
     // 12.5.3: no item matching a unique or priority case is a violation; the synthesis
@@ -760,17 +859,71 @@ void Lowerer::execCase(StmtId id) {
         unassignedToUnknown(*env_);
     Env dflt = std::move(*env_);
 
+    // A table row's value of a bit: the constant the column of the target that row assigns
+    // there holds, or the value before the case where the row assigns none. Per symbol and
+    // bit, the (target, position) pairs that can write it.
+    using Slots = std::vector<std::pair<std::uint32_t, std::uint32_t>>;
+    std::map<SymbolId, std::vector<Slots>> placed;
+    if (table) {
+        if (s.start != kNoId) b_.loc = here(s.start);
+        for (std::size_t k = 0; k < table->targets.size(); ++k) {
+            SymbolId sym = kNoId;
+            std::vector<Placement> places = targetPlaces(table->targets[k], sym);
+            auto var = before.vars.find(sym);
+            if (places.empty() || var == before.vars.end()) continue;   // writes nothing here
+            if (places.size() != 1 || places[0].first != kTrue)
+                fail("a case table target is not a fixed part of a signal", here(s.start), ExitCode::Internal);
+            auto& slots = placed[sym];
+            slots.resize(var->second.size());
+            const auto& offs = places[0].second;
+            for (std::size_t p = 0; p < offs.size(); ++p)
+                if (offs[p] >= 0 && static_cast<std::size_t>(offs[p]) < slots.size())
+                    slots[static_cast<std::size_t>(offs[p])].push_back(
+                        {static_cast<std::uint32_t>(k), static_cast<std::uint32_t>(p)});
+        }
+        // Targets sharing a bit: no row may assign two of them (the reader's promise).
+        for (const auto& [sym, slots] : placed)
+            for (const Slots& sl : slots) {
+                if (sl.size() < 2) continue;
+                for (std::uint32_t item = 0; item < table->items; ++item) {
+                    int assigned = 0;
+                    for (const auto& [k, p] : sl)
+                        assigned += ir_.constBits[table->columns[k] + static_cast<std::size_t>(item) * table->columnWidths[k] + p] != '-';
+                    if (assigned > 1)
+                        fail("a case table item assigns two targets that share a bit", here(s.start), ExitCode::Internal);
+                }
+            }
+    }
+
     Lits conds;
-    for (const auto& it : items) conds.push_back(it.cond);
+    conds.reserve(arms.size());
+    for (const auto& it : arms) conds.push_back(it.cond);
     Literal defaultCond = full ? kFalse : negateLiteral(b_.orN(conds));
     Env merged = dflt;
     for (auto& [name, bits] : merged.vars) {
         const Bits& dbits = dflt.vars[name];
+        const Bits& bbits = before.vars.at(name);
+        auto pl = placed.find(name);
+        const std::vector<Slots>* slots = pl == placed.end() ? nullptr : &pl->second;
         for (std::size_t bit = 0; bit < bits.size(); ++bit) {
+            const Slots* sl = slots ? &(*slots)[bit] : nullptr;
+            // The value arm `i` leaves in this bit.
+            auto value = [&](std::size_t i) -> Bit {
+                if (!table) return results[i].vars[name][bit];
+                if (sl)
+                    for (const auto& [k, p] : *sl) {
+                        char c = ir_.constBits[table->columns[k] +
+                                               static_cast<std::size_t>(arms[i].item) * table->columnWidths[k] + p];
+                        if (c == '-') continue;
+                        // A value the source assigns: an x in it is the author's don't-care.
+                        return c == '1' ? known(kTrue) : c == '0' ? known(kFalse) : kAssignedX;
+                    }
+                return bbits[bit];
+            };
             bool same = true, sentinel = isSentinel(dbits[bit]) && !full;
-            for (std::size_t i = 0; i < results.size(); ++i) {
-                Bit v = results[i].vars[name][bit];
-                if (items[i].cond == kFalse) continue;
+            for (std::size_t i = 0; i < arms.size(); ++i) {
+                if (arms[i].cond == kFalse) continue;
+                Bit v = value(i);
                 if (!(v == dbits[bit])) same = false;
                 if (isSentinel(v)) sentinel = true;
             }
@@ -780,9 +933,9 @@ void Lowerer::execCase(StmtId id) {
                 Bit first = known(kPartial);
                 bool allEq = true;
                 bool init = false;
-                for (std::size_t i = 0; i < results.size(); ++i) {
-                    if (items[i].cond == kFalse) continue;
-                    Bit v = results[i].vars[name][bit];
+                for (std::size_t i = 0; i < arms.size(); ++i) {
+                    if (arms[i].cond == kFalse) continue;
+                    Bit v = value(i);
                     if (!init) { first = v; init = true; } else if (!(v == first)) allEq = false;
                 }
                 if (!full) {
@@ -795,8 +948,8 @@ void Lowerer::execCase(StmtId id) {
             if (exclusive) {
                 // Group items by value: value v contributes (OR of its conditions) & v.
                 std::map<Bit, Lits> byValue;
-                for (std::size_t i = 0; i < results.size(); ++i)
-                    if (items[i].cond != kFalse) byValue[results[i].vars[name][bit]].push_back(items[i].cond);
+                for (std::size_t i = 0; i < arms.size(); ++i)
+                    if (arms[i].cond != kFalse) byValue[value(i)].push_back(arms[i].cond);
                 if (!full) byValue[dbits[bit]].push_back(defaultCond);
                 Lits vterms, xterms, sterms;
                 for (auto& [v, cs] : byValue) {
@@ -809,11 +962,11 @@ void Lowerer::execCase(StmtId id) {
             } else {
                 Bit acc = dbits[bit];
                 bool start = full;
-                for (std::size_t i = results.size(); i-- > 0;) {
-                    if (items[i].cond == kFalse) continue;
-                    Bit v = results[i].vars[name][bit];
+                for (std::size_t i = arms.size(); i-- > 0;) {
+                    if (arms[i].cond == kFalse) continue;
+                    Bit v = value(i);
                     if (start) { acc = v; start = false; continue; }
-                    acc = bMux(items[i].cond, v, acc);
+                    acc = bMux(arms[i].cond, v, acc);
                 }
                 bits[bit] = acc;
             }

@@ -169,6 +169,7 @@ class Tables:
         self.functions = []     # FUNCTION entries, by index
         self.fn_index = {}      # subroutine symbol -> index, or the reason it is not described
         self.fn_busy = set()    # functions being described (a call back into one is recursion)
+        self.lit_types = {}     # slang type -> (width, four-state, integral), for case tables
         # Everything up to here belongs to described functions: a member dropped later
         # must not take it along.
         self.watermark = (0, 0, 0)
@@ -923,6 +924,9 @@ class Conv:
             return self.add_stmt(["if"] + self.sspan(s) + [cond, then, els, CHECK[s.check]])
         if k == STK.Case:
             sel = self.expr(s.expr)
+            table = self.case_table(s, sel)
+            if table is not None:
+                return table
             items = []
             bit = self.types.vector(1, False)
             for g in s.items:
@@ -954,6 +958,144 @@ class Conv:
         if k == STK.Invalid:
             raise Unsupported("contains a statement slang could not bind")
         raise Unsupported("contains %s" % _STMT_REASON.get(k, "a %s statement" % k.name))
+
+    def literal_bits(self, x):
+        """(bits, slang type) of `x` when it is an integer literal, or a conversion of one that
+        keeps its width (slang's conversion of a case label or an assigned value to its
+        context's type); None for anything else."""
+        k = x.kind
+        if k is EK.IntegerLiteral:
+            t = x.type
+            return sv_bits(x.value, self.lit_type(t)[0]), t
+        if k is not EK.Conversion:
+            return None
+        o = x.operand
+        if o.kind is not EK.IntegerLiteral:
+            return None
+        t = x.type
+        w, four, integral = self.lit_type(t)
+        v = o.value
+        if v.bitWidth != w or not integral:
+            return None
+        bits = sv_bits(v, w)
+        if not four and ("x" in bits or "z" in bits):
+            bits = bits.replace("x", "0").replace("z", "0")
+        return bits, t
+
+    def lit_type(self, t):
+        """(width, four-state, integral) of slang type `t`, cached per type object."""
+        got = self.t.lit_types.get(t)
+        if got is None:
+            got = self.t.lit_types[t] = (t.bitWidth, bool(t.isFourState), bool(t.isIntegral))
+        return got
+
+    def case_table(self, s, sel):
+        """A case whose items are constants and whose item bodies only assign constants to
+        fixed bits (the shape of generated decoders and ROM tables) as one `case_table`
+        statement: the labels as one string, the values as one string per target
+        (docs/reader-format.md, "Case tables"). None when the case has another shape; the
+        caller then describes it item by item (nodes made here are left unused)."""
+        items = list(s.items)
+        if not items:
+            return None
+        types = self.types
+        info = types.info
+        labels = []
+        counts = []
+        lw = None
+        rows = []                 # per item: {target key: bits}
+        targets = {}              # target key -> (position, node, width)
+        by_symbol = {}            # slang symbol of a whole-signal target -> target key
+        for g in items:
+            exprs = g.expressions
+            for x in exprs:
+                got = self.literal_bits(x)
+                if got is not None:
+                    bits, xt = got
+                    xi = info(xt)
+                    wsig = (xi[1], xi[2])
+                else:
+                    if x.kind == EK.ValueRange:
+                        return None
+                    self.d.note_compare(s.expr, x)
+                    n = self.expr(x)
+                    if not self.is_const(n):
+                        return None
+                    bits = self.bits(n)
+                    wsig = self.wsig(n)
+                if lw is None:
+                    lw = wsig
+                elif wsig != lw:
+                    return None
+                labels.append(bits)
+            counts.append(len(exprs))
+            row = {}
+            work = [g.stmt]
+            while work:
+                st = work.pop()
+                sk = st.kind
+                if sk == STK.Block:
+                    if st.blockKind != ast.StatementBlockKind.Sequential:
+                        return None
+                    work.append(st.body)
+                elif sk == STK.List:
+                    work.extend(reversed(list(st.list)))
+                elif sk == STK.Empty:
+                    pass
+                elif sk == STK.ExpressionStatement:
+                    a = st.expr
+                    if a.kind != EK.Assignment or a.isNonBlocking or a.isCompound or a.timingControl is not None:
+                        return None
+                    left = a.left
+                    key = None
+                    if left.kind == EK.NamedValue:
+                        key = by_symbol.get(left.symbol)
+                    if key is None:
+                        node = self.target(left)
+                        sp = self._const_span(node)
+                        if sp is None:
+                            return None
+                        ref, lo, hi = sp
+                        key = (self.ex[ref][4], lo, hi)
+                        if key not in targets:
+                            targets[key] = (len(targets), node, hi - lo + 1)
+                        if left.kind == EK.NamedValue:
+                            by_symbol[left.symbol] = key
+                    tw = targets[key][2]
+                    r = a.right
+                    got = self.literal_bits(r)
+                    if got is not None and self.lit_type(got[1])[0] == tw:
+                        bits = got[0]
+                    else:
+                        rt = r.type
+                        if not rt.isIntegral:
+                            return None
+                        c = self.fold(r)
+                        if c is None:
+                            return None
+                        bits = convert_bits(self.bits(c), info(rt)[2], tw, True)
+                    row[key] = bits
+                else:
+                    return None
+            rows.append(row)
+        # Targets that share bits (`ctl` in one item, `ctl[7:4]` in another) are fine unless one
+        # item assigns two of them: then the order of its assignments would matter.
+        if _overlap(targets):
+            for r in rows:
+                if len(r) > 1 and _overlap(r):
+                    return None
+        order = sorted(targets.items(), key=lambda kv: kv[1][0])
+        columns = []
+        for key, (_, _, tw) in order:
+            unset = "-" * tw
+            columns.append("".join([r.get(key, unset) for r in rows]))
+        table = {"width": lw[0], "signed": lw[1], "labels": "".join(labels),
+                 "targets": [t[1] for _, t in order], "values": columns}
+        if any(c != 1 for c in counts):
+            table["counts"] = counts
+        dflt = self.stmt_or_empty(s.defaultCase) if s.defaultCase is not None else -1
+        return self.add_stmt(["case_table"] + self.sspan(s) + [_CASE_KIND[s.condition], CHECK[s.check], sel,
+                                                              table, dflt, self.d.case_attributes(s)])
 
     def stmt_or_empty(self, s):
         r = self.stmt(s)
@@ -1148,6 +1290,13 @@ class Conv:
             step = self.add_stmt(["assign"] + sp + [ref, nxt])
             body = self.add_stmt(["for"] + sp + [[[idx, k(l)]], cond, [step], body])
         return self.add_stmt(["block"] + sp + [before + [body]]) if before else body
+
+
+def _overlap(spans):
+    """Two of the (symbol, lo, hi) bit spans share a bit (sorted, a later span that overlaps
+    an earlier one overlaps the one right after it)."""
+    s = sorted(spans)
+    return any(a[0] == b[0] and b[1] <= a[2] for a, b in zip(s, s[1:]))
 
 
 def _contains_exit(s, loop, ret, kinds=(STK.Break, STK.Continue)):

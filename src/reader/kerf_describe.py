@@ -1,7 +1,7 @@
 """From slang's elaborated AST of one module to kerf's module description.
 
 The output shape is specified in docs/reader-format.md (`kerf-module`,
-version 2); keep the two in step. Entry point: `describe(compilation, top)`.
+version 3); keep the two in step. Entry point: `describe(compilation, top)`.
 
 Members that use anything outside the subset kerf restructures become
 `kept` members: conversion raises `Unsupported(reason)` (kerf_convert.py)
@@ -21,7 +21,7 @@ from kerf_types import Types, sv_bits
 import kerf_variants
 
 FORMAT = "kerf-module"
-VERSION = 2
+VERSION = 3
 
 SK = ast.SymbolKind
 EK = ast.ExpressionKind
@@ -229,10 +229,12 @@ class Describer:
         """Counter of the named-constant symbols `sym`'s text refers to."""
         out = Counter()
 
-        def cb(n):
-            if isinstance(n, ast.Expression) and n.kind == EK.NamedValue and n.symbol.kind == SK.Parameter:
-                out[n.symbol] += 1
-        sym.visit(cb)
+        def named_value(n):
+            s = n.symbol
+            if s.kind == SK.Parameter:
+                out[s] += 1
+        # Only NamedValue expressions cross into Python (slang checks the kind natively).
+        sym.visit(lookup_table={EK.NamedValue: named_value})
         # Names slang folds into a type (a cast's width `IW'(i)`) are no expressions: their tokens.
         syn = getattr(sym, "syntax", None)
         if self._param_names is None:
@@ -242,12 +244,11 @@ class Describer:
             self._param_names = names
         if syn is not None and self._param_names:
             def tok(n):
-                if isinstance(n, pyslang.parsing.Token) and n.kind == pyslang.parsing.TokenKind.Identifier \
-                        and n.valueText in self._param_names:
+                if n.valueText in self._param_names:
                     f = self.body.lookupName(n.valueText)
                     if f is not None and f.kind == SK.Parameter and f not in out:
                         out[f] += 1
-            syn.visit(tok)
+            syn.visit(lookup_table={pyslang.parsing.TokenKind.Identifier: tok})
         return out
 
     def finish_constants(self, members, named_by_src):

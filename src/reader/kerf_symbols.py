@@ -38,6 +38,8 @@ TRK = parsing.TriviaKind
 SXK = syntax.SyntaxKind
 
 _SKIP_TOKENS = {TK.Placeholder, TK.EndOfFile}
+# Every other token kind: the keys of a visit's lookup table that reaches each token.
+_TOKEN_KINDS = [k for k in TK.__members__.values() if k not in _SKIP_TOKENS]
 
 
 def node_tokens(node):
@@ -452,8 +454,6 @@ class Keys:
         h = hashlib.sha256()
         enc = "utf-8"
         h.update(what.encode(enc, "surrogateescape") + b"\n")
-        tok_type = parsing.Token
-        placeholder, eof = TK.Placeholder, TK.EndOfFile
         ident, unit_name, colons = TK.Identifier, TK.UnitSystemName, TK.DoubleColon
         directive = TRK.Directive
         trivia = self.tokens.any_directives
@@ -461,12 +461,9 @@ class Keys:
         chunk = []
         count = [0]
 
-        def cb(n):
-            if type(n) is not tok_type:
-                return True
-            k = n.kind
-            if k is placeholder or k is eof or n.isMissing:
-                return True
+        def tok(n):
+            if n.isMissing:
+                return
             i = count[0]
             count[0] = i + 1
             if i:
@@ -480,11 +477,23 @@ class Keys:
                     chunk.clear()
             else:
                 h.update(n.rawText.encode(enc, "surrogateescape"))
-            if k is ident or k is unit_name or k is colons:
-                named.append((i, k, n.valueText))
-            return True
 
-        node.visit(cb)
+        def name_tok(n):
+            if n.isMissing:
+                return
+            named.append((count[0], n.kind, n.valueText))
+            tok(n)
+
+        # Only tokens cross into Python: slang looks their kind up in the table natively.
+        table = {k: tok for k in _TOKEN_KINDS}
+        for k in (ident, unit_name, colons):
+            table[k] = name_tok
+
+        if isinstance(node, syntax.SyntaxNode):
+            node.visit(lookup_table=table)
+        else:
+            for t in node_tokens(node):
+                table[t.kind](t)
         if not count[0]:
             return None
         if chunk:

@@ -125,12 +125,42 @@ def stmt_tree(d, i, names):
         return {"stmt": "case", "kind": s[3], "check": s[4], "expr": x(s[5]),
                 "items": [{"exprs": [x(j) for j in it[0]], "body": st(it[1])} for it in s[6]],
                 "default": st(s[7]), "attributes": s[8]}
+    if k == "case_table":
+        return case_table_tree(d, s, names)
     if k == "for":
         return {"stmt": "for", "init": [{"name": names[v], "value": x(e)} for v, e in s[3]],
                 "cond": x(s[4]), "step": [st(j) for j in s[5]], "body": st(s[6])}
     if k == "empty":
         return {"stmt": "empty"}
     raise AssertionError("unknown statement %r" % (s,))
+
+
+def case_table_tree(d, s, names):
+    """A `case_table` statement as the `case` tree it stands for: per item its labels as
+    constants and a block assigning each target the item's value (docs/reader-format.md,
+    "Case tables"), so the checks and the evaluator below read both forms alike."""
+    t = s[6]
+    w = t["width"]
+    labels = [t["labels"][i:i + w] for i in range(0, len(t["labels"]), w)]
+    counts = t.get("counts", [1] * len(labels))
+    assert sum(counts) == len(labels), "label counts do not add up"
+    targets = [expr_tree(d, j, names) for j in t["targets"]]
+    items = []
+    first = 0
+    for k, n in enumerate(counts):
+        exprs = [{"op": "const", "width": w, "signed": t["signed"], "bits": b} for b in labels[first:first + n]]
+        first += n
+        body = []
+        for lv, col in zip(targets, t["values"]):
+            tw = lv["width"]
+            assert len(col) == tw * len(counts), "a value column of the wrong length"
+            v = col[k * tw:(k + 1) * tw]
+            if v != "-" * tw:
+                body.append({"stmt": "assign", "lhs": lv,
+                             "rhs": {"op": "const", "width": tw, "signed": False, "bits": v}})
+        items.append({"exprs": exprs, "body": {"stmt": "block", "items": body}})
+    return {"stmt": "case", "kind": s[3], "check": s[4], "expr": expr_tree(d, s[5], names), "items": items,
+            "default": None if s[7] < 0 else stmt_tree(d, s[7], names), "attributes": s[8], "table": True}
 
 
 def expanded(d):
@@ -182,7 +212,7 @@ def line_col(path, offset):
 def statement_byte_ranges():
     d = read("byte_ranges.sv")
     eq(d["format"], "kerf-module", "format")
-    eq(d["version"], 2, "version")
+    eq(d["version"], 3, "version")
     eq(d["module"]["name"], "status_regs", "module name")
     eq(text_of(member_writing(d, "both")["src"]), "assign both = rx_data & tx_data;", "assign")
     both_src = [m for m in d["members"] if "sum" in m["writes"] or "parity" in m["writes"]]
@@ -497,6 +527,10 @@ def node_tables_are_children_first():
                 kids = st[5] + [st[6]]
             elif st[0] == "case":
                 kids = [it[1] for it in st[6]] + ([st[7]] if st[7] >= 0 else [])
+            elif st[0] == "case_table":
+                kids = [st[7]] if st[7] >= 0 else []
+                for k in st[6]["targets"]:
+                    assert 0 <= k < len(d["exprs"]), "%s: statement %d names expression %d" % (f, i, k)
             for k in kids:
                 assert 0 <= k < i, "%s: statement %d names %d" % (f, i, k)
         for t in d["types"]:

@@ -65,6 +65,7 @@ SEEDS = {
     "rtl_packed_2d": (["tests/rtl/packed_2d.sv"], "packed_2d"),
     "rtl_param_override": (["tests/rtl/param_override.sv"], "param_override"),
     "rtl_partsel_var_write": (["tests/rtl/partsel_var_write.sv"], "partsel_var_write"),
+    "rtl_rom_table_decoder": (["tests/rtl/rom_table_decoder.sv"], "rom_table_decoder"),
     "rtl_shift_select": (["tests/rtl/shift_select.sv"], "shift_select"),
     "rtl_signed_cmp": (["tests/rtl/signed_cmp.sv"], "signed_cmp"),
     "rtl_tristate_pads": (["tests/rtl/tristate_pads.sv"], "tristate_pads"),

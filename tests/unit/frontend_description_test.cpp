@@ -1,6 +1,6 @@
 // frontend_description_test.cpp — reading the reader's description into the typed IR.
 //
-// The shape is our own format (docs/reader-format.md, version 2). A
+// The shape is our own format (docs/reader-format.md, version 3). A
 // description that breaks it is kerf's own bug: every check here expects an
 // internal error (exit 5) naming what is wrong, never a crash or a silently
 // different module.
@@ -108,6 +108,27 @@ TEST(FrontendDescription, RejectsInconsistentWidths) {
     d["exprs"][1][1] = 0;   // the 1-bit reduction given the 4-bit type: fine by itself...
     d["types"][0]["width"] = 5;   // ...but a vector [3:0] of width 5 is not
     EXPECT_NE(internalError(d.dump()).find("range does not match"), std::string::npos);
+}
+
+TEST(FrontendDescription, RejectsMalformedCaseTables) {
+    auto table = [](const std::string& labels, std::vector<int> counts, const std::string& values, bool fixed = true) {
+        DescBuilder b;
+        b.sig("s", 2, "input");
+        b.sig("i", 2, "input");
+        b.sig("y", 4, "output", true);
+        int t = fixed ? b.ref("y") : b.index(b.ref("y"), b.ref("i"), 3, 0, 1);
+        int c = b.caseTable(b.ref("s"), 2, labels, std::move(counts), {t}, {values});
+        b.combMember(b.block({c}), 1, {"s", "i"}, {"y"});
+        return b.build().dump();
+    };
+    EXPECT_EQ(internalError(table("0001", {}, "00011111")), "");
+    EXPECT_EQ(internalError(table("000110", {1, 2}, "0001----")), "");
+    EXPECT_NE(internalError(table("0001", {}, "0001111")).find("values"), std::string::npos);
+    EXPECT_NE(internalError(table("0001", {}, "000111111111")).find("target's width"), std::string::npos);
+    EXPECT_NE(internalError(table("0-01", {}, "00011111")).find("character"), std::string::npos);
+    EXPECT_NE(internalError(table("000110", {1, 1}, "00011111")).find("do not add up"), std::string::npos);
+    EXPECT_NE(internalError(table("000", {}, "00011111")).find("whole number"), std::string::npos);
+    EXPECT_NE(internalError(table("00", {}, "0", false)).find("not a fixed part"), std::string::npos);
 }
 
 TEST(FrontendDescription, RejectsNodesSharedBetweenMembers) {

@@ -60,6 +60,84 @@ TEST(FrontendLower, ParallelCaseMatchesCaseSemantics) {
     }
 }
 
+TEST(FrontendLower, CaseTableMatchesCaseSemantics) {
+    // always_comb begin y = 2'b11; z = 4'b0; q = a;
+    //   case (s)
+    //     3'd0:       begin y = 2'b01; z[3:2] = 2'b10; end
+    //     3'd3, 3'd5: y = 2'b10;
+    //     3'd6:       begin z = 4'b1001; q = 1'b0; end
+    //     3'd7:       ;
+    //     default:    z[1] = 1'b1;
+    //   endcase end
+    // An item that does not assign a target leaves the value from before the case (12.5);
+    // `z` and `z[3:2]` share bits but no item assigns both.
+    DescBuilder d;
+    d.sig("s", 3, "input");
+    d.sig("a", 1, "input");
+    d.sig("y", 2, "output", true);
+    d.sig("z", 4, "output", true);
+    d.sig("q", 1, "output", true);
+    int s0 = d.assign(d.ref("y"), d.cnst("11"));
+    int s1 = d.assign(d.ref("z"), d.cnst("0000"));
+    int s2 = d.assign(d.ref("q"), d.ref("a"));
+    int z32 = d.range(d.ref("z"), 3, 2, 3, 0, 2);
+    int dflt = d.assign(d.index(d.ref("z"), d.cnst("01"), 3, 0, 1), d.cnst("1"));
+    int c = d.caseTable(d.ref("s"), 3, "000011101110111", {1, 2, 1, 1}, {d.ref("y"), z32, d.ref("z"), d.ref("q")},
+                        {"0110----", "10------", "--------1001----", "--0-"}, dflt);
+    d.combMember(d.block({s0, s1, s2, c}), 1, {"s", "a"}, {"y", "z", "q"});
+    auto l = lower(parseDescription(d.build()));
+    for (int v = 0; v < 16; ++v) {
+        int s = v & 7;
+        bool a = v & 8;
+        int y = 3, z = 0;
+        bool q = a;
+        switch (s) {
+        case 0: y = 1; z = 0b1000; break;
+        case 3: case 5: y = 2; break;
+        case 6: z = 0b1001; q = false; break;
+        case 7: break;
+        default: z = 0b0010; break;
+        }
+        auto in = bits("s", 3, static_cast<std::uint64_t>(s));
+        in["a"] = a;
+        for (int i = 0; i < 2; ++i) EXPECT_EQ(evalOutput(l.net, fmt::format("y[{}]", i), in), ((y >> i) & 1) != 0) << v;
+        for (int i = 0; i < 4; ++i) EXPECT_EQ(evalOutput(l.net, fmt::format("z[{}]", i), in), ((z >> i) & 1) != 0) << v;
+        EXPECT_EQ(evalOutput(l.net, "q", in), q) << v;
+    }
+}
+
+TEST(FrontendLower, CaseTableWildcardsAndUnknownLabels) {
+    // casez (s) 3'b1??: y = 1; 3'b01?: y = 0; 3'b00x: y = 1; endcase, y = a before: the z bits are
+    // wildcards; an x bit in a casez label matches only an x selector bit, never a 0/1 (12.5.1).
+    DescBuilder d;
+    d.sig("s", 3, "input");
+    d.sig("a", 1, "input");
+    d.sig("y", 1, "output", true);
+    int s0 = d.assign(d.ref("y"), d.ref("a"));
+    int c = d.caseTable(d.ref("s"), 3, "1zz01z00x", {}, {d.ref("y")}, {"101"}, -1, "casez");
+    d.combMember(d.block({s0, c}), 1, {"s", "a"}, {"y"});
+    auto l = lower(parseDescription(d.build()));
+    for (int v = 0; v < 16; ++v) {
+        int s = v & 7;
+        bool a = v & 8;
+        bool want = (s & 4) ? true : (s & 2) ? false : a;
+        auto in = bits("s", 3, static_cast<std::uint64_t>(s));
+        in["a"] = a;
+        EXPECT_EQ(evalOutput(l.net, "y", in), want) << v;
+    }
+}
+
+TEST(FrontendLower, CaseTableItemAssigningSharedBitsIsAnInternalError) {
+    DescBuilder d;
+    d.sig("s", 1, "input");
+    d.sig("z", 2, "output", true);
+    int s0 = d.assign(d.ref("z"), d.cnst("00"));
+    int z0 = d.range(d.ref("z"), 0, 0, 1, 0, 1);
+    int c = d.caseTable(d.ref("s"), 1, "01", {}, {d.ref("z"), z0}, {"1010", "-1"});
+    d.combMember(d.block({s0, c}), 1, {"s"}, {"z"});
+    EXPECT_NE(errorOf(d.build()).find("two targets that share a bit"), std::string::npos);
+}
+
 TEST(FrontendLower, LatchIsReportedWithLocation) {
     // always @* if (en) q = d;   -- q keeps its value when en is 0 (9.2.2.2)
     DescBuilder d;

@@ -1,5 +1,5 @@
 // frontend_support.h — building reader descriptions (docs/reader-format.md,
-// version 2) by hand for the front-end unit tests, and evaluating lowered networks.
+// version 3) by hand for the front-end unit tests, and evaluating lowered networks.
 #pragma once
 
 #include "kerf/frontend/lower.h"
@@ -117,6 +117,16 @@ public:
         return stmt(json::array({"case", -1, -1, kind, check, sel, its, dflt, attrs}));
     }
 
+    /// A `case_table` statement: `labels` MSB first, `width` bits each; `counts` labels per item
+    /// (empty: one each); per target its values, MSB first per item, '-' where not assigned.
+    int caseTable(int sel, int width, const std::string& labels, std::vector<int> counts, std::vector<int> targets,
+                  std::vector<std::string> values, int dflt = -1, const std::string& kind = "case",
+                  const std::string& check = "none", bool isSigned = false) {
+        json t = {{"width", width}, {"signed", isSigned}, {"labels", labels}, {"targets", targets}, {"values", values}};
+        if (!counts.empty()) t["counts"] = counts;
+        return stmt(json::array({"case_table", -1, -1, kind, check, sel, t, dflt, json::array()}));
+    }
+
     void assignMember(int lhs, int rhs, int line, std::vector<std::string> reads, std::vector<std::string> writes) {
         members.push_back({{"kind", "assign"}, {"id", members.size()}, {"src", src(line)}, {"lhs", lhs},
                            {"rhs", rhs}, {"reads", reads}, {"writes", writes}});
@@ -138,7 +148,7 @@ public:
     json build() const {
         json lines = json::array();
         for (int i = 0; i < 200; ++i) lines.push_back(i * 10);
-        return {{"format", "kerf-module"}, {"version", 2},
+        return {{"format", "kerf-module"}, {"version", 3},
                 {"module", {{"name", "t"}, {"src", {{"file", "t.v"}, {"start", 0}, {"end", 1999}, {"line", 1}, {"col", 1}}}}},
                 {"files", json::array({{{"path", "t.v"}, {"line_starts", lines}}})},
                 {"types", types}, {"ports", ports}, {"signals", signals}, {"members", members},

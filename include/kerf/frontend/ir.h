@@ -132,7 +132,7 @@ struct Expr {
 
 // ---- statements ------------------------------------------------------------
 
-enum class StmtKind : std::uint8_t { Block, Assign, If, Case, For, Empty };
+enum class StmtKind : std::uint8_t { Block, Assign, If, Case, For, Empty, CaseTable };
 enum class CaseKind : std::uint8_t { Normal, Z, X, Inside };
 /// `unique`/`unique0`/`priority` written on an if or case.
 enum class CheckKind : std::uint8_t { None, Unique, Unique0, Priority };
@@ -148,6 +148,30 @@ struct CaseItem {
     std::uint32_t conditions = kNoId;
 };
 
+/// A case whose items are constant labels and whose item bodies only assign constants to
+/// fixed bits, held as columns (the reader's `case_table`, docs/reader-format.md): one
+/// string of labels and, per target, one string of the values every item assigns it.
+struct CaseTable {
+    std::uint32_t width = 0;          ///< bits per label
+    bool labelsSigned = false;        ///< the labels' common type is signed
+    std::uint32_t items = 0;
+    std::uint32_t labelCount = 0;
+    /// Offset in Ir::constBits of the labels, `width` characters each, LSB first, item by item.
+    std::uint32_t labels = 0;
+    /// Per item its first label (items + 1 entries); empty when every item has one label.
+    std::vector<std::uint32_t> firstLabel;
+    /// The assigned targets: a Ref, or a constant Range or Index of a Ref; targets may share
+    /// bits, but no item assigns two that do.
+    std::vector<ExprId> targets;
+    /// Per target, the offset in Ir::constBits of its values: `items` runs of the target's
+    /// width, LSB first; '-' where the item does not assign the target.
+    std::vector<std::uint32_t> columns;
+    std::vector<std::uint32_t> columnWidths;   ///< per target: the width of its runs (its width)
+
+    std::uint32_t labelBegin(std::uint32_t item) const { return firstLabel.empty() ? item : firstLabel[item]; }
+    std::uint32_t labelEnd(std::uint32_t item) const { return firstLabel.empty() ? item + 1 : firstLabel[item + 1]; }
+};
+
 struct ForInit {
     SymbolId var = kNoId;
     ExprId value = kNoId;
@@ -158,6 +182,7 @@ struct ForInit {
 ///   Assign  a = target (an expression of Ref/Index/Range/Indexed/Concat), b = value
 ///   If      a = condition, b = then, c = else (kNoId when none)
 ///   Case    a = selector, b = offset in Ir::caseItems, c = count, d = default (kNoId when none)
+///   CaseTable  a = selector, b = index in Ir::caseTables, d = default (kNoId when none)
 ///   For     a = offset in Ir::forInits, b = count, c = condition,
 ///           d = offset in Ir::lists of the step statements, e = their count, f = body
 struct Stmt {
@@ -211,6 +236,7 @@ struct Ir {
     std::vector<Stmt> stmts;
     std::vector<std::uint32_t> lists;
     std::vector<CaseItem> caseItems;
+    std::vector<CaseTable> caseTables;
     std::vector<ForInit> forInits;
     std::vector<std::uint8_t> itemIsCondition;
     std::string constBits;           ///< all constants, LSB first
