@@ -2,7 +2,8 @@
 // kerf-case: case items whose bodies only assign constants (the reader's compact case table).
 // kerf-case: Items with several labels, items that leave a field at its earlier value, a field
 // kerf-case: written through a part select and a bit select, an item assigning a field twice,
-// kerf-case: an x don't-care value, a casez table with wildcards and one without a default.
+// kerf-case: an x don't-care value, a casez table with wildcards and one without a default,
+// kerf-case: a table inside a function and one inside a loop writing a block-local variable.
 // kerf-case: Icarus compares every output where the original is not x.
 module rom_table_decoder (
   input  logic [4:0] op,
@@ -12,8 +13,19 @@ module rom_table_decoder (
   output logic [1:0] src_sel,
   output logic       push,
   output logic [2:0] cls,
-  output logic [3:0] bank
+  output logic [3:0] bank,
+  output logic [5:0] lat,
+  output logic [3:0] hot
 );
+  function automatic logic [2:0] cycles(input logic [1:0] kind);
+    case (kind)
+      2'd0: cycles = 3'd1;
+      2'd1: cycles = 3'd2;
+      2'd2: cycles = 3'd4;
+      default: cycles = 3'd7;
+    endcase
+  endfunction
+
   always_comb begin
     ctl = 8'h00;
     src_sel = 2'd3;
@@ -49,5 +61,23 @@ module rom_table_decoder (
       3'd2:       bank = 4'h2;
       3'd5:       bank = 4'h8;
     endcase
+  end
+
+  always_comb begin
+    lat = {cycles(op[1:0]), cycles(op[3:2])};
+  end
+
+  always_comb begin
+    logic [1:0] grp;
+    hot = 4'h0;
+    for (int i = 0; i < 2; i++) begin
+      grp = 2'd0;
+      case (flags[2*i +: 2])
+        2'b01: grp = 2'd1;
+        2'b10: grp = 2'd2;
+        2'b11: grp = 2'd3;
+      endcase
+      hot[2*i +: 2] = grp;
+    end
   end
 endmodule
