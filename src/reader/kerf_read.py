@@ -3,7 +3,7 @@
 
 Runs slang (through pyslang) on the user's files, elaborates one module and
 prints its description as one compact JSON object on stdout, in the format
-documented in docs/reader-format.md (`kerf-module`, version 1).
+documented in docs/reader-format.md (`kerf-module`, version 3).
 
     python3 kerf_read.py [--top NAME] [-I DIR]... [-D NAME[=VALUE]]... [--param NAME=VALUE]... FILE...
 
