@@ -437,6 +437,9 @@ void ExprBuilder::groupSlices(PExpr& e) {
                 c.text = fmt::format("{} {} {}", sliceText(r0, lo, hi), isAnd ? "==" : "!=",
                                      constantName(r0, lo, hi, bits, c.constant).value_or(constText(static_cast<int>(len), bits)));
                 c.rank = e.kids[idx[s]].rank;
+                c.sliceSignal = r0.signal;
+                c.sliceLo = lo;
+                c.sliceHi = hi;
                 std::size_t first = idx[s];
                 for (std::size_t q = s; q <= t; ++q) {
                     drop[idx[q]] = 1;

@@ -46,6 +46,10 @@ struct PExpr {
     std::string text;            ///< Ref: the reference; Compare: the whole comparison
     const VarRef* ref = nullptr; ///< Ref: what it names
     int constant = -1;           ///< Compare: the named constant it names (ModuleDesc::constants)
+    /// Compare: the vector whose bits [sliceLo, sliceHi] (offsets) it reads; the text alone
+    /// does not say which bits a statement reads (the writer orders a block's statements by them).
+    std::string sliceSignal;
+    int sliceLo = 0, sliceHi = -1;
     int rank = 0;
     std::vector<PExpr> kids;     ///< And/Or/Xor operands; Mux: select, then, else
 

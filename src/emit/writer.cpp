@@ -85,7 +85,14 @@ void setHeader(WriteResult& r, const std::string& line) {
     std::size_t start = r.text.find("//", r.headerPos);
     std::string text = "// kerf: " + line;
     if (!r.unusedWire.empty()) {
-        std::string more = "bits no longer read: see " + r.unusedWire;
+        // Say what the wire holds: bits the logic no longer reads, named constants it no longer
+        // names, or both.
+        const std::size_t constants = r.constantsNotNamed.size();
+        const bool bits = r.notRead.size() > constants;
+        std::string more = std::string(bits && constants ? "bits and named constants no longer read"
+                                       : bits            ? "bits no longer read"
+                                                         : "named constants no longer named") +
+                           ": see " + r.unusedWire;
         std::string indent = r.text.substr(r.headerPos, start - r.headerPos);
         // Within 100 columns: the note goes on a comment line of its own when the figures are long.
         if (indent.size() + text.size() + 2 + more.size() > 100) text += ";" + r.newline + indent + "// " + more;
@@ -403,6 +410,35 @@ private:
     std::map<std::string, std::string> resultName_;   ///< word result -> the author's signal that is exactly it
     std::map<std::string, std::string> inlined_;      ///< generated operand -> its inline concatenation
     bool inlinedDone_ = false;
+    bool unorderable_ = false;   ///< no name left to withdraw to break a loop between statements
+    /// Per member: the bits of module signals its text reads, and the signals it reads whole
+    /// (originalReads); filled on first use.
+    std::map<int, std::pair<std::set<std::pair<std::string, int>>, std::set<std::string>>> memberReads_;
+    /// Whether the written file reads every bit of `signal` whatever the rewritten statements
+    /// read: a port, a signal a word operation reads whole, or one that a statement staying as
+    /// written (`replacedNow`: the members rewritten) reads whole. Reading some of its bits
+    /// then changes no lint warning.
+    bool readWhole(const std::string& signal, const std::set<int>& replacedNow) {
+        if (isPort(signal)) return true;
+        for (const auto& w : low_.wordOps)
+            for (const auto& o : w.operands)
+                if (!o.generated && o.name == signal) return true;
+        auto it = m_.signals.find(signal);
+        if (it == m_.signals.end()) return false;
+        std::set<int> bits;
+        for (const auto& mem : m_.members) {
+            if (replacedNow.count(mem.id)) continue;
+            auto r = memberReads_.find(mem.id);
+            if (r == memberReads_.end()) {
+                r = memberReads_.emplace(mem.id, std::pair<std::set<std::pair<std::string, int>>, std::set<std::string>>{}).first;
+                originalReads(m_, mem, r->second.first, r->second.second);
+            }
+            if (r->second.second.count(signal)) return true;
+            for (auto b = r->second.first.lower_bound({signal, 0}); b != r->second.first.end() && b->first == signal; ++b)
+                bits.insert(b->second);
+        }
+        return static_cast<int>(bits.size()) >= it->second.width;
+    }
     std::string operationText(const frontend::WordOp& w);
     void inlineOperands();
 };
@@ -962,7 +998,8 @@ bool Writer::checkCycles() {
         wordOfNode.push_back(&w);
     }
     std::vector<std::vector<std::pair<std::size_t, std::string>>> adj(S + wires_.size() + wordOfNode.size());
-    std::string selfRef;
+    std::set<std::string> selfRefs;
+    std::set<int> replacedNow;   // members of the groups rewritten this round (filled when needed)
     auto writerOf = [&](const std::string& name) -> long {
         if (auto w = wordNode.find(name); w != wordNode.end()) return static_cast<long>(w->second);
         auto it = unitOfSignal_.find(name);
@@ -1019,11 +1056,24 @@ bool Writer::checkCycles() {
                     }
                 continue;
             }
+            // A block orders its assignments so that each bit is assigned before it is read
+            // (statementsFor); separate statements (`assign`) reading their own vector's bits
+            // would be a loop through the signal.
+            // A block reads its own bits only where that changes no lint warning: the signal
+            // is a port or the original reads every bit of it (a partly read vector would
+            // be reported with other bits unused).
+            const bool ordered = byId_.at(st)->kind == frontend::MemberKind::Comb;
+            if (ordered && replacedNow.empty())
+                for (std::size_t h = 0; h < groups_.size(); ++h)
+                    if (groups_[h].replaced)
+                        for (int s2 : groupStmts_[h])
+                            for (int mid : membersOfStmt_.at(s2)) replacedNow.insert(mid);
             for (std::size_t i = 0; i < outs_.size(); ++i) {
                 if (outs_[i].stmt != st) continue;
                 NodeId v = literalVar(net_.outputs()[i].driver);
                 auto onName = [&](const std::string& n) {
-                    if (n == outs_[i].bit.signal) selfRef = n;   // a vector reading its own bits
+                    if (n == outs_[i].bit.signal && !(ordered && readWhole(n, replacedNow)))
+                        selfRefs.insert(n);   // a vector reading its own bits
                     for (long t : writersOf(n))
                         if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n});
                 };
@@ -1040,10 +1090,12 @@ bool Writer::checkCycles() {
                    for (long t : writersOf(n)) adj[from].push_back({static_cast<std::size_t>(t), n});
                });
     }
-    if (!selfRef.empty()) {
+    if (!selfRefs.empty()) {
+        bool any = false;
         for (std::size_t i = 0; i < outs_.size(); ++i)
-            if (allowed_[i] && outs_[i].bit.signal == selfRef) allowed_[i] = 0;
-        return false;
+            if (allowed_[i] && selfRefs.count(outs_[i].bit.signal)) allowed_[i] = 0, any = true;
+        if (!any) unorderable_ = true;   // nothing left to withdraw: the groups stay as written (run)
+        return !any;
     }
     // Depth-first search for a cycle; remember the edge names on the path.
     std::vector<int> state(adj.size(), 0);
@@ -1076,8 +1128,8 @@ bool Writer::checkCycles() {
             bool any = false;
             for (std::size_t i = 0; i < outs_.size(); ++i)
                 if (allowed_[i] && outs_[i].bit.signal == culprit) allowed_[i] = 0, any = true;
-            if (!any) throw Error("writer: statements would form a loop", {}, ExitCode::Internal);
-            return false;
+            if (!any) unorderable_ = true;   // nothing left to withdraw: the groups stay as written (run)
+            return !any;
         }
     return true;
 }
@@ -1222,6 +1274,11 @@ void Writer::namesRead(std::size_t i, const std::function<void(const std::string
         if (n != outs_[i].bit.signal && n != verilogName(outs_[i].bit.signal)) onName(n);
         return;
     }
+    // A signal that is exactly a word operation's result is written as the operation: it reads
+    // the operation's operands (the loop check and keepReaders take those from the word
+    // operations), not its own name.
+    for (const auto& [result, sig] : resultName_)
+        if (sig == outs_[i].bit.signal) return;
     if (definer_[v] != static_cast<int>(i) && refs_[v] && !isWire_[v])
         onName(refs_[v]->signal.empty() ? refs_[v]->text : refs_[v]->signal);
     coneOf(v, definer_[v] == static_cast<int>(i), [](NodeId) {}, [](NodeId) {}, onName);
@@ -1267,6 +1324,7 @@ std::vector<std::string> Writer::unreadBits() {
         if (!net_.isLogic(v) && aliasOf_[v] == static_cast<int>(i)) record(inputRefs_[v]);
         else if (definer_[v] == static_cast<int>(i)) expand(v);
         else if (refs_[v] && !isWire_[v]) record(*refs_[v]);
+        else if (!refs_[v] && net_.isLogic(v)) expand(v);   // written inline (a withdrawn name's logic)
     }
     for (NodeId w : wires_)
         if (wireGroup_[w] >= 0 && groups_[static_cast<std::size_t>(wireGroup_[w])].replaced) expand(w);
@@ -1378,13 +1436,29 @@ std::string Writer::statement(const std::string& ind, const std::string& lead, c
 }
 
 namespace {
+/// A bit as the block's statements name it: (vector, offset), or (scalar's text, 0);
+/// offset -1 stands for every bit of the signal (a word operation reading it whole).
+using BitKey = std::pair<std::string, int>;
+
 struct Assignment {
     std::string lhs;
     PExpr rhs;
     std::string signal;
     std::set<std::string> reads;
+    std::set<BitKey> readBits;      ///< every bit the value reads, its own signal's included
+    std::vector<BitKey> writeBits;  ///< the bits it assigns
     std::string prefix, suffix;   ///< around the value, for targets that need it (a one-bit enum)
 };
+
+BitKey keyOf(const VarRef& r) { return r.signal.empty() ? BitKey{r.text, 0} : BitKey{r.signal, r.offset}; }
+
+/// The bits a printed expression reads: its names, and the slices its comparisons read.
+void collectBits(const PExpr& e, std::set<BitKey>& out) {
+    if (e.kind == PExpr::Kind::Ref && e.ref) out.insert(keyOf(*e.ref));
+    if (e.kind == PExpr::Kind::Compare && !e.sliceSignal.empty())
+        for (int k = e.sliceLo; k <= e.sliceHi; ++k) out.insert({e.sliceSignal, k});
+    for (const auto& k : e.kids) collectBits(k, out);
+}
 
 /// A printed statement (ending in ';') with the assignment's value suffix put before the ';'.
 std::string wrapped(const Assignment& a, std::string printed) {
@@ -1408,6 +1482,9 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         if (pa != pb) return pa;
         return ra < rb;
     });
+    // The block's assignments; `templates` false writes every bit on its own (a block whose
+    // assignments cannot otherwise be ordered, see below).
+    auto build = [&](bool templates) {
     std::vector<Assignment> as;
     for (const auto& s : signals) {
         auto idx = bySignal[s];
@@ -1415,10 +1492,15 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         const auto& sig = m_.signals.at(s);
         std::vector<PExpr> es;
         for (std::size_t i : idx) es.push_back(outputExpr(i));
-        auto add = [&](std::string lhs, PExpr e) {
-            Assignment a{std::move(lhs), std::move(e), s, {}, {}, {}};
+        auto writes = [&](Assignment& a, std::size_t from, std::size_t to) {
+            for (std::size_t q = from; q <= to; ++q) a.writeBits.push_back(keyOf(refFor(outs_[idx[q]].bit, 0)));
+        };
+        auto add = [&](std::string lhs, PExpr e, std::size_t q) {
+            Assignment a{std::move(lhs), std::move(e), s, {}, {}, {}, {}, {}};
             collectRefs(a.rhs, a.reads);
+            collectBits(a.rhs, a.readBits);
             a.reads.erase(s);
+            writes(a, q, q);
             as.push_back(std::move(a));
         };
         const frontend::WordOp* op = nullptr;
@@ -1428,13 +1510,28 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
             PExpr e;
             e.kind = PExpr::Kind::Ref;
             e.text = operationText(*op);
-            add(verilogName(s), e);
+            add(verilogName(s), e, 0);
+            auto& a = as.back();
+            writes(a, 1, idx.size() - 1);
+            // What the operation reads: named operands whole, inline operands bit by bit.
+            for (const auto& o : op->operands) {
+                std::string n = o.name;
+                if (auto same = sameAs_.find(n); same != sameAs_.end()) n = same->second;
+                if (auto named = resultName_.find(n); named != resultName_.end()) n = named->second;
+                if (!o.generated) {
+                    a.readBits.insert({n, -1});
+                    a.readBits.insert({verilogName(n), 0});
+                    continue;
+                }
+                for (std::size_t i = 0; i < outs_.size(); ++i)
+                    if (outs_[i].generated && outs_[i].bit.signal == o.name) collectBits(outputExpr(i), a.readBits);
+            }
             continue;
         }
         if (!sig.vector && sig.width == 1) {
             // The front end's target text: a one-bit enum is assigned through its values.
             auto pieces = frontend::targetPieces(m_, s, 0, 1);
-            add(pieces.front().lhs, es[0]);
+            add(pieces.front().lhs, es[0], 0);
             as.back().prefix = pieces.front().valuePrefix;
             as.back().suffix = pieces.front().valueSuffix;
             continue;
@@ -1447,7 +1544,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
             std::size_t best = k;
             std::optional<PExpr> bestT;
             std::size_t last = k;
-            while (last + 1 < idx.size() &&
+            while (templates && last + 1 < idx.size() &&
                    outs_[idx[last + 1]].bit.offset - outs_[idx[k]].bit.offset == static_cast<int>(last + 1 - k))
                 ++last;
             auto runFrom = [&](std::size_t t) { return std::span<const PExpr>(es.data() + k, t + 1 - k); };
@@ -1482,49 +1579,83 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
             }
             if (bestT) {
                 // Reads of the template are the per-bit reads.
-                Assignment a{lhs, *bestT, s, {}, {}, {}};
-                for (std::size_t q = k; q <= best; ++q) collectRefs(es[q], a.reads);
+                Assignment a{lhs, *bestT, s, {}, {}, {}, {}, {}};
+                for (std::size_t q = k; q <= best; ++q) collectRefs(es[q], a.reads), collectBits(es[q], a.readBits);
                 a.reads.erase(s);
+                writes(a, k, best);
                 as.push_back(std::move(a));
                 k = best + 1;
             } else {
                 auto pieces = frontend::targetPieces(m_, s, outs_[idx[k]].bit.offset, 1);
-                add(pieces.front().lhs, es[k]);
+                add(pieces.front().lhs, es[k], k);
                 as.back().prefix = pieces.front().valuePrefix;
                 as.back().suffix = pieces.front().valueSuffix;
                 ++k;
             }
         }
     }
+    return as;
+    };
+    std::vector<Assignment> as = build(true);
     for (const auto& a : as)
         if (refsOut) refsOut->insert(a.reads.begin(), a.reads.end());
     if (mem->kind == frontend::MemberKind::Comb) {
-        // A variable is assigned before any statement of the block reads it.
-        std::vector<Assignment> ordered;
-        std::vector<std::uint8_t> done(as.size(), 0);
-        std::set<std::string> pendingSignals;
-        for (const auto& a : as) pendingSignals.insert(a.signal);
-        while (ordered.size() < as.size()) {
-            bool progress = false;
-            for (std::size_t q = 0; q < as.size(); ++q) {
-                if (done[q]) continue;
-                bool ready = true;
-                for (const auto& r : as[q].reads)
-                    if (pendingSignals.count(r) && r != as[q].signal) ready = false;
-                if (!ready) continue;
-                done[q] = 1;
-                ordered.push_back(as[q]);
-                progress = true;
-                // A signal is finished when all its assignments are placed.
-                bool more = false;
-                for (std::size_t z = 0; z < as.size(); ++z) more = more || (!done[z] && as[z].signal == as[q].signal);
-                if (!more) pendingSignals.erase(as[q].signal);
-                break;
+        // Every bit the block assigns is assigned before any statement of the block reads it
+        // (F30: `w0[0] = ... w0[4] ...` before `w0[7:2] = ...` reads the value w0 had before).
+        // The names the logic reads follow the network, which has no loop, so bit by bit an
+        // order always exists; an assignment of several bits that reads bits of its own, or
+        // two that read each other's bits, are written bit by bit instead.
+        auto order = [&](const std::vector<Assignment>& list) -> std::optional<std::vector<std::size_t>> {
+            std::map<BitKey, std::size_t> writerOfBit;
+            std::map<std::string, std::vector<std::size_t>> writersOfSignal;
+            for (std::size_t q = 0; q < list.size(); ++q)
+                for (const auto& b : list[q].writeBits) {
+                    writerOfBit[b] = q;
+                    auto& w = writersOfSignal[b.first];
+                    if (w.empty() || w.back() != q) w.push_back(q);
+                }
+            std::vector<std::vector<std::size_t>> users(list.size());
+            std::vector<std::size_t> waiting(list.size(), 0);
+            for (std::size_t q = 0; q < list.size(); ++q) {
+                std::set<std::size_t> deps;
+                for (const auto& b : list[q].readBits) {
+                    if (b.second < 0) {
+                        if (auto w = writersOfSignal.find(b.first); w != writersOfSignal.end())
+                            deps.insert(w->second.begin(), w->second.end());
+                    } else if (auto w = writerOfBit.find(b); w != writerOfBit.end()) {
+                        deps.insert(w->second);
+                    }
+                }
+                if (deps.count(q)) return std::nullopt;   // reads a bit it assigns itself
+                for (std::size_t p : deps) users[p].push_back(q);
+                waiting[q] = deps.size();
             }
-            if (!progress)
-                throw Error("writer: the restructured block would read a variable before assigning it", {},
-                            ExitCode::Internal);
+            // Ready assignments in their written order (deterministic, and the order of a block
+            // that reads none of its own bits is unchanged).
+            std::set<std::size_t> ready;
+            for (std::size_t q = 0; q < list.size(); ++q)
+                if (waiting[q] == 0) ready.insert(q);
+            std::vector<std::size_t> out;
+            while (!ready.empty()) {
+                std::size_t q = *ready.begin();
+                ready.erase(ready.begin());
+                out.push_back(q);
+                for (std::size_t u : users[q])
+                    if (--waiting[u] == 0) ready.insert(u);
+            }
+            if (out.size() != list.size()) return std::nullopt;
+            return out;
+        };
+        auto seq = order(as);
+        if (!seq) {
+            as = build(false);
+            seq = order(as);
         }
+        if (!seq)
+            throw Error("writer: the restructured block would read a variable before assigning it", {},
+                        ExitCode::Internal);
+        std::vector<Assignment> ordered;
+        for (std::size_t q : *seq) ordered.push_back(std::move(as[q]));
         std::string unit = ind.find('\t') != std::string::npos ? "\t" : "  ";
         std::string style = mem->style.empty() ? "always_comb" : mem->style;
         std::string out = style == "always_comb" ? "always_comb begin" : "always @(*) begin";
@@ -1712,10 +1843,18 @@ WriteResult Writer::run() {
     aliasOf_.assign(net_.nodeCount(), -1);
     for (std::size_t k = 0; k < net_.inputs().size(); ++k)
         inputRefs_[net_.inputs()[k]] = refFor(low_.inputBits[k], signalRank(low_.inputBits[k].signal));
-    for (std::size_t round = 0; round <= outs_.size() + 1; ++round) {
+    bool settled = false;
+    for (std::size_t round = 0; round <= outs_.size() + 1 && !settled; ++round) {
         if (!plan()) continue;
         decide();
-        if (checkCycles()) break;
+        settled = checkCycles();
+    }
+    if (!settled || unorderable_) {
+        // Never a plan that was not checked: every group stays as written, with the reason.
+        for (auto& G : groups_)
+            if (G.replaced)
+                G.replaced = false, G.reason = "kerf could not order the rewritten statements without a loop "
+                                               "between them (a limit of the writer), so they stay as written";
     }
     for (const auto& G : groups_) res.groups.push_back(G);
     bool any = std::any_of(groups_.begin(), groups_.end(), [](const StatementGroup& G) { return G.replaced; });
@@ -1872,10 +2011,15 @@ WriteResult Writer::run() {
         if (res.notRead.size() > 1) cat = "{" + cat + "}";
         std::string ind = indentOf(src_, edits.empty() ? endAt : edits.front().start);
         if (ind.empty()) ind = "  ";
-        std::string block = ind + "// kerf: the restructured logic does not depend on these bits; they are read here so\n" +
-                            ind + "// that lint reports no unused signal (a name containing 'unused': common practice)\n" +
-                            (res.constantsNotNamed.empty() ? std::string()
-                                                           : ind + "// (named constants it no longer compares with are read here too)\n") +
+        const bool bitsListed = res.notRead.size() > res.constantsNotNamed.size();
+        std::string block = (bitsListed
+                                 ? ind + "// kerf: the restructured logic does not depend on these bits; they are read here so\n" +
+                                       ind + "// that lint reports no unused signal (a name containing 'unused': common practice)\n" +
+                                       (res.constantsNotNamed.empty()
+                                            ? std::string()
+                                            : ind + "// (named constants it no longer compares with are read here too)\n")
+                                 : ind + "// kerf: the restructured logic no longer names these constants; they are read here so\n" +
+                                       ind + "// that lint reports no unused parameter (a name containing 'unused': common practice)\n") +
                             ind + (notReadWidth_ == 1 ? fmt::format("wire {} = {};\n", name, cat)
                                                      : fmt::format("wire [{}:0] {} = {};\n", notReadWidth_ - 1, name, cat));
         edits.push_back({lineStart(src_, endAt), lineStart(src_, endAt), block});

@@ -541,6 +541,18 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
              }()},
             {"signals_added", wr.changed ? wr.wiresAdded : std::vector<std::string>{}},
             {"signals_kept", wr.changed ? wr.namesKept : std::vector<std::string>{}},
+            {"no_longer_read", [&] {
+                 // What the unused wire reads: bits the logic no longer depends on, and named
+                 // constants it no longer names (docs/guide.md, "What the written logic reads").
+                 std::vector<std::string> bits, constants(wr.constantsNotNamed);
+                 if (wr.changed)
+                     for (const auto& n : wr.notRead)
+                         if (std::find(constants.begin(), constants.end(), n) == constants.end()) bits.push_back(n);
+                 if (!wr.changed) constants.clear();
+                 return nlohmann::json{{"wire", wr.changed ? wr.unusedWire : std::string()},
+                                       {"bits", bits},
+                                       {"constants", constants}};
+             }()},
             {"goal", opts.goal},
             {"effort", opts.effort},
             {"moves", moveRows},

@@ -272,6 +272,95 @@ def _(t):
     t.res.check(unused(after) == unused(before), f"the same unused warnings: {unused(before)} vs {unused(after)}: {raw}")
 
 
+def _unused_bits(warnings):
+    """{name: set of bit offsets, or None for every bit} from Verilator's UNUSEDSIGNAL and
+    UNUSEDPARAM messages ("Bits of signal are not used: 'a'[7:5,0]", "Signal is not used: 'b'",
+    "Parameter is not used: 'C'")."""
+    out = {}
+    for code, msg in warnings:
+        if not code.startswith("UNUSED"):
+            continue
+        m = re.search(r"'([^']+)'(\[[^\]]*\])?", msg)
+        if not m:
+            continue
+        if not m.group(2):
+            out[m.group(1)] = None
+            continue
+        bits = set()
+        for part in m.group(2)[1:-1].split(","):
+            hi, _, lo = part.partition(":")
+            bits.update(range(int(lo or hi), int(hi) + 1))
+        if out.get(m.group(1), set()) is not None:
+            out[m.group(1)] = out.get(m.group(1), set()) | bits
+    return out
+
+
+@S.case("unused_wire_holds_only_unread", needs=("verilator",))
+def _(t):
+    """The `unused` wire reads only what the written logic no longer reads: with its declaration
+    taken out of the written file, Verilator -Wall (outside reference) reports every bit and
+    named constant it listed as unused. And the header says what the wire holds: bits, named
+    constants, or both, as Verilator finds them.
+    - min_word_result_loop: the block reads a word result (kf_w0) through logic written inline,
+      which the wire listed as unread;
+    - min_localparam_fold: the wire holds only a named constant;
+    - peek: the wire holds only an input bit."""
+    peek = os.path.join(t.work, "peek.sv")
+    open(peek, "w").write(PEEK)
+    cases = [(os.path.join(t.root, "tests", "rtl", "min_word_result_loop.sv"), "min_word_result_loop"),
+             (os.path.join(t.root, "tests", "rtl", "min_localparam_fold.sv"), "min_localparam_fold"),
+             (peek, "peek")]
+    listed_any = {"bits": False, "constants": False}
+    for src, top in cases:
+        d = os.path.join(t.work, top)
+        os.mkdir(d)
+        out, rep = os.path.join(d, top + ".sv"), os.path.join(d, "report.json")
+        r = restructure(t, [src], top, out, "--min-gain", "0", "--report", rep)
+        if not t.res.check(r.returncode == 0 and os.path.exists(rep), f"{top}: restructure: {r.stderr[-1500:]}"):
+            continue
+        nl = json.load(open(rep)).get("no_longer_read")
+        if not t.res.check(isinstance(nl, dict), f"{top}: the report has no_longer_read: {nl}"):
+            continue
+        text = open(out).read()
+        wire = nl["wire"]
+        t.res.check(bool(wire) == bool(nl["bits"] or nl["constants"]),
+                    f"{top}: an unused wire exactly when something is listed: {nl}")
+        if not wire:
+            continue
+        listed_any["bits"] |= bool(nl["bits"])
+        listed_any["constants"] |= bool(nl["constants"])
+        # The written file without the wire (kerf's own declaration, one statement).
+        stripped, n = re.subn(r"\bwire\b[^;]*\b" + re.escape(wire) + r"\b[^;]*;", "", text)
+        if not t.res.check(n == 1, f"{top}: the wire {wire} is declared once"):
+            continue
+        bare = os.path.join(d, "bare")
+        os.mkdir(bare)
+        open(os.path.join(bare, top + ".sv"), "w").write(stripped)
+        _, warnings, raw = O.lint([os.path.join(bare, top + ".sv")], top)
+        unused = _unused_bits(warnings)
+        for entry in nl["bits"] + nl["constants"]:
+            m = re.fullmatch(r"([A-Za-z_][\w$]*)(?:\[(\d+)(?::(\d+))?\])?", entry)
+            name = m.group(1) if m else re.match(r"[A-Za-z_][\w$]*", entry).group(0)
+            if name not in unused:
+                t.res.check(False, f"{top}: '{entry}' is listed as no longer read, yet Verilator finds "
+                                   f"'{name}' read without the wire: {sorted(warnings)}")
+                continue
+            if m and m.group(2) is not None and unused[name] is not None:
+                hi, lo = int(m.group(2)), int(m.group(3) if m.group(3) is not None else m.group(2))
+                want = set(range(min(lo, hi), max(lo, hi) + 1))
+                t.res.check(want <= unused[name], f"{top}: bits {entry} unused by Verilator's count: {unused[name]}")
+        # The header says what the wire holds (the claim checked against Verilator's findings).
+        header = " ".join(l.strip() for l in text.split("\n") if l.strip().startswith("// ") and
+                          ("see " + wire) in l or re.match(r"\s*// kerf: \d+ of", l))
+        says_bits = "bits" in header
+        says_constants = "constants" in header
+        t.res.check(says_bits == bool(nl["bits"]), f"{top}: the header mentions bits iff the wire holds bits: {header}")
+        t.res.check(says_constants == bool(nl["constants"]),
+                    f"{top}: the header mentions named constants iff the wire holds some: {header}")
+    t.res.check(listed_any["bits"] and listed_any["constants"],
+                f"the cases exercise both kinds of entry: {listed_any}")
+
+
 @S.case("min_gain_keeps_file")
 def _(t):
     out = os.path.join(t.work, "uart_regsel.v")

@@ -25,7 +25,7 @@ module dma_fsm (
   end
 
   // kerf: 1 of 1 group rewritten, gates 68 -> 24, depth 6 -> 6, proved equivalent;
-  // bits no longer read: see kf_unused
+  // named constants no longer named: see kf_unused
   wire state_q_1_0_is_00 = state_q[1:0] == 2'b00;
   wire nstate_q2_state_q0 = ~state_q[2] & state_q[0];
   wire req_t0 = nstate_q2_state_q0 & ~state_q[1];
@@ -47,8 +47,7 @@ module dma_fsm (
     done_irq = nstate_q2_state_q0 & state_q[1];
     err_irq = state_q_1_0_is_00 & ~cancel & state_q[2];
   end
-  // kerf: the restructured logic does not depend on these bits; they are read here so
-  // that lint reports no unused signal (a name containing 'unused': common practice)
-  // (named constants it no longer compares with are read here too)
+  // kerf: the restructured logic no longer names these constants; they are read here so
+  // that lint reports no unused parameter (a name containing 'unused': common practice)
   wire [8:0] kf_unused = {FAULT, DONE, ARB};
 endmodule
