@@ -34,8 +34,8 @@
 // condition is 0. The proof of the whole rewrite re-checks this.
 #include "kerf/passes/dont_cares.h"
 
-#include "kerf/proof/simulation.h"
 #include "cone_logic.h"
+#include "window_sim.h"
 #include "workspace.h"
 
 #include <cadical.hpp>
@@ -59,25 +59,25 @@ using Words = std::vector<std::uint64_t>;
 
 using detail::ConflictCounter;
 using detail::encodeCover;
-using detail::truthTableWord;
-using detail::truthTableWords;
 using detail::evalCover;
 
 class DontCareRun {
 public:
     DontCareRun(net::Network& net, const DontCareOptions& o, const net::Network* declared, PassContext& ctx,
                 DontCareMemo* memo)
-        : net_(net), o_(o), declared_(declared), ctx_(ctx), ws_(net, ctx.depthCap), memo_(memo) {}
+        : net_(net), o_(o), declared_(declared), ctx_(ctx), ws_(net, ctx), sim_(net, ws_), memo_(memo) {}
 
     void run() {
-        order_ = net_.topoOrder();
-        pos_.assign(net_.nodeCount(), 0);
-        for (std::size_t i = 0; i < order_.size(); ++i) pos_[order_[i]] = static_cast<std::uint32_t>(i);
-        if (!setUpPatterns()) return;
-        simulateAll();
+        sim_.renewOrder();
+        // The last word of random patterns collects counterexamples.
+        sim_.start(o_.exhaustiveInputs, static_cast<std::size_t>(o_.simulationWords), 1, 0x6b657266ull);
+        pendingBits_ = 0;
+        words_ = sim_.words();
+        exhaustive_ = sim_.exhaustive();
         outputCare();
         std::size_t examined = 0;
-        for (auto it = order_.rbegin(); it != order_.rend(); ++it) {
+        const std::vector<NodeId>& order = sim_.order();
+        for (auto it = order.rbegin(); it != order.rend(); ++it) {
             if (examined >= o_.maxNodes) { ctx_.stats.add("limit-hit:dc-max-nodes", 1); break; }
             if (conflictsLeft_ <= 0) { ctx_.stats.add("limit-hit:dc-total-conflicts", 1); break; }
             if (work_ > workLimit_) { ctx_.stats.add("limit-hit:dc-work-per-node", 1); break; }
@@ -110,36 +110,10 @@ public:
 private:
     // ---- patterns and simulation ----------------------------------------------
 
-    bool setUpPatterns() {
-        const std::size_t n = net_.inputs().size();
-        exhaustive_ = static_cast<int>(n) <= std::min(o_.exhaustiveInputs, 20);
-        if (exhaustive_) {
-            words_ = truthTableWords(n);
-        } else {
-            words_ = static_cast<std::size_t>(o_.simulationWords) + 1;   // the last word collects counterexamples
-        }
-        vals_.assign(net_.nodeCount(), Words(words_, 0));
-        proof::Random rng(0x6b657266ull);
-        for (std::size_t i = 0; i < n; ++i) {
-            Words& x = vals_[net_.inputs()[i]];
-            for (std::size_t w = 0; w < words_; ++w) {
-                if (exhaustive_) x[w] = truthTableWord(i, w);
-                else x[w] = w + 1 == words_ ? 0 : rng.next();
-            }
-        }
-        pendingBits_ = 0;
-        return true;
-    }
-
-    void simulateAll() {
-        for (NodeId v : order_)
-            for (std::size_t w = 0; w < words_; ++w) vals_[v][w] = evalCover(net_.node(v).cover, vals_, w);
-    }
-
     // The last word holds counterexample patterns; re-simulate it when it changed.
     void flushPending() {
         const std::size_t w = words_ - 1;
-        for (NodeId v : order_)
+        for (NodeId v : sim_.order())
             if (ws_.live(v)) vals_[v][w] = evalCover(net_.node(v).cover, vals_, w);
         pendingDirty_ = false;
         recomputeCare();
@@ -214,15 +188,14 @@ private:
         if (f.literalCount() <= 1) return;
 
         // The fanout window, in topological order, and its edges.
-        std::vector<NodeId> window = fanoutWindow(v);
-        std::unordered_map<NodeId, std::size_t> inWindow;
-        for (std::size_t i = 0; i < window.size(); ++i) inWindow[window[i]] = i;
+        std::vector<NodeId> window = sim_.fanoutCone(v);
+        sim_.unmark(window);
+        if (window.size() > o_.windowNodes + 1) window.resize(o_.windowNodes + 1);
+        sim_.setWindow(window);
         struct Edge { NodeId node; std::vector<std::size_t> outputs; bool free; };
         std::vector<Edge> edges;
         for (NodeId u : window) {
-            Edge e{u, {}, false};
-            for (NodeId x : ws_.fanouts(u))
-                if (!inWindow.count(x)) { e.free = true; break; }
+            Edge e{u, {}, sim_.readOutside(u)};
             if (ws_.outputRefs(u) > 0)
                 for (std::size_t q = 0; q < net_.outputs().size(); ++q)
                     if (literalVar(net_.outputs()[q].driver) == u) e.outputs.push_back(q);
@@ -234,26 +207,12 @@ private:
         // Which fanin values are observed, by simulation.
         const std::size_t tableBits = std::size_t{1} << k;
         std::vector<std::uint8_t> care(tableBits, 0);
-        std::vector<Words> flipped(window.size(), Words(words_));
+        std::vector<Words> flipped;
+        sim_.simulateFlipped(window, flipped);
         for (std::size_t w = 0; w < words_; ++w) {
-            for (std::size_t i = 0; i < window.size(); ++i) {
-                NodeId u = window[i];
-                if (u == v) { flipped[i][w] = ~vals_[v][w]; continue; }
-                std::uint64_t out = 0;
-                for (const Cube& c : ws_.cover(u).cubes) {
-                    std::uint64_t t = ~0ull;
-                    for (Literal l : c.lits) {
-                        auto it = inWindow.find(literalVar(l));
-                        std::uint64_t x = it != inWindow.end() ? flipped[it->second][w] : vals_[literalVar(l)][w];
-                        t &= literalNegated(l) ? ~x : x;
-                    }
-                    out |= t;
-                }
-                flipped[i][w] = out;
-            }
             std::uint64_t obs = 0;
             for (const Edge& e : edges) {
-                std::uint64_t d = flipped[inWindow[e.node]][w] ^ vals_[e.node][w];
+                std::uint64_t d = flipped[sim_.index(e.node)][w] ^ vals_[e.node][w];
                 if (e.free) { obs |= d; continue; }
                 std::uint64_t c = 0;
                 for (std::size_t q : e.outputs) c |= care_[q][w];
@@ -302,32 +261,10 @@ private:
         complemented_ += useNeg;
         saved_ += static_cast<long long>(before) - static_cast<long long>(net_.node(v).cover.literalCount());
         // Only the window can change (see Soundness above).
-        for (NodeId u : window)
-            for (std::size_t w = 0; w < words_; ++w) vals_[u][w] = evalCover(net_.node(u).cover, vals_, w);
+        for (NodeId u : window) sim_.simulate(u);
     }
 
     std::uint64_t pendingMask() const { return pendingBits_ >= 64 ? ~0ull : (1ull << pendingBits_) - 1; }
-
-    std::vector<NodeId> fanoutWindow(NodeId v) {
-        std::vector<NodeId> tfo{v};
-        std::vector<NodeId> stack{v};
-        seen_.resize(net_.nodeCount(), 0);
-        seen_[v] = 1;
-        while (!stack.empty()) {
-            NodeId u = stack.back();
-            stack.pop_back();
-            for (NodeId x : ws_.fanouts(u))
-                if (!seen_[x] && ws_.live(x)) {
-                    seen_[x] = 1;
-                    tfo.push_back(x);
-                    stack.push_back(x);
-                }
-        }
-        for (NodeId u : tfo) seen_[u] = 0;
-        std::sort(tfo.begin(), tfo.end(), [&](NodeId a, NodeId b) { return pos_[a] < pos_[b]; });
-        if (tfo.size() > o_.windowNodes + 1) tfo.resize(o_.windowNodes + 1);
-        return tfo;
-    }
 
     // ---- SAT confirmation -------------------------------------------------------
 
@@ -339,82 +276,26 @@ private:
         // which can only mark more values as care — never fewer — so the
         // don't-cares found stay sound, and a query costs the window's
         // neighbourhood instead of the whole cone.
-        std::vector<NodeId> cone;
-        std::vector<std::uint8_t>& freeVar = free_;
-        freeVar.resize(net_.nodeCount(), 0);
-        seen_.resize(net_.nodeCount(), 0);
-        auto visit = [&](NodeId u) {
-            if (seen_[u]) return;
-            seen_[u] = 1;
-            cone.push_back(u);
-        };
-        for (NodeId u : window) visit(u);
-        for (auto f : fanins) visit(f);
-        std::size_t levelEnd = cone.size();
-        int level = 0;
-        for (std::size_t i = 0; i < cone.size(); ++i) {
-            if (i == levelEnd) { ++level; levelEnd = cone.size(); }
-            const NodeId u = cone[i];
-            if (!net_.isLogic(u)) continue;
-            if (level >= o_.coneLevels && !std::binary_search(window.begin(), window.end(), u,
-                                                              [&](NodeId a, NodeId b) { return pos_[a] < pos_[b]; })) {
-                freeVar[u] = 1;
-                continue;
-            }
-            for (const Cube& c : net_.node(u).cover.cubes)
-                for (Literal l : c.lits) visit(literalVar(l));
-            if (cone.size() > o_.coneLimit) break;
-        }
-        for (NodeId u : cone) seen_[u] = 0;
+        const std::vector<NodeId> seeds(fanins.begin(), fanins.end());
+        const std::vector<NodeId> cone = sim_.satCone(window, seeds, o_.coneLevels, o_.coneLimit);
         work_ += static_cast<std::int64_t>(cone.size());
         if (cone.size() > o_.coneLimit) {
-            for (NodeId u : cone) freeVar[u] = 0;
             ++coneSkips_;
             return false;
         }
-        std::sort(cone.begin(), cone.end(), [&](NodeId a, NodeId b) {
-            const bool la = net_.isLogic(a), lb = net_.isLogic(b);
-            if (la != lb) return !la;
-            return la ? pos_[a] < pos_[b] : a < b;
-        });
-
-        CaDiCaL::Solver s;
-        s.set("quiet", 1);
-        ConflictCounter counter;
-        s.connect_learner(&counter);
-        int nextVar = 0;
-        std::unordered_map<NodeId, int> x, y;   // original and flipped copies
-        int constFalse = ++nextVar;
-        s.add(-constFalse), s.add(0);
-        x[0] = constFalse;
-        auto litX = [&](Literal l) {
-            int b = x.at(literalVar(l));
-            return literalNegated(l) ? -b : b;
-        };
-        for (NodeId u : cone) {
-            if (u == 0) continue;
-            if (!net_.isLogic(u) || freeVar[u]) x[u] = ++nextVar;
-            else x[u] = encodeCover(s, nextVar, net_.node(u).cover, litX);
-        }
-        for (NodeId u : cone) freeVar[u] = 0;
-        auto litY = [&](Literal l) {
-            auto it = y.find(literalVar(l));
-            int b = it != y.end() ? it->second : x.at(literalVar(l));
-            return literalNegated(l) ? -b : b;
-        };
-        for (NodeId u : window) {
-            if (u == v) y[u] = -x.at(v);
-            else y[u] = encodeCover(s, nextVar, net_.node(u).cover, litY);
-        }
+        detail::WindowSimulation::Query q;   // x: the original logic, y: the window with v flipped
+        sim_.encodeCone(q, cone);
+        sim_.encodeWindowCopy(q, window, -q.x.at(v));
+        CaDiCaL::Solver& s = q.solver;
+        ConflictCounter& counter = q.counter;
+        int& nextVar = q.nextVar;
+        std::unordered_map<NodeId, int>& x = q.x;
+        const std::unordered_map<NodeId, int>& y = q.y;
         // Declared conditions of the outputs the window drives, over the same inputs.
         std::unordered_map<std::size_t, int> careLit;
         std::vector<int> goal;
-        std::unordered_map<NodeId, std::size_t> inWindow;
-        for (std::size_t i = 0; i < window.size(); ++i) inWindow[window[i]] = i;
         for (NodeId u : window) {
-            bool free = false;
-            for (NodeId z : ws_.fanouts(u))
-                if (!inWindow.count(z)) { free = true; break; }
+            const bool free = sim_.readOutside(u);
             std::vector<std::size_t> outs;
             if (ws_.outputRefs(u) > 0)
                 for (std::size_t q = 0; q < net_.outputs().size(); ++q)
@@ -514,12 +395,10 @@ private:
     const net::Network* declared_;
     PassContext& ctx_;
     detail::Workspace ws_;
-    std::vector<NodeId> order_;
-    std::vector<std::uint32_t> pos_;
-    std::vector<std::uint8_t> seen_, free_;
+    detail::WindowSimulation sim_;
+    std::vector<Words>& vals_ = sim_.values();
     bool exhaustive_ = false;
     std::size_t words_ = 0;
-    std::vector<Words> vals_;
     std::vector<Words> care_;
     std::vector<int> dcIndex_, dcInputs_;
     int pendingBits_ = 0;

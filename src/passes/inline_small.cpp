@@ -95,7 +95,7 @@ Evaluation evaluate(detail::Workspace& ws, net::NodeId v, const InlineOptions& o
 } // namespace
 
 void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx) {
-    detail::Workspace ws(net, ctx.depthCap);
+    detail::Workspace ws(net, ctx);
     ComplementCache cc(opts.complementCubeCap);
     using Item = std::pair<long, net::NodeId>;
     std::priority_queue<Item, std::vector<Item>, std::greater<>> heap;

@@ -33,8 +33,8 @@
 // of the whole rewrite re-checks this.
 #include "kerf/passes/resub_boolean.h"
 
-#include "kerf/proof/simulation.h"
 #include "cone_logic.h"
+#include "window_sim.h"
 #include "workspace.h"
 
 #include <algorithm>
@@ -51,8 +51,6 @@ using algebra::makeLiteral;
 using detail::ConflictCounter;
 using detail::encodeCover;
 using detail::evalCover;
-using detail::truthTableWord;
-using detail::truthTableWords;
 using detail::Words;
 using net::NodeId;
 
@@ -61,17 +59,16 @@ namespace {
 class ResubRun {
 public:
     ResubRun(net::Network& net, const BooleanResubOptions& o, PassContext& ctx)
-        : net_(net), o_(o), ctx_(ctx), ws_(net, ctx.depthCap) {}
+        : net_(net), o_(o), ctx_(ctx), ws_(net, ctx), sim_(net, ws_) {}
 
     void run() {
-        order_ = net_.topoOrder();
-        pos_.assign(net_.nodeCount(), 0);
-        for (std::size_t i = 0; i < order_.size(); ++i) pos_[order_[i]] = static_cast<std::uint32_t>(i);
-        setUpPatterns();
-        for (NodeId v : order_) simulate(v);
+        sim_.renewOrder();
+        sim_.start(o_.exhaustiveInputs, static_cast<std::size_t>(o_.simulationWords), 0, 0x72657375ull);
+        words_ = sim_.words();
+        exhaustive_ = sim_.exhaustive();
         conflictsLeft_ = o_.totalConflicts;
         std::size_t examined = 0;
-        const std::vector<NodeId> visit = order_;   // order_ itself is renewed when a change reorders nodes
+        const std::vector<NodeId> visit = sim_.order();   // the order itself is renewed when a change reorders nodes
         for (auto it = visit.rbegin(); it != visit.rend(); ++it) {
             if (examined >= o_.maxNodes) { ctx_.stats.add("limit-hit:bresub-max-nodes", 1); break; }
             if (conflictsLeft_ <= 0) { ctx_.stats.add("limit-hit:bresub-total-conflicts", 1); break; }
@@ -92,49 +89,12 @@ public:
     }
 
 private:
-    void setUpPatterns() {
-        const std::size_t n = net_.inputs().size();
-        exhaustive_ = static_cast<int>(n) <= std::min(o_.exhaustiveInputs, 20);
-        words_ = exhaustive_ ? truthTableWords(n) : static_cast<std::size_t>(o_.simulationWords);
-        vals_.assign(net_.nodeCount(), Words(words_, 0));
-        proof::Random rng(0x72657375ull);
-        for (std::size_t i = 0; i < n; ++i) {
-            Words& x = vals_[net_.inputs()[i]];
-            for (std::size_t w = 0; w < words_; ++w) x[w] = exhaustive_ ? truthTableWord(i, w) : rng.next();
-        }
-        // Fewer than 64 patterns in the single word: the unused bits repeat
-        // patterns already there (the masks above are periodic), so they are harmless.
-    }
-
-    void simulate(NodeId v) {
-        for (std::size_t w = 0; w < words_; ++w) vals_[v][w] = evalCover(net_.node(v).cover, vals_, w);
-    }
-
-    // v's fanout cone (all of it, marked in tfo_) and its first windowNodes+1 nodes in topological order.
-    std::vector<NodeId> fanoutCone(NodeId v) {
-        std::vector<NodeId> cone{v}, stack{v};
-        tfo_.resize(net_.nodeCount(), 0);
-        tfo_[v] = 1;
-        while (!stack.empty()) {
-            const NodeId u = stack.back();
-            stack.pop_back();
-            for (NodeId x : ws_.fanouts(u))
-                if (!tfo_[x] && ws_.live(x)) {
-                    tfo_[x] = 1;
-                    cone.push_back(x);
-                    stack.push_back(x);
-                }
-        }
-        std::sort(cone.begin(), cone.end(), [&](NodeId a, NodeId b) { return pos_[a] < pos_[b]; });
-        return cone;
-    }
-
     // Nodes near v to try as divisors: fanins a few levels back, then other readers of v's fanins.
     std::vector<NodeId> divisorsNear(NodeId v) {
         std::vector<NodeId> out;
         seen_.resize(net_.nodeCount(), 0);
         auto take = [&](NodeId u) {
-            if (u == 0 || seen_[u] || tfo_[u] || out.size() >= o_.divisors) return;
+            if (u == 0 || seen_[u] || sim_.inCone(u) || out.size() >= o_.divisors) return;
             if (!net_.isLogic(u) && net_.node(u).kind != net::NodeKind::Input) return;
             seen_[u] = 1;
             out.push_back(u);
@@ -166,45 +126,26 @@ private:
         const Cover f = ws_.cover(v);
         const std::size_t lits = f.literalCount();
         if (lits < 2 || f.isOne()) return;
-        const std::vector<NodeId> cone = fanoutCone(v);
+        const std::vector<NodeId> cone = sim_.fanoutCone(v);
         std::vector<NodeId> window(cone.begin(), cone.begin() + static_cast<std::ptrdiff_t>(
                                                                std::min(cone.size(), o_.windowNodes + 1)));
         std::vector<NodeId> divs = divisorsNear(v);
-        for (NodeId u : cone) tfo_[u] = 0;
+        sim_.unmark(cone);
         if (divs.empty()) return;
 
         // Window edges: nodes read outside the window or driving an output.
-        std::unordered_map<NodeId, std::size_t> inWindow;
-        for (std::size_t i = 0; i < window.size(); ++i) inWindow[window[i]] = i;
+        sim_.setWindow(window);
         std::vector<NodeId> edges;
-        for (NodeId u : window) {
-            bool edge = ws_.outputRefs(u) > 0;
-            for (NodeId x : ws_.fanouts(u))
-                if (!inWindow.count(x)) { edge = true; break; }
-            if (edge) edges.push_back(u);
-        }
+        for (NodeId u : window)
+            if (ws_.outputRefs(u) > 0 || sim_.readOutside(u)) edges.push_back(u);
         if (edges.empty()) return;
 
         // Where v is observed: flip it and re-simulate the window.
         Words care(words_, 0);
-        std::vector<Words> flipped(window.size(), Words(words_));
+        std::vector<Words> flipped;
+        sim_.simulateFlipped(window, flipped);
         for (std::size_t w = 0; w < words_; ++w) {
-            for (std::size_t i = 0; i < window.size(); ++i) {
-                const NodeId u = window[i];
-                if (u == v) { flipped[i][w] = ~vals_[v][w]; continue; }
-                std::uint64_t out = 0;
-                for (const Cube& c : ws_.cover(u).cubes) {
-                    std::uint64_t t = ~0ull;
-                    for (Literal l : c.lits) {
-                        auto it = inWindow.find(literalVar(l));
-                        const std::uint64_t x = it != inWindow.end() ? flipped[it->second][w] : vals_[literalVar(l)][w];
-                        t &= literalNegated(l) ? ~x : x;
-                    }
-                    out |= t;
-                }
-                flipped[i][w] = out;
-            }
-            for (NodeId e : edges) care[w] |= flipped[inWindow[e]][w] ^ vals_[e][w];
+            for (NodeId e : edges) care[w] |= flipped[sim_.index(e)][w] ^ vals_[e][w];
         }
 
         // Candidates by simulation, cheapest first: one literal, then two.
@@ -260,16 +201,16 @@ private:
             if (!ws_.commit()) continue;
             // v now reads a node that may come after it in order_: renew the
             // order (windows and SAT cones are laid out by it).
-            if (pos_[literalVar(form.a)] > pos_[v] || (form.kind > 0 && pos_[literalVar(form.b)] > pos_[v])) {
-                order_ = net_.topoOrder();
-                for (std::size_t i = 0; i < order_.size(); ++i) pos_[order_[i]] = static_cast<std::uint32_t>(i);
-                window = fanoutCone(v);   // the cone is unchanged; only its order
-                for (NodeId u : window) tfo_[u] = 0;
+            if (sim_.pos(literalVar(form.a)) > sim_.pos(v) ||
+                (form.kind > 0 && sim_.pos(literalVar(form.b)) > sim_.pos(v))) {
+                sim_.renewOrder();
+                window = sim_.fanoutCone(v);   // the cone is unchanged; only its order
+                sim_.unmark(window);
                 if (window.size() > o_.windowNodes + 1) window.resize(o_.windowNodes + 1);
             }
             (form.kind == 0 ? byOne_ : byTwo_) += 1;
             saved_ += static_cast<long long>(lits - next.literalCount());
-            for (NodeId u : window) simulate(u);   // values change only inside the window
+            for (NodeId u : window) sim_.simulate(u);   // values change only inside the window
             return;
         }
     }
@@ -281,67 +222,22 @@ private:
         // divisors, up to coneLevels levels; nodes at the last level are
         // free variables (more behaviours than the circuit has: a query can
         // only fail more often, so a confirmation stays sound).
-        std::vector<NodeId> cone;
-        seen_.resize(net_.nodeCount(), 0);
-        free_.resize(net_.nodeCount(), 0);
-        inWin_.resize(net_.nodeCount(), 0);
-        for (NodeId u : window) inWin_[u] = 1;
-        auto visit = [&](NodeId u) {
-            if (seen_[u]) return;
-            seen_[u] = 1;
-            cone.push_back(u);
-        };
-        for (NodeId u : window) visit(u);
-        visit(literalVar(form.a));
-        if (form.kind > 0) visit(literalVar(form.b));
-        std::size_t levelEnd = cone.size();
-        int level = 0;
-        for (std::size_t i = 0; i < cone.size() && cone.size() <= o_.coneLimit; ++i) {
-            if (i == levelEnd) { ++level; levelEnd = cone.size(); }
-            const NodeId u = cone[i];
-            if (!net_.isLogic(u)) continue;
-            if (level >= o_.coneLevels && !inWin_[u]) { free_[u] = 1; continue; }
-            for (const Cube& c : net_.node(u).cover.cubes)
-                for (Literal l : c.lits) visit(literalVar(l));
-        }
-        auto clear = [&] {
-            for (NodeId u : cone) seen_[u] = free_[u] = 0;
-            for (NodeId u : window) inWin_[u] = 0;
-        };
+        std::vector<NodeId> seeds{literalVar(form.a)};
+        if (form.kind > 0) seeds.push_back(literalVar(form.b));
+        const std::vector<NodeId> cone = sim_.satCone(window, seeds, o_.coneLevels, o_.coneLimit);
         if (cone.size() > o_.coneLimit) {
-            clear();
             ++coneSkips_;
             return false;
         }
-        std::sort(cone.begin(), cone.end(), [&](NodeId a, NodeId b) {
-            const bool la = net_.isLogic(a), lb = net_.isLogic(b);
-            if (la != lb) return !la;
-            return la ? pos_[a] < pos_[b] : a < b;
-        });
-        CaDiCaL::Solver s;
-        s.set("quiet", 1);
-        ConflictCounter counter;
-        s.connect_learner(&counter);
-        int nextVar = 0;
-        std::unordered_map<NodeId, int> x, y;
-        x[0] = ++nextVar;
-        s.add(-x[0]), s.add(0);
-        auto litX = [&](Literal l) {
-            const int b = x.at(literalVar(l));
-            return literalNegated(l) ? -b : b;
-        };
-        for (NodeId u : cone) {
-            if (u == 0) continue;
-            x[u] = (!net_.isLogic(u) || free_[u]) ? ++nextVar : encodeCover(s, nextVar, net_.node(u).cover, litX);
-        }
-        clear();
-        auto litY = [&](Literal l) {
-            auto it = y.find(literalVar(l));
-            const int b = it != y.end() ? it->second : x.at(literalVar(l));
-            return literalNegated(l) ? -b : b;
-        };
-        for (NodeId u : window)
-            y[u] = u == v ? encodeCover(s, nextVar, form.cover(), litX) : encodeCover(s, nextVar, net_.node(u).cover, litY);
+        detail::WindowSimulation::Query q;   // x: the original logic, y: the window with v's new form
+        sim_.encodeCone(q, cone);
+        CaDiCaL::Solver& s = q.solver;
+        int& nextVar = q.nextVar;
+        const int formLit = encodeCover(s, nextVar, form.cover(), [&q](Literal l) { return q.litX(l); });
+        sim_.encodeWindowCopy(q, window, formLit);
+        const auto& x = q.x;
+        const auto& y = q.y;
+        const ConflictCounter& counter = q.counter;
         std::vector<int> diffs;
         for (NodeId e : edges) {
             const int a = x.at(e), b = y.at(e), d = ++nextVar;
@@ -367,12 +263,11 @@ private:
     const BooleanResubOptions& o_;
     PassContext& ctx_;
     detail::Workspace ws_;
-    std::vector<NodeId> order_;
-    std::vector<std::uint32_t> pos_;
-    std::vector<std::uint8_t> tfo_, seen_, free_, inWin_;
+    detail::WindowSimulation sim_;
+    std::vector<Words>& vals_ = sim_.values();
+    std::vector<std::uint8_t> seen_;
     bool exhaustive_ = false;
     std::size_t words_ = 0;
-    std::vector<Words> vals_;
     std::int64_t conflictsLeft_ = 0;
     long long byOne_ = 0, byTwo_ = 0, saved_ = 0, queries_ = 0, refuted_ = 0, coneSkips_ = 0, budgetSkips_ = 0;
 };

@@ -50,7 +50,7 @@ std::vector<std::uint32_t> varsOf(const Cover& f) {
 } // namespace
 
 void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
-    detail::Workspace ws(net, ctx.depthCap);
+    detail::Workspace ws(net, ctx);
     std::unordered_map<std::string, std::pair<bool, Cover>> compCache;
     auto complementOf = [&](const Cover& g) -> const std::pair<bool, Cover>& {
         std::string key = detail::coverKey(g);

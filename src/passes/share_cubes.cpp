@@ -70,7 +70,7 @@ std::vector<std::uint32_t> indexedCubes(const Cube& I, std::unordered_map<Litera
 } // namespace
 
 void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
-    detail::Workspace ws(net, ctx.depthCap);
+    detail::Workspace ws(net, ctx);
     long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0;
     bool exhausted = false;
     for (int round = 0; round < opts.rounds; ++round) {

@@ -354,7 +354,7 @@ void runKernels(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ct
 } // namespace
 
 void shareDivisors(net::Network& net, const ShareDivisorsOptions& opts, PassContext& ctx) {
-    Workspace ws(net, ctx.depthCap);
+    Workspace ws(net, ctx);
     if (opts.method != ShareDivisorsOptions::Method::Pairs) runKernels(ws, opts, ctx);
     if (opts.method != ShareDivisorsOptions::Method::Kernels) runPairs(ws, opts, ctx);
     ctx.stats.add("depth-rejects", static_cast<long long>(ws.depthRejects()));

@@ -19,7 +19,7 @@ namespace kerf::passes {
 using algebra::Cover;
 
 void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx, ShrinkMemo* memo) {
-    detail::Workspace ws(net, ctx.depthCap);
+    detail::Workspace ws(net, ctx);
     long shrunk = 0, complemented = 0, saved = 0, rejected = 0, remembered = 0;
     for (net::NodeId v : net.topoOrder()) {
         if (!ws.live(v)) continue;

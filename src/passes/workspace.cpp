@@ -166,6 +166,12 @@ std::size_t cubeArrival(const Cube& c, const std::vector<std::size_t>& at) {
     return cubeArrivalBy(c, [&](NodeId v) { return v < at.size() ? at[v] : std::size_t{0}; });
 }
 
+Workspace::Workspace(net::Network& net, PassContext& ctx) : Workspace(net, ctx.depthCap) { ctx_ = &ctx; }
+
+Workspace::~Workspace() {
+    if (ctx_) ctx_->edits += kept_;
+}
+
 Workspace::Workspace(net::Network& net, std::size_t depthCap) : net_(net), cap_(depthCap) {
     ensureSize();
     std::vector<NodeId> vars;
@@ -388,6 +394,7 @@ bool Workspace::commit() {
         return false;
     }
     open_ = false;
+    ++kept_;
     return true;
 }
 

@@ -64,6 +64,11 @@ std::size_t cubeArrival(const Cube& c, const std::vector<std::size_t>& at);
 class Workspace {
 public:
     Workspace(net::Network& net, std::size_t depthCap);
+    /// The same with the context's depth bound; the edits kept are added to ctx.edits when it ends.
+    Workspace(net::Network& net, PassContext& ctx);
+    ~Workspace();
+    Workspace(const Workspace&) = delete;
+    Workspace& operator=(const Workspace&) = delete;
 
     net::Network& net() { return net_; }
     const Cover& cover(NodeId v) const { return net_.node(v).cover; }
@@ -89,6 +94,8 @@ public:
     std::size_t depthRejects() const { return rejects_; }
     /// Cubes whose arrival was computed by commits so far (a measure of work).
     std::size_t cubesTimed() const { return cubesTimed_; }
+    /// Edits kept so far.
+    std::size_t keptEdits() const { return kept_; }
 
 private:
     void ensureSize();
@@ -118,6 +125,8 @@ private:
     std::vector<NodeId> touched_;
     std::vector<std::uint8_t> queued_;
     std::size_t rejects_ = 0;
+    std::size_t kept_ = 0;
+    PassContext* ctx_ = nullptr;
     std::size_t cubesTimed_ = 0;
     // Incremental timing: per node, cubes per arrival time (valid when
     // histValid_), and per node the (variable, cubes reading it) pairs sorted by variable.

@@ -42,6 +42,8 @@ struct PassContext {
     std::size_t depthCap = kNoDepthCap;
     int verbose = 0;
     PassStats stats;
+    /// Edits the passes run in this context kept (0: the network is as it was).
+    std::size_t edits = 0;
 };
 
 } // namespace kerf::passes
