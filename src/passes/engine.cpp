@@ -71,6 +71,7 @@ double since(std::chrono::steady_clock::time_point t) {
     return std::chrono::duration<double>(std::chrono::steady_clock::now() - t).count();
 }
 
+
 // ---- limits by name ---------------------------------------------------------
 
 struct LimitInfo {
@@ -365,13 +366,17 @@ private:
 
     void value(const net::Network& net, const net::Metrics& current, Source& s, long version) {
         const auto t0 = std::chrono::steady_clock::now();
+        const double c0 = detail::cpuNow();
         auto trial = std::make_unique<net::Network>(net);
         PassContext ctx;
         ctx.depthCap = passCap_;
         ctx.verbose = opts_.verbose;
         s.run(*trial, ctx);
-        tidy(*trial, ctx);
-        net::Metrics m = measure(*trial);
+        // A technique that kept no edit left the (tidy) network as it was:
+        // its gain is 0 without tidying and measuring it again.
+        const bool unchanged = s.growth < 0 && ctx.edits == 0;
+        if (!unchanged) tidy(*trial, ctx);
+        net::Metrics m = unchanged ? current : measure(*trial);
         if (s.growth >= 0) {
             // Regroup: re-optimise what dissolving left, then value the end result.
             std::vector<Source> inner = makeSources(false);
@@ -384,7 +389,9 @@ private:
             if (v > 0 && k.rfind("limit-hit:", 0) == 0) limitHit(k.substr(10));
         TechniqueRow& row = rowFor(s.name);
         ++row.trials;
+        if (unchanged) ++row.unchanged;
         row.seconds += since(t0);
+        row.cpuSeconds += detail::cpuNow() - c0;
         s.valuedAt = version;
         const bool ok = admissible(m, current);
         s.estimate = ok ? gainOf(opts_.goal, valueOf(current), valueOf(m)) : -1;
@@ -618,11 +625,11 @@ std::string formatEngineReport(const EngineResult& r) {
     if (r.regions > 0) s += fmt::format("({} regions, restructured one by one; their moves not listed)\n", r.regions);
     s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", r.keptOriginal ? "(result: input kept)" : "(result)",
                      r.after.gates, r.after.depth, r.after.literals);
-    s += fmt::format("\n{:<30} {:>6} {:>5} {:>11} {:>11} {:>8}\n", "technique", "trials", "kept", "gates saved",
-                     "depth saved", "seconds");
+    s += fmt::format("\n{:<30} {:>6} {:>9} {:>5} {:>11} {:>11} {:>8} {:>8}\n", "technique", "trials", "no edits",
+                     "kept", "gates saved", "depth saved", "seconds", "cpu s");
     for (const TechniqueRow& t : r.techniques) {
-        s += fmt::format("{:<30} {:>6} {:>5} {:>11} {:>11} {:>8.3f}\n", t.technique, t.trials, t.applied,
-                         t.gatesSaved, t.depthSaved, t.seconds);
+        s += fmt::format("{:<30} {:>6} {:>9} {:>5} {:>11} {:>11} {:>8.3f} {:>8.3f}\n", t.technique, t.trials,
+                         t.unchanged, t.applied, t.gatesSaved, t.depthSaved, t.seconds, t.cpuSeconds);
         if (!t.counters.empty()) {
             std::string c;
             for (const auto& [n, v] : t.counters) c += fmt::format(" {}={}", n, v);

@@ -34,6 +34,7 @@
 #include <algorithm>
 #include <chrono>
 #include <climits>
+#include <ctime>
 #include <functional>
 
 namespace kerf::passes::detail {
@@ -78,7 +79,9 @@ void addRow(EngineResult& res, const TechniqueRow& r) {
         t.applied += r.applied;
         t.gatesSaved += r.gatesSaved;
         t.depthSaved += r.depthSaved;
+        t.unchanged += r.unchanged;
         t.seconds += r.seconds;
+        t.cpuSeconds += r.cpuSeconds;
         for (const auto& kv : r.counters) {
             auto it = std::find_if(t.counters.begin(), t.counters.end(),
                                    [&](const auto& p) { return p.first == kv.first; });
@@ -91,6 +94,12 @@ void addRow(EngineResult& res, const TechniqueRow& r) {
 }
 
 } // namespace
+
+double cpuNow() {
+    timespec ts{};
+    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
+    return static_cast<double>(ts.tv_sec) + static_cast<double>(ts.tv_nsec) * 1e-9;
+}
 
 bool useRegions(const net::Network& net, const EngineOptions& opts) {
     if (opts.limits.regionLiterals == 0 || opts.goal != Goal::Size) return false;
@@ -121,6 +130,7 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
     const std::size_t passCap = static_cast<std::size_t>(std::max(bound, inputDepth));
     auto wholePass = [&](const char* name, const std::function<void(net::Network&, PassContext&)>& run) {
         const auto t = std::chrono::steady_clock::now();
+        const double c = cpuNow();
         net::Network trial = net;
         PassContext ctx;
         ctx.depthCap = passCap;
@@ -145,6 +155,7 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
             current = m;
         }
         row.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t).count();
+        row.cpuSeconds = cpuNow() - c;
         addRow(res, row);
     };
     const EngineLimits& L = opts.limits;

@@ -11,6 +11,10 @@ bool useRegions(const net::Network& net, const EngineOptions& opts);
 
 /// restructure() for a large network: the scheduler runs on each region
 /// with the effort's limits; the result is never worse than the input.
+/// CPU seconds this process has used (technique timings: the machine may be
+/// shared, and wall time then says little about what a technique costs).
+double cpuNow();
+
 EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts);
 
 } // namespace kerf::passes::detail

@@ -63,8 +63,8 @@ struct EngineLimits {
     /// Covers of more cubes are written as plain sums of products, not factored.
     std::size_t factorMaxCubes = 1000;
     /// Networks of more than twice this many literals are restructured region
-    /// by region, regions of about this many literals (0: always whole; the
-    /// default for --effort fast is 20000).
+    /// by region, regions of about this many literals (0: always whole; each
+    /// effort's value is set in limitsFor).
     std::size_t regionLiterals = 0;
     minimize::MinimizeOptions minimize;
     InlineOptions dissolve;
@@ -105,7 +105,9 @@ struct TechniqueRow {
     int applied = 0;                  ///< moves kept
     long long gatesSaved = 0;         ///< over the kept moves
     long long depthSaved = 0;
-    double seconds = 0;
+    int unchanged = 0;                ///< moves valued that kept no edit (gain 0, not measured)
+    double seconds = 0;               ///< wall time of its trials
+    double cpuSeconds = 0;            ///< CPU time of its trials (a regroup's includes its inner trials)
     std::vector<std::pair<std::string, long long>> counters;   ///< summed over kept moves
 };
 
