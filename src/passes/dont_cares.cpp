@@ -306,9 +306,12 @@ private:
             s.add(-d), s.add(a), s.add(b), s.add(0);
             s.add(-d), s.add(-a), s.add(-b), s.add(0);
             if (!free) {
-                // d -> some driven output cares
+                // d -> some driven output cares. The care literals are made first: making one
+                // adds the clauses of its condition, which must not land inside this clause (F31).
+                std::vector<int> cares;
+                for (std::size_t q : outs) cares.push_back(outputCareLit(s, nextVar, q, x, careLit));
                 s.add(-d);
-                for (std::size_t q : outs) s.add(outputCareLit(s, nextVar, q, x, careLit));
+                for (int c : cares) s.add(c);
                 s.add(0);
             }
             goal.push_back(d);
