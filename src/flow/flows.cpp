@@ -61,8 +61,10 @@ nlohmann::json stagesJson(const io::StageLog& log) {
 /// the rewrite, so that kerf's new wires are not compared).
 frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bitBlast, const std::string& prefix,
                           const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {},
-                          bool keepX = false, const std::map<int, std::string>& kept = {}) {
+                          bool keepX = false, const std::map<int, std::string>& kept = {},
+                          const std::string& lintOnly = "") {
     frontend::LowerOptions lo;
+    if (!lintOnly.empty()) lo.lintOnly.push_back(lintOnly);
     lo.keepX = keepX;
     lo.keptMembers = kept;
     lo.bitBlastArithmetic = bitBlast;
@@ -306,7 +308,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         frontend::Lowered writtenLow;
         try {
             writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX,
-                                 keptByKey(desc, agreedKept, written));
+                                 keptByKey(desc, agreedKept, written), wr.unusedWire);
         } catch (const Error& e) {
             ownFault(e, "lower");
         }
@@ -333,8 +335,9 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                                 : lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr,
                                                           opts.keep, opts.keepX, agreedKept);
             proofOriginal.reset();
+            // The writer's unused wire only reads bits for lint: what it reads may be x.
             frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep,
-                                          opts.keepX, keptByKey(desc, agreedKept, written));
+                                          opts.keepX, keptByKey(desc, agreedKept, written), wr.unusedWire);
             io::Progress::global().stage("prove");
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;

@@ -124,6 +124,8 @@ public:
     // -- module assembly (lower_module.cpp)
     Bit signalBit(SymbolId sym, int off);
     Bit inputBit(SymbolId sym, int off);
+    /// The member writes only LowerOptions::lintOnly signals (the writer's unused wire).
+    bool drivesOnlyLintWires(const Member& mem) const;
     void recordBit(SymbolId sym, int off, Bit b);
     void lowerMember(int idx);
     /// The bits kept code can make x (keptX_); restructured statements reading them are kept.

@@ -128,13 +128,20 @@ std::string Lowerer::bitName(SymbolId s, int off) const {
     return frontend::bitName(m_, BitRef{sig->name, off});
 }
 
+bool Lowerer::drivesOnlyLintWires(const Member& mem) const {
+    if (opts_.lintOnly.empty() || mem.writes.empty()) return false;
+    for (const auto& w : mem.writes)
+        if (std::find(opts_.lintOnly.begin(), opts_.lintOnly.end(), w) == opts_.lintOnly.end()) return false;
+    return true;
+}
+
 Bit Lowerer::inputBit(SymbolId s, int off) {
     // Ports and signals from kept code are taken as 0/1 (the proof's model).
     auto& v = inputLits_[s];
     if (v.empty()) v.assign(static_cast<std::size_t>(std::max(ir_.symbols[s].width, 1)), known(kUnassigned));
     if (off < 0 || off >= static_cast<int>(v.size())) return kRuleX;
     if (current_ && s < keptX_.size() && off < static_cast<int>(keptX_[s].size()) && keptX_[s][off] &&
-        !xReaders_.count(current_->id))
+        !xReaders_.count(current_->id) && !drivesOnlyLintWires(*current_))
         xReaders_[current_->id] = fmt::format(
             "it reads '{}', which code kept as written can make x; gates in its place would not treat that x "
             "as the source does", bitName(s, off));

@@ -64,6 +64,10 @@ struct LowerOptions {
     /// Members (by id) to keep as written, with the reason: another lowering of the same
     /// module kept them, and both must agree on what kerf may rewrite.
     std::map<int, std::string> keptMembers;
+    /// Signals the rewrite declares only so that lint sees bits read (the writer's unused
+    /// wire, read by nothing): a statement driving only these may read bits that can be x
+    /// without being kept as written, since no value of it is compared or read.
+    std::vector<std::string> lintOnly;
 };
 
 /// Where a network output goes.
