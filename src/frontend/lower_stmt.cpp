@@ -28,68 +28,36 @@ namespace {
 
 /// Root expressions of a statement tree (targets, values, conditions, case items, loop parts).
 void stmtRoots(const Ir& ir, StmtId root, std::vector<ExprId>& roots) {
-    std::vector<StmtId> work{root};
-    while (!work.empty()) {
-        const Stmt& s = ir.stmt(work.back());
-        work.pop_back();
+    forEachStmt(ir, {root}, LoopSteps::Visit, [&](const Stmt& s) {
         switch (s.kind) {
-        case StmtKind::Block:
-            for (std::uint32_t k = 0; k < s.b; ++k) work.push_back(ir.lists[s.a + k]);
-            break;
         case StmtKind::Assign: roots.push_back(s.a); roots.push_back(s.b); break;
-        case StmtKind::If:
-            roots.push_back(s.a);
-            work.push_back(s.b);
-            if (s.c != kNoId) work.push_back(s.c);
-            break;
+        case StmtKind::If: roots.push_back(s.a); break;
         case StmtKind::Case:
             roots.push_back(s.a);
             for (std::uint32_t k = 0; k < s.c; ++k) {
                 const CaseItem& ci = ir.caseItems[s.b + k];
                 for (std::uint32_t j = 0; j < ci.count; ++j) roots.push_back(ir.lists[ci.exprs + j]);
-                work.push_back(ci.body);
             }
-            if (s.d != kNoId) work.push_back(s.d);
             break;
         case StmtKind::CaseTable:
             roots.push_back(s.a);
             for (ExprId t : ir.caseTables[s.b].targets) roots.push_back(t);
-            if (s.d != kNoId) work.push_back(s.d);
             break;
         case StmtKind::For:
             for (std::uint32_t k = 0; k < s.b; ++k) roots.push_back(ir.forInits[s.a + k].value);
             roots.push_back(s.c);
-            for (std::uint32_t k = 0; k < s.e; ++k) work.push_back(ir.lists[s.d + k]);
-            work.push_back(s.f);
             break;
-        case StmtKind::Empty: break;
+        case StmtKind::Block: case StmtKind::Empty: break;
         }
-    }
+    });
 }
 
 /// Values a statement tree assigns (right-hand sides).
+/// (A case table's values are columns, not expressions: see tableValueBits.)
 void stmtValues(const Ir& ir, StmtId root, std::vector<ExprId>& values) {
-    std::vector<StmtId> work{root};
-    while (!work.empty()) {
-        const Stmt& st = ir.stmt(work.back());
-        work.pop_back();
-        switch (st.kind) {
-        case StmtKind::Block:
-            for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir.lists[st.a + k]);
-            break;
-        case StmtKind::Assign: values.push_back(st.b); break;
-        case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
-        case StmtKind::Case:
-            for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir.caseItems[st.b + k].body);
-            if (st.d != kNoId) work.push_back(st.d);
-            break;
-        case StmtKind::CaseTable:   // its values are columns, not expressions (tableValueBits)
-            if (st.d != kNoId) work.push_back(st.d);
-            break;
-        case StmtKind::For: work.push_back(st.f); break;
-        case StmtKind::Empty: break;
-        }
-    }
+    forEachStmt(ir, {root}, LoopSteps::Skip, [&](const Stmt& s) {
+        if (s.kind == StmtKind::Assign) values.push_back(s.b);
+    });
 }
 
 /// Every value character ('0' '1' 'x' 'z') of the case tables of a member and of the
@@ -144,31 +112,14 @@ void valueConstants(const Ir& ir, std::vector<ExprId> work, F each) {
 std::vector<const CaseTable*> memberCaseTables(const Ir& ir, const Member& mem) {
     std::vector<const CaseTable*> out;
     if (mem.kind != MemberKind::Comb) return out;
-    std::vector<StmtId> work{mem.body};
+    std::vector<StmtId> roots{mem.body};
     std::set<std::uint32_t> functions;
     for (ExprId id : memberExprs(ir, mem))
         if (ir.expr(id).kind == ExprKind::Call && functions.insert(ir.expr(id).a).second)
-            work.push_back(ir.functions[ir.expr(id).a].body);
-    while (!work.empty()) {
-        const Stmt& st = ir.stmt(work.back());
-        work.pop_back();
-        switch (st.kind) {
-        case StmtKind::Block:
-            for (std::uint32_t k = 0; k < st.b; ++k) work.push_back(ir.lists[st.a + k]);
-            break;
-        case StmtKind::If: work.push_back(st.b); if (st.c != kNoId) work.push_back(st.c); break;
-        case StmtKind::Case:
-            for (std::uint32_t k = 0; k < st.c; ++k) work.push_back(ir.caseItems[st.b + k].body);
-            if (st.d != kNoId) work.push_back(st.d);
-            break;
-        case StmtKind::CaseTable:
-            out.push_back(&ir.caseTables[st.b]);
-            if (st.d != kNoId) work.push_back(st.d);
-            break;
-        case StmtKind::For: work.push_back(st.f); break;
-        case StmtKind::Assign: case StmtKind::Empty: break;
-        }
-    }
+            roots.push_back(ir.functions[ir.expr(id).a].body);
+    forEachStmt(ir, std::move(roots), LoopSteps::Skip, [&](const Stmt& s) {
+        if (s.kind == StmtKind::CaseTable) out.push_back(&ir.caseTables[s.b]);
+    });
     return out;
 }
 
@@ -331,32 +282,16 @@ std::string Lowerer::unsupportedReason(const Member& mem) const {
         work.pop_back();
         if (depth > kMaxNesting) return fmt::format("it nests statements more than {} deep", kMaxNesting);
         const Stmt& s = ir_.stmt(id);
-        switch (s.kind) {
-        case StmtKind::Block:
-            for (std::uint32_t k = 0; k < s.b; ++k) work.push_back({ir_.lists[s.a + k], depth + 1});
-            break;
-        case StmtKind::Assign:
+        if (s.kind == StmtKind::Assign) {
             if (auto r = targetReason(ir_, s.a); !r.empty()) return r;
-            break;
-        case StmtKind::If:
-            work.push_back({s.b, depth + 1});
-            if (s.c != kNoId) work.push_back({s.c, ir_.stmt(s.c).kind == StmtKind::If ? depth : depth + 1});
-            break;
-        case StmtKind::Case:
-            for (std::uint32_t k = 0; k < s.c; ++k) work.push_back({ir_.caseItems[s.b + k].body, depth + 1});
-            if (s.d != kNoId) work.push_back({s.d, depth + 1});
-            break;
-        case StmtKind::CaseTable:
+        } else if (s.kind == StmtKind::CaseTable) {
             for (ExprId t : ir_.caseTables[s.b].targets)
                 if (auto r = targetReason(ir_, t); !r.empty()) return r;
-            if (s.d != kNoId) work.push_back({s.d, depth + 1});
-            break;
-        case StmtKind::For:
-            for (std::uint32_t k = 0; k < s.e; ++k) work.push_back({ir_.lists[s.d + k], depth + 1});
-            work.push_back({s.f, depth + 1});
-            break;
-        case StmtKind::Empty: break;
         }
+        forEachChild(ir_, s, LoopSteps::Visit, [&, depth = depth](StmtId c) {
+            bool elseIf = s.kind == StmtKind::If && c == s.c && ir_.stmt(c).kind == StmtKind::If;
+            work.push_back({c, elseIf ? depth : depth + 1});
+        });
     }
     return {};
 }
@@ -415,33 +350,11 @@ std::vector<int> Lowerer::targetBits(ExprId lv, SymbolId& s) const {
 }
 
 void Lowerer::stmtWriteSet(StmtId root, std::vector<std::pair<SymbolId, int>>& out) const {
-    std::vector<StmtId> work{root};
-    while (!work.empty()) {
-        const Stmt& s = ir_.stmt(work.back());
-        work.pop_back();
-        switch (s.kind) {
-        case StmtKind::Assign: targetWriteSet(s.a, out); break;
-        case StmtKind::Block:
-            for (std::uint32_t k = 0; k < s.b; ++k) work.push_back(ir_.lists[s.a + k]);
-            break;
-        case StmtKind::If:
-            work.push_back(s.b);
-            if (s.c != kNoId) work.push_back(s.c);
-            break;
-        case StmtKind::Case:
-            for (std::uint32_t k = 0; k < s.c; ++k) work.push_back(ir_.caseItems[s.b + k].body);
-            if (s.d != kNoId) work.push_back(s.d);
-            break;
-        case StmtKind::CaseTable:
+    forEachStmt(ir_, {root}, LoopSteps::Skip, [&](const Stmt& s) {
+        if (s.kind == StmtKind::Assign) targetWriteSet(s.a, out);
+        else if (s.kind == StmtKind::CaseTable)
             for (ExprId t : ir_.caseTables[s.b].targets) targetWriteSet(t, out);
-            if (s.d != kNoId) work.push_back(s.d);
-            break;
-        case StmtKind::For:
-            work.push_back(s.f);
-            break;
-        case StmtKind::Empty: break;
-        }
-    }
+    });
 }
 
 // ---- assignments -------------------------------------------------------------

@@ -254,4 +254,52 @@ struct Ir {
     SourceLoc locate(const std::string& file, std::uint32_t offset) const;
 };
 
+/// Which child statements `forEachChild` reports for a `for` loop: the step statements
+/// (`i++`) assign only the loop variable, so walks over what a block assigns or computes
+/// may skip them.
+enum class LoopSteps : bool { Skip = false, Visit = true };
+
+/// Calls `sub(StmtId)` on every child statement of `s`, in source order: a block's
+/// statements; then and else of an if; every item body, then the default, of a case or
+/// case table; a loop's step statements (when `steps` says so), then its body.
+template <typename Sub>
+void forEachChild(const Ir& ir, const Stmt& s, LoopSteps steps, Sub&& sub) {
+    switch (s.kind) {
+    case StmtKind::Block:
+        for (std::uint32_t k = 0; k < s.b; ++k) sub(ir.lists[s.a + k]);
+        break;
+    case StmtKind::If:
+        sub(s.b);
+        if (s.c != kNoId) sub(s.c);
+        break;
+    case StmtKind::Case:
+        for (std::uint32_t k = 0; k < s.c; ++k) sub(ir.caseItems[s.b + k].body);
+        if (s.d != kNoId) sub(s.d);
+        break;
+    case StmtKind::CaseTable:
+        if (s.d != kNoId) sub(s.d);
+        break;
+    case StmtKind::For:
+        if (steps == LoopSteps::Visit)
+            for (std::uint32_t k = 0; k < s.e; ++k) sub(ir.lists[s.d + k]);
+        sub(s.f);
+        break;
+    case StmtKind::Assign: case StmtKind::Empty: break;
+    }
+}
+
+/// Calls `visit(const Stmt&)` on every statement of the trees under `roots`, depth first
+/// (each statement before its children; the order every walk of the lowering shares, so
+/// their results line up).
+template <typename Visit>
+void forEachStmt(const Ir& ir, std::vector<StmtId> roots, LoopSteps steps, Visit&& visit) {
+    std::vector<StmtId>& work = roots;
+    while (!work.empty()) {
+        const Stmt& s = ir.stmt(work.back());
+        work.pop_back();
+        visit(s);
+        forEachChild(ir, s, steps, [&](StmtId c) { work.push_back(c); });
+    }
+}
+
 } // namespace kerf::frontend
