@@ -1061,6 +1061,25 @@ class Describer:
         m["net_decl"] = True
         return m
 
+    @staticmethod
+    def level_events(timing):
+        """The signal names of an event control that lists whole signals without edges
+        (`@(a or b)`, `@(a, b)`); None for anything else (an edge, `iff`, a select)."""
+        TK = ast.TimingControlKind
+        if timing.kind == TK.SignalEvent:
+            events = [timing]
+        elif timing.kind == TK.EventList:
+            events = list(timing.events)
+        else:
+            return None
+        names = set()
+        for ev in events:
+            if (ev.kind != TK.SignalEvent or ev.edge != ast.EdgeKind.None_ or ev.iffCondition is not None
+                    or ev.expr.kind != EK.NamedValue):
+                return None
+            names.add(ev.expr.symbol.name)
+        return names
+
     def procedural_member(self, sym):
         syn = self.member_syntax(sym)
         src, why = self.member_src(syn)
@@ -1068,11 +1087,16 @@ class Describer:
         PK = ast.ProceduralBlockKind
         body = sym.body
         style = None
+        listed = None     # the names of an explicit level-sensitive event list
         if k == PK.AlwaysComb:
             style, what, stmt = "always_comb", "always_comb", body
         elif k == PK.Always:
             what = "always"
             if body.kind == STK.Timed and body.timing.kind == ast.TimingControlKind.ImplicitEvent:
+                style, stmt = "always_star", body.stmt
+            elif body.kind == STK.Timed and (listed := self.level_events(body.timing)) is not None:
+                # `always @(a or b)`: combinational when the list names every signal the block
+                # reads (checked below); a rewrite is written with `@(*)`, which is then the same.
                 style, stmt = "always_star", body.stmt
             elif body.kind == STK.ConcurrentAssertion:
                 what = "assertion"
@@ -1097,6 +1121,12 @@ class Describer:
                 if bad:
                     raise Unsupported("uses '%s' both as a for loop variable and outside the loop"
                                       % sorted(bad)[0])
+                if listed is not None and not c.reads <= listed:
+                    # IEEE 1364-2005 9.7.5: the block runs only when a listed signal changes, so
+                    # with a signal left out simulation holds old values (not combinational).
+                    raise Unsupported("has an event list that leaves out '%s', which it reads: a "
+                                      "simulator does not re-run it when that changes"
+                                      % sorted(c.reads - listed)[0])
                 m = {"kind": "comb", "src": src, "style": style, "locals": c.local_list, "body": b,
                      "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.comments(syn)}
                 if c.localized:
