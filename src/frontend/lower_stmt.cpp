@@ -813,7 +813,9 @@ void Lowerer::execCase(StmtId id) {
     for (const auto& it : arms) conds.push_back(it.cond);
     Literal defaultCond = full ? kFalse : negateLiteral(b_.orN(conds));
     Env merged = dflt;
-    for (auto& [name, bits] : merged.vars) {
+    for (auto& entry : merged.vars) {
+        const SymbolId name = entry.first;   // not a structured binding: lambdas below read it
+        Bits& bits = entry.second;
         const Bits& dbits = dflt.vars[name];
         const Bits& bbits = before.vars.at(name);
         auto pl = placed.find(name);
