@@ -139,6 +139,7 @@ public:
         lastInBucket_.assign(n, kNone);
         jStamp_.assign(n, 0);
         jVal_.assign(n, 0);
+        cube_.assign(n, 0);
         pendIn_.assign(g.inputs().size(), 0);
         newSolver();
     }
@@ -155,7 +156,8 @@ private:
     void sweep();
     void makeHead(AigNode n, AigLit a, AigLit b);
     void addToBucket(AigNode n);
-    bool justify(AigLit first, AigLit second, std::vector<std::uint8_t>& pattern);
+    bool justify(AigLit first, AigLit second, std::vector<std::uint8_t>& pattern, bool productOnly = false);
+    void noteCube(AigNode n);
     bool splitByJustification(AigNode n, AigNode h, bool p, std::vector<std::uint8_t>& pattern);
     bool fold(AigLit a, AigLit b, AigLit& result) const;
     AigLit mapLit(AigLit l) const { return repr_[aigNode(l)] ^ (l & 1u); }
@@ -206,6 +208,9 @@ private:
     std::vector<std::uint8_t> jVal_;
     std::uint32_t jVersion_ = 0;
     std::vector<AigLit> jStack_;
+    bool jChose_ = false;                      // the last walk required some AND to be 0
+    std::vector<std::uint32_t> jInputs_;       // inputs the last walk assigned (index * 2 + value)
+    std::vector<std::uint64_t> cube_;          // constant-like products: hash of their literals (0: none)
 
     std::vector<std::uint64_t> pendIn_;
     int pendCount_ = 0;
@@ -349,13 +354,17 @@ std::uint64_t Sweeper::pendingValue(AigNode root) {
 // other's classes, and a walk back splits them far more cheaply than a SAT
 // call. A success is a splitting pattern; it proves nothing, so it cannot
 // make a proof unsound.
-bool Sweeper::justify(AigLit first, AigLit second, std::vector<std::uint8_t>& pattern) {
+// With `productOnly` the walk gives up at the first AND required 0 and fills
+// no pattern (noteCube only wants the literals of a product).
+bool Sweeper::justify(AigLit first, AigLit second, std::vector<std::uint8_t>& pattern, bool productOnly) {
     if (++jVersion_ == 0) {
         std::fill(jStamp_.begin(), jStamp_.end(), 0);
         jVersion_ = 1;
     }
     // Both literals must become true; `first` is handled first.
     jStack_.clear();
+    jChose_ = false;
+    jInputs_.clear();
     jStack_.push_back(second);
     jStack_.push_back(first);
     std::size_t steps = 0;
@@ -383,13 +392,18 @@ bool Sweeper::justify(AigLit first, AigLit second, std::vector<std::uint8_t>& pa
             if (v) return false;
             continue;
         }
-        if (g_.isInput(m)) continue;
+        if (g_.isInput(m)) {
+            jInputs_.push_back(g_.inputIndex(m) * 2 + (v ? 1u : 0u));
+            continue;
+        }
         AigLit f0 = g_.fanin0(m), f1 = g_.fanin1(m);
         if (v) {
             jStack_.push_back(f0);
             jStack_.push_back(f1);
             continue;
         }
+        jChose_ = true;
+        if (productOnly) return false;
         bool t0 = false, t1 = false;
         bool s0 = stamped(f0, t0), s1 = stamped(f1, t1);
         if ((s0 && !t0) || (s1 && !t1)) continue;  // already false
@@ -403,6 +417,7 @@ bool Sweeper::justify(AigLit first, AigLit second, std::vector<std::uint8_t>& pa
         }
         jStack_.push_back(aigNot(pick));
     }
+    if (productOnly) return true;
     const auto& ins = g_.inputs();
     pattern.resize(ins.size());
     std::uint64_t bits = 0;
@@ -419,6 +434,23 @@ bool Sweeper::splitByJustification(AigNode n, AigNode h, bool p, std::vector<std
     if (h == 0) return justify(aigLit(n, p), kAigTrue, pattern);  // n looked like the constant p
     // n = 1 and h^p = 0, or h^p = 1 and n = 0: the side that must be 1 goes first.
     return justify(aigLit(n), aigLit(h, !p), pattern) || justify(aigLit(h, p), aigLit(n, true), pattern);
+}
+
+// A node that looked constant and is a product of input literals (one walk
+// back setting it to its rarer value requires no AND to be 0) is that
+// product whatever its structure: its literals are the inputs the walk
+// assigned. Their hash joins the class key (bucketKey), so a rare product is
+// only compared with rare products of the same literals. Without it, every
+// wide product over the same inputs shares one class (decoder matchers: ten
+// thousand in one class), the candidate scan stops before the partner, and
+// the unmerged products leave the output queries to SAT.
+void Sweeper::noteCube(AigNode n) {
+    std::vector<std::uint8_t> none;
+    if (!justify(aigLit(n, phase_[n] != 0), kAigTrue, none, true)) return;
+    std::sort(jInputs_.begin(), jInputs_.end());
+    std::uint64_t h = 0x2545F4914F6CDD1Dull;
+    for (std::uint32_t x : jInputs_) h = mixWord(h, x);
+    cube_[n] = h | 1u;   // never 0
 }
 
 bool Sweeper::matchesPending(AigNode n, AigNode h) {
@@ -438,7 +470,8 @@ bool Sweeper::matchesPending(AigNode n, AigNode h) {
 // Buckets are keyed by the hash as of the last rebuild (keyHash_), which
 // happens every few folds; members whose current hash differs are skipped.
 std::uint64_t Sweeper::bucketKey(AigNode n) const {
-    return constLike_[n] ? mixWord(keyHash_[n], supp_[n] ^ 0x5BD1E9955BD1E995ull) : keyHash_[n];
+    if (!constLike_[n]) return keyHash_[n];
+    return mixWord(mixWord(keyHash_[n], supp_[n] ^ 0x5BD1E9955BD1E995ull), cube_[n]);
 }
 
 AigNode Sweeper::findCandidate(AigNode n) {
@@ -658,6 +691,7 @@ void Sweeper::sweep() {
             repr_[n] = r;
             continue;
         }
+        if (opt_.sweepInternal && constLike_[n]) noteCube(n);
         if (opt_.sweepInternal && !sweepBudgetSpent_) {
             // A node that looked constant is first compared with the constant.
             // The pattern that splits it is specific to it and is not pooled:
@@ -724,7 +758,13 @@ PairsReport Sweeper::run(const std::vector<std::pair<AigLit, AigLit>>& pairs) {
         }
         std::int64_t used = 0;
         if (nextVar_ > 16 * opt_.solverVarLimit) newSolver();
+        auto tq = Clock::now();
+        int varsBefore = nextVar_;
         Cmp c = compare(x, y, std::min(opt_.conflictsPerQuery, totalLeft()), used, pattern);
+        if (opt_.verbose >= 2)
+            fmt::print(stderr, "kerf proof: output {}: {} conflicts, {} new variables, {:.3f} s, {}\n", i, used,
+                       nextVar_ - varsBefore, secondsSince(tq),
+                       c == Cmp::Equal ? "equal" : c == Cmp::Different ? "different" : "undecided");
         if (c == Cmp::Undecided) {
             o.status = PairStatus::Undecided;
             o.by = SettledBy::Budget;
