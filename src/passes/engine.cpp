@@ -103,8 +103,14 @@ const std::vector<LimitInfo>& limitTable() {
         field("trials", "moves the scheduler may value before it stops", &EngineLimits::trials, 1),
         field("max-growth", "largest literal growth per dissolved node in regroup moves", &EngineLimits::maxGrowth),
         field("regroup-trials", "trials spent re-optimising inside one regroup move", &EngineLimits::regroupTrials),
+        field("opening-moves",
+              "whole-network extraction moves (cubes or divisors, the better) made first, while they pay",
+              &EngineLimits::openingMoves),
         field("give-up-after", "valuations in a row without gain after which a technique is left out",
               &EngineLimits::giveUpAfter, 1),
+        field("readmit-permille",
+              "a kept move saving this many thousandths of the gates brings left-out techniques back (0: never)",
+              &EngineLimits::readmitPermille),
         field("min-gain-permille", "smallest gain kept, in thousandths of the current gates",
               &EngineLimits::minGainPermille),
         field("kernels", "1: also extract common kernels (slower)", &EngineLimits::kernels),
@@ -317,12 +323,13 @@ public:
     net::Metrics run(net::Network& net, net::Metrics current, std::vector<Source>& sources, int budget, bool top) {
         long version = 0;
         int trials = 0;
+        if (top) opening(net, current, sources, budget, version, trials);
         for (;;) {
             // The source with the highest recorded gain (stale or fresh).
             Source* best = nullptr;
             bool allFresh = true;
             for (Source& s : sources) {
-                if (s.misses >= opts_.limits.giveUpAfter) continue;   // left out: it keeps finding nothing
+                if (leftOut(s)) continue;   // it keeps finding nothing
                 if (s.valuedAt != version) allFresh = false;
                 if (!best || s.estimate > best->estimate ||
                     (s.estimate == best->estimate && best->valuedAt == version && s.valuedAt != version))
@@ -331,15 +338,17 @@ public:
             if (!best) break;
             if (best->valuedAt == version) {
                 if (best->estimate >= minGain(current) && best->pending) {
+                    const std::size_t gatesBefore = current.gates;
                     apply(net, current, *best, top);
                     ++version;
+                    if (top) readmitAfter(gatesBefore, current.gates, sources);
                     continue;
                 }
                 if (allFresh) break;   // nothing pays on the current network
                 // Fresh sources gain nothing; re-value a stale one.
                 best = nullptr;
                 for (Source& s : sources)
-                    if (s.misses < opts_.limits.giveUpAfter && s.valuedAt != version &&
+                    if (!leftOut(s) && s.valuedAt != version &&
                         (!best || s.estimate > best->estimate))
                         best = &s;
             }
@@ -354,6 +363,66 @@ public:
     }
 
 private:
+    // The opening: whole-network extraction, repeated while it pays (limit
+    // opening-moves). Each opening move values the extraction techniques
+    // (cube extraction, divisor extraction) on the current network and keeps
+    // the better; a technique that gains nothing takes no further part in
+    // the opening. On flat sums of products these find most of what there
+    // is to find, and every other technique is then first valued on the
+    // smaller network they leave: on the 10k decoder one trial of another
+    // technique cost in proportion to the network, and the first trials
+    // were spent on the input's 279k gates. The moves are the scheduler's
+    // own, valued, kept and reported under their technique.
+    void opening(net::Network& net, net::Metrics& current, std::vector<Source>& sources, int budget, long& version,
+                 int& trials) {
+        std::vector<Source*> takers;
+        for (Source& s : sources)
+            if (s.name == "extract-cubes" || s.name == "extract-divisors") takers.push_back(&s);
+        for (int k = 0; k < opts_.limits.openingMoves && !takers.empty(); ++k) {
+            Source* best = nullptr;
+            for (Source* s : takers) {
+                if (trials >= budget) break;
+                ++trials;
+                value(net, current, *s, version);
+                if (!best || s->estimate > best->estimate) best = s;
+            }
+            if (!best || best->estimate < minGain(current) || !best->pending) return;
+            const std::size_t gatesBefore = current.gates;
+            apply(net, current, *best, true);
+            ++version;
+            readmitAfter(gatesBefore, current.gates, sources);
+            // Only a technique that paid stays in the opening.
+            takers.erase(std::remove_if(takers.begin(), takers.end(),
+                                        [&](Source* s) { return s != best && s->estimate < minGain(current); }),
+                         takers.end());
+        }
+        if (opts_.limits.openingMoves > 0 && !takers.empty()) limitHit("opening-moves");
+    }
+
+    // Left out: a technique whose last give-up-after valuations gained less
+    // than the smallest gain kept. Inside a regroup move the count runs over
+    // all regroup moves of that growth in the run (each regroup move starts
+    // a scheduler of its own, and on the 10k decoder these re-valued every
+    // technique each time, for nothing, at 70% of the engine's time).
+    bool leftOut(const Source& s) const {
+        if (s.misses >= opts_.limits.giveUpAfter) return true;
+        if (scope_.empty() || !innerMisses_) return false;
+        auto it = innerMisses_->find(scope_ + "/" + s.name);
+        return it != innerMisses_->end() && it->second >= opts_.limits.giveUpAfter;
+    }
+
+    // A kept move that changed the network a lot (limit readmit-permille)
+    // brings every left-out technique back: what found nothing before may
+    // find something now.
+    void readmitAfter(std::size_t gatesBefore, std::size_t gatesAfter, std::vector<Source>& sources) {
+        const double changed = static_cast<double>(gatesBefore) - static_cast<double>(gatesAfter);
+        if (opts_.limits.readmitPermille <= 0 ||
+            changed * 1000.0 < static_cast<double>(gatesBefore) * opts_.limits.readmitPermille)
+            return;
+        for (Source& s : sources) s.misses = 0;
+        if (innerMisses_) innerMisses_->clear();
+    }
+
     double minGain(const net::Metrics& current) const {
         const double rel = static_cast<double>(current.gates) * opts_.limits.minGainPermille / 1000.0;
         return std::max(1e-6, opts_.goal == Goal::Size ? rel : rel);
@@ -383,6 +452,8 @@ private:
             Scheduler sub(opts_, res_, cache_, passCap_, measureCap_, gateCeiling_);
             sub.dcMemo_ = dcMemo_;
             sub.shrinkMemo_ = shrinkMemo_;
+            sub.innerMisses_ = innerMisses_;
+            sub.scope_ = s.name;
             m = sub.run(*trial, m, inner, opts_.limits.regroupTrials, false);
         }
         for (const auto& [k, v] : ctx.stats.items())
@@ -396,6 +467,10 @@ private:
         const bool ok = admissible(m, current);
         s.estimate = ok ? gainOf(opts_.goal, valueOf(current), valueOf(m)) : -1;
         s.misses = s.estimate >= minGain(current) ? 0 : s.misses + 1;
+        if (!scope_.empty() && innerMisses_) {
+            int& inner = (*innerMisses_)[scope_ + "/" + s.name];
+            inner = s.misses == 0 ? 0 : inner + 1;
+        }
         if (s.estimate > 0) {
             s.pending = std::move(trial);
             s.pendingMetrics = m;
@@ -463,6 +538,8 @@ private:
 public:
     DontCareMemo* dcMemo_ = nullptr;   // shared by the whole run (see DontCareMemo)
     ShrinkMemo* shrinkMemo_ = nullptr; // shared by the whole run (see ShrinkMemo)
+    std::map<std::string, int>* innerMisses_ = nullptr;   // "regroup/technique" -> valuations without gain (leftOut)
+    std::string scope_;                                    // inside a regroup move: its name
 };
 
 bool better(Goal goal, const net::Metrics& a, const net::Metrics& b) {
@@ -565,6 +642,8 @@ EngineResult restructure(net::Network& net, const EngineOptions& opts) {
     sched.dcMemo_ = &dcMemo;
     ShrinkMemo shrinkMemo;
     sched.shrinkMemo_ = &shrinkMemo;
+    std::map<std::string, int> innerMisses;
+    sched.innerMisses_ = &innerMisses;
     std::vector<Source> sources = sched.makeSources(true);
     if (opts.goal == Goal::Depth) {
         // Greedy depth moves from the input can stop deeper than the size

@@ -95,9 +95,11 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
             shared.clear();
             std::size_t scanned = 0;
             for (Literal l : c.lits) {
-                for (std::uint32_t j : occ[l]) {
-                    if (j <= i) continue;
-                    ++shared[j];
+                // Occurrence lists are sorted: start past i (skipping the
+                // earlier cubes one by one made this quadratic in the cubes).
+                const auto& o = occ[l];
+                for (auto it = std::upper_bound(o.begin(), o.end(), i); it != o.end(); ++it) {
+                    ++shared[*it];
                     if (++scanned > 4 * opts.partnersPerCube) break;
                 }
             }

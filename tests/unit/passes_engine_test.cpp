@@ -40,7 +40,8 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     EXPECT_EQ(parseGoal("depth"), Goal::Depth);
     // Every limit is documented with its default.
     std::string d = describeLimits();
-    for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps"})
+    for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps",
+                             "opening-moves", "readmit-permille"})
         EXPECT_NE(d.find(name), std::string::npos) << name;
 }
 
@@ -70,6 +71,69 @@ TEST(PassesEngine, KeptMovesEachImproveAndTheReportListsTechniques) {
         EXPECT_EQ(r.forms.metrics.gates, r.after.gates);
         EXPECT_EQ(measureFactored(n, r.depthCap).gates, r.after.gates);
     }
+}
+
+// A flat sum-of-products decoder: `terms` product terms of 5..8 literals
+// over `inputs` inputs, each read by one or two of `outputs` outputs (the
+// shape of the synthetic decoders of tests/bench/passes_bench.cpp).
+static Network flatDecoder(std::uint32_t seed, std::size_t terms, std::size_t inputs, std::size_t outputs) {
+    std::mt19937 rng(seed);
+    Network n;
+    std::vector<NodeId> in;
+    for (std::size_t i = 0; i < inputs; ++i) in.push_back(n.addInput("a" + std::to_string(i)));
+    std::vector<Cover> outs(outputs);
+    for (std::size_t t = 0; t < terms; ++t) {
+        std::vector<Literal> ls;
+        std::vector<char> used(inputs, 0);
+        const std::size_t len = 5 + rng() % 4;
+        while (ls.size() < len) {
+            const std::size_t i = rng() % inputs;
+            if (used[i]) continue;
+            used[i] = 1;
+            ls.push_back(makeLiteral(in[i], rng() & 1));
+        }
+        const Cube c(std::move(ls));
+        for (std::size_t k = 0, fan = 1 + rng() % 2; k < fan; ++k) outs[rng() % outputs].cubes.push_back(c);
+    }
+    for (std::size_t o = 0; o < outputs; ++o) {
+        outs[o].normalize();
+        n.addOutput("d" + std::to_string(o), makeLiteral(n.addLogic(std::move(outs[o])), false));
+    }
+    return n;
+}
+
+TEST(PassesEngine, OpeningExtractsFirstAndLeftOutTechniquesStayOut) {
+    Network n = flatDecoder(3, 120, 12, 6);
+    tidy(n);
+    const Network input = n;
+    EngineOptions o;
+    o.limits.giveUpAfter = 1;
+    o.limits.readmitPermille = 0;
+    EngineResult r = restructure(n, o);
+    EXPECT_EQ(sameFunctions(input, n), "");
+    ASSERT_FALSE(r.moves.empty());
+    // The opening: the first kept move is an extraction, and it saves more
+    // than any later move (flat products share many cubes).
+    EXPECT_TRUE(r.moves[0].technique == "extract-cubes" || r.moves[0].technique == "extract-divisors")
+        << r.moves[0].technique;
+    for (std::size_t k = 1; k < r.moves.size(); ++k) EXPECT_GE(r.moves[0].gatesSaved, r.moves[k].gatesSaved);
+    // Left out after one valuation without gain, never brought back: a
+    // technique that kept nothing is valued at most once at the top and
+    // once inside each regroup growth (0, 1, 2), plus the two opening
+    // valuations of an extraction technique.
+    int neverEdited = 0;
+    for (const TechniqueRow& t : r.techniques) {
+        if (t.unchanged != t.trials || t.technique.rfind("regroup", 0) == 0) continue;   // it gained at some point
+        ++neverEdited;
+        EXPECT_LE(t.trials, 1 + 3 + 2) << t.technique;
+    }
+    EXPECT_GT(neverEdited, 0) << formatEngineReport(r);
+    // Without the opening the result keeps its functions too.
+    Network m = input;
+    EngineOptions none;
+    none.limits.openingMoves = 0;
+    restructure(m, none);
+    EXPECT_EQ(sameFunctions(input, m), "");
 }
 
 TEST(PassesEngine, TrialBudgetIsReportedWhenItCutsWorkShort) {

@@ -54,8 +54,15 @@ struct EngineLimits {
     /// A move is kept only when it saves at least this many thousandths of
     /// the current gates (and at least something); smaller gains end the run.
     int minGainPermille = 2;
+    /// Whole-network extraction moves made before the scheduler starts: each
+    /// values cube and divisor extraction and keeps the better, while it
+    /// saves at least the smallest gain kept (0: no opening).
+    int openingMoves = 6;
     /// A technique whose move gained nothing this many times in a row is not valued again.
     int giveUpAfter = 3;
+    /// A kept move saving at least this many thousandths of the gates brings
+    /// every left-out technique back (0: left out for the rest of the run).
+    int readmitPermille = 150;
     /// Run kernel extraction (slower; finds multi-cube divisors pairs miss).
     bool kernels = false;
     /// Use implied don't-cares (simulation confirmed by SAT).
