@@ -1209,6 +1209,33 @@ void Writer::decide() {
         else if (gain <= 0) G.reason = fmt::format("no saving ({} -> {} gates)", G.gatesBefore, G.gatesAfter);
         else G.reason = fmt::format("saves {:g} gate{} ({} -> {}), less than --min-gain {}", gain, gain == 1 ? "" : "s",
                                     G.gatesBefore, G.gatesAfter, opts_.minGain.str());
+        // A loop variable declared in the module (`integer p;` for `for (p = 0; ...)`) that only
+        // the replaced block uses would be left declared and unused (Verilator UNUSEDSIGNAL), and
+        // its declaration is never deleted: the block stays as written.
+        if (G.replaced)
+            for (int st : groupStmts_[g]) {
+                const auto* mem = byId_.at(st);
+                for (frontend::SymbolId l : mem->locals) {
+                    if (l >= m_.ir.symbols.size()) continue;
+                    const std::string& name = m_.ir.symbols[l].name;
+                    auto sit = m_.signals.find(name);
+                    if (sit == m_.signals.end() || !sit->second.decl || sit->second.dir != frontend::PortDir::None)
+                        continue;
+                    bool usedElsewhere = false;
+                    for (const auto& other : m_.members) {
+                        if (other.id == mem->id) continue;
+                        auto names = [&](const std::vector<std::string>& v) {
+                            return std::find(v.begin(), v.end(), name) != v.end();
+                        };
+                        usedElsewhere = usedElsewhere || names(other.reads) || names(other.writes) ||
+                                        names(other.mentions);
+                    }
+                    if (usedElsewhere) continue;
+                    G.replaced = false;
+                    G.reason = fmt::format("its loop variable '{}' is declared in the module and would be left unused",
+                                           name);
+                }
+            }
     }
     keepReaders();
 }
@@ -1482,9 +1509,9 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         if (pa != pb) return pa;
         return ra < rb;
     });
-    // The block's assignments; `templates` false writes every bit on its own (a block whose
-    // assignments cannot otherwise be ordered, see below).
-    auto build = [&](bool templates) {
+    // The block's assignments; the signals in `split` are written bit by bit (those whose
+    // vector assignments cannot otherwise be ordered, see below).
+    auto build = [&](const std::set<std::string>& split) {
     std::vector<Assignment> as;
     for (const auto& s : signals) {
         auto idx = bySignal[s];
@@ -1536,6 +1563,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
             as.back().suffix = pieces.front().valueSuffix;
             continue;
         }
+        const bool templates = !split.count(s);
         std::size_t k = 0;
         while (k < idx.size()) {
             // The longest run of consecutive bits from k with a vector template. Runs with
@@ -1596,16 +1624,19 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
     }
     return as;
     };
-    std::vector<Assignment> as = build(true);
+    std::vector<Assignment> as = build({});
     for (const auto& a : as)
         if (refsOut) refsOut->insert(a.reads.begin(), a.reads.end());
     if (mem->kind == frontend::MemberKind::Comb) {
         // Every bit the block assigns is assigned before any statement of the block reads it
         // (F30: `w0[0] = ... w0[4] ...` before `w0[7:2] = ...` reads the value w0 had before).
         // The names the logic reads follow the network, which has no loop, so bit by bit an
-        // order always exists; an assignment of several bits that reads bits of its own, or
-        // two that read each other's bits, are written bit by bit instead.
-        auto order = [&](const std::vector<Assignment>& list) -> std::optional<std::vector<std::size_t>> {
+        // order always exists; the signals of an assignment of several bits that reads bits of
+        // its own, or of assignments that read each other's bits (a cycle), are written bit by
+        // bit instead — only those: every other signal keeps its vector assignments.
+        // `stuck` receives the assignments on a cycle when there is no order.
+        auto order = [&](const std::vector<Assignment>& list,
+                         std::set<std::size_t>& stuck) -> std::optional<std::vector<std::size_t>> {
             std::map<BitKey, std::size_t> writerOfBit;
             std::map<std::string, std::vector<std::size_t>> writersOfSignal;
             for (std::size_t q = 0; q < list.size(); ++q)
@@ -1626,7 +1657,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                         deps.insert(w->second);
                     }
                 }
-                if (deps.count(q)) return std::nullopt;   // reads a bit it assigns itself
+                if (deps.count(q)) stuck.insert(q);   // reads a bit it assigns itself
                 for (std::size_t p : deps) users[p].push_back(q);
                 waiting[q] = deps.size();
             }
@@ -1643,13 +1674,65 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                 for (std::size_t u : users[q])
                     if (--waiting[u] == 0) ready.insert(u);
             }
-            if (out.size() != list.size()) return std::nullopt;
-            return out;
+            if (out.size() == list.size() && stuck.empty()) return out;
+            // The assignments on a cycle: strongly connected components of more than one
+            // (Tarjan's algorithm, iterative; R. E. Tarjan, "Depth-first search and linear graph
+            // algorithms", SIAM J. Comput. 1(2), 1972, from memory).
+            const std::size_t none = static_cast<std::size_t>(-1);
+            std::vector<std::size_t> index(list.size(), none), low(list.size(), 0), comp;
+            std::vector<std::uint8_t> onStack(list.size(), 0);
+            std::size_t counter = 0;
+            for (std::size_t root = 0; root < list.size(); ++root) {
+                if (index[root] != none) continue;
+                std::vector<std::pair<std::size_t, std::size_t>> dfs{{root, 0}};
+                index[root] = low[root] = counter++;
+                comp.push_back(root);
+                onStack[root] = 1;
+                while (!dfs.empty()) {
+                    auto& [v, next] = dfs.back();
+                    if (next < users[v].size()) {
+                        std::size_t w = users[v][next++];
+                        if (index[w] == none) {
+                            index[w] = low[w] = counter++;
+                            comp.push_back(w);
+                            onStack[w] = 1;
+                            dfs.push_back({w, 0});
+                        } else if (onStack[w]) {
+                            low[v] = std::min(low[v], index[w]);
+                        }
+                        continue;
+                    }
+                    std::size_t done = v;
+                    dfs.pop_back();
+                    if (!dfs.empty()) low[dfs.back().first] = std::min(low[dfs.back().first], low[done]);
+                    if (low[done] != index[done]) continue;
+                    std::vector<std::size_t> scc;
+                    for (;;) {
+                        std::size_t w = comp.back();
+                        comp.pop_back();
+                        onStack[w] = 0;
+                        scc.push_back(w);
+                        if (w == done) break;
+                    }
+                    if (scc.size() > 1) stuck.insert(scc.begin(), scc.end());
+                }
+            }
+            return std::nullopt;
         };
-        auto seq = order(as);
-        if (!seq) {
-            as = build(false);
-            seq = order(as);
+        std::set<std::string> split;
+        std::set<std::size_t> stuck;
+        auto seq = order(as, stuck);
+        while (!seq) {
+            // Split the signals on the cycles; when none is left to split, split them all.
+            std::size_t before = split.size();
+            for (std::size_t q : stuck)
+                if (as[q].writeBits.size() > 1) split.insert(as[q].signal);
+            if (split.size() == before)
+                for (const auto& s : signals) split.insert(s);
+            if (split.size() == before) break;
+            as = build(split);
+            stuck.clear();
+            seq = order(as, stuck);
         }
         if (!seq)
             throw Error("writer: the restructured block would read a variable before assigning it", {},

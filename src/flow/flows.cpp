@@ -59,6 +59,10 @@ nlohmann::json stagesJson(const io::StageLog& log) {
 /// them: no declaration is deleted) unless `dissolve`. When `only` is given,
 /// the internal signals kept are just those (the original's, when reading back
 /// the rewrite, so that kerf's new wires are not compared).
+/// Cubes a written expression's node may reach when its operators are merged into one node
+/// (frontend::collapseExpressionNodes); a larger product keeps its parts as nodes of their own.
+constexpr std::size_t kExpressionCubes = 4096;
+
 frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bitBlast, const std::string& prefix,
                           const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {},
                           bool keepX = false, const std::map<int, std::string>& kept = {},
@@ -75,6 +79,9 @@ frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bit
     frontend::Lowered low = frontend::lower(d, lo);
     // Figures count the logic that reaches an output, nothing overwritten or unread.
     low.net.removeUnreachable();
+    // One node per written expression, as the engine's nodes are written (F42); with internal
+    // signals dissolved a signal's logic has no node boundary to keep, so nothing is merged.
+    if (!lo.dissolveInternal) frontend::collapseExpressionNodes(low.net, kExpressionCubes);
     return low;
 }
 

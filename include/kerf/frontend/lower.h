@@ -113,6 +113,13 @@ struct Lowered {
 /// combinational loops, multiple drivers, latches and unsupported code.
 Lowered lower(const ModuleDesc& m, const LowerOptions& opts = {});
 
+/// One node per written expression: a logic node that names no signal (no output reads it)
+/// and that one place of one other node reads is substituted into that node (its complement
+/// multiplied out where read inverted), unless the reader would pass `maxCubes` cubes.
+/// The figures of a written file are then those of the nodes it was printed from (F42).
+/// Returns the number of nodes substituted. (statement_nodes.cpp)
+std::size_t collapseExpressionNodes(net::Network& net, std::size_t maxCubes);
+
 /// Name of a bit as used for network inputs/outputs: "a" for scalars, "a[3]" for vectors.
 std::string bitName(const ModuleDesc& m, const BitRef& b);
 

@@ -28,7 +28,7 @@ module irq_router #(
   end
 
   assign nmi_out = |(live & is_nmi);
-  // kerf: 1 of 3 groups rewritten, gates 64 -> 58, depth 8 -> 8, proved equivalent
+  // kerf: 1 of 3 groups rewritten, gates 64 -> 58, depth 7 -> 7, proved equivalent
   // kerf: this logic is restructured for NSRC = 6 (--param); a build that sets other
   // values stops here: run kerf restructure again for them.
   generate
@@ -42,15 +42,15 @@ module irq_router #(
     end
   endgenerate
   wire live_1_0_is_00 = live[1:0] == 2'b00;
-  wire irq_out_t0 = (live[3:2] == 2'b00) & live_1_0_is_00;
+  wire live_3_2_not_00 = live[3:2] != 2'b00;
+  wire irq_out_t0 = (live[5:4] == 2'b00) | live_3_2_not_00;
   wire live_4_3_not_10 = live[4:3] != 2'b10;
   wire src_id0_t0 = live[1] | (~live[2] & live_4_3_not_10);
-  wire src_id1_t0 = ~(irq_out_t0 & irq_out);
-  assign irq_out = (live[5:4] != 2'b00) | ~irq_out_t0;
+  assign irq_out = ~(irq_out_t0 & src_id[2]);
 
   always_comb begin
     src_id[0] = ~live[0] & src_id0_t0;
-    src_id[1] = live_1_0_is_00 & src_id1_t0;
-    src_id[2] = irq_out_t0;
+    src_id[1] = live_1_0_is_00 & irq_out_t0;
+    src_id[2] = live_1_0_is_00 & ~live_3_2_not_00;
   end
 endmodule

@@ -21,7 +21,7 @@ module uart_regsel (
     output wire       pslverr
 );
 
-  // kerf: 2 of 2 groups rewritten, gates 77 -> 30, depth 5 -> 5, proved equivalent
+  // kerf: 2 of 2 groups rewritten, gates 67 -> 31, depth 4 -> 4, proved equivalent
   wire psel_penable = psel & penable;
   wire paddr5_or_paddr1 = paddr[5] | paddr[1];
   wire pslverr_t0 = paddr5_or_paddr1 | paddr[0];
@@ -29,25 +29,24 @@ module uart_regsel (
   wire acc_r;
   assign acc_r = psel_penable & ~pwrite;
 
-  wire paddr_3_2_is_00 = paddr[3:2] == 2'b00;
   wire paddr_5_4_is_00 = paddr[5:4] == 2'b00;
   wire we_thr_t1 = acc_w & paddr_5_4_is_00;
-  wire we_thr_t0 = we_thr_t1 & ~lcr_dlab;
-  wire we_dll_t0 = we_thr_t1 & lcr_dlab;
+  wire paddr_3_2_is_00 = paddr[3:2] == 2'b00;
+  wire we_thr_t0 = paddr_3_2_is_00 & ~lcr_dlab;
   wire paddr_3_2_is_01 = paddr[3:2] == 2'b01;
   wire paddr_3_2_is_10 = paddr[3:2] == 2'b10;
   wire paddr_5_4_is_01 = paddr[5:4] == 2'b01;
   wire re_rbr_t0 = acc_r & paddr_5_4_is_00;
   wire re_lsr_t0 = acc_r & paddr_5_4_is_01;
-  assign we_thr = paddr_3_2_is_00 & we_thr_t0;
-  assign we_dll = paddr_3_2_is_00 & we_dll_t0;
-  assign we_ier = we_thr_t0 & paddr_3_2_is_01;
-  assign we_dlm = we_dll_t0 & paddr_3_2_is_01;
+  assign we_thr = we_thr_t1 & we_thr_t0;
+  assign we_dll = we_thr_t1 & paddr_3_2_is_00 & lcr_dlab;
+  assign we_ier = we_thr_t1 & paddr_3_2_is_01 & ~lcr_dlab;
+  assign we_dlm = we_thr_t1 & paddr_3_2_is_01 & lcr_dlab;
   assign we_fcr = we_thr_t1 & paddr_3_2_is_10;
   assign we_lcr = we_thr_t1 & (paddr[3:2] == 2'b11);
   assign we_mcr = acc_w & paddr_3_2_is_00 & paddr_5_4_is_01;
 
-  assign re_rbr = paddr_3_2_is_00 & re_rbr_t0 & ~lcr_dlab;
+  assign re_rbr = we_thr_t0 & re_rbr_t0;
   assign re_iir = paddr_3_2_is_10 & re_rbr_t0;
   assign re_lsr = paddr_3_2_is_01 & re_lsr_t0;
   assign re_msr = paddr_3_2_is_10 & re_lsr_t0;
