@@ -15,6 +15,8 @@ conversions appear as `convert` nodes. Leaves (constants, signal references,
 constant selects of them) are shared within one member.
 """
 
+import re
+
 import pyslang
 from pyslang import ast
 
@@ -382,7 +384,7 @@ class Conv:
         raise Unsupported("refers to '%s', which is not a signal of this module" % sym.name)
 
     def x_hier(self, e):
-        raise Unsupported("%s '%s'" % (_hier_what(e, "uses"), _text(e)))
+        raise Unsupported("%s '%s'" % (_hier_what(e, "uses", self.d.body), _text(e)))
 
     def x_lvref(self, e):
         if self.lvref is None:
@@ -804,7 +806,7 @@ class Conv:
             parts = [self.lvalue(o) for o in e.operands if o.type.bitWidth != 0]
             return self.add(["concat", ti] + list(self.span(e)) + [parts])
         if k == EK.HierarchicalValue:
-            raise Unsupported("%s '%s'" % (_hier_what(e, "assigns"), _text(e)))
+            raise Unsupported("%s '%s'" % (_hier_what(e, "assigns", self.d.body), _text(e)))
         raise Unsupported("assigns a target of kind %s" % k.name)
 
     def target(self, e):
@@ -1329,12 +1331,23 @@ def _contains_exit(s, loop, ret, kinds=(STK.Break, STK.Continue)):
     return False
 
 
-def _hier_what(e, verb):
+def _hier_what(e, verb, body=None):
     """How a message names a hierarchical reference: a member of an interface port (reached
-    through its modport) is the module's own boundary, kept as written like a port (F29)."""
+    through its modport, F29, or through a port of the interface type without one) is the
+    module's own boundary, kept as written like a port."""
     sym = getattr(e, "symbol", None)
     if sym is not None and sym.kind == SK.ModportPort:
         return "%s a member of an interface port" % verb
+    if body is not None:
+        # Without a modport the member is the interface instance's own variable: the path
+        # starts at the module's interface port (`bus.paddr`, `bus[1].paddr`).
+        head = re.split(r"[.\[\s]", _text(e), 1)[0]
+        try:
+            first = body.lookupName(head) if head else None
+        except Exception:   # a name slang cannot look up from the body is not a port
+            first = None
+        if first is not None and first.kind == SK.InterfacePort:
+            return "%s a member of an interface port" % verb
     return "%s the hierarchical reference" % verb
 
 

@@ -75,7 +75,7 @@ def signals(files, top, defines=(), params=(), include_dirs=()):
     out = []
     for p in tops[0].body.portList:
         if p.kind == ast.SymbolKind.InterfacePort:
-            out += _interface_members(p)
+            out += _interface_members(p, tops[0].body)
             continue
         d = str(p.direction).split(".")[-1]
         out.append({"name": p.name, "dir": {"In": "in", "Out": "out", "InOut": "inout"}.get(d, d.lower()),
@@ -89,14 +89,34 @@ def signals(files, top, defines=(), params=(), include_dirs=()):
     return out, internals
 
 
-def _interface_members(port):
-    """The members of an interface port's modport as port entries (see `signals`)."""
+def _interface_members(port, body):
+    """The members of an interface port as port entries (see `signals`): those of its modport,
+    with their directions; without a modport every integral variable and net of the interface,
+    an output where the module assigns it (a hierarchical target `port.member`), else an input."""
     from pyslang import ast
     inst = port.connection[0] if isinstance(port.connection, tuple) else port.connection
-    if not port.modport or inst is None:
-        raise RuntimeError(f"interface port {port.name}: the testbench needs a modport to know "
-                           "which members are inputs")
+    if inst is None:
+        raise RuntimeError(f"interface port {port.name}: slang gives it no interface instance")
     found = []
+    if not port.modport:
+        written = set()
+
+        def visit(n):
+            if isinstance(n, ast.AssignmentExpression):
+                t = n.left
+                while t.kind in (ast.ExpressionKind.ElementSelect, ast.ExpressionKind.RangeSelect,
+                                 ast.ExpressionKind.MemberAccess):
+                    t = t.value
+                if t.kind == ast.ExpressionKind.HierarchicalValue:
+                    written.add(t.symbol.name)
+            return True
+        body.visit(visit)
+        for m in inst.body:
+            if m.kind in (ast.SymbolKind.Variable, ast.SymbolKind.Net) and m.type.isIntegral:
+                found.append({"name": f"{port.name}.{m.name}", "dir": "out" if m.name in written else "in",
+                              "width": m.type.bitWidth, "signed": bool(m.type.isSigned),
+                              "iface": (port.name, port.interfaceDef.name)})
+        return found
     for m in inst.body:
         if m.kind == ast.SymbolKind.Modport and m.name == port.modport:
             for mm in m:

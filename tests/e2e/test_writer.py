@@ -551,6 +551,37 @@ def _(t):
                                 os.path.join(t.work, "dma_out.sv"), ["--min-gain", "0"])
 
 
+@S.case("interface_members_kept_with_reason")
+def _(t):
+    """Statements naming a member of an interface port, with a modport (F29) or without one, are
+    kept as written with that reason; a reference into an interface instance of the module's own
+    stays a hierarchical reference. Behaviour is checked by the rtl corpus (Verilator)."""
+    for name, members in (("iface_ports", 4), ("iface_ports_nomodport", 5)):
+        src = os.path.join(t.root, "tests", "rtl", name + ".sv")
+        out, rep = os.path.join(t.work, name + ".sv"), os.path.join(t.work, name + ".json")
+        r = K.run([t.kerf, "restructure", src, "-o", out, "--report", rep])
+        if not t.res.check(r.returncode == 0 and os.path.exists(rep), f"{name}: restructured: {r.stderr[-800:]}"):
+            continue
+        reasons = [k["reason"] for k in json.load(open(rep))["statements_not_restructured"]]
+        named = [x for x in reasons if "'bus." in x]
+        t.res.check(len(named) == members and all("a member of an interface port" in x for x in named),
+                    f"{name}: the {members} statements naming bus members are kept as its members: {reasons}")
+    text = ("interface own_if;\n  logic [3:0] v;\nendinterface\n"
+            "module own_inst (input logic [3:0] d, output logic [3:0] q, output logic y);\n"
+            "  own_if u_if ();\n  assign u_if.v = d;\n  assign q = u_if.v;\n"
+            "  assign y = (d[0] & d[1]) | (d[0] & d[2]);\nendmodule\n")
+    src = os.path.join(t.work, "own_inst.sv")
+    open(src, "w").write(text)
+    rep = os.path.join(t.work, "own_inst.json")
+    r = K.run([t.kerf, "restructure", src, "--top", "own_inst", "-o", os.path.join(t.work, "own_out.sv"),
+               "--report", rep])
+    if t.res.check(r.returncode == 0 and os.path.exists(rep), f"own_inst: restructured: {r.stderr[-800:]}"):
+        reasons = [k["reason"] for k in json.load(open(rep))["statements_not_restructured"]]
+        named = [x for x in reasons if "'u_if." in x]
+        t.res.check(len(named) == 2 and all("hierarchical reference" in x for x in named),
+                    f"own_inst: u_if.v is a hierarchical reference, not a port member: {reasons}")
+
+
 @S.case("all_modules", needs=("iverilog",))
 def _(t):
     """--all-modules: every module, each proved, one line each; the worst module's exit code."""
