@@ -41,8 +41,8 @@ module irq_router #(
 `endif
     end
   endgenerate
-  wire live_1_0_is_00 = live[1:0] == 2'b00;
   wire live_3_2_not_00 = live[3:2] != 2'b00;
+  wire live_1_0_is_00 = live[1:0] == 2'b00;
   wire irq_out_t0 = (live[5:4] == 2'b00) | live_3_2_not_00;
   wire live_4_3_not_10 = live[4:3] != 2'b10;
   wire src_id0_t0 = live[1] | (~live[2] & live_4_3_not_10);
@@ -51,6 +51,6 @@ module irq_router #(
   always_comb begin
     src_id[0] = ~live[0] & src_id0_t0;
     src_id[1] = live_1_0_is_00 & irq_out_t0;
-    src_id[2] = live_1_0_is_00 & ~live_3_2_not_00;
+    src_id[2] = ~live_3_2_not_00 & live_1_0_is_00;
   end
 endmodule

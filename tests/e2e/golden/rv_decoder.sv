@@ -30,9 +30,9 @@ module rv_decoder (
   wire reg_write_t4 = ~opcode[5] & reg_write_t7;
   wire opcode_6_4_is_110 = opcode[6:4] == 3'b110;
   wire branch_t0 = reg_write_t6 & opcode_6_4_is_110;
-  wire reg_write_t5 = opcode[2] & opcode_1_0_is_11;
   wire nopcode6_opcode4 = ~opcode[6] & opcode[4];
-  wire reg_write_t1 = ~opcode[3] & reg_write_t5 & nopcode6_opcode4;
+  wire reg_write_t5 = opcode[2] & opcode_1_0_is_11;
+  wire reg_write_t1 = ~opcode[3] & nopcode6_opcode4 & reg_write_t5;
   wire reg_write_t2 = opcode_6_4_is_110 & reg_write_t5;
   wire alu_src0_t1 = ~opcode[3] & reg_write_t2;
   wire reg_write_t3 = reg_write_t6 & nopcode6_opcode4;
