@@ -1,10 +1,10 @@
 // kerf-case: status and grant decode of an invented DMA arbiter: package struct and enum types,
 // kerf-case: $onehot0 and $countones, 'inside' with a set of enum constants and a value range,
 // kerf-case: a priority casez. Icarus 11 does not read 'inside', so Verilator simulates it.
-// kerf-with: include/dma_pkg.sv
+// kerf-with: include/dma_arb_pkg.sv
 // kerf-simulator: verilator
 // Invented: a DMA channel arbiter's grant and status decode.
-module dma_status import dma_pkg::*; (
+module dma_status import dma_arb_pkg::*; (
   input  req_t [3:0] req,
   input  st_e        st,
   input  logic [7:0] lvl,

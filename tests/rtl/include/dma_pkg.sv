@@ -1,5 +1,5 @@
-// Types of the invented DMA arbiter (tests/rtl/dma_status_builtins.sv).
+// dma_pkg — types of an invented DMA engine used by the enum designs in tests/rtl.
 package dma_pkg;
-  typedef enum logic [2:0] {IDLE=3'd0, FETCH=3'd1, XFER=3'd2, WAIT=3'd3, DONE=3'd4} st_e;
-  typedef struct packed { logic vld; logic [1:0] prio; logic [3:0] id; } req_t;
+  typedef enum logic {DIR_READ = 1'b0, DIR_WRITE = 1'b1} dir_e;
+  typedef enum logic [1:0] {PH_IDLE, PH_ADDR, PH_DATA, PH_ERROR} phase_e;
 endpackage
