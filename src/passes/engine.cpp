@@ -626,6 +626,7 @@ EngineResult restructure(net::Network& net, const EngineOptions& opts) {
     EngineResult res;
     FactorCache ownCache;
     FactorCache& cache = opts.cache ? *opts.cache : ownCache;
+    cache.setMaxCubes(opts.limits.factorMaxCubes);
     tidy(net);
     const int inputDepth = static_cast<int>(measureFactored(net, -1, &cache).depth);
     // Size: forms may use depth up to the bound; depth: always the shallowest forms.

@@ -43,6 +43,7 @@ struct FactorCache::Impl {
     };
     std::unordered_map<Cover, Entry, algebra::CoverHash> entries;
     std::size_t factored = 0;
+    std::size_t maxCubes = 1000;   // limit factor-max-cubes
     Entry& entry(const Cover& f) { return entries[f]; }
 };
 
@@ -91,9 +92,10 @@ const Factored& FactorCache::quick(const Cover& f) {
 
 std::size_t FactorCache::size() const { return impl_->factored; }
 
-namespace {
+void FactorCache::setMaxCubes(std::size_t cubes) { impl_->maxCubes = cubes; }
+std::size_t FactorCache::maxCubes() const { return impl_->maxCubes; }
 
-constexpr std::size_t kMaxFactoredCubes = 1000;
+namespace {
 
 // Merge arrival times two earliest first (a min-heap over t[0..k)); returns
 // the root's arrival. Allocation-free.
@@ -247,7 +249,7 @@ FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& 
         Candidates& c = cand[v];
         // Factoring a cover of thousands of cubes costs more than every pass
         // together; such nodes are written as plain sums of products.
-        if (cv.cubes.size() <= kMaxFactoredCubes) {
+        if (cv.cubes.size() <= fc.maxCubes()) {
             fc.best(cv);
             fc.quick(cv);
             c.form[c.count] = &e.best, c.gates[c.count++] = e.bestGates;

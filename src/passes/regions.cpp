@@ -115,6 +115,7 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
     EngineResult res;
     FactorCache ownCache;
     FactorCache& cache = opts.cache ? *opts.cache : ownCache;
+    cache.setMaxCubes(opts.limits.factorMaxCubes);
     tidy(net);
     const int inputDepth = static_cast<int>(measureFactored(net, -1, &cache).depth);
     const int bound = opts.maxDepth >= 0 ? std::max(opts.maxDepth, 0) : inputDepth;

@@ -241,6 +241,26 @@ TEST(PassesFactored, CountsGatesOnFactoredForms) {
     EXPECT_EQ(net::measure(n).gates, 3u);
 }
 
+TEST(PassesFactored, FactorMaxCubesLeavesLargerCoversUnfactored) {
+    // F43: the limit factor-max-cubes was accepted but had no effect (the
+    // factoring used a constant of its own). f = ab + ac has 2 cubes: with
+    // the limit at 1 it is counted as its SOP (3 gates), by the cache and by
+    // the engine's figures.
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c");
+    NodeId f = n.addLogic(cover({{pos(a), pos(b)}, {pos(a), pos(c)}}));
+    n.addOutput("f", pos(f));
+    FactorCache cache;
+    cache.setMaxCubes(1);
+    EXPECT_EQ(measureFactored(n, -1, &cache).gates, 3u);
+    cache.setMaxCubes(2);
+    EXPECT_EQ(measureFactored(n, -1, &cache).gates, 2u);
+    EngineOptions o;
+    setLimit(o.limits, "factor-max-cubes=1");
+    Network m = n;
+    EXPECT_EQ(restructure(m, o).before.gates, 3u);
+}
+
 TEST(PassesFactored, FormsComputeTheirNodesAndRespectTheBound) {
     for (std::uint32_t seed = 1; seed <= 10; ++seed) {
         Network n = randomNetwork(seed, 8, 50, 5, 5, 4);

@@ -4,7 +4,8 @@
 // Each node gets algebra::factor(cover, Best) unless that would push the
 // network deeper than the bound, in which case the node keeps the form with
 // the earliest arrival among {Best, Quick, the plain sum of products}.
-// Covers of more than 1000 cubes are not factored (plain sum of products). The
+// Covers of more cubes than the cache's maxCubes() (the engine's limit
+// factor-max-cubes) are not factored (plain sum of products). The
 // writer prints exactly these forms, so the summary and the targets count
 // exactly what is written.
 #pragma once
@@ -28,6 +29,9 @@ public:
     const algebra::Factored& quick(const algebra::Cover& f);
     /// Number of factorings done (each cover and method at most once).
     std::size_t size() const;
+    /// Covers of more cubes are written as plain sums of products (default 1000).
+    void setMaxCubes(std::size_t cubes);
+    std::size_t maxCubes() const;
 
     struct Impl;
     Impl& impl() { return *impl_; }
