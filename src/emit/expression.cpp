@@ -49,6 +49,39 @@ bool xorShape(const Factored& f, Literal& x, Literal& y, bool& inverted) {
     return true;
 }
 
+/// In a sum of more than two terms, the pairs of two-literal products that form an exclusive or
+/// (`x & ~y | ~x & y`, or its complement), so that `t | (a ^ b)` is not printed as three products.
+std::vector<std::pair<std::size_t, std::size_t>> xorPairs(const Factored& f) {
+    std::vector<std::pair<std::size_t, std::size_t>> pairs;
+    if (f.kind != K::Or || f.kids.size() <= 2) return pairs;
+    // Products of two literals of different variables, keyed by their variable pair.
+    std::map<std::pair<Literal, Literal>, std::vector<std::size_t>> byVars;
+    for (std::size_t i = 0; i < f.kids.size(); ++i) {
+        const Factored& g = f.kids[i];
+        if (g.kind != K::And || g.kids.size() != 2 || g.kids[0].kind != K::Lit || g.kids[1].kind != K::Lit) continue;
+        Literal a = g.kids[0].lit & ~1u, b = g.kids[1].lit & ~1u;
+        if (a == b || literalVar(a) == 0 || literalVar(b) == 0) continue;
+        byVars[{std::min(a, b), std::max(a, b)}].push_back(i);
+    }
+    std::vector<std::uint8_t> used(f.kids.size(), 0);
+    for (const auto& [vars, idx] : byVars)
+        for (std::size_t p = 0; p < idx.size(); ++p)
+            for (std::size_t q = p + 1; q < idx.size(); ++q) {
+                std::size_t i = idx[p], j = idx[q];
+                if (used[i] || used[j]) continue;
+                Factored two;
+                two.kind = K::Or;
+                two.kids = {f.kids[i], f.kids[j]};
+                Literal x, y;
+                bool inv;
+                if (!xorShape(two, x, y, inv)) continue;
+                used[i] = used[j] = 1;
+                pairs.push_back({std::min(i, j), std::max(i, j)});
+            }
+    std::sort(pairs.begin(), pairs.end());
+    return pairs;
+}
+
 /// Is f the choice s & A | ~s & B (s a literal directly under both ANDs)?
 bool muxShape(const Factored& f, Literal& sel, std::size_t& thenKid, std::size_t& selInThen, std::size_t& selInElse) {
     if (f.kind != K::Or || f.kids.size() != 2) return false;
@@ -242,7 +275,33 @@ int ExprBuilder::costLit(Literal l) {
     return cost(forms_[v], literalNegated(l));
 }
 
+const Factored* ExprBuilder::xorGrouped(const Factored& f) {
+    if (f.kind != K::Or || f.kids.size() <= 2) return nullptr;
+    if (auto it = regroupedOf_.find(&f); it != regroupedOf_.end()) return it->second;
+    const Factored* out = nullptr;
+    auto pairs = xorPairs(f);
+    if (!pairs.empty()) {
+        Factored g;
+        g.kind = K::Or;
+        std::vector<std::uint8_t> inPair(f.kids.size(), 0);
+        for (auto [i, j] : pairs) {
+            Factored two;
+            two.kind = K::Or;
+            two.kids = {f.kids[i], f.kids[j]};
+            g.kids.push_back(std::move(two));
+            inPair[i] = inPair[j] = 1;
+        }
+        for (std::size_t i = 0; i < f.kids.size(); ++i)
+            if (!inPair[i]) g.kids.push_back(f.kids[i]);
+        regrouped_.push_back(std::move(g));
+        out = &regrouped_.back();
+    }
+    regroupedOf_[&f] = out;
+    return out;
+}
+
 int ExprBuilder::cost(const Factored& f, bool neg) {
+    if (const Factored* g = xorGrouped(f)) return cost(*g, neg);
     auto& memo = memo_[neg ? 1 : 0];
     if (auto it = memo.find(&f); it != memo.end()) return it->second;
     int c = 0;
@@ -315,6 +374,7 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
         return e;
     }
     if (f.kids.size() == 1) return build(f.kids[0], neg);
+    if (const Factored* g = xorGrouped(f)) return build(*g, neg);
     Literal x, y;
     bool inv;
     if (xorShape(f, x, y, inv)) {

@@ -15,6 +15,7 @@ struct ModuleDesc;
 }
 
 #include <cstdint>
+#include <deque>
 #include <optional>
 #include <set>
 #include <span>
@@ -78,10 +79,15 @@ private:
     PExpr buildLit(algebra::Literal l);
     void groupSlices(PExpr& e);
     std::vector<std::uint8_t> sliceKids(const algebra::Factored& f) const;
+    const algebra::Factored* xorGrouped(const algebra::Factored& f);
 
     const std::vector<std::optional<VarRef>>& refs_;
     const std::vector<algebra::Factored>& forms_;
     std::unordered_map<const algebra::Factored*, int> memo_[2];
+    /// Sums regrouped so that each exclusive-or pair is one term (xorGrouped), kept alive
+    /// here because the memo above is keyed by address.
+    std::deque<algebra::Factored> regrouped_;
+    std::unordered_map<const algebra::Factored*, const algebra::Factored*> regroupedOf_;
 };
 
 /// Adds to `out` the named constants (ModuleDesc::constants indices) that `e` names.

@@ -475,6 +475,39 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         for (const auto& k : proof::keptStatements(desc, low)) std::cerr << "  " << proof::describeKept(k) << "\n";
     }
 
+    // What stays as written, and why, on one line after the summary: each reason once, with the
+    // lines it covers (statements kerf does not restructure, and groups without enough gain).
+    std::string keptText;
+    {
+        std::vector<std::pair<std::string, std::vector<std::string>>> byReason;
+        auto add = [&](const std::string& reason, const std::string& lines) {
+            for (auto& [r, ls] : byReason)
+                if (r == reason) { ls.push_back(lines); return; }
+            byReason.push_back({reason, {lines}});
+        };
+        if (wr.changed)
+            for (const auto& g : wr.groups) {
+                if (g.replaced || g.lines.empty()) continue;
+                std::string ls;
+                for (std::size_t i = 0; i < g.lines.size(); ++i)
+                    ls += (i ? "," : "") + (g.lines[i].first == g.lines[i].second
+                                                ? std::to_string(g.lines[i].first)
+                                                : fmt::format("{}-{}", g.lines[i].first, g.lines[i].second));
+                add(g.reason, ls);
+            }
+        for (const auto& k : proof::keptStatements(desc, low)) add(k.what + ": " + k.reason, std::to_string(k.src.line));
+        constexpr std::size_t kShown = 10;   // lines listed per reason; the report has all of them
+        for (const auto& [reason, ls] : byReason) {
+            std::string lines;
+            for (std::size_t i = 0; i < ls.size() && i < kShown; ++i) lines += (i ? ", " : "") + ls[i];
+            if (ls.size() > kShown) lines += fmt::format(" and {} more", ls.size() - kShown);
+            bool many = ls.size() > 1 || ls[0].find_first_of(",-") != std::string::npos;
+            keptText += fmt::format("{}line{} {} ({})", keptText.empty() ? "" : "; ", many ? "s" : "", lines, reason);
+        }
+        if (!keptText.empty())
+            keptText = fmt::format("{}: module {}: kept as written: {}", file, desc.name, keptText);
+    }
+
     std::string outputPath = opts.inPlace ? file : opts.output;
     std::string summary = fmt::format("{}: module {}: {}, word operators {}", file, desc.name,
                                       figuresText(asRead, after), words.str());
@@ -590,11 +623,11 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
 
     if (outcome) *outcome = {wr.changed, file, wr.text, wr.changed ? wr.wiresAdded : std::vector<std::string>{}};
     if (opts.noOutput) {
-        if (!opts.quiet) std::cerr << summary << "\n";
+        if (!opts.quiet) std::cerr << summary << "\n" << (keptText.empty() ? "" : keptText + "\n");
         return 0;
     }
     if (opts.check) {
-        if (!opts.quiet) std::cerr << summary << "\n";
+        if (!opts.quiet) std::cerr << summary << "\n" << (keptText.empty() ? "" : keptText + "\n");
         if (wr.changed) {
             std::cerr << fmt::format("{}: kerf would restructure module {} ({} -> {} gates)\n", file, desc.name,
                                      asRead.gates, after.gates);
@@ -613,7 +646,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     } else {
         io::writeStdout(wr.text);
     }
-    if (!opts.quiet) std::cerr << summary << "\n";
+    if (!opts.quiet) std::cerr << summary << "\n" << (keptText.empty() ? "" : keptText + "\n");
     return 0;
 }
 

@@ -764,6 +764,24 @@ def construct_tristate_is_kept():
 
 
 @test
+def construct_summary_names_kept_statements():
+    # Every statement kept as written is named with its line and reason on the summary's
+    # "kept as written" line (issue 9); the rewritten statements (y, v) are not listed.
+    err, text = restructure_construct("kept_reasons.sv", "kept_reasons")
+    kept = [l for l in err.splitlines() if "module kept_reasons: kept as written:" in l]
+    assert len(kept) == 1, err
+    line = kept[0]
+    assert re.search(r"line 12 \(always_ff: [^)]*sequential", line), line
+    assert re.search(r"line 13 \(assign: [^)]*tri-state", line), line
+    assert re.search(r"line 14 \([^)]*(saving|min-gain)", line), line
+    assert not re.search(r"\b1[56]\b", line), line
+    assert "assign y = (a[2] & b[2] & a[3] & b[3])" not in text, "y and v share a term and are rewritten: " + text
+    # The source's exclusive or inside a larger sum stays an exclusive or (issue 10: logic
+    # that reads well), not the two products `a[1] & ~b[0] | ~a[1] & b[0]`.
+    assert re.search(r"assign v = [^;]*\^", text), text
+
+
+@test
 def construct_x_default_is_dont_care():
     # default: y = 'x is a don't-care (IEEE 1364.1 synthesis reading): the rewrite may
     # take any value there and matches the original everywhere else.
