@@ -579,6 +579,19 @@ void Lowerer::exec(StmtId id) {
             Bits& slot = env_->vars[init.var];
             slot = extend(v, static_cast<int>(slot.size()), false);
         }
+        // The variables that hold constants. The condition must be constant to go on, so it reads
+        // only these; when an iteration leaves every one of them as it found it, each later
+        // iteration repeats it and the loop never ends (F65: refused at once, not after the limit).
+        auto constantState = [&] {
+            std::vector<std::pair<SymbolId, const Bits*>> st;
+            for (const auto& [sym, bits] : env_->vars)
+                if (std::all_of(bits.begin(), bits.end(), [](const Bit& b) {
+                        return b.x == kFalse && (b.v == kFalse || b.v == kTrue);
+                    }))
+                    st.push_back({sym, &bits});
+            return st;
+        };
+        std::vector<std::pair<SymbolId, Bits>> before;
         for (int iter = 0;; ++iter) {
             if (iter > kMaxLoopIterations)
                 fail(fmt::format("a for loop runs more than {} iterations", kMaxLoopIterations), here(s.start));
@@ -586,8 +599,17 @@ void Lowerer::exec(StmtId id) {
             if (c.x == kFalse && c.v == kFalse) break;
             if (c.x != kFalse || c.v != kTrue)
                 fail("a for loop's condition is not constant; only loops with constant bounds are unrolled", here(s.start));
+            before.clear();
+            for (const auto& [sym, bits] : constantState()) before.push_back({sym, *bits});
             exec(s.f);
             for (std::uint32_t k = 0; k < s.e; ++k) exec(ir_.lists[s.d + k]);
+            auto after = constantState();
+            bool same = after.size() == before.size();
+            for (std::size_t k = 0; same && k < after.size(); ++k)
+                same = after[k].first == before[k].first && *after[k].second == before[k].second;
+            if (same)
+                fail("a for loop's iteration leaves its constant variables as they were, so it never ends",
+                     here(s.start));
         }
         return;
     }

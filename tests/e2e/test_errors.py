@@ -18,6 +18,7 @@ import resource
 import shutil
 import stat
 import sys
+import time
 
 sys.path.insert(0, os.path.dirname(__file__))
 import kerf_e2e as K  # noqa: E402
@@ -132,6 +133,17 @@ def _(t):
     expect_failure(t, [f"{BAD}/comb_loop.v"], [], 2,
                    r"comb_loop\.v:3:3: error: combinational loop.*'p' \(driven at [^)]*comb_loop\.v:3:3\).*"
                    r"'q' \(driven at [^)]*comb_loop\.v:4:3\)")
+
+
+@S.case("endless_loop")
+def _(t):
+    # A loop that cannot end is refused with its location, at once (F65: before, the lowering
+    # unrolled 65,536 iterations first). The time is printed, not asserted.
+    start = time.monotonic()
+    expect_failure(t, [f"{BAD}/endless_loop.sv"], [], 2,
+                   r"endless_loop\.sv:6:\d+: error: a for loop's iteration leaves its constant variables as they "
+                   r"were, so it never ends")
+    print(f"endless_loop: refused in {time.monotonic() - start:.2f} s")
 
 
 @S.case("multiple_drivers")
