@@ -388,6 +388,8 @@ private:
     std::vector<std::uint8_t> allowed_;        ///< per output: may lend its name to its node
     std::set<std::string> taken_;
     bool oneGroup_ = false;
+    /// Generated operand -> the word operation (index in low_.wordOps) it is an operand of.
+    std::map<std::string, std::size_t> opOfOperand_;
 
     // per planning round
     std::vector<std::optional<VarRef>> refs_;  ///< per variable
@@ -396,6 +398,18 @@ private:
     std::vector<NodeId> wires_;                ///< topological order
     std::vector<int> wireGroup_;
     std::map<int, int> groupOfStmt_;
+    /// Per word operation: its statement group (-1: nothing reads it; it is not written).
+    std::vector<int> opGroup_;
+    /// The group of output i (a generated operand: its operation's group), -1 for none.
+    int groupOfOut(std::size_t i) const {
+        if (!outs_[i].generated) return groupOfStmt_.at(outs_[i].stmt);
+        auto it = opOfOperand_.find(outs_[i].bit.signal);
+        return it == opOfOperand_.end() ? -1 : opGroup_[it->second];
+    }
+    /// Whether word operation k is written: its group is replaced.
+    bool opWritten(std::size_t k) const {
+        return opGroup_[k] >= 0 && groups_[static_cast<std::size_t>(opGroup_[k])].replaced;
+    }
     std::vector<StatementGroup> groups_;
     std::vector<std::vector<int>> groupStmts_;
     std::vector<std::vector<NodeId>> groupWires_;
@@ -506,7 +520,9 @@ void Writer::indexOutputs() {
             if (o.generated) generatedWidths()[o.name] = o.width;
         }
     }
-    oneGroup_ = oneGroup_ || !low_.wordOps.empty();
+    for (std::size_t k = 0; k < low_.wordOps.size(); ++k)
+        for (const auto& o : low_.wordOps[k].operands)
+            if (o.generated) opOfOperand_.emplace(o.name, k);
     // A word operation computed twice (the same operator on operands of the same function) is
     // written once: later copies' results are read under the first one's name.
     std::map<std::string, std::vector<Literal>> operandBits;
@@ -864,11 +880,19 @@ void Writer::nameWires() {
 void Writer::formGroups() {
     std::map<int, int> index;
     for (std::size_t s = 0; s < stmts_.size(); ++s) index[stmts_[s]] = static_cast<int>(s);
-    UnionFind uf(stmts_.size() + 1);
-    const int wordUnit = static_cast<int>(stmts_.size());
+    // Units: the statements, then the word operations (each with its generated operands).
+    const std::size_t S = stmts_.size(), O = low_.wordOps.size();
+    UnionFind uf(S + O);
+    auto opUnit = [&](std::size_t k) { return static_cast<int>(S + k); };
+    auto unitOf = [&](std::size_t i) {
+        if (!outs_[i].generated) return index.at(outs_[i].stmt);
+        auto it = opOfOperand_.find(outs_[i].bit.signal);
+        return it == opOfOperand_.end() ? -1 : opUnit(it->second);
+    };
     std::vector<int> wireOwner(net_.nodeCount(), -1);   // per wire: the first unit found reading it
     for (std::size_t i = 0; i < outs_.size(); ++i) {
-        int unit = outs_[i].generated ? wordUnit : index.at(outs_[i].stmt);
+        int unit = unitOf(i);
+        if (unit < 0) continue;
         NodeId v = literalVar(net_.outputs()[i].driver);
         coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) {
             if (wireOwner[w] < 0) wireOwner[w] = unit;
@@ -885,14 +909,56 @@ void Writer::formGroups() {
             else uf.unite(wireOwner[x], own);
         }, [](NodeId) {}, [](const std::string&) {});
     }
+    // A word operation is written in its group's wire block (or as the statement of the
+    // author's signal that is exactly its result), so it joins the units that read its result:
+    // statements and wires naming the result, operations taking it as an operand. A repeated
+    // operation is read under the first one's name. Statements that only feed an operation
+    // (write a signal it reads by name) stay apart: they keep their names either way.
+    if (O > 0) {
+        std::map<std::string, std::size_t> opOfResult;   // result as written -> operation
+        for (std::size_t k = 0; k < O; ++k) {
+            const auto& w = low_.wordOps[k];
+            opOfResult.emplace(w.result, k);
+            opOfResult.emplace(verilogName(w.result), k);
+        }
+        for (std::size_t k = 0; k < O; ++k) {
+            const auto& w = low_.wordOps[k];
+            if (auto same = sameAs_.find(w.result); same != sameAs_.end())
+                if (auto f = opOfResult.find(same->second); f != opOfResult.end()) uf.unite(opUnit(k), opUnit(f->second));
+            for (const auto& o : w.operands)
+                if (!o.generated)
+                    if (auto f = opOfResult.find(o.name); f != opOfResult.end()) uf.unite(opUnit(k), opUnit(f->second));
+            if (auto named = resultName_.find(w.result); named != resultName_.end())
+                for (std::size_t i = 0; i < outs_.size(); ++i)
+                    if (!outs_[i].generated && outs_[i].bit.signal == named->second) uf.unite(opUnit(k), unitOf(i));
+        }
+        std::vector<std::string> names;
+        auto uniteReaders = [&](int unit) {
+            for (const auto& n : names)
+                if (auto f = opOfResult.find(n); f != opOfResult.end()) uf.unite(unit, opUnit(f->second));
+        };
+        for (std::size_t i = 0; i < outs_.size(); ++i) {
+            int unit = unitOf(i);
+            if (unit < 0) continue;
+            names.clear();
+            namesRead(i, [&](const std::string& n) { names.push_back(n); });
+            uniteReaders(unit);
+        }
+        for (NodeId w : wires_) {
+            if (wireOwner[w] < 0) continue;
+            names.clear();
+            coneOf(w, true, [](NodeId) {}, [](NodeId) {}, [&](const std::string& n) { names.push_back(n); });
+            uniteReaders(wireOwner[w]);
+        }
+    }
     if (oneGroup_)
-        for (std::size_t s = 0; s < stmts_.size(); ++s) uf.unite(static_cast<int>(s), wordUnit);
+        for (std::size_t u = 1; u < S + O; ++u) uf.unite(static_cast<int>(u), 0);
     // Groups in source order of their first statement.
     std::map<int, int> groupOfRoot;
     groups_.clear();
     groupStmts_.clear();
     groupOfStmt_.clear();
-    for (std::size_t s = 0; s < stmts_.size(); ++s) {
+    for (std::size_t s = 0; s < S; ++s) {
         int r = uf.find(static_cast<int>(s));
         auto [it, fresh] = groupOfRoot.emplace(r, static_cast<int>(groups_.size()));
         if (fresh) {
@@ -903,12 +969,15 @@ void Writer::formGroups() {
         groupOfStmt_[stmts_[s]] = it->second;
     }
     auto groupOfUnit = [&](int unit) {
-        if (unit == wordUnit) {
-            auto it = groupOfRoot.find(uf.find(wordUnit));
-            return it == groupOfRoot.end() ? -1 : it->second;
-        }
-        return groupOfStmt_.at(stmts_[static_cast<std::size_t>(unit)]);
+        auto it = groupOfRoot.find(uf.find(unit));
+        return it == groupOfRoot.end() ? -1 : it->second;
     };
+    opGroup_.assign(O, -1);
+    std::vector<std::uint8_t> hasOps(groups_.size(), 0);
+    for (std::size_t k = 0; k < O; ++k) {
+        opGroup_[k] = groupOfUnit(opUnit(k));
+        if (opGroup_[k] >= 0) hasOps[static_cast<std::size_t>(opGroup_[k])] = 1;
+    }
     wireGroup_.assign(net_.nodeCount(), -1);
     groupWires_.assign(groups_.size(), {});
     for (NodeId w : wires_) {
@@ -922,7 +991,8 @@ void Writer::formGroups() {
     groupPos_.assign(groups_.size(), std::string::npos);
     for (std::size_t g = 0; g < groups_.size(); ++g) {
         for (int s : groupStmts_[g]) {
-            bool uses = oneGroup_;
+            // A group with word operations: they are declared before its first statement.
+            bool uses = oneGroup_ || hasOps[g];
             if (!uses)
                 for (std::size_t i = 0; i < outs_.size() && !uses; ++i) {
                     if (outs_[i].stmt != s) continue;
@@ -1138,7 +1208,7 @@ void Writer::decide() {
     const auto& origForms = *origForms_;
     std::vector<std::vector<std::size_t>> outsOf(groups_.size());
     for (std::size_t i = 0; i < outs_.size(); ++i) {
-        int g = outs_[i].generated ? (groups_.empty() ? -1 : 0) : groupOfStmt_.at(outs_[i].stmt);
+        int g = groupOfOut(i);
         if (g >= 0) outsOf[static_cast<std::size_t>(g)].push_back(i);
     }
     std::vector<int> groupOfOutput(outs_.size(), -1);
@@ -1148,7 +1218,7 @@ void Writer::decide() {
     std::vector<std::uint32_t> nodeStamp(net_.nodeCount(), 0);   // nodes counted for group g carry g + 1
     // The original's nodes walked for group g, the other groups' outputs and g's own, marked g + 1.
     std::vector<std::uint32_t> origSeen(orig_.nodeCount(), 0), origStop(orig_.nodeCount(), 0),
-        origRoot(orig_.nodeCount(), 0);
+        origRoot(orig_.nodeCount(), 0), origNamed(orig_.nodeCount(), 0);
     for (std::size_t g = 0; g < groups_.size(); ++g) {
         StatementGroup& G = groups_[g];
         G.members.clear();
@@ -1184,10 +1254,20 @@ void Writer::decide() {
             coneOf(wires[q], true, addWire, addNode, [](const std::string&) {});
         // Before: the logic of the group's outputs as read, up to signals other statements compute.
         for (std::size_t i = 0; i < outs_.size(); ++i)
-            if (groupOfOutput[i] != static_cast<int>(g)) origStop[literalVar(orig_.outputs()[i].driver)] = stamp;
+            if (groupOfOutput[i] != static_cast<int>(g)) {
+                origStop[literalVar(orig_.outputs()[i].driver)] = stamp;
+                if (!outs_[i].generated) origNamed[literalVar(orig_.outputs()[i].driver)] = stamp;
+            }
         std::vector<NodeId> work;
         for (std::size_t i : outsOf[g]) work.push_back(literalVar(orig_.outputs()[i].driver));
-        for (NodeId r : work) origRoot[r] = stamp;
+        // A group's own output counts its logic even where another group computes the same
+        // (its text computes it too), except a word operation's operand that is an author's
+        // signal of another group: the operation as read names that signal (`a >= sel_b`), and
+        // the rewrite names it too, so the logic is that group's, not a gain of this one.
+        for (std::size_t i : outsOf[g]) {
+            NodeId r = literalVar(orig_.outputs()[i].driver);
+            if (!outs_[i].generated || origNamed[r] != stamp) origRoot[r] = stamp;
+        }
         G.gatesBefore = 0;
         while (!work.empty()) {
             NodeId v = work.back();
@@ -1267,14 +1347,16 @@ void Writer::keepReaders() {
                 continue;
             }
             auto onName = [&](const std::string& n) { read.insert(n); };
+            // The group's statements and its word operations' generated operands (their logic is
+            // written in the group's wire block, or inline in the operation).
             for (std::size_t i = 0; i < outs_.size(); ++i) {
-                if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;
+                if (groupOfOut(i) != static_cast<int>(g)) continue;
                 namesRead(i, onName);
             }
             for (NodeId w : groupWires_[g]) coneOf(w, true, [](NodeId) {}, [](NodeId) {}, onName);
-            if (!low_.wordOps.empty() && g == 0)
-                for (const auto& w : low_.wordOps)
-                    for (const auto& o : w.operands)
+            for (std::size_t k = 0; k < low_.wordOps.size(); ++k)
+                if (opGroup_[k] == static_cast<int>(g))
+                    for (const auto& o : low_.wordOps[k].operands)
                         if (!o.generated) read.insert(o.name);
         }
         for (const auto& [sig, groups] : readersOf) {
@@ -1341,11 +1423,9 @@ std::vector<std::string> Writer::unreadBits() {
             walk(forms_[v]);
         }
     };
-    bool wordsWritten = false;
     for (std::size_t i = 0; i < outs_.size(); ++i) {
-        int g = outs_[i].generated ? (groups_.empty() ? -1 : 0) : groupOfStmt_.at(outs_[i].stmt);
+        int g = groupOfOut(i);
         if (g < 0 || !groups_[static_cast<std::size_t>(g)].replaced) continue;
-        if (outs_[i].generated) wordsWritten = true;
         NodeId v = literalVar(net_.outputs()[i].driver);
         if (v == 0) continue;
         if (!net_.isLogic(v) && aliasOf_[v] == static_cast<int>(i)) record(inputRefs_[v]);
@@ -1355,10 +1435,9 @@ std::vector<std::string> Writer::unreadBits() {
     }
     for (NodeId w : wires_)
         if (wireGroup_[w] >= 0 && groups_[static_cast<std::size_t>(wireGroup_[w])].replaced) expand(w);
-    wordsWritten = wordsWritten || (!low_.wordOps.empty() && !groups_.empty() && groups_[0].replaced);
-    if (wordsWritten)
-        for (const auto& w : low_.wordOps)
-            for (const auto& o : w.operands)
+    for (std::size_t k = 0; k < low_.wordOps.size(); ++k)
+        if (opWritten(k))
+            for (const auto& o : low_.wordOps[k].operands)
                 if (!o.generated) wholeRead.insert(o.name);
     // What the replaced statements read and nothing kept reads.
     std::set<std::string> replacedReads, keptReads, written;
@@ -1414,8 +1493,8 @@ std::vector<std::string> Writer::unreadBits() {
         runs(name, sig.width, scalar, [&](int lo, int n) { return frontend::referenceText(m_, name, lo, n); });
     }
     origName.clear();
-    if (wordsWritten)
-        for (const auto& w : low_.wordOps)
+    for (std::size_t k = 0; k < low_.wordOps.size(); ++k)
+        if (const auto& w = low_.wordOps[k]; opWritten(k))
             if (!sameAs_.count(w.result) && !resultName_.count(w.result)) runs(w.result, w.resultWidth, w.resultWidth == 1, [&](int lo, int n) {
                 if (w.resultWidth == 1) return verilogName(w.result);
                 return n == 1 ? fmt::format("{}[{}]", w.result, lo) : fmt::format("{}[{}:{}]", w.result, lo + n - 1, lo);
@@ -1864,7 +1943,9 @@ std::string Writer::operationText(const frontend::WordOp& w) {
 std::string Writer::wireBlock(int g, const std::string& ind) {
     ExprBuilder eb(refs_, forms_);
     std::string out;
-    bool words = !low_.wordOps.empty() && g == 0;
+    // The word operations of this group (formGroups), with their generated operands.
+    auto inGroup = [&](std::size_t k) { return opGroup_[k] == g; };
+    bool words = std::any_of(opGroup_.begin(), opGroup_.end(), [&](int h) { return h == g; });
     inlineOperands();
     const auto& inlined = inlined_;
     std::set<std::string> repeatedOperands;   // operands of a repeated operation: not written
@@ -1872,8 +1953,9 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
         if (sameAs_.count(w.result))
             for (const auto& o : w.operands) repeatedOperands.insert(o.name);
     if (words) {
-        for (const auto& w : low_.wordOps) {
-            if (sameAs_.count(w.result)) continue;
+        for (std::size_t k = 0; k < low_.wordOps.size(); ++k) {
+            const auto& w = low_.wordOps[k];
+            if (!inGroup(k) || sameAs_.count(w.result)) continue;
             for (const auto& o : w.operands)
                 if (o.generated && !inlined.count(o.name))
                     out += ind + (o.width > 1 ? fmt::format("wire [{}:0] {};\n", o.width - 1, o.name)
@@ -1889,10 +1971,12 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
     }
     if (words) {
         for (std::size_t i = 0; i < outs_.size(); ++i)
-            if (outs_[i].generated && !inlined.count(outs_[i].bit.signal) && !repeatedOperands.count(outs_[i].bit.signal))
+            if (outs_[i].generated && groupOfOut(i) == g && !inlined.count(outs_[i].bit.signal) &&
+                !repeatedOperands.count(outs_[i].bit.signal))
                 out += ind + statement(ind, "assign " + bitText(m_, outs_[i].bit) + " = ", outputExpr(i)) + "\n";
-        for (const auto& w : low_.wordOps) {
-            if (sameAs_.count(w.result) || resultName_.count(w.result)) continue;
+        for (std::size_t k = 0; k < low_.wordOps.size(); ++k) {
+            const auto& w = low_.wordOps[k];
+            if (!inGroup(k) || sameAs_.count(w.result) || resultName_.count(w.result)) continue;
             std::string rhs = operationText(w);
             out += ind + fmt::format("assign {} = {};\n", w.result, rhs);
         }
