@@ -16,9 +16,9 @@
 //  3. Text. Each replaced statement is replaced where it stands and in its own
 //     kind (`assign`, net declaration, `always_comb`, `always @(*)`); new wires
 //     are declared just before the first statement of their group that uses
-//     them; a header comment goes above the first change. Indentation, tabs and
-//     line endings follow the file. Names the file declares after a point are
-//     never used before it.
+//     them; a header comment goes above the first change (one per module: an
+//     earlier run's header goes). Indentation, tabs and line endings follow
+//     the file. Names the file declares after a point are never used before it.
 #include "kerf/emit/writer.h"
 
 #include "kerf/emit/guard.h"
@@ -258,6 +258,40 @@ std::string indentOf(const std::string& src, std::size_t pos) {
 std::size_t lineStart(const std::string& src, std::size_t pos) {
     while (pos > 0 && src[pos - 1] != '\n') --pos;
     return pos;
+}
+
+/// A header comment kerf wrote (`// kerf: 2 of 5 groups rewritten, ...`, with its note line when it
+/// ends in ';') on the line [ls, le): the end of its lines; nothing for any other line.
+std::optional<std::size_t> oldHeaderLines(const std::string& s, std::size_t ls, std::size_t le) {
+    std::size_t p = ls;
+    while (p < le && (s[p] == ' ' || s[p] == '\t')) ++p;
+    const std::string tag = "// kerf: ";
+    if (s.compare(p, tag.size(), tag) != 0) return std::nullopt;
+    p += tag.size();
+    auto digits = [&]() {
+        std::size_t q = p;
+        while (q < le && std::isdigit(static_cast<unsigned char>(s[q]))) ++q;
+        bool any = q > p;
+        p = q;
+        return any;
+    };
+    if (!digits() || s.compare(p, 4, " of ") != 0) return std::nullopt;
+    p += 4;
+    if (!digits() || s.compare(p, 6, " group") != 0) return std::nullopt;
+    std::size_t textEnd = le;
+    while (textEnd > ls && (s[textEnd - 1] == '\n' || s[textEnd - 1] == '\r' || s[textEnd - 1] == ' ')) --textEnd;
+    if (textEnd > ls && s[textEnd - 1] == ';' && le < s.size()) {
+        // The note line: `// bits no longer read: see kf_unused` and its kinds.
+        std::size_t ne = s.find('\n', le);
+        ne = ne == std::string::npos ? s.size() : ne + 1;
+        std::size_t q = le;
+        while (q < ne && (s[q] == ' ' || s[q] == '\t')) ++q;
+        std::string note = s.substr(q, ne - q);
+        if (note.compare(0, 3, "// ") == 0 && note.find(" no longer ") != std::string::npos &&
+            note.find(": see ") != std::string::npos)
+            return ne;
+    }
+    return le;
 }
 
 bool blankBetween(const std::string& s, std::size_t a, std::size_t b) {
@@ -2142,6 +2176,21 @@ WriteResult Writer::run() {
         res.text = src_;
         for (auto& G : res.groups) G.replaced = false, G.reason = "rewritten into the same text";
         return res;
+    }
+    // kerf run on its own output: the header comment of the earlier run (and its note line) goes;
+    // the one written below has the figures of this run, so the module has one header.
+    for (std::size_t ls = lineStart(src_, m_.src.start); ls < m_.src.end && ls < src_.size();) {
+        std::size_t le = src_.find('\n', ls);
+        le = le == std::string::npos ? src_.size() : le + 1;
+        if (auto h = oldHeaderLines(src_, ls, le)) {
+            bool clear = std::none_of(edits.begin(), edits.end(), [&](const Edit& e) {
+                return e.start < *h && e.end > ls && !(e.start == e.end && (e.start == ls || e.start == *h));
+            });
+            if (clear) edits.push_back({ls, *h, ""});
+            ls = *h;
+            continue;
+        }
+        ls = le;
     }
     // Bits the function no longer depends on: read by one wire named *unused* just before
     // `endmodule`, so that lint reports no unused signal the original did not have.

@@ -404,6 +404,42 @@ def _(t):
         t.res.check(loop in text2, "dma_status: the wiring loop stays byte for byte")
 
 
+@S.case("rerun_replaces_header", needs=("iverilog",))
+def _(t):
+    """F72: kerf on its own output, edited so that it gains again, keeps one header comment: the
+    earlier run's header (and its note line) goes, the new one has this run's figures."""
+    case = os.path.join("tests", "rtl", "min_word_op_apart.sv")
+    first = os.path.join(t.work, "first.sv")
+    r = restructure(t, [case], "min_word_op_apart", first)
+    if not t.res.check(r.returncode == 0, f"first run: {r.stderr[-800:]}"):
+        return
+    text = open(first).read()
+    old = re.findall(r"^ *// kerf: \d+ of \d+ groups? rewritten.*$", text, re.M)
+    t.res.check(len(old) == 1 and old[0].endswith(";") and "// bits no longer read: see kf_unused" in text,
+                f"the first run writes one header with its note line: {old}")
+    loop = "lane_on[i] = lane_req[i];"
+    if not t.res.check(loop in text, "the first run keeps the lane loop"):
+        return
+    edited = os.path.join(t.work, "edited.sv")
+    open(edited, "w").write(text.replace(loop, "lane_on[i] = (lane_req[i] & mode[0]) | (lane_req[i] & ~mode[0]);"))
+    second = os.path.join(t.work, "second.sv")
+    r = restructure(t, [edited], "min_word_op_apart", second)
+    if not t.res.check(r.returncode == 0, f"second run: {r.stderr[-800:]}"):
+        return
+    out = open(second).read()
+    t.res.check(out != open(edited).read(), "the second run rewrites the edited loop")
+    headers = re.findall(r"^ *// kerf: \d+ of \d+ groups? rewritten.*$", out, re.M)
+    m = re.search(r"gates (\d+) -> (\d+)", r.stderr)
+    t.res.check(len(headers) == 1 and m is not None and f"gates {m.group(1)} -> {m.group(2)}" in headers[0],
+                f"one header, with the second run's figures: {headers}")
+    t.res.check(old[0] not in out and "// bits no longer read: see kf_unused" not in out,
+                "the first run's header and its note line are gone")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [edited], "min_word_op_apart", second, sim, vectors=3000)
+    t.res.check(ok, f"the second rewrite simulates like its input (Icarus Verilog): {log}")
+
+
 @S.case("min_gain_keeps_file")
 def _(t):
     out = os.path.join(t.work, "uart_regsel.v")
