@@ -16,6 +16,7 @@
 #include "lower_internal.h"
 
 #include <algorithm>
+#include <numeric>
 #include <stdexcept>
 
 namespace kerf::frontend::detail {
@@ -448,6 +449,62 @@ Bits Lowerer::readBits(SymbolId s, const std::vector<int>& offs) {
     r.reserve(offs.size());
     for (int o : offs) r.push_back(o >= 0 && o < sw ? signalBit(s, o) : kRuleX);
     return r;
+}
+
+bool Lowerer::constantSelect(ExprId id, SymbolId& sym, std::vector<int>& offs) const {
+    // Reading only the bits the chain names matters in a block that assigns some bits of a
+    // signal before it reads others (F81: `st.f[0] = st.f[1] ^ a;` after `st.f[1] = b;`).
+    std::vector<ExprId> chain;
+    for (ExprId at = id;;) {
+        const Expr& e = ir_.exprs[at];
+        if (e.kind == ExprKind::Ref) {
+            sym = e.a;
+            break;
+        }
+        if (e.kind == ExprKind::Index) {
+            const Expr& ix = ir_.exprs[e.b];
+            if (ix.kind != ExprKind::Const || ix.width == 0 || ix.width > 62) return false;
+        } else if (e.kind != ExprKind::Range) {
+            return false;
+        }
+        chain.push_back(at);
+        at = e.a;
+    }
+    offs.resize(static_cast<std::size_t>(std::max(ir_.symbols[sym].width, 0)));
+    std::iota(offs.begin(), offs.end(), 0);
+    auto through = [&](const std::vector<int>& positions) {
+        std::vector<int> next;
+        next.reserve(positions.size());
+        for (int p : positions) next.push_back(p >= 0 && p < static_cast<int>(offs.size()) ? offs[p] : -1);
+        offs = std::move(next);
+    };
+    for (std::size_t k = chain.size(); k-- > 0;) {
+        const Expr& e = ir_.exprs[chain[k]];
+        const int w = static_cast<int>(e.width);
+        std::vector<int> positions;
+        if (e.kind == ExprKind::Range) {
+            int lo = dimOffset(e.right(), e.msb, e.lsb), hi = dimOffset(e.left(), e.msb, e.lsb);
+            if (lo > hi) std::swap(lo, hi);
+            int elems = hi - lo + 1;
+            int ew = std::max(1, w / std::max(elems, 1));
+            for (int i = lo * ew; i < (hi + 1) * ew; ++i) positions.push_back(i);
+        } else {
+            const Expr& ix = ir_.exprs[e.b];
+            std::int64_t pos = 0;
+            for (std::uint32_t i = ix.width; i-- > 0;) {
+                char c = ir_.constBit(ix, i);
+                if (c != '0' && c != '1') return false;
+                pos = pos * 2 + (c == '1');
+            }
+            if (ix.isSigned && ((pos >> (ix.width - 1)) & 1)) pos -= std::int64_t{1} << ix.width;
+            std::int64_t off = e.msb >= e.lsb ? pos - e.lsb : e.lsb - pos;
+            std::int64_t count = std::abs(static_cast<std::int64_t>(e.msb) - e.lsb) + 1;
+            for (int i = 0; i < w; ++i)
+                positions.push_back(off >= 0 && off < count ? static_cast<int>(off * w + i) : -1);
+        }
+        through(positions);
+    }
+    return true;
 }
 
 Bits Lowerer::evalRef(SymbolId s, int width) {
@@ -1006,6 +1063,14 @@ Bits Lowerer::eval(ExprId root) {
         case ExprKind::Index: {
             const Expr& value = ir_.exprs[e.a];
             bool idxSigned = ir_.exprs[e.b].isSigned;
+            if (f.stage == 0 && value.kind != ExprKind::Ref) {
+                SymbolId sym;
+                std::vector<int> offs;
+                if (constantSelect(id, sym, offs)) {
+                    done(extend(readBits(sym, offs), w, false));
+                    break;
+                }
+            }
             if (f.stage == 0) {
                 f.stage = 1;
                 push(e.b);
@@ -1046,6 +1111,14 @@ Bits Lowerer::eval(ExprId root) {
             if (value.kind == ExprKind::Ref) {
                 done(extend(readBits(value.a, offs), w, false));
                 break;
+            }
+            if (f.stage == 0) {
+                SymbolId sym;
+                std::vector<int> chained;
+                if (constantSelect(id, sym, chained)) {
+                    done(extend(readBits(sym, chained), w, false));
+                    break;
+                }
             }
             if (f.stage++ == 0) { push(e.a); break; }
             done(extend(pick(vals[base], offs), w, false));

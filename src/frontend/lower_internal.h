@@ -176,6 +176,9 @@ public:
     /// The value of a call: the function's body run on the arguments (its locals are its own).
     Bits callFunction(std::uint32_t f, const std::vector<Bits>& args, int width);
     Bits readBits(SymbolId s, const std::vector<int>& offs);
+    /// For a chain of constant selects that ends in a signal (`s.f[1]`, `m[2][3:0]`), the signal
+    /// and the bit offsets the chain selects (-1 where out of range); false for anything else.
+    bool constantSelect(ExprId id, SymbolId& sym, std::vector<int>& offs) const;
     Bits wordOp(ExprId e, int w, std::string_view op, bool unary, const Bits* a, const Bits* b, Literal x,
                 Literal sx);
     bool operandUndriven(ExprId e) const;

@@ -281,7 +281,8 @@ def restructure(kerf, run, work, defs, flags, tag, extra=()):
         kind = "refused" if r.returncode == 2 else "internal"
         run.problem(kind, f"{what}: kerf exit {r.returncode}: {r.stderr.strip()[-2000:]}")
         return None, what
-    summary = r.stderr.strip().splitlines()[-1] if r.stderr.strip() else ""
+    # The summary line (a "kept as written" line may follow it).
+    summary = next((l for l in reversed(r.stderr.strip().splitlines()) if ": gates " in l), "")
     run.notes.append(f"{what}: {summary}")
     # The case exists to have its logic restructured: kerf keeping every statement as written
     # is a refusal in disguise (README: kept code is left byte for byte).

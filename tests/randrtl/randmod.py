@@ -6,7 +6,8 @@ ports of random widths and signedness, parameters, internal signals, continuous 
 loops, whole/bit/part/variable-index writes, functions with loops, concatenation and
 replication, constant and variable selects and part-selects, reductions, comparisons, shifts
 by constants and by signals, word arithmetic that kerf must keep (+, -, *), division and
-modulo by constants, x defaults, and `always_ff` registers beside the logic.
+modulo by constants, x defaults, internal 2-D packed arrays and packed structs written and read
+by element or member, and `always_ff` registers beside the logic.
 
 The same (seed, index, features) always gives the same module text (Python's `random.Random`
 is seeded with both), so a failure found by a campaign is reproduced by its seed and index:
@@ -43,6 +44,8 @@ FEATURES = {
     "xcompare": "=== / !== / ==? against constants with x bits",
     "divconst": "division and modulo by constants",
     "oob": "variable selects and writes that can fall out of range",
+    "packed2d": "internal 2-D packed arrays written and read by element and by bit",
+    "struct": "internal packed structs written and read by member",
 }
 DEFAULT_OFF = {"param", "xcompare", "divconst", "oob"}
 # Each module draws its own subset of the enabled constructs, so that one construct that kerf
@@ -79,6 +82,13 @@ def parse_features(text):
 class Sig:
     def __init__(self, name, width, signed=False):
         self.name, self.width, self.signed = name, width, signed
+        self.dims = None      # (elements, element width) of a 2-D packed array
+        self.fields = None    # [(member, width)] of a packed struct, most significant first
+        self.type_name = None
+
+    @property
+    def composite(self):
+        return self.dims is not None or self.fields is not None
 
 
 def _decl_type(width, signed):
@@ -147,8 +157,29 @@ class ModuleGen:
         s = self.pick()
         return s.name, s.width
 
+    def composite_select(self, s):
+        """An element, member or bit of a 2-D packed array or packed struct, by its own name."""
+        if s.dims:
+            n, m = s.dims
+            i = self.rng.randrange(n)
+            r = self.rng.random()
+            if r < 0.4:
+                return f"{s.name}[{i}]", m
+            if r < 0.8 or m < 2:
+                return f"{s.name}[{i}][{self.rng.randrange(m)}]", 1
+            lo = self.rng.randrange(m - 1)
+            hi = self.rng.randrange(lo + 1, m)
+            return f"{s.name}[{i}][{hi}:{lo}]", hi - lo + 1
+        f, fw = self.rng.choice(s.fields)
+        if fw >= 2 and self.rng.random() < 0.4:
+            return f"{s.name}.{f}[{self.rng.randrange(fw)}]", 1
+        return f"{s.name}.{f}", fw
+
     def select(self):
-        s = self.pick(lambda s: s.width >= 2)
+        comp = self.pick(lambda s: s.composite)
+        if comp is not None and self.rng.random() < 0.4:
+            return self.composite_select(comp)
+        s = self.pick(lambda s: s.width >= 2 and not s.composite)
         if s is None:
             return self.leaf()
         r = self.rng.random()
@@ -196,7 +227,7 @@ class ModuleGen:
             self.use("narrowwrite")
         if bits == 0:
             return None, 0
-        s = self.pick(lambda s: s.width >= bits and not s.signed)
+        s = self.pick(lambda s: s.width >= bits and not s.signed and not s.composite)
         if s is None:
             return None, 0
         if s.width == bits:
@@ -381,6 +412,37 @@ class ModuleGen:
         return out
 
     # ---- module --------------------------------------------------------------------------
+    @staticmethod
+    def decl_of(s):
+        if s.dims:
+            return f"logic [{s.dims[0] - 1}:0][{s.dims[1] - 1}:0]"
+        if s.fields:
+            return s.type_name
+        return _decl_type(s.width, False)
+
+    def composite_block(self, sig):
+        """An always_comb block that writes all of `sig`, then some elements or members again."""
+        out = ["  always_comb begin"]
+        e, _ = self.expr(1)
+        out.append(f"    {sig.name} = {e if self.rng.random() < 0.6 else chr(39) + '0'};")
+        for _ in range(self.rng.randint(1, 3)):
+            if sig.dims:
+                n, m = sig.dims
+                i = self.rng.randrange(n)
+                lhs = f"{sig.name}[{i}]" if self.rng.random() < 0.5 else f"{sig.name}[{i}][{self.rng.randrange(m)}]"
+            else:
+                f, fw = self.rng.choice(sig.fields)
+                lhs = f"{sig.name}.{f}" if fw < 2 or self.rng.random() < 0.6 else \
+                    f"{sig.name}.{f}[{self.rng.randrange(fw)}]"
+            e, _ = self.expr(2)
+            if self.rng.random() < 0.5:
+                out.append(f"    if ({self.cond(1)}) {lhs} = {e};")
+            else:
+                out.append(f"    {lhs} = {e};")
+        out.append("  end")
+        self.readable.append(sig)
+        return out
+
     def function(self):
         fw = self.rng.randint(2, 8)
         name = self.fresh("f_mix")
@@ -423,8 +485,26 @@ class ModuleGen:
             self.readable += regs
         if self.on("function", 0.35):
             self.lines += self.function()
+        composite_blocks, composites, typedefs = [], [], []
+        if self.on("packed2d", 0.6):
+            self.use("packed2d")
+            n, m = rng.choice([2, 3, 4]), rng.choice([2, 3, 4])
+            sig = Sig(self.fresh("m"), n * m)
+            sig.dims = (n, m)
+            composite_blocks += self.composite_block(sig)
+            composites.append(sig)
+        if self.on("struct", 0.6):
+            self.use("struct")
+            widths = [rng.choice([1, 2, 3, 4]) for _ in range(rng.randint(2, 4))]
+            sig = Sig(self.fresh("st"), sum(widths))
+            sig.fields = [(f"f{i}", w) for i, w in enumerate(widths)]
+            sig.type_name = sig.name + "_t"
+            members = " ".join(f"{_decl_type(w, False)} {f};" for f, w in sig.fields)
+            typedefs.append(f"  typedef struct packed {{ {members} }} {sig.type_name};")
+            composite_blocks += self.composite_block(sig)
+            composites.append(sig)
         n_out = rng.randint(1, 4)
-        body = []
+        body = list(composite_blocks)
         produced = []
         for k in range(rng.randint(2, 6)):
             is_out = k >= 0 and len([p for p in produced if p[1]]) < n_out and (rng.random() < 0.5)
@@ -469,7 +549,7 @@ class ModuleGen:
             ports_out.append(Sig(f"qo{j}", r.width))
             body.append(f"  assign qo{j} = {r.name};")
         outs = [s for s, o in produced if o] + ports_out
-        internals = [s for s, o in produced if not o] + regs
+        internals = [s for s, o in produced if not o] + regs + composites
         # ---- text
         head = []
         if self.params:
@@ -486,7 +566,8 @@ class ModuleGen:
         head.append(",\n".join(plines))
         head.append(");")
         decls = [f"  localparam int {n} = {v};" for n, v in self.localparams]
-        decls += [f"  {_decl_type(s.width, False)} {s.name};" for s in internals]
+        decls += typedefs
+        decls += [f"  {self.decl_of(s)} {s.name};" for s in internals]
         text = "\n".join(head + decls + self.lines + body + ff + ["endmodule", ""])
         ports = []
         if clock:
