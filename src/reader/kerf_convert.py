@@ -81,6 +81,11 @@ _BINARY = {
     ast.BinaryOperator.ArithmeticShiftRight: ">>>",
     ast.BinaryOperator.Power: "**",
 }
+# The operator tables keyed by the identity of slang's enum members (singletons): a
+# Python enum hashes by name in Python code, which is on the reader's hottest path.
+_UNARY_BY_ID = {id(k): v for k, v in _UNARY.items()}
+_BINARY_BY_ID = {id(k): v for k, v in _BINARY.items()}
+_TOKEN = pyslang.parsing.Token
 CHECK = {
     ast.UniquePriorityCheck.None_: "none",
     ast.UniquePriorityCheck.Unique: "unique",
@@ -192,6 +197,7 @@ class Conv:
         self.ex = d.tables.exprs
         self.st = d.tables.stmts
         self.mark = (len(self.ex), len(self.st), d.tables.next_symbol)
+        self._tinfo = d.tables.types._info   # slang type -> Types.info tuple (hot path)
         self.buf = None           # slang buffer of the member's file (node ranges are offsets in it)
         self.macros = True        # the member may use macros (set False when its text has none)
         self.reads = set()
@@ -226,10 +232,10 @@ class Conv:
 
     def span(self, x):
         """(start, end) byte offsets of slang node `x` in the member's file, or (-1, -1)."""
-        r = x.range if isinstance(x, pyslang.parsing.Token) else x.sourceRange
-        s = r.start
         if self.buf is None:
             return -1, -1
+        r = x.range if isinstance(x, _TOKEN) else x.sourceRange
+        s = r.start
         # A member without macro uses has all its text in its own file; otherwise
         # ask slang where each node comes from.
         if self.macros and s.buffer != self.buf:
@@ -276,7 +282,7 @@ class Conv:
     def type_of(self, e):
         """Type index of slang expression `e`; a value that is not integral is unsupported."""
         t = e.type
-        info = self.types.info(t)
+        info = self._tinfo.get(t) or self.types.info(t)
         if not info[3]:
             raise Unsupported("uses a value of type '%s'" % t)
         return info[0]
@@ -392,7 +398,7 @@ class Conv:
         return self.expr(self.lvref)
 
     def x_unary(self, e):
-        op = _UNARY.get(e.op)
+        op = _UNARY_BY_ID.get(id(e.op))
         if op is None:
             raise Unsupported("uses an increment or decrement inside an expression")
         ti = self.type_of(e)
@@ -405,13 +411,17 @@ class Conv:
             key = ("u", ti, op, a)
             got = self.shared.get(key)
             if got is None:
-                got = self.leaf(key, ["unary", ti] + list(self.span(e)) + [op, a])
+                s, t = self.span(e)
+                got = self.leaf(key, ["unary", ti, s, t, op, a])
             return got
-        return self.add(["unary", ti] + list(self.span(e)) + [op, a])
+        s, t = self.span(e)
+        return self.add(["unary", ti, s, t, op, a])
 
     def x_binary(self, e):
         ti = self.type_of(e)
-        op = _BINARY[e.op]
+        op = _BINARY_BY_ID.get(id(e.op))
+        if op is None:
+            op = _BINARY[e.op]     # a KeyError (a reader bug) as before
         if op in _EQUALITY:
             self.d.note_compare(e.left, e.right)
         l = self.expr(e.left)
@@ -420,7 +430,8 @@ class Conv:
             c = self.fold(e)
             if c is not None:
                 return c
-        return self.add(["binary", ti] + list(self.span(e)) + [op, l, r])
+        s, t = self.span(e)
+        return self.add(["binary", ti, s, t, op, l, r])
 
     def x_cond(self, e):
         conds = e.conditions
@@ -535,15 +546,15 @@ class Conv:
 
     def x_element(self, e, lvalue=False):
         v = e.value
-        vinfo = self.types.info(v.type)
+        vt = v.type
+        vinfo = self._tinfo.get(vt) or self.types.info(vt)
         if not vinfo[3]:
             return self.unpacked_select(e, lvalue)
         ti = self.type_of(e)
         sel = e.selector
         if not lvalue and v.kind is EK.NamedValue and sel.kind is EK.IntegerLiteral \
-                and v.symbol not in self.loop_syms:
+                and (sym := v.symbol) not in self.loop_syms:
             # `a[3]`: shared within the member, found before any node is built
-            sym = v.symbol
             key = ("e", sym, sel.value.toString(_DEC, False), ti)
             got = self.shared.get(key)
             if got is not None:
@@ -554,7 +565,8 @@ class Conv:
                 if c is not None:
                     return c
             idx = self.expr(sel)
-            return self.leaf(key, ["index", ti] + list(self.span(e)) + [val, idx, vinfo[4], vinfo[5]])
+            s, t = self.span(e)
+            return self.leaf(key, ["index", ti, s, t, val, idx, vinfo[4], vinfo[5]])
         val = self.lvalue(v) if lvalue else self.expr(v)
         idx = self.expr(sel)
         if not lvalue and self.is_const(val) and self.is_const(idx):
@@ -568,7 +580,8 @@ class Conv:
 
     def x_range(self, e, lvalue=False):
         v = e.value
-        vinfo = self.types.info(v.type)
+        vt = v.type
+        vinfo = self._tinfo.get(vt) or self.types.info(vt)
         if not vinfo[3]:
             return self.unpacked_select(e, lvalue)
         ti = self.type_of(e)

@@ -175,6 +175,7 @@ class Describer:
         self._const_ix = {}      # parameter symbol -> index in self.constants, or None
         self._compared = set()
         self._param_names = None # names of the module's and the packages' parameters
+        self._is_param = {}      # symbol a NamedValue refers to -> whether it is a parameter
 
     # -- named constants -------------------------------------------------------------
     # A localparam or package constant the source compares a signal with (`cmd == CMD_RD`,
@@ -228,10 +229,17 @@ class Describer:
     def constants_named(self, sym):
         """Counter of the named-constant symbols `sym`'s text refers to."""
         out = Counter()
+        is_param = self._is_param
+        param = SK.Parameter
 
         def named_value(n):
+            # Symbols are looked up by identity (slang hands out one object per symbol while
+            # it is alive; the table keeps it so): cheaper than the kind of each use.
             s = n.symbol
-            if s.kind == SK.Parameter:
+            p = is_param.get(s)
+            if p is None:
+                p = is_param[s] = s.kind is param
+            if p:
                 out[s] += 1
         # Only NamedValue expressions cross into Python (slang checks the kind natively).
         sym.visit(lookup_table={EK.NamedValue: named_value})
@@ -254,7 +262,6 @@ class Describer:
     def finish_constants(self, members, named_by_src):
         """Each member's list of named constants; a constant named outside the members (a
         declaration, another constant) is marked `elsewhere`."""
-        total = self.constants_named(self.body)
         in_members = Counter()
         for key, c in named_by_src.items():
             in_members.update(c)
@@ -266,6 +273,10 @@ class Describer:
                 continue
             for sym in named_by_src.get(key(m), ()):
                 self.constant_index(sym)
+        # Uses of the module as a whole matter only for constants the members name: a
+        # design without any (most generated logic) need not visit every expression again.
+        total = self.constants_named(self.body) \
+            if any(i is not None for i in self._const_ix.values()) else {}
         for sym, n in total.items():
             i = self._const_ix.get(sym)
             if i is not None and n > in_members[sym]:

@@ -459,29 +459,30 @@ class Keys:
         trivia = self.tokens.any_directives
         named = []           # (position, kind, value text) of the tokens names are made of
         chunk = []
-        count = [0]
+        count = 0
 
         def tok(n):
+            nonlocal count
             if n.isMissing:
                 return
-            i = count[0]
-            count[0] = i + 1
-            if i:
+            text = n.rawText
+            if count:
                 if trivia:
                     for tv in n.trivia:
                         if tv.kind == directive and tv.syntax() is not None:
                             chunk.append("#" + " ".join(t.rawText for t in node_tokens(tv.syntax())))
-                chunk.append(n.rawText)
+                chunk.append(text)
                 if len(chunk) > 4096:
                     h.update((" " + " ".join(chunk)).encode(enc, "surrogateescape"))
                     chunk.clear()
             else:
-                h.update(n.rawText.encode(enc, "surrogateescape"))
+                h.update(text.encode(enc, "surrogateescape"))
+            count += 1
 
         def name_tok(n):
             if n.isMissing:
                 return
-            named.append((count[0], n.kind, n.valueText))
+            named.append((count, n.kind, n.valueText))
             tok(n)
 
         # Only tokens cross into Python: slang looks their kind up in the table natively.
@@ -494,7 +495,7 @@ class Keys:
         else:
             for t in node_tokens(node):
                 table[t.kind](t)
-        if not count[0]:
+        if not count:
             return None
         if chunk:
             h.update((" " + " ".join(chunk)).encode(enc, "surrogateescape"))
