@@ -4,7 +4,8 @@
 Generates two invented shapes of flat logic at 1k, 10k, 100k and 1M product
 terms and runs `kerf restructure` on each, printing wall time and peak memory
 per stage (from the `stages` of kerf's --report: the reader process, the C++
-read of its description, lowering, restructuring, writing, proving) beside
+read of its description, lowering, factoring the original, restructuring,
+writing, the reader's run on the rewrite, proving) beside
 pyslang's own parse-and-elaborate time and memory on the same file.
 
   decoder  a ROM-style instruction decoder: `unique case (op)` over a 32-bit
