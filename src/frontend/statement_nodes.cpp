@@ -102,6 +102,15 @@ std::size_t collapseExpressionNodes(net::Network& net, std::size_t maxCubes) {
             for (Literal l : c.lits) ++uses[literalVar(l)], reader[literalVar(l)] = u;
     }
     const std::vector<std::uint32_t> outRefs = net.outputRefs();
+    // coverGates of each node's cover, once known: a chain `t1 | t2 | ... | tN` merges into
+    // one growing node, whose gates the next step would otherwise factor again (quadratic
+    // in N; on a generated 390-product sum this was most of the lowering's time).
+    constexpr std::size_t kUnknown = static_cast<std::size_t>(-1);
+    std::vector<std::size_t> gatesOf(n, kUnknown);
+    auto gates = [&](net::NodeId u) {
+        if (gatesOf[u] == kUnknown) gatesOf[u] = coverGates(net.node(u).cover);
+        return gatesOf[u];
+    };
     std::size_t merged = 0;
     Cover sub, part, rebuilt;
     // Fanins first: a node carries its own substituted fanins into its reader.
@@ -136,11 +145,13 @@ std::size_t collapseExpressionNodes(net::Network& net, std::size_t maxCubes) {
         // Only where one node is no larger than the two: written text the engine printed from
         // one node always is (its form multiplied out factors back at least as small), while an
         // author's nesting can be smaller than any factoring of its product.
-        if (coverGates(rebuilt) > coverGates(pc) + coverGates(vc)) continue;
+        const std::size_t rebuiltGates = coverGates(rebuilt);
+        if (rebuiltGates > gates(p) + gates(v)) continue;
         // v's fanins are now read by p.
         for (const Cube& c : vc.cubes)
             for (Literal x : c.lits) reader[literalVar(x)] = p;
         pc = rebuilt;
+        gatesOf[p] = rebuiltGates;
         uses[v] = 0;
         ++merged;
     }
