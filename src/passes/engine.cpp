@@ -116,6 +116,9 @@ const std::vector<LimitInfo>& limitTable() {
         field("kernels", "1: also extract common kernels (slower)", &EngineLimits::kernels),
         field("implied-dont-cares", "1: minimise nodes against implied don't-cares", &EngineLimits::impliedDontCares),
         field("factor-max-cubes", "covers with more cubes are written unfactored", &EngineLimits::factorMaxCubes, 1),
+        field("guard-factored-cubes",
+              "the depth bound times covers up to this many cubes by their factored forms (larger: sums of products)",
+              &EngineLimits::guardFactorCubes),
         field("region-literals",
               "networks of more than twice this many literals are restructured region by region (0: whole)",
               &EngineLimits::regionLiterals),
@@ -151,6 +154,8 @@ const std::vector<LimitInfo>& limitTable() {
         sub("cubes-candidates", "candidate cubes valued per round", &EngineLimits::cubes,
             &ShareCubesOptions::maxCandidates, 1),
         sub("cubes-work", "cubes looked at per move", &EngineLimits::cubes, &ShareCubesOptions::workBudget, 1),
+        sub("cubes-in-place", "networks of at least this many cubes get cube extraction in place, by index (0: never)",
+            &EngineLimits::cubes, &ShareCubesOptions::inPlaceCubes),
         sub("divisors-pair-max-cubes", "nodes with more cubes give no two-cube divisors", &EngineLimits::divisors,
             &ShareDivisorsOptions::maxCubesForPairs),
         sub("divisors-literal-pair-max-cube", "cubes with more literals give no two-literal divisors",
@@ -440,6 +445,8 @@ private:
         PassContext ctx;
         ctx.depthCap = passCap_;
         ctx.verbose = opts_.verbose;
+        ctx.factors = &cache_;
+        ctx.factorTimingCubes = opts_.limits.guardFactorCubes;
         s.run(*trial, ctx);
         // A technique that kept no edit left the (tidy) network as it was:
         // its gain is 0 without tidying and measuring it again.
@@ -571,6 +578,9 @@ EngineLimits limitsFor(Effort e) {
         l.minGainPermille = 5;
         l.impliedDontCares = false;
         l.regionLiterals = 20000;
+        // The whole-network extractions (opening, or before the regions)
+        // look at no more than this many cubes each: linear in the network.
+        l.cubes.workBudget = 20000000;
         break;
     case Effort::Default:
         break;

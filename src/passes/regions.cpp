@@ -135,9 +135,15 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
         net::Network trial = net;
         PassContext ctx;
         ctx.depthCap = passCap;
+        ctx.factors = &cache;
+        ctx.factorTimingCubes = opts.limits.guardFactorCubes;
         run(trial, ctx);
         tidy(trial, ctx);
         const net::Metrics m = measureFactored(trial, bound, &cache);
+        for (const auto& [k, v] : ctx.stats.items())
+            if (v > 0 && k.rfind("limit-hit:", 0) == 0 &&
+                std::find(res.limitsHit.begin(), res.limitsHit.end(), k.substr(10)) == res.limitsHit.end())
+                res.limitsHit.push_back(k.substr(10));
         TechniqueRow row;
         row.technique = std::string("whole network: ") + name;
         row.trials = 1;

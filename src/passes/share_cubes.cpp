@@ -67,9 +67,322 @@ std::vector<std::uint32_t> indexedCubes(const Cube& I, std::unordered_map<Litera
     return acc;
 }
 
+
+// ---- in place, through a cube-literal index (large networks) -------------------
+//
+// On a network of a few hundred covers of hundreds of cubes each (a large
+// decoder), rewriting each target's whole cover per extraction and valuing
+// candidates by scanning covers made one move cost the extractions times the
+// cover width (F44). Here every cube of the network sits once in a table
+// with an index from literal to the cubes holding it; a candidate keeps the
+// cubes that held it when indexed (cubes only lose literals, so no other
+// old cube can come to hold it), is valued by checking those, and an
+// extraction edits exactly those cubes in place. Covers are written back
+// once, at the end. The depth bound is kept per target node on the sums of
+// products: a node may get later only up to the bound and only when no
+// other node reads it (its readers' times are not re-propagated), which is
+// stricter than the workspace's check, never looser.
+class CubeTable {
+public:
+    struct Rec {
+        net::NodeId node;
+        std::vector<Literal> lits;   // sorted
+        std::uint32_t arrival;       // as last timed (an upper bound once fanins got earlier)
+        bool live;
+    };
+
+    CubeTable(net::Network& net, std::size_t cap) : net_(net), cap_(cap) {
+        at_ = net::arrivalTimes(net);
+        grow();
+        for (net::NodeId v : net.topoOrder()) {
+            for (const Cube& c : net.node(v).cover.cubes) {
+                for (Literal l : c.lits) read_[literalVar(l)] = 1;
+                addCube(v, c.lits);
+            }
+            nodes_.push_back(v);
+        }
+        reindex();
+    }
+
+    std::vector<Rec>& cubes() { return cubes_; }
+    const std::vector<std::uint32_t>& holding(Literal l) const {
+        static const std::vector<std::uint32_t> none;
+        return l < occ_.size() ? occ_[l] : none;
+    }
+    std::size_t cubeCount(net::NodeId v) const { return byNode_[v].size(); }
+
+    /// Rebuild the index from the live cubes (drops cubes that lost a literal).
+    void reindex() {
+        for (auto& o : occ_) o.clear();
+        for (std::uint32_t id = 0; id < cubes_.size(); ++id) {
+            const Rec& r = cubes_[id];
+            if (!r.live || r.lits.size() < 2) continue;
+            for (Literal l : r.lits) occ_[l].push_back(id);
+        }
+    }
+
+    /// Extract I from the holder cubes still holding it (provider: a node
+    /// whose only cube is I, or 0). Returns the literal saving (0: nothing done).
+    long extract(const Cube& I, const std::vector<std::uint32_t>& holders, net::NodeId provider, long& rejects) {
+        const std::size_t w = I.lits.size() - 1;
+        std::size_t ax = 0;
+        if (provider) ax = at_[provider];
+        else for (Literal l : I.lits) tmp_.push_back(at_[literalVar(l)]), void();
+        if (!provider) {
+            ax = detail::balancedArrival(tmp_.data(), tmp_.size());
+            tmp_.clear();
+        }
+        // Holder cubes by node (holders are sorted by id, not by node).
+        plan_.clear();
+        for (std::uint32_t id : holders) {
+            const Rec& r = cubes_[id];
+            if (!r.live || r.node == provider || !std::includes(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end()))
+                continue;
+            plan_.push_back({r.node, id});
+        }
+        std::sort(plan_.begin(), plan_.end());
+        long gain = provider ? 0 : -static_cast<long>(w);
+        accepted_.clear();
+        for (std::size_t i = 0; i < plan_.size();) {
+            const net::NodeId v = plan_[i].first;
+            std::size_t j = i;
+            while (j < plan_.size() && plan_[j].first == v) ++j;
+            // The node's time with its holder cubes re-timed.
+            std::vector<std::uint32_t> h = hist_[v];
+            for (std::size_t k = i; k < j; ++k) {
+                const Rec& r = cubes_[plan_[k].second];
+                --h[r.arrival];
+                const std::size_t t = arrivalWithout(r.lits, I, ax);
+                if (t >= h.size()) h.resize(t + 1, 0);
+                ++h[t];
+            }
+            const std::size_t a = detail::balancedArrival(h);
+            if (a <= at_[v] || (a <= cap_ && !read_[v])) {
+                for (std::size_t k = i; k < j; ++k) accepted_.push_back(plan_[k].second);
+                gain += static_cast<long>((j - i) * w);
+            } else {
+                ++rejects;
+            }
+            i = j;
+        }
+        if (accepted_.empty() || gain <= 0) return 0;
+        net::NodeId x = provider;
+        if (!x) {
+            x = net_.addLogic(Cover{}, {});
+            grow();
+            at_[x] = ax;
+            addCube(x, I.lits);
+            nodes_.push_back(x);
+            touched_[x] = 1;
+            const std::uint32_t id = static_cast<std::uint32_t>(cubes_.size() - 1);
+            for (Literal l : I.lits) occ_[l].push_back(id);   // ids grow: lists stay sorted
+        }
+        read_[x] = 1;
+        const Literal xl = algebra::makeLiteral(x, false);
+        std::sort(accepted_.begin(), accepted_.end());
+        for (std::uint32_t id : accepted_) {
+            Rec& r = cubes_[id];
+            --hist_[r.node][r.arrival];
+            std::vector<Literal> rest;
+            rest.reserve(r.lits.size() - w);
+            std::set_difference(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end(), std::back_inserter(rest));
+            rest.insert(std::upper_bound(rest.begin(), rest.end(), xl), xl);
+            r.lits = std::move(rest);
+            r.arrival = static_cast<std::uint32_t>(cubeTime(r.lits));
+            bump(r.node, r.arrival);
+            if (r.lits.size() >= 2) occ_[xl].push_back(id);   // stale entries of I's literals are filtered on use
+            touched_[r.node] = 1;
+        }
+        for (std::size_t i = 0; i < accepted_.size(); ++i) {
+            const net::NodeId v = cubes_[accepted_[i]].node;
+            at_[v] = detail::balancedArrival(hist_[v]);
+        }
+        return gain;
+    }
+
+    /// Write the edited covers back into the network.
+    void writeBack() {
+        for (net::NodeId v : nodes_) {
+            if (!touched_[v]) continue;
+            Cover f;
+            for (std::uint32_t id : byNode_[v])
+                if (cubes_[id].live) f.cubes.push_back(Cube(cubes_[id].lits));
+            f.normalize();
+            net_.node(v).cover = std::move(f);
+        }
+    }
+
+private:
+    void grow() {
+        const std::size_t n = net_.nodeCount();
+        at_.resize(n, 0);
+        read_.resize(n, 0);
+        hist_.resize(n);
+        byNode_.resize(n);
+        touched_.resize(n, 0);
+        occ_.resize(2 * n);
+    }
+    std::size_t cubeTime(const std::vector<Literal>& lits) {
+        if (lits.size() == 1) return at_[literalVar(lits[0])];
+        tmp_.clear();
+        for (Literal l : lits) tmp_.push_back(at_[literalVar(l)]);
+        const std::size_t t = detail::balancedArrival(tmp_.data(), tmp_.size());
+        tmp_.clear();
+        return t;
+    }
+    // Time of cube `lits` with I's literals replaced by one arriving at ax.
+    std::size_t arrivalWithout(const std::vector<Literal>& lits, const Cube& I, std::size_t ax) {
+        tmp_.clear();
+        tmp_.push_back(ax);
+        for (Literal l : lits)
+            if (!std::binary_search(I.lits.begin(), I.lits.end(), l)) tmp_.push_back(at_[literalVar(l)]);
+        const std::size_t t = tmp_.size() == 1 ? tmp_[0] : detail::balancedArrival(tmp_.data(), tmp_.size());
+        tmp_.clear();
+        return t;
+    }
+    void bump(net::NodeId v, std::size_t t) {
+        auto& h = hist_[v];
+        if (t >= h.size()) h.resize(t + 1, 0);
+        ++h[t];
+    }
+    void addCube(net::NodeId v, const std::vector<Literal>& lits) {
+        Rec r{v, lits, 0, true};
+        r.arrival = static_cast<std::uint32_t>(cubeTime(r.lits));
+        bump(v, r.arrival);
+        byNode_[v].push_back(static_cast<std::uint32_t>(cubes_.size()));
+        cubes_.push_back(std::move(r));
+    }
+
+    net::Network& net_;
+    std::size_t cap_;
+    std::vector<Rec> cubes_;
+    std::vector<std::vector<std::uint32_t>> occ_, byNode_, hist_;
+    std::vector<std::size_t> at_, tmp_;
+    std::vector<std::uint8_t> read_, touched_;   // read_: some node reads it (outputs need no re-timing)
+    std::vector<net::NodeId> nodes_;
+    std::vector<std::pair<net::NodeId, std::uint32_t>> plan_;
+    std::vector<std::uint32_t> accepted_;
+};
+
+void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
+    CubeTable table(net, ctx.depthCap);
+    auto& cubes = table.cubes();
+    long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, rejects = 0;
+    bool exhausted = false, cut = false;
+    for (int round = 0; round < opts.rounds; ++round) {
+        if (round > 0) table.reindex();
+        // Candidate cubes: intersections of cube pairs sharing >= minLiterals literals.
+        std::unordered_map<std::string, std::pair<Cube, long>> cand;
+        std::unordered_map<std::uint32_t, std::uint32_t> shared;
+        for (std::uint32_t i = 0; i < cubes.size(); ++i) {
+            const auto& c = cubes[i];
+            if (!c.live || c.lits.size() < opts.minLiterals) continue;
+            shared.clear();
+            std::size_t scanned = 0;
+            for (Literal l : c.lits) {
+                const auto& o = table.holding(l);
+                for (auto it = std::upper_bound(o.begin(), o.end(), i); it != o.end(); ++it) {
+                    ++shared[*it];
+                    if (++scanned > 4 * opts.partnersPerCube) break;
+                }
+            }
+            work += static_cast<long>(scanned);
+            std::size_t partners = 0;
+            for (auto [j, n] : shared) {
+                if (n < opts.minLiterals) continue;
+                if (++partners > opts.partnersPerCube) break;
+                const auto& d = cubes[j].lits;
+                std::vector<Literal> common;
+                std::set_intersection(c.lits.begin(), c.lits.end(), d.begin(), d.end(), std::back_inserter(common));
+                Cube I(std::move(common));
+                auto [it, fresh] = cand.try_emplace(detail::coverKey(Cover{{I}}), I, 0);
+                ++it->second.second;
+            }
+        }
+        candidates += static_cast<long>(cand.size());
+        std::vector<std::pair<long, Cube>> ranked;
+        ranked.reserve(cand.size());
+        for (auto& [key, e] : cand)
+            ranked.push_back({e.second * static_cast<long>(e.first.lits.size() - 1), std::move(e.first)});
+        cand.clear();
+        if (ranked.size() > opts.maxCandidates) {
+            std::nth_element(ranked.begin(), ranked.begin() + static_cast<std::ptrdiff_t>(opts.maxCandidates),
+                             ranked.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
+            ranked.resize(opts.maxCandidates);
+            cut = true;
+        }
+        // Each candidate keeps the cubes holding it now (index intersection).
+        using Item = std::pair<long, std::size_t>;
+        std::vector<Cube> list;
+        std::vector<std::vector<std::uint32_t>> holders;
+        std::priority_queue<Item> heap;
+        for (auto& [hits, I] : ranked) {
+            std::vector<std::uint32_t> acc = table.holding(I.lits[0]);
+            for (std::size_t k = 1; k < I.lits.size() && !acc.empty(); ++k) {
+                const auto& o = table.holding(I.lits[k]);
+                std::vector<std::uint32_t> next;
+                std::set_intersection(acc.begin(), acc.end(), o.begin(), o.end(), std::back_inserter(next));
+                acc.swap(next);
+            }
+            work += static_cast<long>(acc.size());
+            heap.push({static_cast<long>(acc.size()) * static_cast<long>(I.lits.size() - 1) + 1, list.size()});
+            list.push_back(std::move(I));
+            holders.push_back(std::move(acc));
+        }
+        long roundSaved = 0;
+        std::vector<std::uint8_t> requeued(list.size(), 0);
+        while (!heap.empty()) {
+            auto [v, i] = heap.top();
+            heap.pop();
+            if (work > opts.workBudget) { exhausted = true; break; }
+            // Value from the index: holder cubes still holding I, and a provider.
+            const Cube& I = list[i];
+            long count = 0;
+            net::NodeId prov = 0;
+            for (std::uint32_t id : holders[i]) {
+                const auto& r = cubes[id];
+                ++work;
+                if (!r.live || !std::includes(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end())) continue;
+                if (r.lits.size() == I.lits.size() && table.cubeCount(r.node) == 1) { prov = r.node; continue; }
+                ++count;
+            }
+            const long w = static_cast<long>(I.lits.size()) - 1;
+            const long now = count * w - (prov ? 0 : w);
+            if (now <= 0) continue;
+            if (!heap.empty() && now < heap.top().first / 2 && !requeued[i]) {
+                requeued[i] = 1;
+                heap.push({now, i});
+                continue;
+            }
+            const long gain = table.extract(I, holders[i], prov, rejects);
+            if (gain <= 0) continue;
+            (prov ? reused : extracted) += 1;
+            saved += gain;
+            roundSaved += gain;
+        }
+        if (roundSaved == 0 || exhausted) break;
+    }
+    table.writeBack();
+    ctx.edits += static_cast<std::size_t>(extracted + reused);
+    ctx.stats.add("extracted", extracted);
+    ctx.stats.add("reused-nodes", reused);
+    ctx.stats.add("literals-saved", saved);
+    ctx.stats.add("candidates", candidates);
+    ctx.stats.add("in-place", 1);
+    if (exhausted) ctx.stats.add("limit-hit:cubes-work", 1);
+    if (cut) ctx.stats.add("limit-hit:cubes-candidates", 1);
+    ctx.stats.add("depth-rejects", rejects);
+}
+
 } // namespace
 
 void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
+    if (opts.inPlaceCubes > 0) {
+        std::size_t total = 0;
+        for (net::NodeId v = 0; v < net.nodeCount(); ++v)
+            if (net.isLogic(v)) total += net.node(v).cover.cubes.size();
+        if (total >= opts.inPlaceCubes) return shareCubesInPlace(net, opts, ctx);
+    }
     detail::Workspace ws(net, ctx);
     long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0;
     bool exhausted = false;

@@ -279,6 +279,8 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("not-applied", failed);
     ctx.stats.add("candidates", static_cast<long long>(table.size()));
+    if (!heap.empty() && static_cast<std::size_t>(extracted + reused) >= opts.maxExtractions)
+        ctx.stats.add("limit-hit:divisors-max-extractions", 1);
 }
 
 // ---- kernels ---------------------------------------------------------------

@@ -5,6 +5,8 @@
 // built by arrival time).
 #include "workspace.h"
 
+#include "kerf/passes/factored.h"
+
 #include <algorithm>
 #include <cstring>
 #include <deque>
@@ -166,7 +168,34 @@ std::size_t cubeArrival(const Cube& c, const std::vector<std::size_t>& at) {
     return cubeArrivalBy(c, [&](NodeId v) { return v < at.size() ? at[v] : std::size_t{0}; });
 }
 
-Workspace::Workspace(net::Network& net, PassContext& ctx) : Workspace(net, ctx.depthCap) { ctx_ = &ctx; }
+Workspace::Workspace(net::Network& net, PassContext& ctx) : Workspace(net, ctx.depthCap) {
+    ctx_ = &ctx;
+    if (!ctx.factors || ctx.factorTimingCubes < 2 || cap_ == kNoDepthCap) return;
+    // While every node's sum of products is within the bound, the old rule
+    // keeps it so, and a factored time (never later) cannot pass the bound
+    // either: factored times are needed only when some node is above it.
+    bool above = false;
+    for (NodeId v = 0; v < net_.nodeCount() && !above; ++v) above = net_.isLogic(v) && at_[v] > cap_;
+    if (!above) return;
+    factors_ = ctx.factors;
+    factorCubes_ = ctx.factorTimingCubes;
+    fat_ = at_;
+    preFat_.assign(fat_.size(), 0);
+    fatMark_.assign(fat_.size(), 0);
+    for (NodeId v : net_.topoOrder()) fat_[v] = factoredTime(v, at_[v]);
+}
+
+std::size_t Workspace::factoredTime(NodeId v, std::size_t sop) {
+    const Cover& c = net_.node(v).cover;
+    if (c.cubes.size() > factorCubes_) return sop;   // an upper bound: fanins' factored times are no later
+    if (c.cubes.size() == 1) return cubeArrival(c.cubes[0], fat_);
+    if (c.cubes.empty()) return 0;
+    fatTimes_.clear();
+    for (const Cube& q : c.cubes) fatTimes_.push_back(cubeArrival(q, fat_));
+    std::size_t a = balancedArrival(fatTimes_.data(), fatTimes_.size());
+    a = std::min(a, formCost(factors_->quick(c), fat_).arrival);
+    return std::min(a, formCost(factors_->best(c), fat_).arrival);
+}
 
 Workspace::~Workspace() {
     if (ctx_) ctx_->edits += kept_;
@@ -206,6 +235,11 @@ void Workspace::ensureSize() {
         for (auto* m : {&processed_, &changed_, &needFull_, &createdMark_, &firstCoverMark_}) m->resize(n, 0);
         preAt_.resize(n, 0);
         firstCover_.resize(n, 0);
+        if (factors_) {
+            fat_.resize(n, 0);
+            preFat_.resize(n, 0);
+            fatMark_.resize(n, 0);
+        }
     }
 }
 
@@ -243,6 +277,7 @@ void Workspace::reindex(NodeId v, const Cover& before, const Cover& after) {
 
 void Workspace::begin() {
     covers_.clear();
+    fatChanges_.clear();
     created_.clear();
     arrivals_.clear();
     outputs_.clear();
@@ -355,7 +390,7 @@ bool Workspace::commit() {
     }
     for (NodeId v : touched_)
         if (!queued_[v]) { queued_[v] = 1; work.push_back(v); }
-    std::vector<NodeId> grown;
+    std::vector<NodeId> grown, fatGrown;
     while (!work.empty()) {
         NodeId v = work.front();
         work.pop_front();
@@ -365,7 +400,27 @@ bool Workspace::commit() {
         const bool full = needFull_[v] == stamp_ || createdMark_[v] == stamp_ || !edited;
         processed_[v] = stamp_;
         std::size_t a = retime(v, full ? nullptr : &covers_[firstCover_[v]].old, full);
-        if (a == at_[v]) continue;
+        bool fatChanged = false;
+        if (factors_) {
+            // The factored time: its own journal and its own check below.
+            const std::size_t f = factoredTime(v, a);
+            if (f != fat_[v]) {
+                fatChanged = true;
+                if (fatMark_[v] != stamp_) { fatMark_[v] = stamp_; preFat_[v] = fat_[v]; }
+                if (f > fat_[v] && f > cap_) fatGrown.push_back(v);
+                fatChanges_.push_back({v, fat_[v]});
+                fat_[v] = f;
+            }
+        }
+        if (a == at_[v]) {
+            if (fatChanged)   // larger covers' factored times are their sums of products'
+                for (NodeId g : fanouts_[v])
+                    if (!queued_[g] && net_.node(g).cover.cubes.size() <= factorCubes_) {
+                        queued_[g] = 1;
+                        work.push_back(g);
+                    }
+            continue;
+        }
         if (a > at_[v] && a > cap_) grown.push_back(v);
         if (changed_[v] != stamp_) { changed_[v] = stamp_; preAt_[v] = at_[v]; }
         arrivals_.push_back({v, at_[v]});
@@ -387,6 +442,13 @@ bool Workspace::commit() {
             if (fanouts_[v].empty() && outRefs_[v] == 0) continue;
             if (at_[v] > preAt_[v]) { ok = false; break; }
         }
+        // The same for the factored time (nodes of a few cubes; F60).
+        for (NodeId v : fatGrown) {
+            if (!ok) break;
+            if (fat_[v] <= cap_) continue;
+            if (fanouts_[v].empty() && outRefs_[v] == 0) continue;
+            if (fat_[v] > preFat_[v]) ok = false;
+        }
     }
     if (!ok) {
         ++rejects_;
@@ -400,6 +462,7 @@ bool Workspace::commit() {
 
 void Workspace::rollback() {
     for (auto it = arrivals_.rbegin(); it != arrivals_.rend(); ++it) at_[it->id] = it->old;
+    for (auto it = fatChanges_.rbegin(); it != fatChanges_.rend(); ++it) fat_[it->id] = it->old;
     for (auto it = hists_.rbegin(); it != hists_.rend(); ++it) {
         hist_[it->id] = std::move(it->old);
         histValid_[it->id] = it->wasValid ? 1 : 0;
@@ -423,6 +486,7 @@ void Workspace::rollback() {
     covers_.clear();
     created_.clear();
     arrivals_.clear();
+    fatChanges_.clear();
     outputs_.clear();
     touched_.clear();
     hists_.clear();

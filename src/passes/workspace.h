@@ -3,7 +3,14 @@
 // bound is undone locally (only that edit, not the whole pass).
 //
 // Usage: begin(); addNode/setCover/flipNode...; commit() → true when kept.
-// Arrival times follow net::sopCost (the sum-of-products depth); commit
+// Arrival times follow net::sopCost (the sum-of-products depth). With a
+// factor cache in the context, each node also has a factored time (the
+// earliest of its sum of products and its factored forms, for covers of a
+// few cubes: the forms the network is measured and written with), and an
+// edit is also rejected when it makes a factored time grow above the bound:
+// a sum of products can be deeper than its factored form, and a node
+// already above the bound in sum-of-products terms let through edits that
+// deepened the written network (F60). commit
 // propagates changed arrivals to the fanouts and rejects the edit when a
 // node's arrival grows above the bound.
 //
@@ -19,6 +26,10 @@
 #include <cstdint>
 #include <string>
 #include <vector>
+
+namespace kerf::passes {
+class FactorCache;
+}
 
 namespace kerf::passes::detail {
 
@@ -106,6 +117,10 @@ private:
     /// cubes that differ between `before` and its cover (before: null → full).
     std::size_t retime(NodeId v, const Cover* before, bool full);
     std::size_t arrivalBeforeCommit(NodeId u) const;
+    /// v's factored time: the earliest of its sum of products and its
+    /// factored forms over the fanins' factored times (covers of up to
+    /// factorCubes_ cubes; larger ones: `sop`, its sum-of-products time).
+    std::size_t factoredTime(NodeId v, std::size_t sop);
 
     struct CoverChange { NodeId id; Cover old; bool wasDead; };
     struct ArrivalChange { NodeId id; std::size_t old; };
@@ -127,6 +142,13 @@ private:
     std::size_t rejects_ = 0;
     std::size_t kept_ = 0;
     PassContext* ctx_ = nullptr;
+    // Factored times (with a factor cache only): per node, journal, and the
+    // time before this commit (preFat_, valid where fatMark_ == stamp_).
+    FactorCache* factors_ = nullptr;
+    std::size_t factorCubes_ = 0;
+    std::vector<std::size_t> fat_, preFat_, fatTimes_;
+    std::vector<std::uint32_t> fatMark_;
+    std::vector<ArrivalChange> fatChanges_;
     std::size_t cubesTimed_ = 0;
     // Incremental timing: per node, cubes per arrival time (valid when
     // histValid_), and per node the (variable, cubes reading it) pairs sorted by variable.

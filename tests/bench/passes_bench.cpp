@@ -15,11 +15,12 @@
 // compares outputs wherever the condition is 0).
 //
 // Usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR]
-//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares] [--min-terms N] [--max-terms N] [-v]
+//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction] [--min-terms N] [--max-terms N] [-v]
 #include "../unit/passes_support.h"
 
 #include "kerf/passes/engine.h"
 #include "kerf/passes/factored.h"
+#include "kerf/passes/share_cubes.h"
 #include "kerf/passes/tidy.h"
 
 #include <algorithm>
@@ -201,6 +202,40 @@ bool isolated(Work work, Figures& out, long& rssKiB) {
     return got == static_cast<ssize_t>(sizeof f) && WIFEXITED(status) && WEXITSTATUS(status) == 0;
 }
 
+// One whole-network cube extraction on a synthetic decoder (the engine's
+// opening move on it), by the workspace or in place through the
+// cube-literal index: its CPU time (in gLastCpu), literals and SOP depth
+// before/after (bound: the input's SOP depth), extractions in seconds.
+Figures cubeExtraction(std::size_t terms, bool inPlace) {
+    net::Network net = syntheticDecoder(terms, 64, 256, 7);
+    passes::tidy(net);
+    const net::Network input = net;
+    const net::Metrics before = net::measure(net);
+    passes::PassContext ctx;
+    ctx.depthCap = before.depth;
+    passes::ShareCubesOptions o = passes::limitsFor(passes::Effort::Default).cubes;
+    for (const auto& l : gLimits) {
+        passes::EngineLimits L = passes::limitsFor(passes::Effort::Default);
+        L.cubes = o;
+        passes::setLimit(L, l);
+        o = L.cubes;
+    }
+    o.inPlaceCubes = inPlace ? 1 : 0;
+    auto t0 = std::chrono::steady_clock::now();
+    passes::shareCubes(net, o, ctx);
+    Figures f;
+    f.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    const net::Metrics after = net::measure(net);
+    f.litsBefore = before.literals;
+    f.litsAfter = after.literals;
+    f.depthBefore = before.depth;
+    f.depthAfter = after.depth;
+    f.gatesBefore = static_cast<std::size_t>(ctx.stats.get("extracted") + ctx.stats.get("reused-nodes"));
+    f.kept = ctx.stats.get("limit-hit:cubes-work") > 0;
+    f.equivalent = sameFunctions(input, net, 8).empty();
+    return f;
+}
+
 } // namespace
 
 int main(int argc, char** argv) {
@@ -222,7 +257,7 @@ int main(int argc, char** argv) {
         else if (a == "-v") ++verbose;
         else {
             std::fprintf(stderr, "usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR] "
-                                 "[--only NAME|synthetic|dont-cares] [--skip-synthetic] [--min-terms N] [--max-terms N] [-v]\n");
+                                 "[--only NAME|synthetic|dont-cares|cube-extraction] [--skip-synthetic] [--min-terms N] [--max-terms N] [-v]\n");
             return 2;
         }
     }
@@ -294,6 +329,43 @@ int main(int argc, char** argv) {
             std::printf("%s\n", per.c_str());
             std::fflush(stdout);
         }
+    }
+    if (only == "cube-extraction") {
+        // F44: the engine's first move on the synthetic decoders, alone. The
+        // workspace path rewrites every target cover per extraction; in place
+        // edits cubes through the index. The workspace path at 100k terms
+        // took about 1000 s (F44): it runs there only with --max-terms 0.
+        std::printf("\n%-10s %-10s %9s %9s %6s %6s %11s %9s %9s %s\n", "terms", "path", "lits", "after", "depth",
+                    "after", "extractions", "seconds", "cpu", "notes");
+        for (std::size_t terms : {1000u, 10000u, 100000u}) {
+            if (minTerms && terms < minTerms) continue;
+            if (maxTerms && terms > maxTerms) continue;
+            for (bool inPlace : {false, true}) {
+                if (!inPlace && terms >= 100000 && maxTerms != 0 && maxTerms < 100000) continue;
+                if (!inPlace && terms >= 100000 && maxTerms == 0) {
+                    std::printf("%-10zu %-10s (not run: about 1000 s, F44; --max-terms 100000 runs it)\n", terms,
+                                "workspace");
+                    continue;
+                }
+                Figures f;
+                long rss = 0;
+                bool ok = isolated([&] { return cubeExtraction(terms, inPlace); }, f, rss);
+                if (!ok) {
+                    std::printf("%-10zu %-10s crashed\n", terms, inPlace ? "in place" : "workspace");
+                    ++failures;
+                    continue;
+                }
+                std::string notes = f.equivalent ? "" : " NOT-EQUIVALENT";
+                if (!f.equivalent) ++failures;
+                if (f.depthAfter > f.depthBefore) { notes += " DEEPER"; ++failures; }
+                if (f.kept) notes += " cubes-work cut it short";
+                std::printf("%-10zu %-10s %9zu %9zu %6zu %6zu %11zu %9.2f %9.2f%s\n", terms,
+                            inPlace ? "in place" : "workspace", f.litsBefore, f.litsAfter, f.depthBefore,
+                            f.depthAfter, f.gatesBefore, f.seconds, gLastCpu, notes.c_str());
+                std::fflush(stdout);
+            }
+        }
+        return failures ? 1 : 0;
     }
     if (only.empty() || only == "dont-cares") {
         // Declared x defaults: the same decoders restructured with x read as 0

@@ -23,6 +23,12 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     EXPECT_EQ(l.trials, 7);
     EXPECT_EQ(l.maxGrowth, 3);
     EXPECT_EQ(l.dontCares.windowNodes, 50u);
+    setLimit(l, "guard-factored-cubes=3");
+    setLimit(l, "cubes-in-place=7");
+    EXPECT_EQ(l.guardFactorCubes, 3u);
+    EXPECT_EQ(l.cubes.inPlaceCubes, 7u);
+    EXPECT_LT(limitsFor(Effort::Fast).cubes.workBudget, limitsFor(Effort::Default).cubes.workBudget)
+        << "fast bounds whole-network cube extraction (cubes-work)";
     try {
         setLimit(l, "collapse-all=1");
         FAIL() << "expected an error";
@@ -134,6 +140,36 @@ TEST(PassesEngine, OpeningExtractsFirstAndLeftOutTechniquesStayOut) {
     none.limits.openingMoves = 0;
     restructure(m, none);
     EXPECT_EQ(sameFunctions(input, m), "");
+}
+
+TEST(PassesEngine, SharesACubeCommonToOneStatementPerNode) {
+    // F60: lanes sel[i] = op0·op1·req[i] + op0·op1·op[k] + ¬op2·req[i+1], one
+    // node each (as a statement is lowered). Computing op0·op1 once saves a
+    // gate per lane at the same depth (the factored lane op0op1·(req[i] +
+    // op[k]) + ¬op2·req[i+1] stays at depth 3), so the engine must gain; it
+    // once kept the input because its extractions, checked on sums of
+    // products, went on to deepen the factored forms.
+    Network n;
+    std::vector<NodeId> op, req;
+    for (int i = 0; i < 8; ++i) op.push_back(n.addInput("op" + std::to_string(i)));
+    const int lanes = 40;
+    for (int i = 0; i < lanes; ++i) req.push_back(n.addInput("req" + std::to_string(i)));
+    for (int i = 0; i < lanes; ++i) {
+        const NodeId k = op[2 + i % 6];
+        NodeId v = n.addLogic(cover({{pos(op[0]), pos(op[1]), pos(req[i])},
+                                     {pos(op[0]), pos(op[1]), pos(k)},
+                                     {neg(op[2]), pos(req[(i + 1) % lanes])}}));
+        n.addOutput("sel" + std::to_string(i), pos(v));
+    }
+    tidy(n);
+    const Network input = n;
+    EngineOptions o;
+    EngineResult r = restructure(n, o);
+    EXPECT_EQ(sameFunctions(input, n), "");
+    EXPECT_FALSE(r.keptOriginal) << formatEngineReport(r);
+    EXPECT_LT(r.after.gates, r.before.gates) << formatEngineReport(r);
+    EXPECT_LE(r.after.depth, r.before.depth) << formatEngineReport(r);
+    EXPECT_LE(r.after.gates, r.before.gates - lanes + 1) << "op0·op1 once, not once per lane";
 }
 
 TEST(PassesEngine, TrialBudgetIsReportedWhenItCutsWorkShort) {

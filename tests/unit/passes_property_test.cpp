@@ -46,6 +46,9 @@ std::vector<std::pair<std::string, std::function<void(Network&, PassContext&)>>>
     }
     t.emplace_back("minimise-nodes", [](Network& n, PassContext& c) { shrinkNodes(n, ShrinkOptions{}, c); });
     t.emplace_back("extract-cubes", [](Network& n, PassContext& c) { shareCubes(n, ShareCubesOptions{}, c); });
+    ShareCubesOptions inPlace;
+    inPlace.inPlaceCubes = 1;   // the indexed extraction of large networks, on every network
+    t.emplace_back("extract-cubes (in place)", [inPlace](Network& n, PassContext& c) { shareCubes(n, inPlace, c); });
     for (auto m : {ShareDivisorsOptions::Method::Pairs, ShareDivisorsOptions::Method::Kernels}) {
         ShareDivisorsOptions o;
         o.method = m;

@@ -264,6 +264,76 @@ TEST(PassesShareCubes, CommonCubeBecomesANode) {
     EXPECT_EQ(net::measure(n).literals, 15u - 3u);
 }
 
+TEST(PassesCubes, InPlaceExtractionEditsCubesAsTheWorkspaceDoes) {
+    // The same three nodes sharing a·b·c (from the test above), extracted in
+    // place through the cube-literal index: the same result.
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), x = n.addInput("x"), y = n.addInput("y"),
+           z = n.addInput("z");
+    NodeId f = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(x)}, {pos(y)}}));
+    NodeId g = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(y)}, {pos(z)}}));
+    NodeId h = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(z)}, {pos(x)}}));
+    n.addOutput("f", pos(f));
+    n.addOutput("g", pos(g));
+    n.addOutput("h", pos(h));
+    Network before = n;
+    PassContext ctx;
+    ShareCubesOptions o;
+    o.inPlaceCubes = 1;
+    shareCubes(n, o, ctx);
+    EXPECT_EQ(ctx.stats.get("in-place"), 1);
+    EXPECT_EQ(sameFunctions(before, n), "");
+    NodeId k = 0;
+    ASSERT_TRUE(findCover(n, cover({{pos(a), pos(b), pos(c)}}), k));
+    EXPECT_EQ(n.node(f).cover, cover({{pos(k), pos(x)}, {pos(y)}}));
+    EXPECT_EQ(net::measure(n).literals, 15u - 3u);
+    EXPECT_GT(ctx.edits, 0u);
+}
+
+TEST(PassesCubes, InPlaceExtractionKeepsFunctionsAndTheDepthBound) {
+    // Flat decoders (products of 6..9 literals over 24 inputs feeding 16
+    // outputs): in place, every output keeps its function, the literals
+    // fall by the saving reported, and no node gets deeper than the bound
+    // unless it was already (the bound is the input's depth).
+    for (std::uint32_t seed = 1; seed <= 3; ++seed) {
+        std::mt19937 rng(seed);
+        Network n;
+        std::vector<NodeId> in;
+        for (int i = 0; i < 24; ++i) in.push_back(n.addInput("i" + std::to_string(i)));
+        std::vector<Cover> outs(16);
+        for (int t = 0; t < 300; ++t) {
+            std::vector<Literal> ls;
+            std::vector<char> used(24, 0);
+            const std::size_t len = 6 + rng() % 4;
+            while (ls.size() < len) {
+                const std::size_t i = rng() % 24;
+                if (used[i]) continue;
+                used[i] = 1;
+                ls.push_back(makeLiteral(in[i], rng() & 1));
+            }
+            outs[rng() % 16].cubes.push_back(Cube(std::move(ls)));
+        }
+        for (Cover& f : outs) {
+            f.normalize();
+            n.addOutput("o" + std::to_string(n.outputs().size()), pos(n.addLogic(std::move(f))));
+        }
+        const Network before = n;
+        const std::size_t depth = net::measure(n).depth;
+        PassContext ctx;
+        ctx.depthCap = depth;
+        ShareCubesOptions o;
+        o.inPlaceCubes = 1;
+        shareCubes(n, o, ctx);
+        EXPECT_EQ(sameFunctions(before, n), "") << seed;
+        const auto m = net::measure(n);
+        EXPECT_EQ(static_cast<long long>(net::measure(before).literals) - static_cast<long long>(m.literals),
+                  ctx.stats.get("literals-saved") - ctx.stats.get("extracted"))
+            << "each new node's literals are counted once in the saving, less its one gate";
+        EXPECT_GT(ctx.stats.get("extracted"), 0) << seed;
+        EXPECT_LE(m.depth, depth) << seed;
+    }
+}
+
 TEST(PassesReuse, DividesByAnExistingNode) {
     Network n;
     NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d");

@@ -69,6 +69,11 @@ struct EngineLimits {
     bool impliedDontCares = true;
     /// Covers of more cubes are written as plain sums of products, not factored.
     std::size_t factorMaxCubes = 1000;
+    /// The depth bound the techniques keep times covers of up to this many
+    /// cubes by their factored forms, as the result is measured (larger
+    /// covers: by the sum of products, which may be deeper). 0 or 1: sums of
+    /// products only.
+    std::size_t guardFactorCubes = 16;
     /// Networks of more than twice this many literals are restructured region
     /// by region, regions of about this many literals (0: always whole; each
     /// effort's value is set in limitsFor).

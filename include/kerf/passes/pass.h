@@ -18,6 +18,8 @@
 
 namespace kerf::passes {
 
+class FactorCache;
+
 /// Named counters a pass reports (kept in the order they were first touched).
 class PassStats {
 public:
@@ -36,14 +38,19 @@ inline constexpr std::size_t kNoDepthCap = std::numeric_limits<std::size_t>::max
 
 /// The context a pass runs in.
 struct PassContext {
-    /// Bound on the depth of the sum-of-products network (net::arrivalTimes).
-    /// A pass never raises a node's arrival above it (a node already above it
+    /// Bound on the depth of the network (net::arrivalTimes: sums of products;
+    /// see `factors` below). A pass never raises a node's arrival above it (a node already above it
     /// may not get later). kNoDepthCap: unbounded.
     std::size_t depthCap = kNoDepthCap;
     int verbose = 0;
     PassStats stats;
     /// Edits the passes run in this context kept (0: the network is as it was).
     std::size_t edits = 0;
+    /// When set, the depth bound times each node of 2 to `factorTimingCubes`
+    /// cubes by the earliest of its sum of products and its factored forms
+    /// (as the written network is measured), not by the sum of products alone.
+    FactorCache* factors = nullptr;
+    std::size_t factorTimingCubes = 0;
 };
 
 } // namespace kerf::passes

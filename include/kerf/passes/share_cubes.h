@@ -16,6 +16,10 @@ struct ShareCubesOptions {
     int rounds = 4;
     std::size_t maxCandidates = 20000;   ///< candidates valued per round (most promising first)
     long workBudget = 100000000;          ///< cubes looked at over the pass; past it the pass stops early
+    /// Networks of at least this many cubes are edited in place through a
+    /// cube-literal index, covers written back once (0: never). Below it
+    /// each extraction rewrites its targets' covers through the workspace.
+    std::size_t inPlaceCubes = 50000;
 };
 
 void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx);
