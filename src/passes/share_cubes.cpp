@@ -264,45 +264,62 @@ private:
     std::vector<std::uint32_t> accepted_;
 };
 
+struct LiteralsHash {
+    std::size_t operator()(const std::vector<Literal>& v) const noexcept {
+        std::size_t h = 1469598103934665603ull;
+        for (Literal l : v) h = (h ^ l) * 1099511628211ull;
+        return h;
+    }
+};
+
 void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
     CubeTable table(net, ctx.depthCap);
+    std::vector<std::uint32_t> sharedCount, seen;
+    std::vector<Literal> common;
     auto& cubes = table.cubes();
     long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, rejects = 0;
     bool exhausted = false, cut = false;
     for (int round = 0; round < opts.rounds; ++round) {
         if (round > 0) table.reindex();
-        // Candidate cubes: intersections of cube pairs sharing >= minLiterals literals.
-        std::unordered_map<std::string, std::pair<Cube, long>> cand;
-        std::unordered_map<std::uint32_t, std::uint32_t> shared;
+        // Candidate cubes: intersections of cube pairs sharing >= minLiterals
+        // literals (partners counted in a dense array, candidates found by
+        // their literals without building a key: this loop meets every cube).
+        std::unordered_map<std::vector<Literal>, std::size_t, LiteralsHash> candIndex;
+        std::vector<std::pair<Cube, long>> cand;   // cube, pairs giving it
+        sharedCount.assign(cubes.size(), 0);
         for (std::uint32_t i = 0; i < cubes.size(); ++i) {
             const auto& c = cubes[i];
             if (!c.live || c.lits.size() < opts.minLiterals) continue;
-            shared.clear();
+            seen.clear();
             std::size_t scanned = 0;
             for (Literal l : c.lits) {
                 const auto& o = table.holding(l);
                 for (auto it = std::upper_bound(o.begin(), o.end(), i); it != o.end(); ++it) {
-                    ++shared[*it];
+                    if (sharedCount[*it]++ == 0) seen.push_back(*it);
                     if (++scanned > 4 * opts.partnersPerCube) break;
                 }
             }
             work += static_cast<long>(scanned);
             std::size_t partners = 0;
-            for (auto [j, n] : shared) {
-                if (n < opts.minLiterals) continue;
-                if (++partners > opts.partnersPerCube) break;
+            for (std::uint32_t j : seen) {
+                const std::uint32_t n = sharedCount[j];
+                sharedCount[j] = 0;
+                if (n < opts.minLiterals || partners >= opts.partnersPerCube) continue;
+                ++partners;
                 const auto& d = cubes[j].lits;
-                std::vector<Literal> common;
+                common.clear();
                 std::set_intersection(c.lits.begin(), c.lits.end(), d.begin(), d.end(), std::back_inserter(common));
-                Cube I(std::move(common));
-                auto [it, fresh] = cand.try_emplace(detail::coverKey(Cover{{I}}), I, 0);
-                ++it->second.second;
+                auto f = candIndex.find(common);
+                if (f != candIndex.end()) { ++cand[f->second].second; continue; }
+                candIndex.emplace(common, cand.size());
+                cand.push_back({Cube(common), 1});
             }
         }
+        candIndex.clear();
         candidates += static_cast<long>(cand.size());
         std::vector<std::pair<long, Cube>> ranked;
         ranked.reserve(cand.size());
-        for (auto& [key, e] : cand)
+        for (auto& e : cand)
             ranked.push_back({e.second * static_cast<long>(e.first.lits.size() - 1), std::move(e.first)});
         cand.clear();
         if (ranked.size() > opts.maxCandidates) {
