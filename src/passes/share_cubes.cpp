@@ -27,6 +27,19 @@ using algebra::literalVar;
 
 namespace {
 
+/// A candidate cube held by `holders` cubes: the literals its extraction saves at most.
+long candidateBound(const Cube& c, long holders) { return holders * static_cast<long>(c.lits.size() - 1); }
+
+/// Keeps the `limit` candidates with the largest bounds (in no particular order); true when
+/// some were dropped.
+bool keepBest(std::vector<std::pair<long, Cube>>& ranked, std::size_t limit) {
+    if (ranked.size() <= limit) return false;
+    std::nth_element(ranked.begin(), ranked.begin() + static_cast<std::ptrdiff_t>(limit), ranked.end(),
+                     [](const auto& a, const auto& b) { return a.first > b.first; });
+    ranked.resize(limit);
+    return true;
+}
+
 // Saving of extracting cube I now (in two-input gates), the nodes it applies
 // to, and a provider (a node whose cover is exactly I). `work` counts cubes looked at.
 long valueOf(detail::Workspace& ws, const Cube& I, const std::vector<net::NodeId>* nodes,
@@ -319,15 +332,9 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
         candidates += static_cast<long>(cand.size());
         std::vector<std::pair<long, Cube>> ranked;
         ranked.reserve(cand.size());
-        for (auto& e : cand)
-            ranked.push_back({e.second * static_cast<long>(e.first.lits.size() - 1), std::move(e.first)});
+        for (auto& e : cand) ranked.push_back({candidateBound(e.first, e.second), std::move(e.first)});
         cand.clear();
-        if (ranked.size() > opts.maxCandidates) {
-            std::nth_element(ranked.begin(), ranked.begin() + static_cast<std::ptrdiff_t>(opts.maxCandidates),
-                             ranked.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
-            ranked.resize(opts.maxCandidates);
-            cut = true;
-        }
+        if (keepBest(ranked, opts.maxCandidates)) cut = true;
         // Each candidate keeps the cubes holding it now (index intersection).
         using Item = std::pair<long, std::size_t>;
         std::vector<Cube> list;
@@ -452,14 +459,9 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
         // first, at most maxCandidates of them.
         std::vector<std::pair<long, Cube>> ranked;
         ranked.reserve(cand.size());
-        for (auto& [key, e] : cand)
-            ranked.push_back({e.second * static_cast<long>(e.first.lits.size() - 1), std::move(e.first)});
+        for (auto& [key, e] : cand) ranked.push_back({candidateBound(e.first, e.second), std::move(e.first)});
         cand.clear();
-        if (ranked.size() > opts.maxCandidates) {
-            std::nth_element(ranked.begin(), ranked.begin() + static_cast<std::ptrdiff_t>(opts.maxCandidates),
-                             ranked.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
-            ranked.resize(opts.maxCandidates);
-        }
+        keepBest(ranked, opts.maxCandidates);
         using Item = std::pair<long, std::size_t>;
         // Each candidate keeps the nodes that held it when indexed: extraction
         // rewrites a cube holding I into one that still holds I, in the same

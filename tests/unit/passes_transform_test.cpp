@@ -243,17 +243,30 @@ TEST(PassesShareDivisors, KernelMethodFindsCommonKernel) {
     EXPECT_EQ(n.node(g).cover, cover({{pos(b), pos(k)}}));
 }
 
+/// Three nodes whose first cubes share a·b·c: f = abcx + y, g = abcy + z, h = abcz + x.
+struct SharedAbc {
+    Network n;
+    NodeId a, b, c, x, y, z, f, g, h;
+};
+SharedAbc sharedAbc() {
+    SharedAbc t;
+    Network& n = t.n;
+    t.a = n.addInput("a"), t.b = n.addInput("b"), t.c = n.addInput("c");
+    t.x = n.addInput("x"), t.y = n.addInput("y"), t.z = n.addInput("z");
+    t.f = n.addLogic(cover({{pos(t.a), pos(t.b), pos(t.c), pos(t.x)}, {pos(t.y)}}));
+    t.g = n.addLogic(cover({{pos(t.a), pos(t.b), pos(t.c), pos(t.y)}, {pos(t.z)}}));
+    t.h = n.addLogic(cover({{pos(t.a), pos(t.b), pos(t.c), pos(t.z)}, {pos(t.x)}}));
+    n.addOutput("f", pos(t.f));
+    n.addOutput("g", pos(t.g));
+    n.addOutput("h", pos(t.h));
+    return t;
+}
+
 TEST(PassesShareCubes, CommonCubeBecomesANode) {
     // abc appears in three cubes of three nodes: saves 3*(3-1) - 3 literals.
-    Network n;
-    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), x = n.addInput("x"), y = n.addInput("y"),
-           z = n.addInput("z");
-    NodeId f = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(x)}, {pos(y)}}));
-    NodeId g = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(y)}, {pos(z)}}));
-    NodeId h = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(z)}, {pos(x)}}));
-    n.addOutput("f", pos(f));
-    n.addOutput("g", pos(g));
-    n.addOutput("h", pos(h));
+    SharedAbc t = sharedAbc();
+    Network& n = t.n;
+    const NodeId a = t.a, b = t.b, c = t.c, x = t.x, y = t.y, f = t.f;
     Network before = n;
     PassContext ctx;
     shareCubes(n, ShareCubesOptions{}, ctx);
@@ -267,15 +280,9 @@ TEST(PassesShareCubes, CommonCubeBecomesANode) {
 TEST(PassesCubes, InPlaceExtractionEditsCubesAsTheWorkspaceDoes) {
     // The same three nodes sharing a·b·c (from the test above), extracted in
     // place through the cube-literal index: the same result.
-    Network n;
-    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), x = n.addInput("x"), y = n.addInput("y"),
-           z = n.addInput("z");
-    NodeId f = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(x)}, {pos(y)}}));
-    NodeId g = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(y)}, {pos(z)}}));
-    NodeId h = n.addLogic(cover({{pos(a), pos(b), pos(c), pos(z)}, {pos(x)}}));
-    n.addOutput("f", pos(f));
-    n.addOutput("g", pos(g));
-    n.addOutput("h", pos(h));
+    SharedAbc t = sharedAbc();
+    Network& n = t.n;
+    const NodeId a = t.a, b = t.b, c = t.c, x = t.x, y = t.y, f = t.f;
     Network before = n;
     PassContext ctx;
     ShareCubesOptions o;
