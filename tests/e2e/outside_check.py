@@ -18,8 +18,10 @@ Many module pairs can be compared in one simulator run: every pair gets its own 
 module, all of them top-level, so Icarus runs them side by side and prints one result line each.
 """
 import os
+import shutil
 import re
 import subprocess
+import tempfile
 
 # ---------------------------------------------------------------------------------------------
 # slang: ports and module names
@@ -384,6 +386,65 @@ class SimResult:
         return f"SimResult(ok={self.ok}, errors={self.errors}, known={self.known}/{self.total}, {self.detail[:200]!r})"
 
 
+# Verilator's run-time library (verilated.cpp and friends) is the same C++ for every testbench and
+# costs most of a small build; with a cache directory it is compiled once per test run and copied
+# into each build directory, where make finds it newer than its sources and does not rebuild it.
+VERILATOR_OPT = "OPT_FAST=-O0 OPT_SLOW=-O0 OPT_GLOBAL=-O0"
+RUNTIME_CACHE = {"dir": ""}
+
+
+def use_runtime_cache(directory):
+    """Let `simulate` keep Verilator's compiled run-time library under `directory`."""
+    RUNTIME_CACHE["dir"] = directory
+
+
+def _verilator_build(top, args, obj, timeout, runtime):
+    """Verilate and build an executable (what `--binary` does), with the run-time objects of
+    `runtime` copied in after verilating, so that they are newer than every file make compares."""
+    c = run(["verilator", "--cc", "--exe", "--main", "--timing", "-Wno-fatal", "--top-module", top,
+             "-Mdir", obj] + args, timeout=timeout)
+    if c.returncode != 0:
+        return c
+    if runtime:
+        for o in os.listdir(runtime):
+            if o.endswith(".o"):
+                shutil.copy(os.path.join(runtime, o), os.path.join(obj, o))
+    return run(["make", "-s", "-C", obj, "-f", f"V{top}.mk"] + VERILATOR_OPT.split(), timeout=timeout)
+
+
+def _verilator_runtime(timeout):
+    """The directory holding the compiled run-time objects, built on first use (None: no cache)."""
+    base = RUNTIME_CACHE["dir"]
+    if not base:
+        return None
+    version = run(["verilator", "--version"]).stdout.strip().replace(" ", "_").replace("/", "_")
+    rt = os.path.join(base, "verilator-runtime-" + re.sub(r"[^A-Za-z0-9_.-]", "", version))
+    done = os.path.join(rt, "done")
+    if os.path.exists(done):
+        return rt
+    import fcntl
+    os.makedirs(base, exist_ok=True)
+    with open(os.path.join(base, "verilator-runtime.lock"), "w") as lock:
+        fcntl.flock(lock, fcntl.LOCK_EX)   # parallel tests wait for the first build
+        if os.path.exists(done):
+            return rt
+        build = tempfile.mkdtemp(dir=base, prefix="verilator-runtime-build-")
+        top = os.path.join(build, "kerf_rt.sv")
+        with open(top, "w") as f:
+            f.write("module kerf_rt; initial begin #1; $finish; end endmodule\n")   # with timing
+        c = _verilator_build("kerf_rt", [top], os.path.join(build, "obj"), timeout, None)
+        objs = [o for o in os.listdir(os.path.join(build, "obj")) if o.startswith("verilated")
+                and o.endswith(".o")] if c.returncode == 0 else []
+        if not objs:
+            return None
+        os.makedirs(rt, exist_ok=True)
+        for o in objs:
+            shutil.copy2(os.path.join(build, "obj", o), os.path.join(rt, o))
+        shutil.rmtree(build, ignore_errors=True)
+        open(done, "w").close()
+    return rt
+
+
 def simulate(pairs, sources, workdir, defines=(), include_dirs=(), timeout=600, simulator="icarus"):
     """Compile `sources` (files holding every ref and new module and what they need) with one
     testbench per pair, run them in one simulator run, and return {tag: SimResult}.
@@ -401,12 +462,8 @@ def simulate(pairs, sources, workdir, defines=(), include_dirs=(), timeout=600, 
         assert len(pairs) == 1
         obj = os.path.join(workdir, "kerf_outside_obj")
         # An unoptimised C++ build: the testbench runs briefly, the compile is what costs.
-        cmd = ["verilator", "--binary", "-j", "1", "-Wno-fatal", "-Wno-lint", "-Wno-style",
-               "-MAKEFLAGS", "OPT_FAST=-O0 OPT_SLOW=-O0 OPT_GLOBAL=-O0",
-               "--top-module", "kerf_tb_0", "-Mdir", obj]
-        cmd += [f"-I{d}" for d in include_dirs] + [f"-D{d}" for d in defines]
-        cmd += list(sources) + [tb_path]
-        c = run(cmd, timeout=timeout)
+        cmd = ["-Wno-lint", "-Wno-style"] + [f"-I{d}" for d in include_dirs] + [f"-D{d}" for d in defines]
+        c = _verilator_build("kerf_tb_0", cmd + list(sources) + [tb_path], obj, timeout, _verilator_runtime(timeout))
         if c.returncode != 0:
             msg = "verilator failed to compile: " + (c.stderr + c.stdout)[-3000:]
             return {p.tag: SimResult(False, detail=msg) for p in pairs}

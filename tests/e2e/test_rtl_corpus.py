@@ -364,13 +364,15 @@ def main():
     p = argparse.ArgumentParser()
     p.add_argument("--kerf")
     p.add_argument("--root", default=os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", ".."))
-    p.add_argument("--cache", default="", help="accepted for the harness (tests/e2e/kerf_e2e.py); unused")
+    p.add_argument("--cache", default="", help="directory for objects shared by the cases (Verilator's run-time library)")
     p.add_argument("--only", default="", help="run the cases whose name contains this")
     p.add_argument("--case", default="", help="run exactly this case")
     p.add_argument("--list", action="store_true", help="print the case names and exit")
     p.add_argument("--keep", action="store_true", help="keep the work directory and print its path")
     a = p.parse_args()
     root = os.path.abspath(a.root)
+    if a.cache:
+        O.use_runtime_cache(a.cache)
     all_cases = cases(root)
     if a.list:
         for c in all_cases:
