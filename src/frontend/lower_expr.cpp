@@ -228,6 +228,20 @@ Bit Lowerer::truth(const Bits& a) {
     return {one, x, ruleOf(x, anyS(a))};
 }
 
+void Lowerer::xDecides(Literal x, Literal s, const char* where, const char* clause) {
+    if (x == kFalse || b_.and2(x, negateLiteral(s)) == kFalse) return;
+    // `x & ~s` is not always constant false in structure where only the language's rules
+    // make x (an out-of-range select): those statements stay exact as long as the module
+    // assigns no x. Members lowered before the first assigned x are checked at the end.
+    if (!assignedXMade_) {
+        if (current_) xDecidedEarly_.push_back(current_->id);
+        return;
+    }
+    keep(fmt::format("an x the source assigns can reach {}, where Verilog decides on it (IEEE 1800 {}); "
+                     "kerf does not read that x as a don't-care",
+                     where, clause));
+}
+
 Bit Lowerer::equality(const Bits& a, const Bits& b, bool wild) {
     std::size_t n = std::min(a.size(), b.size());
     bool maskConst = std::all_of(b.begin(), b.end(), [](const Bit& x) { return isConst(x.x); });
@@ -665,6 +679,7 @@ Bits Lowerer::eval(ExprId root) {
                 // An x the source assigns as a value is the author's don't-care; an x or z
                 // anywhere else (compared with, computed with) is unknown by the rules.
                 r[i] = c == '1' ? known(kTrue) : c == '0' ? known(kFalse) : assignedX_.count(id) ? kAssignedX : kRuleX;
+                if (r[i] == kAssignedX) assignedXMade_ = true;
             }
             done(std::move(r));
             break;
@@ -820,6 +835,7 @@ Bits Lowerer::eval(ExprId root) {
                     Literal xa = anyX(a), xb = anyX(b);
                     if (xa != kFalse && xb != kFalse)
                         keep(fmt::format("'{}' compares two values that can both be x or z", opText(o)));
+                    xDecides(b_.or2(xa, xb), b_.or2(anyS(a), anyS(b)), "a case equality", "11.4.5");
                     r = known(b_.andN({negateLiteral(xa), negateLiteral(xb), equal(values(a), values(b))}));
                 } else {
                     r = equality(a, b, wild);

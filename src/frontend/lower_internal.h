@@ -10,8 +10,9 @@
 // An output that can be x only because the source assigns x (the synthesis
 // reading of IEEE 1364.1 / 1800) has that as its don't-care condition
 // (Lowered::dontCares); a statement whose value can be x for any other
-// reason, or whose x would reach kept code (which may turn it into 0 or 1),
-// is kept as written.
+// reason, or whose x would reach kept code (which may turn it into 0 or 1)
+// or a decision (an if condition, a case selector: see xDecides), is kept as
+// written.
 #pragma once
 
 #include "kerf/frontend/lower.h"
@@ -156,6 +157,12 @@ public:
     Bit bCond(Bit s, Bit t, Bit e);
     /// The logical value of a vector (11.4.7): 1 if a bit is 1, 0 if all are 0, else x.
     Bit truth(const Bits& a);
+    /// Keeps the current statement when an x the source assigns can reach `where`, a point
+    /// where Verilog turns x into a definite outcome (the else branch, no case item, `===`
+    /// false). Reading that x as a don't-care would let a rewrite of its statement change
+    /// this one; kept, this statement keeps the x's statement as written too (its x then
+    /// reaches kept code). An x by the language's rules is modelled exactly and passes.
+    void xDecides(Literal x, Literal s, const char* where, const char* clause);
     /// `a == b` (11.4.5); `wild` treats the unknown bits of `b` as wildcards (`==?`, 11.4.6).
     Bit equality(const Bits& a, const Bits& b, bool wild = false);
 
@@ -231,6 +238,8 @@ public:
     std::vector<Literal> outputUnknown_;       // per network output: its unknown flag
     std::vector<Literal> outputRuleX_;         // per network output: unknown by a rule of the language
     std::set<ExprId> assignedX_;               // constants whose x bits the current member assigns as values
+    bool assignedXMade_ = false;               // an x the source assigns was lowered (see xDecides)
+    std::vector<int> xDecidedEarly_;           // members where x reached a decision before one was
     Env* env_ = nullptr;                       // current combinational block
     const Member* current_ = nullptr;
     int depth_ = 0;                            // nesting of on-demand member lowering

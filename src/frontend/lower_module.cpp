@@ -530,6 +530,16 @@ Lowered Lowerer::run() {
             outputRuleX_.push_back(value_[s][b].s);
         }
     }
+    // An x reached a decision in a member lowered before the first assigned x (members of
+    // one loop of blocks go in source order): kept as xDecides would have kept it.
+    if (assignedXMade_ && !xDecidedEarly_.empty()) {
+        std::map<int, std::string> early;
+        for (int id : xDecidedEarly_)
+            early[id] = "an x the source assigns can reach a decision in it (an if condition, a case selector "
+                        "or item, `===`), where Verilog decides on it (IEEE 1800 12.4, 12.5); kerf does not "
+                        "read that x as a don't-care";
+        throw KeepMembers{std::move(early)};
+    }
     // Unknown output bits are don't-cares (the synthesis reading of x, IEEE 1364.1 /
     // 1800): the proof compares only where they are known. --keep-x keeps their statements.
     // An x by the language's rules (not assigned by the author) is never a don't-care,

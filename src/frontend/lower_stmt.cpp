@@ -511,6 +511,7 @@ void Lowerer::unassignedToUnknown(Env& env) {
             if (b.v == kUnassigned || b.v == kPartial) {
                 b = kAssignedX;
                 any = true;
+                assignedXMade_ = true;
             }
     if (any && opts_.keepX)
         keep("it leaves signals unassigned where no branch applies (an incomplete unique or priority case or if, "
@@ -549,7 +550,9 @@ void Lowerer::exec(StmtId id) {
         for (;;) {
             const Stmt& c = ir_.stmt(cur);
             if (c.start != kNoId) b_.loc = here(c.start);
-            Literal cond = truth(eval(c.a)).v;
+            Bit t = truth(eval(c.a));
+            xDecides(t.x, t.s, "an if condition", "12.4");
+            Literal cond = t.v;
             if (cond == kTrue) { last = c.b; ended = true; break; }
             if (cond != kFalse) arms.emplace_back(cond, c.b);
             if (c.c == kNoId) break;
@@ -680,6 +683,7 @@ void Lowerer::execCase(StmtId id) {
     const CaseKind kind = s.caseKind;
     if (selMaybeUnknown && kind == CaseKind::Z)
         keep("a casez selector that can be x or z (x is not told apart from z here)");
+    if (selMaybeUnknown) xDecides(selX, anyS(selW), "a case selector", "12.5");
     bool allConst = true;
     if (table) {
         std::string bits(table->width, '0');
@@ -703,7 +707,9 @@ void Lowerer::execCase(StmtId id) {
                 Literal c;
                 if (ci.conditions != kNoId && ir_.itemIsCondition[ci.conditions + j]) {
                     allConst = false;
-                    c = truth(eval(xid)).v;   // a range of a case inside: matches when true (x: no match)
+                    Bit t = truth(eval(xid));   // a range of a case inside: matches when true (x: no match)
+                    xDecides(t.x, t.s, "a case inside range", "12.5.4");
+                    c = t.v;
                 } else if (x.kind == ExprKind::Const) {
                     std::string bits;
                     for (std::uint32_t i = x.width; i-- > 0;) bits.push_back(ir_.constBit(x, i));
@@ -713,6 +719,7 @@ void Lowerer::execCase(StmtId id) {
                     allConst = false;
                     Bits item = extend(eval(xid), static_cast<int>(width), x.isSigned && selSigned);
                     Literal itemX = anyX(item);
+                    xDecides(itemX, anyS(item), "a case item", "12.5");
                     if (kind == CaseKind::Inside) {
                         c = equality(selW, item, true).v;   // `==?` true (12.5.4)
                     } else {
@@ -853,6 +860,7 @@ void Lowerer::execCase(StmtId id) {
                                                static_cast<std::size_t>(arms[i].item) * table->columnWidths[k] + p];
                         if (c == '-') continue;
                         // A value the source assigns: an x in it is the author's don't-care.
+                        if (c != '1' && c != '0') assignedXMade_ = true;
                         return c == '1' ? known(kTrue) : c == '0' ? known(kFalse) : kAssignedX;
                     }
                 return bbits[bit];
