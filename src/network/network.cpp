@@ -49,36 +49,47 @@ std::vector<NodeId> Network::topoOrder() const {
 
 std::vector<NodeId> Network::postOrderFrom(const std::vector<NodeId>& roots) const {
     // Iterative DFS post-order; fanins of a live node are live by construction.
+    // Each open node keeps where its walk stopped (cube, literal): resuming
+    // from the start of the cover made the walk quadratic in a wide cover's
+    // literals (a 100k-term decoder's outputs, F44).
+    struct Frame {
+        NodeId id;
+        std::uint32_t cube, lit;
+    };
     std::vector<NodeId> order;
     std::vector<std::uint8_t> state(nodes_.size(), 0);  // 0 new, 1 open, 2 done
-    std::vector<std::pair<NodeId, std::size_t>> stack;
+    std::vector<Frame> stack;
     for (NodeId root : roots) {
         if (!isLogic(root) || state[root]) continue;
-        stack.push_back({root, 0});
+        stack.push_back({root, 0, 0});
         state[root] = 1;
         while (!stack.empty()) {
-            auto& [id, next] = stack.back();
-            const Cover& cv = nodes_[id].cover;
-            // Walk literals flattened across cubes.
+            Frame& fr = stack.back();
+            const auto& cubes = nodes_[fr.id].cover.cubes;
+            NodeId next = 0;
             bool pushed = false;
-            std::size_t k = 0;
-            for (const Cube& c : cv.cubes) {
-                for (Literal l : c.lits) {
-                    if (k++ < next) continue;
-                    ++next;
-                    NodeId v = literalVar(l);
+            while (fr.cube < cubes.size() && !pushed) {
+                const auto& lits = cubes[fr.cube].lits;
+                while (fr.lit < lits.size()) {
+                    const NodeId v = literalVar(lits[fr.lit++]);
                     if (isLogic(v) && state[v] == 0) {
-                        state[v] = 1;
-                        stack.push_back({v, 0});
+                        next = v;
                         pushed = true;
                         break;
                     }
                 }
-                if (pushed) break;
+                if (!pushed) {
+                    ++fr.cube;
+                    fr.lit = 0;
+                }
             }
-            if (pushed) continue;
-            state[id] = 2;
-            order.push_back(id);
+            if (pushed) {
+                state[next] = 1;
+                stack.push_back({next, 0, 0});   // `fr` may dangle from here on
+                continue;
+            }
+            state[fr.id] = 2;
+            order.push_back(fr.id);
             stack.pop_back();
         }
     }

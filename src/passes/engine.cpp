@@ -442,17 +442,24 @@ private:
         const auto t0 = std::chrono::steady_clock::now();
         const double c0 = detail::cpuNow();
         auto trial = std::make_unique<net::Network>(net);
+        const double c1 = detail::cpuNow();
         PassContext ctx;
         ctx.depthCap = passCap_;
         ctx.verbose = opts_.verbose;
         ctx.factors = &cache_;
         ctx.factorTimingCubes = opts_.limits.guardFactorCubes;
         s.run(*trial, ctx);
+        const double c2 = detail::cpuNow();
         // A technique that kept no edit left the (tidy) network as it was:
         // its gain is 0 without tidying and measuring it again.
         const bool unchanged = s.growth < 0 && ctx.edits == 0;
         if (!unchanged) tidy(*trial, ctx);
+        const double c3 = detail::cpuNow();
         net::Metrics m = unchanged ? current : measure(*trial);
+        const double c4 = detail::cpuNow();
+        if (opts_.verbose >= 2)
+            std::fprintf(stderr, "kerf: trial %-28s cpu s: copy %.2f technique %.2f tidy %.2f measure %.2f\n",
+                         s.name.c_str(), c1 - c0, c2 - c1, c3 - c2, c4 - c3);
         if (s.growth >= 0) {
             // Regroup: re-optimise what dissolving left, then value the end result.
             std::vector<Source> inner = makeSources(false);

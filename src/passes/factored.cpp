@@ -20,7 +20,6 @@
 
 #include <algorithm>
 #include <climits>
-#include <queue>
 #include <unordered_map>
 
 namespace kerf::passes {
@@ -35,12 +34,14 @@ using algebra::literalVar;
 // gates do not depend on when its literals arrive). Measuring a network
 // then costs one hash lookup and a walk over each node's forms, without
 // allocating — it runs once per trial of the engine.
+struct FactorCache::Entry {
+    Factored best, quick, sop;
+    std::size_t bestGates = 0, quickGates = 0, sopGates = 0;
+    bool hasBest = false, hasQuick = false, hasSop = false;
+};
+
 struct FactorCache::Impl {
-    struct Entry {
-        Factored best, quick, sop;
-        std::size_t bestGates = 0, quickGates = 0, sopGates = 0;
-        bool hasBest = false, hasQuick = false, hasSop = false;
-    };
+    using Entry = FactorCache::Entry;
     std::unordered_map<Cover, Entry, algebra::CoverHash> entries;
     std::size_t factored = 0;
     std::size_t maxCubes = 1000;   // limit factor-max-cubes
@@ -65,12 +66,16 @@ std::size_t gatesOf(const Factored& f) {
 FactorCache::FactorCache() : impl_(std::make_unique<Impl>()) {}
 FactorCache::~FactorCache() = default;
 
-const Factored& FactorCache::best(const Cover& f) {
-    Impl::Entry& e = impl_->entry(f);
+const Factored& FactorCache::best(const Cover& f) { return best(impl_->entry(f), f); }
+
+const Factored& FactorCache::quick(const Cover& f) { return quick(impl_->entry(f), f); }
+
+// The same on an entry already looked up (one hash of the cover, not three).
+const Factored& FactorCache::best(Entry& e, const Cover& f) {
     if (!e.hasBest) {
         // Best compares against the quick form: take it from the entry
         // rather than letting factor() compute it a second time.
-        const Factored& q = quick(f);
+        const Factored& q = quick(e, f);
         e.best = algebra::factorBest(f, q);
         e.bestGates = gatesOf(e.best);
         e.hasBest = true;
@@ -79,8 +84,7 @@ const Factored& FactorCache::best(const Cover& f) {
     return e.best;
 }
 
-const Factored& FactorCache::quick(const Cover& f) {
-    Impl::Entry& e = impl_->entry(f);
+const Factored& FactorCache::quick(Entry& e, const Cover& f) {
     if (!e.hasQuick) {
         e.quick = algebra::factor(f, algebra::FactorMethod::Quick);
         e.quickGates = gatesOf(e.quick);
@@ -115,32 +119,6 @@ std::size_t balanceInPlace(std::size_t* t, std::size_t k) {
     return t[0];
 }
 
-// Merge arrival times two earliest first; depthOut[i] gets how many gates lie
-// between item i and the root.
-std::size_t balance(const std::vector<std::size_t>& times, std::vector<std::size_t>* depthOut) {
-    if (times.empty()) return 0;
-    using Item = std::pair<std::size_t, std::size_t>;  // time, group
-    std::priority_queue<Item, std::vector<Item>, std::greater<>> q;
-    std::vector<std::vector<std::size_t>> groups(times.size());
-    if (depthOut) depthOut->assign(times.size(), 0);
-    for (std::size_t i = 0; i < times.size(); ++i) {
-        q.push({times[i], i});
-        groups[i] = {i};
-    }
-    while (q.size() > 1) {
-        auto [ta, ga] = q.top(); q.pop();
-        auto [tb, gb] = q.top(); q.pop();
-        if (depthOut) {
-            for (std::size_t i : groups[ga]) ++(*depthOut)[i];
-            for (std::size_t i : groups[gb]) ++(*depthOut)[i];
-            groups[ga].insert(groups[ga].end(), groups[gb].begin(), groups[gb].end());
-            groups[gb].clear();
-        }
-        q.push({std::max(ta, tb) + 1, ga});
-    }
-    return q.top().first;
-}
-
 std::size_t arrivalOf(const std::vector<std::size_t>& at, std::uint32_t v) { return v < at.size() ? at[v] : 0; }
 
 // Arrival of a form's root (gates come from the cache). Allocation-free
@@ -166,6 +144,14 @@ std::size_t formArrival(const Factored& f, const std::vector<std::size_t>& at) {
 }
 
 // Required time of every leaf variable of `f` given the root's required time.
+// The merge order is balance()'s (two earliest first, ties to the lower
+// group), replayed on scratch arrays: this runs for every node on every
+// measurement, and allocating per tree node was a large part of measuring a
+// network of 700k nodes (F44).
+thread_local std::vector<std::size_t> tReqTimes;                    // per level: kids' arrivals, then their depths
+thread_local std::vector<std::pair<std::size_t, std::size_t>> tHeap; // (time, group)
+thread_local std::vector<std::size_t> tTreeOf, tParent;             // group -> its merge-tree node; tree parents
+
 void pushRequired(const Factored& f, long required, const std::vector<std::size_t>& at, std::vector<long>& rt) {
     switch (f.kind) {
     case Factored::Kind::Zero:
@@ -177,13 +163,47 @@ void pushRequired(const Factored& f, long required, const std::vector<std::size_
         return;
     }
     default: {
-        std::vector<std::size_t> times;
-        times.reserve(f.kids.size());
-        for (const Factored& k : f.kids) times.push_back(formArrival(k, at));
-        std::vector<std::size_t> depth;
-        balance(times, &depth);
-        for (std::size_t i = 0; i < f.kids.size(); ++i)
-            pushRequired(f.kids[i], required - static_cast<long>(depth[i]), at, rt);
+        const std::size_t k = f.kids.size();
+        const std::size_t base = tReqTimes.size();
+        for (const Factored& kid : f.kids) {
+            const std::size_t a = formArrival(kid, at);
+            tReqTimes.push_back(a);
+        }
+        if (k > 1) {
+            // Merge tree: leaves 0..k-1, merges k..2k-2 (a parent comes after its children).
+            tHeap.clear();
+            tTreeOf.resize(k);
+            tParent.assign(2 * k - 1, 0);
+            for (std::size_t i = 0; i < k; ++i) {
+                tHeap.push_back({tReqTimes[base + i], i});
+                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+                tTreeOf[i] = i;
+            }
+            std::size_t next = k;
+            while (tHeap.size() > 1) {
+                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+                const auto [ta, ga] = tHeap.back();
+                tHeap.pop_back();
+                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+                const auto [tb, gb] = tHeap.back();
+                tHeap.pop_back();
+                tParent[tTreeOf[ga]] = next;
+                tParent[tTreeOf[gb]] = next;
+                tTreeOf[ga] = next++;
+                tHeap.push_back({std::max(ta, tb) + 1, ga});
+                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+            }
+            // Depth of every tree node below the root (2k-2), parents first.
+            std::vector<std::size_t>& depth = tTreeOf;   // reused: groups are no longer needed
+            depth.assign(2 * k - 1, 0);
+            for (std::size_t i = 2 * k - 2; i-- > 0;) depth[i] = depth[tParent[i]] + 1;
+            for (std::size_t i = 0; i < k; ++i) tReqTimes[base + i] = depth[i];
+        } else {
+            tReqTimes[base] = 0;
+        }
+        for (std::size_t i = 0; i < k; ++i)
+            pushRequired(f.kids[i], required - static_cast<long>(tReqTimes[base + i]), at, rt);
+        tReqTimes.resize(base);
     }
     }
 }
@@ -250,8 +270,7 @@ FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& 
         // Factoring a cover of thousands of cubes costs more than every pass
         // together; such nodes are written as plain sums of products.
         if (cv.cubes.size() <= fc.maxCubes()) {
-            fc.best(cv);
-            fc.quick(cv);
+            fc.best(e, cv);
             c.form[c.count] = &e.best, c.gates[c.count++] = e.bestGates;
             c.form[c.count] = &e.quick, c.gates[c.count++] = e.quickGates;
         }

@@ -93,16 +93,20 @@ public:
         if (F.cubes.size() >= 2 && F.cubes.size() <= opts_.maxCubesForPairs) {
             for (std::size_t i = 0; i < F.cubes.size(); ++i)
                 for (std::size_t j = i + 1; j < F.cubes.size(); ++j) {
+                    if (selfDouble) continue;   // the node's only pair is itself
                     const auto& a = F.cubes[i].lits;
                     const auto& b = F.cubes[j].lits;
-                    std::vector<Literal> base, da, db;
-                    std::set_intersection(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(base));
-                    std::set_difference(a.begin(), a.end(), base.begin(), base.end(), std::back_inserter(da));
-                    std::set_difference(b.begin(), b.end(), base.begin(), base.end(), std::back_inserter(db));
-                    if (da.empty() || db.empty()) continue;
-                    if (selfDouble) continue;   // the node's only pair is itself
-                    long s = static_cast<long>(da.size() + db.size() + base.size()) - 1;
-                    Cover d{{Cube(std::move(da)), Cube(std::move(db))}};
+                    base_.clear();
+                    std::set_intersection(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(base_));
+                    if (base_.size() == a.size() || base_.size() == b.size()) continue;   // one side empty
+                    // The divisor is built in reused storage (no allocation per pair once warm).
+                    Cover& d = pairCover_;
+                    d.cubes.resize(2);
+                    d.cubes[0].lits.clear();
+                    d.cubes[1].lits.clear();
+                    std::set_difference(a.begin(), a.end(), base_.begin(), base_.end(), std::back_inserter(d.cubes[0].lits));
+                    std::set_difference(b.begin(), b.end(), base_.begin(), base_.end(), std::back_inserter(d.cubes[1].lits));
+                    long s = static_cast<long>(d.cubes[0].lits.size() + d.cubes[1].lits.size() + base_.size()) - 1;
                     d.normalize();
                     c.items.push_back({idOf(d), s});
                 }
@@ -201,14 +205,16 @@ private:
     }
     int idOf(const Cover& d) {
         if (d.cubes.size() == 1 && d.cubes[0].lits.size() == 2) return pairId(d.cubes[0].lits[0], d.cubes[0].lits[1]);
-        std::string key = detail::coverKey(d);
-        auto [it, fresh] = index_.try_emplace(std::move(key), static_cast<int>(divs_.size()));
-        if (fresh) {
-            Divisor dv;
-            dv.d = d;
-            divs_.push_back(std::move(dv));
-        }
-        return it->second;
+        // Looked up by the cover itself (a string key per pair of cubes was
+        // the largest cost of this technique on the 10k decoder, F44).
+        auto it = index_.find(d);
+        if (it != index_.end()) return it->second;
+        const int id = static_cast<int>(divs_.size());
+        index_.emplace(d, id);
+        Divisor dv;
+        dv.d = d;
+        divs_.push_back(std::move(dv));
+        return id;
     }
     void note(net::NodeId f, int id, long s) {
         Divisor& dv = divs_[static_cast<std::size_t>(id)];
@@ -224,11 +230,13 @@ private:
 
     Workspace& ws_;
     const ShareDivisorsOptions& opts_;
-    std::unordered_map<std::string, int> index_;
+    std::unordered_map<Cover, int, detail::MixedCoverHash> index_;
     std::unordered_map<std::uint64_t, int> pairIndex_;
     std::vector<Divisor> divs_;
     std::vector<Contribution> contrib_;
     std::vector<int> touched_;
+    std::vector<Literal> base_;   // scratch of compute()
+    Cover pairCover_;             // scratch of compute()
 };
 
 void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx) {

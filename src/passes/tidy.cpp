@@ -16,7 +16,7 @@
 
 #include "workspace.h"
 
-#include <unordered_map>
+#include <unordered_set>
 
 namespace kerf::passes {
 
@@ -34,29 +34,40 @@ void tidy(net::Network& net, PassContext& ctx) {
     std::vector<Literal> repl(n);
     for (net::NodeId v = 0; v < n; ++v) repl[v] = makeLiteral(v, false);
     auto map = [&](Literal l) { return literalNegated(l) ? negateLiteral(repl[literalVar(l)]) : repl[literalVar(l)]; };
-    std::unordered_map<std::string, net::NodeId> seen;
+    // Kept nodes by cover (hash of the cover, equality on it): a kept
+    // node's cover is final, so the set can look covers up in the network.
+    // (A string key per node cost a copy of every cover on each call; the
+    // engine tidies after every trial, F44.)
+    const algebra::CoverHash coverHash;
+    auto hashOf = [&](net::NodeId v) { return coverHash(net.node(v).cover); };
+    auto sameCover = [&](net::NodeId a, net::NodeId b) { return net.node(a).cover == net.node(b).cover; };
+    std::unordered_set<net::NodeId, decltype(hashOf), decltype(sameCover)> seen(1024, hashOf, sameCover);
     long constants = 0, buffers = 0, merged = 0, simplified = 0;
     for (net::NodeId v : net.topoOrder()) {
         Cover& cv = net.node(v).cover;
-        Cover nc;
         bool changed = false;
         for (const Cube& c : cv.cubes) {
-            std::vector<Literal> ls;
-            ls.reserve(c.lits.size());
-            for (Literal l : c.lits) {
-                Literal m = map(l);
-                changed |= m != l;
-                ls.push_back(m);
-            }
-            nc.cubes.push_back(Cube(std::move(ls)));
+            for (Literal l : c.lits)
+                if (map(l) != l) { changed = true; break; }
+            if (changed) break;
         }
         std::size_t before = cv.literalCount(), cubesBefore = cv.cubes.size();
+        if (changed) {
+            Cover nc;
+            nc.cubes.reserve(cv.cubes.size());
+            for (const Cube& c : cv.cubes) {
+                std::vector<Literal> ls;
+                ls.reserve(c.lits.size());
+                for (Literal l : c.lits) ls.push_back(map(l));
+                nc.cubes.push_back(Cube(std::move(ls)));
+            }
+            cv = std::move(nc);
+        }
         // Containment is quadratic in the cubes: very large covers get it
         // only when a substitution changed them.
-        if (changed || nc.cubes.size() <= 2000) detail::canonical(nc);
-        else nc.normalize();
-        if (!changed && (nc.literalCount() != before || nc.cubes.size() != cubesBefore)) ++simplified;
-        cv = std::move(nc);
+        if (changed || cv.cubes.size() <= 2000) detail::canonical(cv);
+        else cv.normalize();
+        if (!changed && (cv.literalCount() != before || cv.cubes.size() != cubesBefore)) ++simplified;
         if (cv.isZero()) { repl[v] = net::kFalse; ++constants; continue; }
         if (cv.isOne()) { repl[v] = net::kTrue; ++constants; continue; }
         if (cv.cubes.size() == 1 && cv.cubes[0].lits.size() == 1) {
@@ -64,12 +75,12 @@ void tidy(net::Network& net, PassContext& ctx) {
             ++buffers;
             continue;
         }
-        auto [it, fresh] = seen.emplace(detail::coverKey(cv), v);
+        auto [it, fresh] = seen.insert(v);
         if (!fresh) {
-            repl[v] = makeLiteral(it->second, false);
+            repl[v] = makeLiteral(*it, false);
             // Keep a hint when the survivor has none.
-            if (net.node(it->second).name.empty() && !net.node(v).name.empty())
-                net.node(it->second).name = net.node(v).name;
+            if (net.node(*it).name.empty() && !net.node(v).name.empty())
+                net.node(*it).name = net.node(v).name;
             ++merged;
         }
     }

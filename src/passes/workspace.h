@@ -61,6 +61,28 @@ Cover flipVar(const Cover& f, NodeId v);
 /// A byte string identifying a cover (for hash tables).
 std::string coverKey(const Cover& f);
 
+/// A well-mixed hash of a cover's literals and cube boundaries, for the
+/// passes' large hash tables (hundreds of thousands of small covers whose
+/// literals are small numbers: a plain combining step gave long bucket
+/// chains there, F44).
+struct MixedCoverHash {
+    std::size_t operator()(const Cover& f) const noexcept {
+        std::uint64_t h = 0x243f6a8885a308d3ull ^ f.cubes.size();
+        for (const Cube& c : f.cubes) {
+            for (Literal l : c.lits) {
+                h = (h ^ l) * 0x9e3779b97f4a7c15ull;
+                h ^= h >> 29;
+            }
+            h = (h ^ 0xffffffffull) * 0xbf58476d1ce4e5b9ull;   // cube boundary
+            h ^= h >> 31;
+        }
+        h ^= h >> 33;
+        h *= 0xff51afd7ed558ccdull;
+        h ^= h >> 33;
+        return static_cast<std::size_t>(h);
+    }
+};
+
 /// Arrival of the root of a balanced two-input tree over leaves arriving at
 /// `times` (merged two earliest first, as net::sopCost does). The times are
 /// sorted in place. Empty: 0.

@@ -15,12 +15,13 @@
 // compares outputs wherever the condition is 0).
 //
 // Usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR]
-//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction] [--min-terms N] [--max-terms N] [-v]
+//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--min-terms N] [--max-terms N] [-v]
 #include "../unit/passes_support.h"
 
 #include "kerf/passes/engine.h"
 #include "kerf/passes/factored.h"
 #include "kerf/passes/share_cubes.h"
+#include "kerf/passes/share_divisors.h"
 #include "kerf/passes/tidy.h"
 
 #include <algorithm>
@@ -206,7 +207,10 @@ bool isolated(Work work, Figures& out, long& rssKiB) {
 // opening move on it), by the workspace or in place through the
 // cube-literal index: its CPU time (in gLastCpu), literals and SOP depth
 // before/after (bound: the input's SOP depth), extractions in seconds.
-Figures cubeExtraction(std::size_t terms, bool inPlace) {
+// Path 2: one whole-network divisor extraction (two-cube and two-literal
+// divisors) instead, the other opening move on it.
+Figures cubeExtraction(std::size_t terms, int path) {
+    const bool inPlace = path == 1;
     net::Network net = syntheticDecoder(terms, 64, 256, 7);
     passes::tidy(net);
     const net::Network input = net;
@@ -221,8 +225,17 @@ Figures cubeExtraction(std::size_t terms, bool inPlace) {
         o = L.cubes;
     }
     o.inPlaceCubes = inPlace ? 1 : 0;
+    passes::ShareDivisorsOptions d = passes::limitsFor(passes::Effort::Default).divisors;
+    for (const auto& l : gLimits) {
+        passes::EngineLimits L = passes::limitsFor(passes::Effort::Default);
+        L.divisors = d;
+        passes::setLimit(L, l);
+        d = L.divisors;
+    }
+    d.method = passes::ShareDivisorsOptions::Method::Pairs;
     auto t0 = std::chrono::steady_clock::now();
-    passes::shareCubes(net, o, ctx);
+    if (path == 2) passes::shareDivisors(net, d, ctx);
+    else passes::shareCubes(net, o, ctx);
     Figures f;
     f.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     const net::Metrics after = net::measure(net);
@@ -231,9 +244,57 @@ Figures cubeExtraction(std::size_t terms, bool inPlace) {
     f.depthBefore = before.depth;
     f.depthAfter = after.depth;
     f.gatesBefore = static_cast<std::size_t>(ctx.stats.get("extracted") + ctx.stats.get("reused-nodes"));
-    f.kept = ctx.stats.get("limit-hit:cubes-work") > 0;
+    f.kept = ctx.stats.get("limit-hit:cubes-work") > 0 || ctx.stats.get("limit-hit:divisors-max-extractions") > 0;
     f.equivalent = sameFunctions(input, net, 8).empty();
     return f;
+}
+
+// The costs every trial of the engine pays on the whole network besides
+// its technique (F44): copying the network, tidying it and measuring its
+// factored forms (cache warm: the covers were factored once before). The
+// network is the decoder after one whole-network cube extraction (the
+// engine's state after its first opening move). CPU seconds, mean of 3.
+struct Overheads {
+    std::size_t nodes = 0, gates = 0;
+    double copy = 0, tidy = 0, measure = 0, order = 0;
+};
+
+Overheads trialOverheads(std::size_t terms) {
+    net::Network net = syntheticDecoder(terms, 64, 256, 7);
+    passes::tidy(net);
+    passes::PassContext ctx;
+    ctx.depthCap = net::measure(net).depth;
+    passes::ShareCubesOptions o = passes::limitsFor(passes::Effort::Default).cubes;
+    o.inPlaceCubes = 1;
+    passes::shareCubes(net, o, ctx);
+    passes::tidy(net);
+    passes::FactorCache cache;
+    Overheads r;
+    const net::Metrics m = passes::measureFactored(net, -1, &cache);
+    r.nodes = net.logicCount();
+    r.gates = m.gates;
+    auto cpu = [] {
+        timespec ts{};
+        clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
+        return static_cast<double>(ts.tv_sec) + static_cast<double>(ts.tv_nsec) * 1e-9;
+    };
+    const int reps = 3;
+    for (int k = 0; k < reps; ++k) {
+        double t = cpu();
+        net::Network copy = net;
+        r.copy += cpu() - t;
+        t = cpu();
+        passes::tidy(copy);
+        r.tidy += cpu() - t;
+        t = cpu();
+        (void)passes::measureFactored(copy, static_cast<int>(m.depth), &cache);
+        r.measure += cpu() - t;
+        t = cpu();
+        (void)copy.topoOrder();
+        r.order += cpu() - t;
+    }
+    r.copy /= reps, r.tidy /= reps, r.measure /= reps, r.order /= reps;
+    return r;
 }
 
 } // namespace
@@ -257,7 +318,7 @@ int main(int argc, char** argv) {
         else if (a == "-v") ++verbose;
         else {
             std::fprintf(stderr, "usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR] "
-                                 "[--only NAME|synthetic|dont-cares|cube-extraction] [--skip-synthetic] [--min-terms N] [--max-terms N] [-v]\n");
+                                 "[--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--skip-synthetic] [--min-terms N] [--max-terms N] [-v]\n");
             return 2;
         }
     }
@@ -330,6 +391,40 @@ int main(int argc, char** argv) {
             std::fflush(stdout);
         }
     }
+    if (only == "overheads") {
+        std::printf("\nper-trial costs outside the technique (CPU s, mean of 3), after one cube extraction\n");
+        std::printf("%-10s %9s %9s %8s %8s %8s %8s\n", "terms", "nodes", "gates", "copy", "tidy", "measure",
+                    "order");
+        for (std::size_t terms : {1000u, 10000u, 100000u}) {
+            if (minTerms && terms < minTerms) continue;
+            if (maxTerms && terms > maxTerms) continue;
+            Overheads r;
+            int fd[2];
+            if (pipe(fd) != 0) return 1;
+            const pid_t pid = fork();
+            if (pid == 0) {
+                close(fd[0]);
+                const Overheads x = trialOverheads(terms);
+                ssize_t w = write(fd[1], &x, sizeof x);
+                (void)w;
+                _exit(0);
+            }
+            close(fd[1]);
+            const ssize_t got = read(fd[0], &r, sizeof r);
+            close(fd[0]);
+            int status = 0;
+            waitpid(pid, &status, 0);
+            if (got != static_cast<ssize_t>(sizeof r)) {
+                std::printf("%-10zu crashed\n", terms);
+                ++failures;
+                continue;
+            }
+            std::printf("%-10zu %9zu %9zu %8.3f %8.3f %8.3f %8.3f\n", terms, r.nodes, r.gates, r.copy, r.tidy,
+                        r.measure, r.order);
+            std::fflush(stdout);
+        }
+        return failures ? 1 : 0;
+    }
     if (only == "cube-extraction") {
         // F44: the engine's first move on the synthetic decoders, alone. The
         // workspace path rewrites every target cover per extraction; in place
@@ -340,27 +435,27 @@ int main(int argc, char** argv) {
         for (std::size_t terms : {1000u, 10000u, 100000u}) {
             if (minTerms && terms < minTerms) continue;
             if (maxTerms && terms > maxTerms) continue;
-            for (bool inPlace : {false, true}) {
-                if (!inPlace && terms >= 100000 && maxTerms != 0 && maxTerms < 100000) continue;
-                if (!inPlace && terms >= 100000 && maxTerms == 0) {
+            for (int path : {0, 1, 2}) {
+                const char* pathName = path == 0 ? "workspace" : path == 1 ? "in place" : "divisors";
+                if (path == 0 && terms >= 100000 && maxTerms != 0 && maxTerms < 100000) continue;
+                if (path == 0 && terms >= 100000 && maxTerms == 0) {
                     std::printf("%-10zu %-10s (not run: about 1000 s, F44; --max-terms 100000 runs it)\n", terms,
                                 "workspace");
                     continue;
                 }
                 Figures f;
                 long rss = 0;
-                bool ok = isolated([&] { return cubeExtraction(terms, inPlace); }, f, rss);
+                bool ok = isolated([&] { return cubeExtraction(terms, path); }, f, rss);
                 if (!ok) {
-                    std::printf("%-10zu %-10s crashed\n", terms, inPlace ? "in place" : "workspace");
+                    std::printf("%-10zu %-10s crashed\n", terms, pathName);
                     ++failures;
                     continue;
                 }
                 std::string notes = f.equivalent ? "" : " NOT-EQUIVALENT";
                 if (!f.equivalent) ++failures;
                 if (f.depthAfter > f.depthBefore) { notes += " DEEPER"; ++failures; }
-                if (f.kept) notes += " cubes-work cut it short";
-                std::printf("%-10zu %-10s %9zu %9zu %6zu %6zu %11zu %9.2f %9.2f%s\n", terms,
-                            inPlace ? "in place" : "workspace", f.litsBefore, f.litsAfter, f.depthBefore,
+                if (f.kept) notes += " a work limit cut it short";
+                std::printf("%-10zu %-10s %9zu %9zu %6zu %6zu %11zu %9.2f %9.2f%s\n", terms, pathName, f.litsBefore, f.litsAfter, f.depthBefore,
                             f.depthAfter, f.gatesBefore, f.seconds, gLastCpu, notes.c_str());
                 std::fflush(stdout);
             }

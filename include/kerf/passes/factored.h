@@ -35,6 +35,10 @@ public:
 
     struct Impl;
     Impl& impl() { return *impl_; }
+    struct Entry;
+    /// best()/quick() on an entry already looked up (factored.cpp).
+    const algebra::Factored& best(Entry& e, const algebra::Cover& f);
+    const algebra::Factored& quick(Entry& e, const algebra::Cover& f);
 
 private:
     std::unique_ptr<Impl> impl_;
