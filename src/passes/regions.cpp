@@ -80,6 +80,7 @@ void addRow(EngineResult& res, const TechniqueRow& r) {
         t.gatesSaved += r.gatesSaved;
         t.depthSaved += r.depthSaved;
         t.unchanged += r.unchanged;
+        t.skipped += r.skipped;
         t.seconds += r.seconds;
         t.cpuSeconds += r.cpuSeconds;
         for (const auto& kv : r.counters) {

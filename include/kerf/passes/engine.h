@@ -118,6 +118,7 @@ struct TechniqueRow {
     long long gatesSaved = 0;         ///< over the kept moves
     long long depthSaved = 0;
     int unchanged = 0;                ///< moves valued that kept no edit (gain 0, not measured)
+    int skipped = 0;                  ///< opening moves not valued: their ceiling was below a gain found
     double seconds = 0;               ///< wall time of its trials
     double cpuSeconds = 0;            ///< CPU time of its trials (a regroup's includes its inner trials)
     std::vector<std::pair<std::string, long long>> counters;   ///< summed over kept moves
