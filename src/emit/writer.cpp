@@ -1323,6 +1323,26 @@ void Writer::decide() {
         else if (gain <= 0) G.reason = fmt::format("no saving ({} -> {} gates)", G.gatesBefore, G.gatesAfter);
         else G.reason = fmt::format("saves {:g} gate{} ({} -> {}), less than --min-gain {}", gain, gain == 1 ? "" : "s",
                                     G.gatesBefore, G.gatesAfter, opts_.minGain.str());
+        // A block whose rewrite is only constants reads nothing: an `always @(*)` block then
+        // never runs (IEEE 1364-2005 9.7.5: it waits for a change of what it reads) and its
+        // variables stay x; simulators that run always_comb alike do the same. Kept as written.
+        if (G.replaced) {
+            std::map<int, bool> constantOnly;   // block statement -> every bit it writes is a constant
+            for (std::size_t i : outsOf[g]) {
+                int st = outs_[i].stmt;
+                if (st < 0 || byId_.at(st)->kind != frontend::MemberKind::Comb) continue;
+                bool c = literalVar(net_.outputs()[i].driver) == 0;
+                auto [it, fresh] = constantOnly.emplace(st, c);
+                if (!fresh) it->second = it->second && c;
+            }
+            for (const auto& [st, c] : constantOnly)
+                if (c) {
+                    G.replaced = false;
+                    G.reason = "its rewrite would be a block of constants, which reads nothing and so never runs "
+                               "as always @(*) (IEEE 1364-2005 9.7.5)";
+                    break;
+                }
+        }
         // A loop variable declared in the module (`integer p;` for `for (p = 0; ...)`) that only
         // the replaced block uses would be left declared and unused (Verilator UNUSEDSIGNAL), and
         // its declaration is never deleted: the block stays as written.
@@ -2197,6 +2217,7 @@ WriteResult Writer::run() {
     res.notRead = unreadBits();
     // Named constants only the replaced statements named and the new text does not: read by
     // the same wire, so that lint reports no unused parameter the original did not have.
+    std::map<std::string, std::string> sizedText;   // constant -> its sized text in a concatenation
     {
         std::set<int> replacedNamed, keptNamed;
         std::set<int> replacedIds;
@@ -2212,6 +2233,11 @@ WriteResult Writer::run() {
             res.constantsNotNamed.push_back(nc.ref);
             res.notRead.push_back(nc.ref);
             notReadWidth_ += nc.width();
+            // An untyped parameter (`localparam DEBUG = 0`) is unsized, which a concatenation
+            // does not allow (IEEE 1800 11.4.12); its part-select is sized. The description does
+            // not tell it from `localparam int`, so every 32-bit integer constant gets one.
+            if (nc.sliceable && nc.width() == 32 && nc.msb == 31 && nc.lsb == 0)
+                sizedText[nc.ref] = fmt::format("{}[31:0]", nc.ref);
         }
     }
     if (!res.notRead.empty()) {
@@ -2223,7 +2249,11 @@ WriteResult Writer::run() {
         std::string name = opts_.prefix.empty() ? "kf_unused" : opts_.prefix + "unused";
         for (int k = 2; used.count(name); ++k) name = fmt::format("{}{}_{}", opts_.prefix.empty() ? "kf_" : opts_.prefix, "unused", k);
         std::string cat;
-        for (std::size_t k = res.notRead.size(); k-- > 0;) cat += res.notRead[k] + (k ? ", " : "");
+        for (std::size_t k = res.notRead.size(); k-- > 0;) {
+            auto sized = sizedText.find(res.notRead[k]);
+            cat += (res.notRead.size() > 1 && sized != sizedText.end() ? sized->second : res.notRead[k]) +
+                   (k ? ", " : "");
+        }
         if (res.notRead.size() > 1) cat = "{" + cat + "}";
         std::string ind = indentOf(src_, edits.empty() ? endAt : edits.front().start);
         if (ind.empty()) ind = "  ";
