@@ -339,6 +339,7 @@ struct UnionFind {
 struct Edit {
     std::size_t start, end;
     std::string text;
+    int group = -1;   ///< the statement group whose rewrite it is (-1: none)
 };
 
 class Writer {
@@ -372,6 +373,10 @@ private:
     bool checkCycles();
     void decide();
     void keepReaders();
+    /// Whether output i's statement reads, by name, an author's signal of another group whose
+    /// logic as read is i's own (node r): a copy, whose logic is that group's.
+    bool copiesOtherGroup(std::size_t i, NodeId r, const std::vector<int>& groupOfOutput);
+    std::vector<std::vector<std::size_t>> origDriven_;   ///< per original node: the author's outputs it drives
 
     // ---- text
     PExpr outputExpr(std::size_t i);
@@ -1297,10 +1302,11 @@ void Writer::decide() {
         // A group's own output counts its logic even where another group computes the same
         // (its text computes it too), except a word operation's operand that is an author's
         // signal of another group: the operation as read names that signal (`a >= sel_b`), and
-        // the rewrite names it too, so the logic is that group's, not a gain of this one.
+        // the rewrite names it too, so the logic is that group's, not a gain of this one. So is
+        // a plain copy (`assign q[0] = q0_t0;`): its text reads the other group's signal.
         for (std::size_t i : outsOf[g]) {
             NodeId r = literalVar(orig_.outputs()[i].driver);
-            if (!outs_[i].generated || origNamed[r] != stamp) origRoot[r] = stamp;
+            if (outs_[i].generated ? origNamed[r] != stamp : !copiesOtherGroup(i, r, groupOfOutput)) origRoot[r] = stamp;
         }
         G.gatesBefore = 0;
         while (!work.empty()) {
@@ -1372,6 +1378,27 @@ void Writer::decide() {
             }
     }
     keepReaders();
+}
+
+bool Writer::copiesOtherGroup(std::size_t i, NodeId r, const std::vector<int>& groupOfOutput) {
+    if (origDriven_.empty()) {
+        origDriven_.resize(orig_.nodeCount());
+        for (std::size_t j = 0; j < outs_.size(); ++j)
+            if (!outs_[j].generated) origDriven_[literalVar(orig_.outputs()[j].driver)].push_back(j);
+    }
+    for (std::size_t j : origDriven_[r]) {
+        if (j == i || groupOfOutput[j] == groupOfOutput[i]) continue;
+        const auto key = std::make_pair(outs_[j].bit.signal, outs_[j].bit.offset);
+        for (int mid : membersOfStmt_.at(outs_[i].stmt)) {
+            auto m = memberReads_.find(mid);
+            if (m == memberReads_.end()) {
+                m = memberReads_.emplace(mid, std::pair<std::set<std::pair<std::string, int>>, std::set<std::string>>{}).first;
+                originalReads(m_, *byId_.at(mid), m->second.first, m->second.second);
+            }
+            if (m->second.first.count(key) || m->second.second.count(key.first)) return true;
+        }
+    }
+    return false;
 }
 
 void Writer::keepReaders() {
@@ -2092,10 +2119,9 @@ WriteResult Writer::run() {
         if (groupPos_[g] != std::string::npos) {
             std::string block = wireBlock(static_cast<int>(g), indentOf(src_, groupPos_[g]));
             if (!block.empty()) {
-                edits.push_back({groupPos_[g], groupPos_[g], block});
+                edits.push_back({groupPos_[g], groupPos_[g], block, static_cast<int>(g)});
                 firstChange = std::min(firstChange, groupPos_[g]);
             }
-            for (NodeId w : groupWires_[g]) res.wiresAdded.push_back(refs_[w]->text);
         }
         for (int s : groupStmts_[g]) {
             const auto* mem = byId_.at(s);
@@ -2107,12 +2133,12 @@ WriteResult Writer::run() {
                 std::size_t le = src_.find('\n', mem->src.end);
                 le = le == std::string::npos ? src_.size() : le + 1;
                 if (!mem->netDecl && blankBetween(src_, ls, mem->src.start) && blankBetween(src_, mem->src.end, le - 1))
-                    edits.push_back({ls, le, ""});
-                else edits.push_back({mem->src.start, mem->src.end, ""});
+                    edits.push_back({ls, le, "", static_cast<int>(g)});
+                else edits.push_back({mem->src.start, mem->src.end, "", static_cast<int>(g)});
                 firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
                 continue;
             }
-            edits.push_back({mem->src.start, mem->src.end, statementsFor(s, ind, nullptr)});
+            edits.push_back({mem->src.start, mem->src.end, statementsFor(s, ind, nullptr), static_cast<int>(g)});
             firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
             // Other statements writing bits of the same signals: the first one now writes them all.
             std::set<std::pair<std::size_t, std::size_t>> done{{mem->src.start, mem->src.end}};
@@ -2124,17 +2150,8 @@ WriteResult Writer::run() {
                 le = le == std::string::npos ? src_.size() : le + 1;
                 if (!other->netDecl && blankBetween(src_, ls, other->src.start) &&
                     blankBetween(src_, other->src.end, le - 1))
-                    edits.push_back({ls, le, ""});
-                else edits.push_back({other->src.start, other->src.end, ""});
-            }
-        }
-        for (std::size_t i = 0; i < outs_.size(); ++i) {
-            if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;
-            NodeId v = literalVar(net_.outputs()[i].driver);
-            if (definer_[v] == static_cast<int>(i)) {
-                const std::string& sg = outs_[i].bit.signal;
-                if (!isPort(sg) && std::find(res.namesKept.begin(), res.namesKept.end(), sg) == res.namesKept.end())
-                    res.namesKept.push_back(sg);
+                    edits.push_back({ls, le, "", static_cast<int>(g)});
+                else edits.push_back({other->src.start, other->src.end, "", static_cast<int>(g)});
             }
         }
     }
@@ -2188,14 +2205,37 @@ WriteResult Writer::run() {
             i = j;
         }
     }
-    // A statement rewritten into exactly its own text is no change (kerf run on its own output).
+    // A statement rewritten into exactly its own text is no change (kerf run on its own output),
+    // and a group all of whose statements come back so is reported as kept: the header, the
+    // summary and the report count only groups whose text changes.
     edits.erase(std::remove_if(edits.begin(), edits.end(),
                                [&](const Edit& e) { return e.end > e.start && src_.compare(e.start, e.end - e.start, e.text) == 0; }),
                 edits.end());
+    {
+        std::vector<std::uint8_t> edited(groups_.size(), 0);
+        for (const auto& e : edits)
+            if (e.group >= 0) edited[static_cast<std::size_t>(e.group)] = 1;
+        for (std::size_t g = 0; g < groups_.size(); ++g)
+            if (res.groups[g].replaced && !edited[g])
+                res.groups[g].replaced = false, res.groups[g].reason = "rewritten into the same text";
+    }
     if (edits.empty()) {
         res.text = src_;
-        for (auto& G : res.groups) G.replaced = false, G.reason = "rewritten into the same text";
         return res;
+    }
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        if (!res.groups[g].replaced) continue;
+        if (groupPos_[g] != std::string::npos)
+            for (NodeId w : groupWires_[g]) res.wiresAdded.push_back(refs_[w]->text);
+        for (std::size_t i = 0; i < outs_.size(); ++i) {
+            if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;
+            NodeId v = literalVar(net_.outputs()[i].driver);
+            if (definer_[v] == static_cast<int>(i)) {
+                const std::string& sg = outs_[i].bit.signal;
+                if (!isPort(sg) && std::find(res.namesKept.begin(), res.namesKept.end(), sg) == res.namesKept.end())
+                    res.namesKept.push_back(sg);
+            }
+        }
     }
     // kerf run on its own output: the header comment of the earlier run (and its note line) goes;
     // the one written below has the figures of this run, so the module has one header.

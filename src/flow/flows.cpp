@@ -36,6 +36,15 @@ namespace {
 using Clock = std::chrono::steady_clock;
 double since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
 
+/// A statement group's line ranges as the summary and the `-v` table print them: "12", "14-19,23".
+std::string lineRanges(const std::vector<std::pair<int, int>>& lines) {
+    std::string s;
+    for (std::size_t i = 0; i < lines.size(); ++i)
+        s += (i ? "," : "") + (lines[i].first == lines[i].second ? std::to_string(lines[i].first)
+                                                                : fmt::format("{}-{}", lines[i].first, lines[i].second));
+    return s;
+}
+
 std::string percent(std::size_t before, std::size_t after) {
     if (before == 0) return "0%";
     double p = 100.0 * (static_cast<double>(after) - static_cast<double>(before)) / static_cast<double>(before);
@@ -469,15 +478,8 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                  after.depth, after.nodes);
         for (const auto& g : wr.groups)
             std::cerr << fmt::format("  statements at line{} {}: {} -> {} gates, {}\n", g.lines.size() == 1 ? "" : "s",
-                                     [&] {
-                                         std::string s;
-                                         for (std::size_t i = 0; i < g.lines.size(); ++i)
-                                             s += (i ? "," : "") + (g.lines[i].first == g.lines[i].second
-                                                                        ? std::to_string(g.lines[i].first)
-                                                                        : fmt::format("{}-{}", g.lines[i].first, g.lines[i].second));
-                                         return s;
-                                     }(),
-                                     g.gatesBefore, g.gatesAfter, g.replaced ? "rewritten" : "kept as written: " + g.reason);
+                                     lineRanges(g.lines), g.gatesBefore, g.gatesAfter,
+                                     g.replaced ? "rewritten" : "kept as written: " + g.reason);
         // Statements kerf does not restructure at all, each with its reason (kept code,
         // parameter-dependent logic, text other defines could change).
         for (const auto& k : proof::keptStatements(desc, low)) std::cerr << "  " << proof::describeKept(k) << "\n";
@@ -496,12 +498,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         if (wr.changed)
             for (const auto& g : wr.groups) {
                 if (g.replaced || g.lines.empty()) continue;
-                std::string ls;
-                for (std::size_t i = 0; i < g.lines.size(); ++i)
-                    ls += (i ? "," : "") + (g.lines[i].first == g.lines[i].second
-                                                ? std::to_string(g.lines[i].first)
-                                                : fmt::format("{}-{}", g.lines[i].first, g.lines[i].second));
-                add(g.reason, ls);
+                add(g.reason, lineRanges(g.lines));
             }
         for (const auto& k : proof::keptStatements(desc, low)) add(k.what + ": " + k.reason, std::to_string(k.src.line));
         constexpr std::size_t kShown = 10;   // lines listed per reason; the report has all of them

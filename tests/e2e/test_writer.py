@@ -450,6 +450,95 @@ def _(t):
     t.res.check(c.returncode == 0, "--check agrees with --min-gain 100%")
 
 
+COPY_COUNT = """module copy_count (
+  input  logic [3:0] a,
+  input  logic [1:0] s,
+  output logic       q,
+  output logic       y
+);
+  logic t;
+  assign t = (a[0] & a[1]) | (a[0] & ~a[1] & a[2]) | (a[0] & ~a[1] & ~a[2] & a[3]);
+  assign q = t;
+  assign y = t & s[0];
+endmodule
+"""
+
+
+@S.case("copy_counts_nothing_before", needs=("iverilog",))
+def _(t):
+    """F73: a plain copy (`assign q = t;`) computes nothing of its own: by the cost model
+    (two-input gates of the text, docs/guide.md) it is 0 gates as written and 0 rewritten, so its
+    group is kept, not counted as rewritten with t's logic as its "before". The groups' "before"
+    figures then add up to the module's (no logic counted twice in this module), and the header
+    and summary count only the group whose text changes."""
+    src = os.path.join(t.work, "copy_count.sv")
+    open(src, "w").write(COPY_COUNT)
+    out, rep = os.path.join(t.work, "out.sv"), os.path.join(t.work, "report.json")
+    r = restructure(t, [src], "copy_count", out, "--report", rep)
+    if not t.res.check(r.returncode == 0 and os.path.exists(rep), f"restructure: {r.stderr[-800:]}"):
+        return
+    j = json.load(open(rep))
+    groups = {tuple(g["outputs"]): g for g in j["groups"]}
+    if not t.res.check(set(groups) == {("t",), ("q",), ("y",)}, f"one group per statement: {j['groups']}"):
+        return
+    copy, logic = groups[("q",)], groups[("t",)]
+    t.res.check(copy["gates_before"] == 0 and copy["gates_after"] == 0 and not copy["rewritten"],
+                f"the copy counts 0 -> 0 gates and is kept: {copy}")
+    t.res.check(any(k["lines"] == [[9, 9]] for k in j["kept_as_written"]),
+                f"the copy's line 9 is listed as kept: {j['kept_as_written']}")
+    t.res.check(logic["rewritten"] and logic["gates_before"] > logic["gates_after"],
+                f"t's redundant sum of products is rewritten smaller: {logic}")
+    t.res.check(sum(g["gates_before"] for g in j["groups"]) == j["before"]["gates"],
+                f"the groups' before figures add up to the module's {j['before']['gates']}: {j['groups']}")
+    rewritten = sum(1 for g in j["groups"] if g["rewritten"])
+    text = open(out).read()
+    t.res.check(rewritten == 1 and j["lines_replaced"] == [[8, 8]], f"one group rewritten, line 8: {j['lines_replaced']}")
+    t.res.check(re.search(rf"// kerf: {rewritten} of 3 groups rewritten", text) is not None
+                and f"{rewritten} of 3 statement groups rewritten" in r.stderr,
+                f"header and summary count {rewritten} of 3: {text} {r.stderr[-400:]}")
+    t.res.check("  assign q = t;\n" in text, "the copy stays byte for byte")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], "copy_count", out, sim, vectors=2000)
+    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
+
+
+@S.case("rerun_counts_changed_groups", needs=("iverilog",))
+def _(t):
+    """F73: kerf on its own output (tests/rtl/edge_sem.sv, whose second run still rewrites one
+    statement: F71) reports as rewritten only groups whose text changes: the text of each group
+    the report calls rewritten is gone from the written file, and every line the report lists
+    as kept is still there byte for byte."""
+    case = os.path.join("tests", "rtl", "edge_sem.sv")
+    first = os.path.join(t.work, "first.sv")
+    r = restructure(t, [case], "edge_sem", first)
+    if not t.res.check(r.returncode == 0, f"first run: {r.stderr[-800:]}"):
+        return
+    second, rep = os.path.join(t.work, "second.sv"), os.path.join(t.work, "report.json")
+    r = restructure(t, [first], "edge_sem", second, "--report", rep)
+    if not t.res.check(r.returncode == 0, f"second run: {r.stderr[-800:]}"):
+        return
+    j = json.load(open(rep))
+    lines = open(first).read().split("\n")
+    out_lines = open(second).read().split("\n")
+    out_text = "\n".join(out_lines)
+    for g in j["groups"]:
+        for a, b in g["lines"]:
+            block = "\n".join(lines[a - 1:b]) + "\n"
+            if g["rewritten"]:
+                t.res.check(block not in out_text, f"group at {a}-{b} reported rewritten, its text changed: {block!r}")
+            else:
+                t.res.check(block in out_text, f"group at {a}-{b} reported kept, its text stays: {block!r}")
+    n = sum(1 for g in j["groups"] if g["rewritten"])
+    if j["changed"]:
+        t.res.check(re.search(rf"// kerf: {n} of {len(j['groups'])} groups? rewritten", out_text) is not None,
+                    f"the header counts {n} of {len(j['groups'])} groups")
+        sim = os.path.join(t.work, "sim")
+        os.mkdir(sim)
+        ok, log, _ = K.simulate_equal(t.root, [first], "edge_sem", second, sim, vectors=3000)
+        t.res.check(ok, f"the second rewrite simulates like its input (Icarus Verilog): {log}")
+
+
 def _longest_flat_chain(expr):
     """The most operands any one parenthesis level of `expr` joins with one operator."""
     counts, best = [1], 1
