@@ -1935,9 +1935,10 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
 std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t>& bits, int width) {
     if (static_cast<int>(bits.size()) != width || width < 1) return std::nullopt;
     struct Piece {
-        const VarRef* ref = nullptr;   // null: a constant run
+        const VarRef* ref = nullptr;   // null: a constant run, or `expr`
         int lo = 0, n = 0;             // ref: offsets [lo, lo + n); constant: bits in `value` (msb first)
         std::string value;
+        std::string expr;              // a complemented name (`~v[11]`), printed as it stands
     };
     std::vector<Piece> pieces;   // most significant first
     for (int k = width - 1; k >= 0; --k) {
@@ -1946,11 +1947,17 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
         PExpr e = outputExpr(it->second);
         if (e.kind == PExpr::Kind::Zero || e.kind == PExpr::Kind::One) {
             char c = (e.kind == PExpr::Kind::One) != e.neg ? '1' : '0';
-            if (!pieces.empty() && !pieces.back().ref) pieces.back().value += c;
-            else pieces.push_back({nullptr, 0, 0, std::string(1, c)});
+            if (!pieces.empty() && !pieces.back().ref && pieces.back().expr.empty()) pieces.back().value += c;
+            else pieces.push_back({nullptr, 0, 0, std::string(1, c), {}});
             continue;
         }
-        if (e.kind != PExpr::Kind::Ref || e.neg || !e.ref) return std::nullopt;
+        if (e.kind != PExpr::Kind::Ref || !e.ref) return std::nullopt;
+        if (e.neg) {
+            // One complemented name stays one element (`{3'b000, ~v[11]}`): a bit statement
+            // per constant bit of the operand would be padding a reviewer has to read past.
+            pieces.push_back({nullptr, 0, 0, {}, flatText(e)});
+            continue;
+        }
         const VarRef* r = e.ref;
         if (!pieces.empty() && pieces.back().ref && !r->signal.empty() && pieces.back().ref->signal == r->signal &&
             pieces.back().lo == r->offset + 1) {
@@ -1958,11 +1965,13 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
             ++pieces.back().n;
             continue;
         }
-        pieces.push_back({r, r->offset, 1, {}});
+        pieces.push_back({r, r->offset, 1, {}, {}});
     }
     std::vector<std::string> texts;
     for (const auto& p : pieces) {
-        if (!p.ref) {
+        if (!p.expr.empty()) {
+            texts.push_back(p.expr);
+        } else if (!p.ref) {
             texts.push_back(fmt::format("{}'b{}", p.value.size(), p.value));
         } else if (p.ref->signal.empty()) {
             texts.push_back(p.ref->text);
@@ -1981,7 +1990,9 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
         // A part select or a constant is unsigned; a whole name might be declared signed.
         const std::string& t = texts[0];
         bool generated = pieces[0].ref && !pieces[0].ref->module && !pieces[0].ref->signal.empty();
-        if (!t.empty() && (generated || t.back() == ']' || t.find('\'') != std::string::npos)) return t;
+        // A complement is braced: in the operation's wider context `~v[11]` would widen first.
+        if (!t.empty() && pieces[0].expr.empty() && (generated || t.back() == ']' || t.find('\'') != std::string::npos))
+            return t;
         return "{" + t + "}";
     }
     std::string cat = "{";
@@ -2051,9 +2062,83 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
         out += ind + statement(ind, "wire " + refs_[w]->text + " = ", eb.definition(w, refs_[w]->inverted)) + "\n";
     }
     if (words) {
+        // An operand with constant bits is one vector assignment when it fits on a line
+        // (`assign kf_w0_a = {2'b00, a & b, c};`), not a statement per bit padding it.
+        std::map<std::string, std::map<int, std::size_t>> bitsOf;
         for (std::size_t i = 0; i < outs_.size(); ++i)
             if (outs_[i].generated && groupOfOut(i) == g && !inlined.count(outs_[i].bit.signal) &&
                 !repeatedOperands.count(outs_[i].bit.signal))
+                bitsOf[outs_[i].bit.signal][outs_[i].bit.offset] = i;
+        std::set<std::string> asVector;
+        for (const auto& [name, bits] : bitsOf) {
+            auto gw = generatedWidths().find(name);
+            if (gw == generatedWidths().end() || static_cast<int>(bits.size()) != gw->second || gw->second < 2) continue;
+            const int width = gw->second;
+            std::vector<PExpr> bit(static_cast<std::size_t>(width));   // least significant first
+            bool constant = false, logic = false;
+            if (bits.begin()->first != 0 || bits.rbegin()->first != width - 1) continue;   // not bits 0..width-1
+            for (const auto& [k, i] : bits) {
+                bit[static_cast<std::size_t>(k)] = outputExpr(i);
+                bool c = bit[static_cast<std::size_t>(k)].kind == PExpr::Kind::Zero ||
+                         bit[static_cast<std::size_t>(k)].kind == PExpr::Kind::One;
+                constant = constant || c;
+                logic = logic || !c;
+            }
+            if (!constant || !logic) continue;
+            auto isConst = [&](int k) {
+                return bit[static_cast<std::size_t>(k)].kind == PExpr::Kind::Zero ||
+                       bit[static_cast<std::size_t>(k)].kind == PExpr::Kind::One;
+            };
+            // Elements least significant first: runs of constants, and runs of logic bits that
+            // share one shape written as one vector expression (vectorTemplate), else bit by bit.
+            std::vector<std::string> texts;
+            std::vector<PExpr> exprs;
+            for (int k = 0; k < width;) {
+                int j = k;
+                if (isConst(k)) {
+                    std::string run;
+                    for (; j < width && isConst(j); ++j) {
+                        const PExpr& e = bit[static_cast<std::size_t>(j)];
+                        run.insert(run.begin(), (e.kind == PExpr::Kind::One) != e.neg ? '1' : '0');
+                    }
+                    texts.push_back(fmt::format("{}'b{}", run.size(), run));
+                    k = j;
+                    continue;
+                }
+                while (j + 1 < width && !isConst(j + 1)) ++j;
+                auto runOf = [&](int hi) {
+                    return std::span<const PExpr>(bit.data() + k, static_cast<std::size_t>(hi - k + 1));
+                };
+                int best = k;
+                std::optional<PExpr> bestT;
+                if (j > k)
+                    if (auto T = vectorTemplate(runOf(k + 1))) {   // closed under shortening: bisect
+                        int lo = k + 1, hi = j;
+                        bestT = std::move(T);
+                        while (lo < hi) {
+                            int mid = lo + (hi - lo + 1) / 2;
+                            if (auto M = vectorTemplate(runOf(mid))) lo = mid, bestT = std::move(M);
+                            else hi = mid - 1;
+                        }
+                        best = lo;
+                    }
+                PExpr e = bestT ? std::move(*bestT) : bit[static_cast<std::size_t>(k)];
+                texts.push_back(flatText(e));
+                exprs.push_back(std::move(e));
+                k = best + 1;
+            }
+            std::reverse(texts.begin(), texts.end());
+            std::string line = ind + "assign " + verilogName(name) + " = {";
+            for (std::size_t q = 0; q < texts.size(); ++q) line += (q ? ", " : "") + texts[q];
+            line += "};";
+            if (line.size() > opts_.lineLimit) continue;
+            for (const auto& e : exprs) collectConstants(e, constantsNamed_);
+            out += line + "\n";
+            asVector.insert(name);
+        }
+        for (std::size_t i = 0; i < outs_.size(); ++i)
+            if (outs_[i].generated && groupOfOut(i) == g && !inlined.count(outs_[i].bit.signal) &&
+                !repeatedOperands.count(outs_[i].bit.signal) && !asVector.count(outs_[i].bit.signal))
                 out += ind + statement(ind, "assign " + bitText(m_, outs_[i].bit) + " = ", outputExpr(i)) + "\n";
         for (std::size_t k = 0; k < low_.wordOps.size(); ++k) {
             const auto& w = low_.wordOps[k];

@@ -539,6 +539,39 @@ def _(t):
         t.res.check(ok, f"the second rewrite simulates like its input (Icarus Verilog): {log}")
 
 
+def _operand_case(t, case, top):
+    """F80 (writer side): a kept word operator's operand with constant bits is written with the
+    constants inside one expression (`{3'b000, ~v[11]}`), never as padding statements assigning
+    a constant to a bit of a kerf wire (`assign kf_w0_a[1] = 1'b0;`). Checked against Icarus
+    Verilog (simulation) and Verilator -Wall (no warning the original does not have)."""
+    src = os.path.join("tests", "rtl", case)
+    d = os.path.join(t.work, top)
+    os.mkdir(d)
+    out = os.path.join(d, case)
+    r = restructure(t, [src], top, out)
+    if not t.res.check(r.returncode == 0, f"{top}: restructure: {r.stderr[-800:]}"):
+        return
+    text = open(out).read()
+    t.res.check(text != open(src).read(), f"{top}: the module is rewritten")
+    pad = re.findall(r"^\s*assign\s+kf_\w+\s*\[\d+(?::\d+)?\]\s*=\s*\d+'[bdh][0-9a-fA-F_]+\s*;", text, re.M)
+    t.res.check(not pad, f"{top}: no constant padding statement: {pad[:3]}")
+    t.res.check(re.search(r"\{\d+'b0+, ", text) is not None, f"{top}: the constant bits are in a concatenation")
+    sim = os.path.join(d, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], top, out, sim, vectors=4000)
+    t.res.check(ok, f"{top}: the rewrite simulates like the input (Icarus Verilog): {log}")
+    if shutil.which("verilator"):
+        ok0, w0, _ = O.lint([src], top)
+        ok1, w1, raw = O.lint([out], top)
+        t.res.check(ok0 and ok1 and w1 <= w0, f"{top}: Verilator -Wall adds no warning: {sorted(w1 - w0)} {raw[-600:]}")
+
+
+@S.case("operand_constants_inline", needs=("iverilog", "verilator"))
+def _(t):
+    _operand_case(t, "lzc_fn.sv", "lzc_fn")
+    _operand_case(t, "credit_pad_operand.sv", "credit_pad_operand")
+
+
 def _longest_flat_chain(expr):
     """The most operands any one parenthesis level of `expr` joins with one operator."""
     counts, best = [1], 1
