@@ -493,7 +493,7 @@ private:
         // A technique that kept no edit left the (tidy) network as it was:
         // its gain is 0 without tidying and measuring it again.
         const bool unchanged = s.growth < 0 && ctx.edits == 0;
-        if (!unchanged) tidy(*trial, ctx);
+        if (!unchanged) tidy(*trial, ctx, net);   // `net` is tidy: its unchanged wide covers need no simplifying
         const double c3 = detail::cpuNow();
         net::Metrics m = unchanged ? current : measure(*trial);
         const double c4 = detail::cpuNow();

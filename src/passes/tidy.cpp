@@ -28,7 +28,13 @@ using algebra::literalVar;
 using algebra::makeLiteral;
 using algebra::negateLiteral;
 
-void tidy(net::Network& net, PassContext& ctx) {
+namespace {
+
+// Covers of more cubes are compared with the base before simplifying (below
+// that, simplifying costs about as much as the comparison).
+constexpr std::size_t kCompareCubes = 32;
+
+void tidyImpl(net::Network& net, PassContext& ctx, const net::Network* base) {
     const std::size_t n = net.nodeCount();
     // repl[v]: the literal v's positive literal stands for (2v when kept).
     std::vector<Literal> repl(n);
@@ -63,9 +69,12 @@ void tidy(net::Network& net, PassContext& ctx) {
             }
             cv = std::move(nc);
         }
+        const bool known = !changed && base && cv.cubes.size() > kCompareCubes && v < base->nodeCount() &&
+                           base->isLogic(v) && base->node(v).cover == cv;
         // Containment is quadratic in the cubes: very large covers get it
         // only when a substitution changed them.
-        if (changed || cv.cubes.size() <= 2000) detail::canonical(cv);
+        if (known) {}   // canonical already (tidied in the base)
+        else if (changed || cv.cubes.size() <= 2000) detail::canonical(cv);
         else cv.normalize();
         if (!changed && (cv.literalCount() != before || cv.cubes.size() != cubesBefore)) ++simplified;
         if (cv.isZero()) { repl[v] = net::kFalse; ++constants; continue; }
@@ -92,6 +101,12 @@ void tidy(net::Network& net, PassContext& ctx) {
     ctx.stats.add("simplified", simplified);
     ctx.stats.add("dead", static_cast<long long>(dead));
 }
+
+} // namespace
+
+void tidy(net::Network& net, PassContext& ctx) { tidyImpl(net, ctx, nullptr); }
+
+void tidy(net::Network& net, PassContext& ctx, const net::Network& base) { tidyImpl(net, ctx, &base); }
 
 void tidy(net::Network& net) {
     PassContext ctx;

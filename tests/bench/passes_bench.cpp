@@ -284,7 +284,8 @@ Overheads trialOverheads(std::size_t terms) {
         net::Network copy = net;
         r.copy += cpu() - t;
         t = cpu();
-        passes::tidy(copy);
+        passes::PassContext tc;
+        passes::tidy(copy, tc, net);   // as the engine tidies a trial: against the network it was copied from
         r.tidy += cpu() - t;
         t = cpu();
         (void)passes::measureFactored(copy, static_cast<int>(m.depth), &cache);

@@ -19,4 +19,10 @@ void tidy(net::Network& net);
 /// Same, reporting counters (constants, buffers, merged, dead) into ctx.stats.
 void tidy(net::Network& net, PassContext& ctx);
 
+/// Same, where `net` was copied from `base`, a network tidied before: a
+/// wide cover whose fanins keep their literals and that equals its node's
+/// cover in `base` is already in canonical form and is not simplified again
+/// (the engine tidies every trial; on wide covers that was most of it, F44).
+void tidy(net::Network& net, PassContext& ctx, const net::Network& base);
+
 } // namespace kerf::passes
