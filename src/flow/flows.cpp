@@ -37,11 +37,19 @@ using Clock = std::chrono::steady_clock;
 double since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
 
 /// A statement group's line ranges as the summary and the `-v` table print them: "12", "14-19,23".
+/// Ranges that follow each other (statements on lines 7, 8, 9) print as one ("7-9"): a flat
+/// netlist's group of 14,000 one-line statements is one range, not 14,000 numbers.
 std::string lineRanges(const std::vector<std::pair<int, int>>& lines) {
+    std::vector<std::pair<int, int>> merged;
+    for (const auto& r : lines)
+        if (!merged.empty() && r.first >= merged.back().first && r.first <= merged.back().second + 1)
+            merged.back().second = std::max(merged.back().second, r.second);
+        else
+            merged.push_back(r);
     std::string s;
-    for (std::size_t i = 0; i < lines.size(); ++i)
-        s += (i ? "," : "") + (lines[i].first == lines[i].second ? std::to_string(lines[i].first)
-                                                                : fmt::format("{}-{}", lines[i].first, lines[i].second));
+    for (std::size_t i = 0; i < merged.size(); ++i)
+        s += (i ? "," : "") + (merged[i].first == merged[i].second ? std::to_string(merged[i].first)
+                                                                  : fmt::format("{}-{}", merged[i].first, merged[i].second));
     return s;
 }
 
