@@ -217,7 +217,7 @@ private:
 
     // Is there an input pattern where `form` differs from v and the
     // difference reaches a window edge? None (UNSAT) → true.
-    bool confirm(NodeId v, const std::vector<NodeId>& window, const std::vector<NodeId>& edges, const Form& form) {
+    bool confirm([[maybe_unused]] NodeId v, const std::vector<NodeId>& window, const std::vector<NodeId>& edges, const Form& form) {
         // The cone the query needs, breadth first from the window and the
         // divisors, up to coneLevels levels; nodes at the last level are
         // free variables (more behaviours than the circuit has: a query can
