@@ -76,10 +76,6 @@ nlohmann::json stagesJson(const io::StageLog& log) {
 /// them: no declaration is deleted) unless `dissolve`. When `only` is given,
 /// the internal signals kept are just those (the original's, when reading back
 /// the rewrite, so that kerf's new wires are not compared).
-/// Cubes a written expression's node may reach when its operators are merged into one node
-/// (frontend::collapseExpressionNodes); a larger product keeps its parts as nodes of their own.
-constexpr std::size_t kExpressionCubes = 4096;
-
 frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bitBlast, const std::string& prefix,
                           const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {},
                           bool keepX = false, const std::map<int, std::string>& kept = {},
@@ -98,7 +94,10 @@ frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bit
     low.net.removeUnreachable();
     // One node per written expression, as the engine's nodes are written (F42); with internal
     // signals dissolved a signal's logic has no node boundary to keep, so nothing is merged.
-    if (!lo.dissolveInternal) frontend::collapseExpressionNodes(low.net, kExpressionCubes);
+    // A written expression's node reaches at most ExpressionMergeLimits::maxCubes cubes (a larger
+    // product keeps its parts as nodes of their own); above factorCubes a merge is decided from
+    // cube and literal counts, without factoring (F76).
+    if (!lo.dissolveInternal) low.merge = frontend::collapseExpressionNodes(low.net, frontend::ExpressionMergeLimits{});
     return low;
 }
 
@@ -212,6 +211,13 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         }
     }
     const std::map<int, std::string> agreedKept = keptIn(low);
+    if (opts.verbose > 0 && (low.merge.unfactored || low.merge.keptApart)) {
+        const frontend::ExpressionMergeLimits ml;
+        std::cerr << fmt::format("lowering: {} expression merge{} above {} cubes made without factoring, {} not made "
+                                 "(they would multiply out above {} cubes)\n",
+                                 low.merge.unfactored, low.merge.unfactored == 1 ? "" : "s", ml.factorCubes,
+                                 low.merge.keptApart, ml.multiplyCubes);
+    }
     for (const auto& n : low.notes)
         if (!opts.quiet) std::cerr << n << "\n";
     if (!opts.quiet) {

@@ -15,7 +15,13 @@
 // Optimization System", IEEE Trans. CAD 6(6), 1987, from memory), applied only where the
 // text had no node boundary. A substitution that would give its reader more than
 // `maxCubes` cubes, or more two-input gates than the two nodes apart, is not made (the
-// node stays): the figures then count it apart.
+// node stays): the figures then count it apart. Factoring is what those figures cost, and a
+// long sum `t1 | ... | tN` merges one operand at a time into one growing node (F76). A merge
+// that multiplies nothing out (the two nodes' factored forms put together are then a form of
+// the merged node with the gates of the two apart) is made without factoring above
+// `factorCubes` cubes, the growing node taking its operands' cubes in place, tidied (sorted,
+// contained cubes dropped) once when finished; a merge that multiplies out is not made above
+// `multiplyCubes` cubes.
 #include "kerf/frontend/lower.h"
 
 #include <algorithm>
@@ -91,15 +97,20 @@ std::size_t coverGates(const Cover& f) {
 
 } // namespace
 
-std::size_t collapseExpressionNodes(net::Network& net, std::size_t maxCubes) {
+ExpressionMergeCounts collapseExpressionNodes(net::Network& net, const ExpressionMergeLimits& limits) {
+    const std::size_t maxCubes = limits.maxCubes;
     const std::size_t n = net.nodeCount();
-    // Occurrences of each node's literals in logic nodes, and the last reader seen.
+    // Occurrences of each node's literals in logic nodes, the last reader seen and the index of
+    // the cube of that reader holding it (a hint: checked before use).
     std::vector<std::uint32_t> uses(n, 0);
     std::vector<net::NodeId> reader(n, 0);
+    std::vector<std::uint32_t> readerCube(n, 0);
     for (net::NodeId u = 0; u < n; ++u) {
         if (!net.isLogic(u)) continue;
-        for (const Cube& c : net.node(u).cover.cubes)
-            for (Literal l : c.lits) ++uses[literalVar(l)], reader[literalVar(l)] = u;
+        const auto& cubes = net.node(u).cover.cubes;
+        for (std::size_t i = 0; i < cubes.size(); ++i)
+            for (Literal l : cubes[i].lits)
+                ++uses[literalVar(l)], reader[literalVar(l)] = u, readerCube[literalVar(l)] = static_cast<std::uint32_t>(i);
     }
     const std::vector<std::uint32_t> outRefs = net.outputRefs();
     // coverGates of each node's cover, once known: a chain `t1 | t2 | ... | tN` merges into
@@ -111,23 +122,126 @@ std::size_t collapseExpressionNodes(net::Network& net, std::size_t maxCubes) {
         if (gatesOf[u] == kUnknown) gatesOf[u] = coverGates(net.node(u).cover);
         return gatesOf[u];
     };
-    std::size_t merged = 0;
+    // Nodes that took merges decided without factoring: cubes appended, not yet sorted and
+    // free of contained cubes. Each is tidied once, when finished (visited as a fanin, or at
+    // the end), so a long sum costs one sort, not one per operand.
+    std::vector<char> loose(n, 0);
+    auto tidy = [&](net::NodeId u) {
+        if (!loose[u]) return;
+        algebra::removeContainedCubes(net.node(u).cover);
+        loose[u] = 0;
+    };
+    ExpressionMergeCounts counts;
     Cover sub, part, rebuilt;
     // Fanins first: a node carries its own substituted fanins into its reader.
     for (net::NodeId v : net.topoOrder()) {
+        tidy(v);   // every merge into v came from its fanins, visited before it
         if (uses[v] != 1 || outRefs[v] != 0) continue;
         net::NodeId p = reader[v];
         Cover& pc = net.node(p).cover;
-        auto at = std::find_if(pc.cubes.begin(), pc.cubes.end(), [&](const Cube& c) {
+        auto holds = [&](const Cube& c) {
             return std::any_of(c.lits.begin(), c.lits.end(), [&](Literal l) { return literalVar(l) == v; });
-        });
-        if (at == pc.cubes.end()) continue;
-        Literal l = *std::find_if(at->lits.begin(), at->lits.end(), [&](Literal x) { return literalVar(x) == v; });
+        };
+        // The cube of p reading v: the first one in a tidy cover; a loose cover keeps its cubes
+        // in place, so the hint is used when it still holds v.
+        std::size_t atIndex = readerCube[v];
+        if (!loose[p] || atIndex >= pc.cubes.size() || !holds(pc.cubes[atIndex])) {
+            auto it = std::find_if(pc.cubes.begin(), pc.cubes.end(), holds);
+            if (it == pc.cubes.end()) continue;
+            atIndex = static_cast<std::size_t>(it - pc.cubes.begin());
+        }
+        Literal l = *std::find_if(pc.cubes[atIndex].lits.begin(), pc.cubes[atIndex].lits.end(),
+                                  [&](Literal x) { return literalVar(x) == v; });
         const Cover& vc = net.node(v).cover;
+        const std::size_t restLits = pc.cubes[atIndex].lits.size() - 1;
+        // Cubes of what replaces the literal (v, or its complement). `plain`: no multiplying out
+        // there — v's own cubes, the complement of one cube (a sum of single literals) or of a
+        // sum of single literals (one cube); otherwise the complement is multiplied out here.
+        std::size_t subCubes = vc.cubes.size();
+        bool plain = true;
         if (literalNegated(l)) {
-            if (!complement(vc, maxCubes, sub)) continue;
-        } else {
-            sub = vc;
+            if (vc.cubes.size() == 1) {
+                subCubes = vc.cubes[0].lits.size();
+            } else if (std::all_of(vc.cubes.begin(), vc.cubes.end(), [](const Cube& c) { return c.lits.size() == 1; })) {
+                subCubes = 1;
+            } else {
+                // The complement multiplied out (bounded by maxCubes, as the merge itself is).
+                if (!complement(vc, maxCubes, sub)) continue;
+                plain = false;
+                subCubes = sub.cubes.size();
+            }
+        }
+        // The merged node's cubes before contained ones are dropped (an upper bound).
+        const std::size_t estimate = pc.cubes.size() - 1 + subCubes;
+        // Nothing multiplied out: the merged node's literals are those of the two apart, so their
+        // factored forms put together are a form of it with the gates of the two.
+        const bool literalsKept = plain && (restLits == 0 || subCubes == 1);
+        if (!literalsKept && estimate > limits.multiplyCubes) {
+            ++counts.keptApart;
+            continue;
+        }
+        if (literalsKept && estimate > limits.factorCubes) {
+            // Decided from the counts alone.
+            if (estimate > std::max(maxCubes, pc.cubes.size())) continue;
+            if (literalNegated(l)) {
+                sub.cubes.clear();
+                if (vc.cubes.size() == 1) {
+                    for (Literal x : vc.cubes[0].lits) sub.cubes.push_back(Cube(std::vector<Literal>{negateLiteral(x)}));
+                } else {
+                    std::vector<Literal> one;
+                    for (const Cube& c : vc.cubes) one.push_back(negateLiteral(c.lits[0]));
+                    sub.cubes.push_back(Cube(std::move(one)));
+                }
+            } else {
+                sub = vc;   // a copy: a merge multiplied out before may have left v read elsewhere too
+            }
+            std::vector<Literal> rest;
+            for (Literal x : pc.cubes[atIndex].lits)
+                if (x != l) rest.push_back(x);
+            // In place: the first cube where v's literal was, the others appended, so that the
+            // cube hints of p's other fanins stay right; v's fanins are now read by p.
+            if (sub.cubes.empty()) {   // v is constant 0 there: the cube is false (tidying drops it)
+                pc.cubes[atIndex] = Cube(std::vector<Literal>{l, negateLiteral(l)});
+            }
+            for (std::size_t k = 0; k < sub.cubes.size(); ++k) {
+                Cube& c = sub.cubes[k];
+                const std::size_t at = k == 0 ? atIndex : pc.cubes.size();
+                for (Literal x : c.lits) {
+                    reader[literalVar(x)] = p;
+                    readerCube[literalVar(x)] = static_cast<std::uint32_t>(at);
+                }
+                Cube merged;
+                if (rest.empty()) {
+                    merged = std::move(c);
+                } else {
+                    std::set_union(rest.begin(), rest.end(), c.lits.begin(), c.lits.end(), std::back_inserter(merged.lits));
+                }
+                if (k == 0) pc.cubes[at] = std::move(merged);
+                else pc.cubes.push_back(std::move(merged));
+            }
+            loose[p] = 1;
+            gatesOf[p] = kUnknown;
+            uses[v] = 0;
+            ++counts.merged;
+            ++counts.unfactored;
+            continue;
+        }
+        // At or below the limit: the figures decide, factored.
+        const bool wasLoose = loose[p];
+        if (wasLoose) {
+            tidy(p);
+            auto it = std::find_if(pc.cubes.begin(), pc.cubes.end(), holds);
+            if (it == pc.cubes.end()) continue;
+            atIndex = static_cast<std::size_t>(it - pc.cubes.begin());
+            l = *std::find_if(it->lits.begin(), it->lits.end(), [&](Literal x) { return literalVar(x) == v; });
+        }
+        auto at = pc.cubes.begin() + static_cast<std::ptrdiff_t>(atIndex);
+        if (wasLoose || plain) {   // else `sub` holds the complement already
+            if (literalNegated(l)) {
+                if (!complement(vc, maxCubes, sub)) continue;
+            } else {
+                sub = vc;
+            }
         }
         Cover rest;
         Cube restCube;
@@ -151,12 +265,16 @@ std::size_t collapseExpressionNodes(net::Network& net, std::size_t maxCubes) {
         for (const Cube& c : vc.cubes)
             for (Literal x : c.lits) reader[literalVar(x)] = p;
         pc = rebuilt;
+        for (std::size_t i = 0; i < pc.cubes.size(); ++i)
+            for (Literal x : pc.cubes[i].lits)
+                if (reader[literalVar(x)] == p) readerCube[literalVar(x)] = static_cast<std::uint32_t>(i);
         gatesOf[p] = rebuiltGates;
         uses[v] = 0;
-        ++merged;
+        ++counts.merged;
     }
-    if (merged) net.removeUnreachable();
-    return merged;
+    for (net::NodeId u = 0; u < n; ++u) tidy(u);
+    if (counts.merged) net.removeUnreachable();
+    return counts;
 }
 
 } // namespace kerf::frontend

@@ -403,3 +403,67 @@ TEST(FrontendLower, NarrowIndexWritesOnlyPositionsItCanName) {
             }
         }
 }
+
+// The expression-node merge (statement_nodes.cpp) on a long written sum: above
+// ExpressionMergeLimits::factorCubes a merge is decided from cube and literal counts. Node
+// elimination must keep the function (MIS, Brayton et al. 1987, from memory); a sum of products
+// read by a sum becomes one node, while a product over a long sum is not multiplied out there.
+TEST(FrontendLower, LongSumMergesWithoutFactoringAndKeepsItsFunction) {
+    using kerf::algebra::Cover;
+    using kerf::algebra::Cube;
+    using kerf::algebra::makeLiteral;
+    std::mt19937 rng(12);
+    kerf::net::Network net;
+    std::vector<kerf::net::NodeId> in;
+    for (int i = 0; i < 16; ++i) in.push_back(net.addInput(fmt::format("x[{}]", i)));
+    auto products = [&](int count) {
+        Cover sum;
+        for (int k = 0; k < count; ++k) {
+            std::vector<kerf::algebra::Literal> lits;
+            for (int i = 0; i < 16; ++i)
+                if (rng() % 4 == 0) lits.push_back(makeLiteral(in[i], rng() % 2));
+            if (lits.size() < 2) lits = {makeLiteral(in[k % 16], false), makeLiteral(in[(k + 7) % 16], true)};
+            auto t = net.addLogic(Cover({Cube(lits)}));
+            sum.cubes.push_back(Cube({makeLiteral(t, false)}));
+        }
+        sum.normalize();
+        return net.addLogic(sum);
+    };
+    auto y = products(40);                  // y = t1 | ... | t40
+    auto s = products(30);                  // z = x[0] & (u1 | ... | u30)
+    auto z = net.addLogic(Cover({Cube({makeLiteral(in[0], false), makeLiteral(s, false)})}));
+    net.addOutput("y", makeLiteral(y, false));
+    net.addOutput("z", makeLiteral(z, false));
+    const kerf::net::Network before = net;
+    kerf::net::Network factored = net;
+
+    kerf::frontend::ExpressionMergeLimits limits;
+    limits.factorCubes = 24;
+    limits.multiplyCubes = 24;
+    auto counts = kerf::frontend::collapseExpressionNodes(net, limits);
+    EXPECT_GE(counts.unfactored, 40u + 30u);   // every operand of both sums
+    EXPECT_EQ(counts.keptApart, 1u);           // x[0] & (30 products) is not multiplied out above 24
+    // Each sum is one node reading only inputs; z's node still reads the sum's node.
+    auto driver = [&](const std::string& name) {
+        for (const auto& o : net.outputs())
+            if (o.name == name) return kerf::algebra::literalVar(o.driver);
+        ADD_FAILURE() << name;
+        return 0u;
+    };
+    for (const auto& c : net.node(driver("y")).cover.cubes)
+        for (auto l : c.lits) EXPECT_FALSE(net.isLogic(kerf::algebra::literalVar(l)));
+    const auto& zc = net.node(driver("z")).cover;
+    ASSERT_EQ(zc.cubes.size(), 1u);
+    EXPECT_EQ(zc.cubes[0].lits.size(), 2u);
+
+    // Deciding every merge by the factored figures gives the same function.
+    limits.factorCubes = limits.multiplyCubes = 4096;
+    auto all = kerf::frontend::collapseExpressionNodes(factored, limits);
+    EXPECT_EQ(all.unfactored, 0u);
+    for (int round = 0; round < 4; ++round) {
+        std::vector<std::uint64_t> words;
+        for (int i = 0; i < 16; ++i) words.push_back((std::uint64_t(rng()) << 32) ^ rng());
+        EXPECT_EQ(kerf::net::simulate(net, words), kerf::net::simulate(before, words));
+        EXPECT_EQ(kerf::net::simulate(factored, words), kerf::net::simulate(before, words));
+    }
+}

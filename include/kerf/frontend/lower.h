@@ -91,6 +91,27 @@ struct KeptStatement {
     std::string reason;   ///< a sentence starting with "it ..." or a short reason
 }; 
 
+/// Limits of the expression-node merge (collapseExpressionNodes).
+struct ExpressionMergeLimits {
+    /// A merged node never passes this many cubes (nor its reader's count, when larger).
+    std::size_t maxCubes = 4096;
+    /// Merges that multiply nothing out (a product into a sum, one cube into a product: the merged
+    /// node's literals are those of the two apart) are made without factoring when the node would
+    /// pass this many cubes (counted before contained cubes are dropped). Factoring the growing
+    /// node at every step of a long sum was quadratic (F76).
+    std::size_t factorCubes = 24;
+    /// Merges that multiply out are not made when the node would pass this many cubes (each
+    /// such step is decided by factoring, so this bounds its cost).
+    std::size_t multiplyCubes = 512;
+};
+
+/// What the expression-node merge did.
+struct ExpressionMergeCounts {
+    std::size_t merged = 0;       ///< nodes substituted into their reader
+    std::size_t unfactored = 0;   ///< of those, decided without factoring (above factorCubes)
+    std::size_t keptApart = 0;    ///< not merged: they would multiply out above multiplyCubes
+};
+
 /// The network together with everything the writer needs to put it back.
 struct Lowered {
     net::Network net;
@@ -107,6 +128,8 @@ struct Lowered {
     net::Network dontCares;
     /// Output bits with don't-care conditions (outputs of `dontCares`).
     std::size_t dontCareBits = 0;
+    /// What the expression-node merge did (filled by the caller that runs it).
+    ExpressionMergeCounts merge;
 };
 
 /// Lower the module. Throws kerf::Error with a source location on
@@ -115,10 +138,10 @@ Lowered lower(const ModuleDesc& m, const LowerOptions& opts = {});
 
 /// One node per written expression: a logic node that names no signal (no output reads it)
 /// and that one place of one other node reads is substituted into that node (its complement
-/// multiplied out where read inverted), unless the reader would pass `maxCubes` cubes.
+/// multiplied out where read inverted), unless the reader would pass `limits.maxCubes` cubes.
 /// The figures of a written file are then those of the nodes it was printed from (F42).
-/// Returns the number of nodes substituted. (statement_nodes.cpp)
-std::size_t collapseExpressionNodes(net::Network& net, std::size_t maxCubes);
+/// (statement_nodes.cpp)
+ExpressionMergeCounts collapseExpressionNodes(net::Network& net, const ExpressionMergeLimits& limits = {});
 
 /// Name of a bit as used for network inputs/outputs: "a" for scalars, "a[3]" for vectors.
 std::string bitName(const ModuleDesc& m, const BitRef& b);
