@@ -217,21 +217,11 @@ Figures cubeExtraction(std::size_t terms, int path) {
     const net::Metrics before = net::measure(net);
     passes::PassContext ctx;
     ctx.depthCap = before.depth;
-    passes::ShareCubesOptions o = passes::limitsFor(passes::Effort::Default).cubes;
-    for (const auto& l : gLimits) {
-        passes::EngineLimits L = passes::limitsFor(passes::Effort::Default);
-        L.cubes = o;
-        passes::setLimit(L, l);
-        o = L.cubes;
-    }
+    passes::EngineLimits limits = passes::limitsFor(passes::Effort::Default);
+    for (const auto& l : gLimits) passes::setLimit(limits, l);
+    passes::ShareCubesOptions o = limits.cubes;
     o.inPlaceCubes = inPlace ? 1 : 0;
-    passes::ShareDivisorsOptions d = passes::limitsFor(passes::Effort::Default).divisors;
-    for (const auto& l : gLimits) {
-        passes::EngineLimits L = passes::limitsFor(passes::Effort::Default);
-        L.divisors = d;
-        passes::setLimit(L, l);
-        d = L.divisors;
-    }
+    passes::ShareDivisorsOptions d = limits.divisors;
     d.method = passes::ShareDivisorsOptions::Method::Pairs;
     auto t0 = std::chrono::steady_clock::now();
     if (path == 2) passes::shareDivisors(net, d, ctx);
