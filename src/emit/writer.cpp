@@ -1521,7 +1521,7 @@ std::vector<std::string> Writer::unreadBits() {
             for (const auto& o : low_.wordOps[k].operands)
                 if (!o.generated) wholeRead.insert(o.name);
     // What the replaced statements read and nothing kept reads.
-    std::set<std::string> replacedReads, keptReads, written;
+    std::set<std::string> replacedReads, keptReads;
     std::set<int> replacedIds;
     for (std::size_t g = 0; g < groups_.size(); ++g)
         for (int st : groupStmts_[g])
@@ -1530,20 +1530,17 @@ std::vector<std::string> Writer::unreadBits() {
                 if (groups_[g].replaced) {
                     replacedIds.insert(mid);
                     replacedReads.insert(rd.begin(), rd.end());
-                    written.insert(byId_.at(mid)->writes.begin(), byId_.at(mid)->writes.end());
                 }
                 else keptReads.insert(rd.begin(), rd.end());
             }
+    // (Text the current defines leave out is not compiled, so lint does not see its reads.)
     for (const auto& mem : m_.members)
-        if (!replacedIds.count(mem.id)) keptReads.insert(mem.reads.begin(), mem.reads.end());
+        if (!replacedIds.count(mem.id) && mem.what != "excluded_text") keptReads.insert(mem.reads.begin(), mem.reads.end());
     // Bits the replaced statements' own text read: only those are listed (a bit the original
     // left unread keeps its lint warning, as in the original).
     std::set<std::pair<std::string, int>> origBits;
     std::set<std::string> origWhole;
     for (int mid : replacedIds) originalReads(m_, *byId_.at(mid), origBits, origWhole);
-    std::set<std::string> driven;
-    for (const auto& o : outs_)
-        if (!o.generated) driven.insert(o.bit.signal);
     std::vector<std::string> out;
     notReadWidth_ = 0;
     std::string origName;   // the author's signal `runs` is listing ("" for kerf's own results)
@@ -1564,8 +1561,10 @@ std::vector<std::string> Writer::unreadBits() {
     for (const auto& name : replacedReads) {
         origName = name;
         auto it = m_.signals.find(name);
-        // Signals the replaced statements write are theirs to keep read (keepReaders), or dissolved.
-        if (it == m_.signals.end() || keptReads.count(name) || driven.count(name) || written.count(name) ||
+        // A signal the replaced statements write stays read as a whole (keepReaders) unless it
+        // is dissolved; bits of it the new text no longer reads (a bit now known constant, read
+        // through its value) are listed like any other (Verilator UNUSEDSIGNAL otherwise).
+        if (it == m_.signals.end() || keptReads.count(name) ||
             std::find(low_.dissolved.begin(), low_.dissolved.end(), name) != low_.dissolved.end())
             continue;
         const auto& sig = it->second;

@@ -177,10 +177,26 @@ def always_comb_as_always_star(text):
     assigns = (syntax.SyntaxKind.AssignmentExpression, syntax.SyntaxKind.NonblockingAssignmentExpression)
     tree = syntax.SyntaxTree.fromText(text)
     offsets = []
+    # Names of constants (enum values, parameters) are not reads: a block that assigns only
+    # them reads nothing and keeps `always_comb`.
+    constants = set()
+
+    def constant_names(n):
+        k = getattr(n, "kind", None)
+        if k == syntax.SyntaxKind.EnumType:
+            for m in n.members:
+                if getattr(m, "kind", None) == syntax.SyntaxKind.Declarator:
+                    constants.add(m.name.valueText)
+        elif k in (syntax.SyntaxKind.ParameterDeclaration, syntax.SyntaxKind.TypeParameterDeclaration):
+            for d in n.declarators:
+                if getattr(d, "kind", None) == syntax.SyntaxKind.Declarator:
+                    constants.add(d.name.valueText)
+        return True
+    tree.root.visit(constant_names)
 
     def count(node, into):
         def visit(n):
-            if getattr(n, "kind", None) in names:
+            if getattr(n, "kind", None) in names and n.identifier.valueText not in constants:
                 into.append(n)
             return True
         node.visit(visit)

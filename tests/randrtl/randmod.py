@@ -46,6 +46,10 @@ FEATURES = {
     "oob": "variable selects and writes that can fall out of range",
     "packed2d": "internal 2-D packed arrays written and read by element and by bit",
     "struct": "internal packed structs written and read by member",
+    "enum": "internal enum-typed signals: assigned by name, compared and case-selected by name",
+    "generate": "generate for loops and generate if over a parameter, with named blocks",
+    "ifdef": "`ifdef/`ifndef alternatives around assigns and statements (read with no defines)",
+    "tristate": "outputs driven to z by a conditional continuous assignment",
 }
 DEFAULT_OFF = {"param", "xcompare", "divconst", "oob"}
 # Each module draws its own subset of the enabled constructs, so that one construct that kerf
@@ -85,10 +89,16 @@ class Sig:
         self.dims = None      # (elements, element width) of a 2-D packed array
         self.fields = None    # [(member, width)] of a packed struct, most significant first
         self.type_name = None
+        self.enum = None      # [(value name, value)] of an enum type
 
     @property
     def composite(self):
         return self.dims is not None or self.fields is not None
+
+    @property
+    def plain(self):
+        """A plain vector: selects and bit writes are allowed on it."""
+        return not self.composite and self.enum is None
 
 
 def _decl_type(width, signed):
@@ -179,7 +189,7 @@ class ModuleGen:
         comp = self.pick(lambda s: s.composite)
         if comp is not None and self.rng.random() < 0.4:
             return self.composite_select(comp)
-        s = self.pick(lambda s: s.width >= 2 and not s.composite)
+        s = self.pick(lambda s: s.width >= 2 and s.plain)
         if s is None:
             return self.leaf()
         r = self.rng.random()
@@ -227,7 +237,7 @@ class ModuleGen:
             self.use("narrowwrite")
         if bits == 0:
             return None, 0
-        s = self.pick(lambda s: s.width >= bits and not s.signed and not s.composite)
+        s = self.pick(lambda s: s.width >= bits and not s.signed and s.plain)
         if s is None:
             return None, 0
         if s.width == bits:
@@ -268,7 +278,7 @@ class ModuleGen:
             self.use("shift")
             if self.rng.random() < 0.6:
                 return f"({a} {self.rng.choice(['<<', '>>', '>>>'])} {self.rng.randint(0, 3)})", wa
-            s = self.pick(lambda s: s.width <= 3 and not s.signed)
+            s = self.pick(lambda s: s.width <= 3 and not s.signed and s.plain)
             if s is not None:
                 self.use("varshift")
                 return f"({a} {self.rng.choice(['<<', '>>'])} {s.name})", wa
@@ -295,7 +305,20 @@ class ModuleGen:
             return f"{fname}({', '.join(args)})", fw
         return self.select()
 
+    def enum_compare(self):
+        """`e == NAME` or `e != NAME` on an enum-typed signal, or None."""
+        e = self.pick(lambda s: s.enum is not None)
+        if e is None:
+            return None
+        self.use("enum")
+        names = [n for n, _ in e.enum]
+        return f"({e.name} {self.rng.choice(['==', '==', '!='])} {self.rng.choice(names)})"
+
     def compare(self, a, wa, depth):
+        if "enum" in self.f and self.rng.random() < 0.3:
+            c = self.enum_compare()
+            if c is not None:
+                return c
         self.use("compare")
         op = self.rng.choice(["==", "!=", "<", "<=", ">", ">="])
         if self.rng.random() < 0.5:
@@ -318,6 +341,10 @@ class ModuleGen:
     def target_write(self, t, depth, indent):
         """One assignment to (part of) target t."""
         r = self.rng.random()
+        if t.enum is not None:
+            self.use("enum")
+            # (by name only: Icarus cannot simulate a cast to an enum type)
+            return [f"{indent}{t.name} = {self.rng.choice(t.enum)[0]};"]
         e, _ = self.expr(depth)
         if t.width >= 2 and r < 0.2:
             i = self.rng.randrange(t.width)
@@ -355,7 +382,16 @@ class ModuleGen:
             return out
         if r < 0.85 and "case" in self.f:
             return self.case_stmt(targets, depth, indent)
-        if "loop" in self.f and t.width >= 2:
+        if r < 0.9 and "ifdef" in self.f:
+            self.use("ifdef")
+            out = [f"`{self.rng.choice(['ifdef', 'ifndef'])} KERF_RAND_ALT"]
+            out += self.stmt(targets, depth - 1, indent)
+            if self.rng.random() < 0.5:
+                out.append("`else")
+                out += self.stmt(targets, depth - 1, indent)
+            out.append("`endif")
+            return out
+        if "loop" in self.f and t.width >= 2 and t.plain:
             self.use("loop")
             iv = self.fresh("i")
             bound = t.width
@@ -371,7 +407,28 @@ class ModuleGen:
 
     def case_stmt(self, targets, depth, indent):
         self.use("case")
-        sel = self.pick(lambda s: 2 <= s.width <= 5)
+        esel = self.pick(lambda s: s.enum is not None) if self.rng.random() < 0.5 else None
+        if esel is not None:
+            self.use("enum")
+            names = [n for n, _ in esel.enum]
+            qual = ""
+            if "unique" in self.f and self.rng.random() < 0.3:
+                qual = self.rng.choice(["unique ", "priority "])
+                self.use("unique")
+            out = [f"{indent}{qual}case ({esel.name})"]
+            chosen = self.rng.sample(names, self.rng.randint(1, len(names)))
+            while chosen:
+                k = self.rng.randint(1, min(2, len(chosen)))
+                out.append(f"{indent}  {', '.join(chosen[:k])}: begin")
+                chosen = chosen[k:]
+                out += self.stmt(targets, depth - 1, indent + "    ")
+                out.append(f"{indent}  end")
+            out.append(f"{indent}  default: begin")
+            out += self.stmt(targets, depth - 1, indent + "    ")
+            out.append(f"{indent}  end")
+            out.append(f"{indent}endcase")
+            return out
+        sel = self.pick(lambda s: 2 <= s.width <= 5 and s.plain)
         if sel is None:
             return self.target_write(targets[0], 2, indent)
         w = sel.width
@@ -401,9 +458,10 @@ class ModuleGen:
             out += self.stmt(targets, depth - 1, indent + "    ")
             out.append(f"{indent}  end")
         out.append(f"{indent}  default: begin")
-        if "xdefault" in self.f and self.rng.random() < 0.25:
+        plain = [t for t in targets if t.enum is None]   # ('x has no implicit conversion to an enum)
+        if "xdefault" in self.f and plain and self.rng.random() < 0.25:
             self.use("xdefault")
-            t = self.rng.choice(targets)
+            t = self.rng.choice(plain)
             out.append(f"{indent}    {t.name} = 'x;")
         else:
             out += self.stmt(targets, depth - 1, indent + "    ")
@@ -416,7 +474,7 @@ class ModuleGen:
     def decl_of(s):
         if s.dims:
             return f"logic [{s.dims[0] - 1}:0][{s.dims[1] - 1}:0]"
-        if s.fields:
+        if s.fields or s.enum:
             return s.type_name
         return _decl_type(s.width, False)
 
@@ -503,6 +561,23 @@ class ModuleGen:
             typedefs.append(f"  typedef struct packed {{ {members} }} {sig.type_name};")
             composite_blocks += self.composite_block(sig)
             composites.append(sig)
+        if self.on("enum", 0.6):
+            self.use("enum")
+            bits = rng.choice([2, 2, 3])
+            values = rng.sample(range(1 << bits), rng.randint(3, min(6, 1 << bits)))
+            tname = self.fresh("state") + "_e"
+            sig = Sig(self.fresh("st"), bits)
+            sig.enum = [(f"{tname[:-2].upper()}_{chr(65 + i)}", v) for i, v in enumerate(values)]
+            sig.type_name = tname
+            typedefs.append(f"  typedef enum logic [{bits - 1}:0] {{"
+                            + ", ".join(f"{n} = {bits}'d{v}" for n, v in sig.enum) + f"}} {tname};")
+            block = ["  always_comb begin", f"    {sig.name} = {sig.enum[0][0]};"]
+            for _ in range(rng.randint(1, 3)):
+                block += self.stmt([sig], rng.randint(1, 3), "    ")
+            block.append("  end")
+            composite_blocks += block
+            composites.append(sig)
+            self.readable.append(sig)
         n_out = rng.randint(1, 4)
         body = list(composite_blocks)
         produced = []
@@ -511,7 +586,29 @@ class ModuleGen:
             w = rng.choice([1, 1, 2, 3, 4, 5, 6, 8])
             name = f"out{len([p for p in produced if p[1]])}" if is_out else f"w{k}"
             sig = Sig(name, w)
-            if rng.random() < 0.4:
+            src = self.pick(lambda s: s.plain and s.width >= w)
+            if w >= 2 and src is not None and self.on("generate", 0.3):
+                # one assign per bit through a generate loop, or one of two forms by a parameter
+                self.use("generate")
+                g = self.fresh("g")
+                e, _ = self.expr(1)
+                op = rng.choice(["&", "|", "^"])
+                body += [f"  for (genvar {g} = 0; {g} < {w}; {g}++) begin : gen_{name}",
+                         f"    assign {name}[{g}] = {src.name}[{g}] {op} ^({e});",
+                         "  end"]
+                if self.params and rng.random() < 0.5:
+                    # a generate if over the parameter adds a term on top, in one of two forms
+                    e2, _ = self.expr(1)
+                    body[-2] = (f"    if ({self.params[0][0]} > {rng.randint(0, 9)}) begin : pick"
+                                f"\n      assign {name}[{g}] = {src.name}[{g}] {op} ^({e});"
+                                f"\n    end else begin : keep\n      assign {name}[{g}] = |({e2});\n    end")
+            elif "ifdef" in self.f and rng.random() < 0.25:
+                self.use("ifdef")
+                e, _ = self.expr(rng.randint(1, 3))
+                e2, _ = self.expr(rng.randint(1, 3))
+                body += [f"`{rng.choice(['ifdef', 'ifndef'])} KERF_RAND_ALT",
+                         f"  assign {name} = {e};", "`else", f"  assign {name} = {e2};", "`endif"]
+            elif rng.random() < 0.4:
                 e, _ = self.expr(rng.randint(1, 3))
                 body.append(f"  assign {name} = {e};")
             else:
@@ -536,6 +633,14 @@ class ModuleGen:
             sig = Sig("out0", rng.choice([1, 2, 4]))
             e, _ = self.expr(2)
             body.append(f"  assign out0 = {e};")
+            produced.append((sig, True))
+        if self.on("tristate", 0.4):
+            # an output that drives z when its enable is low (kerf keeps such drivers as written)
+            self.use("tristate")
+            w = rng.choice([1, 2, 4])
+            sig = Sig(f"out{len([p for p in produced if p[1]])}", w)
+            e, _ = self.expr(2)
+            body.append(f"  assign {sig.name} = {self.cond(1)} ? {e} : {w}'b{'z' * w};")
             produced.append((sig, True))
         ff = []
         for r in regs:
