@@ -243,8 +243,18 @@ void originalReads(const frontend::ModuleDesc& m, const frontend::Member& mem,
             break;
         }
     }
-    for (const auto& n : mem.reads)
-        if (!named.count(n)) whole.insert(n);
+    // Names the IR does not show (kept members have none): by the reader's static read ranges
+    // where it has them, else the whole signal.
+    for (const auto& n : mem.reads) {
+        if (named.count(n)) continue;
+        auto rr = mem.readRanges.find(n);
+        if (rr == mem.readRanges.end()) {
+            whole.insert(n);
+            continue;
+        }
+        for (auto [a, b] : rr->second)
+            for (int k = a; k <= b; ++k) bits.insert({n, k});
+    }
 }
 
 std::string indentOf(const std::string& src, std::size_t pos) {
@@ -1524,18 +1534,20 @@ std::vector<std::string> Writer::unreadBits() {
     std::set<std::string> replacedReads, keptReads;
     std::set<int> replacedIds;
     for (std::size_t g = 0; g < groups_.size(); ++g)
-        for (int st : groupStmts_[g])
-            for (int mid : membersOfStmt_.at(st)) {
-                const auto& rd = byId_.at(mid)->reads;
-                if (groups_[g].replaced) {
+        if (groups_[g].replaced)
+            for (int st : groupStmts_[g])
+                for (int mid : membersOfStmt_.at(st)) {
+                    const auto& rd = byId_.at(mid)->reads;
                     replacedIds.insert(mid);
                     replacedReads.insert(rd.begin(), rd.end());
                 }
-                else keptReads.insert(rd.begin(), rd.end());
-            }
-    // (Text the current defines leave out is not compiled, so lint does not see its reads.)
+    // What the rest of the module reads, by bit where the text tells (a statement kept as
+    // written through its IR, kept code through the reader's static read ranges). Text the
+    // current defines leave out is not compiled, so lint does not see its reads.
+    std::set<std::pair<std::string, int>> keptBits;
     for (const auto& mem : m_.members)
-        if (!replacedIds.count(mem.id) && mem.what != "excluded_text") keptReads.insert(mem.reads.begin(), mem.reads.end());
+        if (!replacedIds.count(mem.id) && mem.what != "excluded_text") originalReads(m_, mem, keptBits, keptReads);
+    auto keptReadsBit = [&](const std::string& name, int k) { return keptBits.count({name, k}) > 0; };
     // Bits the replaced statements' own text read: only those are listed (a bit the original
     // left unread keeps its lint warning, as in the original).
     std::set<std::pair<std::string, int>> origBits;
@@ -1549,7 +1561,8 @@ std::vector<std::string> Writer::unreadBits() {
         int lo = -1;
         for (int k = 0; k <= width; ++k) {
             bool unread = k < width && !read.count(scalar ? std::make_pair(verilogName(name), 0) : std::make_pair(name, k)) &&
-                          (origName.empty() || origWhole.count(origName) || origBits.count({origName, k}));
+                          (origName.empty() || origWhole.count(origName) || origBits.count({origName, k})) &&
+                          (origName.empty() || !keptReadsBit(origName, k));
             if (unread && lo < 0) lo = k;
             if (!unread && lo >= 0) {
                 out.push_back(text(lo, k - lo));

@@ -871,6 +871,14 @@ void DescriptionBuilder::parseMembers(const json& root) {
                     for (auto [a, b] : ranges(rs, where + " write_ranges")) v.emplace_back(static_cast<int>(a), static_cast<int>(b));
                 }
             }
+            if (mj.contains("read_ranges")) {
+                const json& rr = mj["read_ranges"];
+                if (!rr.is_object()) invalid(where + ": read_ranges is not an object");
+                for (const auto& [name, rs] : rr.items()) {
+                    auto& v = mem.readRanges[name];
+                    for (auto [a, b] : ranges(rs, where + " read_ranges")) v.emplace_back(static_cast<int>(a), static_cast<int>(b));
+                }
+            }
             if (mj.contains("mentions")) mem.mentions = names(mj["mentions"], where + " mentions");
             mem.mayBeX = mj.value("may_be_x", false);
             if (mj.contains("x_writes")) mem.xWrites = names(mj["x_writes"], where + " x_writes");

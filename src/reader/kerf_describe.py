@@ -626,6 +626,67 @@ class Describer:
             if c > pure[name]:
                 reads.add(name)
 
+    def read_bits(self, nodes):
+        """Per module signal the text of `nodes` reads: a list of (lo, hi) bit ranges named by
+        static selects, or None when it reads the whole signal or bits not known statically
+        (a variable select, a call, an instance connection). Targets of plain assignments
+        through static selects are not reads. The writer uses it so that bits only a rewritten
+        statement read are still listed as unused where a kept member reads other bits."""
+        out = {}
+        sig = self.sig
+
+        def add(name, lo, hi):
+            if lo is None:
+                out[name] = None
+            elif name not in out:
+                out[name] = [(lo, hi)]
+            elif out[name] is not None:
+                out[name].append((lo, hi))
+
+        def static_target(x):
+            if x.kind == EK.Concatenation:
+                return all(static_target(o) for o in x.operands)
+            b = self.static_bits(x)
+            return b is not None and b[1] is not None
+
+        def cb(n):
+            if isinstance(n, ast.AssignmentExpression):
+                if not n.isCompound and static_target(n.left):
+                    n.right.visit(cb)
+                    return ast.VisitAction.Skip
+                return None
+            if isinstance(n, ast.Expression) and n.kind in (EK.ElementSelect, EK.RangeSelect, EK.MemberAccess):
+                b = self.static_bits(n)
+                if b is not None and b[1] is not None:
+                    add(*b)
+                    return ast.VisitAction.Skip
+                return None
+            if isinstance(n, ast.ValueExpressionBase):
+                name = sig.get(n.symbol)
+                if name is not None:
+                    add(name, None, None)
+            elif isinstance(n, ast.CallExpression):
+                if not n.isSystemCall and isinstance(n.subroutine, ast.SubroutineSymbol):
+                    for name in self.subroutine_refs(n.subroutine)[0]:
+                        add(name, None, None)
+            elif isinstance(n, ast.InstanceSymbol):
+                r, w = set(), {}
+                self.instance_refs(n, r, w)
+                for name in r:
+                    add(name, None, None)
+                return ast.VisitAction.Skip
+            elif isinstance(n, ast.SubroutineSymbol):
+                return ast.VisitAction.Skip
+            elif isinstance(n, ast.GenerateBlockSymbol):
+                if n.isUninstantiated:
+                    return ast.VisitAction.Skip
+            return None
+
+        for node in nodes:
+            if node is not None:
+                node.visit(cb)
+        return out
+
     def subroutine_refs(self, sub):
         got = self._sub_refs.get(sub)
         if got is not None:
@@ -893,11 +954,13 @@ class Describer:
                 self.collect(node, reads, writes)
         for n in extra_writes:
             writes[n] = None
-        return self.kept_entry(what, reason, src, reads, writes, syn, self.x_writes(collect_from))
+        return self.kept_entry(what, reason, src, reads, writes, syn, self.x_writes(collect_from),
+                               read_from=collect_from)
 
-    def kept_entry(self, what, reason, src, reads, writes, syn, may_x=False):
+    def kept_entry(self, what, reason, src, reads, writes, syn, may_x=False, read_from=None):
         """`may_x`: False/None (its text makes no x), True (it can make every signal it writes
-        x) or the set of names it can make x."""
+        x) or the set of names it can make x. `read_from`: the nodes whose reads are told by
+        bit (read_bits); without it every read counts as the whole signal."""
         m = {"kind": "kept", "src": src, "what": what, "reason": reason,
              "reads": sorted(reads), "writes": sorted(writes)}
         if may_x is not None and may_x is not False and writes:
@@ -919,6 +982,18 @@ class Describer:
                 ranges[name] = merged
         if ranges:
             m["write_ranges"] = ranges
+        if read_from is not None and reads:
+            bits = self.read_bits(read_from)
+            rr = {}
+            for name in sorted(reads):
+                rs = bits.get(name)
+                if not rs or not self.sig_by_name[name].type.isIntegral:
+                    continue
+                merged = _merge_ranges(rs)
+                if merged != [[0, self.sig_by_name[name].type.bitWidth - 1]]:
+                    rr[name] = merged
+            if rr:
+                m["read_ranges"] = rr
         m["mentions"] = sorted(self.mentions(syn) | reads | set(writes))
         return m
 
@@ -1179,12 +1254,13 @@ class Describer:
             pass    # an inactive generate branch reads and drives nothing
         else:
             self.collect(sym, reads, writes)
+        read_from = [sym] if k in (SK.GenerateBlock, SK.GenerateBlockArray) and not sym.isUninstantiated else None
         if k == SK.NetAlias:
             both = reads | set(writes)
             reads = set(both)
             writes = {n: None for n in both}
         may_x = True if k == SK.PrimitiveInstance else None if k == SK.Instance else self.x_writes([sym])
-        return self.kept_entry(what, why, src, reads, writes, syn, may_x)
+        return self.kept_entry(what, why, src, reads, writes, syn, may_x, read_from=read_from)
 
     # -- the whole module -------------------------------------------------------
 
@@ -1311,7 +1387,13 @@ class Describer:
                 reads, writes, mentions = set(), set(), set()
                 ranges = {}
                 whole = set()
+                read_ranges, read_whole = {}, set()
                 for g in group:
+                    for n in g["reads"]:
+                        if n in g.get("read_ranges", {}):
+                            read_ranges.setdefault(n, []).extend(g["read_ranges"][n])
+                        else:
+                            read_whole.add(n)
                     reads.update(g["reads"])
                     writes.update(g["writes"])
                     mentions.update(g.get("mentions", []))
@@ -1333,6 +1415,11 @@ class Describer:
                     m["write_ranges"] = wr
                 else:
                     m.pop("write_ranges", None)
+                rr = {n: _merge_ranges(r) for n, r in read_ranges.items() if n not in read_whole}
+                if rr:
+                    m["read_ranges"] = rr
+                else:
+                    m.pop("read_ranges", None)
                 out.append(m)
                 continue
             kept = [g for g in group if g["kind"] == "kept"]

@@ -523,6 +523,47 @@ def simulate(pairs, sources, workdir, defines=(), include_dirs=(), timeout=600, 
 _WARN = re.compile(r"^%(Warning|Error)(?:-([A-Z0-9_]+))?: (?:[^:\n]+:\d+:(?:\d+:)? )?(.*)$", re.M)
 
 
+_UNUSED_BITS = re.compile(r"Bits of signal are not used: '([^']+)'\[([0-9:,]+)\]$")
+_UNUSED_ALL = re.compile(r"Signal is not used: '([^']+)'$")
+
+
+def _unused_bits(warnings):
+    """{signal: set of bit indices, or None for the whole signal} from UNUSEDSIGNAL warnings."""
+    out = {}
+    for code, msg in warnings:
+        if code != "UNUSEDSIGNAL":
+            continue
+        m = _UNUSED_ALL.search(msg)
+        if m:
+            out[m.group(1)] = None
+            continue
+        m = _UNUSED_BITS.search(msg)
+        if m:
+            bits = set()
+            for part in m.group(2).split(","):
+                hi, _, lo = part.partition(":")
+                lo = lo or hi
+                bits.update(range(min(int(lo), int(hi)), max(int(lo), int(hi)) + 1))
+            out[m.group(1)] = bits
+    return out
+
+
+def new_warnings(original, rewrite):
+    """Warnings of the rewrite the original does not have, sorted. Verilator gives one unused-bits
+    message per signal, so a rewrite that leaves some of the same bits unused (no bit the original
+    read) prints a different message that is not a new warning."""
+    before = _unused_bits(original)
+    added = []
+    for w in sorted(rewrite - original):
+        got = _unused_bits([w])
+        if got:
+            (name, bits), = got.items()
+            if name in before and (before[name] is None or (bits is not None and bits <= before[name])):
+                continue
+        added.append(w)
+    return added
+
+
 def lint(files, top, defines=(), params=(), include_dirs=(), wall=True):
     """Verilator lint (warnings never fatal): (no errors, set of (code, message) warnings, raw text).
 

@@ -254,7 +254,7 @@ def compare(run, out_path, work, defs, params, exact, what, ref_files=None):
         run.original_lint[key] = O.lint(c.files, c.top, defs, params, c.include_dirs)[1]
     keys_a = run.original_lint[key]
     ok_b, keys_b, text_b = O.lint(c.with_files + [out_path], c.top, defs, params, c.include_dirs)
-    added = sorted(keys_b - keys_a)
+    added = O.new_warnings(keys_a, keys_b)
     if added:
         run.problem("lint", f"{what}: Verilator -Wall warns about the rewrite where it did not about the "
                             f"original: {added}\n{text_b[-1500:]}")

@@ -209,7 +209,7 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
             if kind == "pass" and lint:
                 ok_a, warn_a, _ = O.lint([src], desc["name"])
                 ok_b, warn_b, text_b = O.lint([out], desc["name"])
-                added = sorted(warn_b - warn_a)
+                added = O.new_warnings(warn_a, warn_b)
                 if (ok_a and not ok_b) or added:
                     kind, detail = "lint", f"Verilator: {added or text_b[-1500:]}"
             outcomes.append(Outcome(desc["name"], kind, detail))

@@ -91,6 +91,9 @@ struct Member {
     /// least significant bit, where slang knows them statically. A written signal
     /// without an entry is written as a whole.
     std::map<std::string, std::vector<std::pair<int, int>>> writeRanges;
+    /// Kept members: bits read, per signal, as inclusive offset ranges, where every read of
+    /// that signal is a static select. A read signal without an entry is read as a whole.
+    std::map<std::string, std::vector<std::pair<int, int>>> readRanges;
     /// Kept members: every module signal their text names, inactive generate branches included.
     std::vector<std::string> mentions;
     /// Kept members: their own text can make what they write x or z by the language's rules
