@@ -10,6 +10,7 @@ Icarus cannot compile is split in halves until the rewrite at fault is found.
 
     python3 tests/randrtl/campaign.py --kerf build/kerf --seed 1 --count 3000 [--batch 100]
         [--features default|all|name,-name] [--jobs 2] [--lint] [--save DIR]
+        [--kerf-args "--effort thorough --goal depth"]
 
 Prints counts: modules, passed, rewritten, unchanged, mismatches, failures to build, deleted
 declarations, internal errors, failures on kerf's own output, refusals by reason, undecided
@@ -22,6 +23,7 @@ import concurrent.futures
 import json
 import os
 import re
+import shlex
 import shutil
 import sys
 import tempfile
@@ -151,7 +153,7 @@ def simulate_group(items, work):
     return out
 
 
-def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=None):
+def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=None, extra=()):
     """Run every (text, desc) through kerf and Icarus; returns [Outcome]."""
     src_dir = os.path.join(work, "src")
     out_dir = os.path.join(work, "out")
@@ -168,7 +170,7 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
             f.write(text)
         tmp = os.path.join(work, "tmp", name)
         os.makedirs(tmp, exist_ok=True)
-        code, err = restructure(kerf, src, out, tmpdir=tmp)
+        code, err = restructure(kerf, src, out, extra=extra, tmpdir=tmp)
         return item, src, out, code, err
 
     outcomes = []
@@ -259,6 +261,7 @@ def main():
     p.add_argument("--lint", action="store_true", help="also compare Verilator -Wall warnings")
     p.add_argument("--save", default="", help="copy every failing module, rewrite and log here")
     p.add_argument("--json", default="", help="write the outcomes as JSON to this file")
+    p.add_argument("--kerf-args", default="", help="more restructure options, e.g. '--effort thorough'")
     a = p.parse_args()
     features = randmod.parse_features(a.features)
     kerf = os.path.abspath(a.kerf)
@@ -269,7 +272,8 @@ def main():
     try:
         for i in range(0, len(modules), a.batch):
             chunk = modules[i:i + a.batch]
-            outcomes += check_modules(kerf, chunk, work, jobs=a.jobs, lint=a.lint, batch=a.batch)
+            outcomes += check_modules(kerf, chunk, work, jobs=a.jobs, lint=a.lint, batch=a.batch,
+                                      extra=shlex.split(a.kerf_args))
             done = i + len(chunk)
             bugs = sum(1 for o in outcomes if o.kind in BUG_KINDS)
             print(f"[{done}/{len(modules)}] {time.time() - t0:.0f} s, kerf bugs so far: {bugs}",
