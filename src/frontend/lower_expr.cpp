@@ -867,6 +867,21 @@ Bits Lowerer::eval(ExprId root) {
                     done(constantBits(foldArithmetic(o, *constValue(a), *constValue(b), w, false), w));
                     break;
                 }
+                if (!consts) {
+                    // A constant 0 operand: the product is 0, a sum (or a difference by 0) is the
+                    // other operand; no word operation is left for the writer to keep. An unknown
+                    // bit anywhere still makes the whole result unknown (IEEE 1800-2017 11.4.3).
+                    auto ka = constValue(a), kb = constValue(b);
+                    bool za = ka && *ka == 0, zb = kb && *kb == 0;
+                    if ((o == BinaryOp::Mul && (za || zb)) || (o == BinaryOp::Add && (za || zb)) ||
+                        (o == BinaryOp::Sub && zb)) {
+                        Bits r = o == BinaryOp::Mul ? Bits(static_cast<std::size_t>(w), known(kFalse)) : zb ? a : b;
+                        if (x != kFalse)
+                            for (Bit& bit : r) bit = {bit.v, x, sx};
+                        done(std::move(r));
+                        break;
+                    }
+                }
                 if (o == BinaryOp::Mul && !consts) {
                     // By a constant power of two: a shift, wires only.
                     auto ka = constValue(a), kb = constValue(b);

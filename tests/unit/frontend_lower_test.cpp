@@ -235,6 +235,28 @@ TEST(FrontendLower, ArithmeticStaysWordLevelUnlessBitBlasted) {
         }
 }
 
+TEST(FrontendLower, ArithmeticWithAConstantZeroLeavesNoWordOperation) {
+    // p = a * 3'b000;  s = a + 3'b000;  d = 3'b000 - a;  (3-bit): the product is 0 and the sum
+    // is a, wires only; a difference from 0 stays a word operation. Reference: the definitions
+    // of *, + and - (IEEE 1800-2017 11.4.3), checked on every input.
+    DescBuilder d;
+    d.sig("a", 3, "input");
+    d.sig("p", 3, "output");
+    d.sig("s", 3, "output");
+    d.sig("d", 3, "output");
+    d.assignMember(d.ref("p"), d.bin("*", d.ref("a"), d.cnst("000"), 3), 2, {"a"}, {"p"});
+    d.assignMember(d.ref("s"), d.bin("+", d.ref("a"), d.cnst("000"), 3), 3, {"a"}, {"s"});
+    d.assignMember(d.ref("d"), d.bin("-", d.cnst("000"), d.ref("a"), 3), 4, {"a"}, {"d"});
+    auto l = lower(parseDescription(d.build()));
+    ASSERT_EQ(l.wordOps.size(), 1u);
+    EXPECT_EQ(l.wordOps[0].op, "-");
+    for (int a = 0; a < 8; ++a)
+        for (int i = 0; i < 3; ++i) {
+            EXPECT_FALSE(evalOutput(l.net, fmt::format("p[{}]", i), bits("a", 3, a)));
+            EXPECT_EQ(evalOutput(l.net, fmt::format("s[{}]", i), bits("a", 3, a)), bool((a >> i) & 1));
+        }
+}
+
 TEST(FrontendLower, DeepXorChainIsLoweredIteratively) {
     // y = a[0] ^ a[1] ^ ... ^ a[19999]: a left-deep chain 20,000 operators deep.
     // Reference: the parity of the selected bits (the definition of ^).
