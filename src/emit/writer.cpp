@@ -476,7 +476,16 @@ private:
     bool unorderable_ = false;   ///< no name left to withdraw to break a loop between statements
     /// Per member: the bits of module signals its text reads, and the signals it reads whole
     /// (originalReads); filled on first use.
-    std::map<int, std::pair<std::set<std::pair<std::string, int>>, std::set<std::string>>> memberReads_;
+    using Reads = std::pair<std::set<std::pair<std::string, int>>, std::set<std::string>>;
+    std::map<int, Reads> memberReads_;
+    const Reads& readsOf(const frontend::Member& mem) {
+        auto r = memberReads_.find(mem.id);
+        if (r == memberReads_.end()) {
+            r = memberReads_.emplace(mem.id, Reads{}).first;
+            originalReads(m_, mem, r->second.first, r->second.second);
+        }
+        return r->second;
+    }
     /// Whether the written file reads every bit of `signal` whatever the rewritten statements
     /// read: a port, a signal a word operation reads whole, or one that a statement staying as
     /// written (`replacedNow`: the members rewritten) reads whole. Reading some of its bits
@@ -491,13 +500,9 @@ private:
         std::set<int> bits;
         for (const auto& mem : m_.members) {
             if (replacedNow.count(mem.id)) continue;
-            auto r = memberReads_.find(mem.id);
-            if (r == memberReads_.end()) {
-                r = memberReads_.emplace(mem.id, std::pair<std::set<std::pair<std::string, int>>, std::set<std::string>>{}).first;
-                originalReads(m_, mem, r->second.first, r->second.second);
-            }
-            if (r->second.second.count(signal)) return true;
-            for (auto b = r->second.first.lower_bound({signal, 0}); b != r->second.first.end() && b->first == signal; ++b)
+            const Reads& r = readsOf(mem);
+            if (r.second.count(signal)) return true;
+            for (auto b = r.first.lower_bound({signal, 0}); b != r.first.end() && b->first == signal; ++b)
                 bits.insert(b->second);
         }
         return static_cast<int>(bits.size()) >= it->second.width;
@@ -1400,12 +1405,8 @@ bool Writer::copiesOtherGroup(std::size_t i, NodeId r, const std::vector<int>& g
         if (j == i || groupOfOutput[j] == groupOfOutput[i]) continue;
         const auto key = std::make_pair(outs_[j].bit.signal, outs_[j].bit.offset);
         for (int mid : membersOfStmt_.at(outs_[i].stmt)) {
-            auto m = memberReads_.find(mid);
-            if (m == memberReads_.end()) {
-                m = memberReads_.emplace(mid, std::pair<std::set<std::pair<std::string, int>>, std::set<std::string>>{}).first;
-                originalReads(m_, *byId_.at(mid), m->second.first, m->second.second);
-            }
-            if (m->second.first.count(key) || m->second.second.count(key.first)) return true;
+            const Reads& m = readsOf(*byId_.at(mid));
+            if (m.first.count(key) || m.second.count(key.first)) return true;
         }
     }
     return false;
@@ -1546,7 +1547,11 @@ std::vector<std::string> Writer::unreadBits() {
     // current defines leave out is not compiled, so lint does not see its reads.
     std::set<std::pair<std::string, int>> keptBits;
     for (const auto& mem : m_.members)
-        if (!replacedIds.count(mem.id) && mem.what != "excluded_text") originalReads(m_, mem, keptBits, keptReads);
+        if (!replacedIds.count(mem.id) && mem.what != "excluded_text") {
+            const Reads& r = readsOf(mem);
+            keptBits.insert(r.first.begin(), r.first.end());
+            keptReads.insert(r.second.begin(), r.second.end());
+        }
     auto keptReadsBit = [&](const std::string& name, int k) { return keptBits.count({name, k}) > 0; };
     // Bits the replaced statements' own text read: only those are listed (a bit the original
     // left unread keeps its lint warning, as in the original).
