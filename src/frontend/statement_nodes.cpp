@@ -14,8 +14,9 @@
 // R. Rudell, A. Sangiovanni-Vincentelli, A. R. Wang, "MIS: A Multiple-Level Logic
 // Optimization System", IEEE Trans. CAD 6(6), 1987, from memory), applied only where the
 // text had no node boundary. A substitution that would give its reader more than
-// `maxCubes` cubes, or more two-input gates than the two nodes apart, is not made (the
-// node stays): the figures then count it apart. Factoring is what those figures cost, and a
+// `maxCubes` cubes, or more two-input gates than the two nodes apart, or a later arrival than
+// both the two apart and the network's depth allow (F85), is not made (the node stays): the
+// figures then count it apart. Factoring is what those figures cost, and a
 // long sum `t1 | ... | tN` merges one operand at a time into one growing node (F76). A merge
 // that multiplies nothing out (the two nodes' factored forms put together are then a form of
 // the merged node with the gates of the two apart) is made without factoring above
@@ -25,6 +26,7 @@
 #include "kerf/frontend/lower.h"
 
 #include <algorithm>
+#include <climits>
 
 namespace kerf::frontend {
 
@@ -84,6 +86,28 @@ std::size_t formGates(const algebra::Factored& f) {
     return g;
 }
 
+/// Arrival of a form's root when each literal's variable arrives at `at` (each AND/OR
+/// balanced by arrival, two earliest first: passes/factored.cpp counts depth the same way).
+std::size_t formArrival(const algebra::Factored& f, const std::vector<std::size_t>& at) {
+    using K = algebra::Factored::Kind;
+    if (f.kind == K::Lit) return literalVar(f.lit) < at.size() ? at[literalVar(f.lit)] : 0;
+    if (f.kind != K::And && f.kind != K::Or) return 0;
+    std::vector<std::size_t> t;
+    t.reserve(f.kids.size());
+    for (const auto& k : f.kids) t.push_back(formArrival(k, at));
+    if (t.empty()) return 0;
+    std::make_heap(t.begin(), t.end(), std::greater<>());
+    while (t.size() > 1) {
+        std::pop_heap(t.begin(), t.end(), std::greater<>());
+        const std::size_t a = t.back();
+        t.pop_back();
+        std::pop_heap(t.begin(), t.end(), std::greater<>());
+        t.back() = std::max(a, t.back()) + 1;
+        std::push_heap(t.begin(), t.end(), std::greater<>());
+    }
+    return t[0];
+}
+
 /// Two-input gates of the smallest of the forms the figures choose from (passes/factored.cpp:
 /// the sum of products, and the two factored forms up to a thousand cubes).
 std::size_t coverGates(const Cover& f) {
@@ -93,6 +117,25 @@ std::size_t coverGates(const Cover& f) {
         g = std::min({g, formGates(q), formGates(algebra::factorBest(f, q))});
     }
     return g;
+}
+
+/// Figures of a cover as the figures count it (passes/factored.cpp): the two-input gates of
+/// the smallest of its forms (the sum of products, and the two factored forms up to a
+/// thousand cubes), and the earliest arrival among those forms.
+struct CoverFigures {
+    std::size_t gates = 0;
+    std::size_t arrival = 0;
+};
+CoverFigures coverFigures(const Cover& f, const std::vector<std::size_t>& at) {
+    algebra::Factored sop = algebra::sumOfProducts(f);
+    CoverFigures r{formGates(sop), formArrival(sop, at)};
+    if (f.cubes.size() <= 1000) {
+        algebra::Factored q = algebra::factor(f, algebra::FactorMethod::Quick);
+        algebra::Factored b = algebra::factorBest(f, q);
+        r.gates = std::min({r.gates, formGates(q), formGates(b)});
+        r.arrival = std::min({r.arrival, formArrival(q, at), formArrival(b, at)});
+    }
+    return r;
 }
 
 } // namespace
@@ -122,6 +165,40 @@ ExpressionMergeCounts collapseExpressionNodes(net::Network& net, const Expressio
         if (gatesOf[u] == kUnknown) gatesOf[u] = coverGates(net.node(u).cover);
         return gatesOf[u];
     };
+    // Arrival of each node, by the same counting, and the latest arrival that keeps the
+    // network's depth: a merge may make its node arrive later than the two apart only within
+    // that slack (F85). Arrivals are counted on the sums of products to start with (no
+    // factoring; the nodes are one operator each), and on the factored forms for the nodes a
+    // factored merge looks at. A fanin's required time is its reader's less the depth of a
+    // balanced AND of the cube's literals under a balanced OR of the cubes (log2 of each).
+    std::vector<std::size_t> arrivalOf = net::arrivalTimes(net);
+    arrivalOf.resize(n, 0);
+    std::vector<long> required(n, LONG_MAX);
+    {
+        long depth = 0;
+        for (const net::Output& o : net.outputs())
+            depth = std::max(depth, static_cast<long>(arrivalOf[literalVar(o.driver)] + o.tail));
+        for (const net::Output& o : net.outputs()) {
+            const auto u = literalVar(o.driver);
+            required[u] = std::min(required[u], depth - static_cast<long>(o.tail));
+        }
+        auto log2up = [](std::size_t k) {
+            long d = 0;
+            while ((std::size_t{1} << d) < k) ++d;
+            return d;
+        };
+        const std::vector<net::NodeId> order = net.topoOrder();
+        for (auto it = order.rbegin(); it != order.rend(); ++it) {
+            if (required[*it] == LONG_MAX) continue;
+            const auto& cubes = net.node(*it).cover.cubes;
+            const long orDepth = log2up(cubes.size());
+            for (const Cube& c : cubes)
+                for (Literal l : c.lits) {
+                    long& r = required[literalVar(l)];
+                    r = std::min(r, required[*it] - orDepth - log2up(c.lits.size()));
+                }
+        }
+    }
     // Nodes that took merges decided without factoring: cubes appended, not yet sorted and
     // free of contained cubes. Each is tidied once, when finished (visited as a fanin, or at
     // the end), so a long sum costs one sort, not one per operand.
@@ -259,8 +336,18 @@ ExpressionMergeCounts collapseExpressionNodes(net::Network& net, const Expressio
         // Only where one node is no larger than the two: written text the engine printed from
         // one node always is (its form multiplied out factors back at least as small), while an
         // author's nesting can be smaller than any factoring of its product.
-        const std::size_t rebuiltGates = coverGates(rebuilt);
+        // Nor later than the network's depth allows: the two apart are a form of the merged
+        // node too, while the factoring of a multiplied-out product of sums can arrive later
+        // (F85: the writer's De Morgan text of a node read inverted, merged back at equal
+        // gates, read one level deeper than the engine's result). v's fanins were all
+        // visited; p's arrival apart is counted now, with v's.
+        arrivalOf[v] = coverFigures(vc, arrivalOf).arrival;
+        const CoverFigures merged = coverFigures(rebuilt, arrivalOf);
+        const std::size_t rebuiltGates = merged.gates;
         if (rebuiltGates > gates(p) + gates(v)) continue;
+        if (static_cast<long>(merged.arrival) > required[p] &&
+            merged.arrival > coverFigures(pc, arrivalOf).arrival)
+            continue;
         // v's fanins are now read by p.
         for (const Cube& c : vc.cubes)
             for (Literal x : c.lits) reader[literalVar(x)] = p;
@@ -269,6 +356,7 @@ ExpressionMergeCounts collapseExpressionNodes(net::Network& net, const Expressio
             for (Literal x : pc.cubes[i].lits)
                 if (reader[literalVar(x)] == p) readerCube[literalVar(x)] = static_cast<std::uint32_t>(i);
         gatesOf[p] = rebuiltGates;
+        arrivalOf[p] = merged.arrival;
         uses[v] = 0;
         ++counts.merged;
     }

@@ -6,6 +6,7 @@
 // description in the reader's format and compares the network's function,
 // by simulation, with a direct evaluation written in the test.
 #include "frontend_support.h"
+#include "kerf/passes/factored.h"
 
 #include <random>
 
@@ -487,5 +488,48 @@ TEST(FrontendLower, LongSumMergesWithoutFactoringAndKeepsItsFunction) {
         for (int i = 0; i < 16; ++i) words.push_back((std::uint64_t(rng()) << 32) ^ rng());
         EXPECT_EQ(kerf::net::simulate(net, words), kerf::net::simulate(before, words));
         EXPECT_EQ(kerf::net::simulate(factored, words), kerf::net::simulate(before, words));
+    }
+}
+
+// F85: the writer prints a node read inverted as its De Morgan dual, a product of sums. The
+// merge multiplied two of those sums into the product at equal gates, and the factoring of
+// that product arrived one level later than the sums apart: the written file read back one
+// level deeper than the engine's result. A merge now never makes its node arrive later.
+// (The shape is kerf's own output of tests/rtl/min_block_self_read.sv; expected depths by hand.)
+TEST(FrontendLower, MergeNeverMakesItsNodeArriveLater) {
+    using kerf::algebra::Cover;
+    using kerf::algebra::Cube;
+    using kerf::algebra::makeLiteral;
+    kerf::net::Network net;
+    auto k0 = net.addInput("k0"), k1 = net.addInput("k1"), i20 = net.addInput("i20"),
+         i40 = net.addInput("i40"), i24 = net.addInput("i24");
+    auto lit = [](kerf::net::NodeId v, bool neg = false) { return makeLiteral(v, neg); };
+    auto sum = [&](std::vector<kerf::algebra::Literal> ls) {
+        Cover c;
+        for (auto l : ls) c.cubes.push_back(Cube({l}));
+        c.normalize();
+        return net.addLogic(c);
+    };
+    auto a = net.addLogic(Cover({Cube({lit(i20), lit(i40)})}));      // wire a = i20 & i40
+    auto n24 = net.addLogic(Cover({Cube({lit(k0), lit(i24, true)})}));  // wire n24 = k0 & ~i24
+    auto s1 = sum({lit(k0), lit(k1), lit(a, true)});
+    auto s2 = sum({lit(k0), lit(k1, true), lit(a)});
+    auto s3 = sum({lit(n24, true), lit(i20)});
+    auto y = net.addLogic(Cover({Cube({lit(s1), lit(s2), lit(s3)})}));  // y = s1 & s2 & s3
+    net.addOutput("a", lit(a));
+    net.addOutput("n24", lit(n24));
+    net.addOutput("y", lit(y));
+    const kerf::net::Network before = net;
+    const auto mBefore = kerf::passes::measureFactored(before);
+    ASSERT_EQ(mBefore.depth, 4u);   // a at 1, each sum at 2, the 3-input AND at 4
+    kerf::frontend::collapseExpressionNodes(net);
+    const auto mAfter = kerf::passes::measureFactored(net);
+    EXPECT_LE(mAfter.depth, mBefore.depth);
+    EXPECT_LE(mAfter.gates, mBefore.gates);
+    std::mt19937 rng(85);
+    for (int round = 0; round < 4; ++round) {
+        std::vector<std::uint64_t> words;
+        for (int i = 0; i < 5; ++i) words.push_back((std::uint64_t(rng()) << 32) ^ rng());
+        EXPECT_EQ(kerf::net::simulate(net, words), kerf::net::simulate(before, words));
     }
 }
