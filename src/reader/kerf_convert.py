@@ -418,20 +418,46 @@ class Conv:
         return self.add(["unary", ti, s, t, op, a])
 
     def x_binary(self, e):
-        ti = self.type_of(e)
-        op = _BINARY_BY_ID.get(id(e.op))
-        if op is None:
-            op = _BINARY[e.op]     # a KeyError (a reader bug) as before
-        if op in _EQUALITY:
-            self.d.note_compare(e.left, e.right)
-        l = self.expr(e.left)
-        r = self.expr(e.right)
-        if self.is_const(l) and self.is_const(r):
-            c = self.fold(e)
-            if c is not None:
-                return c
-        s, t = self.span(e)
-        return self.add(["binary", ti, s, t, op, l, r])
+        """A binary operator, and the binary operators down its left operands with it: a
+        chain `t1 | t2 | ... | tN` nests to the left, and its N nodes are converted in one
+        loop (no Python frames per node) in the order, and at the depths, of the
+        recursion through `expr`."""
+        spine = []
+        depth = self.depth
+        while True:
+            ti = self.type_of(e)
+            op = _BINARY_BY_ID.get(id(e.op))
+            if op is None:
+                op = _BINARY[e.op]     # a KeyError (a reader bug) as before
+            left = e.left
+            if op in _EQUALITY:
+                self.d.note_compare(left, e.right)
+            spine.append((e, ti, op, depth))
+            if id(left.kind) != _BINARY_OP_ID:
+                break
+            depth += 1
+            if depth > MAX_DEPTH:
+                raise Unsupported("nests expressions more than %d deep" % MAX_DEPTH)
+            e = left
+        saved = self.depth
+        try:
+            self.depth = depth
+            l = self.expr(left)
+            ex = self.ex
+            for e, ti, op, depth in reversed(spine):
+                self.depth = depth
+                r = self.expr(e.right)
+                if ex[l][0] == "const" and ex[r][0] == "const":
+                    c = self.fold(e)
+                    if c is not None:
+                        l = c
+                        continue
+                s, t = self.span(e)
+                ex.append(["binary", ti, s, t, op, l, r])
+                l = len(ex) - 1
+            return l
+        finally:
+            self.depth = saved
 
     def x_cond(self, e):
         conds = e.conditions
@@ -1414,3 +1440,4 @@ _EXPR = {
 }
 # Enum members are singletons: dispatching on their identity avoids hashing them.
 _EXPR_BY_ID = {id(k): h for k, h in _EXPR.items()}
+_BINARY_OP_ID = id(EK.BinaryOp)

@@ -27,6 +27,8 @@ analysis can only keep more code as written, never less.
 
 import bisect
 import hashlib
+import itertools
+import operator
 import re
 
 import pyslang
@@ -40,6 +42,24 @@ SXK = syntax.SyntaxKind
 _SKIP_TOKENS = {TK.Placeholder, TK.EndOfFile}
 # Every other token kind: the keys of a visit's lookup table that reaches each token.
 _TOKEN_KINDS = [k for k in TK.__members__.values() if k not in _SKIP_TOKENS]
+_RAW_TEXT = operator.attrgetter("rawText")
+_IS_MISSING = operator.attrgetter("isMissing")
+_KIND = operator.attrgetter("kind")
+# A visit that hands every token to a list's append: no Python frame per token (slang
+# looks the kind up natively). The list is emptied after each visit; nothing else runs
+# during one, so the one list serves every call.
+_VISITED = []
+_APPEND_ALL = dict.fromkeys(_TOKEN_KINDS, _VISITED.append)
+
+
+def _visit_tokens(node):
+    """The tokens of syntax node `node` in order, missing ones included."""
+    _VISITED.clear()
+    try:
+        node.visit(lookup_table=_APPEND_ALL)
+        return _VISITED[:]
+    finally:
+        _VISITED.clear()
 
 
 def node_tokens(node):
@@ -56,7 +76,7 @@ def node_tokens(node):
     if isinstance(node, parsing.Token):
         cb(node)
     elif isinstance(node, syntax.SyntaxNode):
-        node.visit(cb)
+        out = list(itertools.filterfalse(_IS_MISSING, _visit_tokens(node)))
     else:                      # a token list, e.g. a macro body
         for n in node:
             if isinstance(n, parsing.Token):
@@ -223,18 +243,19 @@ class Refs:
     def token_names(tokens):
         """Names written in a token sequence: `a`, and `pkg::a` for scoped names."""
         names = []
+        kinds = list(map(_KIND, tokens))    # each token's kind fetched once, natively
+        ident, unit_name, colons = TK.Identifier, TK.UnitSystemName, TK.DoubleColon
         n = len(tokens)
         i = 0
         while i < n:
-            t = tokens[i]
-            k = t.kind
-            if k in (TK.Identifier, TK.UnitSystemName) and i + 2 < n and tokens[i + 1].kind == TK.DoubleColon \
-                    and tokens[i + 2].kind == TK.Identifier:
-                names.append(t.valueText + "::" + tokens[i + 2].valueText)
+            k = kinds[i]
+            if (k is ident or k is unit_name) and i + 2 < n and kinds[i + 1] is colons \
+                    and kinds[i + 2] is ident:
+                names.append(tokens[i].valueText + "::" + tokens[i + 2].valueText)
                 i += 3
                 continue
-            if k == TK.Identifier:
-                names.append(t.valueText)
+            if k is ident:
+                names.append(tokens[i].valueText)
             i += 1
         return names
 
@@ -367,9 +388,10 @@ class Keys:
         self._sym_text = {}
         self._def_text = {}
 
-    @staticmethod
-    def token_text(tokens):
+    def token_text(self, tokens):
         """Token texts, with the directives standing between them (whitespace and comments left out)."""
+        if not self.tokens.any_directives:
+            return list(map(_RAW_TEXT, tokens))     # no directive anywhere: only the texts
         out = []
         for i, tok in enumerate(tokens):
             if i == 0:
@@ -457,6 +479,10 @@ class Keys:
         ident, unit_name, colons = TK.Identifier, TK.UnitSystemName, TK.DoubleColon
         directive = TRK.Directive
         trivia = self.tokens.any_directives
+        if not trivia and isinstance(node, syntax.SyntaxNode):
+            got = self._plain_node_key(h, node, instances)
+            if got is not False:
+                return got
         named = []           # (position, kind, value text) of the tokens names are made of
         chunk = []
         count = 0
@@ -499,7 +525,41 @@ class Keys:
             return None
         if chunk:
             h.update((" " + " ".join(chunk)).encode(enc, "surrogateescape"))
-        # The names as Refs.token_names finds them: `a`, and `pkg::a` from three adjacent tokens.
+        return self._finish_key(h, self._names_of(named), instances)
+
+    # Members longer than this (bytes of text) are keyed token by token (`node_key`) rather
+    # than with all their tokens in hand at once (about 80 bytes a token).
+    PLAIN_KEY_MAX_TEXT = 1 << 20
+
+    def _plain_node_key(self, h, node, instances):
+        """`node_key` for sources without directives, where a token's text is all it gives:
+        the tokens come from one visit that runs no Python per token (`_visit_tokens`),
+        only the name tokens are looked at one by one. The digest is the same bytes.
+        False when the member is too long for that or has a missing token."""
+        r = node.sourceRange
+        if r.end.offset - r.start.offset > self.PLAIN_KEY_MAX_TEXT or r.end.buffer != r.start.buffer:
+            return False
+        toks = _visit_tokens(node)
+        if not toks:
+            return None
+        texts = list(map(_RAW_TEXT, toks))
+        if "" in texts:
+            return False         # a missing token (slang would have reported an error)
+        enc = "utf-8"
+        for i in range(0, len(texts), 4096):
+            part = " ".join(texts[i:i + 4096])
+            h.update(((" " + part) if i else part).encode(enc, "surrogateescape"))
+        ident, unit_name, colons = TK.Identifier, TK.UnitSystemName, TK.DoubleColon
+        kinds = list(map(_KIND, toks))
+        named = [(i, k, toks[i].valueText) for i, k in enumerate(kinds)
+                 if k is ident or k is unit_name or k is colons]
+        return self._finish_key(h, self._names_of(named), instances)
+
+    @staticmethod
+    def _names_of(named):
+        """The names as Refs.token_names finds them, from (position, kind, value text) of a
+        member's name tokens: `a`, and `pkg::a` from three adjacent tokens."""
+        ident, colons = TK.Identifier, TK.DoubleColon
         names = []
         j = 0
         while j < len(named):
@@ -512,6 +572,10 @@ class Keys:
             if k is ident:
                 names.append(text)
             j += 1
+        return names
+
+    def _finish_key(self, h, names, instances):
+        enc = "utf-8"
         for s in self.refs.symbols_of_names(names):
             h.update(b"\n" + self.symbol_text(s).encode(enc, "surrogateescape"))
         for n in instances:
