@@ -268,6 +268,30 @@ std::vector<std::uint8_t> ExprBuilder::sliceKids(const Factored& f) const {
     return out;
 }
 
+bool ExprBuilder::comparisons(const Factored& f) const {
+    // An OR (AND) whose every operand is a whole-vector comparison `v == K` (`v != K`): written as
+    // those comparisons, never regrouped into ?: or ^ over the vector's bits.
+    if ((f.kind != K::And && f.kind != K::Or) || f.kids.size() < 2) return false;
+    for (const auto& k : f.kids) {
+        if (k.kind == f.kind || (k.kind != K::And && k.kind != K::Or) || k.kids.size() < 2) return false;
+        for (const auto& x : k.kids)
+            if (x.kind != K::Lit) return false;
+        // A whole comparison: every bit of one vector.
+        std::uint32_t v0 = literalVar(k.kids[0].lit);
+        if (v0 == 0 || v0 >= refs_.size() || !refs_[v0] || refs_[v0]->signal.empty() ||
+            refs_[v0]->width != static_cast<int>(k.kids.size()))
+            return false;
+        std::vector<std::uint8_t> in = sliceKids(k);
+        for (auto b : in)
+            if (!b) return false;
+        for (const auto& x : k.kids) {
+            std::uint32_t v = literalVar(x.lit);
+            if (v == 0 || v >= refs_.size() || !refs_[v] || refs_[v]->signal != refs_[v0]->signal) return false;
+        }
+    }
+    return true;
+}
+
 int ExprBuilder::costLit(Literal l) {
     std::uint32_t v = literalVar(l);
     if (v == 0) return 0;
@@ -276,7 +300,7 @@ int ExprBuilder::costLit(Literal l) {
 }
 
 const Factored* ExprBuilder::xorGrouped(const Factored& f) {
-    if (f.kind != K::Or || f.kids.size() <= 2) return nullptr;
+    if (f.kind != K::Or || f.kids.size() <= 2 || comparisons(f)) return nullptr;
     if (auto it = regroupedOf_.find(&f); it != regroupedOf_.end()) return it->second;
     const Factored* out = nullptr;
     auto pairs = xorPairs(f);
@@ -313,7 +337,7 @@ int ExprBuilder::cost(const Factored& f, bool neg) {
     case K::Lit: c = costLit(neg ? negateLiteral(f.lit) : f.lit); break;
     case K::And:
     case K::Or: {
-        if (xorShape(f, x, y, inv)) {
+        if (!comparisons(f) && xorShape(f, x, y, inv)) {
             c = costLit(x) + costLit(y) + ((inv != neg) ? 1 : 0);
             break;
         }
@@ -377,7 +401,8 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
     if (const Factored* g = xorGrouped(f)) return build(*g, neg);
     Literal x, y;
     bool inv;
-    if (xorShape(f, x, y, inv)) {
+    const bool compares = comparisons(f);
+    if (!compares && xorShape(f, x, y, inv)) {
         e.kind = PExpr::Kind::Xor;
         e.kids.push_back(buildLit(x));
         e.kids.push_back(buildLit(y));
@@ -392,7 +417,7 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
     }
     Literal sel;
     std::size_t thenKid, sThen, sElse;
-    if (muxShape(f, sel, thenKid, sThen, sElse)) {
+    if (!compares && muxShape(f, sel, thenKid, sThen, sElse)) {
         e.kind = PExpr::Kind::Mux;
         PExpr s = buildLit(sel);
         PExpr a = build(without(f.kids[thenKid], sThen), neg);
@@ -566,7 +591,9 @@ void appendFlat(std::string& out, const PExpr& e) {
         out += " ? ";
         part(e.kids[1]);
         out += " : ";
-        part(e.kids[2]);
+        // A chain `a ? x : b ? y : z` needs no parentheses: ?: groups to the right (IEEE 1800 11.3.2).
+        if (e.kids[2].kind == PExpr::Kind::Mux && !e.kids[2].neg) appendFlat(out, e.kids[2]);
+        else part(e.kids[2]);
         if (e.neg) out += ')';
         return;
     }
@@ -595,6 +622,42 @@ std::vector<std::string> layoutLines(const PExpr& e, std::size_t col, std::size_
     std::string close = std::string(e.neg ? ")" : "") + (paren ? ")" : "");
     std::size_t kc = col + open.size();
     std::vector<std::string> lines;
+    if (e.kind == PExpr::Kind::Mux && e.kids[2].kind == PExpr::Kind::Mux && !e.kids[2].neg) {
+        // A chain of choices, one per line, each `: cond ? value` under the first condition.
+        auto sub = [&](const PExpr& k, std::size_t c, std::size_t t) {
+            // A condition that is an OR or XOR gets parentheses: `(a | b) ? X` reads unambiguously.
+            bool orLike = (k.kind == PExpr::Kind::Or || k.kind == PExpr::Kind::Xor) && k.kids.size() > 1 && !k.neg;
+            return layoutLines(k, c, limit, t, needsParens(PExpr::Kind::Mux, k) || orLike ||
+                                                   (k.kind == PExpr::Kind::Compare));
+        };
+        const std::size_t colonCol = kc >= 2 ? kc - 2 : 0;
+        const PExpr* link = &e;
+        bool first = true;
+        while (true) {
+            std::vector<std::string> cond = sub(link->kids[0], kc, 0);
+            std::vector<std::string> val = sub(link->kids[1], kc, 0);
+            if (first) lines = cond;
+            else {
+                lines.push_back(std::string(colonCol, ' ') + ": " + cond[0]);
+                for (std::size_t i = 1; i < cond.size(); ++i) lines.push_back(cond[i]);
+            }
+            lines.back() += " ? " + val[0];
+            for (std::size_t i = 1; i < val.size(); ++i) lines.push_back(val[i]);
+            first = false;
+            const PExpr& rest = link->kids[2];
+            if (rest.kind == PExpr::Kind::Mux && !rest.neg) {
+                link = &rest;
+                continue;
+            }
+            std::vector<std::string> last = sub(rest, kc, tail + close.size());
+            lines.push_back(std::string(colonCol, ' ') + ": " + last[0]);
+            for (std::size_t i = 1; i < last.size(); ++i) lines.push_back(last[i]);
+            break;
+        }
+        lines.front() = open + lines.front();
+        lines.back() += close;
+        return lines;
+    }
     if (e.kind == PExpr::Kind::Mux) {
         auto sub = [&](const PExpr& k, std::size_t c, std::size_t t) {
             return layoutLines(k, c, limit, t, needsParens(PExpr::Kind::Mux, k));

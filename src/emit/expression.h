@@ -79,6 +79,7 @@ private:
     PExpr buildLit(algebra::Literal l);
     void groupSlices(PExpr& e);
     std::vector<std::uint8_t> sliceKids(const algebra::Factored& f) const;
+    bool comparisons(const algebra::Factored& f) const;
     const algebra::Factored* xorGrouped(const algebra::Factored& f);
 
     const std::vector<std::optional<VarRef>>& refs_;

@@ -24,6 +24,7 @@
 #include "kerf/emit/guard.h"
 
 #include "expression.h"
+#include "named_values.h"
 #include "kerf/frontend/references.h"
 #include "kerf/io/files.h"
 
@@ -509,6 +510,24 @@ private:
     }
     std::string operationText(const frontend::WordOp& w);
     void inlineOperands();
+
+public:
+    /// Registers of named values (named_values.cpp): targets assigned only names are written
+    /// as one choice among them.
+    void setDomains(std::vector<NamedDomain> d) { domains_ = std::move(d); }
+
+private:
+    std::vector<NamedDomain> domains_;
+    /// Per target written as a choice: the choice, and its outputs by bit offset.
+    std::map<std::string, std::pair<ValueChoice, std::vector<std::size_t>>> choices_;
+    void planChoices();
+    PExpr choiceExpr(const std::string& signal);
+    bool enumTyped(const std::string& signal) const {
+        auto it = m_.signals.find(signal);
+        if (it == m_.signals.end()) return false;
+        frontend::TypeId t = it->second.type;
+        return t != frontend::kNoId && t < m_.ir.types.size() && m_.ir.types[t].kind == frontend::TypeKind::Enum;
+    }
 };
 
 // ------------------------------------------------------------------ set-up
@@ -778,12 +797,18 @@ void Writer::chooseWires() {
         ++users[v];
         (literalNegated(d) ? negUses : posUses)[v]++;
     }
+    // A target bit that several conditions of a choice read is a wire of its own.
+    std::vector<std::uint32_t> choiceUses(n, 0);
+    for (const auto& [sig, plan] : choices_)
+        for (const auto& link : plan.first.links)
+            for (const auto& [k, val] : link.cube)
+                ++choiceUses[literalVar(net_.outputs()[plan.second[static_cast<std::size_t>(k)]].driver)];
     for (NodeId v : order) {
         if (!live[v] || refs_[v]) continue;
         // A node read by another node keeps its own statement even when read once: the reader
         // flattens a statement into a sum of products, and nesting a node into another's text
         // could count larger when the written file is read back.
-        if (users[v] <= 1 && logicUsers[v] == 0) continue;
+        if (users[v] <= 1 && logicUsers[v] == 0 && choiceUses[v] < 2) continue;
         isWire_[v] = 1;
         wires_.push_back(v);
         VarRef r;
@@ -1621,6 +1646,72 @@ PExpr Writer::outputExpr(std::size_t i) {
     return eb.literal(d);
 }
 
+void Writer::planChoices() {
+    choices_.clear();
+    for (const auto& d : domains_) {
+        if (!d.assignedNamed) continue;
+        auto sig = m_.signals.find(d.signal);
+        if (sig == m_.signals.end() || sig->second.width != d.width) continue;
+        // Every bit an output of one statement, each once.
+        std::vector<std::size_t> bits(static_cast<std::size_t>(d.width), outs_.size());
+        int stmt = -2;
+        bool ok = true;
+        for (std::size_t i = 0; i < outs_.size() && ok; ++i) {
+            if (outs_[i].generated || outs_[i].bit.signal != d.signal) continue;
+            int off = outs_[i].bit.offset;
+            if (off < 0 || off >= d.width || bits[static_cast<std::size_t>(off)] != outs_.size()) ok = false;
+            else bits[static_cast<std::size_t>(off)] = i;
+            if (stmt != -2 && stmt != outs_[i].stmt) ok = false;
+            stmt = outs_[i].stmt;
+        }
+        for (std::size_t i : bits) ok = ok && i < outs_.size();
+        // An enum target is written by if/else (see statementsFor): only inside a block.
+        if (ok && enumTyped(d.signal)) ok = byId_.at(stmt)->kind == frontend::MemberKind::Comb;
+        if (!ok) continue;
+        std::vector<Literal> drivers;
+        for (std::size_t i : bits) drivers.push_back(net_.outputs()[i].driver);
+        auto vc = valueChoice(d, net_, drivers);
+        if (!vc) continue;
+        // The target's bits lend no name to their logic: the choice reads that logic.
+        for (std::size_t i : bits) allowed_[i] = 0;
+        choices_.emplace(d.signal, std::pair{std::move(*vc), std::move(bits)});
+    }
+}
+
+PExpr Writer::choiceExpr(const std::string& signal) {
+    const auto& [vc, bits] = choices_.at(signal);
+    ExprBuilder eb(refs_, forms_);
+    auto name = [&](const ValueChoice::Link& link) {
+        PExpr e;
+        e.kind = PExpr::Kind::Ref;
+        e.text = link.ref;
+        for (std::size_t c = 0; c < m_.constants.size(); ++c)
+            if (m_.constants[c].ref == link.ref) e.constant = static_cast<int>(c);
+        return e;
+    };
+    PExpr e = name(vc.links.back());
+    for (std::size_t i = vc.links.size() - 1; i-- > 0;) {
+        const auto& link = vc.links[i];
+        PExpr cond;
+        cond.kind = PExpr::Kind::And;
+        for (const auto& [k, val] : link.cube) {
+            Literal l = net_.outputs()[bits[static_cast<std::size_t>(k)]].driver;
+            cond.kids.push_back(eb.literal(val ? l : algebra::negateLiteral(l)));
+        }
+        if (cond.kids.size() == 1) {
+            PExpr only = std::move(cond.kids[0]);
+            cond = std::move(only);
+        }
+        PExpr m;
+        m.kind = PExpr::Kind::Mux;
+        m.kids.push_back(std::move(cond));
+        m.kids.push_back(name(link));
+        m.kids.push_back(std::move(e));
+        e = std::move(m);
+    }
+    return e;
+}
+
 std::string Writer::statement(const std::string& ind, const std::string& lead, const PExpr& e) const {
     std::size_t col = ind.size() + lead.size();
     std::string body = layoutText(e, col, opts_.lineLimit, 1);
@@ -1652,6 +1743,7 @@ struct Assignment {
     std::set<BitKey> readBits;      ///< every bit the value reads, its own signal's included
     std::vector<BitKey> writeBits;  ///< the bits it assigns
     std::string prefix, suffix;   ///< around the value, for targets that need it (a one-bit enum)
+    bool choice = false;          ///< a choice among named values (`rhs` a chain of ?:)
 };
 
 BitKey keyOf(const VarRef& r) { return r.signal.empty() ? BitKey{r.text, 0} : BitKey{r.signal, r.offset}; }
@@ -1707,6 +1799,12 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
             writes(a, q, q);
             as.push_back(std::move(a));
         };
+        if (auto ch = choices_.find(s); ch != choices_.end() && idx.size() == ch->second.second.size()) {
+            add(verilogName(s), choiceExpr(s), 0);
+            writes(as.back(), 1, idx.size() - 1);
+            as.back().choice = true;
+            continue;
+        }
         const frontend::WordOp* op = nullptr;
         for (const auto& w : low_.wordOps)
             if (auto named = resultName_.find(w.result); named != resultName_.end() && named->second == s) op = &w;
@@ -1919,7 +2017,26 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         std::string unit = ind.find('\t') != std::string::npos ? "\t" : "  ";
         std::string style = mem->style.empty() ? "always_comb" : mem->style;
         std::string out = style == "always_comb" ? "always_comb begin" : "always @(*) begin";
-        for (const auto& a : ordered) out += "\n" + ind + unit + wrapped(a, statement(ind + unit, a.lhs + " = " + a.prefix, a.rhs));
+        for (const auto& a : ordered) {
+            if (a.choice && enumTyped(a.signal)) {
+                // An enum target chooses by if/else: a ?: of enum values is valid SystemVerilog
+                // (IEEE 1800 11.4.11) but Icarus Verilog 11/12 asks for a cast it cannot do.
+                collectConstants(a.rhs, constantsNamed_);
+                const PExpr* link = &a.rhs;
+                std::string lead = "if (";
+                while (link->kind == PExpr::Kind::Mux) {
+                    std::string tail = ") " + a.lhs + " = " + flatText(link->kids[1]) + ";";
+                    std::string body = layoutText(link->kids[0], ind.size() + unit.size() + lead.size(),
+                                                  opts_.lineLimit, tail.size());
+                    out += "\n" + ind + unit + lead + body + tail;
+                    lead = "else if (";
+                    link = &link->kids[2];
+                }
+                out += "\n" + ind + unit + "else " + a.lhs + " = " + flatText(*link) + ";";
+                continue;
+            }
+            out += "\n" + ind + unit + wrapped(a, statement(ind + unit, a.lhs + " = " + a.prefix, a.rhs));
+        }
         out += "\n" + ind + "end";
         return out;
     }
@@ -2193,6 +2310,7 @@ WriteResult Writer::run() {
     aliasOf_.assign(net_.nodeCount(), -1);
     for (std::size_t k = 0; k < net_.inputs().size(); ++k)
         inputRefs_[net_.inputs()[k]] = refFor(low_.inputBits[k], signalRank(low_.inputBits[k].signal));
+    planChoices();
     bool settled = false;
     for (std::size_t round = 0; round <= outs_.size() + 1 && !settled; ++round) {
         if (!plan()) continue;
@@ -2477,7 +2595,23 @@ WriteResult Writer::run() {
 } // namespace
 
 WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
+    // Functions of a register the source only names are written by its names (named_values.cpp):
+    // on a copy of the network, so the caller's forms stay the engine's.
+    std::vector<NamedDomain> domains = namedDomains(*in.module);
+    if (!domains.empty()) {
+        net::Network named = *in.network;
+        std::vector<Factored> forms = *in.forms;
+        if (nameDomainFunctions(domains, *in.lowered, named, forms) > 0) {
+            WriteInput copy = in;
+            copy.network = &named;
+            copy.forms = &forms;
+            Writer w(copy, opts);
+            w.setDomains(std::move(domains));
+            return w.run();
+        }
+    }
     Writer w(in, opts);
+    w.setDomains(std::move(domains));
     return w.run();
 }
 

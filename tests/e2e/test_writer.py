@@ -989,5 +989,63 @@ def _(t):
                     f"{what}: exit {r.returncode} (usage error 2), nothing written: {r.stderr[-300:]}")
 
 
+def _named_values_case(t, case, top, state, target, names, bits_allowed):
+    """Issue 10 (named constants): logic over a register the source only compares with names
+    is written with those names, and the next-state vector the source only assigns names (or
+    the register whole) is one assignment choosing among them. Checks the function (Icarus
+    Verilog), that Verilator -Wall reports nothing (linter), that the lines kerf wrote compare
+    `state` with names of the register's values only (never a literal), that `target` is
+    assigned whole, never bit by bit, choosing among the names, and, where every value of the
+    register is named (`bits_allowed` false), that no bit of it is read by position."""
+    src = os.path.join("tests", "e2e", "named_values", case)
+    d = os.path.join(t.work, top)
+    os.mkdir(d)
+    out = os.path.join(d, case)
+    r = restructure(t, [src], top, out)
+    if not t.res.check(r.returncode == 0, f"{top}: restructure: {r.stderr[-800:]}"):
+        return
+    source_lines = set(open(src).read().split("\n"))
+    written = [l for l in open(out).read().split("\n") if l not in source_lines and not l.strip().startswith("//")]
+    text = "\n".join(written)
+    t.res.check(written, f"{top}: the module is rewritten")
+    compares = re.findall(r"\b" + state + r"\s*(==|!=)\s*([A-Za-z_0-9']+)", text)
+    used = {n for _, n in compares}
+    t.res.check(len(used & set(names)) >= 3 and used <= set(names),
+                f"{top}: the written logic compares {state} with its names only: {sorted(used)}\n{text}")
+    # `next = c1 ? A : ...;` or, for an enum target, `if (c1) st_d = A; else ...`.
+    values = re.findall(r"\b" + target + r"\s*=(?!=)([^;]*);", text)
+    chosen = {n for v in values for n in re.findall(r"\b[A-Z_][A-Z0-9_]*\b", v)}
+    t.res.check(values and re.search(r"\b" + target + r"\s*\[", text) is None
+                and len(chosen & set(names)) >= 3,
+                f"{top}: {target} is one vector assignment choosing among the names: {sorted(chosen)}\n{text}")
+    if not bits_allowed:
+        t.res.check(re.search(r"\b" + state + r"\s*\[", text) is None,
+                    f"{top}: no bit of {state} is read by position (every value is named):\n{text}")
+    sim = os.path.join(d, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], top, out, sim, vectors=4000)
+    t.res.check(ok, f"{top}: the rewrite simulates like the input (Icarus Verilog): {log}")
+    if shutil.which("verilator"):
+        ok1, w1, raw = O.lint([out], top)
+        t.res.check(ok1 and not w1, f"{top}: verilator --lint-only -Wall is clean: {sorted(w1)} {raw[-600:]}")
+    again = os.path.join(d, "again_" + case)
+    r = restructure(t, [out], top, again)
+    t.res.check(r.returncode == 0 and open(again).read() == open(out).read(),
+                f"{top}: kerf on its own output changes nothing: {r.stderr[-400:]}")
+
+
+@S.case("named_values_enum", needs=("iverilog", "verilator"))
+def _(t):
+    _named_values_case(t, "door_ctrl.sv", "door_ctrl", "st_q", "st_d", ["D_SHUT", "D_OPENING", "D_AJAR", "D_CLOSING"],
+                       bits_allowed=False)
+
+
+@S.case("named_values_localparam", needs=("iverilog", "verilator"))
+def _(t):
+    # Three bits, five names: a function true for the three unnamed values may keep the bits.
+    _named_values_case(t, "tank_ctrl.v", "tank_ctrl", "state", "next",
+                       ["T_IDLE", "T_FILL", "T_SETTLE", "T_DRAIN", "T_ALARM"], bits_allowed=True)
+
+
 if __name__ == "__main__":
     S.main()
