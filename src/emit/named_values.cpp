@@ -304,8 +304,9 @@ std::vector<NamedDomain> namedDomains(const frontend::ModuleDesc& m, const Named
     return out;
 }
 
-std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const frontend::Lowered& low,
-                                net::Network& net, std::vector<Factored>& forms, const NamedValueLimits& lim) {
+std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const frontend::ModuleDesc& m,
+                                const frontend::Lowered& low, net::Network& net, std::vector<Factored>& forms,
+                                const NamedValueLimits& lim) {
     // Network input of each bit of each compared domain; a domain with a bit the network does
     // not read cannot be compared whole.
     std::map<std::string, std::size_t> domainOf;
@@ -496,9 +497,14 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
         net.node(v).cover = std::move(cv);
         ++rewritten;
     }
-    // An output the engine drives with a bit of the domain itself (`door_busy = st_q[0]`,
-    // true for OPENING and CLOSING) is driven by the comparisons instead.
-    for (auto& o : net.outputs()) {
+    // A one-bit output the engine drives with a bit of the domain itself (`door_busy =
+    // st_q[0]`, true for OPENING and CLOSING) is driven by the comparisons instead; a bit of a
+    // vector output is left alone (`assign st_copy = st_q;` stays a copy).
+    for (std::size_t i = 0; i < net.outputs().size(); ++i) {
+        auto& o = net.outputs()[i];
+        if (i >= low.outputBits.size()) break;
+        auto sig = m.signals.find(low.outputBits[i].signal);
+        if (sig == m.signals.end() || sig->second.width != 1) continue;
         net::NodeId x = literalVar(o.driver);
         if (x == 0 || net.isLogic(x) || x >= dom.size() || dom[x] < 0) continue;
         std::size_t D = static_cast<std::size_t>(dom[x]);

@@ -66,8 +66,8 @@ std::vector<NamedDomain> namedDomains(const frontend::ModuleDesc& m, const Named
 /// becomes an OR of whole-signal comparisons (`s == A | s == B`), or an AND of exclusions
 /// (`s != A & s != B`, at most maxExcluded) when the values it is false for are the named ones.
 /// Returns the number of nodes rewritten.
-std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const frontend::Lowered& low,
-                                net::Network& net, std::vector<algebra::Factored>& forms,
-                                const NamedValueLimits& lim = {});
+std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const frontend::ModuleDesc& m,
+                                const frontend::Lowered& low, net::Network& net,
+                                std::vector<algebra::Factored>& forms, const NamedValueLimits& lim = {});
 
 } // namespace kerf::emit

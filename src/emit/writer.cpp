@@ -2601,7 +2601,7 @@ WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
     if (!domains.empty()) {
         net::Network named = *in.network;
         std::vector<Factored> forms = *in.forms;
-        if (nameDomainFunctions(domains, *in.lowered, named, forms) > 0) {
+        if (nameDomainFunctions(domains, *in.module, *in.lowered, named, forms) > 0) {
             WriteInput copy = in;
             copy.network = &named;
             copy.forms = &forms;
