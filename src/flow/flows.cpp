@@ -26,6 +26,7 @@
 #include <filesystem>
 #include <iostream>
 #include <map>
+#include <memory>
 #include <optional>
 #include <set>
 
@@ -234,12 +235,13 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                      desc.src.file, desc.name, keptFor.size() > 1 ? "s" : "", names);
         }
     }
-    const net::Network original = low.net;
+    net::Network original = low.net;
     // Factoring the original (its figures, and the cache the engine starts from) is a stage
     // of its own: on generated sums of products it costs more than the lowering.
     stages.begin("factor");
-    passes::FactorCache factorCache;   // shared by the figures and the engine: no cover is factored twice
-    passes::FactoredNetwork originalForms = passes::factorNetwork(original, -1, &factorCache);
+    // Shared by the figures and the engine (no cover is factored twice); dropped before the proof.
+    auto factorCache = std::make_unique<passes::FactorCache>();
+    passes::FactoredNetwork originalForms = passes::factorNetwork(original, -1, factorCache.get());
     const net::Metrics asRead = originalForms.metrics;
     const WordOperators words = countWords(low);
 
@@ -252,7 +254,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     for (const std::string& l : opts.limits) passes::setLimit(eo.limits, l);
     eo.maxDepth = opts.maxDepth;
     eo.dontCares = &low.dontCares;
-    eo.cache = &factorCache;
+    eo.cache = factorCache.get();
     eo.verbose = opts.verbose;
     passes::EngineResult er = passes::restructure(low.net, eo);
     double passSeconds = since(tPass);
@@ -269,6 +271,15 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     wi.oneGroup = opts.dissolveInternal;
     emit::WriteResult wr = emit::writeModule(wi, wo);
     if (!wr.changed) proofOriginal.reset();   // nothing to prove
+    // What only the engine and the writer needed goes before the rewrite is read back and
+    // lowered twice: on a generated design the original's network, its copy, their forms
+    // and the factoring cache were most of this process's memory at its peak (F83).
+    // `low` keeps what the summary reads (kept statements, notes, don't-care counts).
+    original = net::Network();
+    low.net = net::Network();
+    originalForms.forms = {};
+    er.forms.forms = {};
+    factorCache.reset();
     const std::string& file = desc.src.file;
     const std::string original_text = io::readFile(file);
 
@@ -351,6 +362,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             ownFault(e, "lower");
         }
         after = passes::measureFactored(writtenLow.net);
+        writtenLow = frontend::Lowered();   // measured: the proof lowers the rewrite its own way
         // The file as a whole must get smaller by the margin too: groups are judged on the
         // engine's figures, the file on what the reader makes of the text.
         double gain = static_cast<double>(asRead.gates) - static_cast<double>(after.gates);
