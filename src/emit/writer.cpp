@@ -222,6 +222,15 @@ void originalReads(const frontend::ModuleDesc& m, const frontend::Member& mem,
         frontend::ExprId id = reads.back();
         reads.pop_back();
         const auto& e = ir.expr(id);
+        // A truncation of a constant select chain reads only the low bits it keeps (so does
+        // Verilator's unused-signal check: `w1 = in3` with a 1-bit `w1` reads `in3[0]`).
+        if (e.kind == ExprKind::Convert && e.width < ir.expr(e.a).width)
+            if (auto c = chain(e.a)) {
+                const std::string& name = *signalName(c->sym);
+                named.insert(name);
+                for (long k = 0; k < static_cast<long>(e.width); ++k) bits.insert({name, static_cast<int>(c->lo + k)});
+                continue;
+            }
         if (auto c = chain(id)) {
             const std::string& name = *signalName(c->sym);
             named.insert(name);

@@ -655,6 +655,16 @@ class Describer:
                     n.right.visit(cb)
                     return ast.VisitAction.Skip
                 return None
+            if isinstance(n, ast.Expression) and n.kind == EK.Conversion:
+                # A narrowing conversion of a static select chain (`w1 = in3`, 1-bit `w1`)
+                # reads only the low bits it keeps; Verilator's unused-signal check agrees.
+                t, ot = n.type, n.operand.type
+                if t.isIntegral and ot.isIntegral and t.bitWidth < ot.bitWidth:
+                    b = self.static_bits(n.operand)
+                    if b is not None and b[1] is not None:
+                        add(b[0], b[1], min(b[2], b[1] + t.bitWidth - 1))
+                        return ast.VisitAction.Skip
+                return None
             if isinstance(n, ast.Expression) and n.kind in (EK.ElementSelect, EK.RangeSelect, EK.MemberAccess):
                 b = self.static_bits(n)
                 if b is not None and b[1] is not None:
