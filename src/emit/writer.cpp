@@ -23,6 +23,7 @@
 
 #include "kerf/emit/guard.h"
 
+#include "comments.h"
 #include "expression.h"
 #include "named_values.h"
 #include "kerf/frontend/references.h"
@@ -1094,6 +1095,14 @@ void Writer::formGroups() {
             if (mem->netDecl) {
                 const auto& sig = m_.signals.at(mem->writes.at(0));
                 if (sig.decl) at = sig.decl->stmtStart;
+            } else if (mem->src.file == m_.src.file) {
+                // Above the author's comment lines on the statement, so they stay with it
+                // (kerf's own header of an earlier run aside: it is replaced where it stands).
+                const auto& above = mem->comments.above;
+                for (auto k = above.size(); k-- > 0;) {
+                    if (above[k].second > at || src_.compare(above[k].first, 8, "// kerf:") == 0) break;
+                    at = above[k].first;
+                }
             }
             groupPos_[g] = lineStart(src_, at);
             break;
@@ -2367,13 +2376,19 @@ WriteResult Writer::run() {
                 firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
                 continue;
             }
-            edits.push_back({mem->src.start, mem->src.end, statementsFor(s, ind, nullptr), static_cast<int>(g)});
-            firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
             // Other statements writing bits of the same signals: the first one now writes them all.
+            // The comments inside all of them are carried into the new text (comments.cpp).
             std::set<std::pair<std::size_t, std::size_t>> done{{mem->src.start, mem->src.end}};
+            std::vector<const frontend::Member*> others;
             for (int mid : membersOfStmt_.at(s)) {
                 const auto* other = byId_.at(mid);
-                if (!done.insert({other->src.start, other->src.end}).second) continue;
+                if (done.insert({other->src.start, other->src.end}).second) others.push_back(other);
+            }
+            edits.push_back({mem->src.start, mem->src.end,
+                             carryComments(m_, src_, *mem, others, statementsFor(s, ind, nullptr), ind, opts_.lineLimit),
+                             static_cast<int>(g)});
+            firstChange = std::min(firstChange, lineStart(src_, mem->src.start));
+            for (const auto* other : others) {
                 std::size_t ls = lineStart(src_, other->src.start);
                 std::size_t le = src_.find('\n', other->src.end);
                 le = le == std::string::npos ? src_.size() : le + 1;

@@ -11,6 +11,7 @@ is a bug of the reader and is not caught here.
 """
 
 import os
+import re
 from collections import Counter
 
 import pyslang
@@ -63,6 +64,13 @@ _DECL_SYNTAX = {
     pyslang.syntax.SyntaxKind.UserDefinedNetDeclaration,
 }
 _COMMENTS = (TK.LineComment, TK.BlockComment)
+# Comments that synthesis, lint and coverage tools read as directives (common trade practice):
+# `// synopsys translate_off`, `/* synthesis parallel_case */`, `// verilator lint_off WIDTH`,
+# `// coverage off`. A statement holding one is kept as written: the code it brackets or marks
+# may mean something else to those tools than to a simulator, which is all kerf models.
+_DIRECTIVE_COMMENT = re.compile(
+    rb"(?://|/\*)[ \t*]*(?:synopsys|synthesis|pragma|translate_off|translate_on|verilator|cadence|"
+    rb"ambit|spyglass|xilinx|altera|lint_off|lint_on|rtl_synthesis|coverage[ \t]+o(?:n|ff))\b", re.I)
 
 
 # ---------------------------------------------------------------------------
@@ -320,6 +328,14 @@ class Describer:
         if attrs is not None and len(attrs) > 0:
             return src, "it carries an attribute (* ... *)"
         # Directives inside a member are found from slang's trivia (kerf_preproc.py).
+        data = self.src.data(syn.sourceRange.start.buffer)
+        if _DIRECTIVE_COMMENT.search(data, syn.sourceRange.start.offset, syn.sourceRange.end.offset):
+            # Confirmed on the comments slang lexed (not text inside a string).
+            for a, b in self.comments(syn)["inside"]:
+                if _DIRECTIVE_COMMENT.match(data, a, b):
+                    text = data[a:b].decode("utf-8", "replace").strip()
+                    return src, "it holds a comment tools read as a directive ('%s')" % (
+                        text if len(text) <= 40 else text[:37] + "...")
         return src, None
 
     # -- comments ------------------------------------------------------------------

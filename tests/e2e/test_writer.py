@@ -1074,5 +1074,142 @@ def _(t):
                        ["T_IDLE", "T_FILL", "T_SETTLE", "T_DRAIN", "T_ALARM"], bits_allowed=True)
 
 
+# An invented timer control whose comments sit inside the statements kerf replaces: beside the
+# terms of an `assign`, on case item labels, above an assignment inside the block.
+COMMENTED = """module tmr_ctl (
+  input  logic [1:0] mode,
+  input  logic [3:0] cnt,
+  input  logic       armed,
+  input  logic       en,
+  output logic       irq_o,
+  output logic       load_o,
+  output logic [1:0] sel_o
+);
+  // irq when armed and the count is at either end
+  assign irq_o = (armed & en & cnt[3] & cnt[2])    // top of the count
+               | (armed & en & ~cnt[3] & ~cnt[2]); // bottom
+  always_comb begin
+    load_o = 1'b0;
+    sel_o  = 2'b00;
+    case (mode)
+      2'b00: begin   // idle
+        load_o = 1'b0;
+      end
+      2'b01: begin   // one-shot
+        load_o = en & armed & cnt[0];
+        sel_o  = {1'b0, en & armed};
+      end
+      2'b10: begin   // periodic
+        // reload at the top
+        load_o = en & armed & cnt[3];
+        sel_o  = {en & armed, 1'b0};
+      end
+      default: ;     /* reserved */
+    endcase
+  end
+endmodule
+"""
+
+
+def _comments_of(text):
+    return re.findall(r"//[^\n]*|/\*.*?\*/", text, re.S)
+
+
+@S.case("comments_carried", needs=("iverilog", "verilator"))
+def _(t):
+    """Issue 10: no comment of a replaced statement is deleted; one on or above an assignment
+    goes above the new assignment of that signal, a case item's label into a note with its
+    code. Checked on the text's comments (any layout of the logic is right) and for function."""
+    for eol, what in (("\n", "LF"), ("\r\n", "CR LF")):
+        d = os.path.join(t.work, what.replace(" ", ""))
+        os.makedirs(d)
+        path = os.path.join(d, "tmr_ctl.sv")
+        open(path, "w", newline="").write(COMMENTED.replace("\n", eol))
+        os.makedirs(os.path.join(d, "out"))
+        out = os.path.join(d, "out", "tmr_ctl.sv")   # the module's name: Verilator -Wall expects it
+        r = restructure(t, [path], "tmr_ctl", out, "--min-gain", "0")
+        if not t.res.check(r.returncode == 0, f"{what}: restructure: {r.stderr[-1500:]}"):
+            continue
+        raw = open(out, "rb").read()
+        text = raw.decode().replace("\r\n", "\n")
+        t.res.check(text != COMMENTED, f"{what}: the statements are rewritten")
+        if eol == "\r\n":
+            t.res.check(raw.count(b"\n") == raw.count(b"\r\n"), "CR LF: every line of the output ends in CR LF")
+            continue
+        missing = [c for c in set(_comments_of(COMMENTED))
+                   if text.count(c) < COMMENTED.count(c)]
+        t.res.check(not missing, f"every comment of the source is still in the output: missing {missing}")
+        lines = text.split("\n")
+
+        def above(signal, comment):
+            """The comment is among the comment lines directly above the first assignment of
+            `signal` (`assign s =`, `s =`, `s[..] =`)."""
+            pat = re.compile(r"^\s*(assign\s+)?" + signal + r"\b\s*(\[[^]]*\])?\s*=[^=]")
+            for k, l in enumerate(lines):
+                if pat.match(l):
+                    j = k - 1
+                    while j >= 0 and lines[j].strip().startswith(("//", "/*")):
+                        if comment in lines[j]:
+                            return True
+                        j -= 1
+                    return False
+            return False
+        t.res.check(above("irq_o", "// top of the count"), "a comment beside a term of irq_o is above its assignment")
+        t.res.check(above("irq_o", "// irq when armed"), "the comment above irq_o's assign still is")
+        t.res.check(above("load_o", "// reload at the top"), "a comment above load_o's assignment goes with it")
+        for label, c in (("2'b00", "// idle"), ("2'b01", "// one-shot"), ("2'b10", "// periodic")):
+            t.res.check(any(label in l and c in l and l.strip().startswith("//") for l in lines),
+                        f"the case label comment {c} is kept in a note with its label {label}")
+        ok, log = _simulate_module(t, COMMENTED, text, path, "tmr_ctl", ["tmr_ctl"])
+        t.res.check(ok, f"the rewrite simulates like the source (Icarus Verilog): {log}")
+        _, before, _ = O.lint([path], "tmr_ctl")
+        ok_b, after, log_b = O.lint([out], "tmr_ctl")
+        new = O.new_warnings(before, after)
+        t.res.check(ok_b and not new, f"no Verilator -Wall warning the source did not have: {new} {log_b[-800:]}")
+        again = out + ".again.sv"
+        r = restructure(t, [out], "tmr_ctl", again, "--min-gain", "0")
+        t.res.check(r.returncode == 0 and open(again).read() == open(out).read(),
+                    f"kerf on its own output changes nothing (the note is not nested): {r.stderr[-400:]}")
+
+
+# An invented debug select: a block whose second assignment is for simulation only, marked with
+# the synthesis tools' translate_off/translate_on comments (common trade practice).
+DIRECTIVE = """module dbg_sel (
+  input  logic a, b, c, dbg,
+  output logic y, z
+);
+  always_comb begin
+    y = a & b | a & c;
+    // synopsys translate_off
+    y = y | dbg;
+    // synopsys translate_on
+  end
+  assign z = a & b | a & c | dbg;
+endmodule
+"""
+
+
+@S.case("directive_comment_kept")
+def _(t):
+    """A statement holding a comment tools read as a directive is kept byte for byte, with the
+    reason, and its signal is not used for logic elsewhere: to a synthesis tool `y` is `a & b |
+    a & c` without `dbg`, so writing `z` through `y` would change what it builds (a simulator
+    cannot see this; the check is on the text)."""
+    path = os.path.join(t.work, "dbg_sel.sv")
+    open(path, "w").write(DIRECTIVE)
+    out = os.path.join(t.work, "out.sv")
+    r = restructure(t, [path], "dbg_sel", out, "--min-gain", "0")
+    if not t.res.check(r.returncode == 0, f"restructure: {r.stderr[-1500:]}"):
+        return
+    text = open(out).read()
+    block = DIRECTIVE[DIRECTIVE.index("  always_comb"):DIRECTIVE.index("  assign z")]
+    t.res.check(block in text, "the block with the directive comments is kept byte for byte")
+    t.res.check("directive" in r.stderr and "translate_off" in r.stderr,
+                f"the summary says why it is kept: {r.stderr[-600:]}")
+    z = re.search(r"assign z = ([^;]*);", text)
+    t.res.check(z is not None and not re.search(r"\by\b", z.group(1)),
+                f"z is not written through y: {z.group(0) if z else text}")
+
+
 if __name__ == "__main__":
     S.main()

@@ -42,6 +42,15 @@ module rv_decoder (
   wire alu_op3_t0 = reg_write_t8 | ((funct3 == 3'b101) & reg_write_t7);
   wire funct3_not_000 = funct3 != 3'b000;
   always_comb begin
+    // comments of the replaced code, each after the code it was on:
+    //   7'b0110011: begin  // OP
+    //   7'b0010011: begin  // OP-IMM
+    //   7'b0000011: begin  // LOAD
+    //   7'b0100011: begin  // STORE
+    //   7'b1100011: begin  // BRANCH
+    //   7'b0?10111: begin  // LUI and AUIPC
+    //   7'b1101111: begin  // JAL
+    //   7'b1100111: begin  // JALR
     mem_read = reg_write_t6;
     mem_write = reg_write_t4 & reg_write_t10 & opcode_5_4_is_10;
     branch = branch_t0;
