@@ -73,6 +73,17 @@ _DIRECTIVE_COMMENT = re.compile(
     rb"ambit|spyglass|xilinx|altera|lint_off|lint_on|rtl_synthesis|coverage[ \t]+o(?:n|ff))\b", re.I)
 
 
+def _skip_unelaborated(n):
+    """The visit action the module-level visitors share for a node none of their own cases
+    took: skip a subroutine's body (its effects are followed through the calls that reach it)
+    and a generate branch that is not instantiated (it reads and drives nothing)."""
+    if isinstance(n, ast.SubroutineSymbol):
+        return ast.VisitAction.Skip
+    if isinstance(n, ast.GenerateBlockSymbol) and n.isUninstantiated:
+        return ast.VisitAction.Skip
+    return None
+
+
 # ---------------------------------------------------------------------------
 # sources
 
@@ -630,12 +641,7 @@ class Describer:
             elif isinstance(n, ast.InstanceSymbol):
                 self.instance_refs(n, reads, writes)
                 return ast.VisitAction.Skip
-            elif isinstance(n, ast.SubroutineSymbol):
-                return ast.VisitAction.Skip
-            elif isinstance(n, ast.GenerateBlockSymbol):
-                if n.isUninstantiated:
-                    return ast.VisitAction.Skip   # an inactive branch drives nothing
-            return None
+            return _skip_unelaborated(n)
 
         node.visit(cb)
         for name, c in refs.items():
@@ -701,12 +707,7 @@ class Describer:
                 for name in r:
                     add(name, None, None)
                 return ast.VisitAction.Skip
-            elif isinstance(n, ast.SubroutineSymbol):
-                return ast.VisitAction.Skip
-            elif isinstance(n, ast.GenerateBlockSymbol):
-                if n.isUninstantiated:
-                    return ast.VisitAction.Skip
-            return None
+            return _skip_unelaborated(n)
 
         for node in nodes:
             if node is not None:
@@ -864,16 +865,14 @@ class Describer:
                         other[0] = True
             elif isinstance(n, ast.PrimitiveInstanceSymbol):
                 other[0] = True
-            elif isinstance(n, (ast.InstanceSymbol, ast.SubroutineSymbol)):
-                return ast.VisitAction.Skip
-            elif isinstance(n, ast.GenerateBlockSymbol) and n.isUninstantiated:
+            elif isinstance(n, ast.InstanceSymbol):
                 return ast.VisitAction.Skip
             elif isinstance(n, (ast.VariableSymbol, ast.NetSymbol)):
                 init = getattr(n, "initializer", None)
                 if init is not None:
                     name = self.sig.get(n)
                     assigns.append(({n}, {name} if name is not None else set(), [init]))
-            return None
+            return _skip_unelaborated(n)
 
         for node in nodes:
             if node is not None:
@@ -961,12 +960,7 @@ class Describer:
                 return ast.VisitAction.Skip     # instance outputs: 0/1, like ports
             elif isinstance(n, ast.PrimitiveInstanceSymbol):
                 found[0] = True                 # bufif0, nmos, ...: can drive z
-            elif isinstance(n, ast.SubroutineSymbol):
-                return ast.VisitAction.Skip
-            elif isinstance(n, ast.GenerateBlockSymbol):
-                if n.isUninstantiated:
-                    return ast.VisitAction.Skip
-            return None
+            return _skip_unelaborated(n)
 
         for node in nodes:
             if node is not None and not found[0]:
