@@ -9,9 +9,10 @@
 //    and other comments between) describes that assignment: it goes above the new assignment
 //    of the same signal (`assign` and net declarations: above the new statement, or inside
 //    the declaration as a block comment);
-//  - any other (a case item's label, a local variable's assignment, a signal with no
-//    assignment of its own in the new text) goes into one note at the start of the block,
-//    each after the code of the line it was on, so it still says what it described.
+//  - any other (a case item's label, a comment above an `if`, a local variable's assignment,
+//    a signal with no assignment of its own in the new text) goes into one note at the start
+//    of the block, each after the code of the line it was on or above, so it still says what
+//    it described.
 // A second run on kerf's own output carries its note as it is (the note's first line is
 // recognised and written once), so the text is stable.
 #include "comments.h"
@@ -175,6 +176,17 @@ std::string carryComments(const frontend::ModuleDesc& m, const std::string& src,
                 }
                 for (const auto& s : spans)
                     if (s.start == p) c.signal = s.signal;
+                // Not above an assignment: the note shows the code line it was above.
+                if (c.signal.empty() && p != std::string::npos && p < mb->src.end) {
+                    std::size_t e = src.find('\n', p);
+                    code = trimmed(src.substr(p, (e == std::string::npos ? src.size() : e) - p));
+                    // Only the code: a comment later on that line is carried on its own.
+                    for (const auto& [ca, cb] : inside)
+                        if (ca > p && ca < (e == std::string::npos ? src.size() : e)) {
+                            code = trimmed(src.substr(p, ca - p));
+                            break;
+                        }
+                }
             }
             if (c.signal.empty()) c.code = code;
             carried.push_back(std::move(c));

@@ -10,8 +10,10 @@
 namespace kerf::emit {
 
 /// The first line of the note kerf writes for comments whose code is gone (a case item's label,
-/// a local's assignment): each follows on a line of its own after the code it was on.
-inline constexpr const char* kCarriedNotesIntro = "// comments of the replaced code, each after the code it was on:";
+/// a comment above an `if`, a local's assignment): each on a line of its own after the code it
+/// was on or above.
+inline constexpr const char* kCarriedNotesIntro =
+    "// comments of the replaced code, each after the code it was on or above:";
 
 /// `text`, the new text of the replaced member `mem` (and of `removed`, members writing the same
 /// signals whose text goes), with every comment inside their old text put back: a comment on or

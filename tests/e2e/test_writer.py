@@ -1106,6 +1106,8 @@ COMMENTED = """module tmr_ctl (
       end
       default: ;     /* reserved */
     endcase
+    // hold the selector while disarmed
+    if (!armed) sel_o = 2'b00;
   end
 endmodule
 """
@@ -1160,6 +1162,8 @@ def _(t):
         for label, c in (("2'b00", "// idle"), ("2'b01", "// one-shot"), ("2'b10", "// periodic")):
             t.res.check(any(label in l and c in l and l.strip().startswith("//") for l in lines),
                         f"the case label comment {c} is kept in a note with its label {label}")
+        t.res.check(any("if (!armed)" in l and "// hold the selector" in l and l.strip().startswith("//")
+                        for l in lines), "a comment above an if is kept in a note with the line it was above")
         ok, log = _simulate_module(t, COMMENTED, text, path, "tmr_ctl", ["tmr_ctl"])
         t.res.check(ok, f"the rewrite simulates like the source (Icarus Verilog): {log}")
         _, before, _ = O.lint([path], "tmr_ctl")

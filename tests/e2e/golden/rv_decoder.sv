@@ -42,7 +42,7 @@ module rv_decoder (
   wire alu_op3_t0 = reg_write_t8 | ((funct3 == 3'b101) & reg_write_t7);
   wire funct3_not_000 = funct3 != 3'b000;
   always_comb begin
-    // comments of the replaced code, each after the code it was on:
+    // comments of the replaced code, each after the code it was on or above:
     //   7'b0110011: begin  // OP
     //   7'b0010011: begin  // OP-IMM
     //   7'b0000011: begin  // LOAD
