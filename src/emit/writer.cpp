@@ -223,9 +223,10 @@ void originalReads(const frontend::ModuleDesc& m, const frontend::Member& mem,
         frontend::ExprId id = reads.back();
         reads.pop_back();
         const auto& e = ir.expr(id);
-        // A truncation of a constant select chain reads only the low bits it keeps (so does
-        // Verilator's unused-signal check: `w1 = in3` with a 1-bit `w1` reads `in3[0]`).
-        if (e.kind == ExprKind::Convert && e.width < ir.expr(e.a).width)
+        // A truncation of a whole signal reads only the low bits it keeps (so does Verilator's
+        // unused-signal check: `w1 = in3` with a 1-bit `w1` reads `in3[0]`); of a select it
+        // reads the selected bits (`w1 = in3[2:0]` reads three, F116).
+        if (e.kind == ExprKind::Convert && e.width < ir.expr(e.a).width && ir.expr(e.a).kind == ExprKind::Ref)
             if (auto c = chain(e.a)) {
                 const std::string& name = *signalName(c->sym);
                 named.insert(name);

@@ -678,10 +678,12 @@ class Describer:
                     return ast.VisitAction.Skip
                 return None
             if isinstance(n, ast.Expression) and n.kind == EK.Conversion:
-                # A narrowing conversion of a static select chain (`w1 = in3`, 1-bit `w1`)
-                # reads only the low bits it keeps; Verilator's unused-signal check agrees.
+                # A narrowing conversion of a whole signal (`w1 = in3`, 1-bit `w1`) reads only
+                # the low bits it keeps; of a select (`w1 = in3[2:0]`) the selected bits.
+                # Verilator's unused-signal check counts both so.
                 t, ot = n.type, n.operand.type
-                if t.isIntegral and ot.isIntegral and t.bitWidth < ot.bitWidth:
+                if t.isIntegral and ot.isIntegral and t.bitWidth < ot.bitWidth and \
+                        n.operand.kind in (EK.NamedValue, EK.HierarchicalValue):
                     b = self.static_bits(n.operand)
                     if b is not None and b[1] is not None:
                         add(b[0], b[1], min(b[2], b[1] + t.bitWidth - 1))

@@ -6,6 +6,8 @@
 // kerf-case: listed as unused, not left to a new Verilator -Wall warning. With --keep-x the
 // kerf-case: case block is kept through its statements, without it the generate through the
 // kerf-case: reader's read ranges: both ways of telling what kept code reads are exercised.
+// kerf-case: A truncated select (`trim_lo = trim[2:0]`) reads all the bits it selects
+// kerf-case: (Verilator agrees): its rewrite reads trim[0] only, so trim[2:1] must be listed.
 // kerf-flags: -
 // kerf-flags: --keep-x
 module min_unused_truncated_read (
@@ -13,6 +15,8 @@ module min_unused_truncated_read (
   input  logic [3:0] level,
   input  logic [1:0] sel,
   input  logic       en,
+  input  logic [2:0] trim,
+  output logic       trim_lo,
   output logic       speed_lo,
   output logic [1:0] pick,
   output logic       fan_on
@@ -28,4 +32,8 @@ module min_unused_truncated_read (
     endcase
   end
   assign fan_on = (en & mode[3] & level[2]) | (en & ~mode[3] & level[2]) | (en & level[3] & ~level[3]) | (en & sel[0] & level[2]);
+  always_comb begin
+    trim_lo = trim[2:0];
+    if (en & ~en) trim_lo = 1'b0;
+  end
 endmodule
