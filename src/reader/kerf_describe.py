@@ -64,6 +64,19 @@ _DECL_SYNTAX = {
     pyslang.syntax.SyntaxKind.UserDefinedNetDeclaration,
 }
 _COMMENTS = (TK.LineComment, TK.BlockComment)
+
+
+_WIRED_NETS = (ast.NetType.NetKind.WAnd, ast.NetType.NetKind.WOr, ast.NetType.NetKind.TriAnd,
+               ast.NetType.NetKind.TriOr)
+
+
+def _has_drive_strength(sym):
+    """A continuous assignment written with a drive strength (`assign (strong0, weak1) z = ...`)."""
+    try:
+        return any(x is not None for x in sym.driveStrength)
+    except TypeError:
+        # pyslang 7 cannot convert a set DriveStrength value to Python (F119): there is one.
+        return True
 # Comments that synthesis, lint and coverage tools read as directives (common trade practice):
 # `// synopsys translate_off`, `/* synthesis parallel_case */`, `// verilator lint_off WIDTH`,
 # `// coverage off`. A statement holding one is kept as written: the code it brackets or marks
@@ -1113,14 +1126,26 @@ class Describer:
         c.macros = b"`" in self.src.data(buf)[rng.start.offset:rng.end.offset]
         return c
 
+    def wired_net_reason(self, names):
+        """Why an assignment to one of `names` is kept: a wired net (`wor`, `wand`, `trior`,
+        `triand`) resolves all its drivers together (IEEE 1800-2017 6.6.3), so each driver is
+        only part of its value."""
+        for n in names:
+            sym = self.sig_by_name.get(n) if n is not None else None
+            if sym is not None and sym.kind == SK.Net and sym.netType.netKind in _WIRED_NETS:
+                return "it drives '%s', a %s net whose drivers resolve together" % (n, sym.netType.name)
+        return None
+
     def assign_member(self, sym):
         syn = self.member_syntax(sym)
         src, why = self.member_src(syn)
         if why is None:
             if sym.delay is not None:
                 why = "it has a delay"
-            elif any(x is not None for x in sym.driveStrength):
+            elif _has_drive_strength(sym):
                 why = "it has a drive strength"
+            else:
+                why = self.wired_net_reason(self.target_bases(sym.assignment.left))
         a = sym.assignment
         if why is None:
             c = self.start_conv(syn)
@@ -1145,6 +1170,8 @@ class Describer:
             why = "it is written through a macro"
         elif net.delay is not None:
             why = "it has a delay"
+        elif self.wired_net_reason([self.sig.get(net)]):
+            why = self.wired_net_reason([self.sig.get(net)])
         else:
             attrs = getattr(stmt, "attributes", None) if stmt is not None else None
             if attrs is not None and len(attrs) > 0:
