@@ -25,6 +25,9 @@ from kerf_types import sv_bits
 _DEC = pyslang.LiteralBase.Decimal
 
 SK = ast.SymbolKind
+# A constant table read with an index of more bits is kept as written (2**bits entries each
+# become a choice in the logic).
+TABLE_INDEX_BITS_MAX = 8
 EK = ast.ExpressionKind
 STK = ast.StatementKind
 
@@ -563,12 +566,63 @@ class Conv:
         return self.add(["replicate", ti] + list(self.span(e)) + [n, p])
 
     def unpacked_select(self, e, lvalue):
-        """A select from something that is not a packed vector: a constant if slang can fold it."""
+        """A select from something that is not a packed vector: a constant if slang can fold it,
+        or an entry of a constant table (`TBL[idx]`)."""
         if not lvalue:
             c = self.fold(e)
             if c is not None:
                 return c
+            if e.kind == EK.ElementSelect:
+                t = self.table_entry(e)
+                if t is not None:
+                    return t
         raise Unsupported("selects from '%s', which is not a packed vector" % _text(e.value))
+
+    def table_entry(self, e):
+        """`TBL[idx]` where TBL is a constant unpacked array of packed values (a lookup table
+        in a localparam, as table-driven generators write them): a choice among its entries
+        (`idx == 0 ? TBL[0] : idx == 1 ? ...`). Only when every value of the index names an
+        entry: a read out of range gives the element type's default (x for 4-state types,
+        IEEE 1800-2017 7.4.6), which stays with code kept as written. None otherwise."""
+        v, sel = e.value, e.selector
+        ct = v.type.canonicalType
+        if ct.kind != SK.FixedSizeUnpackedArrayType or not ct.elementType.isIntegral:
+            return None
+        st = sel.type
+        if not st.isIntegral or st.isSigned:
+            return None
+        if st.bitWidth > TABLE_INDEX_BITS_MAX:
+            raise Unsupported("reads the table '%s' with an index of more than %d bits" %
+                              (_text(v), TABLE_INDEX_BITS_MAX))
+        try:
+            cv = v.eval(ast.EvalContext(self.d.body)).value
+        except Exception:    # slang raises when the array is not a constant
+            return None
+        if not isinstance(cv, list) or not cv:
+            return None
+        values = [x.value for x in cv]
+        if not all(isinstance(x, pyslang.SVInt) for x in values):
+            return None
+        left, right = ct.range.left, ct.range.right
+        lo, hi = min(left, right), max(left, right)
+        w = st.bitWidth
+        if len(values) != hi - lo + 1:
+            return None
+        if lo != 0 or hi < (1 << w) - 1:
+            raise Unsupported("reads the table '%s' with an index that can fall outside it (an x by "
+                              "the language's rules)" % _text(v))
+        ti = self.type_of(e)
+        width = e.type.bitWidth
+        idx = self.expr(sel)
+        bit = self.types.vector(1, False)
+        sp = list(self.span(e))
+        at = (lambda k: k) if left <= right else (lambda k: left - k)   # index -> list position
+        out = self.const_of_type(sv_bits(values[at((1 << w) - 1)], width), ti, e)
+        for k in range((1 << w) - 2, -1, -1):
+            entry = self.const_of_type(sv_bits(values[at(k)], width), ti, e)
+            eq = self.add(["binary", bit] + sp + ["==", idx, self.const(format(k, "0%db" % w), False)])
+            out = self.add(["cond", ti] + sp + [eq, entry, out])
+        return out
 
     def x_element(self, e, lvalue=False):
         v = e.value

@@ -239,6 +239,20 @@ class Describer:
                 idx = len(self.constants)
                 self.constants.append({"name": sym.name, "ref": ref, "bits": bits, "msb": msb, "lsb": lsb,
                                        "sliceable": sliceable, "elsewhere": False, "compared": []})
+        elif ref is not None and isinstance(getattr(v, "value", None), list):
+            # A constant table (kerf_convert.table_entry): named by its first entry, so that the
+            # writer can read it where the rewrite no longer does (Verilator UNUSEDPARAM).
+            ct = t.canonicalType
+            first = v.value[0].value if v.value else None
+            if ct.kind == SK.FixedSizeUnpackedArrayType and ct.elementType.isIntegral and \
+                    isinstance(first, pyslang.SVInt):
+                w = ct.elementType.bitWidth
+                bits = sv_bits(first, w)
+                if "x" not in bits and "z" not in bits:
+                    idx = len(self.constants)
+                    self.constants.append({"name": sym.name, "ref": "%s[%d]" % (ref, ct.range.left),
+                                           "bits": bits, "msb": w - 1, "lsb": 0, "sliceable": False,
+                                           "elsewhere": False, "compared": []})
         self._const_ix[sym] = idx
         return idx
 
