@@ -306,7 +306,13 @@ std::vector<NamedDomain> namedDomains(const frontend::ModuleDesc& m, const Named
 
 std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const frontend::ModuleDesc& m,
                                 const frontend::Lowered& low, net::Network& net, std::vector<Factored>& forms,
-                                const NamedValueLimits& lim) {
+                                const NamedValueLimits& lim, const std::set<std::uint64_t>* unnamed,
+                                std::vector<std::uint64_t>* items) {
+    auto allowed = [&](std::uint64_t key) {
+        if (unnamed && unnamed->count(key)) return false;
+        if (items) items->push_back(key);
+        return true;
+    };
     // Network input of each bit of each compared domain; a domain with a bit the network does
     // not read cannot be compared whole.
     std::map<std::string, std::size_t> domainOf;
@@ -444,7 +450,7 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
         dom[v] = d;
         tt[v] = f;
         auto nf = namedForm(D, f);
-        if (!nf) continue;
+        if (!nf || !allowed(v)) continue;
         net.node(v).cover = std::move(nf->second);
         forms[v] = std::move(nf->first);
         named.emplace(std::pair{D, f}, v);
@@ -456,7 +462,7 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
     // factored again from its new sum of products (the domain's part is one literal, so the
     // factoring cannot split it into bits again).
     for (net::NodeId v : order) {
-        if (!net.isLogic(v) || dom[v] >= 0) continue;
+        if (!net.isLogic(v) || dom[v] >= 0 || (unnamed && unnamed->count(v))) continue;
         Cover cv = net.node(v).cover;
         bool changed = false;
         for (auto& c : cv.cubes) {
@@ -492,6 +498,7 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
             c = Cube(lits);
         }
         if (!changed) continue;
+        allowed(v);
         cv.normalize();
         forms[v] = algebra::factor(cv);
         net.node(v).cover = std::move(cv);
@@ -506,7 +513,8 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
         auto sig = m.signals.find(low.outputBits[i].signal);
         if (sig == m.signals.end() || sig->second.width != 1) continue;
         net::NodeId x = literalVar(o.driver);
-        if (x == 0 || net.isLogic(x) || x >= dom.size() || dom[x] < 0) continue;
+        if (x == 0 || net.isLogic(x) || x >= dom.size() || dom[x] < 0 || (unnamed && unnamed->count(kOutputItem | i)))
+            continue;
         std::size_t D = static_cast<std::size_t>(dom[x]);
         Table p = product(D, {o.driver});
         auto it = named.find({D, p});
@@ -520,6 +528,7 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
             it = named.emplace(std::pair{D, p}, u).first;
         }
         o.driver = makeLiteral(it->second, false);
+        allowed(kOutputItem | i);
         ++rewritten;
     }
     // 3. A value's comparison already has a node: an OR of comparisons reads that node

@@ -8,7 +8,9 @@
 #include "kerf/frontend/module.h"
 #include "kerf/network/network.h"
 
+#include <cstdint>
 #include <optional>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -65,9 +67,79 @@ std::vector<NamedDomain> namedDomains(const frontend::ModuleDesc& m, const Named
 /// compared named domain (network inputs) and is exactly a set of its named values: its form
 /// becomes an OR of whole-signal comparisons (`s == A | s == B`), or an AND of exclusions
 /// (`s != A & s != B`, at most maxExcluded) when the values it is false for are the named ones.
-/// Returns the number of nodes rewritten.
+/// Returns the number of nodes rewritten. Each rewrite is an item: a node's id, or
+/// kOutputItem | i for output i driven by comparisons instead of a bit; items in `unnamed` keep
+/// their bits, and `items` (when given) receives those rewritten.
 std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const frontend::ModuleDesc& m,
                                 const frontend::Lowered& low, net::Network& net,
-                                std::vector<algebra::Factored>& forms, const NamedValueLimits& lim = {});
+                                std::vector<algebra::Factored>& forms, const NamedValueLimits& lim = {},
+                                const std::set<std::uint64_t>* unnamed = nullptr,
+                                std::vector<std::uint64_t>* items = nullptr);
+inline constexpr std::uint64_t kOutputItem = std::uint64_t{1} << 63;
+
+/// A target written as a choice: the choice, and the network outputs of its bits by offset.
+struct PlannedChoice {
+    std::string signal;
+    ValueChoice choice;
+    std::vector<std::size_t> bits;
+};
+
+/// The outputs of `net` (indexed as `low.outputBits`) that hold target `signal`'s bits by
+/// offset, when every bit is one output and none is a word operand; else empty.
+std::vector<std::size_t> targetBits(const frontend::Lowered& low, const std::string& signal, int width);
+
+/// Figures of logic as the writer prints it (naming_cost.cpp): two-input gates of the forms
+/// (inverters free) and depth with each AND/OR balanced by arrival, the measure of the written
+/// file (passes/factored.cpp counts depth the same way).
+struct WrittenFigures {
+    std::size_t gates = 0;
+    std::size_t depth = 0;
+};
+
+/// The figures of every output of `net` written with `forms`, the bits of each choice in
+/// `choices` written by it (its conditions and each bit's `?:` chain over them).
+WrittenFigures writtenFigures(const net::Network& net, const std::vector<algebra::Factored>& forms,
+                              const std::vector<PlannedChoice>& choices);
+
+/// Two-input gates a choice adds on top of the bit functions its conditions read.
+std::size_t choiceGates(const ValueChoice& vc, int width);
+
+/// Which named forms the writer uses: domains whose functions are written as comparisons, and
+/// targets written as one choice among names.
+struct NamingPlan {
+    std::set<std::string> compared;
+    std::set<std::string> chosen;
+    std::set<std::uint64_t> unnamed;   ///< rewrites of nameDomainFunctions left as bits
+    bool empty() const { return compared.empty() && chosen.empty(); }
+};
+
+/// The bound a named form must keep (naming_cost.cpp): depth at most `depthBound` (or the
+/// bitwise form's when larger), gates at most the bitwise form's plus `gateMargin`.
+struct NamingBudget {
+    std::size_t depthBound = 0;
+    double gateMargin = 0;
+    int maxTrials = 24;   ///< forms measured; past that, the remaining items are not named
+};
+
+/// The network and forms written under a plan, with its choices and figures.
+struct NamedResult {
+    net::Network net;
+    std::vector<algebra::Factored> forms;
+    std::vector<PlannedChoice> choices;
+    std::vector<std::uint64_t> items;   ///< the rewrites made (nameDomainFunctions)
+    WrittenFigures figures;
+};
+
+/// `net`/`forms` with the plan's comparisons made (nameDomainFunctions) and its choices planned.
+NamedResult applyNaming(const NamingPlan& plan, const std::vector<NamedDomain>& domains,
+                        const frontend::ModuleDesc& m, const frontend::Lowered& low, const net::Network& net,
+                        const std::vector<algebra::Factored>& forms);
+
+/// The plan that names most within `budget`: domains' comparisons first (by name), then
+/// targets' choices, each kept only when the figures with it stay within the budget.
+NamingPlan chooseNaming(const std::vector<NamedDomain>& domains, const frontend::ModuleDesc& m,
+                        const frontend::Lowered& low, const net::Network& net,
+                        const std::vector<algebra::Factored>& forms, const NamingBudget& budget,
+                        std::string* log = nullptr);
 
 } // namespace kerf::emit

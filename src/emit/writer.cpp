@@ -525,10 +525,20 @@ private:
 public:
     /// Registers of named values (named_values.cpp): targets assigned only names are written
     /// as one choice among them.
-    void setDomains(std::vector<NamedDomain> d) { domains_ = std::move(d); }
+    void setDomains(std::vector<NamedDomain> d, std::set<std::string> chosen) {
+        domains_ = std::move(d);
+        chosen_ = std::move(chosen);
+    }
+    /// Targets written as a choice (after run()).
+    std::vector<std::string> choicesWritten() const {
+        std::vector<std::string> out;
+        for (const auto& [sig, plan] : choices_) out.push_back(sig);
+        return out;
+    }
 
 private:
     std::vector<NamedDomain> domains_;
+    std::set<std::string> chosen_;   ///< targets the naming plan writes as a choice
     /// Per target written as a choice: the choice, and its outputs by bit offset.
     std::map<std::string, std::pair<ValueChoice, std::vector<std::size_t>>> choices_;
     void planChoices();
@@ -540,6 +550,23 @@ private:
         return t != frontend::kNoId && t < m_.ir.types.size() && m_.ir.types[t].kind == frontend::TypeKind::Enum;
     }
 };
+
+namespace {
+/// A sized literal of `bits` (MSB first): binary up to 16 bits, hexadecimal beyond.
+std::string sizedBinary(const std::string& bits) {
+    if (bits.size() <= 16) return fmt::format("{}'b{}", bits.size(), bits);
+    std::string hex;
+    std::size_t first = bits.size() % 4 == 0 ? 4 : bits.size() % 4;
+    for (std::size_t i = 0; i < bits.size();) {
+        std::size_t n = i == 0 ? first : 4;
+        int d = 0;
+        for (std::size_t j = 0; j < n; ++j) d = d * 2 + (bits[i + j] == '1');
+        hex += "0123456789abcdef"[d];
+        i += n;
+    }
+    return fmt::format("{}'h{}", bits.size(), hex);
+}
+} // namespace
 
 // ------------------------------------------------------------------ set-up
 
@@ -1350,6 +1377,10 @@ void Writer::decide() {
         }
         for (std::size_t q = 0; q < wires.size(); ++q)
             coneOf(wires[q], true, addWire, addNode, [](const std::string&) {});
+        // A target written as a choice adds its conditions and each bit's ?: chain.
+        for (const auto& [sig, plan] : choices_)
+            if (!plan.second.empty() && groupOfOutput[plan.second[0]] == static_cast<int>(g))
+                G.gatesAfter += choiceGates(plan.first, static_cast<int>(plan.second.size()));
         // Before: the logic of the group's outputs as read, up to signals other statements compute.
         for (std::size_t i = 0; i < outs_.size(); ++i)
             if (groupOfOutput[i] != static_cast<int>(g)) {
@@ -1668,7 +1699,7 @@ PExpr Writer::outputExpr(std::size_t i) {
 void Writer::planChoices() {
     choices_.clear();
     for (const auto& d : domains_) {
-        if (!d.assignedNamed) continue;
+        if (!d.assignedNamed || !chosen_.count(d.signal)) continue;
         auto sig = m_.signals.find(d.signal);
         if (sig == m_.signals.end() || sig->second.width != d.width) continue;
         // Every bit an output of one statement, each once.
@@ -1860,6 +1891,77 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         const bool templates = !split.count(s);
         std::size_t k = 0;
         while (k < idx.size()) {
+            // Constant bits: one assignment of a sized value (`flags[4:3] = 2'b00;`); a whole
+            // vector whose every bit is a constant or one condition (either polarity): one
+            // choice between two values (`w2 = sel ? 3'b010 : 3'b001;`). Not an enum target
+            // (a value needs its type's name there).
+            if (templates && !enumTyped(s)) {
+                auto driver = [&](std::size_t q) { return net_.outputs()[idx[q]].driver; };
+                std::size_t last = k;
+                NodeId cond = 0;
+                std::size_t constants = 0;
+                for (std::size_t q = k; q < idx.size(); ++q) {
+                    if (q > k && outs_[idx[q]].bit.offset != outs_[idx[k]].bit.offset + static_cast<int>(q - k)) break;
+                    NodeId v = literalVar(driver(q));
+                    if (v != 0 && cond != 0 && v != cond) break;
+                    if (v == 0) ++constants;
+                    else cond = v;
+                    last = q;
+                }
+                const int lo = outs_[idx[k]].bit.offset, hi = outs_[idx[last]].bit.offset;
+                const bool whole = lo == 0 && hi == sig.width - 1;
+                if (last > k && (cond == 0 ? constants > 0 : whole)) {
+                    std::string lhs;
+                    if (whole) {
+                        lhs = verilogName(s);
+                    } else {
+                        auto pieces = frontend::targetPieces(m_, s, lo, hi - lo + 1);
+                        if (pieces.size() == 1 && pieces[0].valuePrefix.empty()) lhs = pieces[0].lhs;
+                    }
+                    if (!lhs.empty()) {
+                        // The condition as one of the run's bits defines it, or as it is named.
+                        PExpr c;
+                        bool flip = false;
+                        if (cond != 0) {
+                            ExprBuilder eb(refs_, forms_);
+                            bool here = false;
+                            for (std::size_t q = k; q <= last; ++q) here = here || definer_[cond] == static_cast<int>(idx[q]);
+                            c = here ? eb.definition(cond, false) : eb.literal(algebra::makeLiteral(cond, false));
+                            if (c.kind == PExpr::Kind::Ref && c.neg) c.neg = false, flip = true;
+                        }
+                        // The run's value when the condition is `when` (MSB first).
+                        auto value = [&](bool when) {
+                            std::string bits;
+                            for (std::size_t q = last + 1; q-- > k;) {
+                                Literal d = driver(q);
+                                bool one = literalVar(d) == 0 ? literalNegated(d) : (when != flip) != literalNegated(d);
+                                bits += one ? '1' : '0';
+                            }
+                            PExpr v;
+                            v.kind = PExpr::Kind::Ref;
+                            v.text = sizedBinary(bits);
+                            return v;
+                        };
+                        PExpr e = value(true);
+                        if (cond != 0) {
+                            PExpr m;
+                            m.kind = PExpr::Kind::Mux;
+                            m.kids.push_back(std::move(c));
+                            m.kids.push_back(std::move(e));
+                            m.kids.push_back(value(false));
+                            e = std::move(m);
+                        }
+                        Assignment a{lhs, std::move(e), s, {}, {}, {}, {}, {}};
+                        collectRefs(a.rhs, a.reads);
+                        collectBits(a.rhs, a.readBits);
+                        a.reads.erase(s);
+                        writes(a, k, last);
+                        as.push_back(std::move(a));
+                        k = last + 1;
+                        continue;
+                    }
+                }
+            }
             // The longest run of consecutive bits from k with a vector template. Runs with
             // a template are closed under shortening (expression.h), so bisect between the
             // shortest run (two bits) and the last consecutive bit: n log n, not cubic.
@@ -2620,23 +2722,36 @@ WriteResult Writer::run() {
 } // namespace
 
 WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
-    // Functions of a register the source only names are written by its names (named_values.cpp):
-    // on a copy of the network, so the caller's forms stay the engine's.
-    std::vector<NamedDomain> domains = namedDomains(*in.module);
+    // Registers the source only names are written by their names (named_values.cpp) where
+    // that keeps the goal's depth bound and the --min-gain margin of the bitwise form
+    // (naming_cost.cpp): on a copy of the network, so the caller's forms stay the engine's.
+    std::vector<NamedDomain> domains = opts.names ? namedDomains(*in.module) : std::vector<NamedDomain>{};
     if (!domains.empty()) {
-        net::Network named = *in.network;
-        std::vector<Factored> forms = *in.forms;
-        if (nameDomainFunctions(domains, *in.module, *in.lowered, named, forms) > 0) {
+        NamingBudget budget;
+        WrittenFigures base = writtenFigures(*in.network, *in.forms, {});
+        budget.depthBound = opts.depthBound >= 0 ? static_cast<std::size_t>(opts.depthBound) : base.depth;
+        budget.gateMargin = opts.minGain.percent ? opts.minGain.value * static_cast<double>(base.gates) / 100.0
+                                                 : opts.minGain.value;
+        std::string log;
+        NamingPlan plan = chooseNaming(domains, *in.module, *in.lowered, *in.network, *in.forms, budget, &log);
+        if (!plan.empty()) {
+            NamedResult named = applyNaming(plan, domains, *in.module, *in.lowered, *in.network, *in.forms);
             WriteInput copy = in;
-            copy.network = &named;
-            copy.forms = &forms;
+            copy.network = &named.net;
+            copy.forms = &named.forms;
             Writer w(copy, opts);
-            w.setDomains(std::move(domains));
-            return w.run();
+            w.setDomains(std::move(domains), plan.chosen);
+            WriteResult r = w.run();
+            r.namedDomains.assign(plan.compared.begin(), plan.compared.end());
+            r.namedChoices = w.choicesWritten();
+            r.namingLog = std::move(log);
+            return r;
         }
+        WriteResult r = Writer(in, opts).run();
+        r.namingLog = std::move(log);
+        return r;
     }
     Writer w(in, opts);
-    w.setDomains(std::move(domains));
     return w.run();
 }
 

@@ -269,7 +269,98 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     wi.forms = &forms.forms;
     wi.originalForms = &originalForms.forms;
     wi.oneGroup = opts.dissolveInternal;
+    // A named form keeps the goal's depth bound: the input's depth (or --max-depth) for size,
+    // the engine's result for depth.
+    wo.depthBound = eo.goal == passes::Goal::Size ? (er.depthCap >= 0 ? er.depthCap : static_cast<int>(asRead.depth))
+                                                  : static_cast<int>(er.after.depth);
     emit::WriteResult wr = emit::writeModule(wi, wo);
+    const std::string& file = desc.src.file;
+    std::set<std::string> authorSignals;
+    for (const auto& [n, sg] : desc.signals) authorSignals.insert(n);
+    // The rewrite read back from a private directory under the original's file name, so the
+    // reader's messages about it read naturally; anything wrong with kerf's own output is
+    // kerf's bug, and the evidence is kept.
+    auto work = std::make_unique<io::WorkDir>();
+    frontend::ReadOptions back = opts.read;
+    auto keepEvidence = [&]() {
+        try {
+            work->add("description.json", io::runReader(frontend::readerArguments(opts.read)).text);
+        } catch (const std::exception&) {
+            // The rewrite alone still helps; the reader's own message is above.
+        }
+        return work->keep();
+    };
+    auto ownFault = [&](const Error& e, const char* what) {
+        if (e.code() == ExitCode::Resources || e.code() == ExitCode::ToolMissing) throw e;
+        std::string dir = keepEvidence();
+        std::string why = e.what();
+        if (auto cut = why.find("; nothing was written"); cut != std::string::npos) why.erase(cut);
+        throw Error(fmt::format("kerf's rewrite of module {} does not {} ({}); nothing was written. "
+                                "This is a kerf bug: please report it with the files kept in {}/",
+                                desc.name, what, why, dir), {}, ExitCode::Internal);
+    };
+    // Read `text` back (into `written`) and measure it.
+    auto readBack = [&](const std::string& text, frontend::ModuleDesc& written) {
+        std::string rewritten = work->add(std::filesystem::path(file).filename().string(), text);
+        back = opts.read;
+        // The rewritten file replaces the one that holds the module; a proof that
+        // silently read the original twice would prove nothing, so insist on a match.
+        std::string key;
+        for (const auto& f : opts.read.files) {
+            std::error_code ec;
+            if (f == file || std::filesystem::equivalent(f, file, ec)) key = f;
+        }
+        if (key.empty())
+            throw Error(fmt::format("cannot prove the rewrite: the module's file '{}' is not one of the files given "
+                                    "(is the module in an included file?)", file), {}, ExitCode::Internal);
+        back.substitute[key] = rewritten;
+        // Includes relative to the original file's folder must still resolve.
+        back.includeDirs.push_back(std::filesystem::path(file).parent_path().empty()
+                                       ? "."
+                                       : std::filesystem::path(file).parent_path().string());
+        try {
+            written = frontend::readModule(back);
+        } catch (const Error& e) {
+            ownFault(e, "read back");
+        }
+        {
+            // The reader's second run (on the rewrite) is a process of its own: its time is not the proof's.
+            io::ReaderOutput rf = io::lastReaderFigures();
+            stages.addChild("reader (rewrite)", rf.seconds, rf.peakRssKb, rf.cpuSeconds);
+        }
+        frontend::Lowered writtenLow;
+        try {
+            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX,
+                                 keptByKey(desc, agreedKept, written), wr.unusedWire);
+        } catch (const Error& e) {
+            ownFault(e, "lower");
+        }
+        return passes::measureFactored(writtenLow.net);
+    };
+    // Names are weighed on the forms the writer prints; the file as read back is the measure.
+    // Over the depth bound, or above the engine's gates by more than the margin, the file is
+    // written again by bits (the engine's forms are read back at the engine's figures).
+    std::optional<std::pair<frontend::ModuleDesc, net::Metrics>> checked;
+    if (wr.changed && (!wr.namedDomains.empty() || !wr.namedChoices.empty())) {
+        frontend::ModuleDesc w;
+        net::Metrics m = readBack(wr.text, w);
+        const double margin = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
+                                                 : wo.minGain.value;
+        const auto bound = static_cast<std::size_t>(std::max(wo.depthBound, static_cast<int>(er.after.depth)));
+        if (m.depth > bound || static_cast<double>(m.gates) > static_cast<double>(er.after.gates) + margin) {
+            wr.namingLog += fmt::format("naming: the written file reads back at {} gates, depth {} (bound {}, "
+                                        "bitwise {} gates + margin): written by bits\n", m.gates, m.depth, bound,
+                                        er.after.gates);
+            std::string why = std::move(wr.namingLog);
+            emit::WriteOptions bits = wo;
+            bits.names = false;
+            wr = emit::writeModule(wi, bits);
+            wr.namingLog = std::move(why);
+            work = std::make_unique<io::WorkDir>();
+        } else {
+            checked.emplace(std::move(w), m);
+        }
+    }
     if (!wr.changed) proofOriginal.reset();   // nothing to prove
     // What only the engine and the writer needed goes before the rewrite is read back and
     // lowered twice: on a generated design the original's network, its copy, their forms
@@ -280,7 +371,6 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     originalForms.forms = {};
     er.forms.forms = {};
     factorCache.reset();
-    const std::string& file = desc.src.file;
     const std::string original_text = io::readFile(file);
 
     std::size_t groupsReplaced = 0;
@@ -303,66 +393,14 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         stages.begin("prove");
         io::Progress::global().stage("prove (reading the rewrite back)");   // the share shown is the lowering's
         auto tProof = Clock::now();
-        // The rewrite is read back from a private directory under the original's
-        // file name, so the reader's messages about it read naturally.
-        io::WorkDir work;
-        std::string rewritten = work.add(std::filesystem::path(file).filename().string(), wr.text);
-        frontend::ReadOptions back = opts.read;
-        // The rewritten file replaces the one that holds the module; a proof that
-        // silently read the original twice would prove nothing, so insist on a match.
-        std::string key;
-        for (const auto& f : opts.read.files) {
-            std::error_code ec;
-            if (f == file || std::filesystem::equivalent(f, file, ec)) key = f;
-        }
-        if (key.empty())
-            throw Error(fmt::format("cannot prove the rewrite: the module's file '{}' is not one of the files given "
-                                    "(is the module in an included file?)", file), {}, ExitCode::Internal);
-        back.substitute[key] = rewritten;
-        // Includes relative to the original file's folder must still resolve.
-        back.includeDirs.push_back(std::filesystem::path(file).parent_path().empty()
-                                       ? "."
-                                       : std::filesystem::path(file).parent_path().string());
-        // Anything wrong with kerf's own output is kerf's bug: keep the evidence.
-        auto keepEvidence = [&]() {
-            try {
-                work.add("description.json", io::runReader(frontend::readerArguments(opts.read)).text);
-            } catch (const std::exception&) {
-                // The rewrite alone still helps; the reader's own message is above.
-            }
-            return work.keep();
-        };
-        auto ownFault = [&](const Error& e, const char* what) {
-            if (e.code() == ExitCode::Resources || e.code() == ExitCode::ToolMissing) throw e;
-            std::string dir = keepEvidence();
-            std::string why = e.what();
-            if (auto cut = why.find("; nothing was written"); cut != std::string::npos) why.erase(cut);
-            throw Error(fmt::format("kerf's rewrite of module {} does not {} ({}); nothing was written. "
-                                    "This is a kerf bug: please report it with the files kept in {}/",
-                                    desc.name, what, why, dir), {}, ExitCode::Internal);
-        };
         frontend::ModuleDesc written;
-        try {
-            written = frontend::readModule(back);
-        } catch (const Error& e) {
-            ownFault(e, "read back");
+        if (checked) {
+            written = std::move(checked->first);   // read back and measured when the names were weighed
+            after = checked->second;
+            checked.reset();
+        } else {
+            after = readBack(wr.text, written);
         }
-        {
-            // The reader's second run (on the rewrite) is a process of its own: its time is not the proof's.
-            io::ReaderOutput rf = io::lastReaderFigures();
-            stages.addChild("reader (rewrite)", rf.seconds, rf.peakRssKb, rf.cpuSeconds);
-        }
-        std::set<std::string> authorSignals;
-        for (const auto& [n, sg] : desc.signals) authorSignals.insert(n);
-        frontend::Lowered writtenLow;
-        try {
-            writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX,
-                                 keptByKey(desc, agreedKept, written), wr.unusedWire);
-        } catch (const Error& e) {
-            ownFault(e, "lower");
-        }
-        after = passes::measureFactored(writtenLow.net);
-        writtenLow = frontend::Lowered();   // measured: the proof lowers the rewrite its own way
         // The file as a whole must get smaller by the margin too: groups are judged on the
         // engine's figures, the file on what the reader makes of the text.
         double gain = static_cast<double>(asRead.gates) - static_cast<double>(after.gates);
@@ -500,6 +538,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
 
     if (opts.verbose > 0) {
         std::cerr << passes::formatEngineReport(er);
+        std::cerr << wr.namingLog;
         std::cerr << fmt::format("{:<24} {:>9} {:>8} {:>6} {:>7}\n", "(written file)", after.literals, after.gates,
                                  after.depth, after.nodes);
         for (const auto& g : wr.groups)

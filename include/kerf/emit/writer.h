@@ -34,6 +34,11 @@ struct WriteOptions {
     MinGain minGain;
     /// Longest line the writer produces where it can break an expression.
     std::size_t lineLimit = 100;
+    /// Write registers the source only names by their names (comparisons, one choice among
+    /// names) where that keeps the bounds below; false: bits only.
+    bool names = true;
+    /// Depth a named form may reach (the goal's bound; -1: the bitwise form's depth).
+    int depthBound = -1;
 };
 
 /// One group of statements that share restructured logic: replaced together or kept together.
@@ -66,6 +71,10 @@ struct WriteResult {
     /// the new text does not; also read by `unusedWire` (and listed in `notRead`).
     std::vector<std::string> constantsNotNamed;
     std::string unusedWire;
+    /// Signals written by their names: domains compared by name, targets written as one choice.
+    std::vector<std::string> namedDomains, namedChoices;
+    /// What the naming weighed (one line per item), for -v.
+    std::string namingLog;
 };
 
 /// What the writer needs besides the module description.

