@@ -911,6 +911,8 @@ void Writer::coneOf(NodeId root, bool viaDefinition, const std::function<void(No
 
 void Writer::nameWires() {
     if (wires_.empty()) return;
+    // Longest name made from what a wire combines; longer ones take the output's name and an index.
+    constexpr std::size_t kMaxDescriptiveName = 28;
     ExprBuilder eb(refs_, forms_);
     std::set<std::string> used = taken_;
     std::vector<std::string> names(wires_.size());
@@ -930,11 +932,11 @@ void Writer::nameWires() {
         std::string name;
         auto part = [&](const PExpr& p) -> std::string {
             if (p.kind == PExpr::Kind::Ref && p.text[0] != '$') return (p.neg ? "n" : "") + fragment(p.text);
-            if (p.kind == PExpr::Kind::Compare && !p.neg) {
+            if (p.kind == PExpr::Kind::Compare) {
                 // "paddr[5:2] == 4'h0" -> "paddr_5_2_is_0"
                 std::string lhs = p.text.substr(0, p.text.find(' '));
                 if (lhs.empty() || lhs[0] == '{') return "";   // a concatenation: no short name
-                bool eq = p.text.find("==") != std::string::npos;
+                bool eq = (p.text.find("==") != std::string::npos) != p.neg;
                 std::size_t tick = p.text.find('\'');
                 // A named value (`state_q == ST_IDLE`): the name.
                 std::string value = tick == std::string::npos ? fragment(p.text.substr(p.text.rfind(' ') + 1))
@@ -951,19 +953,29 @@ void Writer::nameWires() {
         };
         if (e.kind == PExpr::Kind::Compare) {
             name = part(e);
-        } else if ((e.kind == PExpr::Kind::And || e.kind == PExpr::Kind::Or) && !e.neg && e.kids.size() <= 3) {
+        } else if ((e.kind == PExpr::Kind::And || e.kind == PExpr::Kind::Or) && e.kids.size() <= 3) {
+            // An inverted sum or product is named as its dual (`~(a | b)`: `na_nb`).
+            bool conj = (e.kind == PExpr::Kind::And) != e.neg;
             std::vector<std::string> ps;
-            for (const auto& kid : e.kids) ps.push_back(part(kid));
+            for (const auto& kid : e.kids) {
+                PExpr k = kid;
+                if (e.neg) k.neg = !k.neg;
+                ps.push_back(k.kind == PExpr::Kind::Ref || k.kind == PExpr::Kind::Compare ? part(k) : "");
+            }
             if (std::none_of(ps.begin(), ps.end(), [](const std::string& s) { return s.empty(); })) {
-                for (std::size_t j = 0; j < ps.size(); ++j)
-                    name += (j ? (e.kind == PExpr::Kind::And ? "_" : "_or_") : "") + ps[j];
+                for (std::size_t j = 0; j < ps.size(); ++j) name += (j ? (conj ? "_" : "_or_") : "") + ps[j];
             }
         } else if (e.kind == PExpr::Kind::Xor && e.kids.size() == 2) {
             std::string a = part(e.kids[0]), b = part(e.kids[1]);
             if (!a.empty() && !b.empty()) name = (e.neg ? "same_" : "") + a + (e.neg ? "_" : "_xor_") + b;
         }
-        if (name.size() > 28) name.clear();
-        if (!name.empty()) names[k] = claim(name);
+        if (name.size() > kMaxDescriptiveName) name.clear();
+        if (!name.empty()) {
+            // Wires are in topological order: a later wire that combines this one reads its
+            // name (`state_q_is_ARB_ncancel`), not a placeholder.
+            names[k] = claim(name);
+            refs_[v]->text = names[k];
+        }
     }
     // The rest: the first output they feed, with an index counted within that output's logic.
     std::map<std::string, int> counter;
@@ -1924,11 +1936,30 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                         bool flip = false;
                         if (cond != 0) {
                             ExprBuilder eb(refs_, forms_);
-                            bool here = false;
-                            for (std::size_t q = k; q <= last; ++q) here = here || definer_[cond] == static_cast<int>(idx[q]);
-                            c = here ? eb.definition(cond, false) : eb.literal(algebra::makeLiteral(cond, false));
+                            bool here = false, alias = false;
+                            for (std::size_t q = k; q <= last; ++q) {
+                                here = here || definer_[cond] == static_cast<int>(idx[q]);
+                                alias = alias || (!net_.isLogic(cond) && aliasOf_[cond] == static_cast<int>(idx[q]));
+                            }
+                            if (alias) {
+                                // An input (a word result) the run's bit lends its name to: its own name.
+                                c.kind = PExpr::Kind::Ref;
+                                c.ref = &inputRefs_[cond];
+                                c.text = inputRefs_[cond].text;
+                            } else {
+                                c = here ? eb.definition(cond, false) : eb.literal(algebra::makeLiteral(cond, false));
+                            }
                             if (c.kind == PExpr::Kind::Ref && c.neg) c.neg = false, flip = true;
+                            // Never a condition that reads the vector it assigns.
+                            std::set<std::string> condReads;
+                            collectRefs(c, condReads);
+                            std::set<std::pair<std::string, int>> condBits;
+                            collectBits(c, condBits);
+                            bool self = condReads.count(s) > 0;
+                            for (const auto& [n, b] : condBits) self = self || n == s || n == verilogName(s);
+                            if (self) lhs.clear();
                         }
+                      if (!lhs.empty()) {
                         // The run's value when the condition is `when` (MSB first).
                         auto value = [&](bool when) {
                             std::string bits;
@@ -1959,6 +1990,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                         as.push_back(std::move(a));
                         k = last + 1;
                         continue;
+                      }
                     }
                 }
             }

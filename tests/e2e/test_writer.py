@@ -1017,6 +1017,42 @@ def _(t):
                     f"{what}: exit {r.returncode} (usage error 2), nothing written: {r.stderr[-300:]}")
 
 
+@S.case("wire_names_from_what_they_combine")
+def _(t):
+    """Issue 10 (names): a new wire that is a product or sum of at most three names or
+    comparisons, itself wires included, is named from them (`state_q_is_ARB_ncancel`) where that
+    name is short (at most 28 characters), not from the output it feeds plus an index
+    (`state_d0_t1`). Checks the written text of three samples: every wire named `<output>_tN`
+    has a definition that is not such a short product or sum (more operands, a nested
+    expression, a generic operand or a name past the limit); and at least one wire is named
+    from another new wire. Function and stability are checked by the golden and
+    unrelated-edit cases."""
+    operand = re.compile(r"^~?([A-Za-z_][A-Za-z0-9_]*)(\[(\d+)\])?$")
+    from_wire = 0
+    for src, top in (("samples/dma_fsm.sv", "dma_fsm"), ("samples/uart_regsel.v", "uart_regsel"),
+                     ("samples/rv_decoder.sv", "rv_decoder")):
+        out = os.path.join(t.work, os.path.basename(src))
+        r = restructure(t, [src], top, out)
+        if not t.res.check(r.returncode == 0, f"{top}: restructure: {r.stderr[-600:]}"):
+            continue
+        wires = dict(re.findall(r"^\s*wire\s+([A-Za-z_][A-Za-z0-9_]*)\s*=\s*([^;]*);", open(out).read(), re.M))
+        for name, expr in wires.items():
+            ops = re.split(r"\s*[&|]\s*", expr.strip())
+            simple = [operand.match(o) for o in ops]
+            if all(simple) and len(ops) <= 3 and not ("&" in expr and "|" in expr):
+                if any(m.group(1) in wires and not re.search(r"_t\d+$", m.group(1)) for m in simple):
+                    from_wire += 1
+            if not re.search(r"_t\d+$", name):
+                continue
+            generic = any(m and re.search(r"_t\d+$", m.group(1)) for m in simple)
+            parts = ["".join(x for x in (("n" if o.startswith("~") else ""), m.group(1), m.group(3) or ""))
+                     for o, m in zip(ops, simple) if m]
+            t.res.check(not (all(simple) and len(ops) <= 3 and not generic and "(" not in expr
+                             and sum(len(p) for p in parts) + 4 * (len(parts) - 1) <= 28),
+                        f"{top}: {name} = {expr} could be named from what it combines")
+    t.res.check(from_wire > 0, "some wire is named from another new wire")
+
+
 LAMP_CODE = """// Indicator code of an invented pump panel: codes that are constants under one condition.
 module lamp_code (
   input  logic       en,

@@ -27,19 +27,21 @@ module dma_fsm (
   // kerf: 1 of 1 group rewritten, gates 76 -> 26, depth 6 -> 6, proved equivalent
   wire state_q_is_IDLE = state_q == IDLE;
   wire state_q_is_ARB = state_q == ARB;
-  wire state_d0_t1 = state_q_is_ARB & ~cancel;
+  wire state_q_is_ARB_ncancel = state_q_is_ARB & ~cancel;
   wire state_q_is_XFER = state_q == XFER;
-  wire req_t0 = state_q_is_XFER & ~err;
-  wire state_d0_t0 = req_t0 & ~cancel;
+  wire state_q_is_XFER_nerr = state_q_is_XFER & ~err;
+  wire state_q_is_XFER_nerr_ncancel = state_q_is_XFER_nerr & ~cancel;
   wire state_q_is_FAULT = state_q == FAULT;
   always_comb begin
-    state_d[0] = (state_d0_t0 & last_beat) | (state_d0_t1 & ~grant) | (state_q_is_IDLE & start);
-    state_d[1] = state_d0_t0 | (state_d0_t1 & grant);
+    state_d[0] = (state_q_is_ARB_ncancel & ~grant)
+               | (state_q_is_IDLE & start)
+               | (state_q_is_XFER_nerr_ncancel & last_beat);
+    state_d[1] = state_q_is_XFER_nerr_ncancel | (state_q_is_ARB_ncancel & grant);
     state_d[2] = err_irq | (state_q_is_XFER & err);
   end
 
   always @(*) begin
-    req = state_q_is_ARB | (req_t0 & ~last_beat);
+    req = state_q_is_ARB | (state_q_is_XFER_nerr & ~last_beat);
     busy = state_q_is_ARB | state_q_is_XFER;
     done_irq = state_q == DONE;
     err_irq = state_q_is_FAULT & ~cancel;

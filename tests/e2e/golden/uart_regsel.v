@@ -24,34 +24,34 @@ module uart_regsel (
   // kerf: 2 of 2 groups rewritten, gates 67 -> 31, depth 4 -> 4, proved equivalent
   wire psel_penable = psel & penable;
   wire paddr5_or_paddr1 = paddr[5] | paddr[1];
-  wire pslverr_t0 = paddr5_or_paddr1 | paddr[0];
+  wire paddr5_or_paddr1_or_paddr0 = paddr5_or_paddr1 | paddr[0];
   wire acc_w = psel_penable & pwrite;
   wire acc_r;
   assign acc_r = psel_penable & ~pwrite;
 
   wire paddr_5_4_is_00 = paddr[5:4] == 2'b00;
-  wire we_thr_t1 = acc_w & paddr_5_4_is_00;
+  wire acc_w_paddr_5_4_is_00 = acc_w & paddr_5_4_is_00;
   wire paddr_3_2_is_00 = paddr[3:2] == 2'b00;
-  wire we_thr_t0 = paddr_3_2_is_00 & ~lcr_dlab;
+  wire paddr_3_2_is_00_nlcr_dlab = paddr_3_2_is_00 & ~lcr_dlab;
   wire paddr_3_2_is_01 = paddr[3:2] == 2'b01;
   wire paddr_3_2_is_10 = paddr[3:2] == 2'b10;
   wire paddr_5_4_is_01 = paddr[5:4] == 2'b01;
-  wire re_rbr_t0 = acc_r & paddr_5_4_is_00;
-  wire re_lsr_t0 = acc_r & paddr_5_4_is_01;
-  assign we_thr = we_thr_t1 & we_thr_t0;
-  assign we_dll = we_thr_t1 & paddr_3_2_is_00 & lcr_dlab;
-  assign we_ier = we_thr_t1 & paddr_3_2_is_01 & ~lcr_dlab;
-  assign we_dlm = we_thr_t1 & paddr_3_2_is_01 & lcr_dlab;
-  assign we_fcr = we_thr_t1 & paddr_3_2_is_10;
-  assign we_lcr = we_thr_t1 & (paddr[3:2] == 2'b11);
+  wire acc_r_paddr_5_4_is_00 = acc_r & paddr_5_4_is_00;
+  wire acc_r_paddr_5_4_is_01 = acc_r & paddr_5_4_is_01;
+  assign we_thr = acc_w_paddr_5_4_is_00 & paddr_3_2_is_00_nlcr_dlab;
+  assign we_dll = acc_w_paddr_5_4_is_00 & paddr_3_2_is_00 & lcr_dlab;
+  assign we_ier = acc_w_paddr_5_4_is_00 & paddr_3_2_is_01 & ~lcr_dlab;
+  assign we_dlm = acc_w_paddr_5_4_is_00 & paddr_3_2_is_01 & lcr_dlab;
+  assign we_fcr = acc_w_paddr_5_4_is_00 & paddr_3_2_is_10;
+  assign we_lcr = acc_w_paddr_5_4_is_00 & (paddr[3:2] == 2'b11);
   assign we_mcr = acc_w & paddr_3_2_is_00 & paddr_5_4_is_01;
 
-  assign re_rbr = we_thr_t0 & re_rbr_t0;
-  assign re_iir = paddr_3_2_is_10 & re_rbr_t0;
-  assign re_lsr = paddr_3_2_is_01 & re_lsr_t0;
-  assign re_msr = paddr_3_2_is_10 & re_lsr_t0;
+  assign re_rbr = paddr_3_2_is_00_nlcr_dlab & acc_r_paddr_5_4_is_00;
+  assign re_iir = paddr_3_2_is_10 & acc_r_paddr_5_4_is_00;
+  assign re_lsr = paddr_3_2_is_01 & acc_r_paddr_5_4_is_01;
+  assign re_msr = paddr_3_2_is_10 & acc_r_paddr_5_4_is_01;
 
   // Unaligned or out-of-window accesses answer with an error.
-  assign pslverr = psel_penable & pslverr_t0;
+  assign pslverr = psel_penable & paddr5_or_paddr1_or_paddr0;
 
 endmodule
