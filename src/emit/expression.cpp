@@ -509,7 +509,9 @@ void ExprBuilder::groupSlices(PExpr& e) {
             while (t + 1 < idx.size() && e.kids[idx[t + 1]].ref->offset == e.kids[idx[t]].ref->offset + 1) ++t;
             std::size_t len = t - s + 1;
             int lo = e.kids[idx[s]].ref->offset, hi = e.kids[idx[t]].ref->offset;
-            if (len >= 2) {
+            // Bits that the declared type splits (two struct fields, two array elements) would be
+            // a concatenation compared with a constant: `a.valid & a.tag[3]` reads better.
+            if (len >= 2 && sliceText(r0, lo, hi).front() != '{') {
                 // AND: bit value 1 for a positive literal; OR of literals = NOT(all literals false).
                 bool isAnd = e.kind == PExpr::Kind::And;
                 std::vector<int> bits;
