@@ -82,7 +82,7 @@ public:
             if (conflictsLeft_ <= 0) { ctx_.stats.add("limit-hit:dc-total-conflicts", 1); break; }
             if (work_ > workLimit_) { ctx_.stats.add("limit-hit:dc-work-per-node", 1); break; }
             NodeId v = *it;
-            if (!ws_.live(v)) continue;
+            if (!ws_.live(v) || !ctx_.inFocus(v)) continue;
             std::uint64_t key = 0;
             if (memo_) {
                 key = fingerprint(v);

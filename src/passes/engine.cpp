@@ -25,6 +25,29 @@
 // growth 0, 1, 2, 4, ... up to the effort's maximum growth, so the engine
 // itself finds how far flattening pays on each design.
 //
+// Changed regions. After the opening, a trial of a technique looks for
+// candidates only where the network changed since that technique was last
+// valued (limit changed-region): the rule is
+//   region = the nodes the kept moves since then changed (changedNodes: new
+//            or rewritten nodes, fanins that lost a reader, output drivers),
+//          + the nodes the technique's own last trial changed, when that
+//            trial gained but was not kept (it found something there),
+//          + every node within changed-radius fanin/fanout steps of those
+//            (the walk does not go on from inputs or from nodes with more
+//            than changed-walk-degree fanin literals and fanouts),
+// and each technique values its candidates from the region against the
+// whole network (see PassContext::focus and each technique's header). The
+// whole network is valued instead when the technique was never valued
+// (its first trial, and the opening), when the region holds more than
+// changed-full-permille of the live nodes, and in the closing sweep: when
+// nothing pays on the current network, each technique whose last trial
+// looked at a region only is valued once over the whole network while the
+// trial budget allows. Regroup moves dissolve over the whole network (their
+// point is to undo structure anywhere); with changed-regroup their inner
+// techniques start from the nodes the dissolving changed. Looking again
+// only where a change can have opened a gain is the usual way to make
+// repeated local rewriting incremental; the rule and its bounds are ours.
+//
 // Goals. For Goal::Size a move gains when it saves gates (then literals)
 // within the depth bound; for Goal::Depth when it lowers depth (then gates)
 // without the gates exceeding the input's.
@@ -122,6 +145,19 @@ const std::vector<LimitInfo>& limitTable() {
         field("region-literals",
               "networks of more than twice this many literals are restructured region by region (0: whole)",
               &EngineLimits::regionLiterals),
+        field("changed-region", "1: after the opening, trials look only at the changed region (0: whole network)",
+              &EngineLimits::changedRegion),
+        field("changed-radius", "fanin/fanout steps around the changed nodes that a changed region takes in",
+              &EngineLimits::changedRadius),
+        field("changed-regroup",
+              "1: a regroup move's inner trials start from the nodes its dissolving changed (0: whole network first)",
+              &EngineLimits::changedRegroup),
+        field("changed-walk-degree",
+              "the changed region's walk does not go on from nodes with more fanin literals and fanouts",
+              &EngineLimits::changedWalkDegree),
+        field("changed-full-permille",
+              "a changed region of more than this many thousandths of the live nodes is valued as the whole network",
+              &EngineLimits::changedFullPermille),
         sub("minimise-exact-vars", "exact two-level minimum up to this many variables", &EngineLimits::minimize,
             &minimize::MinimizeOptions::exactVars),
         sub("minimise-table-vars", "truth-table minimisation up to this many variables (at most 16)",
@@ -255,7 +291,9 @@ struct Source {
     std::function<void(net::Network&, PassContext&)> run;
     int growth = -1;                       // >= 0: a regroup move dissolving at this growth
     double estimate = std::numeric_limits<double>::infinity();
-    long valuedAt = -1;                    // network version of the last valuation
+    long valuedAt = -1;                    // network version of the last valuation (-1: never: whole network)
+    bool lastFocused = false;              // the last valuation looked at a changed region only
+    std::vector<net::NodeId> ownEdits;     // nodes its last trial changed, when that trial gained (kept or not)
     int misses = 0;                        // valuations in a row without a gain worth keeping
     std::unique_ptr<net::Network> pending; // the valued result (valid while valuedAt is current)
     std::optional<net::Metrics> pendingMetrics;
@@ -272,6 +310,41 @@ struct Source {
 // cube extraction, see share_divisors.h), so a move saves about this much at
 // most (factored forms have no more gates than the sums of products; a move
 // may change the depth slack of other nodes, which this does not count).
+// The nodes of b (derived from a by a move: nodes only added or marked
+// dead) that differ from a: live nodes whose cover changed or that are new,
+// the fanins a changed or removed node read in a and no longer reads in b
+// (they lost a reader), and the old and new drivers of outputs whose driver
+// changed. Sorted.
+std::vector<net::NodeId> changedNodes(const net::Network& a, const net::Network& b) {
+    std::vector<net::NodeId> out, before, after;
+    auto varsOf = [](const algebra::Cover& f, std::vector<net::NodeId>& vs) {
+        vs.clear();
+        for (const algebra::Cube& c : f.cubes)
+            for (algebra::Literal l : c.lits) vs.push_back(algebra::literalVar(l));
+        std::sort(vs.begin(), vs.end());
+        vs.erase(std::unique(vs.begin(), vs.end()), vs.end());
+    };
+    for (net::NodeId v = 0; v < b.nodeCount(); ++v) {
+        const bool la = v < a.nodeCount() && a.isLogic(v), lb = b.isLogic(v);
+        if (!la && !lb) continue;
+        if (la && lb && a.node(v).cover == b.node(v).cover) continue;
+        if (lb) out.push_back(v);
+        if (!la) continue;
+        varsOf(a.node(v).cover, before);
+        after.clear();
+        if (lb) varsOf(b.node(v).cover, after);
+        std::set_difference(before.begin(), before.end(), after.begin(), after.end(), std::back_inserter(out));
+    }
+    for (std::size_t i = 0; i < b.outputs().size() && i < a.outputs().size(); ++i)
+        if (a.outputs()[i].driver != b.outputs()[i].driver) {
+            out.push_back(algebra::literalVar(a.outputs()[i].driver));
+            out.push_back(algebra::literalVar(b.outputs()[i].driver));
+        }
+    std::sort(out.begin(), out.end());
+    out.erase(std::unique(out.begin(), out.end()), out.end());
+    return out;
+}
+
 double gatesOfNodesUpTo(const net::Network& n, std::size_t maxCubes) {
     double g = 0;
     for (net::NodeId v = 0; v < n.nodeCount(); ++v) {
@@ -348,7 +421,7 @@ public:
     /// Run the lazy greedy loop on `net` (whose figures are `current`) for at
     /// most `budget` trials. Returns the figures of the result.
     net::Metrics run(net::Network& net, net::Metrics current, std::vector<Source>& sources, int budget, bool top) {
-        long version = 0;
+        long version = static_cast<long>(log_.size());
         int trials = 0;
         if (top) opening(net, current, sources, budget, version, trials);
         for (;;) {
@@ -362,7 +435,10 @@ public:
                     (s.estimate == best->estimate && best->valuedAt == version && s.valuedAt != version))
                     best = &s;
             }
-            if (!best) break;
+            if (!best) {
+                if (top && closingSweep(net, current, sources, budget, version, trials)) continue;
+                break;
+            }
             if (best->valuedAt == version) {
                 if (best->estimate >= minGain(current) && best->pending) {
                     const std::size_t gatesBefore = current.gates;
@@ -371,7 +447,10 @@ public:
                     if (top) readmitAfter(gatesBefore, current.gates, sources);
                     continue;
                 }
-                if (allFresh) break;   // nothing pays on the current network
+                if (allFresh) {   // nothing pays on the current network
+                    if (top && closingSweep(net, current, sources, budget, version, trials)) continue;
+                    break;
+                }
                 // Fresh sources gain nothing; re-value a stale one.
                 best = nullptr;
                 for (Source& s : sources)
@@ -426,7 +505,7 @@ private:
                     }
                 }
                 ++trials;
-                value(net, current, *s, version);
+                value(net, current, *s, version, true);
                 // The better gain; on a tie the technique listed first (as when valued in list order).
                 if (!best || s->estimate > best->estimate || (s->estimate == best->estimate && rank(s) < rank(best)))
                     best = s;
@@ -442,6 +521,84 @@ private:
                          takers.end());
         }
         if (opts_.limits.openingMoves > 0 && !takers.empty()) limitHit("opening-moves");
+    }
+
+    // The closing sweep: when nothing pays on the current network, every
+    // technique whose last valuation looked at a changed region only is
+    // valued once over the whole network, while trials remain (gains are not
+    // strictly local: the depth slack and the greedy order change with every
+    // kept move). True when one of them found a gain worth keeping.
+    bool closingSweep(const net::Network& net, const net::Metrics& current, std::vector<Source>& sources, int budget,
+                      long version, int& trials) {
+        bool found = false;
+        for (Source& s : sources) {
+            if (!s.lastFocused) continue;
+            if (trials >= budget) {
+                limitHit("trials");
+                break;
+            }
+            ++trials;
+            ++rowFor(s.name).closing;
+            value(net, current, s, version, true);
+            if (s.estimate >= minGain(current) && s.pending) found = true;
+        }
+        return found;
+    }
+
+    // The changed region of source s on `net` (at `version`): the nodes that
+    // kept moves changed since s was last valued, and the nodes s's own last
+    // trial changed when it gained (a trial not kept found something there),
+    // with every node within changed-radius fanin/fanout steps of them. The
+    // walk does not go on from inputs or from nodes with more than
+    // changed-walk-degree fanin literals and fanouts (a decoder's inputs are
+    // read by nearly every node, and its outputs read thousands). False when the region holds more than
+    // changed-full-permille of the live nodes: the whole network is valued.
+    bool regionFor(const net::Network& net, const Source& s, long version, std::vector<std::uint8_t>& mark) {
+        const std::size_t n = net.nodeCount();
+        mark.assign(n, 0);
+        std::vector<net::NodeId> frontier, next;
+        std::size_t count = 0;   // live logic nodes marked
+        auto seed = [&](net::NodeId v) {
+            if (v < n && !mark[v]) {
+                mark[v] = 1;
+                frontier.push_back(v);
+                count += net.isLogic(v);
+            }
+        };
+        for (long k = std::max<long>(s.valuedAt, 0); k < version; ++k)
+            for (net::NodeId v : log_[static_cast<std::size_t>(k)]) seed(v);
+        for (net::NodeId v : s.ownEdits) seed(v);
+        const std::size_t live = net.logicCount();
+        const double limit = static_cast<double>(live) * opts_.limits.changedFullPermille / 1000.0;
+        for (int r = 0; r < opts_.limits.changedRadius && !frontier.empty(); ++r) {
+            if (fanoutsAt_ != version || fanouts_.size() != n) {
+                fanouts_ = net.fanouts();
+                fanoutsAt_ = version;
+            }
+            next.clear();
+            for (net::NodeId v : frontier) {
+                if (!net.isLogic(v) || fanouts_[v].size() + net.node(v).cover.literalCount() >
+                                           static_cast<std::size_t>(opts_.limits.changedWalkDegree))
+                    continue;
+                auto visit = [&](net::NodeId u) {
+                    if (u < n && !mark[u]) {
+                        mark[u] = 1;
+                        next.push_back(u);
+                        count += net.isLogic(u);
+                    }
+                };
+                for (const algebra::Cube& c : net.node(v).cover.cubes)
+                    for (algebra::Literal l : c.lits) visit(algebra::literalVar(l));
+                for (net::NodeId f : fanouts_[v]) visit(f);
+            }
+            if (static_cast<double>(count) > limit) break;
+            frontier.swap(next);
+        }
+        if (static_cast<double>(count) <= limit) return true;
+        if (opts_.verbose >= 2)
+            std::fprintf(stderr, "kerf: trial %-28s changed region over %zu of %zu live nodes: whole network\n",
+                         s.name.c_str(), count, live);
+        return false;
     }
 
     // Left out: a technique whose last give-up-after valuations gained less
@@ -478,9 +635,15 @@ private:
         return static_cast<long long>(m.gates) <= std::max<long long>(gateCeiling_, current.gates);
     }
 
-    void value(const net::Network& net, const net::Metrics& current, Source& s, long version) {
+    /// Value source s on `net` (at `version`): over the whole network when
+    /// `whole`, when s was never valued, or when changed-region is off;
+    /// otherwise over its changed region (regionFor) unless that is large.
+    void value(const net::Network& net, const net::Metrics& current, Source& s, long version, bool whole = false) {
         const auto t0 = std::chrono::steady_clock::now();
         const double c0 = detail::cpuNow();
+        std::vector<std::uint8_t> region;
+        const bool focused = !whole && opts_.limits.changedRegion && s.growth < 0 && s.valuedAt >= 0 &&
+                             regionFor(net, s, version, region);
         auto trial = std::make_unique<net::Network>(net);
         const double c1 = detail::cpuNow();
         PassContext ctx;
@@ -488,26 +651,40 @@ private:
         ctx.verbose = opts_.verbose;
         ctx.factors = &cache_;
         ctx.factorTimingCubes = opts_.limits.guardFactorCubes;
+        ctx.focus = focused ? &region : nullptr;
         s.run(*trial, ctx);
+        ctx.focus = nullptr;
         const double c2 = detail::cpuNow();
         // A technique that kept no edit left the (tidy) network as it was:
-        // its gain is 0 without tidying and measuring it again.
-        const bool unchanged = s.growth < 0 && ctx.edits == 0;
+        // its gain is 0 without tidying and measuring it again. So does a
+        // regroup that dissolved nothing in its changed region (re-optimising
+        // an unchanged region finds what the other techniques already had).
+        const bool unchanged = ctx.edits == 0 && (s.growth < 0 || focused);
         if (!unchanged) tidy(*trial, ctx, net);   // `net` is tidy: its unchanged wide covers need no simplifying
         const double c3 = detail::cpuNow();
         net::Metrics m = unchanged ? current : measure(*trial);
         const double c4 = detail::cpuNow();
         if (opts_.verbose >= 2)
-            std::fprintf(stderr, "kerf: trial %-28s cpu s: copy %.2f technique %.2f tidy %.2f measure %.2f\n",
-                         s.name.c_str(), c1 - c0, c2 - c1, c3 - c2, c4 - c3);
-        if (s.growth >= 0) {
-            // Regroup: re-optimise what dissolving left, then value the end result.
+            std::fprintf(stderr, "kerf: trial %-28s cpu s: copy+region %.2f technique %.2f tidy %.2f measure %.2f%s\n",
+                         s.name.c_str(), c1 - c0, c2 - c1, c3 - c2, c4 - c3,
+                         focused ? fmt::format(" (changed region: {} nodes)",
+                                               std::count_if(region.begin(), region.end(), [](auto x) { return x; }))
+                                       .c_str()
+                                 : "");
+        if (s.growth >= 0 && !unchanged) {
+            // Regroup: re-optimise what dissolving left, then value the end
+            // result. With changed regions, the inner techniques start from
+            // the nodes the dissolving changed.
             std::vector<Source> inner = makeSources(false);
             Scheduler sub(opts_, res_, cache_, passCap_, measureCap_, gateCeiling_);
             sub.dcMemo_ = dcMemo_;
             sub.shrinkMemo_ = shrinkMemo_;
             sub.innerMisses_ = innerMisses_;
             sub.scope_ = s.name;
+            if (opts_.limits.changedRegion && opts_.limits.changedRegroup) {
+                sub.log_.push_back(changedNodes(net, *trial));
+                for (Source& x : inner) x.valuedAt = 0;
+            }
             m = sub.run(*trial, m, inner, opts_.limits.regroupTrials, false);
         }
         for (const auto& [k, v] : ctx.stats.items())
@@ -518,6 +695,8 @@ private:
         row.seconds += since(t0);
         row.cpuSeconds += detail::cpuNow() - c0;
         s.valuedAt = version;
+        s.lastFocused = focused;
+        if (focused) ++row.focused;
         const bool ok = admissible(m, current);
         s.estimate = ok ? gainOf(opts_.goal, valueOf(current), valueOf(m)) : -1;
         s.misses = s.estimate >= minGain(current) ? 0 : s.misses + 1;
@@ -525,7 +704,9 @@ private:
             int& inner = (*innerMisses_)[scope_ + "/" + s.name];
             inner = s.misses == 0 ? 0 : inner + 1;
         }
+        s.ownEdits.clear();
         if (s.estimate > 0) {
+            if (opts_.limits.changedRegion) s.ownEdits = changedNodes(net, *trial);
             s.pending = std::move(trial);
             s.pendingMetrics = m;
             s.pendingStats = ctx.stats;
@@ -562,6 +743,7 @@ private:
                 std::fprintf(stderr, "kerf: kept %-29s gates %zu -> %zu, depth %zu -> %zu\n", s.name.c_str(),
                              current.gates, m.gates, current.depth, m.depth);
         }
+        log_.push_back(s.ownEdits);   // what this move changed (empty without changed regions)
         net = std::move(*s.pending);
         s.pending.reset();
         current = m;
@@ -588,6 +770,12 @@ private:
     std::size_t passCap_;
     int measureCap_;
     long long gateCeiling_;
+
+    // Changed regions: log_[k] holds the nodes the kept move from version k
+    // to k+1 changed; the fanout lists of the current version.
+    std::vector<std::vector<net::NodeId>> log_;
+    std::vector<std::vector<net::NodeId>> fanouts_;
+    long fanoutsAt_ = -1;
 
 public:
     DontCareMemo* dcMemo_ = nullptr;   // shared by the whole run (see DontCareMemo)
@@ -665,7 +853,8 @@ void setLimit(EngineLimits& limits, const std::string& assignment) {
         throw Error(fmt::format("limit {}: at most 16", name));
     if ((name == "dc-exhaustive-inputs" || name == "bresub-exhaustive-inputs") && n > 20)
         throw Error(fmt::format("limit {}: at most 20", name));
-    if ((name == "kernels" || name == "implied-dont-cares") && n > 1)
+    if ((name == "kernels" || name == "implied-dont-cares" || name == "changed-region" ||
+         name == "changed-regroup") && n > 1)
         throw Error(fmt::format("limit {}: 0 or 1", name));
     info->set(limits, n);
 }
@@ -769,6 +958,8 @@ std::string formatEngineReport(const EngineResult& r) {
                          t.unchanged, t.applied, t.gatesSaved, t.depthSaved, t.seconds, t.cpuSeconds);
         if (t.skipped > 0)
             s += fmt::format("    not valued {} times in the opening: at most the gain already found\n", t.skipped);
+        if (t.focused > 0 || t.closing > 0)
+            s += fmt::format("    {} trials over a changed region only, {} in the closing sweep\n", t.focused, t.closing);
         if (!t.counters.empty()) {
             std::string c;
             for (const auto& [n, v] : t.counters) c += fmt::format(" {}={}", n, v);

@@ -108,6 +108,7 @@ void inlineSmall(net::Network& net, const InlineOptions& opts, PassContext& ctx)
     std::vector<long> lastValue(net.nodeCount(), opts.threshold);
     long evaluations = 0;
     for (net::NodeId v : net.topoOrder()) {
+        if (!ctx.inFocus(v)) continue;   // changed region: only its nodes are dissolved first
         Evaluation e = evaluate(ws, v, opts, cc);
         ++evaluations;
         if (e.ok && e.value <= opts.threshold) {

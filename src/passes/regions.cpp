@@ -81,6 +81,8 @@ void addRow(EngineResult& res, const TechniqueRow& r) {
         t.depthSaved += r.depthSaved;
         t.unchanged += r.unchanged;
         t.skipped += r.skipped;
+        t.focused += r.focused;
+        t.closing += r.closing;
         t.seconds += r.seconds;
         t.cpuSeconds += r.cpuSeconds;
         for (const auto& kv : r.counters) {

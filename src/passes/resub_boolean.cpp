@@ -73,7 +73,7 @@ public:
             if (examined >= o_.maxNodes) { ctx_.stats.add("limit-hit:bresub-max-nodes", 1); break; }
             if (conflictsLeft_ <= 0) { ctx_.stats.add("limit-hit:bresub-total-conflicts", 1); break; }
             if (static_cast<std::size_t>(queries_) >= o_.maxQueries) { ctx_.stats.add("limit-hit:bresub-queries", 1); break; }
-            if (!ws_.live(*it)) continue;
+            if (!ws_.live(*it) || !ctx_.inFocus(*it)) continue;
             ++examined;
             node(*it);
         }

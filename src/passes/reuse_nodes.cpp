@@ -78,7 +78,26 @@ void reuseNodes(net::Network& net, const ReuseOptions& opts, PassContext& ctx) {
         if (litCount[g] < 0) litCount[g] = static_cast<std::int64_t>(detail::lits(ws.cover(g)));
         return static_cast<std::size_t>(litCount[g]);
     };
+    // Changed region: the nodes divided are the marked ones and those a
+    // marked node g can divide (their support holds g's, so they read g's
+    // fanin with the fewest readers).
+    std::vector<std::uint8_t> target;
+    if (ctx.focus) {
+        target.assign(net.nodeCount(), 0);
+        for (net::NodeId g : net.topoOrder()) {
+            if (!ctx.inFocus(g)) continue;
+            target[g] = 1;
+            const Cover& G = ws.cover(g);
+            if (detail::lits(G) < 2 || G.cubes.size() > opts.maxCubes) continue;
+            const std::vector<net::NodeId>* fewest = nullptr;
+            for (std::uint32_t u : varsOf(G))
+                if (!fewest || ws.fanouts(u).size() < fewest->size()) fewest = &ws.fanouts(u);
+            if (fewest && fewest->size() <= opts.fanoutScanLimit)
+                for (net::NodeId f : *fewest) target[f] = 1;
+        }
+    }
     for (net::NodeId f : net.topoOrder()) {
+        if (ctx.focus && (f >= target.size() || !target[f])) continue;
         for (int attempt = 0; attempt < 8; ++attempt) {
             if (!ws.live(f)) break;
             const Cover F = ws.cover(f);

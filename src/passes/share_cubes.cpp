@@ -27,6 +27,29 @@ using algebra::literalVar;
 
 namespace {
 
+/// Partners of cube i in one sorted occurrence list: the cubes after i (each
+/// pair once, from its first cube), and with a changed region also the cubes
+/// before i that lie outside it (a pair of which only the later cube is in
+/// the region is seen from that one). At most `cap` entries over all lists.
+template <class InRegion, class Take>
+void scanPartners(const std::vector<std::uint32_t>& o, std::uint32_t i, bool region, std::size_t cap,
+                  std::size_t& scanned, InRegion inRegion, Take take) {
+    const auto from = std::upper_bound(o.begin(), o.end(), i);
+    for (auto it = from; it != o.end(); ++it) {
+        take(*it);
+        if (++scanned > cap) return;
+    }
+    if (!region) return;
+    for (auto it = o.begin(); it != from; ++it) {
+        if (*it == i || inRegion(*it)) {
+            if (++scanned > cap) return;
+            continue;
+        }
+        take(*it);
+        if (++scanned > cap) return;
+    }
+}
+
 /// A candidate cube held by `holders` cubes: the literals its extraction saves at most.
 long candidateBound(const Cube& c, long holders) { return holders * static_cast<long>(c.lits.size() - 1); }
 
@@ -302,15 +325,14 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
         sharedCount.assign(cubes.size(), 0);
         for (std::uint32_t i = 0; i < cubes.size(); ++i) {
             const auto& c = cubes[i];
-            if (!c.live || c.lits.size() < opts.minLiterals) continue;
+            if (!c.live || c.lits.size() < opts.minLiterals || !ctx.inFocus(c.node)) continue;
             seen.clear();
             std::size_t scanned = 0;
             for (Literal l : c.lits) {
                 const auto& o = table.holding(l);
-                for (auto it = std::upper_bound(o.begin(), o.end(), i); it != o.end(); ++it) {
-                    if (sharedCount[*it]++ == 0) seen.push_back(*it);
-                    if (++scanned > 4 * opts.partnersPerCube) break;
-                }
+                scanPartners(o, i, ctx.focus != nullptr, 4 * opts.partnersPerCube, scanned,
+                             [&](std::uint32_t j) { return ctx.inFocus(cubes[j].node); },
+                             [&](std::uint32_t j) { if (sharedCount[j]++ == 0) seen.push_back(j); });
             }
             work += static_cast<long>(scanned);
             std::size_t partners = 0;
@@ -428,17 +450,16 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
         std::unordered_map<std::string, std::pair<Cube, long>> cand;   // cube, pairs giving it
         std::unordered_map<std::uint32_t, std::uint32_t> shared;
         for (std::uint32_t i = 0; i < refs.size(); ++i) {
+            if (!ctx.inFocus(refs[i].node)) continue;
             const Cube& c = ws.cover(refs[i].node).cubes[refs[i].cube];
             shared.clear();
             std::size_t scanned = 0;
             for (Literal l : c.lits) {
                 // Occurrence lists are sorted: start past i (skipping the
                 // earlier cubes one by one made this quadratic in the cubes).
-                const auto& o = occ[l];
-                for (auto it = std::upper_bound(o.begin(), o.end(), i); it != o.end(); ++it) {
-                    ++shared[*it];
-                    if (++scanned > 4 * opts.partnersPerCube) break;
-                }
+                scanPartners(occ[l], i, ctx.focus != nullptr, 4 * opts.partnersPerCube, scanned,
+                             [&](std::uint32_t j) { return ctx.inFocus(refs[j].node); },
+                             [&](std::uint32_t j) { ++shared[j]; });
             }
             std::size_t partners = 0;
             for (auto [j, n] : shared) {

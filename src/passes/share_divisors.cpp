@@ -174,6 +174,8 @@ public:
         old = std::move(next);
     }
 
+    const std::vector<int>& touchedSoFar() const { return touched_; }
+
     std::vector<int> takeTouched() {
         std::vector<int> t;
         t.swap(touched_);
@@ -242,7 +244,32 @@ private:
 void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx) {
     PairTable table(ws, opts);
     net::Network& net = ws.net();
-    for (net::NodeId v : net.topoOrder()) table.add(v);
+    if (!ctx.focus) {
+        for (net::NodeId v : net.topoOrder()) table.add(v);
+    } else {
+        // Changed region: the marked nodes' divisors, then every node that
+        // can hold one of them (it reads each of the divisor's variables, so
+        // it is a reader of the one with the fewest readers).
+        std::vector<std::uint8_t> entered(net.nodeCount(), 0);
+        const std::vector<net::NodeId> order = net.topoOrder();
+        for (net::NodeId v : order)
+            if (ctx.inFocus(v)) { table.add(v); entered[v] = 1; }
+        std::vector<std::uint8_t> scan(net.nodeCount(), 0);
+        for (int id : table.touchedSoFar()) {
+            const Cover& d = table.div(id).d;
+            net::NodeId fewest = 0;
+            for (const Cube& c : d.cubes)
+                for (Literal l : c.lits)
+                    if (!fewest || ws.fanouts(literalVar(l)).size() < ws.fanouts(fewest).size()) fewest = literalVar(l);
+            if (fewest) scan[fewest] = 1;
+        }
+        for (net::NodeId u = 0; u < scan.size(); ++u) {
+            if (!scan[u]) continue;
+            for (net::NodeId f : ws.fanouts(u)) entered[f] |= 2;
+        }
+        for (net::NodeId v : order)
+            if (entered[v] == 2) table.add(v);
+    }
     struct Entry { long w; int id; std::uint32_t version; };
     auto cmp = [](const Entry& a, const Entry& b) { return a.w < b.w || (a.w == b.w && a.id > b.id); };
     std::priority_queue<Entry, std::vector<Entry>, decltype(cmp)> heap(cmp);

@@ -22,7 +22,7 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx,
     detail::Workspace ws(net, ctx);
     long shrunk = 0, complemented = 0, saved = 0, rejected = 0, remembered = 0;
     for (net::NodeId v : net.topoOrder()) {
-        if (!ws.live(v)) continue;
+        if (!ws.live(v) || !ctx.inFocus(v)) continue;   // changed region: a node's own cover only
         const Cover& cv = ws.cover(v);
         std::size_t before = detail::lits(cv);
         if (before <= 1) continue;

@@ -27,6 +27,10 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     setLimit(l, "cubes-in-place=7");
     EXPECT_EQ(l.guardFactorCubes, 3u);
     EXPECT_EQ(l.cubes.inPlaceCubes, 7u);
+    setLimit(l, "changed-region=0");
+    setLimit(l, "changed-radius=2");
+    EXPECT_FALSE(l.changedRegion);
+    EXPECT_EQ(l.changedRadius, 2);
     EXPECT_LT(limitsFor(Effort::Fast).cubes.workBudget, limitsFor(Effort::Default).cubes.workBudget)
         << "fast bounds whole-network cube extraction (cubes-work)";
     try {
@@ -39,7 +43,7 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
         EXPECT_EQ(e.code(), ExitCode::InputError);
     }
     for (const char* bad : {"trials", "trials=", "trials=lots", "trials=0", "max-growth=-1", "kernels=2",
-                            "dc-max-fanins=17", "trials=3x"})
+                            "dc-max-fanins=17", "trials=3x", "changed-region=2", "changed-radius=-1"})
         EXPECT_THROW(setLimit(l, bad), Error) << bad;
     EXPECT_THROW(parseGoal("area"), Error);
     EXPECT_THROW(parseEffort("extreme"), Error);
@@ -47,7 +51,8 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     // Every limit is documented with its default.
     std::string d = describeLimits();
     for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps",
-                             "opening-moves", "readmit-permille"})
+                             "opening-moves", "readmit-permille", "changed-region", "changed-radius",
+                             "changed-walk-degree", "changed-full-permille", "changed-regroup"})
         EXPECT_NE(d.find(name), std::string::npos) << name;
 }
 

@@ -492,3 +492,115 @@ TEST(PassesBooleanResub, FewInputsAreExactAndKeepFunctions) {
         EXPECT_LE(net::measure(n).literals, net::measure(input).literals);
     }
 }
+
+// ---- changed regions (PassContext::focus) ---------------------------------
+// After the engine's opening a technique takes candidates only from the
+// changed region and values them against the whole network (engine.cpp).
+
+namespace {
+std::vector<std::uint8_t> marking(const Network& n, std::initializer_list<NodeId> marked) {
+    std::vector<std::uint8_t> m(n.nodeCount(), 0);
+    for (NodeId v : marked) m[v] = 1;
+    return m;
+}
+} // namespace
+
+TEST(PassesChangedRegion, CubeFromTheRegionIsSharedWithNodesOutsideIt) {
+    for (std::size_t inPlace : {std::size_t{0}, std::size_t{1}}) {
+        ShareCubesOptions o;
+        o.inPlaceCubes = inPlace;   // workspace path, then the indexed one
+        {
+            // Only f is in the region: a·b·c is found from f's cube and taken out of g and h too.
+            SharedAbc t = sharedAbc();
+            const Network before = t.n;
+            const auto region = marking(t.n, {t.f});
+            PassContext ctx;
+            ctx.focus = &region;
+            shareCubes(t.n, o, ctx);
+            EXPECT_EQ(sameFunctions(before, t.n), "");
+            NodeId k = 0;
+            ASSERT_TRUE(findCover(t.n, cover({{pos(t.a), pos(t.b), pos(t.c)}}), k)) << inPlace;
+            EXPECT_EQ(t.n.node(t.g).cover, cover({{pos(k), pos(t.y)}, {pos(t.z)}})) << inPlace;
+            EXPECT_EQ(t.n.node(t.h).cover, cover({{pos(k), pos(t.z)}, {pos(t.x)}})) << inPlace;
+        }
+        {
+            // An empty region: no candidate at all, the network is left as it is.
+            SharedAbc t = sharedAbc();
+            const Network before = t.n;
+            const auto region = marking(t.n, {});
+            PassContext ctx;
+            ctx.focus = &region;
+            shareCubes(t.n, o, ctx);
+            EXPECT_EQ(ctx.edits, 0u) << inPlace;
+            EXPECT_EQ(t.n.node(t.f).cover, before.node(t.f).cover) << inPlace;
+        }
+    }
+}
+
+TEST(PassesChangedRegion, DivisorFromTheRegionIsValuedOverEveryHolder) {
+    // f = ac + ad + bc + bd, g = ae + be share a+b (the test above); only g is in the region.
+    for (bool empty : {false, true}) {
+        Network n;
+        NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d"),
+               e = n.addInput("e");
+        NodeId f = n.addLogic(cover({{pos(a), pos(c)}, {pos(a), pos(d)}, {pos(b), pos(c)}, {pos(b), pos(d)}}));
+        NodeId g = n.addLogic(cover({{pos(a), pos(e)}, {pos(b), pos(e)}}));
+        n.addOutput("f", pos(f));
+        n.addOutput("g", pos(g));
+        const Network before = n;
+        const auto region = empty ? marking(n, {}) : marking(n, {g});
+        PassContext ctx;
+        ctx.focus = &region;
+        shareDivisors(n, ShareDivisorsOptions{}, ctx);
+        EXPECT_EQ(sameFunctions(before, n), "");
+        NodeId s = 0;
+        if (empty) {
+            EXPECT_EQ(ctx.edits, 0u);
+            EXPECT_FALSE(findCover(n, cover({{pos(a)}, {pos(b)}}), s));
+            continue;
+        }
+        ASSERT_TRUE(findCover(n, cover({{pos(a)}, {pos(b)}}), s));
+        EXPECT_EQ(n.node(g).cover, cover({{pos(s), pos(e)}}));
+        EXPECT_NE(n.node(f).cover, before.node(f).cover) << "f, outside the region, holds a+b too";
+    }
+}
+
+TEST(PassesChangedRegion, ChangedNodeDividesNodesOutsideTheRegion) {
+    // g = a + b changed (in the region); f = ac + bc + d, outside it, is divided by g.
+    for (bool empty : {false, true}) {
+        Network n;
+        NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d");
+        NodeId g = n.addLogic(cover({{pos(a)}, {pos(b)}}));
+        NodeId f = n.addLogic(cover({{pos(a), pos(c)}, {pos(b), pos(c)}, {pos(d)}}));
+        n.addOutput("g", pos(g));
+        n.addOutput("f", pos(f));
+        const Network before = n;
+        const auto region = empty ? marking(n, {}) : marking(n, {g});
+        PassContext ctx;
+        ctx.focus = &region;
+        reuseNodes(n, ReuseOptions{}, ctx);
+        EXPECT_EQ(sameFunctions(before, n), "");
+        if (empty) EXPECT_EQ(n.node(f).cover, before.node(f).cover);
+        else EXPECT_EQ(n.node(f).cover, cover({{pos(g), pos(c)}, {pos(d)}}));
+    }
+}
+
+TEST(PassesChangedRegion, OnlyNodesInTheRegionAreMinimised) {
+    // Two copies of ab + a'c + bc (the consensus term is redundant); only the second is in the region.
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c");
+    const Cover redundant = cover({{pos(a), pos(b)}, {neg(a), pos(c)}, {pos(b), pos(c)}});
+    NodeId g1 = n.addLogic(redundant), g2 = n.addLogic(redundant);
+    n.addOutput("g1", pos(g1));
+    n.addOutput("g2", pos(g2));
+    const Network before = n;
+    const auto region = marking(n, {g2});
+    PassContext ctx;
+    ctx.focus = &region;
+    ShrinkOptions o;
+    o.allowComplement = false;
+    shrinkNodes(n, o, ctx);
+    EXPECT_EQ(sameFunctions(before, n), "");
+    EXPECT_EQ(n.node(g1).cover, redundant);
+    EXPECT_EQ(n.node(g2).cover, cover({{pos(a), pos(b)}, {neg(a), pos(c)}}));
+}

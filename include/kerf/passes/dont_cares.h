@@ -10,7 +10,8 @@
 // matter (simulation over every input pattern when there are few inputs,
 // otherwise simulation with each candidate confirmed by the SAT solver);
 // each change strictly lowers the node's literals. Depth: respects
-// ctx.depthCap.
+// ctx.depthCap. Changed region (ctx.focus): only the marked nodes are
+// examined (their windows still reach outside it).
 #pragma once
 
 #include "kerf/minimize/twolevel.h"

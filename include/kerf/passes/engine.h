@@ -78,6 +78,24 @@ struct EngineLimits {
     /// by region, regions of about this many literals (0: always whole; each
     /// effort's value is set in limitsFor).
     std::size_t regionLiterals = 0;
+    /// After the opening, a trial of a technique takes its candidates only
+    /// from the changed region: the nodes kept moves changed since the
+    /// technique was last valued (and those its own last trial changed, when
+    /// it gained), with every node within changedRadius fanin/fanout steps.
+    /// The whole network is valued when the technique was never valued, when
+    /// the region holds more than changedFullPermille thousandths of the
+    /// live nodes, and in the closing sweep (engine.cpp). false: every trial
+    /// values the whole network.
+    bool changedRegion = true;
+    int changedRadius = 1;
+    /// Inside a regroup move, the inner techniques' first trials take the
+    /// nodes the dissolving changed as their changed region (false: their
+    /// first trials value the whole network, later ones their changed region).
+    bool changedRegroup = false;
+    /// The walk that widens the changed region does not go on from inputs or
+    /// from nodes with more fanin literals and fanouts than this.
+    int changedWalkDegree = 64;
+    int changedFullPermille = 300;
     minimize::MinimizeOptions minimize;
     InlineOptions dissolve;
     ShareCubesOptions cubes;
@@ -119,6 +137,8 @@ struct TechniqueRow {
     long long depthSaved = 0;
     int unchanged = 0;                ///< moves valued that kept no edit (gain 0, not measured)
     int skipped = 0;                  ///< opening moves not valued: their ceiling was below a gain found
+    int focused = 0;                  ///< trials valued over a changed region only
+    int closing = 0;                  ///< trials of the closing sweep (whole network, nothing else paid)
     double seconds = 0;               ///< wall time of its trials
     double cpuSeconds = 0;            ///< CPU time of its trials (a regroup's includes its inner trials)
     std::vector<std::pair<std::string, long long>> counters;   ///< summed over kept moves

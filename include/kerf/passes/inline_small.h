@@ -5,7 +5,9 @@
 // that drive outputs; inputs. Gives: collapsed nodes are dead; no resulting
 // cover exceeds maxCubes cubes or maxLiterals literals. Total literal count
 // grows by at most `threshold` per collapsed node (never, for threshold ≤ 0).
-// Depth: respects ctx.depthCap.
+// Depth: respects ctx.depthCap. Changed region (ctx.focus): only the marked
+// nodes are valued at the start (nodes whose fanouts a collapse changed are
+// valued again wherever they are).
 #pragma once
 
 #include "kerf/passes/pass.h"

@@ -51,6 +51,13 @@ struct PassContext {
     /// (as the written network is measured), not by the sum of products alone.
     FactorCache* factors = nullptr;
     std::size_t factorTimingCubes = 0;
+    /// The changed region (set by the engine after its opening, see
+    /// engine.cpp): when set, a technique takes its candidates only from the
+    /// nodes marked here (each technique's header says how), and values them
+    /// against the whole network. Nodes added since (ids past the end) count
+    /// as marked. Null: every node is a candidate.
+    const std::vector<std::uint8_t>* focus = nullptr;
+    bool inFocus(net::NodeId v) const { return !focus || v >= focus->size() || (*focus)[v] != 0; }
 };
 
 } // namespace kerf::passes

@@ -10,7 +10,8 @@
 // are few inputs, otherwise simulation with each candidate confirmed by the
 // SAT solver); each change strictly lowers the node's literals. The
 // replaced node's former fanins are left for tidy to remove when unused.
-// Depth: respects ctx.depthCap.
+// Depth: respects ctx.depthCap. Changed region (ctx.focus): only the marked
+// nodes are re-expressed (with divisors from anywhere).
 #pragma once
 
 #include "kerf/passes/pass.h"

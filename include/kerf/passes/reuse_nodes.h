@@ -5,7 +5,9 @@
 //
 // Contract. Needs: any network. Preserves: every node's function, outputs,
 // inputs; adds no node. Gives: each substitution strictly lowers the literal
-// count. Depth: respects ctx.depthCap.
+// count. Depth: respects ctx.depthCap. Changed region (ctx.focus): the
+// nodes divided are the marked ones and those a marked node can divide (its
+// support inside theirs); divisors come from anywhere.
 #pragma once
 
 #include "kerf/passes/pass.h"

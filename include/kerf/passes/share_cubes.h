@@ -4,6 +4,9 @@
 // Contract. Needs: any network. Preserves: every node's function, outputs,
 // inputs. Gives: each extraction saves literals (the network's literal count
 // strictly decreases with each). Depth: respects ctx.depthCap.
+// Changed region (ctx.focus): candidate cubes come from pairs of cubes of
+// which at least one lies in a marked node; each candidate is valued over
+// every cube holding it.
 #pragma once
 
 #include "kerf/passes/pass.h"

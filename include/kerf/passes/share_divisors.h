@@ -7,7 +7,9 @@
 // Contract. Needs: any network. Preserves: every node's function, outputs,
 // inputs. Gives: each extraction saves literals. An existing node whose cover
 // equals the divisor is reused instead of adding one. Depth: respects
-// ctx.depthCap.
+// ctx.depthCap. Changed region (ctx.focus, pairs only): divisors come from
+// the marked nodes; each is valued over every node that can hold it (the
+// readers of its variable with the fewest readers). Kernels: whole network.
 #pragma once
 
 #include "kerf/passes/pass.h"

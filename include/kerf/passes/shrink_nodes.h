@@ -6,6 +6,7 @@
 // count; a node's function is kept, or (when its complement has the cheaper
 // cover) complemented with every fanout literal and output driver flipped.
 // Gives: no node's literal count increases. Depth: respects ctx.depthCap.
+// Changed region (ctx.focus): only the marked nodes are minimised.
 #pragma once
 
 #include "kerf/passes/pass.h"
