@@ -39,6 +39,10 @@ class _State:
         self.pre = Preproc(self.tokens, d, DEFINES)
         self.params = kerf_params.overridable(d.body)
         self.param_set = set(self.params)
+        # A name that refers to a type parameter resolves to its type alias (slang): the
+        # alias stands for the parameter (F122).
+        self.param_of_alias = {p.typeAlias: p for p in self.params if p.kind == SK.TypeParameter}
+        self.type_params = {p.name for p in self.params if p.kind == SK.TypeParameter}
         self.keys = Keys(d.comp, self.tokens, self.refs)
         self.used_by = {}
         self.syntax_by_src = {}      # (file, start, end) -> the member's syntax node
@@ -47,6 +51,7 @@ class _State:
 
     def seed(self, sym):
         r = set()
+        sym = self.param_of_alias.get(sym, sym)
         if sym in self.param_set:
             r.add(("param", sym.name))
         why = self.pre.symbol_reason(sym, self.refs)
@@ -134,9 +139,11 @@ def restrict(d, members):
                 why = "it depends on a declaration other builds may see differently: " + defines[0]
             free = [p for p in params if p not in PINNED]
             if why is None and free:
+                values = [p for p in free if p not in st.type_params]
                 why = ("its function depends on the parameter%s %s, which an instance can override "
-                       "(restructure it for one value with --param %s=VALUE)"
-                       % ("s" if len(free) > 1 else "", ", ".join(free), free[0]))
+                       % ("s" if len(free) > 1 else "", ", ".join(free)))
+                why += ("(restructure it for one value with --param %s=VALUE)" % values[0] if values else
+                        "(a type parameter, which --param cannot pin)")
             if why is not None:
                 for p in free:
                     st.used_by[p] = st.used_by.get(p, 0) + 1

@@ -1376,5 +1376,36 @@ def _(t):
     t.res.check(ok, f"the rewrite simulates like the source (Icarus Verilog): {log}")
 
 
+# An invented mask unit whose data type is a type parameter (IEEE 1800-2017 6.20.3, from memory):
+# `a == '1` means all ones of whatever width an instance gives T.
+TYPE_PARAM = """module mask_unit #(parameter type T = logic [3:0]) (
+  input  T     a,
+  input  logic b, c,
+  output logic all1,
+  output logic y
+);
+  assign all1 = (a == '1) & b | (a == '1) & c;
+  assign y = b & c | b & ~c;
+endmodule
+"""
+
+
+@S.case("type_parameter_kept")
+def _(t):
+    """Logic whose function depends on a type parameter is kept as written (F122: kerf wrote
+    `a == 4'hf`, wrong for an instance with T = logic [7:0]); the rest is restructured."""
+    path = os.path.join(t.work, "mask_unit.sv")
+    open(path, "w").write(TYPE_PARAM)
+    out = os.path.join(t.work, "out.sv")
+    r = restructure(t, [path], "mask_unit", out, "--min-gain", "0")
+    if not t.res.check(r.returncode == 0, f"restructure: {r.stderr[-1500:]}"):
+        return
+    text = open(out).read()
+    t.res.check("  assign all1 = (a == '1) & b | (a == '1) & c;" in text,
+                f"the statement reading the type parameter's signal is kept byte for byte: {text}")
+    t.res.check("parameter T" in r.stderr, f"the summary names the type parameter: {r.stderr[-600:]}")
+    t.res.check("assign y = b & c | b & ~c;" not in text, "the statement independent of T is restructured")
+
+
 if __name__ == "__main__":
     S.main()
