@@ -1920,8 +1920,20 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                     else cond = v;
                     last = q;
                 }
+                bool whole = outs_[idx[k]].bit.offset == 0 && outs_[idx[last]].bit.offset == sig.width - 1;
+                if (cond != 0 && !whole) {
+                    // Not the whole vector: only the constant bits from k (`flags[4:3] = 2'b00;`
+                    // beside `flags[7:5] = word[30:28];`).
+                    cond = 0;
+                    constants = 0;
+                    std::size_t q = k;
+                    while (q < idx.size() && literalVar(driver(q)) == 0 &&
+                           outs_[idx[q]].bit.offset == outs_[idx[k]].bit.offset + static_cast<int>(q - k))
+                        ++q, ++constants;
+                    last = q > k ? q - 1 : k;
+                    whole = outs_[idx[k]].bit.offset == 0 && outs_[idx[last]].bit.offset == sig.width - 1;
+                }
                 const int lo = outs_[idx[k]].bit.offset, hi = outs_[idx[last]].bit.offset;
-                const bool whole = lo == 0 && hi == sig.width - 1;
                 if (last > k && (cond == 0 ? constants > 0 : whole)) {
                     std::string lhs;
                     if (whole) {

@@ -1061,7 +1061,8 @@ module lamp_code (
   input  logic       fault,
   output logic [2:0] code,
   output logic [7:0] status,
-  output logic [3:0] level
+  output logic [3:0] level,
+  output logic [5:0] tag
 );
   always_comb begin
     code = 3'b000;
@@ -1075,6 +1076,8 @@ module lamp_code (
   end
 
   assign level = (fault & busy) | (fault & ~busy) ? 4'b1010 : 4'b0101;
+
+  assign tag = {mode, en, 2'b00, (fault & busy) | (fault & ~busy)};
 endmodule
 """
 
@@ -1084,8 +1087,8 @@ def _(t):
     """Issue 10 (a vector whose bits share one shape is one vector assignment): a vector whose
     bits are constants under one condition is written as one assignment choosing between two
     sized values (`code = c ? 3'b010 : 3'b001;`, `level = fault ? 4'b1010 : 4'b0101;`), and a
-    run of constant bits of a vector as one assignment of its range, never one constant bit
-    per statement. Checks the text's properties (no `x[i] = 1'b0`-style statement; `code`
+    run of constant bits of a vector as one assignment of its range (`status`'s high bits;
+    `tag`'s middle bits beside a slice), never one constant bit per statement. Checks the text's properties (no `x[i] = 1'b0`-style statement; `code`
     and `level` assigned whole, once, by sized literals), the function (Icarus Verilog),
     Verilator -Wall reports nothing (linter), and kerf on its own output changes nothing."""
     src = os.path.join(t.work, "lamp_code.sv")
@@ -1105,9 +1108,10 @@ def _(t):
         t.res.check(len(stmts) == 1 and not stmts[0][0]
                     and len(re.findall(r"\b" + str(width) + r"'b[01]+\b", stmts[0][1])) == 2,
                     f"{sig} is one assignment choosing between two {width}-bit values: {stmts}\n{new}")
-    ranged = re.findall(r"\bstatus\s*\[(\d+):(\d+)\]\s*=\s*(\d+)'b0+\s*;", new)
-    t.res.check(any(int(h) - int(l) + 1 == int(w) and int(w) >= 2 for h, l, w in ranged),
-                f"status's constant bits are one ranged assignment: {ranged}\n{new}")
+    for sig in ("status", "tag"):
+        ranged = re.findall(r"\b" + sig + r"\s*\[(\d+):(\d+)\]\s*=\s*(\d+)'b0+\s*;", new)
+        t.res.check(any(int(h) - int(l) + 1 == int(w) and int(w) >= 2 for h, l, w in ranged),
+                    f"{sig}'s constant bits are one ranged assignment: {ranged}\n{new}")
     sim = os.path.join(t.work, "sim")
     os.mkdir(sim)
     ok, log, _ = K.simulate_equal(t.root, [src], "lamp_code", out, sim, vectors=2000)
