@@ -346,7 +346,9 @@ class Conv:
     # -- expressions ---------------------------------------------------------------
 
     def expr(self, e):
-        h = _EXPR_BY_ID.get(id(e.kind))
+        h = _EXPR_BY_CLASS.get(type(e))
+        if h is None:
+            h = _handler(e)
         if h is None:
             c = self.fold(e)
             if c is not None:
@@ -383,7 +385,15 @@ class Conv:
         sym = e.symbol
         name = self.d.sig.get(sym)
         if name is not None:
-            return self.signal_ref(e, sym, name, False)
+            if sym in self.loop_syms:
+                return self.signal_ref(e, sym, name, False)
+            # Read again outside a loop over it: the same ref (the first read noted the name
+            # among the reads); nothing more is asked of slang.
+            key = ("n", sym)
+            got = self.shared.get(key)
+            if got is None:
+                got = self.shared[key] = self.signal_ref(e, sym, name, False)
+            return got
         loc = self.locals.get(sym)
         if loc is not None:
             return self.ref(e, self.type_of(e), loc[1])
@@ -427,8 +437,13 @@ class Conv:
         recursion through `expr`."""
         spine = []
         depth = self.depth
+        tinfo = self._tinfo
         while True:
-            ti = self.type_of(e)
+            t = e.type          # type_of(e), inline
+            info = tinfo.get(t) or self.types.info(t)
+            if not info[3]:
+                raise Unsupported("uses a value of type '%s'" % t)
+            ti = info[0]
             op = _BINARY_BY_ID.get(id(e.op))
             if op is None:
                 op = _BINARY[e.op]     # a KeyError (a reader bug) as before
@@ -436,7 +451,7 @@ class Conv:
             if op in _EQUALITY:
                 self.d.note_compare(left, e.right)
             spine.append((e, ti, op, depth))
-            if id(left.kind) != _BINARY_OP_ID:
+            if type(left) is not _BINARY_EXPR:
                 break
             depth += 1
             if depth > MAX_DEPTH:
@@ -447,6 +462,7 @@ class Conv:
             self.depth = depth
             l = self.expr(left)
             ex = self.ex
+            own_text = self.buf is not None and not self.macros    # span(e) needs no check
             for e, ti, op, depth in reversed(spine):
                 self.depth = depth
                 r = self.expr(e.right)
@@ -455,7 +471,11 @@ class Conv:
                     if c is not None:
                         l = c
                         continue
-                s, t = self.span(e)
+                if own_text:
+                    rng = e.sourceRange
+                    s, t = rng.start.offset, rng.end.offset
+                else:
+                    s, t = self.span(e)
                 ex.append(["binary", ti, s, t, op, l, r])
                 l = len(ex) - 1
             return l
@@ -626,19 +646,23 @@ class Conv:
 
     def x_element(self, e, lvalue=False):
         v = e.value
+        sel = e.selector
+        key = None
+        if not lvalue and type(v) is _NAMED_VALUE and type(sel) is _INT_LITERAL \
+                and (sym := v.symbol) not in self.loop_syms:
+            # `a[3]`: shared within the member, found before anything else is asked of slang
+            # (the same signal and index give the same type: the select's type is the
+            # element type of the signal's)
+            key = ("e", sym, sel.value.toString(_DEC, False))
+            got = self.shared.get(key)
+            if got is not None:
+                return got
         vt = v.type
         vinfo = self._tinfo.get(vt) or self.types.info(vt)
         if not vinfo[3]:
             return self.unpacked_select(e, lvalue)
         ti = self.type_of(e)
-        sel = e.selector
-        if not lvalue and v.kind is EK.NamedValue and sel.kind is EK.IntegerLiteral \
-                and (sym := v.symbol) not in self.loop_syms:
-            # `a[3]`: shared within the member, found before any node is built
-            key = ("e", sym, sel.value.toString(_DEC, False), ti)
-            got = self.shared.get(key)
-            if got is not None:
-                return got
+        if key is not None:
             val = self.expr(v)
             if self.is_const(val):
                 c = self.fold(e)
@@ -1494,4 +1518,18 @@ _EXPR = {
 }
 # Enum members are singletons: dispatching on their identity avoids hashing them.
 _EXPR_BY_ID = {id(k): h for k, h in _EXPR.items()}
-_BINARY_OP_ID = id(EK.BinaryOp)
+# The same by the Python class pyslang gives an expression: each of slang's expression
+# classes stands for one kind, and the class needs no call into slang (the kind does).
+# Filled as classes are met; the base class (a kind pyslang has no class for) is not.
+_EXPR_BY_CLASS = {}
+_BINARY_EXPR = ast.BinaryExpression
+_NAMED_VALUE = ast.NamedValueExpression
+_INT_LITERAL = ast.IntegerLiteral
+
+
+def _handler(e):
+    """The converter of `e` by its kind (None when there is none), remembered for its class."""
+    h = _EXPR_BY_ID.get(id(e.kind))
+    if h is not None and type(e) is not ast.Expression:
+        _EXPR_BY_CLASS[type(e)] = h
+    return h

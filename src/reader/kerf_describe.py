@@ -10,6 +10,7 @@ writes as bit ranges where slang knows them statically. Any other exception
 is a bug of the reader and is not caught here.
 """
 
+import operator
 import os
 import re
 from collections import Counter
@@ -64,6 +65,7 @@ _DECL_SYNTAX = {
     pyslang.syntax.SyntaxKind.UserDefinedNetDeclaration,
 }
 _COMMENTS = (TK.LineComment, TK.BlockComment)
+_SYMBOL = operator.attrgetter("symbol")
 
 
 _WIRED_NETS = (ast.NetType.NetKind.WAnd, ast.NetType.NetKind.WOr, ast.NetType.NetKind.TriAnd,
@@ -277,18 +279,19 @@ class Describer:
         out = Counter()
         is_param = self._is_param
         param = SK.Parameter
-
-        def named_value(n):
-            # Symbols are looked up by identity (slang hands out one object per symbol while
-            # it is alive; the table keeps it so): cheaper than the kind of each use.
-            s = n.symbol
+        # Only NamedValue expressions cross into Python (slang checks the kind natively),
+        # into a list's append (no Python frame each); their symbols are counted in the order
+        # they are met. Symbols are compared by identity (slang hands out one object per
+        # symbol while it is alive; the tables keep it so): cheaper than the kind of each use.
+        uses = []
+        sym.visit(lookup_table={EK.NamedValue: uses.append})
+        for s, n in Counter(map(_SYMBOL, uses)).items():
             p = is_param.get(s)
             if p is None:
                 p = is_param[s] = s.kind is param
             if p:
-                out[s] += 1
-        # Only NamedValue expressions cross into Python (slang checks the kind natively).
-        sym.visit(lookup_table={EK.NamedValue: named_value})
+                out[s] = n
+        del uses
         # Names slang folds into a type (a cast's width `IW'(i)`) are no expressions: their tokens.
         syn = getattr(sym, "syntax", None)
         if self._param_names is None:

@@ -45,6 +45,9 @@ _TOKEN_KINDS = [k for k in TK.__members__.values() if k not in _SKIP_TOKENS]
 _RAW_TEXT = operator.attrgetter("rawText")
 _IS_MISSING = operator.attrgetter("isMissing")
 _KIND = operator.attrgetter("kind")
+# First characters no identifier, `$unit` or `::` token starts with (IEEE 1800 5.6: a simple
+# identifier starts with a letter or `_`, an escaped one with `\`).
+_NEVER_NAME_FIRST = frozenset("0123456789'\"`#@[](){}&|~^!+-*/%<>=?;,.")
 # A visit that hands every token to a list's append: no Python frame per token (slang
 # looks the kind up natively). The list is emptied after each visit; nothing else runs
 # during one, so the one list serves every call.
@@ -550,9 +553,11 @@ class Keys:
             part = " ".join(texts[i:i + 4096])
             h.update(((" " + part) if i else part).encode(enc, "surrogateescape"))
         ident, unit_name, colons = TK.Identifier, TK.UnitSystemName, TK.DoubleColon
-        kinds = list(map(_KIND, toks))
-        named = [(i, k, toks[i].valueText) for i, k in enumerate(kinds)
-                 if k is ident or k is unit_name or k is colons]
+        # Only a token whose text can start a name is asked its kind (most of a generated
+        # member's tokens are operators, brackets and numbers).
+        not_first = _NEVER_NAME_FIRST
+        named = [(i, k, toks[i].valueText) for i, t in enumerate(texts) if t[0] not in not_first
+                 and ((k := toks[i].kind) is ident or k is unit_name or k is colons)]
         return self._finish_key(h, self._names_of(named), instances)
 
     @staticmethod
