@@ -54,7 +54,7 @@ int main(int argc, char** argv) {
     kerf::flow::RestructureOptions ro;
     auto* rs = app.add_subcommand("restructure", "rewrite a module's combinational logic smaller, proved equivalent");
     addReadOptions(rs, ro.read);
-    rs->add_option("-o,--output", ro.output, "output file (default: standard output)");
+    rs->add_option("-o,--output", ro.output, "output file (default, or '-': standard output)");
     rs->add_flag("--in-place", ro.inPlace,
                  "overwrite the file holding the module (atomically; a symbolic link's target is rewritten, "
                  "its permissions kept)");
@@ -142,6 +142,9 @@ int main(int argc, char** argv) {
     }
 
     try {
+        // `-o -` is standard output (common trade practice), never a file named '-'.
+        if (ro.output == "-") ro.output.clear();
+        if (dr.output == "-") dr.output.clear();
         if (*rs) {
             if (ro.inPlace && !ro.output.empty()) throw kerf::Error("--in-place and --output exclude each other");
             if (ro.check && (!ro.output.empty() || ro.inPlace || ro.diff))

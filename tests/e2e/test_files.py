@@ -53,6 +53,20 @@ def _(t):
                 "no temporary file left beside the target or in $TMPDIR")
 
 
+@S.case("dash_output_is_standard_output")
+def _(t):
+    """`-o -` writes to standard output, as the default does (common trade practice for command-line
+    tools); no file named '-' appears."""
+    d = os.path.join(t.work, "run")
+    os.makedirs(d)
+    r = K.run([t.kerf, "restructure", os.path.abspath(SAMPLE), "-o", "-", "-q"], cwd=d)
+    plain = K.run([t.kerf, "restructure", os.path.abspath(SAMPLE), "-q"], cwd=d)
+    t.res.check(r.returncode == 0 and plain.returncode == 0, f"both run: {r.stderr[-400:]} {plain.stderr[-400:]}")
+    t.res.check(r.stdout == plain.stdout and "endmodule" in r.stdout,
+                "the rewrite goes to standard output, as without -o")
+    t.res.check(not os.path.exists(os.path.join(d, "-")), "no file named '-' is written")
+
+
 @S.case("backup_keeps_old_text")
 def _(t):
     p = os.path.join(t.work, "uart_regsel.v")
