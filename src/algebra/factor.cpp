@@ -421,6 +421,36 @@ Factored factorRec(Cover f, FactorMethod method) {
 
 } // namespace
 
+std::size_t Factored::gateCount() const {
+    if (kind != Kind::And && kind != Kind::Or) return 0;
+    std::size_t g = kids.size() > 1 ? kids.size() - 1 : 0;
+    for (const Factored& k : kids) g += k.gateCount();
+    return g;
+}
+
+std::size_t Factored::arrival(const std::function<std::size_t(std::uint32_t)>& at) const {
+    if (kind == Kind::Lit) return at(literalVar(lit));
+    if (kind != Kind::And && kind != Kind::Or) return 0;
+    std::vector<std::size_t> t;
+    t.reserve(kids.size());
+    for (const Factored& k : kids) t.push_back(k.arrival(at));
+    if (t.empty()) return 0;
+    std::make_heap(t.begin(), t.end(), std::greater<>());
+    while (t.size() > 1) {
+        std::pop_heap(t.begin(), t.end(), std::greater<>());
+        const std::size_t a = t.back();
+        t.pop_back();
+        std::pop_heap(t.begin(), t.end(), std::greater<>());
+        t.back() = std::max(a, t.back()) + 1;
+        std::push_heap(t.begin(), t.end(), std::greater<>());
+    }
+    return t[0];
+}
+
+std::size_t Factored::arrival(const std::vector<std::size_t>& at) const {
+    return arrival([&](std::uint32_t x) { return x < at.size() ? at[x] : std::size_t{0}; });
+}
+
 std::size_t Factored::literalCount() const {
     switch (kind) {
     case Kind::Lit: return 1;

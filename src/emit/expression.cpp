@@ -798,11 +798,4 @@ std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits) {
     return t;
 }
 
-std::size_t formGates(const Factored& f) {
-    if (f.kind != K::And && f.kind != K::Or) return 0;
-    std::size_t g = f.kids.empty() ? 0 : f.kids.size() - 1;
-    for (const auto& k : f.kids) g += formGates(k);
-    return g;
-}
-
 } // namespace kerf::emit

@@ -111,7 +111,4 @@ std::string layoutText(const PExpr& e, std::size_t col, std::size_t limit, std::
 /// writer find the longest run by bisection.
 std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits);
 
-/// Two-input gates of a factored form (a k-input AND/OR is k-1 gates; inverters free).
-std::size_t formGates(const algebra::Factored& f);
-
 } // namespace kerf::emit

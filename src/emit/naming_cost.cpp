@@ -33,28 +33,6 @@ using algebra::makeLiteral;
 
 namespace {
 
-/// Arrival of a form's root when variable x arrives at `at[x]` (each AND/OR balanced by
-/// arrival, the two earliest first).
-std::size_t arrival(const Factored& f, const std::function<std::size_t(std::uint32_t)>& at) {
-    using K = Factored::Kind;
-    if (f.kind == K::Lit) return at(literalVar(f.lit));
-    if (f.kind != K::And && f.kind != K::Or) return 0;
-    std::vector<std::size_t> t;
-    t.reserve(f.kids.size());
-    for (const auto& k : f.kids) t.push_back(arrival(k, at));
-    if (t.empty()) return 0;
-    std::make_heap(t.begin(), t.end(), std::greater<>());
-    while (t.size() > 1) {
-        std::pop_heap(t.begin(), t.end(), std::greater<>());
-        const std::size_t a = t.back();
-        t.pop_back();
-        std::pop_heap(t.begin(), t.end(), std::greater<>());
-        t.back() = std::max(a, t.back()) + 1;
-        std::push_heap(t.begin(), t.end(), std::greater<>());
-    }
-    return t[0];
-}
-
 Factored lit(std::uint32_t var, bool neg) {
     Factored f;
     f.kind = Factored::Kind::Lit;
@@ -113,7 +91,7 @@ std::vector<std::size_t> targetBits(const frontend::Lowered& low, const std::str
 std::size_t choiceGates(const ValueChoice& vc, int width) {
     std::size_t g = 0;
     for (const auto& l : vc.links) g += condGates(l);
-    for (int k = 0; k < width; ++k) g += formGates(chainBit(vc, k, width));
+    for (int k = 0; k < width; ++k) g += chainBit(vc, k, width).gateCount();
     return g;
 }
 
@@ -123,7 +101,7 @@ WrittenFigures writtenFigures(const net::Network& net, const std::vector<Factore
     std::vector<std::size_t> at(n, 0);
     auto atOf = [&](std::uint32_t x) { return x < n ? at[x] : std::size_t{0}; };
     for (net::NodeId v : net.topoOrder())
-        if (v < forms.size()) at[v] = arrival(forms[v], atOf);
+        if (v < forms.size()) at[v] = forms[v].arrival(atOf);
     std::vector<std::uint8_t> byChoice(net.outputs().size(), 0);
     for (const auto& c : choices)
         for (std::size_t i : c.bits)
@@ -147,17 +125,17 @@ WrittenFigures writtenFigures(const net::Network& net, const std::vector<Factore
                 roots.push_back(literalVar(d));
                 cond.kids.push_back(lit(literalVar(d), false));
             }
-            condAt[i + 1] = arrival(cond, atOf);
+            condAt[i + 1] = cond.arrival(atOf);
             f.gates += condGates(c.choice.links[i]);
         }
         for (int k = 0; k < w; ++k) {
             Factored e = chainBit(c.choice, k, w);
-            f.gates += formGates(e);
-            f.depth = std::max(f.depth, arrival(e, [&](std::uint32_t x) { return condAt[x]; }));
+            f.gates += e.gateCount();
+            f.depth = std::max(f.depth, e.arrival([&](std::uint32_t x) { return condAt[x]; }));
         }
     }
     for (net::NodeId v : net.postOrderFrom(roots))
-        if (v < forms.size()) f.gates += formGates(forms[v]);
+        if (v < forms.size()) f.gates += forms[v].gateCount();
     return f;
 }
 

@@ -1381,7 +1381,7 @@ void Writer::decide() {
         };
         G.gatesAfter = 0;
         auto addNode = [&](NodeId x) {
-            if (nodeStamp[x] != stamp) nodeStamp[x] = stamp, G.gatesAfter += formGates(forms_[x]);
+            if (nodeStamp[x] != stamp) nodeStamp[x] = stamp, G.gatesAfter += forms_[x].gateCount();
         };
         for (std::size_t i : outsOf[g]) {
             NodeId v = literalVar(net_.outputs()[i].driver);
@@ -1417,7 +1417,7 @@ void Writer::decide() {
             if (!orig_.isLogic(v) || origSeen[v] == stamp) continue;
             origSeen[v] = stamp;
             if (origStop[v] == stamp && origRoot[v] != stamp) continue;
-            G.gatesBefore += formGates(origForms[v]);
+            G.gatesBefore += origForms[v].gateCount();
             for (const auto& c : orig_.node(v).cover.cubes)
                 for (Literal l : c.lits) work.push_back(literalVar(l));
         }

@@ -78,43 +78,13 @@ bool complement(const Cover& f, std::size_t limit, Cover& out) {
     return true;
 }
 
-std::size_t formGates(const algebra::Factored& f) {
-    using K = algebra::Factored::Kind;
-    if (f.kind != K::And && f.kind != K::Or) return 0;
-    std::size_t g = f.kids.size() > 1 ? f.kids.size() - 1 : 0;
-    for (const auto& k : f.kids) g += formGates(k);
-    return g;
-}
-
-/// Arrival of a form's root when each literal's variable arrives at `at` (each AND/OR
-/// balanced by arrival, two earliest first: passes/factored.cpp counts depth the same way).
-std::size_t formArrival(const algebra::Factored& f, const std::vector<std::size_t>& at) {
-    using K = algebra::Factored::Kind;
-    if (f.kind == K::Lit) return literalVar(f.lit) < at.size() ? at[literalVar(f.lit)] : 0;
-    if (f.kind != K::And && f.kind != K::Or) return 0;
-    std::vector<std::size_t> t;
-    t.reserve(f.kids.size());
-    for (const auto& k : f.kids) t.push_back(formArrival(k, at));
-    if (t.empty()) return 0;
-    std::make_heap(t.begin(), t.end(), std::greater<>());
-    while (t.size() > 1) {
-        std::pop_heap(t.begin(), t.end(), std::greater<>());
-        const std::size_t a = t.back();
-        t.pop_back();
-        std::pop_heap(t.begin(), t.end(), std::greater<>());
-        t.back() = std::max(a, t.back()) + 1;
-        std::push_heap(t.begin(), t.end(), std::greater<>());
-    }
-    return t[0];
-}
-
 /// Two-input gates of the smallest of the forms the figures choose from (passes/factored.cpp:
 /// the sum of products, and the two factored forms up to a thousand cubes).
 std::size_t coverGates(const Cover& f) {
-    std::size_t g = formGates(algebra::sumOfProducts(f));
+    std::size_t g = algebra::sumOfProducts(f).gateCount();
     if (f.cubes.size() <= 1000) {
         algebra::Factored q = algebra::factor(f, algebra::FactorMethod::Quick);
-        g = std::min({g, formGates(q), formGates(algebra::factorBest(f, q))});
+        g = std::min({g, q.gateCount(), algebra::factorBest(f, q).gateCount()});
     }
     return g;
 }
@@ -128,12 +98,12 @@ struct CoverFigures {
 };
 CoverFigures coverFigures(const Cover& f, const std::vector<std::size_t>& at) {
     algebra::Factored sop = algebra::sumOfProducts(f);
-    CoverFigures r{formGates(sop), formArrival(sop, at)};
+    CoverFigures r{sop.gateCount(), sop.arrival(at)};
     if (f.cubes.size() <= 1000) {
         algebra::Factored q = algebra::factor(f, algebra::FactorMethod::Quick);
         algebra::Factored b = algebra::factorBest(f, q);
-        r.gates = std::min({r.gates, formGates(q), formGates(b)});
-        r.arrival = std::min({r.arrival, formArrival(q, at), formArrival(b, at)});
+        r.gates = std::min({r.gates, q.gateCount(), b.gateCount()});
+        r.arrival = std::min({r.arrival, q.arrival(at), b.arrival(at)});
     }
     return r;
 }

@@ -9,6 +9,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <functional>
 #include <limits>
 #include <span>
 #include <string>
@@ -188,6 +189,14 @@ struct Factored {
     Literal lit = 0;                 ///< valid when kind == Lit
     std::vector<Factored> kids;      ///< valid for And / Or
     std::size_t literalCount() const;
+    /// Two-input gates of the form: an AND/OR of k operands is k-1 gates; inversions are free.
+    std::size_t gateCount() const;
+    /// Arrival of the root when variable x arrives at `at(x)`: each AND/OR is a tree of
+    /// two-input gates balanced by arrival (the two earliest merged first, which is optimal
+    /// for the latest arrival). Constants arrive at 0.
+    std::size_t arrival(const std::function<std::size_t(std::uint32_t)>& at) const;
+    /// The same with `at[x]` (0 for a variable past the end).
+    std::size_t arrival(const std::vector<std::size_t>& at) const;
     /// Flatten back to a sum of products (for checking).
     Cover toCover() const;
 };
