@@ -1189,7 +1189,13 @@ bool Writer::checkCycles() {
     // Statements and wires as a graph: a reference to a name points at the
     // statement that writes it. A cycle through statements (a block reading a
     // wire that reads the block's own result) is a loop in the text even when
-    // every bit is acyclic; withdraw the name that closes it.
+    // every bit is acyclic; withdraw the name that closes it. Code kept as written is in the
+    // graph too (a block kept for an `ifdef` that reads the rewrite's signal closes a loop
+    // just the same, F136), except where no path runs from what it reads to what it writes
+    // within one evaluation (clocked blocks, initial and final blocks, assertions) and
+    // instances and generate constructs, whose paths are not known here. A loop made only of
+    // what the source already had (edges from statements written as they were) is the
+    // source's own and is left alone.
     std::map<int, std::size_t> idx;
     for (std::size_t s = 0; s < stmts_.size(); ++s) idx[stmts_[s]] = s;
     const std::size_t S = stmts_.size();
@@ -1204,7 +1210,23 @@ bool Writer::checkCycles() {
         wordNode[w.result] = S + wires_.size() + wordOfNode.size();
         wordOfNode.push_back(&w);
     }
-    std::vector<std::vector<std::pair<std::size_t, std::string>>> adj(S + wires_.size() + wordOfNode.size());
+    std::map<std::string, std::vector<std::size_t>> keptWriters;   // signal -> kept members writing it
+    std::vector<const frontend::Member*> keptOfNode;
+    const std::size_t keptBase = S + wires_.size() + wordOfNode.size();
+    for (const auto& mem : m_.members) {
+        if (mem.kind != frontend::MemberKind::Kept || mem.clocked) continue;
+        static const std::set<std::string> noPath = {"initial", "final", "assertion", "instance", "generate",
+                                                     "excluded_text", "specify", "elaboration_task"};
+        if (noPath.count(mem.what)) continue;
+        for (const auto& w : mem.writes) keptWriters[w].push_back(keptBase + keptOfNode.size());
+        keptOfNode.push_back(&mem);
+    }
+    struct Edge {
+        std::size_t to;
+        std::string name;   ///< the name read, where withdrawing it could break the loop
+        bool fresh;         ///< a read of the rewrite (false: of a statement written as it was)
+    };
+    std::vector<std::vector<Edge>> adj(keptBase + keptOfNode.size());
     std::set<std::string> selfRefs;
     std::set<int> replacedNow;   // members of the groups rewritten this round (filled when needed)
     auto writerOf = [&](const std::string& name) -> long {
@@ -1214,13 +1236,16 @@ bool Writer::checkCycles() {
     };
     // Every statement writing bits of `name` (a signal split between blocks has several).
     auto writersOf = [&](const std::string& name) -> std::vector<long> {
+        std::vector<long> out;
         auto it = writersOf_.find(name);
         if (it == writersOf_.end() || wordNode.count(name)) {
             long t = writerOf(name);
-            return t >= 0 ? std::vector<long>{t} : std::vector<long>{};
+            if (t >= 0) out.push_back(t);
+        } else {
+            for (int st : it->second) out.push_back(static_cast<long>(idx.at(st)));
         }
-        std::vector<long> out;
-        for (int st : it->second) out.push_back(static_cast<long>(idx.at(st)));
+        if (auto k = keptWriters.find(name); k != keptWriters.end())
+            for (std::size_t t : k->second) out.push_back(static_cast<long>(t));
         return out;
     };
     // What an operation reads: its named operands, and the names and wires its generated
@@ -1235,7 +1260,7 @@ bool Writer::checkCycles() {
             if (auto same = sameAs_.find(name); same != sameAs_.end()) name = same->second;
             if (auto named = resultName_.find(name); named != resultName_.end()) name = named->second;
             for (long t : writersOf(name))
-                if (t != from) adj[static_cast<std::size_t>(from)].push_back({static_cast<std::size_t>(t), name});
+                if (t != from) adj[static_cast<std::size_t>(from)].push_back({static_cast<std::size_t>(t), name, true});
         };
         for (const auto& o : w.operands) {
             if (!o.generated) {
@@ -1247,7 +1272,7 @@ bool Writer::checkCycles() {
                 NodeId v = literalVar(net_.outputs()[i].driver);
                 namesRead(i, edge);
                 coneOf(v, definer_[v] == static_cast<int>(i),
-                       [&](NodeId x) { adj[static_cast<std::size_t>(from)].push_back({wid.at(x), ""}); }, [](NodeId) {},
+                       [&](NodeId x) { adj[static_cast<std::size_t>(from)].push_back({wid.at(x), "", true}); }, [](NodeId) {},
                        [](const std::string&) {});
             }
         }
@@ -1259,7 +1284,7 @@ bool Writer::checkCycles() {
                 for (int mid : membersOfStmt_.at(st))
                     for (const auto& r : byId_.at(mid)->reads) {
                         for (long t : writersOf(r))
-                            if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), ""});
+                            if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), "", false});
                     }
                 continue;
             }
@@ -1282,20 +1307,26 @@ bool Writer::checkCycles() {
                     if (n == outs_[i].bit.signal && !(ordered && readWhole(n, replacedNow)))
                         selfRefs.insert(n);   // a vector reading its own bits
                     for (long t : writersOf(n))
-                        if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n});
+                        if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), n, true});
                 };
                 namesRead(i, onName);
-                coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) { adj[from].push_back({wid.at(w), ""}); },
+                coneOf(v, definer_[v] == static_cast<int>(i), [&](NodeId w) { adj[from].push_back({wid.at(w), "", true}); },
                        [](NodeId) {}, [](const std::string&) {});
             }
         }
     }
     for (NodeId w : wires_) {
         std::size_t from = wid.at(w);
-        coneOf(w, true, [&](NodeId x) { adj[from].push_back({wid.at(x), ""}); }, [](NodeId) {},
+        coneOf(w, true, [&](NodeId x) { adj[from].push_back({wid.at(x), "", true}); }, [](NodeId) {},
                [&](const std::string& n) {
-                   for (long t : writersOf(n)) adj[from].push_back({static_cast<std::size_t>(t), n});
+                   for (long t : writersOf(n)) adj[from].push_back({static_cast<std::size_t>(t), n, true});
                });
+    }
+    for (std::size_t k = 0; k < keptOfNode.size(); ++k) {
+        const std::size_t from = keptBase + k;
+        for (const auto& r : keptOfNode[k]->reads)
+            for (long t : writersOf(r))
+                if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), "", false});
     }
     if (!selfRefs.empty()) {
         bool any = false;
@@ -1304,28 +1335,40 @@ bool Writer::checkCycles() {
         if (!any) unorderable_ = true;   // nothing left to withdraw: the groups stay as written (run)
         return !any;
     }
-    // Depth-first search for a cycle; remember the edge names on the path.
+    // Depth-first search for a cycle; remember the edges on the path.
     std::vector<int> state(adj.size(), 0);
-    std::vector<std::string> pathNames;
+    std::vector<std::pair<std::size_t, const Edge*>> path;   // (from, edge) from the root
     std::string culprit;
     std::function<bool(std::size_t)> dfs = [&](std::size_t u) {
         state[u] = 1;
-        for (const auto& [t, name] : adj[u]) {
-            pathNames.push_back(name);
-            if (state[t] == 1) {
-                // The latest name on the cycle whose statement kerf may still keep as written
-                // (a word operation's result is not one: the statement reading it is).
+        for (const Edge& e : adj[u]) {
+            path.push_back({u, &e});
+            if (state[e.to] == 1) {
+                // The cycle is the path's tail from e.to. The latest name on it whose
+                // statement kerf may still keep as written (a word operation's result is not
+                // one: the statement reading it is).
+                std::size_t first = path.size();
+                while (first > 0 && path[first - 1].first != e.to) --first;
+                if (first > 0) --first;
+                bool fresh = false;
+                for (std::size_t j = first; j < path.size(); ++j) fresh = fresh || path[j].second->fresh;
+                if (!fresh) {   // the source's own loop
+                    path.pop_back();
+                    continue;
+                }
                 auto withdrawable = [&](const std::string& n) {
                     for (std::size_t i = 0; i < outs_.size(); ++i)
                         if (allowed_[i] && outs_[i].bit.signal == n) return true;
                     return false;
                 };
-                for (auto it = pathNames.rbegin(); it != pathNames.rend(); ++it)
-                    if (!it->empty() && withdrawable(*it)) { culprit = *it; break; }
+                for (std::size_t j = path.size(); j > first; --j) {
+                    const std::string& n = path[j - 1].second->name;
+                    if (!n.empty() && withdrawable(n)) { culprit = n; break; }
+                }
                 return true;
             }
-            if (state[t] == 0 && dfs(t)) return true;
-            pathNames.pop_back();
+            if (state[e.to] == 0 && dfs(e.to)) return true;
+            path.pop_back();
         }
         state[u] = 2;
         return false;

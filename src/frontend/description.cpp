@@ -881,6 +881,7 @@ void DescriptionBuilder::parseMembers(const json& root) {
             }
             if (mj.contains("mentions")) mem.mentions = names(mj["mentions"], where + " mentions");
             mem.mayBeX = mj.value("may_be_x", false);
+            mem.clocked = mj.value("clocked", false);
             if (mj.contains("x_writes")) mem.xWrites = names(mj["x_writes"], where + " x_writes");
         } else {
             if (mj.contains("comments")) {

@@ -711,10 +711,23 @@ class Describer:
                 # A narrowing conversion of a whole signal (`w1 = in3`, 1-bit `w1`) reads only
                 # the low bits it keeps; of a select (`w1 = in3[2:0]`) the selected bits.
                 # Verilator's unused-signal check counts both so.
+                # `$unsigned(st3)`, `$signed(x)` and conversions that keep the width pass the
+                # bits through: the narrowing still keeps only the low bits (F137).
                 t, ot = n.type, n.operand.type
+                inner = n.operand
+                while True:
+                    if inner.kind == EK.Call and inner.isSystemCall and len(inner.arguments) == 1 and \
+                            inner.subroutineName in ("$unsigned", "$signed"):
+                        inner = inner.arguments[0]
+                    elif inner.kind == EK.Conversion and inner.type.isIntegral and \
+                            inner.operand.type.isIntegral and inner.type.bitWidth == inner.operand.type.bitWidth:
+                        inner = inner.operand
+                    else:
+                        break
                 if t.isIntegral and ot.isIntegral and t.bitWidth < ot.bitWidth and \
-                        n.operand.kind in (EK.NamedValue, EK.HierarchicalValue):
-                    b = self.static_bits(n.operand)
+                        inner.kind in (EK.NamedValue, EK.HierarchicalValue) and \
+                        inner.type.isIntegral and inner.type.bitWidth == ot.bitWidth:
+                    b = self.static_bits(inner)
                     if b is not None and b[1] is not None:
                         add(b[0], b[1], min(b[2], b[1] + t.bitWidth - 1))
                         return ast.VisitAction.Skip
@@ -1232,6 +1245,19 @@ class Describer:
             names.add(ev.expr.symbol.name)
         return names
 
+    @staticmethod
+    def edge_events(timing):
+        """True when an event control waits for an edge (`@(posedge clk)`, `@(negedge rst_n or
+        posedge clk)`): what the block writes changes only at that edge."""
+        TK = ast.TimingControlKind
+        if timing.kind == TK.SignalEvent:
+            events = [timing]
+        elif timing.kind == TK.EventList:
+            events = list(timing.events)
+        else:
+            return False
+        return any(ev.kind == TK.SignalEvent and ev.edge != ast.EdgeKind.None_ for ev in events)
+
     def procedural_member(self, sym):
         syn = self.member_syntax(sym)
         src, why = self.member_src(syn)
@@ -1290,7 +1316,10 @@ class Describer:
             except Unsupported as u:
                 c.drop()
                 why = "it " + str(u)
-        return self.kept_member(what, why, src, [sym], syn=syn)
+        m = self.kept_member(what, why, src, [sym], syn=syn)
+        if k == PK.AlwaysFF or (k == PK.Always and body.kind == STK.Timed and self.edge_events(body.timing)):
+            m["clocked"] = True
+        return m
 
     def other_member(self, sym):
         k = sym.kind

@@ -100,6 +100,10 @@ struct Member {
     /// (an x/z constant, a select that can fall out of range, a division by what can be 0, a
     /// gate primitive); reading a signal that can be x is followed by the lowering.
     bool mayBeX = false;
+    /// Kept members: an always block that writes only at an edge (`always_ff`,
+    /// `always @(posedge clk)`): no path from what it reads to what it writes within one
+    /// evaluation (the writer's loop check between statements skips it).
+    bool clocked = false;
     /// Kept members whose text can make only some of what they write x: those signals
     /// (empty: every signal it writes, when mayBeX).
     std::vector<std::string> xWrites;
