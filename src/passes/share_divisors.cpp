@@ -62,6 +62,10 @@ struct Divisor {
 struct Contribution {
     std::vector<std::pair<int, long>> items;   // divisor, saving
     int provides = -1;
+    // The cubes the items were counted from (sorted), kept when every pair
+    // of them was counted: a later change is then counted by its changed
+    // cubes only (see PairTable::compute).
+    std::vector<Cube> cubes;
 };
 
 class PairTable {
@@ -82,6 +86,72 @@ public:
     }
 
     // f's divisors and savings, summed per divisor and sorted by divisor.
+    // `old` is f's contribution as last counted. When both covers count
+    // every pair of cubes (3..divisors-pair-max-cubes cubes), only the pairs
+    // and literal pairs of cubes that left or came are counted, as a
+    // difference: an extraction rewrites a few cubes of each target, and
+    // recounting all pairs of every target after every extraction grew with
+    // the square of the cubes per node (3k decoder: 43 CPU s for one
+    // divisor trial). The pairs are visited in the same order as a full
+    // count, and pairs of unchanged cubes already have their divisors, so
+    // new divisors get the same ids (and ties break the same way).
+    Contribution compute(net::NodeId f, const Contribution& old) {
+        const Cover& F = ws_.cover(f);
+        const std::size_t n = F.cubes.size();
+        auto counted = [&](std::size_t k) { return k >= 3 && k <= opts_.maxCubesForPairs; };
+        if (!counted(n) || !counted(old.cubes.size())) return compute(f);
+        // Which cubes left (of old) and came (of F): a multiset difference.
+        std::vector<std::size_t> order(n);
+        for (std::size_t i = 0; i < n; ++i) order[i] = i;
+        std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return F.cubes[a] < F.cubes[b]; });
+        std::vector<std::uint8_t> came(n, 0), left(old.cubes.size(), 0);
+        std::size_t i = 0, j = 0, changes = 0;
+        while (i < old.cubes.size() || j < n) {
+            if (j == n || (i < old.cubes.size() && old.cubes[i] < F.cubes[order[j]])) left[i++] = 1, ++changes;
+            else if (i == old.cubes.size() || F.cubes[order[j]] < old.cubes[i]) came[order[j++]] = 1, ++changes;
+            else ++i, ++j;
+        }
+        Contribution c;
+        c.cubes.reserve(n);
+        for (std::size_t k : order) c.cubes.push_back(F.cubes[k]);
+        if (changes == 0) {
+            c.items = old.items;
+            return c;
+        }
+        std::vector<std::pair<int, long>> delta;
+        auto pairs = [&](const std::vector<Cube>& cubes, const std::vector<std::uint8_t>& mark, long sign) {
+            for (std::size_t a = 0; a < cubes.size(); ++a)
+                for (std::size_t b = a + 1; b < cubes.size(); ++b)
+                    if (mark[a] || mark[b]) cubePair(cubes[a], cubes[b], delta, sign);
+        };
+        auto literals = [&](const std::vector<Cube>& cubes, const std::vector<std::uint8_t>& mark, long sign) {
+            for (std::size_t a = 0; a < cubes.size(); ++a)
+                if (mark[a]) literalPairs(cubes[a], delta, sign);
+        };
+        // Counted in the order of a full count: cube pairs of F, then literal pairs.
+        pairs(old.cubes, left, -1);
+        pairs(F.cubes, came, 1);
+        literals(old.cubes, left, -1);
+        literals(F.cubes, came, 1);
+        finish(delta);
+        // items + delta, dropping divisors no pair gives any more (savings are positive).
+        c.items.reserve(old.items.size() + delta.size());
+        i = 0, j = 0;
+        while (i < old.items.size() || j < delta.size()) {
+            if (j == delta.size() || (i < old.items.size() && old.items[i].first < delta[j].first)) {
+                c.items.push_back(old.items[i++]);
+            } else if (i == old.items.size() || delta[j].first < old.items[i].first) {
+                c.items.push_back(delta[j++]);
+            } else {
+                const long v = old.items[i].second + delta[j].second;
+                if (v != 0) c.items.push_back({old.items[i].first, v});
+                ++i, ++j;
+            }
+        }
+        return c;
+    }
+
+    // The same counted from scratch.
     Contribution compute(net::NodeId f) {
         Contribution c;
         const Cover& F = ws_.cover(f);
@@ -94,53 +164,73 @@ public:
             for (std::size_t i = 0; i < F.cubes.size(); ++i)
                 for (std::size_t j = i + 1; j < F.cubes.size(); ++j) {
                     if (selfDouble) continue;   // the node's only pair is itself
-                    const auto& a = F.cubes[i].lits;
-                    const auto& b = F.cubes[j].lits;
-                    base_.clear();
-                    std::set_intersection(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(base_));
-                    if (base_.size() == a.size() || base_.size() == b.size()) continue;   // one side empty
-                    // The divisor is built in reused storage (no allocation per pair once warm).
-                    Cover& d = pairCover_;
-                    d.cubes.resize(2);
-                    d.cubes[0].lits.clear();
-                    d.cubes[1].lits.clear();
-                    std::set_difference(a.begin(), a.end(), base_.begin(), base_.end(), std::back_inserter(d.cubes[0].lits));
-                    std::set_difference(b.begin(), b.end(), base_.begin(), base_.end(), std::back_inserter(d.cubes[1].lits));
-                    long s = static_cast<long>(d.cubes[0].lits.size() + d.cubes[1].lits.size() + base_.size()) - 1;
-                    d.normalize();
-                    c.items.push_back({idOf(d), s});
+                    cubePair(F.cubes[i], F.cubes[j], c.items, 1);
                 }
         }
         // Large nodes (their pairs would be recounted after every extraction)
         // leave common cubes to extract-cubes.
         if (F.cubes.size() > opts_.maxCubesForPairs) return finish(c);
         for (const Cube& cube : F.cubes) {
-            if (cube.lits.size() < 2 || cube.lits.size() > opts_.maxCubeForLiteralPairs) continue;
             if (selfSingle) continue;
-            for (std::size_t i = 0; i < cube.lits.size(); ++i)
-                for (std::size_t j = i + 1; j < cube.lits.size(); ++j)
-                    c.items.push_back({pairId(cube.lits[i], cube.lits[j]), 1});
+            literalPairs(cube, c.items, 1);
+        }
+        if (F.cubes.size() >= 3) {
+            c.cubes = F.cubes;
+            std::sort(c.cubes.begin(), c.cubes.end());
         }
         return finish(c);
     }
 
+    // The two-cube divisor of cubes a, b (their common cube removed) and its saving, times sign.
+    void cubePair(const Cube& ca, const Cube& cb, std::vector<std::pair<int, long>>& items, long sign) {
+        const auto& a = ca.lits;
+        const auto& b = cb.lits;
+        base_.clear();
+        std::set_intersection(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(base_));
+        if (base_.size() == a.size() || base_.size() == b.size()) return;   // one side empty
+        // The divisor is built in reused storage (no allocation per pair once warm).
+        Cover& d = pairCover_;
+        d.cubes.resize(2);
+        d.cubes[0].lits.clear();
+        d.cubes[1].lits.clear();
+        std::set_difference(a.begin(), a.end(), base_.begin(), base_.end(), std::back_inserter(d.cubes[0].lits));
+        std::set_difference(b.begin(), b.end(), base_.begin(), base_.end(), std::back_inserter(d.cubes[1].lits));
+        long s = static_cast<long>(d.cubes[0].lits.size() + d.cubes[1].lits.size() + base_.size()) - 1;
+        d.normalize();
+        items.push_back({idOf(d), sign * s});
+    }
+
+    // The single-cube divisors of two literals of a cube (saving 1 each), times sign.
+    void literalPairs(const Cube& cube, std::vector<std::pair<int, long>>& items, long sign) {
+        if (cube.lits.size() < 2 || cube.lits.size() > opts_.maxCubeForLiteralPairs) return;
+        for (std::size_t i = 0; i < cube.lits.size(); ++i)
+            for (std::size_t j = i + 1; j < cube.lits.size(); ++j)
+                items.push_back({pairId(cube.lits[i], cube.lits[j]), sign});
+    }
+
     static Contribution finish(Contribution& c) {
-        std::sort(c.items.begin(), c.items.end());
-        std::size_t k = 0;
-        for (std::size_t i = 0; i < c.items.size(); ++i) {
-            if (k && c.items[k - 1].first == c.items[i].first) c.items[k - 1].second += c.items[i].second;
-            else c.items[k++] = c.items[i];
-        }
-        c.items.resize(k);
+        finish(c.items);
         return std::move(c);
+    }
+    // Sorted by divisor, savings summed per divisor (zero sums dropped).
+    static void finish(std::vector<std::pair<int, long>>& items) {
+        std::sort(items.begin(), items.end());
+        std::size_t k = 0;
+        for (std::size_t i = 0; i < items.size(); ++i) {
+            if (k && items[k - 1].first == items[i].first) items[k - 1].second += items[i].second;
+            else items[k++] = items[i];
+        }
+        k = static_cast<std::size_t>(std::remove_if(items.begin(), items.begin() + static_cast<std::ptrdiff_t>(k),
+                                                    [](const auto& e) { return e.second == 0; }) - items.begin());
+        items.resize(k);
     }
 
     /// Enter f, or re-enter it after it changed: only divisors whose saving
     /// from f changed are touched (a changed node keeps most of its pairs).
     void add(net::NodeId f) {
         if (f >= contrib_.size()) contrib_.resize(ws_.net().nodeCount());
-        Contribution next = compute(f);
         Contribution& old = contrib_[f];
+        Contribution next = compute(f, old);
         std::size_t i = 0, j = 0;
         while (i < old.items.size() || j < next.items.size()) {
             if (j == next.items.size() || (i < old.items.size() && old.items[i].first < next.items[j].first)) {

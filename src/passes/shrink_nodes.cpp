@@ -20,7 +20,7 @@ using algebra::Cover;
 
 void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx, ShrinkMemo* memo) {
     detail::Workspace ws(net, ctx);
-    long shrunk = 0, complemented = 0, saved = 0, rejected = 0, remembered = 0;
+    long shrunk = 0, complemented = 0, saved = 0, rejected = 0, remembered = 0, recalled = 0;
     for (net::NodeId v : net.topoOrder()) {
         if (!ws.live(v) || !ctx.inFocus(v)) continue;   // changed region: a node's own cover only
         const Cover& cv = ws.cover(v);
@@ -32,15 +32,27 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx,
         const bool read = !ws.fanouts(v).empty() || ws.outputRefs(v) > 0;
         const std::uint64_t key = memo ? algebra::CoverHash{}(cv) : 0;
         if (memo && read && memo->minimal.count(key)) { ++remembered; continue; }
-        Cover best = minimize::minimizeCover(cv, opts.minimize);
+        Cover best;
         bool flip = false;
-        if (opts.allowComplement && read) {
-            Cover comp;
-            if (minimize::complementCover(cv, comp, 4 * cv.cubes.size() + 16, opts.minimize)) {
-                std::size_t lc = detail::lits(comp), lb = detail::lits(best);
-                if (lc < lb || (lc == lb && comp.cubes.size() < best.cubes.size())) {
-                    best = std::move(comp);
-                    flip = true;
+        const ShrinkMemo::Found* known = nullptr;
+        if (memo && read) {
+            auto it = memo->found.find(cv);
+            if (it != memo->found.end()) known = &it->second;
+        }
+        if (known) {
+            best = known->cover;
+            flip = known->flip;
+            ++recalled;
+        } else {
+            best = minimize::minimizeCover(cv, opts.minimize);
+            if (opts.allowComplement && read) {
+                Cover comp;
+                if (minimize::complementCover(cv, comp, 4 * cv.cubes.size() + 16, opts.minimize)) {
+                    std::size_t lc = detail::lits(comp), lb = detail::lits(best);
+                    if (lc < lb || (lc == lb && comp.cubes.size() < best.cubes.size())) {
+                        best = std::move(comp);
+                        flip = true;
+                    }
                 }
             }
         }
@@ -50,6 +62,7 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx,
             if (memo && read) memo->minimal.insert(key);
             continue;
         }
+        if (memo && read && !known) memo->found.emplace(cv, ShrinkMemo::Found{best, flip});
         ws.begin();
         if (flip) {
             ws.flipNode(v, std::move(best));
@@ -67,6 +80,7 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx,
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("depth-rejects", rejected);
     if (remembered) ctx.stats.add("known-minimal", remembered);
+    if (recalled) ctx.stats.add("known-result", recalled);
 }
 
 } // namespace kerf::passes

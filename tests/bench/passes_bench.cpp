@@ -15,7 +15,10 @@
 // compares outputs wherever the condition is 0).
 //
 // Usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR]
-//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--min-terms N] [--max-terms N] [-v]
+//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--min-terms N] [--max-terms N]
+//                     [--terms N]... [-v]
+// --terms N (repeatable) times decoders of exactly these sizes instead of
+// 1k/10k/100k (e.g. 3000 and 30000 to measure how the time grows).
 #include "../unit/passes_support.h"
 
 #include "kerf/passes/engine.h"
@@ -295,6 +298,7 @@ int main(int argc, char** argv) {
     bool synthetic = true;
     int verbose = 0;
     std::size_t maxTerms = 0, minTerms = 0;
+    std::vector<std::size_t> sizes;   // --terms: decoder sizes other than 1k/10k/100k
     for (int i = 1; i < argc; ++i) {
         std::string a = argv[i];
         if (a == "--effort" && i + 1 < argc) effort = argv[++i];
@@ -306,10 +310,11 @@ int main(int argc, char** argv) {
         else if (a == "--skip-synthetic") synthetic = false;
         else if (a == "--max-terms" && i + 1 < argc) maxTerms = std::stoul(argv[++i]);
         else if (a == "--min-terms" && i + 1 < argc) minTerms = std::stoul(argv[++i]);
+        else if (a == "--terms" && i + 1 < argc) sizes.push_back(std::stoul(argv[++i]));
         else if (a == "-v") ++verbose;
         else {
             std::fprintf(stderr, "usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR] "
-                                 "[--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--skip-synthetic] [--min-terms N] [--max-terms N] [-v]\n");
+                                 "[--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--skip-synthetic] [--min-terms N] [--max-terms N] [--terms N]... [-v]\n");
             return 2;
         }
     }
@@ -355,7 +360,12 @@ int main(int argc, char** argv) {
                     "depth", "seconds", "cpu", "peakRSS");
         struct Cfg { std::size_t terms, inputs, outputs; };
         // The shape of the issue-9 generator at every size: 64 inputs, 256 outputs.
-        for (Cfg c : {Cfg{1000, 64, 256}, Cfg{10000, 64, 256}, Cfg{100000, 64, 256}}) {
+        std::vector<Cfg> cfgs = {Cfg{1000, 64, 256}, Cfg{10000, 64, 256}, Cfg{100000, 64, 256}};
+        if (!sizes.empty()) {
+            cfgs.clear();
+            for (std::size_t t : sizes) cfgs.push_back(Cfg{t, 64, 256});
+        }
+        for (Cfg c : cfgs) {
             if (minTerms && c.terms < minTerms) continue;
             if (maxTerms && c.terms > maxTerms) continue;
             Figures f;
