@@ -30,6 +30,7 @@
 #include <climits>
 #include <queue>
 #include <unordered_map>
+#include <unordered_set>
 
 namespace kerf::passes {
 
@@ -70,7 +71,8 @@ struct Contribution {
 
 class PairTable {
 public:
-    PairTable(Workspace& ws, const ShareDivisorsOptions& opts) : ws_(ws), opts_(opts) {}
+    PairTable(Workspace& ws, const ShareDivisorsOptions& opts)
+        : ws_(ws), opts_(opts), index_(64, ById{&divs_}, SameCover{&divs_}) {}
 
     long weight(int id) const {
         const Divisor& dv = divs_[static_cast<std::size_t>(id)];
@@ -300,12 +302,12 @@ private:
         // Looked up by the cover itself (a string key per pair of cubes was
         // the largest cost of this technique on the 10k decoder, F44).
         auto it = index_.find(d);
-        if (it != index_.end()) return it->second;
+        if (it != index_.end()) return *it;
         const int id = static_cast<int>(divs_.size());
-        index_.emplace(d, id);
         Divisor dv;
         dv.d = d;
         divs_.push_back(std::move(dv));
+        index_.insert(id);
         return id;
     }
     void note(net::NodeId f, int id, long s) {
@@ -322,9 +324,26 @@ private:
 
     Workspace& ws_;
     const ShareDivisorsOptions& opts_;
-    std::unordered_map<Cover, int, detail::MixedCoverHash> index_;
+    // Two-cube divisors by their cover: a set of ids hashed and compared by
+    // the divisor's own cover (a map keyed by a copy of each cover held
+    // every cover twice: 1.7 million of them on the 3k decoder, F128).
+    struct ById {   // not noexcept: the set then keeps each hash beside its id
+        using is_transparent = void;
+        const std::vector<Divisor>* divs;
+        std::size_t operator()(int id) const { return detail::MixedCoverHash{}((*divs)[static_cast<std::size_t>(id)].d); }
+        std::size_t operator()(const Cover& c) const { return detail::MixedCoverHash{}(c); }
+    };
+    struct SameCover {
+        using is_transparent = void;
+        const std::vector<Divisor>* divs;
+        const Cover& of(int id) const { return (*divs)[static_cast<std::size_t>(id)].d; }
+        bool operator()(int a, int b) const { return a == b; }
+        bool operator()(const Cover& c, int id) const { return c == of(id); }
+        bool operator()(int id, const Cover& c) const { return c == of(id); }
+    };
+    std::vector<Divisor> divs_;   // before index_: it is constructed with a pointer to this
+    std::unordered_set<int, ById, SameCover> index_;
     std::unordered_map<std::uint64_t, int> pairIndex_;
-    std::vector<Divisor> divs_;
     std::vector<Contribution> contrib_;
     std::vector<int> touched_;
     std::vector<Literal> base_;   // scratch of compute()
