@@ -414,9 +414,26 @@ class Conv:
         op = _UNARY_BY_ID.get(id(e.op))
         if op is None:
             raise Unsupported("uses an increment or decrement inside an expression")
-        ti = self.type_of(e)
-        a = self.expr(e.operand)
-        if self.is_const(a):
+        t = e.type          # type_of(e), inline
+        info = self._tinfo.get(t) or self.types.info(t)
+        if not info[3]:
+            raise Unsupported("uses a value of type '%s'" % t)
+        ti = info[0]
+        # expr(e.operand) without its frame when the operand's class is known (`~x[3]`)
+        o = e.operand
+        h = _EXPR_BY_CLASS.get(type(o))
+        if h is None:
+            a = self.expr(o)
+        else:
+            depth = self.depth + 1
+            if depth > MAX_DEPTH:
+                raise Unsupported("nests expressions more than %d deep" % MAX_DEPTH)
+            self.depth = depth
+            try:
+                a = h(self, o)
+            finally:
+                self.depth = depth - 1
+        if self.ex[a][0] == "const":
             c = self.fold(e)
             if c is not None:
                 return c
@@ -463,9 +480,19 @@ class Conv:
             l = self.expr(left)
             ex = self.ex
             own_text = self.buf is not None and not self.macros    # span(e) needs no check
+            by_class = _EXPR_BY_CLASS
             for e, ti, op, depth in reversed(spine):
-                self.depth = depth
-                r = self.expr(e.right)
+                # expr(e.right) without its frame when the operand's class is known
+                right = e.right
+                h = by_class.get(type(right))
+                if h is None:
+                    self.depth = depth
+                    r = self.expr(right)
+                else:
+                    if depth + 1 > MAX_DEPTH:
+                        raise Unsupported("nests expressions more than %d deep" % MAX_DEPTH)
+                    self.depth = depth + 1
+                    r = h(self, right)
                 if ex[l][0] == "const" and ex[r][0] == "const":
                     c = self.fold(e)
                     if c is not None:

@@ -556,6 +556,15 @@ class Keys:
         # Only a token whose text can start a name is asked its kind (most of a generated
         # member's tokens are operators, brackets and numbers).
         not_first = _NEVER_NAME_FIRST
+        if "::" not in texts:
+            # No `pkg::name`: the names are the identifiers, and the symbols come in order of
+            # first mention, so each distinct text is asked once. Without directives a
+            # token's kind and value follow from its text. The dict keeps each text at its
+            # first place and the index of one token that has it.
+            one = dict(zip(texts, range(len(texts))))
+            names = [toks[i].valueText for t, i in one.items()
+                     if t[0] not in not_first and toks[i].kind is ident]
+            return self._finish_key(h, names, instances)
         named = [(i, k, toks[i].valueText) for i, t in enumerate(texts) if t[0] not in not_first
                  and ((k := toks[i].kind) is ident or k is unit_name or k is colons)]
         return self._finish_key(h, self._names_of(named), instances)
