@@ -229,7 +229,8 @@ def main(argv=None):
     # collector's full passes over them were a tenth to a quarter of the describe time on a
     # generated design, and found nothing to free (the reader's peak is the same without
     # them). The few cycles the describer makes (nested recursive helpers) wait until the
-    # process ends.
+    # process ends (or the collector is on again, for a caller of main in its own process).
+    collecting = gc.isenabled()
     gc.disable()
     try:
         for f in args.files:
@@ -242,6 +243,9 @@ def main(argv=None):
         traceback.print_exc()
         sys.stderr.write("kerf_read: internal error while describing module '%s'\n" % top.name)
         return EXIT_INTERNAL
+    finally:
+        if collecting:
+            gc.enable()
     try:
         write_json(desc, sys.stdout)
     except BrokenPipeError:
