@@ -4,6 +4,7 @@
 #pragma once
 
 #include "kerf/algebra/cover.h"
+#include "kerf/emit/writer.h"
 #include "kerf/frontend/lower.h"
 #include "kerf/frontend/module.h"
 #include "kerf/network/network.h"
@@ -140,6 +141,6 @@ NamedResult applyNaming(const NamingPlan& plan, const std::vector<NamedDomain>& 
 NamingPlan chooseNaming(const std::vector<NamedDomain>& domains, const frontend::ModuleDesc& m,
                         const frontend::Lowered& low, const net::Network& net,
                         const std::vector<algebra::Factored>& forms, const NamingBudget& budget,
-                        std::string* log = nullptr);
+                        std::string* log = nullptr, NamingRecord* record = nullptr);
 
 } // namespace kerf::emit

@@ -162,10 +162,30 @@ NamedResult applyNaming(const NamingPlan& plan, const std::vector<NamedDomain>& 
 
 NamingPlan chooseNaming(const std::vector<NamedDomain>& domains, const frontend::ModuleDesc& m,
                         const frontend::Lowered& low, const net::Network& net, const std::vector<Factored>& forms,
-                        const NamingBudget& budget, std::string* log) {
+                        const NamingBudget& budget, std::string* log, NamingRecord* record) {
     const WrittenFigures base = writtenFigures(net, forms, {});
     const std::size_t depthLimit = std::max(budget.depthBound, base.depth);
     const double gateLimit = static_cast<double>(base.gates) + budget.gateMargin;
+    NamingRecord scratch;
+    NamingRecord& rec = record ? *record : scratch;
+    rec.weighed = true;
+    rec.bitwiseGates = base.gates;
+    rec.bitwiseDepth = base.depth;
+    rec.depthBound = depthLimit;
+    rec.gateLimit = gateLimit;
+    // Why figures are within the bounds or not, in words a reviewer can check.
+    auto why = [&](const WrittenFigures& f) {
+        std::string r;
+        if (f.depth > depthLimit)
+            r += "depth " + std::to_string(f.depth) + " over the bound " + std::to_string(depthLimit);
+        if (static_cast<double>(f.gates) > gateLimit)
+            r += std::string(r.empty() ? "" : "; ") + std::to_string(f.gates) + " gates over the bitwise " +
+                 std::to_string(base.gates) + " plus the --min-gain margin";
+        if (r.empty())
+            r = "within the depth bound " + std::to_string(depthLimit) + " and the bitwise " +
+                std::to_string(base.gates) + " gates plus the --min-gain margin";
+        return r;
+    };
     if (log)
         *log += "naming: bitwise form " + std::to_string(base.gates) + " gates, depth " + std::to_string(base.depth) +
                 "; a named form may reach depth " + std::to_string(depthLimit) + " and " +
@@ -187,6 +207,12 @@ NamingPlan chooseNaming(const std::vector<NamedDomain>& domains, const frontend:
     for (const auto& [choice, signal] : items) {
         if (trials++ >= budget.maxTrials) {
             if (log) *log += "naming: trial limit reached; " + signal + " and later items keep their bits\n";
+            NamingDecision d;
+            d.form = choice ? "choice" : "comparisons";
+            d.signal = signal;
+            d.made = false;
+            d.reason = "not weighed: the limit of " + std::to_string(budget.maxTrials) + " forms measured was reached";
+            rec.decisions.push_back(std::move(d));
             break;
         }
         NamingPlan trial = plan;
@@ -200,6 +226,17 @@ NamingPlan chooseNaming(const std::vector<NamedDomain>& domains, const frontend:
                     (made ? std::to_string(r.figures.gates) + " gates, depth " + std::to_string(r.figures.depth)
                           : std::string("no choice among names")) +
                     (ok ? ", kept" : ", bits kept") + "\n";
+        {
+            NamingDecision d;
+            d.form = choice ? "choice" : "comparisons";
+            d.signal = signal;
+            d.made = made;
+            d.kept = ok;
+            d.gates = r.figures.gates;
+            d.depth = r.figures.depth;
+            d.reason = made ? why(r.figures) : "no choice among the names covers every value its bits take";
+            rec.decisions.push_back(std::move(d));
+        }
         if (ok) {
             plan = std::move(trial);
             current = std::move(r);
@@ -228,6 +265,19 @@ NamingPlan chooseNaming(const std::vector<NamedDomain>& domains, const frontend:
             *log += "naming: comparisons of " + signal + " one by one: " + std::to_string(kept) + " of " +
                     std::to_string(mine.size()) + " kept, " + std::to_string(current.figures.gates) + " gates, depth " +
                     std::to_string(current.figures.depth) + "\n";
+        {
+            NamingDecision d;
+            d.form = "comparisons one by one";
+            d.signal = signal;
+            d.kept = kept > 0;
+            d.gates = current.figures.gates;
+            d.depth = current.figures.depth;
+            d.rewritesKept = kept;
+            d.rewritesTried = mine.size();
+            d.reason = std::to_string(kept) + " of " + std::to_string(mine.size()) +
+                       " comparisons kept, each only where the module stays " + why(current.figures);
+            rec.decisions.push_back(std::move(d));
+        }
         if (kept > 0) plan = std::move(trial);
         continue;
     }

@@ -2331,11 +2331,22 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
     if (texts.size() == 1) {
         // A part select or a constant is unsigned; a whole name might be declared signed.
         const std::string& t = texts[0];
-        bool generated = pieces[0].ref && !pieces[0].ref->module && !pieces[0].ref->signal.empty();
-        // A complement is braced: in the operation's wider context `~v[11]` would widen first.
-        if (!t.empty() && pieces[0].expr.empty() && (generated || t.back() == ']' || t.find('\'') != std::string::npos))
+        const Piece& p = pieces[0];
+        bool generated = p.ref && !p.ref->module && !p.ref->signal.empty();
+        if (!t.empty() && p.expr.empty() && (generated || t.back() == ']' || t.find('\'') != std::string::npos))
             return t;
-        return "{" + t + "}";
+        // A complement is braced: in the operation's wider context `~v[11]` would widen first.
+        if (!p.expr.empty() || !p.ref) return "{" + t + "}";
+        // A whole signal declared unsigned is its name; a signed one (or a struct member, whose
+        // signedness the reference does not show) is read unsigned as the source wrote it,
+        // `$unsigned(sa)` (IEEE 1800-2017 11.7), never `{sa}` (F123).
+        if (p.ref->module) {
+            auto s = p.ref->module->signals.find(p.ref->signal);
+            if (s != p.ref->module->signals.end() && !s->second.isSigned && p.lo == 0 && p.n == s->second.width &&
+                t == verilogName(p.ref->signal))
+                return t;
+        }
+        return "$unsigned(" + t + ")";
     }
     std::string cat = "{";
     for (std::size_t q = 0; q < texts.size(); ++q) cat += (q ? ", " : "") + texts[q];
@@ -2365,9 +2376,11 @@ std::string Writer::operationText(const frontend::WordOp& w) {
             if (auto named = resultName_.find(w.operands[i].name); named != resultName_.end()) n = verilogName(named->second);
         }
         bool sign = w.isSigned && !(i == 1 && (w.op == "<<" || w.op == ">>" || w.op == "<<<" || w.op == ">>>"));
-        // `$signed` of one braced name needs no braces: `$signed(a)`.
+        // `$signed` of one braced name needs no braces: `$signed(a)`; nor of `$unsigned(a)`.
         if (sign && n.size() > 2 && n.front() == '{' && n.find(',') == std::string::npos && n.find('{', 1) == std::string::npos)
             n = n.substr(1, n.size() - 2);
+        static constexpr std::string_view kUnsigned = "$unsigned(";
+        if (sign && n.starts_with(kUnsigned) && n.back() == ')') n = n.substr(kUnsigned.size(), n.size() - kUnsigned.size() - 1);
         return sign ? fmt::format("$signed({})", n) : n;
     };
     return w.unary ? fmt::format("{}{}", w.op, operandText(0))
@@ -2426,7 +2439,7 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
                 constant = constant || c;
                 logic = logic || !c;
             }
-            if (!constant || !logic) continue;
+            if (!logic) continue;
             auto isConst = [&](int k) {
                 return bit[static_cast<std::size_t>(k)].kind == PExpr::Kind::Zero ||
                        bit[static_cast<std::size_t>(k)].kind == PExpr::Kind::One;
@@ -2469,10 +2482,18 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
                 exprs.push_back(std::move(e));
                 k = best + 1;
             }
+            // Without constants, only an operand whose bits share one shape is one vector
+            // assignment (`{8{en}} & data`); a concatenation of unlike bits reads no better.
+            if (!constant && texts.size() != 1) continue;
             std::reverse(texts.begin(), texts.end());
-            std::string line = ind + "assign " + verilogName(name) + " = {";
-            for (std::size_t q = 0; q < texts.size(); ++q) line += (q ? ", " : "") + texts[q];
-            line += "};";
+            std::string line = ind + "assign " + verilogName(name) + " = ";
+            if (constant) {
+                line += "{";
+                for (std::size_t q = 0; q < texts.size(); ++q) line += (q ? ", " : "") + texts[q];
+                line += "};";
+            } else {
+                line += texts[0] + ";";
+            }
             if (line.size() > opts_.lineLimit) continue;
             for (const auto& e : exprs) collectConstants(e, constantsNamed_);
             out += line + "\n";
@@ -2820,7 +2841,9 @@ WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
         budget.gateMargin = opts.minGain.percent ? opts.minGain.value * static_cast<double>(base.gates) / 100.0
                                                  : opts.minGain.value;
         std::string log;
-        NamingPlan plan = chooseNaming(domains, *in.module, *in.lowered, *in.network, *in.forms, budget, &log);
+        NamingRecord record;
+        NamingPlan plan =
+            chooseNaming(domains, *in.module, *in.lowered, *in.network, *in.forms, budget, &log, &record);
         if (!plan.empty()) {
             NamedResult named = applyNaming(plan, domains, *in.module, *in.lowered, *in.network, *in.forms);
             WriteInput copy = in;
@@ -2832,10 +2855,12 @@ WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
             r.namedDomains.assign(plan.compared.begin(), plan.compared.end());
             r.namedChoices = w.choicesWritten();
             r.namingLog = std::move(log);
+            r.naming = std::move(record);
             return r;
         }
         WriteResult r = Writer(in, opts).run();
         r.namingLog = std::move(log);
+        r.naming = std::move(record);
         return r;
     }
     Writer w(in, opts);

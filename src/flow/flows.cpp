@@ -341,21 +341,38 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     // Over the depth bound, or above the engine's gates by more than the margin, the file is
     // written again by bits (the engine's forms are read back at the engine's figures).
     std::optional<std::pair<frontend::ModuleDesc, net::Metrics>> checked;
+    double checkedSeconds = 0;   // reading back the file `checked` holds: part of the proof's time
     if (wr.changed && (!wr.namedDomains.empty() || !wr.namedChoices.empty())) {
         frontend::ModuleDesc w;
+        auto tCheck = Clock::now();
         net::Metrics m = readBack(wr.text, w);
+        checkedSeconds = since(tCheck);
         const double margin = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
                                                  : wo.minGain.value;
         const auto bound = static_cast<std::size_t>(std::max(wo.depthBound, static_cast<int>(er.after.depth)));
-        if (m.depth > bound || static_cast<double>(m.gates) > static_cast<double>(er.after.gates) + margin) {
+        const bool over = m.depth > bound || static_cast<double>(m.gates) > static_cast<double>(er.after.gates) + margin;
+        emit::NamingDecision d;
+        d.form = "written file";
+        d.kept = !over;
+        d.gates = m.gates;
+        d.depth = m.depth;
+        d.reason = over ? fmt::format("the file with names reads back at {} gates, depth {}: over the depth bound {} "
+                                      "or the engine's {} gates plus the --min-gain margin; written by bits",
+                                      m.gates, m.depth, bound, er.after.gates)
+                        : fmt::format("the file with names reads back within the depth bound {} and the engine's "
+                                      "{} gates plus the --min-gain margin", bound, er.after.gates);
+        wr.naming.decisions.push_back(d);
+        if (over) {
             wr.namingLog += fmt::format("naming: the written file reads back at {} gates, depth {} (bound {}, "
                                         "bitwise {} gates + margin): written by bits\n", m.gates, m.depth, bound,
                                         er.after.gates);
             std::string why = std::move(wr.namingLog);
+            emit::NamingRecord record = std::move(wr.naming);
             emit::WriteOptions bits = wo;
             bits.names = false;
             wr = emit::writeModule(wi, bits);
             wr.namingLog = std::move(why);
+            wr.naming = std::move(record);
             work = std::make_unique<io::WorkDir>();
         } else {
             checked.emplace(std::move(w), m);
@@ -395,9 +412,12 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         auto tProof = Clock::now();
         frontend::ModuleDesc written;
         if (checked) {
-            written = std::move(checked->first);   // read back and measured when the names were weighed
+            // Read back and measured when the names were weighed: that reading is the proof's
+            // first step, and its time is the proof's (F124).
+            written = std::move(checked->first);
             after = checked->second;
             checked.reset();
+            tProof -= std::chrono::duration_cast<Clock::duration>(std::chrono::duration<double>(checkedSeconds));
         } else {
             after = readBack(wr.text, written);
         }
@@ -624,7 +644,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         }
         nlohmann::json report = {
             {"schema", "kerf-restructure-report"},
-            {"schema_version", 1},
+            {"schema_version", 2},
             {"input", file},
             {"output", opts.diff || opts.check ? nlohmann::json(nullptr)
                                                 : nlohmann::json(outputPath.empty() ? "-" : outputPath)},
@@ -682,6 +702,25 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                    {"specialised_for", used}, {"statements_kept", p.keptMembers}});
                  }
                  return ps;
+             }()},
+            {"naming", [&] {
+                 // What the naming weighed (naming_cost.cpp): the bitwise form, the bounds a
+                 // named form keeps, and per register or target the form tried, kept or not, why.
+                 const emit::NamingRecord& n = wr.naming;
+                 nlohmann::json ds = nlohmann::json::array();
+                 for (const auto& d : n.decisions) {
+                     nlohmann::json row = {{"form", d.form}, {"signal", d.signal}, {"made", d.made},
+                                           {"kept", d.kept}, {"reason", d.reason}};
+                     if (d.made) row["after"] = {{"gates", d.gates}, {"depth", d.depth}};
+                     if (d.form == "comparisons one by one")
+                         row["rewrites"] = {{"kept", d.rewritesKept}, {"tried", d.rewritesTried}};
+                     ds.push_back(std::move(row));
+                 }
+                 if (!n.weighed) return nlohmann::json{{"weighed", false}, {"decisions", ds}};
+                 return nlohmann::json{{"weighed", true},
+                                       {"bitwise", {{"gates", n.bitwiseGates}, {"depth", n.bitwiseDepth}}},
+                                       {"bound", {{"depth", n.depthBound}, {"gates", n.gateLimit}}},
+                                       {"decisions", ds}};
              }()},
             {"seconds", {{"read", readSeconds}, {"passes", passSeconds}}}};
         stages.end();

@@ -144,7 +144,8 @@ def check_diff_case(files, top):
         if t.res.check(r4.returncode == 0 and os.path.exists(rep), f"{top}: --report written"):
             j = json.load(open(rep))
             for key in ("schema_version", "input", "output", "changed", "before", "after", "groups",
-                        "lines_replaced", "kept_as_written", "signals_added", "signals_kept", "techniques", "proof"):
+                        "lines_replaced", "kept_as_written", "signals_added", "signals_kept", "techniques", "proof",
+                        "naming"):
                 t.res.check(key in j, f"{top}: report has '{key}'")
             t.res.check(j.get("changed") == changed, f"{top}: report's 'changed' is {changed}")
     return run
@@ -625,6 +626,43 @@ def _operand_case(t, case, top):
 def _(t):
     _operand_case(t, "lzc_fn.sv", "lzc_fn")
     _operand_case(t, "credit_pad_operand.sv", "credit_pad_operand")
+
+
+@S.case("cast_operands_keep_signedness", needs=("iverilog", "verilator"))
+def _(t):
+    """F123: a kept word operator's operand the source reads through `$unsigned` keeps that
+    reading in the written text: a signed field read unsigned is `$unsigned(amt)`, an unsigned
+    one its plain name, never a braced name (`{amt}`) a reader has to decode (IEEE 1800-2017
+    11.7: a concatenation is unsigned). An operand whose bits share one shape is one vector
+    assignment. Function: Icarus Verilog (four-valued simulation); Verilator -Wall adds nothing."""
+    case, top = "shift_cast_operand.sv", "shift_cast_operand"
+    src = os.path.join("tests", "rtl", case)
+    out = os.path.join(t.work, case)
+    r = restructure(t, [src], top, out)
+    if not t.res.check(r.returncode == 0 and os.path.exists(out), f"restructure: {r.stderr[-800:]}"):
+        return
+    text = open(out).read()
+    original = open(src).read()
+    new_lines = [l for l in text.split("\n") if l not in set(original.split("\n"))]
+    t.res.check(any(re.match(r"\s*assign shifted = ", l) for l in new_lines), "the shift statement is rewritten")
+    braced = [l for l in new_lines if re.search(r"(?<!\d)\{\s*[A-Za-z_][\w.]*\s*\}", l)]
+    t.res.check(not braced, f"no operand is a single braced name: {braced[:3]}")
+    signed = {"amt", "bias"}   # declared signed in the case; read unsigned by the source
+    for l in new_lines:
+        for name in signed:
+            for m in re.finditer(r"(\$\w+\(\s*)?\b%s\b(?!\s*\[)" % name, l):
+                t.res.check(m.group(1) is not None and m.group(1).startswith("$unsigned")
+                            or l[:m.start()].rstrip().endswith(","),
+                            f"the signed field {name} is read unsigned as the source reads it: {l.strip()}")
+    per_bit = [l for l in new_lines if re.match(r"\s*assign\s+kf_\w+\[\d+\]\s*=", l)]
+    t.res.check(not per_bit, f"an operand of one shape is one vector assignment: {per_bit[:3]}")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], top, out, sim, vectors=4000)
+    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
+    ok0, w0, _ = O.lint([src], top)
+    ok1, w1, raw = O.lint([out], top)
+    t.res.check(ok0 and ok1 and w1 <= w0, f"Verilator -Wall adds no warning: {sorted(w1 - w0)} {raw[-600:]}")
 
 
 def _longest_flat_chain(expr):
@@ -1131,6 +1169,47 @@ def _summary_figures(stderr):
     return tuple(int(x) for x in m.groups()) if m else None
 
 
+def _naming_report_agrees(t, what, j, text, stderr, state, target, names, loose):
+    """--report's "naming" (schema 2): one decision per register's comparisons and per target's
+    choice, each kept exactly when its figures keep the stated bounds, and the written text
+    agrees with what the report says was kept. The proof's time counts the reading of the
+    rewrite, which it cannot do without (F124)."""
+    t.res.check(j.get("schema_version", 0) >= 2, f"{what}: report schema_version >= 2")
+    n = j.get("naming", {})
+    if not t.res.check(n.get("weighed") is True and "bound" in n and "bitwise" in n,
+                       f"{what}: the report says the names were weighed, with the bounds: {n}"):
+        return
+    bound = n["bound"]
+    by = {(d["form"], d["signal"]): d for d in n["decisions"]}
+    comp, choice = by.get(("comparisons", state)), by.get(("choice", target))
+    t.res.check(comp is not None and choice is not None,
+                f"{what}: a decision for the comparisons of {state} and the choice for {target}: {sorted(by)}")
+    for d in n["decisions"]:
+        if d["form"] in ("comparisons", "choice") and d["made"]:
+            within = d["after"]["depth"] <= bound["depth"] and d["after"]["gates"] <= bound["gates"]
+            t.res.check(d["kept"] == within and d["reason"],
+                        f"{what}: {d['form']} of {d['signal']} kept exactly when within the bounds {bound}: {d}")
+    if choice is not None:
+        values = re.findall(r"\b" + target + r"\s*=(?!=)([^;]*);", text)
+        chosen = {v for val in values for v in re.findall(r"\b[A-Z_][A-Z0-9_]*\b", val)} & set(names)
+        written_as_choice = len(chosen) >= 3 and re.search(r"\b" + target + r"\s*\[", text) is None
+        t.res.check(choice["kept"] == written_as_choice,
+                    f"{what}: the report's choice for {target} (kept {choice['kept']}) is what the file writes")
+        if loose:
+            t.res.check(choice["kept"], f"{what}: with loose bounds the choice is kept: {choice}")
+    final = by.get(("written file", ""))
+    if t.res.check(final is not None, f"{what}: the read-back check of the written file is recorded"):
+        t.res.check(not final["kept"] or final["after"]["gates"] == j["after"]["gates"],
+                    f"{what}: the written file's figures are the report's after: {final} {j['after']}")
+    readers = [s["seconds"] for s in j.get("stages", []) if s.get("stage") == "reader (rewrite)"]
+    secs = j.get("proof", {}).get("seconds")
+    t.res.check(readers and secs is not None and secs >= readers[-1],
+                f"{what}: the proof's {secs} s include reading the rewrite back ({readers[-1:]} s)")
+    m = re.search(r"proved equivalent in ([0-9.]+) s", stderr)
+    t.res.check(m is not None and secs is not None and abs(float(m.group(1)) - secs) < 0.006,
+                f"{what}: the summary's proof time is the report's ({m and m.group(0)}, {secs})")
+
+
 def _named_values_case(t, case, top, state, target, names, bits_allowed):
     """Issue 10 (named constants), at the cost the goal allows (F97, F99): logic over a
     register the source only compares with names is written with those names where that keeps
@@ -1150,9 +1229,12 @@ def _named_values_case(t, case, top, state, target, names, bits_allowed):
         sub = os.path.join(d, label)
         os.mkdir(sub)
         out = os.path.join(sub, case)
-        r = restructure(t, [src], top, out, *extra)
+        rep = os.path.join(sub, "report.json")
+        r = restructure(t, [src], top, out, "--report", rep, *extra)
         if not t.res.check(r.returncode == 0, f"{top} ({label}): restructure: {r.stderr[-800:]}"):
             return
+        _naming_report_agrees(t, f"{top} ({label})", json.load(open(rep)), open(out).read(), r.stderr, state, target,
+                              names, loose=label == "loose")
         source_lines = set(open(src).read().split("\n"))
         written = [l for l in open(out).read().split("\n") if l not in source_lines and not l.strip().startswith("//")]
         text = "\n".join(written)

@@ -52,6 +52,30 @@ struct StatementGroup {
     std::string reason;                       ///< why it was kept as written (empty when replaced)
 };
 
+/// One named form the writer weighed against the bitwise form (naming_cost.cpp): for
+/// `--report`'s "naming" list and -v's `naming:` lines.
+struct NamingDecision {
+    /// "comparisons" (a register's functions as comparisons with its names, all at once),
+    /// "comparisons one by one" (the same, each rewrite on its own), "choice" (a target as one
+    /// choice among names), "written file" (the file as read back, checked by the flow).
+    std::string form;
+    std::string signal;           ///< the register or target ("" for the written file)
+    bool made = true;             ///< false: no such form exists (a choice no name covers)
+    bool kept = false;            ///< written by name
+    std::size_t gates = 0, depth = 0;   ///< figures of the whole module with this form
+    std::size_t rewritesKept = 0, rewritesTried = 0;   ///< "comparisons one by one"
+    std::string reason;           ///< why kept or not: the bound or margin it keeps or breaks
+};
+
+/// What the naming weighed: the bitwise form, the bounds a named form must keep, each decision.
+struct NamingRecord {
+    bool weighed = false;         ///< the module has registers of named values
+    std::size_t bitwiseGates = 0, bitwiseDepth = 0;
+    std::size_t depthBound = 0;   ///< the goal's depth bound (or the bitwise form's depth)
+    double gateLimit = 0;         ///< bitwise gates plus the --min-gain margin
+    std::vector<NamingDecision> decisions;
+};
+
 struct WriteResult {
     std::string text;             ///< the whole rewritten file
     std::string file;             ///< the file it replaces
@@ -75,6 +99,7 @@ struct WriteResult {
     std::vector<std::string> namedDomains, namedChoices;
     /// What the naming weighed (one line per item), for -v.
     std::string namingLog;
+    NamingRecord naming;
 };
 
 /// What the writer needs besides the module description.
