@@ -486,6 +486,20 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
 
 /// Within an AND (or OR) of bits of one vector, consecutive bits become one
 /// comparison with a constant: `v[5:2] == 4'h0` (or `v[5:2] != 4'hf` in an OR).
+std::string complementedCompare(const std::string& text) {
+    if (text.size() > 1 && text[0] == '~' && (text[1] == '|' || text[1] == '&')) return text.substr(1);
+    if (!text.empty() && (text[0] == '|' || text[0] == '&')) return "~" + text;
+    std::string t = text;
+    std::size_t at = t.find(" != ");
+    if (at == std::string::npos) {
+        at = t.find(" == ");
+        if (at != std::string::npos) t.replace(at, 4, " != ");
+    } else {
+        t.replace(at, 4, " == ");
+    }
+    return t;
+}
+
 void ExprBuilder::groupSlices(PExpr& e) {
     if (e.kind != PExpr::Kind::And && e.kind != PExpr::Kind::Or) return;
     std::map<std::string, std::vector<std::size_t>> bySignal;
@@ -521,8 +535,18 @@ void ExprBuilder::groupSlices(PExpr& e) {
                 }
                 PExpr c;
                 c.kind = PExpr::Kind::Compare;
-                c.text = fmt::format("{} {} {}", sliceText(r0, lo, hi), isAnd ? "==" : "!=",
-                                     constantName(r0, lo, hi, bits, c.constant).value_or(constText(static_cast<int>(len), bits)));
+                const bool allOne = std::all_of(bits.begin(), bits.end(), [](int b) { return b == 1; });
+                const bool allZero = std::all_of(bits.begin(), bits.end(), [](int b) { return b == 0; });
+                if (reduced_ && reduced_->count(r0.signal) && (allOne || allZero)) {
+                    // A signal the source reduces: `|v[7:4]`, `~|v`, `&v`, `~&v` (reductions.cpp).
+                    // AND, all 1: &s; AND, all 0: ~|s; OR, all 0 (any 1): |s; OR, all 1 (any 0): ~&s.
+                    const char* op = isAnd ? (allOne ? "&" : "~|") : (allZero ? "|" : "~&");
+                    c.text = std::string(op) + sliceText(r0, lo, hi);
+                } else {
+                    c.text = fmt::format("{} {} {}", sliceText(r0, lo, hi), isAnd ? "==" : "!=",
+                                         constantName(r0, lo, hi, bits, c.constant)
+                                             .value_or(constText(static_cast<int>(len), bits)));
+                }
                 c.rank = e.kids[idx[s]].rank;
                 c.sliceSignal = r0.signal;
                 c.sliceLo = lo;
@@ -549,12 +573,7 @@ void ExprBuilder::groupSlices(PExpr& e) {
     e.kids = std::move(kids);
     if (e.kids.size() == 1) {
         PExpr only = std::move(e.kids[0]);
-        if (e.neg) {
-            // ~(v != K) reads as v == K.
-            std::size_t at = only.text.find(" != ");
-            if (at == std::string::npos) at = only.text.find(" == "), only.text.replace(at, 4, " != ");
-            else only.text.replace(at, 4, " == ");
-        }
+        if (e.neg) only.text = complementedCompare(only.text);   // ~(v != K) reads as v == K
         e = std::move(only);
     }
 }
@@ -568,6 +587,10 @@ void collectConstants(const PExpr& e, std::set<int>& out) {
 
 namespace {
 
+bool isReductionText(const std::string& t) {
+    return !t.empty() && (t[0] == '|' || t[0] == '&' || (t[0] == '~' && t.size() > 1 && (t[1] == '|' || t[1] == '&')));
+}
+
 void appendFlat(std::string& out, const PExpr& e) {
     switch (e.kind) {
     case PExpr::Kind::Zero: out += "1'b0"; return;
@@ -577,6 +600,10 @@ void appendFlat(std::string& out, const PExpr& e) {
         out += e.text;
         return;
     case PExpr::Kind::Compare:
+        if (e.neg && isReductionText(e.text)) {
+            out += complementedCompare(e.text);
+            return;
+        }
         if (e.neg) out += "~(";
         out += e.text;
         if (e.neg) out += ')';

@@ -62,8 +62,11 @@ class ExprBuilder {
 public:
     /// `refs[v]`: how variable v is named, or empty when its form is written inline;
     /// `forms[v]`: the factored form of logic variable v.
-    ExprBuilder(const std::vector<std::optional<VarRef>>& refs, const std::vector<algebra::Factored>& forms)
-        : refs_(refs), forms_(forms) {}
+    /// `reduced`: signals the source reduces (`|v`); an OR (AND) of all bits of a slice of one
+    /// is written as that reduction (reductions.cpp), not as a comparison with a constant.
+    ExprBuilder(const std::vector<std::optional<VarRef>>& refs, const std::vector<algebra::Factored>& forms,
+                const std::set<std::string>* reduced = nullptr)
+        : refs_(refs), forms_(forms), reduced_(reduced) {}
 
     /// The expression for a literal (a name, its complement, or an inline form).
     PExpr literal(algebra::Literal l);
@@ -84,6 +87,7 @@ private:
 
     const std::vector<std::optional<VarRef>>& refs_;
     const std::vector<algebra::Factored>& forms_;
+    const std::set<std::string>* reduced_ = nullptr;
     std::unordered_map<const algebra::Factored*, int> memo_[2];
     /// Sums regrouped so that each exclusive-or pair is one term (xorGrouped), kept alive
     /// here because the memo above is keyed by address.
@@ -93,6 +97,10 @@ private:
 
 /// Adds to `out` the named constants (ModuleDesc::constants indices) that `e` names.
 void collectConstants(const PExpr& e, std::set<int>& out);
+
+/// The text of a comparison or reduction `text` complemented: `v == K` <-> `v != K`,
+/// `|v` <-> `~|v`, `&v` <-> `~&v`.
+std::string complementedCompare(const std::string& text);
 
 /// Flat text of an expression (no line breaks).
 std::string flatText(const PExpr& e);

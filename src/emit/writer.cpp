@@ -26,6 +26,7 @@
 #include "comments.h"
 #include "expression.h"
 #include "named_values.h"
+#include "reductions.h"
 #include "kerf/frontend/references.h"
 #include "kerf/io/files.h"
 
@@ -485,6 +486,7 @@ private:
     std::map<std::string, std::string> resultName_;   ///< word result -> the author's signal that is exactly it
     std::map<std::string, std::string> inlined_;      ///< generated operand -> its inline concatenation
     bool inlinedDone_ = false;
+    std::set<std::string> reduced_;   ///< signals the source reduces (reductions.cpp), written `|v`
     bool unorderable_ = false;   ///< no name left to withdraw to break a loop between statements
     /// Per member: the bits of module signals its text reads, and the signals it reads whole
     /// (originalReads); filled on first use.
@@ -855,7 +857,7 @@ void Writer::chooseWires() {
         refs_[v] = r;
     }
     // Polarity: a wire used mostly inverted is stored inverted.
-    ExprBuilder eb(refs_, forms_);
+    ExprBuilder eb(refs_, forms_, &reduced_);
     for (NodeId v : wires_) {
         int asIs = eb.inversions(v, false) + static_cast<int>(negUses[v]);
         int inverted = eb.inversions(v, true) + static_cast<int>(posUses[v]);
@@ -913,7 +915,7 @@ void Writer::nameWires() {
     if (wires_.empty()) return;
     // Longest name made from what a wire combines; longer ones take the output's name and an index.
     constexpr std::size_t kMaxDescriptiveName = 28;
-    ExprBuilder eb(refs_, forms_);
+    ExprBuilder eb(refs_, forms_, &reduced_);
     std::set<std::string> used = taken_;
     std::vector<std::string> names(wires_.size());
     std::map<NodeId, std::size_t> wireIndex;
@@ -932,6 +934,21 @@ void Writer::nameWires() {
         std::string name;
         auto part = [&](const PExpr& p) -> std::string {
             if (p.kind == PExpr::Kind::Ref && p.text[0] != '$') return (p.neg ? "n" : "") + fragment(p.text);
+            if (p.kind == PExpr::Kind::Compare && !p.text.empty() && p.text.find(' ') == std::string::npos) {
+                // A reduction: "|live[3:2]" -> "any_live_3_2", "~|v" -> "no_v", "&v" -> "all_v",
+                // "~&v" -> "not_all_v".
+                std::string t = p.neg ? complementedCompare(p.text) : p.text;
+                bool neg = t[0] == '~';
+                if (neg) t.erase(0, 1);
+                if (t.empty() || (t[0] != '|' && t[0] != '&')) return "";
+                const char op = t[0];
+                std::string f;
+                for (char c : t.substr(1)) {
+                    if (c == '{') return "";
+                    if (c != ']') f += (c == '[' || c == ':' || c == '.') ? '_' : c;
+                }
+                return std::string(op == '|' ? (neg ? "no_" : "any_") : (neg ? "not_all_" : "all_")) + f;
+            }
             if (p.kind == PExpr::Kind::Compare) {
                 // "paddr[5:2] == 4'h0" -> "paddr_5_2_is_0"
                 std::string lhs = p.text.substr(0, p.text.find(' '));
@@ -1736,7 +1753,7 @@ void Writer::collectRefs(const PExpr& e, std::set<std::string>& out) const {
 }
 
 PExpr Writer::outputExpr(std::size_t i) {
-    ExprBuilder eb(refs_, forms_);
+    ExprBuilder eb(refs_, forms_, &reduced_);
     Literal d = net_.outputs()[i].driver;
     NodeId v = literalVar(d);
     if (definer_[v] == static_cast<int>(i)) return eb.definition(v, literalNegated(d));
@@ -1785,7 +1802,7 @@ void Writer::planChoices() {
 
 PExpr Writer::choiceExpr(const std::string& signal) {
     const auto& [vc, bits] = choices_.at(signal);
-    ExprBuilder eb(refs_, forms_);
+    ExprBuilder eb(refs_, forms_, &reduced_);
     auto name = [&](const ValueChoice::Link& link) {
         PExpr e;
         e.kind = PExpr::Kind::Ref;
@@ -1990,7 +2007,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                         PExpr c;
                         bool flip = false;
                         if (cond != 0) {
-                            ExprBuilder eb(refs_, forms_);
+                            ExprBuilder eb(refs_, forms_, &reduced_);
                             bool here = false, alias = false;
                             for (std::size_t q = k; q <= last; ++q) {
                                 here = here || definer_[cond] == static_cast<int>(idx[q]);
@@ -2388,7 +2405,7 @@ std::string Writer::operationText(const frontend::WordOp& w) {
 }
 
 std::string Writer::wireBlock(int g, const std::string& ind) {
-    ExprBuilder eb(refs_, forms_);
+    ExprBuilder eb(refs_, forms_, &reduced_);
     std::string out;
     // The word operations of this group (formGroups), with their generated operands.
     auto inGroup = [&](std::size_t k) { return opGroup_[k] == g; };
@@ -2533,6 +2550,7 @@ WriteResult Writer::run() {
         res.text = src_;
         return res;
     }
+    reduced_ = reducedSignals(m_);
     indexMembers();
     indexOutputs();
     inputRefs_.assign(net_.nodeCount(), VarRef{});
@@ -2829,7 +2847,50 @@ WriteResult Writer::run() {
 }
 } // namespace
 
+namespace {
+WriteResult writeNamed(const WriteInput& in, const WriteOptions& opts, NamingRecord record, std::string log);
+} // namespace
+
 WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
+    // A reduction the source assigns whole stays whole unless its fragments save the margin
+    // (reductions.cpp): on a copy of the network, before the names are weighed on it.
+    NamingRecord record;
+    std::string log;
+    std::vector<SourceReduction> reductions = sourceReductions(*in.module);
+    if (!reductions.empty()) {
+        WrittenFigures base = writtenFigures(*in.network, *in.forms, {});
+        ReductionBudget budget;
+        budget.depthBound = opts.depthBound >= 0 ? static_cast<std::size_t>(opts.depthBound) : base.depth;
+        budget.gateMargin = opts.minGain.percent ? opts.minGain.value * static_cast<double>(base.gates) / 100.0
+                                                 : opts.minGain.value;
+        net::Network net = *in.network;
+        std::vector<algebra::Factored> forms = *in.forms;
+        if (keepReductionsWhole(reductions, *in.lowered, net, forms, budget, record, &log) > 0) {
+            WriteInput copy = in;
+            copy.network = &net;
+            copy.forms = &forms;
+            return writeNamed(copy, opts, std::move(record), std::move(log));
+        }
+    }
+    return writeNamed(in, opts, std::move(record), std::move(log));
+}
+
+namespace {
+WriteResult writeNamed(const WriteInput& in, const WriteOptions& opts, NamingRecord reductionRecord,
+                       std::string reductionLog) {
+    auto finish = [&](WriteResult r, NamingRecord rec, std::string log) {
+        if (!rec.weighed && reductionRecord.weighed) {
+            // Only reductions were weighed: their figures are the record's.
+            std::vector<NamingDecision> own = std::move(rec.decisions);
+            rec = reductionRecord;
+            rec.decisions.clear();
+            rec.decisions.insert(rec.decisions.end(), own.begin(), own.end());
+        }
+        rec.decisions.insert(rec.decisions.begin(), reductionRecord.decisions.begin(), reductionRecord.decisions.end());
+        r.naming = std::move(rec);
+        r.namingLog = reductionLog + log;
+        return r;
+    };
     // Registers the source only names are written by their names (named_values.cpp) where
     // that keeps the goal's depth bound and the --min-gain margin of the bitwise form
     // (naming_cost.cpp): on a copy of the network, so the caller's forms stay the engine's.
@@ -2854,17 +2915,12 @@ WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
             WriteResult r = w.run();
             r.namedDomains.assign(plan.compared.begin(), plan.compared.end());
             r.namedChoices = w.choicesWritten();
-            r.namingLog = std::move(log);
-            r.naming = std::move(record);
-            return r;
+            return finish(std::move(r), std::move(record), std::move(log));
         }
-        WriteResult r = Writer(in, opts).run();
-        r.namingLog = std::move(log);
-        r.naming = std::move(record);
-        return r;
+        return finish(Writer(in, opts).run(), std::move(record), std::move(log));
     }
-    Writer w(in, opts);
-    return w.run();
+    return finish(Writer(in, opts).run(), NamingRecord{}, std::string());
 }
+} // namespace
 
 } // namespace kerf::emit

@@ -665,6 +665,49 @@ def _(t):
     t.res.check(ok0 and ok1 and w1 <= w0, f"Verilator -Wall adds no warning: {sorted(w1 - w0)} {raw[-600:]}")
 
 
+@S.case("reduction_stays_whole", needs=("iverilog", "verilator"))
+def _(t):
+    """A reduction the source wrote (`assign any_req = |req;`) stays that statement, byte for
+    byte, while the statements beside it are rewritten, unless its fragments save the
+    --min-gain margin; the report says which and why. Where fragments are written (--min-gain
+    0 states that one gate is worth it), a fragment of a signal the source reduces is written
+    as a reduction (`|req[7:6]`), never as a comparison with zero. Function: Icarus Verilog
+    (four-valued simulation); Verilator -Wall adds nothing."""
+    case, top = "req_summary.sv", "req_summary"
+    src = os.path.join("tests", "rtl", case)
+    original = open(src).read()
+    source_line = next(l for l in original.split("\n") if re.match(r"\s*assign any_req\b", l))
+    for label, extra, whole in (("default", (), True), ("min_gain_0", ("--min-gain", "0"), False)):
+        d = os.path.join(t.work, label)
+        os.mkdir(d)
+        out, rep = os.path.join(d, case), os.path.join(d, "report.json")
+        r = restructure(t, [src], top, out, "--report", rep, *extra)
+        if not t.res.check(r.returncode == 0 and os.path.exists(out), f"{label}: restructure: {r.stderr[-800:]}"):
+            return
+        text = open(out).read()
+        t.res.check(text != original, f"{label}: the statements beside the reduction are rewritten")
+        lines = text.split("\n")
+        t.res.check((source_line in lines) == whole,
+                    f"{label}: `{source_line.strip()}` {'stays as written' if whole else 'is rewritten'}")
+        new_lines = [l for l in lines if l not in set(original.split("\n")) and not l.strip().startswith("//")]
+        zero_compares = [l for l in new_lines if re.search(r"\breq(\[\d+(:\d+)?\])?\s*(==|!=)\s*\d+'[bh]0+\b", l)]
+        t.res.check(not zero_compares, f"{label}: bits of req are reduced as the source does: {zero_compares[:3]}")
+        if not whole:
+            t.res.check(any(re.search(r"\|req\[\d+:\d+\]", l) for l in new_lines),
+                        f"{label}: a fragment of the reduction is written `|req[h:l]`:\n" + "\n".join(new_lines))
+        j = json.load(open(rep))
+        dec = [x for x in j.get("naming", {}).get("decisions", []) if x["form"] == "whole reduction"]
+        t.res.check(len(dec) == 1 and dec[0]["signal"] == "any_req" and dec[0]["kept"] == whole and dec[0]["reason"],
+                    f"{label}: the report records the reduction written {'whole' if whole else 'by fragments'}: {dec}")
+        sim = os.path.join(d, "sim")
+        os.mkdir(sim)
+        ok, log, _ = K.simulate_equal(t.root, [src], top, out, sim, vectors=4000)
+        t.res.check(ok, f"{label}: the rewrite simulates like the input (Icarus Verilog): {log}")
+        ok0, w0, _ = O.lint([src], top)
+        ok1, w1, raw = O.lint([out], top)
+        t.res.check(ok0 and ok1 and w1 <= w0, f"{label}: Verilator -Wall adds no warning: {sorted(w1 - w0)} {raw[-600:]}")
+
+
 def _longest_flat_chain(expr):
     """The most operands any one parenthesis level of `expr` joins with one operator."""
     counts, best = [1], 1

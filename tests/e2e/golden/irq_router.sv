@@ -41,16 +41,16 @@ module irq_router #(
 `endif
     end
   endgenerate
-  wire live_3_2_not_00 = live[3:2] != 2'b00;
-  wire live_1_0_is_00 = live[1:0] == 2'b00;
-  wire irq_out_t0 = (live[5:4] == 2'b00) | live_3_2_not_00;
+  wire any_live_3_2 = |live[3:2];
+  wire no_live_1_0 = ~|live[1:0];
+  wire no_live_5_4_or_any_live_3_2 = (~|live[5:4]) | any_live_3_2;
   wire live_4_3_not_10 = live[4:3] != 2'b10;
   wire src_id0_t0 = live[1] | (~live[2] & live_4_3_not_10);
-  assign irq_out = ~(irq_out_t0 & src_id[2]);
+  assign irq_out = ~(no_live_5_4_or_any_live_3_2 & src_id[2]);
 
   always_comb begin
     src_id[0] = ~live[0] & src_id0_t0;
-    src_id[1] = live_1_0_is_00 & irq_out_t0;
-    src_id[2] = ~live_3_2_not_00 & live_1_0_is_00;
+    src_id[1] = no_live_1_0 & no_live_5_4_or_any_live_3_2;
+    src_id[2] = ~any_live_3_2 & no_live_1_0;
   end
 endmodule
