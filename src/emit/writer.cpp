@@ -1245,6 +1245,7 @@ bool Writer::checkCycles() {
     };
     std::vector<std::vector<Edge>> adj(keptBase + keptOfNode.size());
     std::set<std::string> selfRefs;
+    std::set<std::string> operandSelfRefs;   // names read by an operand's assignment, written with the operation
     std::set<int> replacedNow;   // members of the groups rewritten this round (filled when needed)
     auto writerOf = [&](const std::string& name) -> long {
         if (auto w = wordNode.find(name); w != wordNode.end()) return static_cast<long>(w->second);
@@ -1272,14 +1273,22 @@ bool Writer::checkCycles() {
         if (sameAs_.count(w.result)) continue;
         long from = resultName_.count(w.result) ? writerOf(resultName_.at(w.result)) : writerOf(w.result);
         if (from < 0) continue;
+        // `viaWire`: the name is read by a generated operand's own assignment, a statement apart
+        // from the one computing the operation; reading what that statement writes is a loop
+        // between the two (F138: `assign kf_w11_b = {3'b000, w2[0] & q0};` beside a block that
+        // writes w2 and computes `w2b = ... * kf_w11_b`).
+        bool viaWire = false;
         auto edge = [&](const std::string& n) {
             std::string name = n;
             if (auto same = sameAs_.find(name); same != sameAs_.end()) name = same->second;
             if (auto named = resultName_.find(name); named != resultName_.end()) name = named->second;
-            for (long t : writersOf(name))
+            for (long t : writersOf(name)) {
                 if (t != from) adj[static_cast<std::size_t>(from)].push_back({static_cast<std::size_t>(t), name, true});
+                else if (viaWire) operandSelfRefs.insert(name);
+            }
         };
         for (const auto& o : w.operands) {
+            viaWire = o.generated;
             if (!o.generated) {
                 edge(o.name);
                 continue;
@@ -1345,6 +1354,7 @@ bool Writer::checkCycles() {
             for (long t : writersOf(r))
                 if (static_cast<std::size_t>(t) != from) adj[from].push_back({static_cast<std::size_t>(t), "", false});
     }
+    selfRefs.insert(operandSelfRefs.begin(), operandSelfRefs.end());
     if (!selfRefs.empty()) {
         bool any = false;
         for (std::size_t i = 0; i < outs_.size(); ++i)
