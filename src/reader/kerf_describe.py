@@ -1227,15 +1227,23 @@ class Describer:
         return m
 
     @staticmethod
+    def events_of(timing):
+        """The events of an event control (`@(a or posedge b)`: two), or None when it is not a
+        list of events (a delay, `@*`)."""
+        TK = ast.TimingControlKind
+        if timing.kind == TK.SignalEvent:
+            return [timing]
+        if timing.kind == TK.EventList:
+            return list(timing.events)
+        return None
+
+    @staticmethod
     def level_events(timing):
         """The signal names of an event control that lists whole signals without edges
         (`@(a or b)`, `@(a, b)`); None for anything else (an edge, `iff`, a select)."""
         TK = ast.TimingControlKind
-        if timing.kind == TK.SignalEvent:
-            events = [timing]
-        elif timing.kind == TK.EventList:
-            events = list(timing.events)
-        else:
+        events = Describer.events_of(timing)
+        if events is None:
             return None
         names = set()
         for ev in events:
@@ -1249,14 +1257,9 @@ class Describer:
     def edge_events(timing):
         """True when an event control waits for an edge (`@(posedge clk)`, `@(negedge rst_n or
         posedge clk)`): what the block writes changes only at that edge."""
-        TK = ast.TimingControlKind
-        if timing.kind == TK.SignalEvent:
-            events = [timing]
-        elif timing.kind == TK.EventList:
-            events = list(timing.events)
-        else:
-            return False
-        return any(ev.kind == TK.SignalEvent and ev.edge != ast.EdgeKind.None_ for ev in events)
+        events = Describer.events_of(timing) or []
+        return any(ev.kind == ast.TimingControlKind.SignalEvent and ev.edge != ast.EdgeKind.None_
+                   for ev in events)
 
     def procedural_member(self, sym):
         syn = self.member_syntax(sym)
