@@ -324,6 +324,15 @@ const Factored* ExprBuilder::xorGrouped(const Factored& f) {
     return out;
 }
 
+const Factored& ExprBuilder::choiceArm(const Factored& f, std::size_t kid, std::size_t drop) {
+    // f's AND `kid` without the select; at most one per (f, kid), so the address stays the form's.
+    auto& arms = armOf_[kid];
+    if (auto it = arms.find(&f); it != arms.end()) return *it->second;
+    regrouped_.push_back(without(f.kids[kid], drop));
+    arms[&f] = &regrouped_.back();
+    return regrouped_.back();
+}
+
 int ExprBuilder::cost(const Factored& f, bool neg) {
     if (const Factored* g = xorGrouped(f)) return cost(*g, neg);
     auto& memo = memo_[neg ? 1 : 0];
@@ -420,8 +429,8 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
     if (!compares && muxShape(f, sel, thenKid, sThen, sElse)) {
         e.kind = PExpr::Kind::Mux;
         PExpr s = buildLit(sel);
-        PExpr a = build(without(f.kids[thenKid], sThen), neg);
-        PExpr b = build(without(f.kids[1 - thenKid], sElse), neg);
+        PExpr a = build(choiceArm(f, thenKid, sThen), neg);
+        PExpr b = build(choiceArm(f, 1 - thenKid, sElse), neg);
         if (s.neg && s.atomic()) {
             // The name holds the complement: select on it and swap the branches.
             s.neg = false;

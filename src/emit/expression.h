@@ -84,15 +84,18 @@ private:
     std::vector<std::uint8_t> sliceKids(const algebra::Factored& f) const;
     bool comparisons(const algebra::Factored& f) const;
     const algebra::Factored* xorGrouped(const algebra::Factored& f);
+    const algebra::Factored& choiceArm(const algebra::Factored& f, std::size_t kid, std::size_t drop);
 
     const std::vector<std::optional<VarRef>>& refs_;
     const std::vector<algebra::Factored>& forms_;
     const std::set<std::string>* reduced_ = nullptr;
     std::unordered_map<const algebra::Factored*, int> memo_[2];
-    /// Sums regrouped so that each exclusive-or pair is one term (xorGrouped), kept alive
-    /// here because the memo above is keyed by address.
+    /// Forms made from others — sums regrouped so that each exclusive-or pair is one term
+    /// (xorGrouped), the arms of a choice (choiceArm) — kept alive here because the memos are
+    /// keyed by address: a form that died could hand its entry to a new one at its address.
     std::deque<algebra::Factored> regrouped_;
     std::unordered_map<const algebra::Factored*, const algebra::Factored*> regroupedOf_;
+    std::unordered_map<const algebra::Factored*, const algebra::Factored*> armOf_[2];
 };
 
 /// Adds to `out` the named constants (ModuleDesc::constants indices) that `e` names.
