@@ -540,6 +540,17 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
             if (bit(key.second, r)) ++on, row = r;
         if (on == 1) single.emplace(std::pair{key.first, row}, u);
     }
+    auto isValueTerm = [&](const Factored& term, std::size_t D, std::size_t r) {
+        const int w = domains[D].width;
+        if (term.kind != Factored::Kind::And || term.kids.size() != static_cast<std::size_t>(w)) return false;
+        for (int k = w; k-- > 0;) {
+            const Factored& l = term.kids[static_cast<std::size_t>(w - 1 - k)];
+            if (l.kind != Factored::Kind::Lit ||
+                l.lit != makeLiteral(bitVar[D][static_cast<std::size_t>(k)], !((r >> k) & 1)))
+                return false;
+        }
+        return true;
+    };
     for (const auto& [key, v] : named) {
         Factored& form = forms[v];
         if (form.kind != Factored::Kind::Or) continue;
@@ -560,10 +571,20 @@ std::size_t nameDomainFunctions(const std::vector<NamedDomain>& domains, const f
             cover.cubes.push_back(Cube(lits));
         }
         if (!changed) continue;
-        // Terms in value order, as the form was built.
+        // Terms in value order, as namedForm built a sum of values: one whole-signal minterm per
+        // value. A form of another shape (a single exclusion `s != V` is an OR of bits) is left
+        // as it is.
+        std::size_t t = 0;
+        bool perValue = true;
+        for (std::size_t r = 0; r < rowsOf(D) && perValue; ++r) {
+            if (!bit(key.second, r)) continue;
+            perValue = t < form.kids.size() && isValueTerm(form.kids[t], D, r);
+            ++t;
+        }
+        if (!perValue || t != form.kids.size()) continue;
         Factored f;
         f.kind = Factored::Kind::Or;
-        std::size_t t = 0;
+        t = 0;
         for (std::size_t r = 0; r < rowsOf(D); ++r) {
             if (!bit(key.second, r)) continue;
             auto it = single.find({D, r});
