@@ -1248,6 +1248,10 @@ SourceLoc ModuleDesc::locate(const Member& mem, std::uint32_t start) const {
 
 ModuleDesc parseDescription(std::string_view text) {
     DescriptionBuilder b;
+    // The JSON parser takes a NUL byte for the end of its input and would read a description
+    // followed by a NUL and anything at all as whole (F147); JSON allows a NUL nowhere.
+    if (auto nul = text.find('\0'); nul != std::string_view::npos)
+        invalid(fmt::format("not valid JSON at byte {} (a NUL byte, which JSON allows nowhere)", nul + 1));
     try {
         Sax sax([&](int table, json& e) { b.element(table, e); });
         json::sax_parse(text.begin(), text.end(), &sax);

@@ -264,6 +264,27 @@ def _(t):
     expect_failure(t, ["samples/uart_regsel.v"], [], 5, r"the Verilog reader's output cannot be read", env_extra=env)
 
 
+@S.case("reader_output_damaged_anywhere")
+def _(t):
+    """The description cut short, or with a NUL byte (allowed nowhere in JSON), at places spread
+    over it: every one is refused as kerf's bug (exit 5), the message giving the byte where the
+    damage is, nothing written. The last cases put the NUL after the closing brace, where a
+    parser that takes NUL for the end of its input would read a whole description (F147)."""
+    log = os.path.join(t.work, "damage.log")
+    for damage in ("cut:0", "nul:1", "cut:0.13", "nul:0.29", "cut:0.41", "nul:0.58", "cut:0.77", "nul:0.9",
+                   "cut:-2", "nul:-2", "nul:-1"):
+        if os.path.exists(log):
+            os.remove(log)
+        env = dict(real_reader(t), KERF_READER=os.path.join(t.root, BAD, "fake_reader_damaged.py"),
+                   KERF_DAMAGE=damage, KERF_DAMAGE_LOG=log)
+        r = expect_failure(t, ["samples/uart_regsel.v"], [], 5, r"the Verilog reader's output cannot be read",
+                           env_extra=env)
+        at = int(open(log).read().split()[0])
+        where = re.search(r"not valid JSON at byte (\d+)", r.stderr)
+        t.res.check(where is not None and int(where.group(1)) == at + 1,
+                    f"{damage}: the message gives the damaged byte {at + 1}: {r.stderr[-600:]}")
+
+
 @S.case("rewrite_wrong_is_internal_error")
 def _(t):
     """kerf's own rewrite failing its proof is kerf's bug (exit 5), with the evidence kept."""

@@ -88,3 +88,21 @@ TEST(FrontendMalformed, ReferenceWithoutSignalIsAnExceptionNotAnOutOfBoundsRead)
     EXPECT_NE(why, "");
     EXPECT_EQ(why.find("format version"), std::string::npos) << why;
 }
+
+// F147: the JSON parser takes a NUL byte for the end of its input, so a whole description
+// followed by a NUL and more was read as if the rest were not there.
+TEST(FrontendMalformed, NulByteAnywhereIsRefusedWithItsPlace) {
+    const std::string good = slurp(corpusDir() / "two_drivers.json");
+    ASSERT_NO_THROW(kerf::frontend::parseDescription(good));
+    const std::size_t end = good.find_last_of('}') + 1;
+    for (std::size_t at : {std::size_t{0}, good.size() / 3, end - 1, end}) {
+        std::string bad = good.substr(0, at) + std::string(1, '\0') + good.substr(at);
+        try {
+            kerf::frontend::parseDescription(bad);
+            ADD_FAILURE() << "a NUL before byte " << at << " was read without complaint";
+        } catch (const kerf::Error& e) {
+            EXPECT_EQ(e.code(), kerf::ExitCode::Internal);
+            EXPECT_NE(std::string(e.what()).find("at byte " + std::to_string(at + 1)), std::string::npos) << e.what();
+        }
+    }
+}
