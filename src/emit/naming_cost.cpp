@@ -219,7 +219,7 @@ NamingPlan chooseNaming(const std::vector<NamedDomain>& domains, const frontend:
         (choice ? trial.chosen : trial.compared).insert(signal);
         NamedResult r = applyNaming(trial, domains, m, low, net, forms);
         bool made = !choice || std::any_of(r.choices.begin(), r.choices.end(),
-                                           [&](const PlannedChoice& c) { return c.signal == signal; });
+                                           [&signal = signal](const PlannedChoice& c) { return c.signal == signal; });
         bool ok = made && within(r.figures);
         if (log)
             *log += "naming: " + std::string(choice ? "choice for " : "comparisons of ") + signal + ": " +
