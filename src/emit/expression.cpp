@@ -15,6 +15,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <functional>
 #include <map>
 #include <numeric>
 
@@ -28,6 +29,12 @@ using algebra::negateLiteral;
 using K = Factored::Kind;
 
 namespace {
+
+/// A reduction's text: `|v`, `&v[3:0]`, `^v`, `~|v`, `~&v`, `~^v`.
+bool isReductionText(const std::string& t) {
+    auto op = [](char c) { return c == '|' || c == '&' || c == '^'; };
+    return !t.empty() && (op(t[0]) || (t[0] == '~' && t.size() > 1 && op(t[1])));
+}
 
 /// Is f the sum x & ~y | ~x & y (or x & y | ~x & ~y) of two variables?
 bool xorShape(const Factored& f, Literal& x, Literal& y, bool& inverted) {
@@ -48,6 +55,12 @@ bool xorShape(const Factored& f, Literal& x, Literal& y, bool& inverted) {
     inverted = literalNegated(a1) == literalNegated(b1);
     return true;
 }
+
+} // namespace
+
+bool xorForm(const Factored& f, Literal& x, Literal& y, bool& inverted) { return xorShape(f, x, y, inverted); }
+
+namespace {
 
 /// In a sum of more than two terms, the pairs of two-literal products that form an exclusive or
 /// (`x & ~y | ~x & y`, or its complement), so that `t | (a ^ b)` is not printed as three products.
@@ -413,15 +426,40 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
     const bool compares = comparisons(f);
     if (!compares && xorShape(f, x, y, inv)) {
         e.kind = PExpr::Kind::Xor;
-        e.kids.push_back(buildLit(x));
-        e.kids.push_back(buildLit(y));
-        e.neg = inv != neg;
-        // `~a ^ b` reads worse than `~(a ^ b)`: move operand inversions outside.
-        for (auto& k : e.kids)
-            if (k.neg && k.atomic()) {
-                k.neg = false;
-                e.neg = !e.neg;
+        bool parity = inv != neg;
+        // An operand with no name of its own is an exclusive or read only by this one (the
+        // writer names every other node another node reads): one chain `a ^ b ^ c`.
+        std::function<void(Literal)> add = [&](Literal l) {
+            std::uint32_t v = literalVar(l);
+            Literal a, b;
+            bool i2 = false;
+            if (v != 0 && v < refs_.size() && !refs_[v] && v < forms_.size() && xorShape(forms_[v], a, b, i2)) {
+                parity = parity != (literalNegated(l) != i2);
+                add(a);
+                add(b);
+                return;
             }
+            PExpr k = buildLit(l);
+            // `~a ^ b` reads worse than `~(a ^ b)`: move operand inversions outside.
+            if (k.neg && (k.atomic() || (k.kind == PExpr::Kind::Compare && isReductionText(k.text)))) {
+                k.neg = false;
+                parity = !parity;
+            }
+            e.kids.push_back(std::move(k));
+        };
+        add(x);
+        add(y);
+        e.neg = parity;
+        groupXorSlices(e);
+        if (e.kind == PExpr::Kind::Xor && e.kids.size() > 2) {
+            std::stable_sort(e.kids.begin(), e.kids.end(), [](const PExpr& a, const PExpr& b) {
+                bool sa = a.kind == PExpr::Kind::Ref || a.kind == PExpr::Kind::Compare;
+                bool sb = b.kind == PExpr::Kind::Ref || b.kind == PExpr::Kind::Compare;
+                if (sa != sb) return sa;
+                return sa && a.rank < b.rank;
+            });
+            groupLongChain(e);
+        }
         return e;
     }
     Literal sel;
@@ -496,8 +534,8 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
 /// Within an AND (or OR) of bits of one vector, consecutive bits become one
 /// comparison with a constant: `v[5:2] == 4'h0` (or `v[5:2] != 4'hf` in an OR).
 std::string complementedCompare(const std::string& text) {
-    if (text.size() > 1 && text[0] == '~' && (text[1] == '|' || text[1] == '&')) return text.substr(1);
-    if (!text.empty() && (text[0] == '|' || text[0] == '&')) return "~" + text;
+    if (text.size() > 1 && text[0] == '~' && (text[1] == '|' || text[1] == '&' || text[1] == '^')) return text.substr(1);
+    if (!text.empty() && (text[0] == '|' || text[0] == '&' || text[0] == '^')) return "~" + text;
     std::string t = text;
     std::size_t at = t.find(" != ");
     if (at == std::string::npos) {
@@ -587,6 +625,72 @@ void ExprBuilder::groupSlices(PExpr& e) {
     }
 }
 
+std::string comparisonText(const VarRef& r, int loOff, int hiOff, const std::vector<int>& bitsMsbFirst,
+                           int& constant) {
+    return fmt::format("{} == {}", sliceText(r, loOff, hiOff),
+                       constantName(r, loOff, hiOff, bitsMsbFirst, constant)
+                           .value_or(constText(hiOff - loOff + 1, bitsMsbFirst)));
+}
+
+void ExprBuilder::groupXorSlices(PExpr& e) {
+    // In an exclusive or, consecutive bits of a vector the source reduces are one reduction
+    // `^v[7:4]` (reductions.cpp): the parity of those bits, as the source writes it.
+    if (e.kind != PExpr::Kind::Xor || !reduced_) return;
+    std::map<std::string, std::vector<std::size_t>> bySignal;
+    for (std::size_t i = 0; i < e.kids.size(); ++i) {
+        const PExpr& k = e.kids[i];
+        if (k.kind == PExpr::Kind::Ref && !k.neg && k.ref && !k.ref->signal.empty() && k.ref->width > 1 &&
+            !k.ref->inverted && reduced_->count(k.ref->signal))
+            bySignal[k.ref->signal].push_back(i);
+    }
+    std::vector<std::uint8_t> drop(e.kids.size(), 0);
+    std::vector<std::pair<std::size_t, PExpr>> added;
+    for (auto& [sig, idx] : bySignal) {
+        if (idx.size() < 2) continue;
+        std::sort(idx.begin(), idx.end(), [&](std::size_t a, std::size_t b) {
+            return e.kids[a].ref->offset < e.kids[b].ref->offset;
+        });
+        const VarRef& r0 = *e.kids[idx[0]].ref;
+        for (std::size_t s = 0; s < idx.size();) {
+            std::size_t t = s;
+            while (t + 1 < idx.size() && e.kids[idx[t + 1]].ref->offset == e.kids[idx[t]].ref->offset + 1) ++t;
+            const int lo = e.kids[idx[s]].ref->offset, hi = e.kids[idx[t]].ref->offset;
+            // Two bits read as well apart (`v[1] ^ v[0]`) unless they are the whole vector.
+            const bool whole = lo == 0 && hi == r0.width - 1;
+            if ((t - s + 1 >= 3 || whole) && sliceText(r0, lo, hi).front() != '{') {
+                PExpr c;
+                c.kind = PExpr::Kind::Compare;
+                c.text = "^" + sliceText(r0, lo, hi);
+                c.sliceSignal = r0.signal;
+                c.sliceLo = lo;
+                c.sliceHi = hi;
+                c.rank = e.kids[idx[s]].rank;
+                std::size_t first = idx[s];
+                for (std::size_t q = s; q <= t; ++q) {
+                    drop[idx[q]] = 1;
+                    first = std::min(first, idx[q]);
+                    c.rank = std::min(c.rank, e.kids[idx[q]].rank);
+                }
+                added.push_back({first, std::move(c)});
+            }
+            s = t + 1;
+        }
+    }
+    if (added.empty()) return;
+    std::vector<PExpr> kids;
+    for (std::size_t i = 0; i < e.kids.size(); ++i) {
+        for (auto& [at, c] : added)
+            if (at == i) kids.push_back(c);
+        if (!drop[i]) kids.push_back(std::move(e.kids[i]));
+    }
+    e.kids = std::move(kids);
+    if (e.kids.size() == 1) {
+        PExpr only = std::move(e.kids[0]);
+        if (e.neg) only.text = complementedCompare(only.text);   // ~(^v) reads as ~^v
+        e = std::move(only);
+    }
+}
+
 void collectConstants(const PExpr& e, std::set<int>& out) {
     if (e.constant >= 0) out.insert(e.constant);
     for (const auto& k : e.kids) collectConstants(k, out);
@@ -596,9 +700,6 @@ void collectConstants(const PExpr& e, std::set<int>& out) {
 
 namespace {
 
-bool isReductionText(const std::string& t) {
-    return !t.empty() && (t[0] == '|' || t[0] == '&' || (t[0] == '~' && t.size() > 1 && (t[1] == '|' || t[1] == '&')));
-}
 
 void appendFlat(std::string& out, const PExpr& e) {
     switch (e.kind) {

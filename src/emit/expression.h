@@ -81,6 +81,7 @@ private:
     PExpr build(const algebra::Factored& f, bool neg);
     PExpr buildLit(algebra::Literal l);
     void groupSlices(PExpr& e);
+    void groupXorSlices(PExpr& e);
     std::vector<std::uint8_t> sliceKids(const algebra::Factored& f) const;
     bool comparisons(const algebra::Factored& f) const;
     const algebra::Factored* xorGrouped(const algebra::Factored& f);
@@ -98,12 +99,22 @@ private:
     std::unordered_map<const algebra::Factored*, const algebra::Factored*> armOf_[2];
 };
 
+/// Is f the exclusive or `x ^ y` of two variables (written as a sum `x & ~y | ~x & y`, or its
+/// complement when `inverted`)? x and y are returned uncomplemented.
+bool xorForm(const algebra::Factored& f, algebra::Literal& x, algebra::Literal& y, bool& inverted);
+
 /// Adds to `out` the named constants (ModuleDesc::constants indices) that `e` names.
 void collectConstants(const PExpr& e, std::set<int>& out);
 
 /// The text of a comparison or reduction `text` complemented: `v == K` <-> `v != K`,
 /// `|v` <-> `~|v`, `&v` <-> `~&v`.
 std::string complementedCompare(const std::string& text);
+
+/// The comparison of bits `loOff..hiOff` of the vector `r` is a bit of with the value
+/// `bitsMsbFirst`, as the printer writes it (`opcode == 7'b0110011`, `state_q == XFER` with the
+/// source's constant where it has one); `constant` is set as PExpr::constant.
+std::string comparisonText(const VarRef& r, int loOff, int hiOff, const std::vector<int>& bitsMsbFirst,
+                           int& constant);
 
 /// Flat text of an expression (no line breaks).
 std::string flatText(const PExpr& e);

@@ -10,9 +10,11 @@
 //   source reduces somewhere is written as the reduction `|v[7:4]` (`&v`), its complement as
 //   `~|v` (`~&v`), rather than as a comparison with zero (`v[7:4] != 4'h0`).
 // - Keeping whole (here): an output a statement assigns a whole reduction is driven by that
-//   reduction — one node, the OR (AND) of the bits it reduces — unless its fragments make
-//   the module smaller by at least the `--min-gain` margin, or the whole reduction would
-//   break the goal's depth bound. Figures are those of the written forms
+//   reduction — one node, the OR (AND) of the bits it reduces, or a tree of two-input
+//   exclusive ors for `^v` — unless its fragments make the module smaller by at least the
+//   `--min-gain` margin and by more than a share of the module's gates (ReductionBudget::share,
+//   10%: a reviewer reads `|live` at once, its fragments spread over other outputs' logic
+//   have to be proved by hand), or the whole reduction would break the goal's depth bound. Figures are those of the written forms
 //   (naming_cost.cpp's writtenFigures: two-input gates, depth balanced by arrival), and every
 //   decision is recorded for `--report` and `-v`.
 //
@@ -20,11 +22,13 @@
 // usual one (common trade practice); a reduction operator is IEEE 1800-2017 11.4.9.
 #include "reductions.h"
 
+#include "expression.h"
 #include "named_values.h"
 #include "kerf/io/files.h"
 
 #include <algorithm>
 #include <map>
+#include <set>
 
 namespace kerf::emit {
 
@@ -71,6 +75,104 @@ bool isReduction(UnaryOp op) {
            op == UnaryOp::RedXor || op == UnaryOp::RedXnor;
 }
 
+Factored litForm(Literal l) {
+    Factored k;
+    k.kind = Factored::Kind::Lit;
+    k.lit = l;
+    return k;
+}
+
+/// A new node: the OR (AND) of `lits`, one cover and one form.
+net::NodeId addAndOr(net::Network& net, std::vector<Factored>& forms, const std::vector<Literal>& lits, bool isOr,
+                     const std::string& name) {
+    Cover whole;
+    if (isOr)
+        for (Literal l : lits) whole.cubes.push_back(Cube({l}));
+    else
+        whole.cubes.push_back(Cube(lits));
+    whole.normalize();
+    net::NodeId w = net.addLogic(whole, name);
+    Factored f;
+    f.kind = isOr ? Factored::Kind::Or : Factored::Kind::And;
+    for (Literal l : lits) f.kids.push_back(litForm(l));
+    forms.resize(net.nodeCount());
+    forms[w] = std::move(f);
+    return w;
+}
+
+/// The exclusive or of `lits` as a balanced tree of two-input exclusive ors (a cover of the
+/// whole parity has 2^(n-1) cubes): each node `x & ~y | ~x & y`, which the printer joins back
+/// into one chain and writes `^v` over the bits of a reduced vector (expression.cpp).
+net::NodeId addXorTree(net::Network& net, std::vector<Factored>& forms, std::vector<Literal> lits,
+                       const std::string& name) {
+    while (lits.size() > 1) {
+        std::vector<Literal> next;
+        for (std::size_t i = 0; i + 1 < lits.size(); i += 2) {
+            Literal x = lits[i], y = lits[i + 1];
+            if (literalVar(x) > literalVar(y)) std::swap(x, y);
+            Cover c;
+            c.cubes.push_back(Cube({x, algebra::negateLiteral(y)}));
+            c.cubes.push_back(Cube({algebra::negateLiteral(x), y}));
+            c.normalize();
+            net::NodeId u = net.addLogic(c, lits.size() == 2 ? name : std::string());
+            Factored f;
+            f.kind = Factored::Kind::Or;
+            for (auto [a, b] : {std::pair{x, algebra::negateLiteral(y)}, std::pair{algebra::negateLiteral(x), y}}) {
+                Factored p;
+                p.kind = Factored::Kind::And;
+                p.kids = {litForm(a), litForm(b)};
+                f.kids.push_back(std::move(p));
+            }
+            forms.resize(net.nodeCount());
+            forms[u] = std::move(f);
+            next.push_back(makeLiteral(u, false));
+        }
+        if (lits.size() % 2) next.push_back(lits.back());
+        lits = std::move(next);
+    }
+    return literalVar(lits[0]);
+}
+
+/// Is node v an exclusive-or tree (through logic nodes of xor form that drive no output: an
+/// output is written by its name) whose leaves are exactly `lits`, each once, with no
+/// inversion left over?
+bool xorTreeOf(const net::Network& net, const std::vector<Factored>& forms, net::NodeId v,
+               const std::vector<Literal>& lits) {
+    std::set<net::NodeId> named;
+    for (const auto& o : net.outputs()) named.insert(literalVar(o.driver));
+    std::map<Literal, int> want;
+    for (Literal l : lits) ++want[l];
+    bool parity = false;
+    std::vector<Literal> work{makeLiteral(v, false)};
+    std::size_t steps = 0;
+    while (!work.empty() && ++steps < 4 * lits.size() + 8) {
+        Literal l = work.back();
+        work.pop_back();
+        if (auto it = want.find(l); it != want.end() && it->second > 0) {
+            --it->second;
+            continue;
+        }
+        if (auto it = want.find(algebra::negateLiteral(l)); it != want.end() && it->second > 0) {
+            --it->second;
+            parity = !parity;
+            continue;
+        }
+        net::NodeId x = literalVar(l);
+        Literal a, b;
+        bool inv = false;
+        if (x == 0 || !net.isLogic(x) || x >= forms.size() || (x != v && named.count(x)) ||
+            !xorForm(forms[x], a, b, inv))
+            return false;
+        parity = parity != (literalNegated(l) != inv);
+        work.push_back(a);
+        work.push_back(b);
+    }
+    if (!work.empty() || parity) return false;
+    for (const auto& [l, n] : want)
+        if (n != 0) return false;
+    return true;
+}
+
 } // namespace
 
 std::set<std::string> reducedSignals(const frontend::ModuleDesc& m) {
@@ -97,12 +199,14 @@ std::vector<SourceReduction> sourceReductions(const frontend::ModuleDesc& m) {
         const frontend::Signal* t = m.signalOf(l.a);
         if (!t || t->width != 1) return;
         const UnaryOp op = r.unaryOp();
-        if (op != UnaryOp::RedOr && op != UnaryOp::RedNor && op != UnaryOp::RedAnd && op != UnaryOp::RedNand) return;
+        if (!isReduction(op)) return;
         SourceReduction red;
         if (!reducedSlice(m, ir.expr(r.a), red.signal, red.lo, red.hi)) return;
         red.target = t->name;
-        red.op = (op == UnaryOp::RedOr || op == UnaryOp::RedNor) ? '|' : '&';
-        red.negated = op == UnaryOp::RedNor || op == UnaryOp::RedNand;
+        red.op = (op == UnaryOp::RedOr || op == UnaryOp::RedNor)   ? '|'
+                 : (op == UnaryOp::RedAnd || op == UnaryOp::RedNand) ? '&'
+                                                                      : '^';
+        red.negated = op == UnaryOp::RedNor || op == UnaryOp::RedNand || op == UnaryOp::RedXnor;
         if (r.start != frontend::kNoId && r.end != frontend::kNoId && r.end <= fileText.size() && r.start < r.end)
             red.text = fileText.substr(r.start, r.end - r.start);
         (void)start, (void)end;
@@ -184,32 +288,27 @@ std::size_t keepReductionsWhole(const std::vector<SourceReduction>& reductions, 
             }
         }
         if (!ok) continue;
-        Cover whole;
-        if (red.op == '|')
-            for (Literal l : lits) whole.cubes.push_back(Cube({l}));
-        else
-            whole.cubes.push_back(Cube(lits));
-        whole.normalize();
         const Literal driver = net.outputs()[target->second].driver;
         const net::NodeId v = literalVar(driver);
-        if (net.isLogic(v) && literalNegated(driver) == red.negated && net.node(v).cover == whole) continue;
+        if (red.op == '^') {
+            if (literalNegated(driver) == red.negated && xorTreeOf(net, forms, v, lits)) continue;
+        } else {
+            Cover whole;
+            if (red.op == '|')
+                for (Literal l : lits) whole.cubes.push_back(Cube({l}));
+            else
+                whole.cubes.push_back(Cube(lits));
+            whole.normalize();
+            if (net.isLogic(v) && literalNegated(driver) == red.negated && net.node(v).cover == whole) continue;
+        }
         NamingDecision d;
         d.form = "whole reduction";
         d.signal = red.target;
         // The module with the reduction whole, on copies.
         net::Network trial = net;
         std::vector<Factored> trialForms = forms;
-        net::NodeId w = trial.addLogic(whole, red.target);
-        Factored f;
-        f.kind = red.op == '|' ? Factored::Kind::Or : Factored::Kind::And;
-        for (Literal l : lits) {
-            Factored k;
-            k.kind = Factored::Kind::Lit;
-            k.lit = l;
-            f.kids.push_back(std::move(k));
-        }
-        trialForms.resize(trial.nodeCount());
-        trialForms[w] = std::move(f);
+        const net::NodeId w = red.op == '^' ? addXorTree(trial, trialForms, lits, red.target)
+                                            : addAndOr(trial, trialForms, lits, red.op == '|', red.target);
         trial.outputs()[target->second].driver = makeLiteral(w, red.negated);
         WrittenFigures with = writtenFigures(trial, trialForms, {});
         const double saved = static_cast<double>(with.gates) - static_cast<double>(current.gates);
@@ -219,17 +318,22 @@ std::size_t keepReductionsWhole(const std::vector<SourceReduction>& reductions, 
         if (with.depth > depthLimit) {
             d.reason = "written whole, " + what + " would reach depth " + std::to_string(with.depth) +
                        ", over the bound " + std::to_string(depthLimit) + ": its fragments stay";
-        } else if (saved >= budget.gateMargin && saved > 0) {
+        } else if (saved >= budget.gateMargin && saved > budget.share * static_cast<double>(with.gates) && saved > 0) {
             d.reason = "its fragments save " + std::to_string(static_cast<long long>(saved)) +
                        (saved == 1 ? " gate (" : " gates (") +
                        std::to_string(current.gates) + " against " + std::to_string(with.gates) +
-                       " with " + what + " whole), at least the --min-gain margin: they stay";
+                       " with " + what + " whole), at least the --min-gain margin and more than " +
+                       std::to_string(static_cast<int>(budget.share * 100 + 0.5)) + "% of the module: they stay";
         } else {
             d.kept = true;
             const auto s = static_cast<long long>(std::max(saved, 0.0));
+            const bool underMargin = saved < budget.gateMargin || saved <= 0;
             d.reason = "written whole as the source writes it: its fragments would save " + std::to_string(s) +
-                       (s == 1 ? " gate" : " gates") + ", less than the --min-gain margin, within the depth bound " +
-                       std::to_string(depthLimit);
+                       (s == 1 ? " gate" : " gates") +
+                       (underMargin ? std::string(", less than the --min-gain margin")
+                                    : ", not more than " + std::to_string(static_cast<int>(budget.share * 100 + 0.5)) +
+                                          "% of the module's " + std::to_string(with.gates) + " gates") +
+                       ", within the depth bound " + std::to_string(depthLimit);
         }
         if (log)
             *log += "reduction: " + red.target + " = " + (red.text.empty() ? "(reduction)" : red.text) + ": " +

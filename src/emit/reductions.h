@@ -21,8 +21,8 @@ struct SourceReduction {
     std::string target;     ///< the one-bit signal assigned
     std::string signal;     ///< the vector reduced
     int lo = 0, hi = 0;     ///< its bits reduced, offsets from the least significant
-    char op = '|';          ///< '|' or '&'
-    bool negated = false;   ///< `~|`, `~&`
+    char op = '|';          ///< '|', '&' or '^'
+    bool negated = false;   ///< `~|`, `~&`, `~^`
     std::string text;       ///< the reduction as the source spells it (`|live`), for reports
 };
 
@@ -39,6 +39,9 @@ std::vector<SourceReduction> sourceReductions(const frontend::ModuleDesc& m);
 struct ReductionBudget {
     std::size_t depthBound = 0;
     double gateMargin = 0;   ///< the --min-gain margin: fragments stay only when they save this much
+    /// ... and more than this share of the module's gates with the reduction whole (0 with
+    /// `--min-gain 0`, which asks for every gate).
+    double share = 0.10;
 };
 
 /// Drives each output of `net` (indexed as `low.outputBits`) that a source reduction assigns

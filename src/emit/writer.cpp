@@ -408,6 +408,9 @@ private:
     /// A generated word operand whose bits (offset -> output index) are all names or constants,
     /// as one concatenation text; nothing when some bit is logic.
     std::optional<std::string> inlineOperand(const std::map<int, std::size_t>& bits, int width);
+    /// Wire v's name part when its function (inverted when `inverted`) is a comparison of one
+    /// vector or slice with a constant, or its complement: "opcode_is_33", "addr_7_4_not_0".
+    std::optional<std::string> sliceComparison(NodeId v, bool inverted) const;
     std::string statement(const std::string& ind, const std::string& lead, const PExpr& e) const;
 
     /// Every name output i's text reads: an author's copy of an input reads that input;
@@ -843,8 +846,23 @@ void Writer::chooseWires() {
         for (const auto& link : plan.first.links)
             for (const auto& [k, val] : link.cube)
                 ++choiceUses[literalVar(net_.outputs()[plan.second[static_cast<std::size_t>(k)]].driver)];
+    // An exclusive or read once, by another exclusive or, is written inside it (`a ^ b ^ c`,
+    // `^data`: expression.cpp): the reader reads a chain of `^` back as the same gates.
+    std::vector<std::uint8_t> inXor(n, 0);
+    for (NodeId u : order) {
+        Literal a, b;
+        bool inv = false;
+        if (!live[u] || !net_.isLogic(u) || !xorForm(forms_[u], a, b, inv)) continue;
+        for (Literal l : {a, b}) {
+            NodeId x = literalVar(l);
+            Literal c, d;
+            if (x != 0 && net_.isLogic(x) && !refs_[x] && users[x] == 1 && logicUsers[x] == 1 && choiceUses[x] < 2 &&
+                xorForm(forms_[x], c, d, inv))
+                inXor[x] = 1;
+        }
+    }
     for (NodeId v : order) {
-        if (!live[v] || refs_[v]) continue;
+        if (!live[v] || refs_[v] || inXor[v]) continue;
         // A node read by another node keeps its own statement even when read once: the reader
         // flattens a statement into a sum of products, and nesting a node into another's text
         // could count larger when the written file is read back.
@@ -911,25 +929,122 @@ void Writer::coneOf(NodeId root, bool viaDefinition, const std::function<void(No
     }
 }
 
+/// The value of a comparison as a name part: `4'h0` -> "0", `2'b11` -> "11", a binary constant
+/// of five bits or more in hex (`7'b0110011` -> "33"), a named constant by its name.
+std::string valueFragment(const std::string& compareText) {
+    std::size_t tick = compareText.find('\'');
+    if (tick == std::string::npos) return fragment(compareText.substr(compareText.rfind(' ') + 1));
+    std::string digits = compareText.substr(tick + 2);
+    if (compareText[tick + 1] != 'b' || digits.size() < 5 || digits.find_first_not_of("01") != std::string::npos)
+        return digits;
+    std::string hex;
+    std::size_t first = digits.size() % 4 == 0 ? 4 : digits.size() % 4;
+    for (std::size_t i = 0; i < digits.size();) {
+        std::size_t n = i == 0 ? first : 4;
+        int d = 0;
+        for (std::size_t j = 0; j < n; ++j) d = d * 2 + (digits[i + j] == '1');
+        hex += "0123456789abcdef"[d];
+        i += n;
+    }
+    return hex;
+}
+
+std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted) const {
+    // Seen through the forms (ANDs, and ORs under an inversion), is literal l's function one
+    // product of the bits of one vector? Leaves are network inputs, and nodes named as bits of a
+    // vector that are not new wires (an author's signal computed by logic).
+    constexpr std::size_t kMaxLeaves = 64;
+    std::map<int, int> bits;   // offset -> value
+    const VarRef* vec = nullptr;
+    std::size_t steps = 0;
+    std::function<bool(Literal)> lit;
+    std::function<bool(const Factored&, bool)> form = [&](const Factored& f, bool neg) -> bool {
+        if (++steps > 4 * kMaxLeaves) return false;
+        switch (f.kind) {
+        case Factored::Kind::Lit: return lit(neg ? algebra::negateLiteral(f.lit) : f.lit);
+        case Factored::Kind::And:
+        case Factored::Kind::Or:
+            if (f.kids.size() != 1 && (f.kind == Factored::Kind::And) == neg) return false;
+            for (const auto& k : f.kids)
+                if (!form(k, neg)) return false;
+            return !f.kids.empty();
+        default: return false;
+        }
+    };
+    lit = [&](Literal l) -> bool {
+        NodeId x = literalVar(l);
+        if (x == 0) return false;
+        const std::optional<VarRef>& r = refs_[x];
+        bool leaf = r && !isWire_[x] && !r->signal.empty() && r->width >= 2;
+        if (!leaf) {
+            if (!net_.isLogic(x)) return false;
+            return form(forms_[x], literalNegated(l));
+        }
+        if (vec && vec->signal != r->signal) return false;
+        vec = &*r;
+        int value = literalNegated(l) == r->inverted ? 1 : 0;
+        auto [it, fresh] = bits.emplace(r->offset, value);
+        return (fresh || it->second == value) && bits.size() <= kMaxLeaves;
+    };
+    for (bool complemented : {false, true}) {
+        bits.clear();
+        vec = nullptr;
+        steps = 0;
+        if (!lit(algebra::makeLiteral(v, inverted != complemented)) || bits.size() < 2) continue;
+        const int lo = bits.begin()->first, hi = bits.rbegin()->first;
+        if (hi - lo + 1 != static_cast<int>(bits.size())) continue;   // not one slice
+        std::vector<int> msbFirst;
+        for (auto it = bits.rbegin(); it != bits.rend(); ++it) msbFirst.push_back(it->second);
+        int constant = -1;
+        std::string text = comparisonText(*vec, lo, hi, msbFirst, constant);
+        if (text.front() == '{') return std::nullopt;   // bits the declared type splits
+        std::string lhs = text.substr(0, text.find(' ')), out;
+        for (char c : lhs)
+            if (c != ']') out += (c == '[' || c == ':' || c == '.') ? '_' : c;
+        // Bits of a vector the source reduces, all 0 or all 1: named as the reduction the
+        // printer writes (`~|live[1:0]`: "no_live_1_0", `|live[3:2]`: "any_live_3_2").
+        const bool ones = std::all_of(msbFirst.begin(), msbFirst.end(), [](int b) { return b == 1; });
+        const bool zeros = std::all_of(msbFirst.begin(), msbFirst.end(), [](int b) { return b == 0; });
+        if (reduced_.count(vec->signal) && (ones || zeros))
+            return std::string(zeros ? (complemented ? "any_" : "no_") : (complemented ? "not_all_" : "all_")) + out;
+        return out + (complemented ? "_not_" : "_is_") + valueFragment(text);
+    }
+    return std::nullopt;
+}
+
 void Writer::nameWires() {
     if (wires_.empty()) return;
-    // Longest name made from what a wire combines; longer ones take the output's name and an index.
-    constexpr std::size_t kMaxDescriptiveName = 28;
+    // Longest name a new wire takes (the prefix not counted): a longer descriptive name gives
+    // way to the output's name and an index, and that is shortened to fit.
+    const std::size_t cap = std::max<std::size_t>(opts_.maxNameLength, 8);
     ExprBuilder eb(refs_, forms_, &reduced_);
     std::set<std::string> used = taken_;
     std::vector<std::string> names(wires_.size());
     std::map<NodeId, std::size_t> wireIndex;
     for (std::size_t k = 0; k < wires_.size(); ++k) wireIndex[wires_[k]] = k;
-    auto claim = [&](std::string base) {
-        base = opts_.prefix + base;
-        std::string n = base;
-        for (int k = 2; used.count(n); ++k) n = fmt::format("{}_{}", base, k);
+    // stem + tail, with "_2", "_3"... on a collision; the stem is cut to keep the cap.
+    auto claim = [&](const std::string& stem, const std::string& tail = "") {
+        auto fit = [&](const std::string& suffix) {
+            std::size_t room = cap > tail.size() + suffix.size() ? cap - tail.size() - suffix.size() : 1;
+            std::string t = stem.substr(0, std::max<std::size_t>(room, 1));
+            while (t.size() > 1 && t.back() == '_') t.pop_back();
+            return opts_.prefix + t + tail + suffix;
+        };
+        std::string n = fit("");
+        for (int k = 2; used.count(n); ++k) n = fit(fmt::format("_{}", k));
         used.insert(n);
         return n;
     };
     // Descriptive names where the wire is a comparison or a small AND/OR of names.
     for (std::size_t k = 0; k < wires_.size(); ++k) {
         NodeId v = wires_[k];
+        // A comparison of one vector or slice with a constant, however the logic spells it
+        // (`opcode[5:4] == 2'b11 & ~opcode[3] & ...`): named as the comparison.
+        if (auto cmp = sliceComparison(v, refs_[v]->inverted); cmp && cmp->size() <= cap) {
+            names[k] = claim(*cmp);
+            refs_[v]->text = names[k];
+            continue;
+        }
         PExpr e = eb.definition(v, refs_[v]->inverted);
         std::string name;
         auto part = [&](const PExpr& p) -> std::string {
@@ -940,13 +1055,15 @@ void Writer::nameWires() {
                 std::string t = p.neg ? complementedCompare(p.text) : p.text;
                 bool neg = t[0] == '~';
                 if (neg) t.erase(0, 1);
-                if (t.empty() || (t[0] != '|' && t[0] != '&')) return "";
+                if (t.empty() || (t[0] != '|' && t[0] != '&' && t[0] != '^')) return "";
                 const char op = t[0];
                 std::string f;
                 for (char c : t.substr(1)) {
                     if (c == '{') return "";
                     if (c != ']') f += (c == '[' || c == ':' || c == '.') ? '_' : c;
                 }
+                // "^v" -> "xor_v" (odd parity), "~^v" -> "xnor_v".
+                if (op == '^') return std::string(neg ? "xnor_" : "xor_") + f;
                 return std::string(op == '|' ? (neg ? "no_" : "any_") : (neg ? "not_all_" : "all_")) + f;
             }
             if (p.kind == PExpr::Kind::Compare) {
@@ -954,10 +1071,8 @@ void Writer::nameWires() {
                 std::string lhs = p.text.substr(0, p.text.find(' '));
                 if (lhs.empty() || lhs[0] == '{') return "";   // a concatenation: no short name
                 bool eq = (p.text.find("==") != std::string::npos) != p.neg;
-                std::size_t tick = p.text.find('\'');
                 // A named value (`state_q == ST_IDLE`): the name.
-                std::string value = tick == std::string::npos ? fragment(p.text.substr(p.text.rfind(' ') + 1))
-                                                              : p.text.substr(tick + 2);
+                std::string value = valueFragment(p.text);
                 std::string f;
                 for (char c : lhs) f += (c == '[' || c == ':' || c == '.') ? '_' : c;
                 if (!f.empty() && f.back() == ']') f.pop_back();
@@ -986,7 +1101,7 @@ void Writer::nameWires() {
             std::string a = part(e.kids[0]), b = part(e.kids[1]);
             if (!a.empty() && !b.empty()) name = (e.neg ? "same_" : "") + a + (e.neg ? "_" : "_xor_") + b;
         }
-        if (name.size() > kMaxDescriptiveName) name.clear();
+        if (name.size() > cap) name.clear();
         if (!name.empty()) {
             // Wires are in topological order: a later wire that combines this one reads its
             // name (`state_q_is_ARB_ncancel`), not a placeholder.
@@ -1014,7 +1129,7 @@ void Writer::nameWires() {
         for (NodeId w : found) {
             std::size_t k = wireIndex.at(w);
             if (!names[k].empty()) continue;
-            names[k] = claim(fmt::format("{}_t{}", base, counter[base]++));
+            names[k] = claim(base, fmt::format("_t{}", counter[base]++));
         }
     }
     for (std::size_t k = 0; k < wires_.size(); ++k) {
@@ -2873,6 +2988,7 @@ WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
         budget.depthBound = opts.depthBound >= 0 ? static_cast<std::size_t>(opts.depthBound) : base.depth;
         budget.gateMargin = opts.minGain.percent ? opts.minGain.value * static_cast<double>(base.gates) / 100.0
                                                  : opts.minGain.value;
+        if (opts.minGain.value <= 0) budget.share = 0;
         net::Network net = *in.network;
         std::vector<algebra::Factored> forms = *in.forms;
         if (keepReductionsWhole(reductions, *in.lowered, net, forms, budget, record, &log) > 0) {

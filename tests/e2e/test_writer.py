@@ -9,6 +9,7 @@ Golden files fix the layout only; each is also checked for function (simulation)
 file never stands for behaviour. Refresh them with KERF_UPDATE_GOLDEN=1 after a deliberate
 change of layout and review the diff.
 """
+import glob
 import html
 import json
 import os
@@ -29,6 +30,8 @@ GOLDEN = os.path.join(os.path.dirname(__file__), "golden")
 # fixes the value; the sample whose logic depends on one runs with its default fixed, so the
 # writer's layout is still exercised on it.
 SAMPLE_PARAMS = {"irq_router": ["--param", "NSRC=6"]}
+
+MAX_WIRE_NAME = 26   # docs/guide.md "Names of new wires": the cap on a generated name
 
 
 def restructure(t, files, top, out, *extra):
@@ -1102,7 +1105,7 @@ def _(t):
 def _(t):
     """Issue 10 (names): a new wire that is a product or sum of at most three names or
     comparisons, itself wires included, is named from them (`state_q_is_ARB_ncancel`) where that
-    name is short (at most 28 characters), not from the output it feeds plus an index
+    name is short (at most 26 characters, the cap of docs/guide.md), not from the output it feeds plus an index
     (`state_d0_t1`). Checks the written text of three samples: every wire named `<output>_tN`
     has a definition that is not such a short product or sum (more operands, a nested
     expression, a generic operand or a name past the limit); and at least one wire is named
@@ -1129,7 +1132,7 @@ def _(t):
             parts = ["".join(x for x in (("n" if o.startswith("~") else ""), m.group(1), m.group(3) or ""))
                      for o, m in zip(ops, simple) if m]
             t.res.check(not (all(simple) and len(ops) <= 3 and not generic and "(" not in expr
-                             and sum(len(p) for p in parts) + 4 * (len(parts) - 1) <= 28),
+                             and sum(len(p) for p in parts) + 4 * (len(parts) - 1) <= MAX_WIRE_NAME),
                         f"{top}: {name} = {expr} could be named from what it combines")
     t.res.check(from_wire > 0, "some wire is named from another new wire")
 
@@ -1534,6 +1537,281 @@ def _(t):
                 f"the statement reading the type parameter's signal is kept byte for byte: {text}")
     t.res.check("parameter T" in r.stderr, f"the summary names the type parameter: {r.stderr[-600:]}")
     t.res.check("assign y = b & c | b & ~c;" not in text, "the statement independent of T is restructured")
+
+
+# ---------------------------------------------------------------- wire names (issue 10, session 12)
+
+def _new_wires(src_text, out_text):
+    """Names of the wires kerf declared: `wire [..] name` on lines the source does not have,
+    with a name the source does not use (an author's declaration rewritten keeps its name)."""
+    old = set(src_text.split("\n"))
+    own = set(re.findall(r"[A-Za-z_][A-Za-z0-9_$]*", src_text))
+    found = []
+    for line in out_text.split("\n"):
+        if line in old:
+            continue
+        m = re.match(r"\s*wire\s+(?:\[[^\]]*\]\s*)?([A-Za-z_][A-Za-z0-9_$]*)\b", line)
+        if m and m.group(1) not in own:
+            found.append(m.group(1))
+    return found
+
+
+def _probe_values(t, files, top, out, probes, vectors=3000):
+    """Icarus Verilog: the rewritten module `top` in `out` driven with random inputs; per vector a
+    dict of each probed signal's value (int), read through hierarchical names."""
+    ports, _ = O.signals(files, top)
+    ins = [p for p in ports if p["dir"] == "in"]
+    lines = ["`timescale 1ns/1ps", "module kerf_probe;"]
+    for i, p in enumerate(ins):
+        lines.append(f"  reg [{p['width'] - 1}:0] in{i};")
+    conn = ", ".join(".%s(in%d)" % (K.vname(p["name"]), i) for i, p in enumerate(ins))
+    lines.append(f"  {top} dut ({conn});")
+    lines.append("  integer k, seed;")
+    lines.append("  initial begin")
+    lines.append(f"    seed = 7;")
+    lines.append(f"    for (k = 0; k < {vectors}; k = k + 1) begin")
+    for i, p in enumerate(ins):
+        for lo in range(0, p["width"], 32):
+            hi = min(p["width"], lo + 32) - 1
+            lines.append(f"      in{i}[{hi}:{lo}] = $random(seed);")
+    lines.append("      #1;")
+    fmt_ = " ".join("%h" for _ in probes)
+    lines.append(f"      $display(\"P {fmt_}\", {', '.join('dut.' + p for p in probes)});")
+    lines.append("    end")
+    lines.append("    $finish;")
+    lines.append("  end")
+    lines.append("endmodule")
+    tb = os.path.join(t.work, f"probe_{top}.sv")
+    open(tb, "w").write("\n".join(lines) + "\n")
+    sim = os.path.join(t.work, f"probe_{top}.vvp")
+    others = [f for f in files if f != out]
+    c = K.run(["iverilog", "-g2012", "-o", sim] + others + [out, tb])
+    if c.returncode != 0:
+        raise RuntimeError(f"iverilog: {c.stderr[-1500:]}")
+    r = K.run(["vvp", "-n", sim])
+    rows = []
+    for line in r.stdout.split("\n"):
+        if line.startswith("P "):
+            vals = line.split()[1:]
+            rows.append({p: (int(v, 16) if all(ch in "0123456789abcdefABCDEF" for ch in v) else None)
+                         for p, v in zip(probes, vals)})
+    return rows
+
+
+@S.case("comparison_wire_names", needs=("iverilog", "verilator"))
+def _(t):
+    """Issue 10 (names): a new wire that computes a comparison of one vector or slice with a
+    constant is named as that comparison whatever its operand count (`opcode_is_33` for
+    `opcode == 7'b0110011`), never `<output>_tN`. Checked by function with Icarus Verilog
+    (random simulation reading the wires through hierarchical names): every `_is_`/`_not_`
+    name over a vector tells the truth, and no `_tN` wire equals `v[h:l] == K` or its
+    complement for any slice of a vector the module declares. RISC-V opcode values (open
+    standard) are what samples/rv_decoder.sv decodes. Verilator -Wall adds no warning."""
+    for src, top in (("samples/rv_decoder.sv", "rv_decoder"), ("samples/uart_regsel.v", "uart_regsel")):
+        ext = os.path.splitext(src)[1]
+        out = os.path.join(t.work, top + ext)
+        r = restructure(t, [src], top, out)
+        if not t.res.check(r.returncode == 0, f"{top}: restructure: {r.stderr[-600:]}"):
+            continue
+        text, original = open(out).read(), open(src).read()
+        wires = _new_wires(original, text)
+        _, internals = O.signals([out], top)
+        ports, _ = O.signals([out], top)
+        vectors = {s["name"]: s["width"] for s in ports + internals if 2 <= s["width"] <= 16 and "." not in s["name"]
+                   and s["name"] not in wires}
+        probes = list(vectors) + wires
+        rows = _probe_values(t, [out], top, out, probes)
+        if not t.res.check(len(rows) > 100, f"{top}: the probe simulation ran ({len(rows)} vectors)"):
+            continue
+        definitions = dict(re.findall(r"\bwire\s+(?:\[[^\]]*\]\s*)?([A-Za-z_][A-Za-z0-9_$]*)\s*=([^;]*);", text))
+        named = 0
+        for w in wires:
+            m = re.match(r"^(.*?)_(is|not)_([0-9a-f]+)$", w)
+            if m and any(m.group(1) == v or m.group(1).startswith(v + "_") for v in vectors):
+                base = next(v for v in sorted(vectors, key=len, reverse=True)
+                            if m.group(1) == v or m.group(1).startswith(v + "_"))
+                rest = m.group(1)[len(base):].strip("_").split("_")
+                hi, lo = (int(rest[0]), int(rest[1])) if len(rest) == 2 else \
+                    (int(rest[0]), int(rest[0])) if rest != [""] else (vectors[base] - 1, 0)
+                digits = m.group(3)
+                # The value as the name spells it: hexadecimal from five bits or a multiple of four
+                # (`opcode_is_33`, `paddr_5_2_is_0`), binary below (`opcode_1_0_is_11`).
+                n = hi - lo + 1
+                k = int(digits, 16) if n >= 5 or n % 4 == 0 else int(digits, 2)
+                want = m.group(2) == "is"
+                bad = [row for row in rows if row[w] is not None and row[base] is not None
+                       and row[w] != int((((row[base] >> lo) & ((1 << (hi - lo + 1)) - 1)) == k) == want)]
+                t.res.check(not bad, f"{top}: {w} is {base}[{hi}:{lo}] {'==' if want else '!='} {k:#x}: "
+                            f"{len(bad)} vectors differ")
+                named += 1
+            if not re.search(r"_t\d+$", w):
+                continue
+            # The vectors the wire reads, through the new wires it reads (a comparison is of
+            # what the logic reads, not of an output that happens to equal it).
+            reads, todo = set(), [w]
+            while todo:
+                x = todo.pop()
+                for name in re.findall(r"[A-Za-z_][A-Za-z0-9_$]*", definitions.get(x, "")):
+                    if name in definitions and name not in reads:
+                        todo.append(name)
+                    reads.add(name)
+            for v, width in vectors.items():
+                if v not in reads:
+                    continue
+                for lo in range(width):
+                    for hi in range(lo + 1, width):
+                        seen = {}
+                        for row in rows:
+                            if row[w] is None or row[v] is None:
+                                continue
+                            seen.setdefault((row[v] >> lo) & ((1 << (hi - lo + 1)) - 1), set()).add(row[w])
+                        if any(len(s) > 1 for s in seen.values()):
+                            continue
+                        ones = [key for key, s in seen.items() if s == {1}]
+                        zeros = [key for key, s in seen.items() if s == {0}]
+                        t.res.check(not (len(ones) == 1 and len(zeros) > 1 or len(zeros) == 1 and len(ones) > 1),
+                                    f"{top}: {w} is a comparison of {v}[{hi}:{lo}] with a constant "
+                                    f"(true for {ones[:3]}, false for {zeros[:3]}) yet named by index")
+        if top == "rv_decoder":
+            t.res.check(named >= 3, f"{top}: wires named as comparisons of opcode: {wires}")
+        ok0, w0, _ = O.lint([src], top)
+        ok1, w1, raw = O.lint([out], top)
+        t.res.check(ok0 and ok1 and w1 <= w0, f"{top}: Verilator -Wall adds no warning: {sorted(w1 - w0)} {raw[-600:]}")
+
+
+@S.case("wire_name_cap")
+def _(t):
+    """Issue 10 (names): no name kerf gives a new wire is longer than the stated cap
+    (docs/guide.md, 26 characters; the --wire-prefix is not counted), on the samples and on
+    every design of tests/rtl it restructures; the names stay distinct from each other and
+    from the module's own. A design kerf refuses (non-zero exit) is not this case's business."""
+    designs = sorted(glob.glob("samples/*.sv") + glob.glob("samples/*.v") +
+                     glob.glob("tests/rtl/*.sv") + glob.glob("tests/rtl/*.v"))
+    checked = 0
+    for src in designs:
+        out = os.path.join(t.work, os.path.basename(src))
+        top = os.path.splitext(os.path.basename(src))[0]
+        r = K.run([t.kerf, "restructure", src, "-o", out, *SAMPLE_PARAMS.get(top, [])])
+        if r.returncode != 0 or not os.path.exists(out):
+            continue
+        original, text = open(src).read(), open(out).read()
+        wires = _new_wires(original, text)
+        if not wires:
+            continue
+        checked += 1
+        long = [w for w in wires if len(w) > MAX_WIRE_NAME]
+        t.res.check(not long, f"{src}: generated names over {MAX_WIRE_NAME} characters: {long}")
+        declared = re.findall(r"(?m)^\s*(?:wire|logic|reg)\b\s*(?:signed\s*)?(?:\[[^\]]*\]\s*)*([A-Za-z_][A-Za-z0-9_$]*)", text)
+        twice = sorted({w for w in wires if declared.count(w) != 1})
+        t.res.check(not twice, f"{src}: each generated name declared once: {twice}")
+    t.res.check(checked >= 10, f"designs with new wires checked: {checked}")
+
+
+LANE_CHECK = """// Receive side of an invented byte lane: address decode beside odd parity of the data.
+module lane_check (
+  input  logic [7:0] data,
+  input  logic [3:0] addr,
+  input  logic       sel,
+  output logic       par_err,
+  output logic       even_lo,
+  output logic       hit_a,
+  output logic       hit_b
+);
+  always_comb begin
+    par_err = ^data;
+    hit_a = sel & (addr == 4'h3) & data[0];
+    hit_b = sel & (addr == 4'h3) & ~data[0] | sel & (addr == 4'h3) & data[1];
+  end
+  assign even_lo = ~^addr;
+endmodule
+"""
+
+# The same lane, where the parity's high half is worth sharing with another output's parity
+# of the low half.
+LANE_SHARED = LANE_CHECK.replace("~^addr;", "~^data[3:0];")
+
+
+@S.case("parity_stays_whole", needs=("iverilog", "verilator"))
+def _(t):
+    """F125 (exclusive or): a parity the source wrote (`par_err = ^data;`, IEEE 1800-2017
+    11.4.9) stays that statement while the decode logic beside it in the same block is
+    rewritten, and the report says so; never a chain of wires of two bits each. Where the
+    fragments pay more than the stated share (LANE_SHARED: the low half is another output,
+    `~^data[3:0]`), the fragment of the data is still written as a reduction (`^data[7:4]`),
+    never bit by bit. Function: Icarus Verilog (four-valued simulation); Verilator -Wall adds
+    no warning."""
+    for label, text, whole in (("block", LANE_CHECK, True), ("shared", LANE_SHARED, False)):
+        d = os.path.join(t.work, label)
+        os.mkdir(d)
+        os.mkdir(os.path.join(d, "out"))
+        src, out, rep = os.path.join(d, "lane_check.sv"), os.path.join(d, "out", "lane_check.sv"), os.path.join(d, "r.json")
+        open(src, "w").write(text)
+        r = restructure(t, [src], "lane_check", out, "--report", rep)
+        if not t.res.check(r.returncode == 0 and os.path.exists(out), f"{label}: restructure: {r.stderr[-800:]}"):
+            continue
+        written = open(out).read()
+        new_lines = [l for l in written.split("\n") if l not in set(text.split("\n")) and not l.strip().startswith("//")]
+        t.res.check(any("addr" in l for l in new_lines), f"{label}: the decode beside the parity is rewritten")
+        t.res.check(("par_err = ^data;" in written) == whole,
+                    f"{label}: `par_err = ^data;` {'stays' if whole else 'gives way to its fragments'}:\n" + written)
+        bitwise = [l for l in new_lines if re.search(r"data\[\d+\]\s*\^|\^\s*data\[\d+\]", l)]
+        t.res.check(not bitwise, f"{label}: no parity of data written bit by bit: {bitwise}")
+        if not whole:
+            t.res.check(any(re.search(r"\^data\[7:4\]", l) for l in new_lines),
+                        f"{label}: the shared fragment is written `^data[7:4]`: {new_lines}")
+        dec = [x for x in json.load(open(rep)).get("naming", {}).get("decisions", [])
+               if x["form"] == "whole reduction" and x["signal"] == "par_err"]
+        if not whole:
+            t.res.check(len(dec) == 1 and not dec[0]["kept"] and "%" in dec[0]["reason"],
+                        f"{label}: the report records the fragments kept and the share they beat: {dec}")
+        sim = os.path.join(d, "sim")
+        os.mkdir(sim)
+        ok, log, _ = K.simulate_equal(t.root, [src], "lane_check", out, sim, vectors=4000)
+        t.res.check(ok, f"{label}: the rewrite simulates like the input (Icarus Verilog): {log}")
+        ok0, w0, _ = O.lint([src], "lane_check")
+        ok1, w1, raw = O.lint([out], "lane_check")
+        t.res.check(ok0 and ok1 and w1 <= w0, f"{label}: Verilator -Wall adds no warning: {sorted(w1 - w0)} {raw[-600:]}")
+
+
+@S.case("author_reduction_share", needs=("iverilog",))
+def _(t):
+    """Policy for a reduction the author wrote (docs/guide.md "Reductions stay reductions"): it
+    stays whole unless its fragments save at least --min-gain and more than 10% of the module's
+    gates with it whole. samples/irq_router.sv (NSRC=6): the fragments of `|live` save 4 of 62
+    gates (6.5%), so `assign irq_out = |live;` stays byte for byte while the priority encoder
+    beside it is rewritten; with --min-gain 0 (every gate asked for) the fragments are written.
+    The figures are read from the report's decision, not assumed. Function: Icarus Verilog."""
+    files, top = ["samples/irq_pkg.sv", "samples/irq_router.sv"], "irq_router"
+    original = open(files[1]).read()
+    line = next(l for l in original.split("\n") if re.match(r"\s*assign irq_out\b", l))
+    for label, extra in (("default", ()), ("min_gain_0", ("--min-gain", "0"))):
+        d = os.path.join(t.work, label)
+        os.mkdir(d)
+        out, rep = os.path.join(d, "irq_router.sv"), os.path.join(d, "r.json")
+        r = restructure(t, files, top, out, "--report", rep, *extra)
+        if not t.res.check(r.returncode == 0 and os.path.exists(out), f"{label}: restructure: {r.stderr[-800:]}"):
+            continue
+        written = open(out).read()
+        t.res.check(written != original, f"{label}: the module is rewritten")
+        dec = [x for x in json.load(open(rep)).get("naming", {}).get("decisions", [])
+               if x["form"] == "whole reduction" and x["signal"] == "irq_out"]
+        if not t.res.check(len(dec) == 1, f"{label}: one decision for irq_out: {dec}"):
+            continue
+        frag = json.load(open(rep))["naming"]["bitwise"]["gates"]
+        whole_gates = dec[0]["after"]["gates"]
+        if label == "default":
+            t.res.check(dec[0]["kept"] and line in written.split("\n"),
+                        f"{label}: `{line.strip()}` stays as written: {dec[0]}")
+            saved = whole_gates - frag
+            t.res.check(0 < saved <= 0.10 * whole_gates,
+                        f"{label}: the fragments' saving ({saved} of {whole_gates}) is within the share")
+        else:
+            t.res.check(not dec[0]["kept"] and line not in written.split("\n"),
+                        f"{label}: with --min-gain 0 the fragments are written: {dec[0]}")
+        sim = os.path.join(d, "sim")
+        os.mkdir(sim)
+        ok, log, _ = K.simulate_equal(t.root, files, top, out, sim, vectors=3000)
+        t.res.check(ok, f"{label}: the rewrite simulates like the input (Icarus Verilog): {log}")
 
 
 if __name__ == "__main__":

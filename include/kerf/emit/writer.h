@@ -39,6 +39,10 @@ struct WriteOptions {
     bool names = true;
     /// Depth a named form may reach (the goal's bound; -1: the bitwise form's depth).
     int depthBound = -1;
+    /// Longest name the writer gives a new wire, the prefix not counted (docs/guide.md
+    /// "Names of new wires"): a longer descriptive name gives way to the first output the
+    /// wire feeds and an index, itself shortened to fit.
+    std::size_t maxNameLength = 26;
 };
 
 /// One group of statements that share restructured logic: replaced together or kept together.

@@ -30,13 +30,13 @@ module dma_fsm (
   wire state_q_is_ARB_ncancel = state_q_is_ARB & ~cancel;
   wire state_q_is_XFER = state_q == XFER;
   wire state_q_is_XFER_nerr = state_q_is_XFER & ~err;
-  wire state_q_is_XFER_nerr_ncancel = state_q_is_XFER_nerr & ~cancel;
+  wire state_d0_t0 = state_q_is_XFER_nerr & ~cancel;
   wire state_q_is_FAULT = state_q == FAULT;
   always_comb begin
-    state_d[0] = (state_q_is_ARB_ncancel & ~grant)
-               | (state_q_is_IDLE & start)
-               | (state_q_is_XFER_nerr_ncancel & last_beat);
-    state_d[1] = state_q_is_XFER_nerr_ncancel | (state_q_is_ARB_ncancel & grant);
+    state_d[0] = (state_d0_t0 & last_beat)
+               | (state_q_is_ARB_ncancel & ~grant)
+               | (state_q_is_IDLE & start);
+    state_d[1] = state_d0_t0 | (state_q_is_ARB_ncancel & grant);
     state_d[2] = err_irq | (state_q_is_XFER & err);
   end
 

@@ -28,7 +28,9 @@ module irq_router #(
   end
 
   assign nmi_out = |(live & is_nmi);
-  // kerf: 1 of 3 groups rewritten, gates 64 -> 58, depth 7 -> 7, proved equivalent
+  assign irq_out = |live;
+
+  // kerf: 1 of 4 groups rewritten, gates 64 -> 62, depth 7 -> 7, proved equivalent
   // kerf: this logic is restructured for NSRC = 6 (--param); a build that sets other
   // values stops here: run kerf restructure again for them.
   generate
@@ -43,14 +45,12 @@ module irq_router #(
   endgenerate
   wire any_live_3_2 = |live[3:2];
   wire no_live_1_0 = ~|live[1:0];
-  wire no_live_5_4_or_any_live_3_2 = (~|live[5:4]) | any_live_3_2;
+  wire src_id1_t0 = (~|live[5:4]) | any_live_3_2;
   wire live_4_3_not_10 = live[4:3] != 2'b10;
   wire src_id0_t0 = live[1] | (~live[2] & live_4_3_not_10);
-  assign irq_out = ~(no_live_5_4_or_any_live_3_2 & src_id[2]);
-
   always_comb begin
     src_id[0] = ~live[0] & src_id0_t0;
-    src_id[1] = no_live_1_0 & no_live_5_4_or_any_live_3_2;
+    src_id[1] = no_live_1_0 & src_id1_t0;
     src_id[2] = ~any_live_3_2 & no_live_1_0;
   end
 endmodule
