@@ -428,38 +428,45 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
         e.kind = PExpr::Kind::Xor;
         bool parity = inv != neg;
         // An operand with no name of its own is an exclusive or read only by this one (the
-        // writer names every other node another node reads): one chain `a ^ b ^ c`.
-        std::function<void(Literal)> add = [&](Literal l) {
+        // writer names every other node another node reads): written inside it, in the tree's
+        // own shape so that the file reads back with the same depth — a subtree on the left
+        // continues the chain (`a ^ b ^ c` is `(a ^ b) ^ c`, IEEE 1800-2017 11.3.2), one on
+        // the right is parenthesised. Inversions anywhere in the tree move to the front.
+        auto inner = [&](Literal l, Literal& a, Literal& b, bool& i2) {
             std::uint32_t v = literalVar(l);
+            return v != 0 && v < refs_.size() && !refs_[v] && v < forms_.size() && xorShape(forms_[v], a, b, i2);
+        };
+        std::function<void(PExpr&, Literal, Literal)> chain = [&](PExpr& into, Literal l, Literal r) {
             Literal a, b;
             bool i2 = false;
-            if (v != 0 && v < refs_.size() && !refs_[v] && v < forms_.size() && xorShape(forms_[v], a, b, i2)) {
-                parity = parity != (literalNegated(l) != i2);
-                add(a);
-                add(b);
-                return;
+            if (!inner(l, a, b, i2) && inner(r, a, b, i2)) std::swap(l, r);
+            for (Literal side : {l, r}) {
+                if (inner(side, a, b, i2)) {
+                    parity = parity != (literalNegated(side) != i2);
+                    if (side == l) {
+                        chain(into, a, b);
+                    } else {
+                        PExpr sub;
+                        sub.kind = PExpr::Kind::Xor;
+                        chain(sub, a, b);
+                        groupXorSlices(sub);
+                        into.kids.push_back(std::move(sub));
+                    }
+                    continue;
+                }
+                PExpr k = buildLit(side);
+                // `~a ^ b` reads worse than `~(a ^ b)`: move operand inversions outside.
+                if (k.neg && (k.atomic() || (k.kind == PExpr::Kind::Compare && isReductionText(k.text)))) {
+                    k.neg = false;
+                    parity = !parity;
+                }
+                into.kids.push_back(std::move(k));
             }
-            PExpr k = buildLit(l);
-            // `~a ^ b` reads worse than `~(a ^ b)`: move operand inversions outside.
-            if (k.neg && (k.atomic() || (k.kind == PExpr::Kind::Compare && isReductionText(k.text)))) {
-                k.neg = false;
-                parity = !parity;
-            }
-            e.kids.push_back(std::move(k));
         };
-        add(x);
-        add(y);
+        chain(e, x, y);
         e.neg = parity;
         groupXorSlices(e);
-        if (e.kind == PExpr::Kind::Xor && e.kids.size() > 2) {
-            std::stable_sort(e.kids.begin(), e.kids.end(), [](const PExpr& a, const PExpr& b) {
-                bool sa = a.kind == PExpr::Kind::Ref || a.kind == PExpr::Kind::Compare;
-                bool sb = b.kind == PExpr::Kind::Ref || b.kind == PExpr::Kind::Compare;
-                if (sa != sb) return sa;
-                return sa && a.rank < b.rank;
-            });
-            groupLongChain(e);
-        }
+        if (e.kind == PExpr::Kind::Xor) groupLongChain(e);
         return e;
     }
     Literal sel;

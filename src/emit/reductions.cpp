@@ -10,7 +10,7 @@
 //   source reduces somewhere is written as the reduction `|v[7:4]` (`&v`), its complement as
 //   `~|v` (`~&v`), rather than as a comparison with zero (`v[7:4] != 4'h0`).
 // - Keeping whole (here): an output a statement assigns a whole reduction is driven by that
-//   reduction — one node, the OR (AND) of the bits it reduces, or a tree of two-input
+//   reduction — one node, the OR (AND) of the bits it reduces, or a chain of two-input
 //   exclusive ors for `^v` — unless its fragments make the module smaller by at least the
 //   `--min-gain` margin and by more than a share of the module's gates (ReductionBudget::share,
 //   10%: a reviewer reads `|live` at once, its fragments spread over other outputs' logic
@@ -100,37 +100,34 @@ net::NodeId addAndOr(net::Network& net, std::vector<Factored>& forms, const std:
     return w;
 }
 
-/// The exclusive or of `lits` as a balanced tree of two-input exclusive ors (a cover of the
-/// whole parity has 2^(n-1) cubes): each node `x & ~y | ~x & y`, which the printer joins back
-/// into one chain and writes `^v` over the bits of a reduced vector (expression.cpp).
-net::NodeId addXorTree(net::Network& net, std::vector<Factored>& forms, std::vector<Literal> lits,
+/// The exclusive or of `lits` as a chain of two-input exclusive ors, `((l0 ^ l1) ^ l2) ^ ...`
+/// (a cover of the whole parity has 2^(n-1) cubes), each node `x & ~y | ~x & y`: the shape in
+/// which the reader lowers `^v`, so the figures weighed are those the written file reads back
+/// with; the printer writes the chain over the bits of a reduced vector as `^v` (expression.cpp).
+net::NodeId addXorTree(net::Network& net, std::vector<Factored>& forms, const std::vector<Literal>& lits,
                        const std::string& name) {
-    while (lits.size() > 1) {
-        std::vector<Literal> next;
-        for (std::size_t i = 0; i + 1 < lits.size(); i += 2) {
-            Literal x = lits[i], y = lits[i + 1];
-            if (literalVar(x) > literalVar(y)) std::swap(x, y);
-            Cover c;
-            c.cubes.push_back(Cube({x, algebra::negateLiteral(y)}));
-            c.cubes.push_back(Cube({algebra::negateLiteral(x), y}));
-            c.normalize();
-            net::NodeId u = net.addLogic(c, lits.size() == 2 ? name : std::string());
-            Factored f;
-            f.kind = Factored::Kind::Or;
-            for (auto [a, b] : {std::pair{x, algebra::negateLiteral(y)}, std::pair{algebra::negateLiteral(x), y}}) {
-                Factored p;
-                p.kind = Factored::Kind::And;
-                p.kids = {litForm(a), litForm(b)};
-                f.kids.push_back(std::move(p));
-            }
-            forms.resize(net.nodeCount());
-            forms[u] = std::move(f);
-            next.push_back(makeLiteral(u, false));
+    Literal acc = lits[0];
+    for (std::size_t i = 1; i < lits.size(); ++i) {
+        Literal x = acc, y = lits[i];
+        if (literalVar(x) > literalVar(y)) std::swap(x, y);
+        Cover c;
+        c.cubes.push_back(Cube({x, algebra::negateLiteral(y)}));
+        c.cubes.push_back(Cube({algebra::negateLiteral(x), y}));
+        c.normalize();
+        net::NodeId u = net.addLogic(c, i + 1 == lits.size() ? name : std::string());
+        Factored f;
+        f.kind = Factored::Kind::Or;
+        for (auto [a, b] : {std::pair{x, algebra::negateLiteral(y)}, std::pair{algebra::negateLiteral(x), y}}) {
+            Factored p;
+            p.kind = Factored::Kind::And;
+            p.kids = {litForm(a), litForm(b)};
+            f.kids.push_back(std::move(p));
         }
-        if (lits.size() % 2) next.push_back(lits.back());
-        lits = std::move(next);
+        forms.resize(net.nodeCount());
+        forms[u] = std::move(f);
+        acc = makeLiteral(u, false);
     }
-    return literalVar(lits[0]);
+    return literalVar(acc);
 }
 
 /// Is node v an exclusive-or tree (through logic nodes of xor form that drive no output: an
