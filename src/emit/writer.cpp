@@ -2393,8 +2393,13 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
     if (mem->netDecl) {
         if (as.size() == 1 && (as[0].lhs == verilogName(as[0].signal)))
         {
-            std::string t = wrapped(as[0], statement(ind, as[0].prefix, as[0].rhs));
-            return " = " + t.substr(0, t.size() - 1);   // the declaration keeps its own ';'
+            // Laid out from the column where ` = ` goes (after `wire name`), so continuation
+            // lines keep their operator under the first operand (F140: laid out from the
+            // indentation, the operator column fell inside it and was cut off).
+            const std::size_t at = mem->src.start - lineStart(src_, mem->src.start);
+            const std::string head(at > ind.size() ? at - ind.size() : 0, ' ');
+            std::string t = wrapped(as[0], statement(ind, head + " = " + as[0].prefix, as[0].rhs));
+            return t.substr(head.size(), t.size() - 1 - head.size());   // the declaration keeps its own ';'
         }
         // Bits one by one: a concatenation, most significant first.
         std::string s = as.empty() ? "" : as[0].signal;

@@ -1814,5 +1814,60 @@ def _(t):
         t.res.check(ok, f"{label}: the rewrite simulates like the input (Icarus Verilog): {log}")
 
 
+BUS_WATCH = """// Invented bus monitor: a long match kept in the declaration of its wire.
+module bus_watch (
+  input  logic [7:0] addr_a, addr_b, addr_c, addr_d,
+  input  logic       v_a, v_b, v_c, v_d, hold, en,
+  output logic       hit,
+  output logic       hit_ab
+);
+  wire any_match = (en & hold & v_a & (addr_a == 8'h3c)) | (en & hold & v_b & (addr_b == 8'h3c)) | (en & hold & v_c & (addr_c == 8'h5a)) | (en & hold & v_d & (addr_d == 8'h5a));
+  assign hit = any_match;
+  assign hit_ab = (en & hold & v_a & (addr_a == 8'h3c)) | (en & hold & v_b & (addr_b == 8'h3c));
+endmodule
+"""
+
+
+@S.case("net_declaration_layout", needs=("iverilog",))
+def _(t):
+    """F140: a net declaration with an initializer (`wire any_match = ...;`) rewritten over
+    several lines is laid out from the column of its ` = `, not from the line's indentation:
+    its lines stay within 100 columns (common trade practice for review) and every
+    continuation line starts with its operator (laid out from the indentation, the operator
+    column fell inside the indentation and was cut off: kerf's second run on
+    tests/rtl/min_named_exclusion.sv wrote `wire out00_t5 = (...)` followed by operands with no
+    `|`, and stopped with an internal error). Also that second run itself: it now ends without
+    an internal error. Function: Icarus Verilog."""
+    src, out = os.path.join(t.work, "bus_watch.sv"), os.path.join(t.work, "out", "bus_watch.sv")
+    os.mkdir(os.path.dirname(out))
+    open(src, "w").write(BUS_WATCH)
+    r = restructure(t, [src], "bus_watch", out)
+    if not t.res.check(r.returncode == 0 and os.path.exists(out), f"restructure: {r.stderr[-800:]}"):
+        return
+    text = open(out).read()
+    m = re.search(r"^(\s*wire any_match = )(.*?);", text, re.M | re.S)
+    if t.res.check(m is not None and m.group(2) != BUS_WATCH.split("wire any_match = ")[1].split(";")[0],
+                   f"the declaration is rewritten:\n{text}"):
+        lines = (m.group(1) + m.group(2)).split("\n")
+        t.res.check(all(len(l.expandtabs(8)) <= 100 for l in lines), f"declaration within 100 columns: {lines}")
+        cont = lines[1:]
+        t.res.check(all(re.match(r"\s*[|&^?:]", l) for l in cont),
+                    f"each continuation line starts with its operator: {cont}")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], "bus_watch", out, sim, vectors=3000)
+    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
+    # kerf's second run on its own output of tests/rtl/min_named_exclusion.sv.
+    first = os.path.join(t.work, "a", "min_named_exclusion.sv")
+    second = os.path.join(t.work, "b", "min_named_exclusion.sv")
+    os.makedirs(os.path.dirname(first))
+    os.makedirs(os.path.dirname(second))
+    r1 = K.run([t.kerf, "restructure", "tests/rtl/min_named_exclusion.sv", "-o", first])
+    if t.res.check(r1.returncode == 0, f"first run: {r1.stderr[-600:]}"):
+        r2 = K.run([t.kerf, "restructure", first, "-o", second])
+        t.res.check(r2.returncode in (0, 3) and "kerf bug" not in r2.stderr,
+                    f"second run ends without an internal error (exit {r2.returncode}): {r2.stderr[-800:]}")
+
+
 if __name__ == "__main__":
     S.main()
