@@ -208,7 +208,7 @@ const std::vector<LimitInfo>& limitTable() {
             &ReuseOptions::complementCubeCap),
         sub("resub-max-cubes", "larger covers are neither divided nor used as divisors", &EngineLimits::reuse,
             &ReuseOptions::maxCubes),
-        sub("resub-fanout-scan", "fanouts of one variable scanned for candidates", &EngineLimits::reuse,
+        sub("resub-fanout-scan", "nodes reading a variable with more readers are not tried as divisors", &EngineLimits::reuse,
             &ReuseOptions::fanoutScanLimit),
         sub("bresub-divisors", "existing nodes tried as divisors per node (Boolean resubstitution)",
             &EngineLimits::booleanResub, &BooleanResubOptions::divisors),

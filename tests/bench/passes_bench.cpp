@@ -15,7 +15,7 @@
 // compares outputs wherever the condition is 0).
 //
 // Usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR]
-//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--min-terms N] [--max-terms N]
+//                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction|resubstitution|overheads] [--min-terms N] [--max-terms N]
 //                     [--terms N]... [-v]
 // --terms N (repeatable) times decoders of exactly these sizes instead of
 // 1k/10k/100k (e.g. 3000 and 30000 to measure how the time grows).
@@ -24,6 +24,7 @@
 #include "kerf/passes/engine.h"
 #include "kerf/passes/factored.h"
 #include "kerf/passes/share_cubes.h"
+#include "kerf/passes/reuse_nodes.h"
 #include "kerf/passes/share_divisors.h"
 #include "kerf/passes/tidy.h"
 
@@ -242,6 +243,47 @@ Figures cubeExtraction(std::size_t terms, int path) {
     return f;
 }
 
+// CPU seconds of this process.
+double cpu() {
+    timespec ts{};
+    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
+    return static_cast<double>(ts.tv_sec) + static_cast<double>(ts.tv_nsec) * 1e-9;
+}
+
+// Resubstitution alone (F44, F143) on the decoder after the engine's two
+// opening cube extractions: its CPU seconds (in f.seconds), literals
+// before/after, substitutions (gatesBefore) and candidates met (gatesAfter).
+Figures resubstitution(std::size_t terms) {
+    net::Network net = syntheticDecoder(terms, 64, 256, 7);
+    passes::tidy(net);
+    passes::PassContext ctx;
+    ctx.depthCap = net::measure(net).depth;
+    passes::EngineLimits limits = passes::limitsFor(passes::Effort::Default);
+    for (const auto& l : gLimits) passes::setLimit(limits, l);
+    for (int k = 0; k < 2; ++k) {
+        passes::shareCubes(net, limits.cubes, ctx);
+        passes::tidy(net);
+    }
+    const net::Network input = net;
+    const net::Metrics before = net::measure(net);
+    passes::PassContext rc;
+    rc.depthCap = before.depth;
+    const double t0 = cpu();
+    passes::reuseNodes(net, limits.reuse, rc);
+    Figures f;
+    f.seconds = cpu() - t0;
+    const net::Metrics after = net::measure(net);
+    f.litsBefore = before.literals;
+    f.litsAfter = after.literals;
+    f.depthBefore = before.depth;
+    f.depthAfter = after.depth;
+    f.gatesBefore = static_cast<std::size_t>(rc.stats.get("substituted"));
+    f.gatesAfter = static_cast<std::size_t>(rc.stats.get("candidates-met"));
+    f.kept = rc.stats.get("limit-hit:resub-fanout-scan") > 0;
+    f.equivalent = sameFunctions(input, net, 8).empty();
+    return f;
+}
+
 // The costs every trial of the engine pays on the whole network besides
 // its technique (F44): copying the network, tidying it and measuring its
 // factored forms (cache warm: the covers were factored once before). The
@@ -266,11 +308,6 @@ Overheads trialOverheads(std::size_t terms) {
     const net::Metrics m = passes::measureFactored(net, -1, &cache);
     r.nodes = net.logicCount();
     r.gates = m.gates;
-    auto cpu = [] {
-        timespec ts{};
-        clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
-        return static_cast<double>(ts.tv_sec) + static_cast<double>(ts.tv_nsec) * 1e-9;
-    };
     const int reps = 3;
     for (int k = 0; k < reps; ++k) {
         double t = cpu();
@@ -314,7 +351,7 @@ int main(int argc, char** argv) {
         else if (a == "-v") ++verbose;
         else {
             std::fprintf(stderr, "usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR] "
-                                 "[--only NAME|synthetic|dont-cares|cube-extraction|overheads] [--skip-synthetic] [--min-terms N] [--max-terms N] [--terms N]... [-v]\n");
+                                 "[--only NAME|synthetic|dont-cares|cube-extraction|resubstitution|overheads] [--skip-synthetic] [--min-terms N] [--max-terms N] [--terms N]... [-v]\n");
             return 2;
         }
     }
@@ -422,6 +459,31 @@ int main(int argc, char** argv) {
             }
             std::printf("%-10zu %9zu %9zu %8.3f %8.3f %8.3f %8.3f\n", terms, r.nodes, r.gates, r.copy, r.tidy,
                         r.measure, r.order);
+            std::fflush(stdout);
+        }
+        return failures ? 1 : 0;
+    }
+    if (only == "resubstitution") {
+        // Resubstitution alone after the opening's two cube extractions, at
+        // the --terms sizes (default 10k and 30k): how its candidate search grows.
+        std::printf("\n%-10s %9s %9s %6s %6s %11s %13s %9s %s\n", "terms", "lits", "after", "depth", "after",
+                    "substituted", "candidates", "cpu resub", "notes");
+        std::vector<std::size_t> ts = sizes.empty() ? std::vector<std::size_t>{10000, 30000} : sizes;
+        for (std::size_t terms : ts) {
+            Figures f;
+            long rss = 0;
+            bool ok = isolated([&] { return resubstitution(terms); }, f, rss);
+            if (!ok) {
+                std::printf("%-10zu crashed\n", terms);
+                ++failures;
+                continue;
+            }
+            std::string notes = f.equivalent ? "" : " NOT-EQUIVALENT";
+            if (!f.equivalent) ++failures;
+            if (f.depthAfter > f.depthBefore) { notes += " DEEPER"; ++failures; }
+            if (f.kept) notes += " limit-hit:resub-fanout-scan";
+            std::printf("%-10zu %9zu %9zu %6zu %6zu %11zu %13zu %9.2f%s\n", terms, f.litsBefore, f.litsAfter,
+                        f.depthBefore, f.depthAfter, f.gatesBefore, f.gatesAfter, f.seconds, notes.c_str());
             std::fflush(stdout);
         }
         return failures ? 1 : 0;

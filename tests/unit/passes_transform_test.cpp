@@ -376,6 +376,53 @@ TEST(PassesReuse, DividesByAComplement) {
     EXPECT_EQ(ctx.stats.get("via-complement"), 1);
 }
 
+// The candidate index files each node under two of its variables, those
+// with the fewest readers (reuse_nodes.cpp, F143). Weak division of f by g
+// needs only g's support inside f's (textbook algebraic division, from
+// memory): here g's variables are one common and one rare input, and decoys
+// that read a variable f does not read must not be tried.
+TEST(PassesReuse, FindsDivisorsWhateverTheirVariablesReadership) {
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d"), e = n.addInput("e");
+    std::vector<NodeId> fill;
+    for (int i = 0; i < 6; ++i) {   // make a and b read by many nodes
+        NodeId x = n.addInput("x" + std::to_string(i));
+        fill.push_back(n.addLogic(cover({{pos(a), pos(b), pos(x)}})));
+        n.addOutput("y" + std::to_string(i), pos(fill.back()));
+    }
+    NodeId g = n.addLogic(cover({{pos(a)}, {pos(c)}}));            // a + c
+    NodeId decoy = n.addLogic(cover({{pos(a)}, {pos(d)}}));        // a + d: f does not read d
+    NodeId f = n.addLogic(cover({{pos(a), pos(e)}, {pos(c), pos(e)}, {pos(b)}}));   // (a + c)e + b
+    n.addOutput("g", pos(g));
+    n.addOutput("decoy", pos(decoy));
+    n.addOutput("f", pos(f));
+    Network before = n;
+    PassContext ctx;
+    reuseNodes(n, ReuseOptions{}, ctx);
+    EXPECT_EQ(sameFunctions(before, n), "");
+    EXPECT_EQ(n.node(f).cover, cover({{pos(g), pos(e)}, {pos(b)}}));
+    EXPECT_EQ(n.node(decoy).cover, before.node(decoy).cover);
+}
+
+// A node rewritten in the pass is filed again under its new variables, so a
+// later node reading them can be divided by it.
+TEST(PassesReuse, ARewrittenNodeDividesLaterNodes) {
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d"), e = n.addInput("e");
+    NodeId g = n.addLogic(cover({{pos(a)}, {pos(b)}}));                      // a + b
+    NodeId f1 = n.addLogic(cover({{pos(a), pos(c)}, {pos(b), pos(c)}}));     // (a + b)c -> g c
+    NodeId h = n.addLogic(cover({{pos(g), pos(c), pos(e)}, {pos(d)}}));      // g c e + d -> f1 e + d
+    n.addOutput("g", pos(g));
+    n.addOutput("f1", pos(f1));
+    n.addOutput("h", pos(h));
+    Network before = n;
+    PassContext ctx;
+    reuseNodes(n, ReuseOptions{}, ctx);
+    EXPECT_EQ(sameFunctions(before, n), "");
+    EXPECT_EQ(n.node(f1).cover, cover({{pos(g), pos(c)}}));
+    EXPECT_EQ(n.node(h).cover, cover({{pos(f1), pos(e)}, {pos(d)}}));
+}
+
 // Observability don't-cares (K. A. Bartlett et al., IEEE TCAD 1988; Savoj
 // and Brayton, DAC 1990 — from memory): in out = a·g with g = a⊕b, g is
 // only observed when a = 1, where it equals ¬b; so g may become ¬b. Checked
