@@ -145,6 +145,9 @@ const std::vector<LimitInfo>& limitTable() {
         field("region-literals",
               "networks of more than twice this many literals are restructured region by region (0: whole)",
               &EngineLimits::regionLiterals),
+        field("whole-cubes-max",
+              "region by region: the whole-network cube extraction runs only up to this many cubes (larger: per region; 0: no bound)",
+              &EngineLimits::wholeCubesMax),
         field("changed-region", "1: after the opening, trials look only at the changed region (0: whole network)",
               &EngineLimits::changedRegion),
         field("changed-radius", "fanin/fanout steps around the changed nodes that a changed region takes in",
@@ -813,6 +816,7 @@ EngineLimits limitsFor(Effort e) {
         l.minGainPermille = 5;
         l.impliedDontCares = false;
         l.regionLiterals = 20000;
+        l.wholeCubesMax = 500000;
         // The whole-network extractions (opening, or before the regions)
         // look at no more than this many cubes each: linear in the network.
         l.cubes.workBudget = 20000000;

@@ -27,6 +27,8 @@
 //
 // Sharing between regions is not looked for (a divisor common to two
 // regions is extracted in each): that is the price of the bounded work.
+// Above `whole-cubes-max` cubes even the whole-network cube extraction is
+// left to the regions (its candidate search grows faster than the network).
 #include "regions.h"
 
 #include "kerf/passes/tidy.h"
@@ -34,6 +36,7 @@
 #include <algorithm>
 #include <chrono>
 #include <climits>
+#include <cstdio>
 #include <ctime>
 #include <functional>
 
@@ -174,7 +177,19 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
         o.method = ShareDivisorsOptions::Method::Pairs;
         shareDivisors(n, o, c);
     });
-    wholePass("extract-cubes", [&L](net::Network& n, PassContext& c) { shareCubes(n, L.cubes, c); });
+    std::size_t cubes = 0;
+    for (net::NodeId v = 0; v < net.nodeCount(); ++v)
+        if (net.isLogic(v)) cubes += net.node(v).cover.cubes.size();
+    if (L.wholeCubesMax == 0 || cubes <= L.wholeCubesMax) {
+        wholePass("extract-cubes", [&L](net::Network& n, PassContext& c) { shareCubes(n, L.cubes, c); });
+    } else {
+        // Too large for one extraction over everything (limit whole-cubes-max):
+        // each region's scheduler extracts the cubes shared inside it.
+        res.limitsHit.push_back("whole-cubes-max");
+        if (opts.verbose >= 1)
+            std::fprintf(stderr, "kerf: whole-network cube extraction left to the regions: %zu cubes (whole-cubes-max %zu)\n",
+                         cubes, L.wholeCubesMax);
+    }
 
     const DepthSlack slack = depthSlack(net, bound, &cache);
     std::vector<std::size_t> earliest = slack.earliest;

@@ -33,6 +33,9 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     EXPECT_EQ(l.changedRadius, 2);
     EXPECT_LT(limitsFor(Effort::Fast).cubes.workBudget, limitsFor(Effort::Default).cubes.workBudget)
         << "fast bounds whole-network cube extraction (cubes-work)";
+    setLimit(l, "whole-cubes-max=9");
+    EXPECT_EQ(l.wholeCubesMax, 9u);
+    EXPECT_GT(limitsFor(Effort::Fast).wholeCubesMax, 0u) << "fast leaves cube extraction on huge networks to the regions";
     try {
         setLimit(l, "collapse-all=1");
         FAIL() << "expected an error";
@@ -52,7 +55,7 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     std::string d = describeLimits();
     for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps",
                              "opening-moves", "readmit-permille", "changed-region", "changed-radius",
-                             "changed-walk-degree", "changed-full-permille", "changed-regroup"})
+                             "changed-walk-degree", "changed-full-permille", "changed-regroup", "whole-cubes-max"})
         EXPECT_NE(d.find(name), std::string::npos) << name;
 }
 
@@ -341,6 +344,45 @@ TEST(PassesEngine, RegionsKeepFunctionAndDepth) {
         EXPECT_LE(measureFactored(n, -1).depth, measureFactored(input, -1).depth) << "seed " << seed;
         EXPECT_EQ(measureFactored(n, r.depthCap).gates, r.after.gates);
         EXPECT_NE(formatEngineReport(r).find("regions"), std::string::npos);
+    }
+}
+
+TEST(PassesEngine, WholeCubeExtractionIsLeftToRegionsAboveItsBound) {
+    // Limit whole-cubes-max (F145): a network cut into regions with more
+    // cubes than the bound gets no whole-network cube extraction (no such row,
+    // the limit is reported as cutting work short); its regions still
+    // restructure it with the same functions and no more gates. At or below
+    // the bound the whole-network extraction runs as before.
+    for (std::uint32_t seed = 1; seed <= 3; ++seed) {
+        Network n = randomAig(140 + seed, 14, 600, 12);
+        tidy(n);
+        std::size_t cubes = 0;
+        for (NodeId v = 0; v < n.nodeCount(); ++v)
+            if (n.isLogic(v)) cubes += n.node(v).cover.cubes.size();
+        auto hasWholeCubes = [](const EngineResult& r) {
+            for (const TechniqueRow& t : r.techniques)
+                if (t.technique == "whole network: extract-cubes") return true;
+            return false;
+        };
+        auto limited = [](const EngineResult& r) {
+            return std::find(r.limitsHit.begin(), r.limitsHit.end(), "whole-cubes-max") != r.limitsHit.end();
+        };
+        EngineOptions o;
+        o.limits.regionLiterals = 60;
+        o.limits.wholeCubesMax = cubes - 1;
+        Network cut = n;
+        EngineResult r = restructure(cut, o);
+        EXPECT_EQ(sameFunctions(n, cut), "") << "seed " << seed;
+        EXPECT_FALSE(hasWholeCubes(r)) << "seed " << seed;
+        EXPECT_TRUE(limited(r)) << "seed " << seed;
+        EXPECT_LE(r.after.gates, r.before.gates) << "seed " << seed;
+        EXPECT_NE(formatEngineReport(r).find("whole-cubes-max"), std::string::npos);
+        o.limits.wholeCubesMax = cubes;
+        Network whole = n;
+        EngineResult w = restructure(whole, o);
+        EXPECT_EQ(sameFunctions(n, whole), "") << "seed " << seed;
+        EXPECT_TRUE(hasWholeCubes(w)) << "seed " << seed;
+        EXPECT_FALSE(limited(w)) << "seed " << seed;
     }
 }
 
