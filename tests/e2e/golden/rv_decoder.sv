@@ -29,17 +29,19 @@ module rv_decoder (
   wire nopcode6_nopcode2 = ~(opcode[6] | opcode[2]);
   wire opcode_is_33 = (opcode[5:4] == 2'b11) & nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2;
   wire opcode_is_13 = (opcode[5:4] == 2'b01) & nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2;
-  wire opcode_is_03 = (opcode[5:4] == 2'b00) & nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2;
   wire opcode_5_4_is_10 = opcode[5:4] == 2'b10;
+  wire opcode_is_23 = nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2 & opcode_5_4_is_10;
   wire opcode_is_63 = opcode[6] & ~opcode[2] & nopcode3_opcode_1_0_is_11 & opcode_5_4_is_10;
   wire reg_write_t1 = ~opcode[6] & opcode[4] & opcode[2] & nopcode3_opcode_1_0_is_11;
   wire reg_write_t4 = opcode[6] & opcode[2] & opcode_5_4_is_10;
+  wire opcode_is_6f = opcode[3] & opcode_1_0_is_11 & reg_write_t4;
   wire opcode_is_67 = nopcode3_opcode_1_0_is_11 & reg_write_t4;
-  wire reg_write_t3 = ~(opcode_is_33 | opcode_is_13);
-  wire reg_write_t2 = opcode_is_03 | opcode_is_67;
-  wire reg_write_t0 = reg_write_t3 & ~reg_write_t2;
-  wire alu_op0_t0 = opcode_is_63 | ~reg_write_t3;
+  wire reg_write_t3 = opcode_is_6f | opcode_is_67;
+  wire reg_write_t2 = ~(opcode_is_33 | opcode_is_13);
+  wire reg_write_t0 = ~reg_write_t3 & reg_write_t2;
+  wire alu_op0_t0 = opcode_is_63 | ~reg_write_t2;
   wire alu_op3_t0 = opcode_is_33 | ((funct3 == 3'b101) & opcode_is_13);
+  wire imm_sel0_t0 = opcode_is_23 | reg_write_t1;
   wire funct3_not_000 = funct3 != 3'b000;
   always_comb begin
     // comments of the replaced code, each after the code it was on or above:
@@ -51,20 +53,20 @@ module rv_decoder (
     //   7'b0?10111: begin  // LUI and AUIPC
     //   7'b1101111: begin  // JAL
     //   7'b1100111: begin  // JALR
-    mem_read = opcode_is_03;
-    mem_write = nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2 & opcode_5_4_is_10;
+    mem_read = (opcode[5:4] == 2'b00) & nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2;
+    reg_write = reg_write_t1 | ~reg_write_t0 | mem_read;
+    mem_write = opcode_is_23;
     branch = opcode_is_63;
-    alu_src[0] = opcode_is_13 | reg_write_t2 | mem_write | (opcode[5] & reg_write_t1);
+    jump = reg_write_t3;
+    alu_src[0] = opcode_is_13 | opcode_is_23 | opcode_is_67 | mem_read | (opcode[5] & reg_write_t1);
+    alu_src[1] = opcode_is_6f | (~opcode[5] & reg_write_t1);
     alu_op[2:0] = funct3 & {3{alu_op0_t0}};
     alu_op[3] = opcode_is_63 | (f7_alt & alu_op3_t0);
-    imm_sel[0] = reg_write_t1 | mem_write;
+    imm_sel[0] = imm_sel0_t0;
     imm_sel[1] = opcode_is_63 | reg_write_t1;
-    imm_sel[2] = opcode[3] & opcode_1_0_is_11 & reg_write_t4;
-    reg_write = reg_write_t1 | ~reg_write_t0 | imm_sel[2];
-    jump = opcode_is_67 | imm_sel[2];
-    alu_src[1] = imm_sel[2] | (~opcode[5] & reg_write_t1);
+    imm_sel[2] = opcode_is_6f;
     illegal = ((funct3[2:1] == 2'b01) & opcode_is_63)
             | (opcode_is_67 & funct3_not_000)
-            | ~(opcode_is_63 | ~reg_write_t0 | imm_sel[2] | imm_sel[0]);
+            | ~(opcode_is_63 | ~reg_write_t0 | imm_sel0_t0 | mem_read);
   end
 endmodule
