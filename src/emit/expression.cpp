@@ -476,8 +476,9 @@ PExpr ExprBuilder::build(const Factored& f, bool neg) {
         PExpr s = buildLit(sel);
         PExpr a = build(choiceArm(f, thenKid, sThen), neg);
         PExpr b = build(choiceArm(f, 1 - thenKid, sElse), neg);
-        if (s.neg && s.atomic()) {
-            // The name holds the complement: select on it and swap the branches.
+        if (s.neg) {
+            // Select on the name (or the expression) without its `~` and swap the branches:
+            // `~(a & b) ? x : y` reads better as `(a & b) ? y : x`.
             s.neg = false;
             std::swap(a, b);
         }
@@ -780,7 +781,9 @@ std::vector<std::string> layoutLines(const PExpr& e, std::size_t col, std::size_
         const PExpr* link = &e;
         bool first = true;
         while (true) {
-            std::vector<std::string> cond = sub(link->kids[0], kc, 0);
+            std::string valFlat;
+            appendFlat(valFlat, link->kids[1]);
+            std::vector<std::string> cond = sub(link->kids[0], kc, 3 + std::min<std::size_t>(valFlat.size(), limit / 4));
             std::vector<std::string> val = sub(link->kids[1], kc, 0);
             if (first) lines = cond;
             else {
@@ -808,7 +811,12 @@ std::vector<std::string> layoutLines(const PExpr& e, std::size_t col, std::size_
         auto sub = [&](const PExpr& k, std::size_t c, std::size_t t) {
             return layoutLines(k, c, limit, t, needsParens(PExpr::Kind::Mux, k));
         };
-        std::vector<std::string> s = sub(e.kids[0], kc, 0);
+        // The condition breaks at its own operators when ` ? ` and the first branch would
+        // not fit after it.
+        std::string thenFlat;
+        appendFlat(thenFlat, e.kids[1]);
+        std::size_t thenTail = 3 + std::min<std::size_t>(thenFlat.size(), limit / 4);
+        std::vector<std::string> s = sub(e.kids[0], kc, thenTail);
         lines = s;
         std::size_t qcol = (lines.size() == 1 ? kc + lines[0].size() : lines.back().size()) + 1;
         std::vector<std::string> a = sub(e.kids[1], qcol + 2, 0);

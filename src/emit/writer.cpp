@@ -524,7 +524,9 @@ private:
         }
         return static_cast<int>(bits.size()) >= it->second.width;
     }
-    std::string operationText(const frontend::WordOp& w);
+    /// The operation as Verilog; with `breakCol` (the column its text starts at) a binary one too
+    /// long for the line limit continues on a second line, the operator leading it.
+    std::string operationText(const frontend::WordOp& w, std::size_t breakCol = 0);
     void inlineOperands();
 
 public:
@@ -1951,8 +1953,14 @@ PExpr Writer::choiceExpr(const std::string& signal) {
         }
         PExpr m;
         m.kind = PExpr::Kind::Mux;
+        PExpr then = name(link);
+        if (cond.neg && e.atomic()) {
+            // `~(c) ? A : B` reads as `c ? B : A`; inside a chain the order of the links stays.
+            cond.neg = false;
+            std::swap(then, e);
+        }
         m.kids.push_back(std::move(cond));
-        m.kids.push_back(name(link));
+        m.kids.push_back(std::move(then));
         m.kids.push_back(std::move(e));
         e = std::move(m);
     }
@@ -2146,7 +2154,8 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
                             } else {
                                 c = here ? eb.definition(cond, false) : eb.literal(algebra::makeLiteral(cond, false));
                             }
-                            if (c.kind == PExpr::Kind::Ref && c.neg) c.neg = false, flip = true;
+                            // `~(c) ? A : B` reads as `c ? B : A`.
+                            if (c.neg) c.neg = false, flip = true;
                             // Never a condition that reads the vector it assigns.
                             std::set<std::string> condReads;
                             collectRefs(c, condReads);
@@ -2513,7 +2522,7 @@ void Writer::inlineOperands() {
         }
 }
 
-std::string Writer::operationText(const frontend::WordOp& w) {
+std::string Writer::operationText(const frontend::WordOp& w, std::size_t breakCol) {
     inlineOperands();
     auto operandText = [&](std::size_t i) {
         auto in = inlined_.find(w.operands[i].name);
@@ -2530,8 +2539,11 @@ std::string Writer::operationText(const frontend::WordOp& w) {
         if (sign && n.starts_with(kUnsigned) && n.back() == ')') n = n.substr(kUnsigned.size(), n.size() - kUnsigned.size() - 1);
         return sign ? fmt::format("$signed({})", n) : n;
     };
-    return w.unary ? fmt::format("{}{}", w.op, operandText(0))
-                   : fmt::format("{} {} {}", operandText(0), w.op, operandText(1));
+    if (w.unary) return fmt::format("{}{}", w.op, operandText(0));
+    std::string a = operandText(0), b = operandText(1);
+    std::string flat = fmt::format("{} {} {}", a, w.op, b);
+    if (breakCol == 0 || breakCol + flat.size() + 1 <= opts_.lineLimit || breakCol < w.op.size() + 1) return flat;
+    return fmt::format("{}\n{}{} {}", a, std::string(breakCol - w.op.size() - 1, ' '), w.op, b);
 }
 
 std::string Writer::wireBlock(int g, const std::string& ind) {
@@ -2653,8 +2665,8 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
         for (std::size_t k = 0; k < low_.wordOps.size(); ++k) {
             const auto& w = low_.wordOps[k];
             if (!inGroup(k) || sameAs_.count(w.result) || resultName_.count(w.result)) continue;
-            std::string rhs = operationText(w);
-            out += ind + fmt::format("assign {} = {};\n", w.result, rhs);
+            std::string lead = fmt::format("assign {} = ", w.result);
+            out += ind + lead + operationText(w, ind.size() + lead.size()) + ";\n";
         }
     }
     return out;

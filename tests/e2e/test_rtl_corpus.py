@@ -110,6 +110,7 @@ KINDS = {
     "sim": "Icarus Verilog shows the rewrite behaving differently from the original",
     "lint": "Verilator -Wall warns about the rewrite where it did not about the original",
     "guard": "a rewrite pinned with --param still builds with another value",
+    "layout": "a line kerf wrote is longer than 100 columns",
     "equiv": "kerf equiv gives a verdict that Icarus Verilog contradicts",
     "equiv-error": "kerf equiv fails instead of giving a verdict",
 }
@@ -294,6 +295,11 @@ def restructure(kerf, run, work, defs, flags, tag, extra=()):
         run.problem("report", f"{what}: the JSON report has no statements_replaced count")
     elif replaced == 0:
         run.problem("kept", f"{what}: kerf kept every statement as written (0 statements restructured)")
+    # Lines kerf wrote stay within 100 columns (common trade practice for review; issue 10).
+    src_lines = set(open(c.path, "rb").read().split(b"\n"))
+    long = [l for l in open(out, "rb").read().split(b"\n") if l not in src_lines and len(l.expandtabs(8)) > 100]
+    if long:
+        run.problem("layout", f"{what}: {len(long)} written line(s) longer than 100 columns: {long[:2]}")
     return out, what
 
 

@@ -86,3 +86,35 @@ TEST(EmitExpression, TextDependsOnTheLogicOnlyNotOnWhatWasPrintedBefore) {
         }
     EXPECT_EQ(checked, 800u);
 }
+
+// A choice whose condition fits the line but not with ` ? ` and its first branch after it: the
+// condition breaks at its own operators (issue 10: lines of at most 100 columns; seen as
+// `st2 = ~(in0[2] & ...) ? 11'b00000000000` at 111 columns on a random module).
+TEST(EmitExpression, ChoiceWithALongConditionStaysWithinTheLineLimit) {
+    using kerf::emit::PExpr;
+    auto ref = [](std::string text) {
+        PExpr e;
+        e.kind = PExpr::Kind::Ref;
+        e.text = std::move(text);
+        return e;
+    };
+    PExpr cond;
+    cond.kind = PExpr::Kind::And;
+    for (int i = 0; i < 6; ++i) cond.kids.push_back(ref("req_lane" + std::to_string(i) + "[3]"));
+    PExpr choice;
+    choice.kind = PExpr::Kind::Mux;
+    choice.kids = {cond, ref("11'b00000000100"), ref("11'b00000000000")};
+    const std::size_t col = 10, limit = 100;
+    ASSERT_LE(col + kerf::emit::flatText(cond).size(), limit);   // the condition alone fits
+    std::string text = kerf::emit::layoutText(choice, col, limit, 1);
+    std::size_t start = 0, line = 0;
+    while (start <= text.size()) {
+        std::size_t end = text.find('\n', start);
+        std::string l = text.substr(start, end == std::string::npos ? std::string::npos : end - start);
+        EXPECT_LE((line == 0 ? col : 0) + l.size(), limit) << text;
+        if (end == std::string::npos) break;
+        start = end + 1;
+        ++line;
+    }
+    EXPECT_GT(line, 0u) << text;
+}
