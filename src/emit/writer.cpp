@@ -2903,15 +2903,31 @@ WriteResult Writer::run() {
         for (NodeId w : wires_) used.insert(refs_[w]->text);
         std::string name = opts_.prefix.empty() ? "kf_unused" : opts_.prefix + "unused";
         for (int k = 2; used.count(name); ++k) name = fmt::format("{}{}_{}", opts_.prefix.empty() ? "kf_" : opts_.prefix, "unused", k);
-        std::string cat;
-        for (std::size_t k = res.notRead.size(); k-- > 0;) {
-            auto sized = sizedText.find(res.notRead[k]);
-            cat += (res.notRead.size() > 1 && sized != sizedText.end() ? sized->second : res.notRead[k]) +
-                   (k ? ", " : "");
-        }
-        if (res.notRead.size() > 1) cat = "{" + cat + "}";
         std::string ind = indentOf(src_, edits.empty() ? endAt : edits.front().start);
         if (ind.empty()) ind = "  ";
+        std::string lead = notReadWidth_ == 1 ? fmt::format("wire {} = ", name)
+                                              : fmt::format("wire [{}:0] {} = ", notReadWidth_ - 1, name);
+        // The concatenation packed on lines within the limit, continuations under its first item.
+        std::string cat;
+        {
+            const std::size_t itemCol = ind.size() + lead.size() + (res.notRead.size() > 1 ? 1 : 0);
+            std::size_t col = itemCol;
+            for (std::size_t k = res.notRead.size(); k-- > 0;) {
+                auto sized = sizedText.find(res.notRead[k]);
+                std::string item = res.notRead.size() > 1 && sized != sizedText.end() ? sized->second : res.notRead[k];
+                std::size_t need = item.size() + (k ? 1 : 2);   // its comma, or `};`
+                if (col > itemCol && col + 1 + need > opts_.lineLimit) {
+                    cat += "\n" + std::string(itemCol, ' ');
+                    col = itemCol;
+                } else if (col > itemCol) {
+                    cat += ' ';
+                    ++col;
+                }
+                cat += item + (k ? "," : "");
+                col += item.size() + (k ? 1 : 0);
+            }
+        }
+        if (res.notRead.size() > 1) cat = "{" + cat + "}";
         const bool bitsListed = res.notRead.size() > res.constantsNotNamed.size();
         std::string block = (bitsListed
                                  ? ind + "// kerf: the restructured logic does not depend on these bits; they are read here so\n" +
@@ -2921,8 +2937,7 @@ WriteResult Writer::run() {
                                             : ind + "// (named constants it no longer compares with are read here too)\n")
                                  : ind + "// kerf: the restructured logic no longer names these constants; they are read here so\n" +
                                        ind + "// that lint reports no unused parameter (a name containing 'unused': common practice)\n") +
-                            ind + (notReadWidth_ == 1 ? fmt::format("wire {} = {};\n", name, cat)
-                                                     : fmt::format("wire [{}:0] {} = {};\n", notReadWidth_ - 1, name, cat));
+                            ind + lead + cat + ";\n";
         edits.push_back({lineStart(src_, endAt), lineStart(src_, endAt), block});
         res.unusedWire = name;
     }
