@@ -1612,11 +1612,8 @@ void Writer::decide() {
         bool enough = opts_.minGain.percent
                           ? gain * 100.0 >= opts_.minGain.value * static_cast<double>(G.gatesBefore)
                           : gain >= opts_.minGain.value;
-        // --min-gain 0 rewrites every group that does not grow (for reviewing kerf's output),
-        // except a group of no gates (copies, constants): nothing to gain, and a rewrite would
-        // only trade the author's named constants for literals (kerf's own unused-bits wire,
-        // `{CSR_MTVEC, ...}`, came back as `96'hb003...` on a second run).
-        G.replaced = enough && (gain > 0 || (opts_.minGain.value == 0 && gain >= 0 && G.gatesBefore > 0));
+        // --min-gain 0 rewrites every group that does not grow (for reviewing kerf's output).
+        G.replaced = enough && (gain > 0 || (opts_.minGain.value == 0 && gain >= 0));
         if (G.replaced) G.reason.clear();
         else if (gain <= 0) G.reason = fmt::format("no saving ({} -> {} gates)", G.gatesBefore, G.gatesAfter);
         else G.reason = fmt::format("saves {:g} gate{} ({} -> {}), less than --min-gain {}", gain, gain == 1 ? "" : "s",
