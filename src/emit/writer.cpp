@@ -559,9 +559,8 @@ private:
 };
 
 namespace {
-/// A sized literal of `bits` (MSB first): binary up to 16 bits, hexadecimal beyond.
-std::string sizedBinary(const std::string& bits) {
-    if (bits.size() <= 16) return fmt::format("{}'b{}", bits.size(), bits);
+/// Hexadecimal digits of the binary digits `bits` (MSB first; the first digit takes the rest).
+std::string hexDigits(const std::string& bits) {
     std::string hex;
     std::size_t first = bits.size() % 4 == 0 ? 4 : bits.size() % 4;
     for (std::size_t i = 0; i < bits.size();) {
@@ -571,7 +570,13 @@ std::string sizedBinary(const std::string& bits) {
         hex += "0123456789abcdef"[d];
         i += n;
     }
-    return fmt::format("{}'h{}", bits.size(), hex);
+    return hex;
+}
+
+/// A sized literal of `bits` (MSB first): binary up to 16 bits, hexadecimal beyond.
+std::string sizedBinary(const std::string& bits) {
+    if (bits.size() <= 16) return fmt::format("{}'b{}", bits.size(), bits);
+    return fmt::format("{}'h{}", bits.size(), hexDigits(bits));
 }
 } // namespace
 
@@ -939,16 +944,7 @@ std::string valueFragment(const std::string& compareText) {
     std::string digits = compareText.substr(tick + 2);
     if (compareText[tick + 1] != 'b' || digits.size() < 5 || digits.find_first_not_of("01") != std::string::npos)
         return digits;
-    std::string hex;
-    std::size_t first = digits.size() % 4 == 0 ? 4 : digits.size() % 4;
-    for (std::size_t i = 0; i < digits.size();) {
-        std::size_t n = i == 0 ? first : 4;
-        int d = 0;
-        for (std::size_t j = 0; j < n; ++j) d = d * 2 + (digits[i + j] == '1');
-        hex += "0123456789abcdef"[d];
-        i += n;
-    }
-    return hex;
+    return hexDigits(digits);
 }
 
 std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted) const {
