@@ -196,6 +196,12 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
                     new = os.path.join(sim_dir, name + "_new.sv")
                     ref_text = O.always_comb_as_always_star(O.renamed(text, name, name + "_ref"))
                     new_text = O.always_comb_as_always_star(O.renamed(new_text, name, name + "_new"))
+                    if desc.get("package"):
+                        # both files declare the module's package: one copy each under its own name
+                        # (the generator makes the name unique, so a whole-word replace is exact)
+                        pkg = re.compile(r"\b%s\b" % re.escape(desc["package"]))
+                        ref_text = pkg.sub(desc["package"] + "_ref", ref_text)
+                        new_text = pkg.sub(desc["package"] + "_new", new_text)
                     open(ref, "w").write(ref_text)
                     open(new, "w").write(new_text)
                     to_sim.append((sim_desc, ref, new, src, out, lost))

@@ -7,7 +7,12 @@ loops, whole/bit/part/variable-index writes, functions with loops, concatenation
 replication, constant and variable selects and part-selects, reductions, comparisons, shifts
 by constants and by signals, word arithmetic that kerf must keep (+, -, *), division and
 modulo by constants, x defaults, internal 2-D packed arrays and packed structs written and read
-by element or member, and `always_ff` registers beside the logic.
+by element or member, `always_ff` registers beside the logic, a package (constants, an enum
+type, a function) imported by the module and named by scope, `$countones`/`$onehot`/`$onehot0`,
+and Verilog-2001 `always @*` blocks.
+
+A few forms are avoided on purpose because Icarus Verilog 11 (the reference simulator) gets them
+wrong, not kerf: system-function arguments other than a whole signal, and `pkg::f(x)` calls.
 
 The same (seed, index, features) always gives the same module text (Python's `random.Random`
 is seeded with both), so a failure found by a campaign is reproduced by its seed and index:
@@ -50,6 +55,9 @@ FEATURES = {
     "generate": "generate for loops and generate if over a parameter, with named blocks",
     "ifdef": "`ifdef/`ifndef alternatives around assigns and statements (read with no defines)",
     "tristate": "outputs driven to z by a conditional continuous assignment",
+    "package": "a package of constants, an enum type and a function, imported or named by scope",
+    "sysfunc": "$countones, $onehot and $onehot0 on expressions",
+    "alwaysstar": "Verilog-2001 `always @*` blocks beside `always_comb`",
 }
 DEFAULT_OFF = {"param", "xcompare", "divconst", "oob"}
 # Each module draws its own subset of the enabled constructs, so that one construct that kerf
@@ -122,6 +130,9 @@ class ModuleGen:
         self.localparams = []
         self.counter = 0
         self.loop_var = None        # (name, bound) inside a generated for loop
+        self.pkg = f"{self.name}_pkg"
+        self.pkg_consts = []        # (name, width) of the package's constants, once it has some
+        self.pkg_lines = []
 
     # ---- helpers -------------------------------------------------------------------------
     def on(self, feature, p=1.0):
@@ -162,6 +173,10 @@ class ModuleGen:
             name, _ = self.rng.choice([(p[0], 0) for p in self.params] + [(p[0], 0) for p in self.localparams])
             self.use("param" if any(p[0] == name for p in self.params) else "localparam")
             return f"4'({name})", 4
+        if r < 0.20 and self.pkg_consts:
+            name, w = self.rng.choice(self.pkg_consts)
+            self.use("package")
+            return (f"{self.pkg}::{name}" if self.rng.random() < 0.4 else name), w
         if r < 0.22 and self.loop_var:
             return f"{self.loop_var[2]}'({self.loop_var[0]})", self.loop_var[2]
         s = self.pick()
@@ -298,9 +313,23 @@ class ModuleGen:
             d = self.rng.choice([2, 3, 4, 5, 8, 10])
             dw = max(wa, d.bit_length())
             return f"({a} {self.rng.choice(['/', '%'])} {dw}'d{d})", dw
+        if r < 0.94 and "sysfunc" in self.f:
+            self.use("sysfunc")
+            fn = self.rng.choice(["$countones", "$onehot", "$onehot0"])
+            # The argument is a whole plain signal: Icarus 11 sizes an argument such as `s || b`
+            # with a signed `s` wrongly (`$onehot0(s || b)` gives 0 where both are 1), and an
+            # `always @*` that reads a signal only in `$onehot0(v[i*1 +: 1])` never wakes up.
+            s = self.pick(lambda s: s.plain)
+            if s is None:
+                return self.select()
+            a, wa = s.name, s.width
+            if fn == "$countones":
+                w = wa.bit_length()
+                return f"{w}'({fn}({a}))", w
+            return f"{fn}({a})", 1
         if r < 0.96 and self.functions:
             fname, fw, nargs = self.rng.choice(self.functions)
-            self.use("function")
+            self.use("package" if fname.startswith("pk_") else "function")
             args = [a] + [self.expr(depth - 1)[0] for _ in range(nargs - 1)]
             return f"{fname}({', '.join(args)})", fw
         return self.select()
@@ -480,7 +509,7 @@ class ModuleGen:
 
     def composite_block(self, sig):
         """An always_comb block that writes all of `sig`, then some elements or members again."""
-        out = ["  always_comb begin"]
+        out = [self.block_head()]
         e, _ = self.expr(1)
         out.append(f"    {sig.name} = {e if self.rng.random() < 0.6 else chr(39) + '0'};")
         for _ in range(self.rng.randint(1, 3)):
@@ -500,6 +529,30 @@ class ModuleGen:
         out.append("  end")
         self.readable.append(sig)
         return out
+
+    def block_head(self):
+        """`always_comb begin`, or its Verilog-2001 spelling `always @* begin`."""
+        if self.on("alwaysstar", 0.4):
+            self.use("alwaysstar")
+            return "  always @* begin"
+        return "  always_comb begin"
+
+    def package(self):
+        """A package with two constants, a function over one of them and (if enums are on) room for
+        the enum type; the module imports it, and some reads name it by scope."""
+        w = self.rng.choice([3, 4, 6, 8])
+        self.pkg_consts = [(f"PK_C{i}", w) for i in range(2)]
+        fname = "pk_fold"
+        fw = self.rng.randint(2, 6)
+        op = self.rng.choice(["^", "|", "&"])
+        self.pkg_lines = [f"package {self.pkg};"]
+        self.pkg_lines += [f"  localparam logic [{w - 1}:0] {n} = {self.const(w)};" for n, _ in self.pkg_consts]
+        self.pkg_lines += [f"  function automatic logic [{fw - 1}:0] {fname}(input logic [{fw - 1}:0] a);",
+                           f"    return a {op} {fw}'(PK_C0);",
+                           "  endfunction"]
+        # called by its imported name: Icarus 11 fails an internal assertion on `~pkg::f(x)` in
+        # some procedural contexts (the constants are still read by scope as well)
+        self.functions.append((fname, fw, 1))
 
     def function(self):
         fw = self.rng.randint(2, 8)
@@ -541,6 +594,9 @@ class ModuleGen:
                 r = Sig(f"q{j}", rng.choice([1, 2, 4, 6]))
                 regs.append(r)
             self.readable += regs
+        if self.on("package", 0.5):
+            self.use("package")
+            self.package()
         if self.on("function", 0.35):
             self.lines += self.function()
         composite_blocks, composites, typedefs = [], [], []
@@ -569,9 +625,13 @@ class ModuleGen:
             sig = Sig(self.fresh("st"), bits)
             sig.enum = [(f"{tname[:-2].upper()}_{chr(65 + i)}", v) for i, v in enumerate(values)]
             sig.type_name = tname
-            typedefs.append(f"  typedef enum logic [{bits - 1}:0] {{"
-                            + ", ".join(f"{n} = {bits}'d{v}" for n, v in sig.enum) + f"}} {tname};")
-            block = ["  always_comb begin", f"    {sig.name} = {sig.enum[0][0]};"]
+            enum_type = (f"  typedef enum logic [{bits - 1}:0] {{"
+                         + ", ".join(f"{n} = {bits}'d{v}" for n, v in sig.enum) + f"}} {tname};")
+            if self.pkg_lines and rng.random() < 0.6:
+                self.pkg_lines.insert(1, enum_type)     # the type (and its names) come from the package
+            else:
+                typedefs.append(enum_type)
+            block = [self.block_head(), f"    {sig.name} = {sig.enum[0][0]};"]
             for _ in range(rng.randint(1, 3)):
                 block += self.stmt([sig], rng.randint(1, 3), "    ")
             block.append("  end")
@@ -617,7 +677,7 @@ class ModuleGen:
                 if rng.random() < 0.3:
                     extra = Sig(f"w{k}b", rng.choice([1, 2, 3, 4]))
                     targets.append(extra)
-                body.append("  always_comb begin")
+                body.append(self.block_head())
                 for t in targets:
                     e, _ = self.expr(1)
                     body.append(f"    {t.name} = {e};")
@@ -670,10 +730,12 @@ class ModuleGen:
         plines += [f"  output {_decl_type(s.width, False)} {s.name}" for s in outs]
         head.append(",\n".join(plines))
         head.append(");")
-        decls = [f"  localparam int {n} = {v};" for n, v in self.localparams]
+        decls = [f"  import {self.pkg}::*;"] if self.pkg_lines else []
+        decls += [f"  localparam int {n} = {v};" for n, v in self.localparams]
         decls += typedefs
         decls += [f"  {self.decl_of(s)} {s.name};" for s in internals]
-        text = "\n".join(head + decls + self.lines + body + ff + ["endmodule", ""])
+        pkg = self.pkg_lines + ["endpackage", ""] if self.pkg_lines else []
+        text = "\n".join(pkg + head + decls + self.lines + body + ff + ["endmodule", ""])
         ports = []
         if clock:
             ports += [{"name": clock, "dir": "in", "width": 1, "signed": False},
@@ -688,6 +750,7 @@ class ModuleGen:
             "reset": (reset, 0) if reset else None,
             "param_sets": [[]] + ([[f"{n}={o}" for n, _, o in self.params]] if self.params else []),
             "constructs": sorted(self.used),
+            "package": self.pkg if self.pkg_lines else None,
         }
         return text, desc
 
