@@ -45,6 +45,7 @@ The harness (tests/CMakeLists.txt) registers one ctest entry per case, e2e.rtl_c
 import argparse
 import json
 import os
+import shlex
 import shutil
 import sys
 import tempfile
@@ -263,6 +264,10 @@ def compare(run, out_path, work, defs, params, exact, what, ref_files=None):
         run.problem("lint", f"{what}: Verilator -Wall rejects the rewrite: {text_b[-1500:]}")
 
 
+# Options added to every `kerf restructure` of the run (--kerf-args), e.g. another effort or goal.
+RUN_ARGS = []
+
+
 def restructure(kerf, run, work, defs, flags, tag, extra=()):
     c = run.case
     out_dir = os.path.join(work, tag)
@@ -270,6 +275,7 @@ def restructure(kerf, run, work, defs, flags, tag, extra=()):
     out = os.path.join(out_dir, os.path.basename(c.path))
     # --min-gain 0: rewrite every group that does not grow, so that the writer is exercised
     # on each case even where the rewrite would not pay (by default such statements stay as written).
+    extra = [*extra, *RUN_ARGS]
     cmd = [kerf, "restructure", *c.files, "--top", c.top, *idirs(c), *dflags(defs), *flags, *extra,
            "--min-gain", "0", "-o", out]
     report = os.path.join(out_dir, "report.json")
@@ -375,7 +381,9 @@ def main():
     p.add_argument("--case", default="", help="run exactly this case")
     p.add_argument("--list", action="store_true", help="print the case names and exit")
     p.add_argument("--keep", action="store_true", help="keep the work directory and print its path")
+    p.add_argument("--kerf-args", default="", help="more restructure options for every run, e.g. '--effort thorough'")
     a = p.parse_args()
+    RUN_ARGS[:] = shlex.split(a.kerf_args)
     root = os.path.abspath(a.root)
     if a.cache:
         O.use_runtime_cache(a.cache)
