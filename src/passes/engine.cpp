@@ -23,7 +23,13 @@
 // the same scheduler without regroup moves on the result for a few trials,
 // and is valued by the network it ends with. Regroup sources exist for
 // growth 0, 1, 2, 4, ... up to the effort's maximum growth, so the engine
-// itself finds how far flattening pays on each design.
+// itself finds how far flattening pays on each design. On large networks
+// (limit regroup-lazy-gates) regroup moves follow the lazy greedy premise
+// strictly: a recorded gain is taken as a bound, so a regroup move whose
+// recorded gain is below the smallest gain kept is not valued again until a
+// large kept move readmits it, and keeping one regroup move lowers the other
+// growths' recorded gains by its own (they are alternatives on the same
+// network; see dormant and siblingsAfter).
 //
 // Changed regions. After the opening, a trial of a technique looks for
 // candidates only where the network changed since that technique was last
@@ -126,6 +132,10 @@ const std::vector<LimitInfo>& limitTable() {
         field("trials", "moves the scheduler may value before it stops", &EngineLimits::trials, 1),
         field("max-growth", "largest literal growth per dissolved node in regroup moves", &EngineLimits::maxGrowth),
         field("regroup-trials", "trials spent re-optimising inside one regroup move", &EngineLimits::regroupTrials),
+        field("regroup-lazy-gates",
+              "from this many gates on, a regroup move whose recorded gain is below the smallest gain kept is not "
+              "valued again until a kept move saves readmit-permille (0: never)",
+              &EngineLimits::regroupLazyGates),
         field("opening-moves",
               "whole-network extraction moves (cubes or divisors, the better) made first, while they pay",
               &EngineLimits::openingMoves),
@@ -205,6 +215,9 @@ const std::vector<LimitInfo>& limitTable() {
             &ShareDivisorsOptions::kernelWork, 1),
         sub("divisors-max-extractions", "divisors extracted per move", &EngineLimits::divisors,
             &ShareDivisorsOptions::maxExtractions, 1),
+        sub("divisors-max-candidates",
+            "candidate divisors one move holds (nodes entered in order until it is full; 0: no bound)",
+            &EngineLimits::divisors, &ShareDivisorsOptions::maxCandidates),
         sub("resub-candidates", "existing nodes tried as divisors per node", &EngineLimits::reuse,
             &ReuseOptions::maxCandidates),
         sub("resub-complement-cubes", "cubes of a complement used as a divisor", &EngineLimits::reuse,
@@ -428,6 +441,8 @@ public:
         int trials = 0;
         if (top) opening(net, current, sources, budget, version, trials);
         for (;;) {
+            version_ = version;
+            currentGates_ = current.gates;
             // The source with the highest recorded gain (stale or fresh).
             Source* best = nullptr;
             bool allFresh = true;
@@ -445,6 +460,7 @@ public:
             if (best->valuedAt == version) {
                 if (best->estimate >= minGain(current) && best->pending) {
                     const std::size_t gatesBefore = current.gates;
+                    siblingsAfter(*best, version, best->estimate, sources);
                     apply(net, current, *best, top);
                     ++version;
                     if (top) readmitAfter(gatesBefore, current.gates, sources);
@@ -611,26 +627,62 @@ private:
     // technique each time, for nothing, at 70% of the engine's time).
     bool leftOut(const Source& s) const {
         if (s.misses >= opts_.limits.giveUpAfter) return true;
+        if (dormant(s)) return true;
         if (scope_.empty() || !innerMisses_) return false;
         auto it = innerMisses_->find(scope_ + "/" + s.name);
         return it != innerMisses_->end() && it->second >= opts_.limits.giveUpAfter;
     }
 
+    // Dormant (limit regroup-lazy-gates, F144): on a network of at least
+    // that many gates, a regroup source whose recorded gain, from a
+    // valuation on an earlier network, is below the smallest gain kept.
+    // Lazy greedy takes a recorded gain as a bound on what the move gains
+    // later; the other techniques are valued again all the same when nothing
+    // fresh pays (their gains come back after other moves), and so are
+    // regroup moves on small networks (priority: a last regroup move after
+    // two small moves of other techniques, 495 -> 492 gates). But a regroup
+    // valuation re-optimises the whole dissolved network: on the 30k decoder
+    // 9 valuations of 5-7 CPU s, the six after the first kept one gaining
+    // 0.01% each.
+    bool lazyRegroups(std::size_t gates) const {
+        return opts_.limits.regroupLazyGates > 0 && gates >= opts_.limits.regroupLazyGates;
+    }
+    bool dormant(const Source& s) const {
+        return s.growth >= 0 && lazyRegroups(currentGates_) && s.valuedAt >= 0 && s.valuedAt != version_ &&
+               s.estimate < minGain(currentGates_);
+    }
+
+    // Regroup moves at different growths are alternatives: each dissolves
+    // (about) the nodes a smaller growth dissolves and more, and re-optimises
+    // the whole network. When one is kept, the others valued on the same
+    // network record their gain over the kept result (at most 0 when the
+    // kept one was the best) rather than their gain over the network they
+    // were valued on, which the kept move has already taken.
+    void siblingsAfter(const Source& kept, long versionBefore, double keptGain, std::vector<Source>& sources) {
+        if (kept.growth < 0 || !lazyRegroups(currentGates_)) return;
+        for (Source& s : sources)
+            if (&s != &kept && s.growth >= 0 && s.valuedAt == versionBefore) s.estimate -= keptGain;
+    }
+
     // A kept move that changed the network a lot (limit readmit-permille)
     // brings every left-out technique back: what found nothing before may
-    // find something now.
+    // find something now. Dormant regroup moves come back with them.
     void readmitAfter(std::size_t gatesBefore, std::size_t gatesAfter, std::vector<Source>& sources) {
         const double changed = static_cast<double>(gatesBefore) - static_cast<double>(gatesAfter);
         if (opts_.limits.readmitPermille <= 0 ||
             changed * 1000.0 < static_cast<double>(gatesBefore) * opts_.limits.readmitPermille)
             return;
-        for (Source& s : sources) s.misses = 0;
+        for (Source& s : sources) {
+            s.misses = 0;
+            if (s.growth >= 0) s.estimate = std::numeric_limits<double>::infinity();
+        }
         if (innerMisses_) innerMisses_->clear();
     }
 
-    double minGain(const net::Metrics& current) const {
-        const double rel = static_cast<double>(current.gates) * opts_.limits.minGainPermille / 1000.0;
-        return std::max(1e-6, opts_.goal == Goal::Size ? rel : rel);
+    double minGain(const net::Metrics& current) const { return minGain(current.gates); }
+    double minGain(std::size_t gates) const {
+        const double rel = static_cast<double>(gates) * opts_.limits.minGainPermille / 1000.0;
+        return std::max(1e-6, rel);
     }
 
     bool admissible(const net::Metrics& m, const net::Metrics& current) const {
@@ -779,6 +831,8 @@ private:
     std::vector<std::vector<net::NodeId>> log_;
     std::vector<std::vector<net::NodeId>> fanouts_;
     long fanoutsAt_ = -1;
+    long version_ = 0;              // the run's current version and gates (for dormant)
+    std::size_t currentGates_ = 0;
 
 public:
     DontCareMemo* dcMemo_ = nullptr;   // shared by the whole run (see DontCareMemo)

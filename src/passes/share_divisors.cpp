@@ -30,7 +30,7 @@
 #include <climits>
 #include <queue>
 #include <unordered_map>
-#include <unordered_set>
+#include <stdexcept>
 
 namespace kerf::passes {
 
@@ -46,19 +46,49 @@ using detail::Workspace;
 
 // ---- two-cube and two-literal divisors -------------------------------------
 
+// A candidate divisor. Its cover (one or two cubes) lives in the table's
+// literal arena and its node list in the table's list pool: on a network of
+// wide sums of products nearly every pair of cubes of a node gives a
+// divisor of its own (22 million on the 100k `sopwide` network), and a
+// Cover and two vectors per divisor held about 300 bytes each (F149).
 struct Divisor {
-    Cover d;
     long saving = 0;
-    // Nodes that held the divisor when they were (re-)entered; entries of
-    // nodes since changed are not removed one by one (that costs the list's
-    // length per change); duplicates are dropped each time the list has
-    // doubled. A stale entry costs one failed division.
-    std::vector<net::NodeId> nodes;
-    std::size_t compactAt = 32;   // list length at which duplicates are next dropped
-    std::vector<net::NodeId> providers;  // nodes whose cover is d
+    std::uint32_t at = 0;            // its first literal in the arena
+    std::uint32_t first = 0;         // literals of its first cube
+    std::uint32_t second = 0;        // literals of its second cube
     std::uint32_t version = 0;
+    // Nodes that held the divisor when they were (re-)entered, newest
+    // first; entries of nodes since changed are not removed one by one
+    // (that costs the list's length per change); duplicates are dropped
+    // each time the list has doubled. A stale entry costs one failed division.
+    std::uint32_t nodes = UINT32_MAX;   // head of its list in the pool (UINT32_MAX: empty)
+    std::uint32_t count = 0;            // entries in the list
+    std::uint32_t compactAt = 32;       // list length at which duplicates are next dropped
+    std::uint8_t cubes = 0;             // 1 or 2
+    bool provided = false;              // some node's cover was d (see PairTable::providers_)
     bool blocked = false;
 };
+
+// The same hash over a cover given cube by cube, as (literals, length)
+// spans: the divisor index hashes stored divisors and looked-up covers
+// alike through it.
+template <class CubeAt>
+std::size_t mixedHash(std::size_t cubes, CubeAt cubeAt) {
+    std::uint64_t h = 0x243f6a8885a308d3ull ^ cubes;
+    for (std::size_t k = 0; k < cubes; ++k) {
+        const auto [p, n] = cubeAt(k);
+        for (std::size_t i = 0; i < n; ++i) {
+            h = (h ^ p[i]) * 0x9e3779b97f4a7c15ull;
+            h ^= h >> 29;
+        }
+        h = (h ^ 0xffffffffull) * 0xbf58476d1ce4e5b9ull;   // cube boundary
+        h ^= h >> 31;
+    }
+    h ^= h >> 33;
+    h *= 0xff51afd7ed558ccdull;
+    h ^= h >> 33;
+    return static_cast<std::size_t>(h);
+}
 
 struct Contribution {
     std::vector<std::pair<int, long>> items;   // divisor, saving
@@ -72,19 +102,42 @@ struct Contribution {
 class PairTable {
 public:
     PairTable(Workspace& ws, const ShareDivisorsOptions& opts)
-        : ws_(ws), opts_(opts), index_(64, ById{&divs_}, SameCover{&divs_}) {}
+        : ws_(ws), opts_(opts) {}
 
     long weight(int id) const {
         const Divisor& dv = divs_[static_cast<std::size_t>(id)];
         // Counted in two-input gates: a new node of L literals costs L-1 gates.
-        long cost = liveProvider(id) ? 0 : static_cast<long>(detail::lits(dv.d)) - 1;
+        long cost = liveProvider(id) ? 0 : static_cast<long>(dv.first + dv.second) - 1;
         return dv.saving - cost;
     }
 
     net::NodeId liveProvider(int id) const {
-        for (net::NodeId p : divs_[static_cast<std::size_t>(id)].providers)
-            if (ws_.live(p) && ws_.cover(p) == divs_[static_cast<std::size_t>(id)].d) return p;
+        if (!divs_[static_cast<std::size_t>(id)].provided) return 0;
+        auto it = providers_.find(id);
+        if (it == providers_.end()) return 0;
+        for (net::NodeId p : it->second)
+            if (ws_.live(p) && sameCover(id, ws_.cover(p))) return p;
         return 0;
+    }
+
+    /// Divisor id's cover.
+    Cover cover(int id) const {
+        const Divisor& dv = divs_[static_cast<std::size_t>(id)];
+        Cover d;
+        d.cubes.resize(dv.cubes);
+        const Literal* p = arena_.data() + dv.at;
+        d.cubes[0].lits.assign(p, p + dv.first);
+        if (dv.cubes == 2) d.cubes[1].lits.assign(p + dv.first, p + dv.first + dv.second);
+        return d;
+    }
+
+    /// The nodes on divisor id's list (unsorted, possibly repeated or stale).
+    std::vector<net::NodeId> nodesOf(int id) const {
+        std::vector<net::NodeId> out;
+        out.reserve(divs_[static_cast<std::size_t>(id)].count);
+        for (std::uint32_t e = divs_[static_cast<std::size_t>(id)].nodes; e != UINT32_MAX; e = pool_[e].next)
+            out.push_back(pool_[e].node);
+        return out;
     }
 
     // f's divisors and savings, summed per divisor and sorted by divisor.
@@ -254,12 +307,13 @@ public:
         }
         if (old.provides != next.provides) {
             if (old.provides >= 0) {
-                auto& pv = divs_[static_cast<std::size_t>(old.provides)].providers;
+                auto& pv = providers_[old.provides];
                 pv.erase(std::remove(pv.begin(), pv.end(), f), pv.end());
                 touched_.push_back(old.provides);
             }
             if (next.provides >= 0) {
-                divs_[static_cast<std::size_t>(next.provides)].providers.push_back(f);
+                providers_[next.provides].push_back(f);
+                divs_[static_cast<std::size_t>(next.provides)].provided = true;
                 touched_.push_back(next.provides);
             }
         }
@@ -287,62 +341,129 @@ public:
     std::size_t size() const { return divs_.size(); }
 
 private:
+    // A new divisor of cover d (one or two cubes: a pair of cubes, a literal
+    // pair, or a node's own cover when it is one of these).
+    int store(const Cover& d) {
+        if (d.cubes.empty() || d.cubes.size() > 2 || arena_.size() + d.literalCount() > UINT32_MAX ||
+            divs_.size() >= static_cast<std::size_t>(INT32_MAX))
+            throw std::length_error("divisor table: a divisor of more than two cubes, or too many divisors");
+        Divisor dv;
+        dv.at = static_cast<std::uint32_t>(arena_.size());
+        dv.cubes = static_cast<std::uint8_t>(d.cubes.size());
+        dv.first = static_cast<std::uint32_t>(d.cubes[0].lits.size());
+        dv.second = d.cubes.size() == 2 ? static_cast<std::uint32_t>(d.cubes[1].lits.size()) : 0;
+        for (const Cube& c : d.cubes) arena_.insert(arena_.end(), c.lits.begin(), c.lits.end());
+        divs_.push_back(dv);
+        return static_cast<int>(divs_.size() - 1);
+    }
     int pairId(Literal a, Literal b) {
         std::uint64_t key = (std::uint64_t{a} << 32) | b;
         auto [it, fresh] = pairIndex_.try_emplace(key, static_cast<int>(divs_.size()));
-        if (fresh) {
-            Divisor dv;
-            dv.d = Cover{{Cube({a, b})}};
-            divs_.push_back(std::move(dv));
-        }
+        if (fresh) store(Cover{{Cube({a, b})}});
         return it->second;
     }
+    std::size_t hashOf(int id) const {
+        const Divisor& dv = divs_[static_cast<std::size_t>(id)];
+        const Literal* p = arena_.data() + dv.at;
+        return mixedHash(dv.cubes, [&](std::size_t k) {
+            return k == 0 ? std::pair<const Literal*, std::size_t>{p, dv.first}
+                          : std::pair<const Literal*, std::size_t>{p + dv.first, dv.second};
+        });
+    }
+    static std::size_t hashOf(const Cover& d) {
+        return mixedHash(d.cubes.size(), [&](std::size_t k) {
+            return std::pair<const Literal*, std::size_t>{d.cubes[k].lits.data(), d.cubes[k].lits.size()};
+        });
+    }
+    bool sameCover(int id, const Cover& d) const {
+        const Divisor& dv = divs_[static_cast<std::size_t>(id)];
+        if (d.cubes.size() != dv.cubes || d.cubes[0].lits.size() != dv.first ||
+            (dv.cubes == 2 && d.cubes[1].lits.size() != dv.second))
+            return false;
+        const Literal* p = arena_.data() + dv.at;
+        if (!std::equal(d.cubes[0].lits.begin(), d.cubes[0].lits.end(), p)) return false;
+        return dv.cubes == 1 || std::equal(d.cubes[1].lits.begin(), d.cubes[1].lits.end(), p + dv.first);
+    }
+    // Two-cube divisors by their cover: an open-addressing set of ids
+    // (linear probing, at most half full), hashed and compared through the
+    // arena (F128, F149: no copy of any cover).
     int idOf(const Cover& d) {
         if (d.cubes.size() == 1 && d.cubes[0].lits.size() == 2) return pairId(d.cubes[0].lits[0], d.cubes[0].lits[1]);
         // Looked up by the cover itself (a string key per pair of cubes was
         // the largest cost of this technique on the 10k decoder, F44).
-        auto it = index_.find(d);
-        if (it != index_.end()) return *it;
-        const int id = static_cast<int>(divs_.size());
-        Divisor dv;
-        dv.d = d;
-        divs_.push_back(std::move(dv));
-        index_.insert(id);
-        return id;
+        if (2 * (indexed_ + 1) > slots_.size()) grow();
+        const std::size_t mask = slots_.size() - 1;
+        for (std::size_t k = hashOf(d) & mask;; k = (k + 1) & mask) {
+            if (slots_[k] < 0) {
+                const int id = store(d);
+                slots_[k] = id;
+                ++indexed_;
+                return id;
+            }
+            if (sameCover(slots_[k], d)) return slots_[k];
+        }
+    }
+    void grow() {
+        std::vector<int> old(std::max<std::size_t>(64, 2 * slots_.size()), -1);
+        old.swap(slots_);
+        const std::size_t mask = slots_.size() - 1;
+        for (int id : old) {
+            if (id < 0) continue;
+            std::size_t k = hashOf(id) & mask;
+            while (slots_[k] >= 0) k = (k + 1) & mask;
+            slots_[k] = id;
+        }
     }
     void note(net::NodeId f, int id, long s) {
         Divisor& dv = divs_[static_cast<std::size_t>(id)];
         dv.saving += s;
-        if (dv.nodes.size() >= dv.compactAt) {   // amortised: the threshold doubles
-            std::sort(dv.nodes.begin(), dv.nodes.end());
-            dv.nodes.erase(std::unique(dv.nodes.begin(), dv.nodes.end()), dv.nodes.end());
-            dv.compactAt = 2 * dv.nodes.size() + 32;
+        if (dv.count >= dv.compactAt) {   // amortised: the threshold doubles
+            std::vector<net::NodeId> ns = nodesOf(id);
+            std::sort(ns.begin(), ns.end());
+            ns.erase(std::unique(ns.begin(), ns.end()), ns.end());
+            // Rewritten into the list's first entries; the rest go back to the pool.
+            std::uint32_t e = dv.nodes, last = UINT32_MAX;
+            for (net::NodeId u : ns) {
+                pool_[e].node = u;
+                last = e;
+                e = pool_[e].next;
+            }
+            pool_[last].next = UINT32_MAX;
+            while (e != UINT32_MAX) {
+                const std::uint32_t next = pool_[e].next;
+                pool_[e].next = free_;
+                free_ = e;
+                e = next;
+            }
+            dv.count = static_cast<std::uint32_t>(ns.size());
+            dv.compactAt = static_cast<std::uint32_t>(2 * ns.size() + 32);
         }
-        if (dv.nodes.empty() || dv.nodes.back() != f) dv.nodes.push_back(f);
+        if (dv.nodes == UINT32_MAX || pool_[dv.nodes].node != f) {
+            std::uint32_t e = free_;
+            if (e != UINT32_MAX) {
+                free_ = pool_[e].next;
+            } else {
+                if (pool_.size() >= UINT32_MAX - 1) throw std::length_error("divisor table: too many node entries");
+                e = static_cast<std::uint32_t>(pool_.size());
+                pool_.push_back({});
+            }
+            pool_[e] = {f, dv.nodes};
+            dv.nodes = e;
+            ++dv.count;
+        }
         touched_.push_back(id);
     }
 
     Workspace& ws_;
     const ShareDivisorsOptions& opts_;
-    // Two-cube divisors by their cover: a set of ids hashed and compared by
-    // the divisor's own cover (a map keyed by a copy of each cover held
-    // every cover twice: 1.7 million of them on the 3k decoder, F128).
-    struct ById {   // not noexcept: the set then keeps each hash beside its id
-        using is_transparent = void;
-        const std::vector<Divisor>* divs;
-        std::size_t operator()(int id) const { return detail::MixedCoverHash{}((*divs)[static_cast<std::size_t>(id)].d); }
-        std::size_t operator()(const Cover& c) const { return detail::MixedCoverHash{}(c); }
-    };
-    struct SameCover {
-        using is_transparent = void;
-        const std::vector<Divisor>* divs;
-        const Cover& of(int id) const { return (*divs)[static_cast<std::size_t>(id)].d; }
-        bool operator()(int a, int b) const { return a == b; }
-        bool operator()(const Cover& c, int id) const { return c == of(id); }
-        bool operator()(int id, const Cover& c) const { return c == of(id); }
-    };
-    std::vector<Divisor> divs_;   // before index_: it is constructed with a pointer to this
-    std::unordered_set<int, ById, SameCover> index_;
+    std::vector<Divisor> divs_;
+    std::vector<Literal> arena_;     // the divisors' literals, cube after cube
+    struct ListEntry { net::NodeId node; std::uint32_t next; };
+    std::vector<ListEntry> pool_;    // the divisors' node lists
+    std::uint32_t free_ = UINT32_MAX;   // entries dropped by compaction, for reuse
+    std::vector<int> slots_;         // the two-cube divisors' index (-1: empty)
+    std::size_t indexed_ = 0;
+    std::unordered_map<int, std::vector<net::NodeId>> providers_;   // divisor -> nodes whose cover was it
     std::unordered_map<std::uint64_t, int> pairIndex_;
     std::vector<Contribution> contrib_;
     std::vector<int> touched_;
@@ -353,8 +474,17 @@ private:
 void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx) {
     PairTable table(ws, opts);
     net::Network& net = ws.net();
+    // Limit divisors-max-candidates: no further node is entered once the table is full.
+    bool full = false;
+    auto roomFor = [&]() {
+        if (opts.maxCandidates > 0 && table.size() >= opts.maxCandidates) full = true;
+        return !full;
+    };
     if (!ctx.focus) {
-        for (net::NodeId v : net.topoOrder()) table.add(v);
+        for (net::NodeId v : net.topoOrder()) {
+            if (!roomFor()) break;
+            table.add(v);
+        }
     } else {
         // Changed region: the marked nodes' divisors, then every node that
         // can hold one of them (it reads each of the divisor's variables, so
@@ -362,10 +492,10 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
         std::vector<std::uint8_t> entered(net.nodeCount(), 0);
         const std::vector<net::NodeId> order = net.topoOrder();
         for (net::NodeId v : order)
-            if (ctx.inFocus(v)) { table.add(v); entered[v] = 1; }
+            if (ctx.inFocus(v) && roomFor()) { table.add(v); entered[v] = 1; }
         std::vector<std::uint8_t> scan(net.nodeCount(), 0);
         for (int id : table.touchedSoFar()) {
-            const Cover& d = table.div(id).d;
+            const Cover d = table.cover(id);
             net::NodeId fewest = 0;
             for (const Cube& c : d.cubes)
                 for (Literal l : c.lits)
@@ -377,8 +507,9 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
             for (net::NodeId f : ws.fanouts(u)) entered[f] |= 2;
         }
         for (net::NodeId v : order)
-            if (entered[v] == 2) table.add(v);
+            if (entered[v] == 2 && roomFor()) table.add(v);
     }
+    if (full) ctx.stats.add("limit-hit:divisors-max-candidates", 1);
     struct Entry { long w; int id; std::uint32_t version; };
     auto cmp = [](const Entry& a, const Entry& b) { return a.w < b.w || (a.w == b.w && a.id > b.id); };
     std::priority_queue<Entry, std::vector<Entry>, decltype(cmp)> heap(cmp);
@@ -396,13 +527,13 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
         heap.pop();
         Divisor& dv = table.div(e.id);
         if (e.version != dv.version || dv.blocked) continue;
-        std::vector<net::NodeId> targets = dv.nodes;
+        std::vector<net::NodeId> targets = table.nodesOf(e.id);
         std::sort(targets.begin(), targets.end());
         targets.erase(std::unique(targets.begin(), targets.end()), targets.end());
         targets.erase(std::remove_if(targets.begin(), targets.end(), [&](net::NodeId f) { return !table.holds(f, e.id); }),
                       targets.end());
         net::NodeId provider = table.liveProvider(e.id);
-        Cover d = dv.d;
+        Cover d = table.cover(e.id);
         net::NodeId created = 0;
         long gain = detail::extractDivisor(ws, d, targets, provider, changed, created);
         if (gain <= 0) {

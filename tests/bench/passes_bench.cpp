@@ -16,9 +16,12 @@
 //
 // Usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR]
 //                     [--skip-synthetic] [--only NAME|synthetic|dont-cares|cube-extraction|resubstitution|overheads] [--min-terms N] [--max-terms N]
-//                     [--terms N]... [-v]
+//                     [--terms N]... [--shape decoder|sopwide] [-v]
 // --terms N (repeatable) times decoders of exactly these sizes instead of
 // 1k/10k/100k (e.g. 3000 and 30000 to measure how the time grows).
+// --shape sopwide: the synthetic networks have scale_bench.py's `sopwide`
+// shape (40 products to an output, terms / 40 outputs) instead of the
+// decoder's 256 outputs: the engine alone on it, with its peak memory.
 #include "../unit/passes_support.h"
 
 #include "kerf/passes/engine.h"
@@ -83,6 +86,38 @@ net::Network syntheticDecoder(std::size_t terms, std::size_t inputs, std::size_t
     for (std::size_t o = 0; o < outputs; ++o) {
         outs[o].normalize();
         n.addOutput("d" + std::to_string(o), algebra::makeLiteral(n.addLogic(std::move(outs[o])), false));
+    }
+    return n;
+}
+
+// The `sopwide` shape of tests/bench/scale_bench.py, as a network: outputs
+// of 40 product terms each (terms / 40 outputs) over 64 inputs, every
+// product of 6 to 12 distinct inputs in random polarity. Its outputs grow
+// with the terms where the decoder's stay at 256 (F149: the engine's memory
+// on it).
+net::Network syntheticSopWide(std::size_t terms, std::uint32_t seed) {
+    constexpr std::size_t kInputs = 64, kChain = 40;
+    std::mt19937 rng(seed);
+    net::Network n;
+    std::vector<net::NodeId> in;
+    for (std::size_t i = 0; i < kInputs; ++i) in.push_back(n.addInput("x" + std::to_string(i)));
+    const std::size_t outputs = std::max<std::size_t>(1, terms / kChain);
+    for (std::size_t o = 0; o < outputs; ++o) {
+        algebra::Cover f;
+        for (std::size_t t = 0; t < kChain; ++t) {
+            const std::size_t len = 6 + rng() % 7;
+            std::vector<algebra::Literal> ls;
+            std::vector<char> used(kInputs, 0);
+            while (ls.size() < len) {
+                const std::size_t i = rng() % kInputs;
+                if (used[i]) continue;
+                used[i] = 1;
+                ls.push_back(algebra::makeLiteral(in[i], rng() & 1));
+            }
+            f.cubes.push_back(algebra::Cube(std::move(ls)));
+        }
+        f.normalize();
+        n.addOutput("y" + std::to_string(o), algebra::makeLiteral(n.addLogic(std::move(f)), false));
     }
     return n;
 }
@@ -331,7 +366,7 @@ Overheads trialOverheads(std::size_t terms) {
 } // namespace
 
 int main(int argc, char** argv) {
-    std::string effort = "default", dir, only;
+    std::string effort = "default", dir, only, shape = "decoder";
     bool synthetic = true;
     int verbose = 0;
     std::size_t maxTerms = 0, minTerms = 0;
@@ -348,12 +383,17 @@ int main(int argc, char** argv) {
         else if (a == "--max-terms" && i + 1 < argc) maxTerms = std::stoul(argv[++i]);
         else if (a == "--min-terms" && i + 1 < argc) minTerms = std::stoul(argv[++i]);
         else if (a == "--terms" && i + 1 < argc) sizes.push_back(std::stoul(argv[++i]));
+        else if (a == "--shape" && i + 1 < argc) shape = argv[++i];
         else if (a == "-v") ++verbose;
         else {
             std::fprintf(stderr, "usage: passes_bench [--effort E] [--goal size|depth] [--limit NAME=N]... [--techniques] [--epfl DIR] "
-                                 "[--only NAME|synthetic|dont-cares|cube-extraction|resubstitution|overheads] [--skip-synthetic] [--min-terms N] [--max-terms N] [--terms N]... [-v]\n");
+                                 "[--only NAME|synthetic|dont-cares|cube-extraction|resubstitution|overheads] [--skip-synthetic] [--min-terms N] [--max-terms N] [--terms N]... [--shape decoder|sopwide] [-v]\n");
             return 2;
         }
+    }
+    if (shape != "decoder" && shape != "sopwide") {
+        std::fprintf(stderr, "passes_bench: unknown shape '%s' (decoder or sopwide)\n", shape.c_str());
+        return 2;
     }
     if (dir.empty()) dir = std::string(KERF_SOURCE_DIR) + "/../shared/benchmarks/epfl";
     int failures = 0;
@@ -393,7 +433,7 @@ int main(int argc, char** argv) {
         if (count) std::printf("geometric mean ratio: %.3f over %d files\n", std::exp(logSum / count), count);
     }
     if (synthetic && (only.empty() || only == "synthetic")) {
-        std::printf("\n%-22s %8s %8s %9s %7s %7s %9s %9s %10s\n", "synthetic decoder", "lits", "after", "gates", "after",
+        std::printf("\n%-22s %8s %8s %9s %7s %7s %9s %9s %10s\n", shape == "sopwide" ? "synthetic sopwide" : "synthetic decoder", "lits", "after", "gates", "after",
                     "depth", "seconds", "cpu", "peakRSS");
         struct Cfg { std::size_t terms, inputs, outputs; };
         // The shape of the issue-9 generator at every size: 64 inputs, 256 outputs.
@@ -407,9 +447,15 @@ int main(int argc, char** argv) {
             if (maxTerms && c.terms > maxTerms) continue;
             Figures f;
             long rss = 0;
-            bool ok = isolated([&] { return runCase(syntheticDecoder(c.terms, c.inputs, c.outputs, 7), effort, verbose); },
-                               f, rss);
-            std::string label = std::to_string(c.terms) + " terms/" + std::to_string(c.inputs) + " in";
+            bool ok = isolated(
+                [&] {
+                    return runCase(shape == "sopwide" ? syntheticSopWide(c.terms, 7)
+                                                      : syntheticDecoder(c.terms, c.inputs, c.outputs, 7),
+                                   effort, verbose);
+                },
+                f, rss);
+            std::string label = std::to_string(c.terms) + (shape == "sopwide" ? " terms/sopwide" : " terms/") +
+                                (shape == "sopwide" ? "" : std::to_string(c.inputs) + " in");
             if (!ok) {
                 std::printf("%-22s crashed\n", label.c_str());
                 ++failures;

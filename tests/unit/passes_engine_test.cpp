@@ -35,6 +35,8 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
         << "fast bounds whole-network cube extraction (cubes-work)";
     setLimit(l, "whole-cubes-max=9");
     EXPECT_EQ(l.wholeCubesMax, 9u);
+    setLimit(l, "regroup-lazy-gates=0");
+    EXPECT_EQ(l.regroupLazyGates, 0u);
     EXPECT_GT(limitsFor(Effort::Fast).wholeCubesMax, 0u) << "fast leaves cube extraction on huge networks to the regions";
     try {
         setLimit(l, "collapse-all=1");
@@ -55,7 +57,8 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     std::string d = describeLimits();
     for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps",
                              "opening-moves", "readmit-permille", "changed-region", "changed-radius",
-                             "changed-walk-degree", "changed-full-permille", "changed-regroup", "whole-cubes-max"})
+                             "changed-walk-degree", "changed-full-permille", "changed-regroup", "whole-cubes-max",
+                             "regroup-lazy-gates"})
         EXPECT_NE(d.find(name), std::string::npos) << name;
 }
 
@@ -345,6 +348,64 @@ TEST(PassesEngine, RegionsKeepFunctionAndDepth) {
         EXPECT_EQ(measureFactored(n, r.depthCap).gates, r.after.gates);
         EXPECT_NE(formatEngineReport(r).find("regions"), std::string::npos);
     }
+}
+
+TEST(PassesEngine, RegroupMovesAreLazyFromTheirGateBound) {
+    // Limit regroup-lazy-gates (F144): from that many gates on, a regroup
+    // move whose recorded gain is below the smallest gain kept is not valued
+    // again (until a large kept move readmits it), and a kept regroup move
+    // takes its alternatives' recorded gains with it. So with the bound at 1
+    // (every network) the regroup moves are valued no more often than with
+    // it off, and less often where a regroup move was kept and followed by
+    // others; the result keeps its functions and each kept move improves.
+    int fewer = 0, keptRegroups = 0;
+    for (std::uint32_t seed = 1; seed <= 6; ++seed) {
+        Network n = randomAig(160 + seed, 12, 400, 8);
+        tidy(n);
+        auto regroupTrials = [](const EngineResult& r) {
+            int t = 0;
+            for (const TechniqueRow& row : r.techniques)
+                if (row.technique.rfind("regroup", 0) == 0) t += row.trials;
+            return t;
+        };
+        EngineOptions off;
+        off.limits.regroupLazyGates = 0;
+        Network a = n;
+        const EngineResult ra = restructure(a, off);
+        EngineOptions lazy;
+        lazy.limits.regroupLazyGates = 1;
+        Network b = n;
+        const EngineResult rb = restructure(b, lazy);
+        EXPECT_EQ(sameFunctions(n, a), "") << "seed " << seed;
+        EXPECT_EQ(sameFunctions(n, b), "") << "seed " << seed;
+        net::Metrics prev = rb.before;
+        for (const MoveRow& m : rb.moves) {
+            EXPECT_TRUE(m.after.gates < prev.gates || (m.after.gates == prev.gates && m.after.literals < prev.literals))
+                << m.technique;
+            prev = m.after;
+        }
+        bool regroupKept = false;
+        for (const MoveRow& m : ra.moves) regroupKept |= m.technique.rfind("regroup", 0) == 0;
+        keptRegroups += regroupKept;
+        auto sameMoves = [](const EngineResult& x, const EngineResult& y) {
+            if (x.moves.size() != y.moves.size()) return false;
+            for (std::size_t k = 0; k < x.moves.size(); ++k)
+                if (x.moves[k].technique != y.moves[k].technique || x.moves[k].after.gates != y.moves[k].after.gates)
+                    return false;
+            return true;
+        };
+        if (regroupKept && sameMoves(ra, rb)) EXPECT_LE(regroupTrials(rb), regroupTrials(ra)) << "seed " << seed;
+        fewer += regroupTrials(rb) < regroupTrials(ra);
+        // Below the bound nothing changes.
+        EngineOptions high;
+        high.limits.regroupLazyGates = 1000000;
+        Network c = n;
+        const EngineResult rc = restructure(c, high);
+        EXPECT_EQ(regroupTrials(rc), regroupTrials(ra)) << "seed " << seed;
+        EXPECT_EQ(rc.after.gates, ra.after.gates) << "seed " << seed;
+    }
+    EXPECT_GT(keptRegroups, 0);
+    EXPECT_GT(fewer, 0);
 }
 
 TEST(PassesEngine, WholeCubeExtractionIsLeftToRegionsAboveItsBound) {

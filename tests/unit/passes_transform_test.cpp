@@ -222,6 +222,45 @@ TEST(PassesShareDivisors, ExistingNodeIsReusedAsDivisor) {
     EXPECT_EQ(n.logicCount(), 2u);
 }
 
+TEST(PassesShareDivisors, AFullCandidateTableTakesNoFurtherNodes) {
+    // Limit divisors-max-candidates (F149): nodes are entered in topological
+    // order until the table holds that many candidates. f = ae + be + w and
+    // g = af + bf + w share a + b; h = cx + dx + v and k = cy + dy + v share
+    // c + d. Unbounded, both divisors become nodes; bounded at one
+    // candidate, only the first node entered gives candidates, so h and k
+    // (entered after it) are left as they were, and the limit is reported.
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d"), e = n.addInput("e"),
+           f0 = n.addInput("f0"), x = n.addInput("x"), y = n.addInput("y"), v = n.addInput("v"), w = n.addInput("w");
+    NodeId f = n.addLogic(cover({{pos(a), pos(e)}, {pos(b), pos(e)}, {pos(w)}}));
+    NodeId g = n.addLogic(cover({{pos(a), pos(f0)}, {pos(b), pos(f0)}, {pos(w)}}));
+    NodeId h = n.addLogic(cover({{pos(c), pos(x)}, {pos(d), pos(x)}, {pos(v)}}));
+    NodeId k = n.addLogic(cover({{pos(c), pos(y)}, {pos(d), pos(y)}, {pos(v)}}));
+    for (NodeId o : {f, g, h, k}) n.addOutput("o" + std::to_string(o), pos(o));
+    const Network before = n;
+    {
+        Network m = before;
+        PassContext ctx;
+        ShareDivisorsOptions o;
+        o.maxCandidates = 0;
+        shareDivisors(m, o, ctx);
+        EXPECT_EQ(sameFunctions(before, m), "");
+        NodeId s = 0;
+        EXPECT_TRUE(findCover(m, cover({{pos(a)}, {pos(b)}}), s));
+        EXPECT_TRUE(findCover(m, cover({{pos(c)}, {pos(d)}}), s));
+        EXPECT_EQ(ctx.stats.get("limit-hit:divisors-max-candidates"), 0);
+    }
+    Network m = before;
+    PassContext ctx;
+    ShareDivisorsOptions o;
+    o.maxCandidates = 1;
+    shareDivisors(m, o, ctx);
+    EXPECT_EQ(sameFunctions(before, m), "");
+    EXPECT_EQ(m.node(h).cover, before.node(h).cover);
+    EXPECT_EQ(m.node(k).cover, before.node(k).cover);
+    EXPECT_EQ(ctx.stats.get("limit-hit:divisors-max-candidates"), 1);
+}
+
 TEST(PassesShareDivisors, KernelMethodFindsCommonKernel) {
     // f = ax + ay + az + w, g = bx + by + bz: kernel x+y+z is common.
     Network n;

@@ -51,6 +51,13 @@ struct EngineLimits {
     int maxGrowth = 2;
     /// Trials spent re-optimising after a dissolve, before its gain is valued.
     int regroupTrials = 6;
+    /// On networks of at least this many gates, a regroup move whose
+    /// recorded gain (from a valuation on an earlier network) is below the
+    /// smallest gain kept is not valued again until a kept move saves
+    /// readmitPermille, and when one regroup move is kept the others valued
+    /// on the same network record their gain over it (F144). 0: never;
+    /// regroup moves are then valued again like the other techniques.
+    std::size_t regroupLazyGates = 20000;
     /// A move is kept only when it saves at least this many thousandths of
     /// the current gates (and at least something); smaller gains end the run.
     int minGainPermille = 2;
