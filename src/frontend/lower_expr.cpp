@@ -110,6 +110,15 @@ std::optional<std::uint64_t> constValue(const Bits& b) {
     return v;
 }
 
+std::optional<std::int64_t> constantPosition(const Bits& idx, bool isSigned) {
+    if (idx.empty() || idx.size() > 62) return std::nullopt;
+    auto k = constValue(idx);
+    if (!k) return std::nullopt;
+    auto p = static_cast<std::int64_t>(*k);
+    if (isSigned && ((*k >> (idx.size() - 1)) & 1)) p -= std::int64_t{1} << idx.size();
+    return p;
+}
+
 namespace {
 
 /// The w-bit constant `v` (w <= 64) as known bits.

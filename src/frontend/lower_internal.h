@@ -92,6 +92,9 @@ private:
 
 /// The value of bits that are all known constants (at most 64 of them).
 std::optional<std::uint64_t> constValue(const Bits& b);
+/// The position a constant index of at most 62 bits names (two's complement when signed);
+/// none when the index is not constant or wider.
+std::optional<std::int64_t> constantPosition(const Bits& idx, bool isSigned);
 Bits extend(Bits b, int width, bool sign);
 Lits values(const Bits& b);
 inline int dimOffset(int index, int msb, int lsb) { return msb >= lsb ? index - lsb : lsb - index; }
@@ -253,8 +256,10 @@ public:
     std::set<std::string> usedNames_;
 };
 
-/// Every expression reachable from a member's statements and targets, each once.
-std::vector<ExprId> memberExprs(const Ir& ir, const Member& m);
+/// Every expression reachable from a member's statements and targets, each once. With
+/// `readsOnly`, a target's written signal is left out (a select's position is kept): what the
+/// member reads, in its statements and in the functions it calls.
+std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly = false);
 /// The case tables of a member's statements and of the functions it calls.
 std::vector<const CaseTable*> memberCaseTables(const Ir& ir, const Member& m);
 /// Constants a member assigns as values (through ?:, concatenations, conversions):

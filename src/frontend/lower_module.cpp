@@ -428,15 +428,29 @@ Lowered Lowerer::run() {
     }
 
     // Lower drivers before readers: depth-first over "reads a signal that member d drives".
+    // Only what a member reads counts: taking the signal an assignment writes as read made
+    // every statement writing a bit of a vector depend on all the others (n squared edges
+    // for `assign y[i] = ...` over an n-bit y: F150).
     std::vector<std::vector<int>> deps(n);
+    // Restructured members driving some bit of a signal, each once (built when first read).
+    std::vector<std::vector<int>> driverMembers(nsym);
+    std::vector<std::uint8_t> driverMembersMade(nsym, 0);
     for (std::size_t i = 0; i < n; ++i) {
         if (!restructured_[i]) continue;
         std::vector<int> ds;
-        for (ExprId id : memberExprs(ir_, *members_[i])) {
+        for (ExprId id : memberExprs(ir_, *members_[i], true)) {
             const Expr& e = ir_.expr(id);
             if (e.kind != ExprKind::Ref || isLocal(e.a) || cut_[e.a]) continue;
-            for (int d : drivers_[e.a])
-                if (d >= 0 && d != static_cast<int>(i) && restructured_[d]) ds.push_back(d);
+            if (!driverMembersMade[e.a]) {
+                driverMembersMade[e.a] = 1;
+                auto& dm = driverMembers[e.a];
+                for (int d : drivers_[e.a])
+                    if (d >= 0 && restructured_[d]) dm.push_back(d);
+                std::sort(dm.begin(), dm.end());
+                dm.erase(std::unique(dm.begin(), dm.end()), dm.end());
+            }
+            for (int d : driverMembers[e.a])
+                if (d != static_cast<int>(i)) ds.push_back(d);
         }
         std::sort(ds.begin(), ds.end());
         ds.erase(std::unique(ds.begin(), ds.end()), ds.end());

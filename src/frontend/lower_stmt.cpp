@@ -27,10 +27,34 @@ constexpr int kMaxLoopIterations = 65536;
 namespace {
 
 /// Root expressions of a statement tree (targets, values, conditions, case items, loop parts).
-void stmtRoots(const Ir& ir, StmtId root, std::vector<ExprId>& roots) {
+/// The parts of an assignment target that are read: the positions of its selects, not the
+/// signal it writes.
+void targetReadRoots(const Ir& ir, ExprId lv, std::vector<ExprId>& roots) {
+    const Expr& e = ir.expr(lv);
+    switch (e.kind) {
+    case ExprKind::Ref: break;
+    case ExprKind::Range: targetReadRoots(ir, e.a, roots); break;
+    case ExprKind::Index: case ExprKind::Indexed:
+        roots.push_back(e.b);
+        targetReadRoots(ir, e.a, roots);
+        break;
+    case ExprKind::Concat:
+        for (std::uint32_t k = 0; k < e.b; ++k) targetReadRoots(ir, ir.lists[e.a + k], roots);
+        break;
+    default: roots.push_back(lv); break;   // not a target the lowering writes: read it all
+    }
+}
+
+/// Roots of the expressions a statement tree holds; with `readsOnly`, an assignment's target
+/// gives only the parts of it that are read (targetReadRoots).
+void stmtRoots(const Ir& ir, StmtId root, std::vector<ExprId>& roots, bool readsOnly = false) {
+    auto target = [&](ExprId lv) {
+        if (readsOnly) targetReadRoots(ir, lv, roots);
+        else roots.push_back(lv);
+    };
     forEachStmt(ir, {root}, LoopSteps::Visit, [&](const Stmt& s) {
         switch (s.kind) {
-        case StmtKind::Assign: roots.push_back(s.a); roots.push_back(s.b); break;
+        case StmtKind::Assign: target(s.a); roots.push_back(s.b); break;
         case StmtKind::If: roots.push_back(s.a); break;
         case StmtKind::Case:
             roots.push_back(s.a);
@@ -41,7 +65,7 @@ void stmtRoots(const Ir& ir, StmtId root, std::vector<ExprId>& roots) {
             break;
         case StmtKind::CaseTable:
             roots.push_back(s.a);
-            for (ExprId t : ir.caseTables[s.b].targets) roots.push_back(t);
+            for (ExprId t : ir.caseTables[s.b].targets) target(t);
             break;
         case StmtKind::For:
             for (std::uint32_t k = 0; k < s.b; ++k) roots.push_back(ir.forInits[s.a + k].value);
@@ -123,18 +147,59 @@ std::vector<const CaseTable*> memberCaseTables(const Ir& ir, const Member& mem) 
     return out;
 }
 
-std::vector<ExprId> memberExprs(const Ir& ir, const Member& m) {
+namespace {
+
+/// A set of expression ids in one flat table (open addressing): the walks below visit every
+/// node of a member, and a node-per-entry hash set spent most of its time in the allocator.
+class IdSet {
+public:
+    /// Whether `id` was new.
+    bool insert(ExprId id) {
+        if (2 * (size_ + 1) > slots_.size()) grow();
+        std::size_t mask = slots_.size() - 1;
+        for (std::size_t i = hash(id) & mask;; i = (i + 1) & mask) {
+            if (slots_[i] == id) return false;
+            if (slots_[i] == kEmpty) {
+                slots_[i] = id;
+                ++size_;
+                return true;
+            }
+        }
+    }
+
+private:
+    static constexpr ExprId kEmpty = ~ExprId{0};
+    static std::size_t hash(ExprId id) { return static_cast<std::size_t>(id) * 0x9E3779B97F4A7C15ull >> 17; }
+    void grow() {
+        std::vector<ExprId> old = std::move(slots_);
+        slots_.assign(std::max<std::size_t>(64, old.size() * 2), kEmpty);
+        size_ = 0;
+        for (ExprId id : old)
+            if (id != kEmpty) insert(id);
+    }
+    std::vector<ExprId> slots_;
+    std::size_t size_ = 0;
+};
+
+} // namespace
+
+std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly) {
     std::vector<ExprId> roots;
-    if (m.kind == MemberKind::Assign) roots = {m.lhs, m.rhs};
-    else if (m.kind == MemberKind::Comb) stmtRoots(ir, m.body, roots);
+    if (m.kind == MemberKind::Assign) {
+        if (readsOnly) targetReadRoots(ir, m.lhs, roots);
+        else roots.push_back(m.lhs);
+        roots.push_back(m.rhs);
+    } else if (m.kind == MemberKind::Comb) {
+        stmtRoots(ir, m.body, roots, readsOnly);
+    }
     std::vector<ExprId> out;
-    std::unordered_set<ExprId> seen;
+    IdSet seen;
     std::set<std::uint32_t> functions;
     std::vector<ExprId> work(roots.rbegin(), roots.rend());
     while (!work.empty()) {
         ExprId id = work.back();
         work.pop_back();
-        if (!seen.insert(id).second) continue;
+        if (!seen.insert(id)) continue;
         out.push_back(id);
         const Expr& e = ir.expr(id);
         switch (e.kind) {
@@ -158,7 +223,7 @@ std::vector<ExprId> memberExprs(const Ir& ir, const Member& m) {
             for (std::uint32_t k = e.c; k-- > 0;) work.push_back(ir.lists[e.b + k]);
             if (functions.insert(e.a).second) {
                 std::vector<ExprId> fr;
-                stmtRoots(ir, ir.functions[e.a].body, fr);
+                stmtRoots(ir, ir.functions[e.a].body, fr, readsOnly);
                 work.insert(work.end(), fr.rbegin(), fr.rend());
             }
             break;
@@ -319,8 +384,20 @@ std::vector<int> Lowerer::targetBits(ExprId lv, SymbolId& s) const {
         return all;
     }
     if (e.kind != ExprKind::Index && e.kind != ExprKind::Range && e.kind != ExprKind::Indexed) return {};
-    std::vector<int> parent = targetBits(e.a, s);
-    int pw = static_cast<int>(parent.size());
+    // A select of a whole signal picks its bits by position: the signal's list of every bit
+    // is not built for it (as in targetPlaces).
+    const Expr& pe = ir_.expr(e.a);
+    const bool ofSignal = pe.kind == ExprKind::Ref;
+    std::vector<int> parent;
+    int pw = 0;
+    if (ofSignal) {
+        s = pe.a;
+        pw = static_cast<int>(ir_.symbols[s].width);
+    } else {
+        parent = targetBits(e.a, s);
+        pw = static_cast<int>(parent.size());
+    }
+    auto parentBit = [&](int i) { return ofSignal ? i : parent[static_cast<std::size_t>(i)]; };
     int w = static_cast<int>(e.width);
     std::vector<int> offs;
     if (e.kind == ExprKind::Index && ir_.expr(e.b).kind == ExprKind::Const) {
@@ -335,16 +412,17 @@ std::vector<int> Lowerer::targetBits(ExprId lv, SymbolId& s) const {
         if (known && k < (std::uint64_t{1} << 31)) {
             int off = dimOffset(static_cast<int>(k), e.msb, e.lsb);
             for (int i = 0; i < w; ++i)
-                if (off >= 0 && off * w + i < pw) offs.push_back(parent[static_cast<std::size_t>(off * w + i)]);
+                if (off >= 0 && off * w + i < pw) offs.push_back(parentBit(off * w + i));
         }
     } else if (e.kind == ExprKind::Range) {
         int lo = dimOffset(e.right(), e.msb, e.lsb), hi = dimOffset(e.left(), e.msb, e.lsb);
         if (lo > hi) std::swap(lo, hi);
         int ew = std::max(1, w / (hi - lo + 1));
         for (int i = lo * ew; i < (hi + 1) * ew; ++i)
-            if (i >= 0 && i < pw) offs.push_back(parent[static_cast<std::size_t>(i)]);
+            if (i >= 0 && i < pw) offs.push_back(parentBit(i));
     } else {
-        offs = parent;   // variable select: may write any bit of its parent
+        // variable select: may write any bit of its parent
+        for (int i = 0; i < pw; ++i) offs.push_back(parentBit(i));
     }
     return offs;
 }
@@ -424,7 +502,13 @@ std::vector<Lowerer::Placement> Lowerer::targetPlaces(ExprId lvId, SymbolId& sym
     }
     if (lv.kind != ExprKind::Index && lv.kind != ExprKind::Range && lv.kind != ExprKind::Indexed)
         fail("the left-hand side is not an assignable target", here(lv.start), ExitCode::Internal);
-    std::vector<Placement> outer = targetPlaces(lv.a, sym);
+    // A select of a whole signal (`y[i]`, the common case) places bits of the signal itself:
+    // its placement is not built (it lists every bit of the signal, so `assign y[i] = ...`
+    // over an n-bit y cost n per statement).
+    const bool ofSignal = ir_.expr(lv.a).kind == ExprKind::Ref;
+    std::vector<Placement> outer;
+    if (ofSignal) sym = ir_.expr(lv.a).a;
+    else outer = targetPlaces(lv.a, sym);
     const int w = static_cast<int>(lv.width);
     const int pw = static_cast<int>(ir_.expr(lv.a).width);
     const int lo = std::min(lv.msb, lv.lsb), hi = std::max(lv.msb, lv.lsb);
@@ -444,9 +528,15 @@ std::vector<Lowerer::Placement> Lowerer::targetPlaces(ExprId lvId, SymbolId& sym
         bool idxSigned = ir_.expr(lv.b).isSigned;
         Lits iv = values(idx);
         Literal idxKnown = negateLiteral(anyX(idx));
+        // A constant index names one position: only it is tried (trying every position made
+        // `assign y[i] = ...` over an n-bit y cost n each, n squared in all: F150). The position
+        // is still checked by indexIs, so a wrong guess here can only drop it, never misplace it.
+        std::optional<std::int64_t> only = constantPosition(idx, idxSigned);
+        auto candidate = [&](std::int64_t p) { return !only || p == *only; };
         if (lv.kind == ExprKind::Index) {
             // 11.5.1: a write to a position out of range, or through an unknown index, does nothing.
             for (int index = lo; index <= hi; ++index) {
+                if (!candidate(index)) continue;
                 Literal c = b_.and2(indexIs(iv, idxSigned, index), idxKnown);
                 if (c == kFalse) continue;   // a position the index cannot name is never written
                 int off = dimOffset(index, lv.msb, lv.lsb);
@@ -459,6 +549,7 @@ std::vector<Lowerer::Placement> Lowerer::targetPlaces(ExprId lvId, SymbolId& sym
             int ew = std::max(1, pw / n);
             int count = std::max(1, w / ew);
             for (std::int64_t start = static_cast<std::int64_t>(lo) - count + 1; start <= hi + count - 1; ++start) {
+                if (!candidate(start)) continue;
                 Literal c = b_.and2(indexIs(iv, idxSigned, start), idxKnown);
                 if (c == kFalse) continue;
                 std::int64_t first = lv.up ? start : start - count + 1;   // lowest index written
@@ -476,6 +567,13 @@ std::vector<Lowerer::Placement> Lowerer::targetPlaces(ExprId lvId, SymbolId& sym
                 inner.push_back({c, std::move(offs)});
             }
         }
+    }
+    if (ofSignal) {
+        const int sw = static_cast<int>(ir_.symbols[sym].width);
+        for (auto& place : inner)
+            for (int& p : place.second)
+                if (p >= sw) p = -1;
+        return inner;
     }
     std::vector<Placement> out;
     for (const auto& [oc, ooffs] : outer)

@@ -427,6 +427,35 @@ TEST(FrontendLower, NarrowIndexWritesOnlyPositionsItCanName) {
         }
 }
 
+TEST(FrontendLower, ConstantIndexTargetsWriteTheBitTheyName) {
+    // assign y[k] = a[k] ^ c; for k = 7..0, in that order, each index a 4-bit constant (signed for
+    // odd k, unsigned for even: both name position k, 11.5.1), and assign z = y[3] & c; first. Each
+    // statement writes only the bit its constant names, and a reader of a bit another statement
+    // writes gets that statement's value whatever the order in the file (10.3).
+    DescBuilder d;
+    d.sig("a", 8, "input");
+    d.sig("c", 1, "input");
+    d.sig("y", 8, "output");
+    d.sig("z", 1, "output");
+    auto pos = [](int k) { return fmt::format("{:04b}", k); };
+    d.assignMember(d.ref("z"), d.bin("&", d.index(d.ref("y"), d.cnst(pos(3)), 7, 0, 1), d.ref("c"), 1), 1, {"y", "c"},
+                   {"z"});
+    for (int k = 7; k >= 0; --k) {
+        int lhs = d.index(d.ref("y"), d.cnst(pos(k), k % 2 == 1), 7, 0, 1);
+        int rhs = d.bin("^", d.index(d.ref("a"), d.cnst(pos(k)), 7, 0, 1), d.ref("c"), 1);
+        d.assignMember(lhs, rhs, 2 + k, {"a", "c"}, {"y"});
+    }
+    auto l = lower(parseDescription(d.build()));
+    for (std::uint64_t a = 0; a < 256; ++a)
+        for (int c = 0; c < 2; ++c) {
+            auto in = bits("a", 8, a);
+            in["c"] = c;
+            for (int k = 0; k < 8; ++k)
+                EXPECT_EQ(evalOutput(l.net, fmt::format("y[{}]", k), in), bool(((a >> k) & 1) ^ c)) << a << " " << k;
+            EXPECT_EQ(evalOutput(l.net, "z", in), bool((((a >> 3) & 1) ^ c) & c)) << a;
+        }
+}
+
 // The expression-node merge (statement_nodes.cpp) on a long written sum: above
 // ExpressionMergeLimits::factorCubes a merge is decided from cube and literal counts. Node
 // elimination must keep the function (MIS, Brayton et al. 1987, from memory); a sum of products
