@@ -399,6 +399,9 @@ private:
     /// Whether output i's statement reads, by name, an author's signal of another group whose
     /// logic as read is i's own (node r): a copy, whose logic is that group's.
     bool copiesOtherGroup(std::size_t i, NodeId r, const std::vector<int>& groupOfOutput);
+    /// Whether statement `stmt` is kerf's own unused-bits wire of an earlier run (a `wire` named
+    /// *unused* below kerf's note): it is kept as written.
+    bool ownUnusedWire(int stmt) const;
     std::vector<std::vector<std::size_t>> origDriven_;   ///< per original node: the author's outputs it drives
 
     // ---- text
@@ -1563,8 +1566,10 @@ void Writer::decide() {
             if (wireStamp[w] != stamp) wireStamp[w] = stamp, wires.push_back(w);
         };
         G.gatesAfter = 0;
+        std::size_t litsAfter = 0, litsBefore = 0;
         auto addNode = [&](NodeId x) {
-            if (nodeStamp[x] != stamp) nodeStamp[x] = stamp, G.gatesAfter += forms_[x].gateCount();
+            if (nodeStamp[x] != stamp)
+                nodeStamp[x] = stamp, G.gatesAfter += forms_[x].gateCount(), litsAfter += forms_[x].literalCount();
         };
         for (std::size_t i : outsOf[g]) {
             NodeId v = literalVar(net_.outputs()[i].driver);
@@ -1601,6 +1606,7 @@ void Writer::decide() {
             origSeen[v] = stamp;
             if (origStop[v] == stamp && origRoot[v] != stamp) continue;
             G.gatesBefore += origForms[v].gateCount();
+            litsBefore += origForms[v].literalCount();
             for (const auto& c : orig_.node(v).cover.cubes)
                 for (Literal l : c.lits) work.push_back(literalVar(l));
         }
@@ -1608,9 +1614,24 @@ void Writer::decide() {
         bool enough = opts_.minGain.percent
                           ? gain * 100.0 >= opts_.minGain.value * static_cast<double>(G.gatesBefore)
                           : gain >= opts_.minGain.value;
-        // --min-gain 0 rewrites every group that does not grow (for reviewing kerf's output).
-        G.replaced = enough && (gain > 0 || (opts_.minGain.value == 0 && gain >= 0));
-        if (G.replaced) G.reason.clear();
+        // --min-gain 0 rewrites every group that does not grow (for reviewing kerf's output): as
+        // many gates in more literals is growing. Such a rewrite only reshuffles (`w = a & (b | c)`
+        // split into `w_t0 = b | c; w = a & w_t0;`), and a second run over kerf's own output made
+        // such changes (F154). As many literals still counts as not growing: keeping such a group
+        // while the others are rewritten can cost the shared logic (foreach_union, 27 -> 36).
+        const bool reshuffle = gain == 0 && G.gatesBefore > 0 && litsAfter > litsBefore;
+        G.replaced = enough && (gain > 0 || (opts_.minGain.value == 0 && gain >= 0 && !reshuffle));
+        // kerf's own wire reading what an earlier run's rewrite no longer reads (`kf_unused`,
+        // below its `// kerf: the restructured logic ...` note) is part of that rewrite: a second
+        // run keeps it as written (under --min-gain 0 it came back as a literal beside a new one).
+        if (G.replaced && gain <= 0 &&
+            std::all_of(groupStmts_[g].begin(), groupStmts_[g].end(), [&](int s) { return ownUnusedWire(s); })) {
+            G.replaced = false;
+            G.reason = "kerf's own wire reading what an earlier rewrite no longer reads";
+        } else if (G.replaced) G.reason.clear();
+        else if (reshuffle && opts_.minGain.value == 0)
+            G.reason = fmt::format("no saving ({} -> {} gates, {} -> {} literals)", G.gatesBefore, G.gatesAfter,
+                                   litsBefore, litsAfter);
         else if (gain <= 0) G.reason = fmt::format("no saving ({} -> {} gates)", G.gatesBefore, G.gatesAfter);
         else G.reason = fmt::format("saves {:g} gate{} ({} -> {}), less than --min-gain {}", gain, gain == 1 ? "" : "s",
                                     G.gatesBefore, G.gatesAfter, opts_.minGain.str());
@@ -1663,6 +1684,27 @@ void Writer::decide() {
             }
     }
     keepReaders();
+}
+
+bool Writer::ownUnusedWire(int stmt) const {
+    for (int mid : membersOfStmt_.at(stmt)) {
+        const auto* mem = byId_.at(mid);
+        if (!mem->netDecl || mem->writes.size() != 1 || mem->writes[0].find("unused") == std::string::npos)
+            return false;
+        // The note is the comment lines right above the declaration (`wire [95:0] kf_unused = ...`).
+        auto sig = m_.signals.find(mem->writes[0]);
+        if (sig == m_.signals.end() || !sig->second.decl || mem->src.file != m_.src.file) return false;
+        bool noted = false;
+        for (std::size_t ls = lineStart(src_, sig->second.decl->stmtStart); ls > 0 && !noted;) {
+            std::size_t prev = lineStart(src_, ls - 1), p = prev;
+            while (p < ls && (src_[p] == ' ' || src_[p] == '\t')) ++p;
+            if (src_.compare(p, 2, "//") != 0) break;
+            noted = src_.compare(p, 31, "// kerf: the restructured logic") == 0;
+            ls = prev;
+        }
+        if (!noted) return false;
+    }
+    return !membersOfStmt_.at(stmt).empty();
 }
 
 bool Writer::copiesOtherGroup(std::size_t i, NodeId r, const std::vector<int>& groupOfOutput) {

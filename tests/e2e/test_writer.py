@@ -1869,5 +1869,32 @@ def _(t):
                     f"second run ends without an internal error (exit {r2.returncode}): {r2.stderr[-800:]}")
 
 
+@S.case("min_gain_zero_rerun_unchanged")
+def _(t):
+    """F154: under --min-gain 0, kerf on its own output changes nothing. Before, a second run over
+    tests/rtl/inside_pkg_func.sv's rewrite wrote kerf's own unused-bits wire (`kf_unused =
+    {CSR_MCYCLE, ...}`, reading the package constants the rewrite no longer names) back as a
+    96-bit literal beside a new `kf_unused_2`, and split `counter`'s statement into a new wire of
+    as many gates (a reshuffle, one literal more). The first run must write such a wire (else
+    the check says nothing); the second run's output is byte-identical to the first."""
+    files = ["tests/rtl/include/csr_pkg.sv"]
+    first, second = os.path.join(t.work, "a", "inside_pkg_func.sv"), os.path.join(t.work, "b", "inside_pkg_func.sv")
+    os.makedirs(os.path.dirname(first))
+    os.makedirs(os.path.dirname(second))
+    r1 = restructure(t, files + ["tests/rtl/inside_pkg_func.sv"], "inside_pkg_func", first, "--min-gain", "0")
+    if not t.res.check(r1.returncode == 0, f"first run: {r1.stderr[-800:]}"):
+        return
+    text = open(first).read()
+    t.res.check(re.search(r"wire \[\d+:0\] kf_unused = \{CSR_", text) is not None,
+                f"the first run reads the constants it no longer names in kf_unused:\n{text[-600:]}")
+    r2 = restructure(t, files + [first], "inside_pkg_func", second, "--min-gain", "0")
+    if not t.res.check(r2.returncode == 0, f"second run: {r2.stderr[-800:]}"):
+        return
+    again = open(second).read()
+    import difflib
+    t.res.check(again == text, "the second run under --min-gain 0 changes nothing:\n" +
+                "".join(difflib.unified_diff(text.splitlines(True), again.splitlines(True))))
+
+
 if __name__ == "__main__":
     S.main()
