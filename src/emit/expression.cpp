@@ -950,4 +950,15 @@ std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits) {
     return t;
 }
 
+bool vectorIsEnum(const VarRef& r) {
+    if (!r.module) return false;
+    auto it = r.module->signals.find(r.signal);
+    if (it == r.module->signals.end()) return false;
+    const auto& types = r.module->ir.types;
+    frontend::TypeId t = it->second.type;
+    return t != frontend::kNoId && t < types.size() && types[t].kind == frontend::TypeKind::Enum;
+}
+
+std::string sliceTextOf(const VarRef& r, int loOff, int hiOff) { return sliceText(r, loOff, hiOff); }
+
 } // namespace kerf::emit

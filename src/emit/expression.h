@@ -116,6 +116,14 @@ std::string complementedCompare(const std::string& text);
 std::string comparisonText(const VarRef& r, int loOff, int hiOff, const std::vector<int>& bitsMsbFirst,
                            int& constant);
 
+/// The text of bits `loOff..hiOff` of the vector `r` is a bit of, as the printer writes a
+/// slice (`opcode[6:2]`, the whole `opcode`, `req.addr[13:10]`; `{...}` where the declared type
+/// splits them).
+std::string sliceTextOf(const VarRef& r, int loOff, int hiOff);
+
+/// Whether `r`'s signal is declared with an enum type (its values are named by the source).
+bool vectorIsEnum(const VarRef& r);
+
 /// Flat text of an expression (no line breaks).
 std::string flatText(const PExpr& e);
 

@@ -413,7 +413,13 @@ private:
     std::optional<std::string> inlineOperand(const std::map<int, std::size_t>& bits, int width);
     /// Wire v's name part when its function (inverted when `inverted`) is a comparison of one
     /// vector or slice with a constant, or its complement: "opcode_is_33", "addr_7_4_not_0".
-    std::optional<std::string> sliceComparison(NodeId v, bool inverted) const;
+    /// A comparison name's parts: `opcode_is_33` is {"opcode", "33", true}.
+    struct ComparisonParts {
+        std::string lhs, value;
+        bool equal = true;
+        bool pattern = false;   ///< the value is a bit pattern with `x` (bits apart)
+    };
+    std::optional<std::string> sliceComparison(NodeId v, bool inverted, ComparisonParts* parts = nullptr) const;
     std::string statement(const std::string& ind, const std::string& lead, const PExpr& e) const;
 
     /// Every name output i's text reads: an author's copy of an input reads that input;
@@ -950,7 +956,7 @@ std::string valueFragment(const std::string& compareText) {
     return hexDigits(digits);
 }
 
-std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted) const {
+std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, ComparisonParts* parts) const {
     // Seen through the forms (ANDs, and ORs under an inversion), is literal l's function one
     // product of the bits of one vector? Leaves are network inputs, and nodes named as bits of a
     // vector that are not new wires (an author's signal computed by logic).
@@ -993,7 +999,25 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted) cons
         steps = 0;
         if (!lit(algebra::makeLiteral(v, inverted != complemented)) || bits.size() < 2) continue;
         const int lo = bits.begin()->first, hi = bits.rbegin()->first;
-        if (hi - lo + 1 != static_cast<int>(bits.size())) continue;   // not one slice
+        if (hi - lo + 1 != static_cast<int>(bits.size())) {
+            // Bits of one vector apart (`~opcode[6] & opcode[4] & ... & opcode[0]`): named by the
+            // span they lie in and its pattern in binary, MSB first, `x` where a bit is not read
+            // (`opcode_is_0x10111`; never hexadecimal, so `0x` never starts a number). Not for an
+            // enum-typed signal, whose values the source names; nor for two bits, which read as
+            // well by their names (`nopcode6_nopcode2`, not `opcode_6_2_is_0xxx0`).
+            if (vectorIsEnum(*vec) || bits.size() < 3) return std::nullopt;
+            std::string slice = sliceTextOf(*vec, lo, hi);
+            if (slice.front() == '{') return std::nullopt;
+            std::string out, pattern;
+            for (char c : slice)
+                if (c != ']') out += (c == '[' || c == ':' || c == '.') ? '_' : c;
+            for (int o = hi; o >= lo; --o) {
+                auto it = bits.find(o);
+                pattern += it == bits.end() ? 'x' : it->second ? '1' : '0';
+            }
+            if (parts) *parts = {out, pattern, !complemented, true};
+            return out + (complemented ? "_not_" : "_is_") + pattern;
+        }
         std::vector<int> msbFirst;
         for (auto it = bits.rbegin(); it != bits.rend(); ++it) msbFirst.push_back(it->second);
         int constant = -1;
@@ -1008,6 +1032,7 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted) cons
         const bool zeros = std::all_of(msbFirst.begin(), msbFirst.end(), [](int b) { return b == 0; });
         if (reduced_.count(vec->signal) && (ones || zeros))
             return std::string(zeros ? (complemented ? "any_" : "no_") : (complemented ? "not_all_" : "all_")) + out;
+        if (parts) *parts = {out, valueFragment(text), !complemented, false};
         return out + (complemented ? "_not_" : "_is_") + valueFragment(text);
     }
     return std::nullopt;
@@ -1036,18 +1061,31 @@ void Writer::nameWires() {
         used.insert(n);
         return n;
     };
+    // Wires named as a comparison, by name: an OR of them over one vector is named as the set of
+    // values (`opcode_is_67_or_6f`).
+    std::map<std::string, ComparisonParts> comparisonOf;
     // Descriptive names where the wire is a comparison or a small AND/OR of names.
     for (std::size_t k = 0; k < wires_.size(); ++k) {
         NodeId v = wires_[k];
         // A comparison of one vector or slice with a constant, however the logic spells it
         // (`opcode[5:4] == 2'b11 & ~opcode[3] & ...`): named as the comparison.
-        if (auto cmp = sliceComparison(v, refs_[v]->inverted); cmp && cmp->size() <= cap) {
+        ComparisonParts cp;
+        cp.lhs.clear();
+        auto cmp = sliceComparison(v, refs_[v]->inverted, &cp);
+        // The complement of bits apart (`paddr[5] | paddr[1] | paddr[0]`) reads better by its
+        // bits' names (`paddr5_or_paddr1_or_paddr0`) than as `paddr_not_0xxx00`: the pattern
+        // name only when there is no other.
+        std::optional<std::string> fallback;
+        if (cmp && cp.pattern && !cp.equal) fallback = std::move(cmp), cmp.reset();
+        if (cmp && cmp->size() <= cap) {
             names[k] = claim(*cmp);
             refs_[v]->text = names[k];
+            if (!cp.lhs.empty()) comparisonOf[names[k]] = cp;
             continue;
         }
         PExpr e = eb.definition(v, refs_[v]->inverted);
         std::string name;
+        std::optional<ComparisonParts> setParts;
         auto part = [&](const PExpr& p) -> std::string {
             if (p.kind == PExpr::Kind::Ref && p.text[0] != '$') return (p.neg ? "n" : "") + fragment(p.text);
             if (p.kind == PExpr::Kind::Compare && !p.text.empty() && p.text.find(' ') == std::string::npos) {
@@ -1084,8 +1122,58 @@ void Writer::nameWires() {
             }
             return "";
         };
+        // A comparison the printer writes (`funct3 == 3'b101`), or a wire named as one, as parts.
+        auto comparisonParts = [&](const PExpr& p) -> std::optional<ComparisonParts> {
+            if (p.kind == PExpr::Kind::Ref) {
+                auto it = comparisonOf.find(p.text);
+                if (it == comparisonOf.end()) return std::nullopt;
+                ComparisonParts c = it->second;
+                c.equal = c.equal != p.neg;
+                return c;
+            }
+            if (p.kind != PExpr::Kind::Compare || p.text.find(' ') == std::string::npos) return std::nullopt;
+            std::string lhs = p.text.substr(0, p.text.find(' '));
+            if (lhs.empty() || lhs[0] == '{') return std::nullopt;
+            ComparisonParts c;
+            for (char ch : lhs)
+                if (ch != ']') c.lhs += (ch == '[' || ch == ':' || ch == '.') ? '_' : ch;
+            c.value = valueFragment(p.text);
+            c.equal = (p.text.find("==") != std::string::npos) != p.neg;
+            return c;
+        };
         if (e.kind == PExpr::Kind::Compare) {
             name = part(e);
+            if (auto c = comparisonParts(e); c && !name.empty() && name.size() <= cap) {
+                names[k] = claim(name);
+                refs_[v]->text = names[k];
+                comparisonOf[names[k]] = *c;
+                continue;
+            }
+        } else if ((e.kind == PExpr::Kind::And || e.kind == PExpr::Kind::Or) && e.kids.size() <= 4 && [&] {
+                       // Comparisons of one vector with several values: an OR of equalities
+                       // (`opcode_is_67_or_6f`), or an AND of inequalities, its complement
+                       // (`opcode_not_33_or_13`); values all bit patterns with `x` or none.
+                       const bool conj = (e.kind == PExpr::Kind::And) != e.neg;
+                       std::vector<ComparisonParts> cs;
+                       for (const auto& kid : e.kids) {
+                           PExpr kk = kid;
+                           if (e.neg) kk.neg = !kk.neg;
+                           auto c = comparisonParts(kk);
+                           if (!c || c->equal == conj || (!cs.empty() && (c->lhs != cs[0].lhs || c->pattern != cs[0].pattern)))
+                               return false;
+                           cs.push_back(*c);
+                       }
+                       std::string n = cs[0].lhs + (conj ? "_not_" : "_is_");
+                       for (std::size_t j = 0; j < cs.size(); ++j) n += (j ? "_or_" : "") + cs[j].value;
+                       if (cs.size() < 2 || n.size() > cap) return false;
+                       name = n;
+                       // A set of values is a comparison too, for a wider set built on it.
+                       setParts = cs[0];
+                       setParts->equal = !conj;
+                       for (std::size_t j = 1; j < cs.size(); ++j) setParts->value += "_or_" + cs[j].value;
+                       return true;
+                   }()) {
+            // named above
         } else if ((e.kind == PExpr::Kind::And || e.kind == PExpr::Kind::Or) && e.kids.size() <= 3) {
             // An inverted sum or product is named as its dual (`~(a | b)`: `na_nb`).
             bool conj = (e.kind == PExpr::Kind::And) != e.neg;
@@ -1103,11 +1191,13 @@ void Writer::nameWires() {
             if (!a.empty() && !b.empty()) name = (e.neg ? "same_" : "") + a + (e.neg ? "_" : "_xor_") + b;
         }
         if (name.size() > cap) name.clear();
+        if (name.empty() && fallback && fallback->size() <= cap) name = *fallback, setParts = cp;
         if (!name.empty()) {
             // Wires are in topological order: a later wire that combines this one reads its
             // name (`state_q_is_ARB_ncancel`), not a placeholder.
             names[k] = claim(name);
             refs_[v]->text = names[k];
+            if (setParts) comparisonOf[names[k]] = *setParts;
         }
     }
     // The rest: the first output they feed, with an index counted within that output's logic.

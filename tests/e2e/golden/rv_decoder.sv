@@ -25,23 +25,23 @@ module rv_decoder (
 
   // kerf: 1 of 4 groups rewritten, gates 93 -> 60, depth 7 -> 7, proved equivalent
   wire opcode_1_0_is_11 = opcode[1:0] == 2'b11;
-  wire nopcode3_opcode_1_0_is_11 = ~opcode[3] & opcode_1_0_is_11;
+  wire opcode_3_0_is_0x11 = ~opcode[3] & opcode_1_0_is_11;
   wire nopcode6_nopcode2 = ~(opcode[6] | opcode[2]);
-  wire opcode_is_33 = (opcode[5:4] == 2'b11) & nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2;
-  wire opcode_is_13 = (opcode[5:4] == 2'b01) & nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2;
+  wire opcode_is_33 = (opcode[5:4] == 2'b11) & opcode_3_0_is_0x11 & nopcode6_nopcode2;
+  wire opcode_is_13 = (opcode[5:4] == 2'b01) & opcode_3_0_is_0x11 & nopcode6_nopcode2;
   wire opcode_5_4_is_10 = opcode[5:4] == 2'b10;
-  wire opcode_is_23 = nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2 & opcode_5_4_is_10;
-  wire opcode_is_63 = opcode[6] & ~opcode[2] & nopcode3_opcode_1_0_is_11 & opcode_5_4_is_10;
-  wire reg_write_t1 = ~opcode[6] & opcode[4] & opcode[2] & nopcode3_opcode_1_0_is_11;
-  wire reg_write_t4 = opcode[6] & opcode[2] & opcode_5_4_is_10;
-  wire opcode_is_6f = opcode[3] & opcode_1_0_is_11 & reg_write_t4;
-  wire opcode_is_67 = nopcode3_opcode_1_0_is_11 & reg_write_t4;
-  wire reg_write_t3 = opcode_is_6f | opcode_is_67;
-  wire reg_write_t2 = ~(opcode_is_33 | opcode_is_13);
-  wire reg_write_t0 = ~reg_write_t3 & reg_write_t2;
-  wire alu_op0_t0 = opcode_is_63 | ~reg_write_t2;
+  wire opcode_is_23 = opcode_3_0_is_0x11 & nopcode6_nopcode2 & opcode_5_4_is_10;
+  wire opcode_is_63 = opcode[6] & ~opcode[2] & opcode_3_0_is_0x11 & opcode_5_4_is_10;
+  wire opcode_is_0x10111 = ~opcode[6] & opcode[4] & opcode[2] & opcode_3_0_is_0x11;
+  wire opcode_6_2_is_110x1 = opcode[6] & opcode[2] & opcode_5_4_is_10;
+  wire opcode_is_6f = opcode[3] & opcode_1_0_is_11 & opcode_6_2_is_110x1;
+  wire opcode_is_67 = opcode_3_0_is_0x11 & opcode_6_2_is_110x1;
+  wire opcode_is_6f_or_67 = opcode_is_6f | opcode_is_67;
+  wire opcode_not_33_or_13 = ~(opcode_is_33 | opcode_is_13);
+  wire reg_write_t0 = ~opcode_is_6f_or_67 & opcode_not_33_or_13;
+  wire opcode_is_63_or_33_or_13 = opcode_is_63 | ~opcode_not_33_or_13;
   wire alu_op3_t0 = opcode_is_33 | ((funct3 == 3'b101) & opcode_is_13);
-  wire imm_sel0_t0 = opcode_is_23 | reg_write_t1;
+  wire imm_sel0_t0 = opcode_is_23 | opcode_is_0x10111;
   wire funct3_not_000 = funct3 != 3'b000;
   always_comb begin
     // comments of the replaced code, each after the code it was on or above:
@@ -53,17 +53,21 @@ module rv_decoder (
     //   7'b0?10111: begin  // LUI and AUIPC
     //   7'b1101111: begin  // JAL
     //   7'b1100111: begin  // JALR
-    mem_read = (opcode[5:4] == 2'b00) & nopcode3_opcode_1_0_is_11 & nopcode6_nopcode2;
-    reg_write = reg_write_t1 | ~reg_write_t0 | mem_read;
+    mem_read = (opcode[5:4] == 2'b00) & opcode_3_0_is_0x11 & nopcode6_nopcode2;
+    reg_write = opcode_is_0x10111 | ~reg_write_t0 | mem_read;
     mem_write = opcode_is_23;
     branch = opcode_is_63;
-    jump = reg_write_t3;
-    alu_src[0] = opcode_is_13 | opcode_is_23 | opcode_is_67 | mem_read | (opcode[5] & reg_write_t1);
-    alu_src[1] = opcode_is_6f | (~opcode[5] & reg_write_t1);
-    alu_op[2:0] = funct3 & {3{alu_op0_t0}};
+    jump = opcode_is_6f_or_67;
+    alu_src[0] = opcode_is_13
+               | opcode_is_23
+               | opcode_is_67
+               | mem_read
+               | (opcode[5] & opcode_is_0x10111);
+    alu_src[1] = opcode_is_6f | (~opcode[5] & opcode_is_0x10111);
+    alu_op[2:0] = funct3 & {3{opcode_is_63_or_33_or_13}};
     alu_op[3] = opcode_is_63 | (f7_alt & alu_op3_t0);
     imm_sel[0] = imm_sel0_t0;
-    imm_sel[1] = opcode_is_63 | reg_write_t1;
+    imm_sel[1] = opcode_is_63 | opcode_is_0x10111;
     imm_sel[2] = opcode_is_6f;
     illegal = ((funct3[2:1] == 2'b01) & opcode_is_63)
             | (opcode_is_67 & funct3_not_000)
