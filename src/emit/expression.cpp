@@ -152,6 +152,15 @@ bool needsParens(PExpr::Kind pk, const PExpr& kid) {
     int p = precedence(kid);
     if (p == 10) return false;
     if (pk == PExpr::Kind::Mux) return p <= 1;
+    // A reduction is a unary operator, which binds tighter than every binary one (IEEE
+    // 1800-2017 11.3.2, Table 11-2): `|v[3:2] & a`, `^v ^ ...` need none to parse. They are
+    // left out under a different operator (`~|live[5:4] & a`), and kept where the reduction's
+    // symbol is the operator's own (`(^v) ^ a`, `(~|v) | a`), which would read as the operator
+    // written twice (docs/guide.md).
+    if (kid.kind == PExpr::Kind::Compare && isReductionText(kid.text)) {
+        const char sym = kid.text[0] == '~' ? kid.text[1] : kid.text[0];
+        return opText(pk)[0] == sym;
+    }
     // Readability: anything composite under a different operator gets parentheses.
     return true;
 }

@@ -1996,5 +1996,60 @@ def _(t):
     t.res.check(kinds == {"set", "pattern"}, f"names of both kinds written (bits apart, a set of values): {kinds}")
 
 
+REQ_GATE = """// An invented DMA request gate: a channel group requests service when any of its request lines
+// is up and one of its two enables is set; a parity flag travels with the data word.
+module req_gate (
+  input  logic [7:0] req,
+  input  logic [7:0] data,
+  input  logic       en_a,
+  input  logic       en_b,
+  input  logic       par_in,
+  input  logic       valid,
+  output logic       grp_lo,
+  output logic       grp_hi,
+  output logic       par_err
+);
+  assign grp_lo = (|req[3:0]) & en_a | (|req[3:0]) & en_b;
+  assign grp_hi = (&req[7:4]) & en_a | (&req[7:4]) & en_b & valid;
+  assign par_err = valid & (^data ^ par_in);
+endmodule
+"""
+
+
+@S.case("reduction_operand_parentheses", needs=("iverilog", "verilator"))
+def _(t):
+    """Issue 10 (layout): a reduction is a unary operator, binding tighter than every binary one
+    (IEEE 1800-2017 11.3.2, Table 11-2), so `|req[3:0] & x` needs no parentheses; they are left
+    out under a different operator and kept where the reduction's symbol is the operator's own
+    (`(&req[7:4]) & x`), which would read as the operator written twice (docs/guide.md). The
+    rewrite simulates like the input (Icarus Verilog) and Verilator -Wall warns about nothing
+    the input did not have. Fails before: `(|req[3:0]) & (en_a | en_b)`."""
+    src = os.path.join(t.work, "req_gate.sv")
+    open(src, "w").write(REQ_GATE)
+    out = os.path.join(t.work, "out", "req_gate.sv")
+    os.makedirs(os.path.dirname(out))
+    r = restructure(t, [src], "req_gate", out, "--min-gain", "0")
+    if not t.res.check(r.returncode == 0, f"restructure: {r.stderr[-800:]}"):
+        return
+    text = open(out).read()
+    body = text[text.index("// kerf:"):]
+    wrapped = [(m.group(1), m.group(2)) for m in re.finditer(r"\((~?[|&^][A-Za-z_][\w\[\]:.]*)\)\s*([|&^])", body)]
+    bare = re.findall(r"(?<![(\w\]])~?([|&^])[A-Za-z_][\w\[\]:.]*\s+([|&^])\s", body)
+    t.res.check(all(red.lstrip("~")[0] == op for red, op in wrapped),
+                f"no reduction parenthesised under a different operator: {wrapped}\n{body}")
+    t.res.check(any(sym != op for sym, op in bare),
+                f"a reduction is written bare under a different operator (the check says something):\n{body}")
+    t.res.check(all(sym != op for sym, op in bare),
+                f"a reduction under its own symbol stays parenthesised: {bare}\n{body}")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], "req_gate", out, sim, vectors=3000)
+    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
+    _, before, _ = O.lint([src], "req_gate")
+    _, after, raw = O.lint([out], "req_gate")
+    added = O.new_warnings(before, after)
+    t.res.check(not added, f"Verilator -Wall: no new warning: {added}\n{raw[-800:]}")
+
+
 if __name__ == "__main__":
     S.main()
