@@ -216,7 +216,7 @@ const std::vector<LimitInfo>& limitTable() {
         sub("divisors-max-extractions", "divisors extracted per move", &EngineLimits::divisors,
             &ShareDivisorsOptions::maxExtractions, 1),
         sub("divisors-max-candidates",
-            "candidate divisors one move holds (nodes entered in order until it is full; 0: no bound)",
+            "candidate divisors one move holds (when full, divisors not in it are not counted; 0: no bound)",
             &EngineLimits::divisors, &ShareDivisorsOptions::maxCandidates),
         sub("resub-candidates", "existing nodes tried as divisors per node", &EngineLimits::reuse,
             &ReuseOptions::maxCandidates),

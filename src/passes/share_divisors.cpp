@@ -252,7 +252,8 @@ public:
         std::set_difference(b.begin(), b.end(), base_.begin(), base_.end(), std::back_inserter(d.cubes[1].lits));
         long s = static_cast<long>(d.cubes[0].lits.size() + d.cubes[1].lits.size() + base_.size()) - 1;
         d.normalize();
-        items.push_back({idOf(d), sign * s});
+        const int id = idOf(d);
+        if (id >= 0) items.push_back({id, sign * s});
     }
 
     // The single-cube divisors of two literals of a cube (saving 1 each), times sign.
@@ -260,7 +261,7 @@ public:
         if (cube.lits.size() < 2 || cube.lits.size() > opts_.maxCubeForLiteralPairs) return;
         for (std::size_t i = 0; i < cube.lits.size(); ++i)
             for (std::size_t j = i + 1; j < cube.lits.size(); ++j)
-                items.push_back({pairId(cube.lits[i], cube.lits[j]), sign});
+                if (const int id = pairId(cube.lits[i], cube.lits[j]); id >= 0) items.push_back({id, sign});
     }
 
     static Contribution finish(Contribution& c) {
@@ -339,6 +340,8 @@ public:
         return p != it.end() && p->first == id;
     }
     std::size_t size() const { return divs_.size(); }
+    /// Limit divisors-max-candidates: the table takes no new divisor.
+    bool full() const { return opts_.maxCandidates > 0 && divs_.size() >= opts_.maxCandidates; }
 
 private:
     // A new divisor of cover d (one or two cubes: a pair of cubes, a literal
@@ -356,8 +359,14 @@ private:
         divs_.push_back(dv);
         return static_cast<int>(divs_.size() - 1);
     }
+    // Ids of divisors: -1 for a divisor not yet in a full table (it is not
+    // counted, wherever it occurs, so counts stay consistent).
     int pairId(Literal a, Literal b) {
         std::uint64_t key = (std::uint64_t{a} << 32) | b;
+        if (full()) {
+            auto it = pairIndex_.find(key);
+            return it == pairIndex_.end() ? -1 : it->second;
+        }
         auto [it, fresh] = pairIndex_.try_emplace(key, static_cast<int>(divs_.size()));
         if (fresh) store(Cover{{Cube({a, b})}});
         return it->second;
@@ -395,6 +404,7 @@ private:
         const std::size_t mask = slots_.size() - 1;
         for (std::size_t k = hashOf(d) & mask;; k = (k + 1) & mask) {
             if (slots_[k] < 0) {
+                if (full()) return -1;
                 const int id = store(d);
                 slots_[k] = id;
                 ++indexed_;
@@ -474,17 +484,8 @@ private:
 void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx) {
     PairTable table(ws, opts);
     net::Network& net = ws.net();
-    // Limit divisors-max-candidates: no further node is entered once the table is full.
-    bool full = false;
-    auto roomFor = [&]() {
-        if (opts.maxCandidates > 0 && table.size() >= opts.maxCandidates) full = true;
-        return !full;
-    };
     if (!ctx.focus) {
-        for (net::NodeId v : net.topoOrder()) {
-            if (!roomFor()) break;
-            table.add(v);
-        }
+        for (net::NodeId v : net.topoOrder()) table.add(v);
     } else {
         // Changed region: the marked nodes' divisors, then every node that
         // can hold one of them (it reads each of the divisor's variables, so
@@ -492,7 +493,7 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
         std::vector<std::uint8_t> entered(net.nodeCount(), 0);
         const std::vector<net::NodeId> order = net.topoOrder();
         for (net::NodeId v : order)
-            if (ctx.inFocus(v) && roomFor()) { table.add(v); entered[v] = 1; }
+            if (ctx.inFocus(v)) { table.add(v); entered[v] = 1; }
         std::vector<std::uint8_t> scan(net.nodeCount(), 0);
         for (int id : table.touchedSoFar()) {
             const Cover d = table.cover(id);
@@ -507,9 +508,8 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
             for (net::NodeId f : ws.fanouts(u)) entered[f] |= 2;
         }
         for (net::NodeId v : order)
-            if (entered[v] == 2 && roomFor()) table.add(v);
+            if (entered[v] == 2) table.add(v);
     }
-    if (full) ctx.stats.add("limit-hit:divisors-max-candidates", 1);
     struct Entry { long w; int id; std::uint32_t version; };
     auto cmp = [](const Entry& a, const Entry& b) { return a.w < b.w || (a.w == b.w && a.id > b.id); };
     std::priority_queue<Entry, std::vector<Entry>, decltype(cmp)> heap(cmp);
@@ -554,6 +554,7 @@ void runPairs(Workspace& ws, const ShareDivisorsOptions& opts, PassContext& ctx)
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("not-applied", failed);
     ctx.stats.add("candidates", static_cast<long long>(table.size()));
+    if (table.full()) ctx.stats.add("limit-hit:divisors-max-candidates", 1);
     if (!heap.empty() && static_cast<std::size_t>(extracted + reused) >= opts.maxExtractions)
         ctx.stats.add("limit-hit:divisors-max-extractions", 1);
 }

@@ -222,13 +222,15 @@ TEST(PassesShareDivisors, ExistingNodeIsReusedAsDivisor) {
     EXPECT_EQ(n.logicCount(), 2u);
 }
 
-TEST(PassesShareDivisors, AFullCandidateTableTakesNoFurtherNodes) {
-    // Limit divisors-max-candidates (F149): nodes are entered in topological
-    // order until the table holds that many candidates. f = ae + be + w and
+TEST(PassesShareDivisors, AFullCandidateTableTakesNoNewDivisors) {
+    // Limit divisors-max-candidates (F149): once the table holds that many
+    // candidates, a divisor not in it is not counted. f = ae + be + w and
     // g = af + bf + w share a + b; h = cx + dx + v and k = cy + dy + v share
-    // c + d. Unbounded, both divisors become nodes; bounded at one
-    // candidate, only the first node entered gives candidates, so h and k
-    // (entered after it) are left as they were, and the limit is reported.
+    // c + d. Unbounded, both divisors become nodes. Bounded at one
+    // candidate, the table holds only the first divisor counted (a + b,
+    // from the first pair of cubes of f, the first node in order): g still
+    // counts it, so a + b is still shared, while c + d is never a candidate
+    // and h and k are left as they were; the limit is reported.
     Network n;
     NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d"), e = n.addInput("e"),
            f0 = n.addInput("f0"), x = n.addInput("x"), y = n.addInput("y"), v = n.addInput("v"), w = n.addInput("w");
@@ -256,9 +258,13 @@ TEST(PassesShareDivisors, AFullCandidateTableTakesNoFurtherNodes) {
     o.maxCandidates = 1;
     shareDivisors(m, o, ctx);
     EXPECT_EQ(sameFunctions(before, m), "");
+    NodeId s = 0;
+    ASSERT_TRUE(findCover(m, cover({{pos(a)}, {pos(b)}}), s));
+    EXPECT_EQ(m.node(g).cover, cover({{pos(s), pos(f0)}, {pos(w)}}));
     EXPECT_EQ(m.node(h).cover, before.node(h).cover);
     EXPECT_EQ(m.node(k).cover, before.node(k).cover);
     EXPECT_EQ(ctx.stats.get("limit-hit:divisors-max-candidates"), 1);
+    EXPECT_EQ(ctx.stats.get("candidates"), 1);
 }
 
 TEST(PassesShareDivisors, KernelMethodFindsCommonKernel) {

@@ -24,11 +24,12 @@ struct ShareDivisorsOptions {
     std::size_t maxKernelsPerNode = 200;
     std::size_t kernelWork = 200000;       ///< steps of one node's kernel enumeration
     std::size_t maxExtractions = 1000000;
-    /// Candidate divisors one move keeps in its table: nodes are entered in
-    /// topological order until the table holds this many (the others give no
-    /// candidates in that move). Bounds the move's memory, which grows with
-    /// the cube pairs of every node: about 22 million on the 100k `sopwide`
-    /// network (F149). 0: no bound.
+    /// Candidate divisors one move keeps in its table: once it holds this
+    /// many, a divisor not in it is not counted anywhere (nodes still count
+    /// the divisors already in it). Bounds the move's memory, which grows
+    /// with the cube pairs of every node entered and re-entered after each
+    /// extraction: 23.6 million on the 100k `sopwide` network (F149). 0: no
+    /// bound.
     std::size_t maxCandidates = 4000000;
 };
 
