@@ -69,27 +69,6 @@ struct Divisor {
     bool blocked = false;
 };
 
-// The same hash over a cover given cube by cube, as (literals, length)
-// spans: the divisor index hashes stored divisors and looked-up covers
-// alike through it.
-template <class CubeAt>
-std::size_t mixedHash(std::size_t cubes, CubeAt cubeAt) {
-    std::uint64_t h = 0x243f6a8885a308d3ull ^ cubes;
-    for (std::size_t k = 0; k < cubes; ++k) {
-        const auto [p, n] = cubeAt(k);
-        for (std::size_t i = 0; i < n; ++i) {
-            h = (h ^ p[i]) * 0x9e3779b97f4a7c15ull;
-            h ^= h >> 29;
-        }
-        h = (h ^ 0xffffffffull) * 0xbf58476d1ce4e5b9ull;   // cube boundary
-        h ^= h >> 31;
-    }
-    h ^= h >> 33;
-    h *= 0xff51afd7ed558ccdull;
-    h ^= h >> 33;
-    return static_cast<std::size_t>(h);
-}
-
 struct Contribution {
     std::vector<std::pair<int, long>> items;   // divisor, saving
     int provides = -1;
@@ -374,13 +353,13 @@ private:
     std::size_t hashOf(int id) const {
         const Divisor& dv = divs_[static_cast<std::size_t>(id)];
         const Literal* p = arena_.data() + dv.at;
-        return mixedHash(dv.cubes, [&](std::size_t k) {
+        return detail::mixedHash(dv.cubes, [&](std::size_t k) {
             return k == 0 ? std::pair<const Literal*, std::size_t>{p, dv.first}
                           : std::pair<const Literal*, std::size_t>{p + dv.first, dv.second};
         });
     }
     static std::size_t hashOf(const Cover& d) {
-        return mixedHash(d.cubes.size(), [&](std::size_t k) {
+        return detail::mixedHash(d.cubes.size(), [&](std::size_t k) {
             return std::pair<const Literal*, std::size_t>{d.cubes[k].lits.data(), d.cubes[k].lits.size()};
         });
     }

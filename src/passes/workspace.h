@@ -25,6 +25,7 @@
 
 #include <cstdint>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace kerf::passes {
@@ -61,25 +62,36 @@ Cover flipVar(const Cover& f, NodeId v);
 /// A byte string identifying a cover (for hash tables).
 std::string coverKey(const Cover& f);
 
-/// A well-mixed hash of a cover's literals and cube boundaries, for the
-/// passes' large hash tables (hundreds of thousands of small covers whose
-/// literals are small numbers: a plain combining step gave long bucket
-/// chains there, F44).
+/// A well-mixed hash of a cover given cube by cube: `cubeAt(k)` gives the
+/// k-th cube's literals as a (pointer, length) pair. Hashes a Cover and the
+/// divisor table's packed covers alike (the same cover gives the same hash).
+template <class CubeAt>
+std::size_t mixedHash(std::size_t cubes, CubeAt cubeAt) {
+    std::uint64_t h = 0x243f6a8885a308d3ull ^ cubes;
+    for (std::size_t k = 0; k < cubes; ++k) {
+        const auto [p, n] = cubeAt(k);
+        for (std::size_t i = 0; i < n; ++i) {
+            h = (h ^ p[i]) * 0x9e3779b97f4a7c15ull;
+            h ^= h >> 29;
+        }
+        h = (h ^ 0xffffffffull) * 0xbf58476d1ce4e5b9ull;   // cube boundary
+        h ^= h >> 31;
+    }
+    h ^= h >> 33;
+    h *= 0xff51afd7ed558ccdull;
+    h ^= h >> 33;
+    return static_cast<std::size_t>(h);
+}
+
+/// mixedHash of a Cover, for the passes' large hash tables (hundreds of
+/// thousands of small covers whose literals are small numbers: a plain
+/// combining step gave long bucket chains there, F44).
 struct MixedCoverHash {
     std::size_t operator()(const Cover& f) const noexcept {
-        std::uint64_t h = 0x243f6a8885a308d3ull ^ f.cubes.size();
-        for (const Cube& c : f.cubes) {
-            for (Literal l : c.lits) {
-                h = (h ^ l) * 0x9e3779b97f4a7c15ull;
-                h ^= h >> 29;
-            }
-            h = (h ^ 0xffffffffull) * 0xbf58476d1ce4e5b9ull;   // cube boundary
-            h ^= h >> 31;
-        }
-        h ^= h >> 33;
-        h *= 0xff51afd7ed558ccdull;
-        h ^= h >> 33;
-        return static_cast<std::size_t>(h);
+        return mixedHash(f.cubes.size(), [&f](std::size_t k) {
+            const auto& lits = f.cubes[k].lits;
+            return std::pair{lits.data(), lits.size()};
+        });
     }
 };
 
