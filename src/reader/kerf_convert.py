@@ -205,6 +205,8 @@ class Conv:
         self.macros = True        # the member may use macros (set False when its text has none)
         self.reads = set()
         self.writes = set()
+        self.direct_reads = set() # reads named in the member's own text (not inside a function)
+        self.fn_reads = {}        # signal a called function reads directly -> the function's name
         self.locals = {}          # local symbol -> (name, symbol index)
         self.local_list = []      # LOCAL entries
         self.local_names = set()
@@ -341,6 +343,8 @@ class Conv:
         if name in self.d.loop_candidates:
             self.outside.add(name)
         (self.writes if write else self.reads).add(name)
+        if not write:
+            self.direct_reads.add(name)
         return self.ref(e, ti, self.t.symbols[name])
 
     # -- expressions ---------------------------------------------------------------
@@ -923,6 +927,8 @@ class Conv:
             raise Unsupported("calls the function '%s' with arguments kerf cannot match" % sub.name)
         args = [self.expr(a) for a in actuals]
         self.reads.update(self.t.functions[fi]["reads"])
+        for n in self.t.functions[fi]["reads"]:
+            self.fn_reads.setdefault(n, sub.name)
         ti = self.type_of(e)
         return self.add(["call", ti] + list(self.span(e)) + [fi, args])
 

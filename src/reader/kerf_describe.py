@@ -1166,6 +1166,19 @@ class Describer:
                 return "it drives '%s', a %s net whose drivers resolve together" % (n, sym.netType.name)
         return None
 
+    @staticmethod
+    def check_hidden_reads(c, what):
+        """Refuse a member whose simulation does not wait on a signal a called function reads
+        by name. `@*` (IEEE 1364-2005 9.7.5) and a continuous assignment (re-evaluated when an
+        operand changes, IEEE 1800-2017 10.3.2) wait on a call's arguments, not on what the
+        function reads inside (`always_comb` does, IEEE 1800-2017 9.2.2.2.1): a simulator holds
+        the old value when only such a signal changes, which gates in its place would not."""
+        hidden = sorted(set(c.fn_reads) - c.direct_reads)
+        if hidden:
+            raise Unsupported("is %s calling '%s', which reads '%s' by name: a simulator does "
+                              "not re-evaluate it when that changes"
+                              % (what, c.fn_reads[hidden[0]], hidden[0]))
+
     def assign_member(self, sym):
         syn = self.member_syntax(sym)
         src, why = self.member_src(syn)
@@ -1182,6 +1195,7 @@ class Describer:
             try:
                 lhs = c.target(a.left)
                 rhs = c.expr(a.right)
+                self.check_hidden_reads(c, "a continuous assignment")
                 return {"kind": "assign", "src": src, "lhs": lhs, "rhs": rhs,
                         "reads": sorted(c.reads), "writes": sorted(c.writes),
                         "comments": self.comments(syn)}
@@ -1217,6 +1231,7 @@ class Describer:
                 idx = self.tables.symbols[name]
                 lhs = c.leaf(("r", ti, idx), ["ref", ti] + list(c.span(syn.name)) + [idx])
                 rhs = c.expr(init)
+                self.check_hidden_reads(c, "a net declaration assignment")
                 return {"kind": "assign", "src": src, "net_decl": True, "lhs": lhs, "rhs": rhs,
                         "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.comments(stmt)}
             except Unsupported as u:
@@ -1269,6 +1284,7 @@ class Describer:
         body = sym.body
         style = None
         listed = None     # the names of an explicit level-sensitive event list
+        never_runs = False
         if k == PK.AlwaysComb:
             style, what, stmt = "always_comb", "always_comb", body
         elif k == PK.Always:
@@ -1302,6 +1318,17 @@ class Describer:
                 if bad:
                     raise Unsupported("uses '%s' both as a for loop variable and outside the loop"
                                       % sorted(bad)[0])
+                if listed is None and style == "always_star" and c.reads <= c.writes:
+                    # IEEE 1364-2005 9.7.5: `@*` waits on the signals the block reads; with none
+                    # but its own targets it never wakes, so a simulator never runs it and what
+                    # it writes stays x (synthesis reads it as constants: a mismatch of the
+                    # source's own). Kept as written; its targets may be x.
+                    never_runs = True
+                    raise Unsupported("is an `always @*` block that reads no signal it does not "
+                                      "write itself: a simulator never runs it (IEEE 1364-2005 "
+                                      "9.7.5), so what it writes stays x")
+                if style == "always_star" and listed is None:
+                    self.check_hidden_reads(c, "an `always @*` block")
                 if listed is not None and not c.reads <= listed:
                     # IEEE 1364-2005 9.7.5: the block runs only when a listed signal changes, so
                     # with a signal left out simulation holds old values (not combinational).
@@ -1320,6 +1347,9 @@ class Describer:
                 c.drop()
                 why = "it " + str(u)
         m = self.kept_member(what, why, src, [sym], syn=syn)
+        if never_runs and m["writes"]:
+            m["may_be_x"] = True
+            m.pop("x_writes", None)
         if k == PK.AlwaysFF or (k == PK.Always and body.kind == STK.Timed and self.edge_events(body.timing)):
             m["clocked"] = True
         return m
