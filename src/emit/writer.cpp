@@ -227,8 +227,14 @@ void originalReads(const frontend::ModuleDesc& m, const frontend::Member& mem,
         // A truncation of a whole signal reads only the low bits it keeps (so does Verilator's
         // unused-signal check: `w1 = in3` with a 1-bit `w1` reads `in3[0]`); of a select it
         // reads the selected bits (`w1 = in3[2:0]` reads three, F116).
-        if (e.kind == ExprKind::Convert && e.width < ir.expr(e.a).width && ir.expr(e.a).kind == ExprKind::Ref)
-            if (auto c = chain(e.a)) {
+        // Casts that keep the width (`$unsigned(in1)` passed to a narrower function argument)
+        // pass the bits through: the truncation still keeps only the low bits (F187).
+        frontend::ExprId kept = e.kind == ExprKind::Convert ? e.a : frontend::kNoId;
+        while (kept != frontend::kNoId && ir.expr(kept).kind == ExprKind::Convert &&
+               ir.expr(ir.expr(kept).a).width == ir.expr(kept).width)
+            kept = ir.expr(kept).a;
+        if (kept != frontend::kNoId && e.width < ir.expr(kept).width && ir.expr(kept).kind == ExprKind::Ref)
+            if (auto c = chain(kept)) {
                 const std::string& name = *signalName(c->sym);
                 named.insert(name);
                 for (long k = 0; k < static_cast<long>(e.width); ++k) bits.insert({name, static_cast<int>(c->lo + k)});
