@@ -656,8 +656,11 @@ void ExprBuilder::groupXorSlices(PExpr& e) {
     std::map<std::string, std::vector<std::size_t>> bySignal;
     for (std::size_t i = 0; i < e.kids.size(); ++i) {
         const PExpr& k = e.kids[i];
+        // The kid's text is the bit's own name (no `~`): whether that name holds the node or its
+        // complement (VarRef::inverted, an output bit driven by an inverted node) does not
+        // matter to the parity of the names (F182: `odd = ^sub` after `sub` in one block).
         if (k.kind == PExpr::Kind::Ref && !k.neg && k.ref && !k.ref->signal.empty() && k.ref->width > 1 &&
-            !k.ref->inverted && reduced_->count(k.ref->signal))
+            reduced_->count(k.ref->signal))
             bySignal[k.ref->signal].push_back(i);
     }
     std::vector<std::uint8_t> drop(e.kids.size(), 0);

@@ -27,6 +27,7 @@
 #include "expression.h"
 #include "named_values.h"
 #include "reductions.h"
+#include "wire_vectors.h"
 #include "kerf/frontend/references.h"
 #include "kerf/io/files.h"
 
@@ -108,6 +109,8 @@ void setHeader(WriteResult& r, const std::string& line) {
 namespace {
 
 constexpr int kRankInternal = 0, kRankWire = 1 << 20, kRankPort = 2 << 20;
+/// Rounds of Writer::formFamilies: the depth of a chain of families read by families.
+constexpr int kMaxFamilyRounds = 64;
 
 /// Bits of module signals a member's text reads: a constant select chain (`a[3]`, `m[1][7:4]`,
 /// `req.hdr.tag`) reads its bits, any other reference the whole signal (`whole`). Targets'
@@ -398,6 +401,8 @@ private:
     void chooseWires();
     void nameWires();
     void formGroups();
+    void formFamilies();
+    bool orderFamilies();
     bool checkDeclarationOrder();
     bool checkCycles();
     void decide();
@@ -493,6 +498,18 @@ private:
     std::vector<StatementGroup> groups_;
     std::vector<std::vector<int>> groupStmts_;
     std::vector<std::vector<NodeId>> groupWires_;
+    /// New wires written as one vector wire (wire_vectors.cpp): its name and members, bit 0 first.
+    struct Family {
+        std::string name;
+        std::vector<NodeId> members;
+    };
+    std::vector<Family> families_;
+    std::vector<int> familyOf_;               ///< per node: its family (-1: a scalar wire)
+    std::set<NodeId> noFamily_;               ///< wires whose family closed a loop (checkCycles)
+    std::size_t familiesBroken_ = 0;
+    /// Family f's declaration: one vector wire, or (should its bits no longer share a shape)
+    /// the vector declared and its bits assigned one by one.
+    std::string familyText(std::size_t f, const std::string& ind, ExprBuilder& eb);
     std::vector<std::size_t> groupPos_;        ///< where the group's wires go (line start)
     std::vector<std::string> namesKept_;
     std::vector<VarRef> inputRefs_;            ///< per input variable: its own name
@@ -1379,6 +1396,141 @@ void Writer::formGroups() {
     }
 }
 
+void Writer::formFamilies() {
+    families_.clear();
+    familyOf_.assign(net_.nodeCount(), -1);
+    if (wires_.size() < std::max<std::size_t>(opts_.minWireFamily, 2)) return;
+    std::map<NodeId, VarRef> before;   // the members' scalar references, should a loop undo them
+    const std::size_t cap = std::max<std::size_t>(opts_.maxNameLength, 8);
+    std::set<std::string> used = taken_;
+    for (NodeId w : wires_) used.insert(refs_[w]->text);
+    // Rounds: a family whose bits read another family's bits is found once that one is a
+    // vector (its bits then rise together): a chain of families of any depth, each round
+    // taking at least one family (kMaxFamilyRounds bounds the work on a huge module).
+    for (int round = 0; round < kMaxFamilyRounds; ++round) {
+        ExprBuilder eb(refs_, forms_, &reduced_);
+        std::vector<NodeId> ids;
+        std::vector<PExpr> defs;
+        std::vector<int> key;
+        for (NodeId w : wires_) {
+            if (familyOf_[w] >= 0 || noFamily_.count(w) || wireGroup_[w] < 0) continue;
+            ids.push_back(w);
+            defs.push_back(eb.definition(w, refs_[w]->inverted));
+            key.push_back(wireGroup_[w]);
+        }
+        std::vector<WireRun> runs = findWireRuns(defs, key, opts_.minWireFamily);
+        if (runs.empty()) break;
+        for (const auto& run : runs) {
+            const int n = static_cast<int>(run.members.size());
+            std::string stem = familyStem(run.shape);
+            if (stem.empty() || stem.size() > cap) {
+                // The members' names without their bit index (`q_t3` .. `q_t5`: `q_t`).
+                std::string common = refs_[ids[run.members[0]]]->text;
+                for (std::size_t j : run.members) {
+                    const std::string& t = refs_[ids[j]]->text;
+                    std::size_t l = 0;
+                    while (l < common.size() && l < t.size() && common[l] == t[l]) ++l;
+                    common.resize(l);
+                }
+                if (!opts_.prefix.empty() && common.compare(0, opts_.prefix.size(), opts_.prefix) == 0)
+                    common.erase(0, opts_.prefix.size());
+                while (!common.empty() && (std::isdigit(static_cast<unsigned char>(common.back())) || common.back() == '_'))
+                    common.pop_back();
+                // Their terms of one output, as a scalar wire's `_tN` says (`oe0_t0` .. `oe3_t0`: `oe_t`).
+                if (common.size() >= 2 && common.compare(common.size() - 2, 2, "_t") != 0) common += "_t";
+                stem = common.size() >= 2 ? common : "bits";
+            }
+            if (stem.size() > cap) stem.resize(cap);
+            while (stem.size() > 1 && stem.back() == '_') stem.pop_back();
+            std::string name = opts_.prefix + stem;
+            for (int k = 2; used.count(name); ++k) name = opts_.prefix + stem + fmt::format("_{}", k);
+            used.insert(name);
+            Family f;
+            f.name = name;
+            for (int b = 0; b < n; ++b) {
+                NodeId w = ids[run.members[static_cast<std::size_t>(b)]];
+                before.emplace(w, *refs_[w]);
+                VarRef& r = *refs_[w];
+                r.text = fmt::format("{}[{}]", name, b);
+                r.signal = name;
+                r.offset = b;
+                r.width = n;
+                r.msb = n - 1;
+                r.lsb = 0;
+                r.module = nullptr;
+                familyOf_[w] = static_cast<int>(families_.size());
+                f.members.push_back(w);
+            }
+            families_.push_back(std::move(f));
+        }
+    }
+    if (families_.empty() || orderFamilies()) return;
+    // A family that reads, through other wires, a wire that reads it cannot be declared in
+    // one place: its wires stay scalars (and the search runs again without them).
+    for (const auto& [w, r] : before) {
+        *refs_[w] = r;
+        if (familyOf_[w] >= 0) noFamily_.insert(w);
+    }
+    formFamilies();
+}
+
+bool Writer::orderFamilies() {
+    // Wires are declared in topological order; a family is declared where its first member
+    // stands, so its members move together: a topological order of families and wires,
+    // ties broken by the original order. False when the families close a loop.
+    const std::size_t W = wires_.size();
+    std::map<NodeId, std::size_t> index;
+    for (std::size_t k = 0; k < W; ++k) index[wires_[k]] = k;
+    auto unitOf = [&](NodeId w) {
+        return familyOf_[w] >= 0 ? W + static_cast<std::size_t>(familyOf_[w]) : index.at(w);
+    };
+    const std::size_t U = W + families_.size();
+    std::vector<std::vector<std::size_t>> readers(U);
+    std::vector<std::size_t> pending(U, 0), rank(U, SIZE_MAX);
+    std::vector<NodeId> deps;
+    for (std::size_t k = 0; k < W; ++k) {
+        const std::size_t u = unitOf(wires_[k]);
+        rank[u] = std::min(rank[u], k);
+        deps.clear();
+        coneOf(wires_[k], true, [&](NodeId x) { deps.push_back(x); }, [](NodeId) {}, [](const std::string&) {});
+        for (NodeId x : deps) {
+            const std::size_t d = unitOf(x);
+            if (d == u) return false;   // a member reading its own family
+            readers[d].push_back(u);
+            ++pending[u];
+        }
+    }
+    std::set<std::pair<std::size_t, std::size_t>> ready;   // (rank, unit)
+    for (std::size_t u = 0; u < U; ++u)
+        if (rank[u] != SIZE_MAX && pending[u] == 0) ready.insert({rank[u], u});
+    std::vector<NodeId> order;
+    while (!ready.empty()) {
+        const std::size_t u = ready.begin()->second;
+        ready.erase(ready.begin());
+        if (u < W) order.push_back(wires_[u]);
+        else
+            for (NodeId m : families_[u - W].members) order.push_back(m);
+        for (std::size_t r : readers[u])
+            if (--pending[r] == 0) ready.insert({rank[r], r});
+    }
+    if (order.size() != W) return false;
+    wires_ = std::move(order);
+    return true;
+}
+
+std::string Writer::familyText(std::size_t f, const std::string& ind, ExprBuilder& eb) {
+    const Family& fam = families_[f];
+    const int n = static_cast<int>(fam.members.size());
+    std::vector<PExpr> bits;
+    for (NodeId w : fam.members) bits.push_back(eb.definition(w, refs_[w]->inverted));
+    if (auto T = vectorTemplate(bits))
+        return ind + statement(ind, fmt::format("wire [{}:0] {} = ", n - 1, fam.name), *T) + "\n";
+    std::string out = ind + fmt::format("wire [{}:0] {};\n", n - 1, fam.name);
+    for (int b = 0; b < n; ++b)
+        out += ind + statement(ind, fmt::format("assign {}[{}] = ", fam.name, b), bits[static_cast<std::size_t>(b)]) + "\n";
+    return out;
+}
+
 bool Writer::checkDeclarationOrder() {
     // A name may be used only after its declaration: by wires at their group's
     // position, by a statement at its own position.
@@ -1429,7 +1581,19 @@ bool Writer::checkCycles() {
     for (std::size_t s = 0; s < stmts_.size(); ++s) idx[stmts_[s]] = s;
     const std::size_t S = stmts_.size();
     std::map<NodeId, std::size_t> wid;
-    for (NodeId w : wires_) wid[w] = S + wid.size();
+    // A family of wires is one vector wire: one node (a loop through two of its bits is a
+    // loop in the text, and a lint warning on the vector).
+    std::map<int, std::size_t> familyNode;
+    std::map<std::size_t, int> familyAt;
+    for (NodeId w : wires_) {
+        std::size_t id = S + wid.size();
+        if (familyOf_[w] >= 0) {
+            auto [it, fresh] = familyNode.emplace(familyOf_[w], id);
+            id = it->second;
+            if (fresh) familyAt[id] = familyOf_[w];
+        }
+        wid[w] = id;
+    }
     // Word operations written in the word block are nodes too: reading a result reads the
     // operation's operands (F26: a block reading `kf_w0 = {out1} >= {out1}` reads out1).
     std::map<std::string, std::size_t> wordNode;   // result name as written -> node
@@ -1578,6 +1742,7 @@ bool Writer::checkCycles() {
     std::vector<int> state(adj.size(), 0);
     std::vector<std::pair<std::size_t, const Edge*>> path;   // (from, edge) from the root
     std::string culprit;
+    bool familyLoop = false;
     std::function<bool(std::size_t)> dfs = [&](std::size_t u) {
         state[u] = 1;
         for (const Edge& e : adj[u]) {
@@ -1595,6 +1760,15 @@ bool Writer::checkCycles() {
                     path.pop_back();
                     continue;
                 }
+                // A loop through a family: its wires are written as scalars again (the names
+                // stay; only the vector goes).
+                for (std::size_t j = first; j < path.size(); ++j)
+                    if (auto f = familyAt.find(path[j].first); f != familyAt.end()) {
+                        for (NodeId x : families_[static_cast<std::size_t>(f->second)].members) noFamily_.insert(x);
+                        culprit.clear();
+                        familyLoop = true;
+                        return true;
+                    }
                 auto withdrawable = [&](const std::string& n) {
                     for (std::size_t i = 0; i < outs_.size(); ++i)
                         if (allowed_[i] && outs_[i].bit.signal == n) return true;
@@ -1614,6 +1788,10 @@ bool Writer::checkCycles() {
     };
     for (std::size_t u = 0; u < adj.size(); ++u)
         if (state[u] == 0 && dfs(u)) {
+            if (familyLoop) {
+                ++familiesBroken_;
+                return false;
+            }
             bool any = false;
             for (std::size_t i = 0; i < outs_.size(); ++i)
                 if (allowed_[i] && outs_[i].bit.signal == culprit) allowed_[i] = 0, any = true;
@@ -2611,7 +2789,9 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
             texts.push_back(frontend::referenceText(*p.ref->module, p.ref->signal, p.lo, p.n));
         } else {
             auto gw = generatedWidths().find(p.ref->signal);
-            bool whole = p.lo == 0 && gw != generatedWidths().end() && gw->second == p.n;
+            // A generated operand's width is in generatedWidths; a family of wires
+            // (formFamilies) has its own width in the reference.
+            bool whole = p.lo == 0 && (gw != generatedWidths().end() ? gw->second == p.n : p.ref->width == p.n);
             std::string name = verilogName(p.ref->signal);
             texts.push_back(whole ? name
                                   : p.n == 1 ? fmt::format("{}[{}]", name, p.lo)
@@ -2705,8 +2885,14 @@ std::string Writer::wireBlock(int g, const std::string& ind) {
                                                 : fmt::format("wire {};\n", w.result));
         }
     }
+    std::set<int> familiesDone;
     for (NodeId w : wires_) {
         if (wireGroup_[w] != g) continue;
+        if (familyOf_[w] >= 0) {   // members are consecutive in wires_ (orderFamilies)
+            if (familiesDone.insert(familyOf_[w]).second)
+                out += familyText(static_cast<std::size_t>(familyOf_[w]), ind, eb);
+            continue;
+        }
         out += ind + statement(ind, "wire " + refs_[w]->text + " = ", eb.definition(w, refs_[w]->inverted)) + "\n";
     }
     if (words) {
@@ -2811,6 +2997,7 @@ bool Writer::plan() {
     chooseWires();
     nameWires();
     formGroups();
+    formFamilies();
     return checkDeclarationOrder();
 }
 
@@ -2835,7 +3022,7 @@ WriteResult Writer::run() {
         inputRefs_[net_.inputs()[k]] = refFor(low_.inputBits[k], signalRank(low_.inputBits[k].signal));
     planChoices();
     bool settled = false;
-    for (std::size_t round = 0; round <= outs_.size() + 1 && !settled; ++round) {
+    for (std::size_t round = 0; round <= outs_.size() + 1 + familiesBroken_ && !settled; ++round) {
         if (!plan()) continue;
         decide();
         settled = checkCycles();
@@ -2975,7 +3162,12 @@ WriteResult Writer::run() {
     for (std::size_t g = 0; g < groups_.size(); ++g) {
         if (!res.groups[g].replaced) continue;
         if (groupPos_[g] != std::string::npos)
-            for (NodeId w : groupWires_[g]) res.wiresAdded.push_back(refs_[w]->text);
+            for (NodeId w : groupWires_[g]) {
+                const std::string& n = familyOf_[w] >= 0 ? families_[static_cast<std::size_t>(familyOf_[w])].name
+                                                         : refs_[w]->text;
+                if (familyOf_[w] < 0 || families_[static_cast<std::size_t>(familyOf_[w])].members.front() == w)
+                    res.wiresAdded.push_back(n);
+            }
         for (std::size_t i = 0; i < outs_.size(); ++i) {
             if (outs_[i].generated || groupOfStmt_.at(outs_[i].stmt) != static_cast<int>(g)) continue;
             NodeId v = literalVar(net_.outputs()[i].driver);
@@ -3035,6 +3227,7 @@ WriteResult Writer::run() {
             throw Error("writer: the module's end was not found", {}, ExitCode::Internal);
         std::set<std::string> used = taken_;
         for (NodeId w : wires_) used.insert(refs_[w]->text);
+        for (const auto& f : families_) used.insert(f.name);
         std::string name = opts_.prefix.empty() ? "kf_unused" : opts_.prefix + "unused";
         for (int k = 2; used.count(name); ++k) name = fmt::format("{}{}_{}", opts_.prefix.empty() ? "kf_" : opts_.prefix, "unused", k);
         std::string ind = indentOf(src_, edits.empty() ? endAt : edits.front().start);

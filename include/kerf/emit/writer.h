@@ -43,6 +43,9 @@ struct WriteOptions {
     /// "Names of new wires"): a longer descriptive name gives way to the first output the
     /// wire feeds and an index, itself shortened to fit.
     std::size_t maxNameLength = 26;
+    /// Fewest new wires written as one vector wire (docs/guide.md; src/emit/wire_vectors.cpp):
+    /// two bits read apart (`x[1]`, `x[0]`) read worse than two names.
+    std::size_t minWireFamily = 3;
 };
 
 /// One group of statements that share restructured logic: replaced together or kept together.
