@@ -8,7 +8,8 @@
 //     what they compute (`paddr_5_2_is_0`, `psel_penable`) or from the first
 //     output they feed plus an index counted within that output's logic, so a
 //     change elsewhere never renumbers them. Each wire is stored in the
-//     polarity its uses need least inverted.
+//     polarity its uses need least inverted. Wires whose definitions share
+//     one shape over consecutive bits are one vector wire (wire_vectors.cpp).
 //  2. Groups. Statements whose new logic shares a wire are one group; a group
 //     is rewritten only when its new logic saves at least --min-gain two-input
 //     gates (or percent) against its logic as written; otherwise every byte of
@@ -1443,7 +1444,13 @@ void Writer::formFamilies() {
             if (stem.size() > cap) stem.resize(cap);
             while (stem.size() > 1 && stem.back() == '_') stem.pop_back();
             std::string name = opts_.prefix + stem;
-            for (int k = 2; used.count(name); ++k) name = opts_.prefix + stem + fmt::format("_{}", k);
+            for (int k = 2; used.count(name); ++k) {
+                // The suffix fits within the cap too, as a scalar wire's does (nameWires).
+                const std::string suffix = fmt::format("_{}", k);
+                std::string t = stem.substr(0, cap > suffix.size() ? cap - suffix.size() : 1);
+                while (t.size() > 1 && t.back() == '_') t.pop_back();
+                name = opts_.prefix + t + suffix;
+            }
             used.insert(name);
             Family f;
             f.name = name;
