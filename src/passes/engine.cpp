@@ -149,6 +149,9 @@ const std::vector<LimitInfo>& limitTable() {
         field("kernels", "1: also extract common kernels (slower)", &EngineLimits::kernels),
         field("implied-dont-cares", "1: minimise nodes against implied don't-cares", &EngineLimits::impliedDontCares),
         field("factor-max-cubes", "covers with more cubes are written unfactored", &EngineLimits::factorMaxCubes, 1),
+        field("factor-best-max-cubes",
+              "covers with more cubes get only the quick factored form, not the best one (0: no bound)",
+              &EngineLimits::factorBestMaxCubes),
         field("guard-factored-cubes",
               "the depth bound times covers up to this many cubes by their factored forms (larger: sums of products)",
               &EngineLimits::guardFactorCubes),
@@ -931,6 +934,8 @@ EngineResult restructure(net::Network& net, const EngineOptions& opts) {
     FactorCache ownCache;
     FactorCache& cache = opts.cache ? *opts.cache : ownCache;
     cache.setMaxCubes(opts.limits.factorMaxCubes);
+    cache.setBestMaxCubes(opts.limits.factorBestMaxCubes);
+    const std::size_t bestSkippedBefore = cache.bestSkipped();
     tidy(net);
     const int inputDepth = static_cast<int>(measureFactored(net, -1, &cache).depth);
     // Size: forms may use depth up to the bound; depth: always the shallowest forms.
@@ -996,6 +1001,9 @@ EngineResult restructure(net::Network& net, const EngineOptions& opts) {
         res.after = res.forms.metrics;
         res.keptOriginal = true;
     }
+    if (cache.bestSkipped() > bestSkippedBefore &&
+        std::find(res.limitsHit.begin(), res.limitsHit.end(), "factor-best-max-cubes") == res.limitsHit.end())
+        res.limitsHit.push_back("factor-best-max-cubes");
     res.depthCap = measureCap;
     res.seconds = since(t0);
     return res;

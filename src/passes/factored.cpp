@@ -38,6 +38,7 @@ struct FactorCache::Entry {
     Factored best, quick, sop;
     std::size_t bestGates = 0, quickGates = 0, sopGates = 0;
     bool hasBest = false, hasQuick = false, hasSop = false;
+    bool bestSkipped = false;   // counted in Impl::bestSkipped
 };
 
 struct FactorCache::Impl {
@@ -45,6 +46,9 @@ struct FactorCache::Impl {
     std::unordered_map<Cover, Entry, algebra::CoverHash> entries;
     std::size_t factored = 0;
     std::size_t maxCubes = 1000;   // limit factor-max-cubes
+    std::size_t bestMaxCubes = 0;  // limit factor-best-max-cubes (0: no bound)
+    std::size_t bestSkipped = 0;   // covers it gave the quick form only
+    bool bestAllowed(const Cover& f) const { return bestMaxCubes == 0 || f.cubes.size() <= bestMaxCubes; }
     Entry& entry(const Cover& f) { return entries[f]; }
 };
 
@@ -72,6 +76,10 @@ const Factored& FactorCache::quick(const Cover& f) { return quick(impl_->entry(f
 
 // The same on an entry already looked up (one hash of the cover, not three).
 const Factored& FactorCache::best(Entry& e, const Cover& f) {
+    if (!impl_->bestAllowed(f)) {
+        if (!e.bestSkipped) e.bestSkipped = true, ++impl_->bestSkipped;
+        return quick(e, f);
+    }
     if (!e.hasBest) {
         // Best compares against the quick form: take it from the entry
         // rather than letting factor() compute it a second time.
@@ -98,6 +106,9 @@ std::size_t FactorCache::size() const { return impl_->factored; }
 
 void FactorCache::setMaxCubes(std::size_t cubes) { impl_->maxCubes = cubes; }
 std::size_t FactorCache::maxCubes() const { return impl_->maxCubes; }
+void FactorCache::setBestMaxCubes(std::size_t cubes) { impl_->bestMaxCubes = cubes; }
+std::size_t FactorCache::bestMaxCubes() const { return impl_->bestMaxCubes; }
+std::size_t FactorCache::bestSkipped() const { return impl_->bestSkipped; }
 
 namespace {
 
@@ -270,8 +281,15 @@ FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& 
         // Factoring a cover of thousands of cubes costs more than every pass
         // together; such nodes are written as plain sums of products.
         if (cv.cubes.size() <= fc.maxCubes()) {
-            fc.best(e, cv);
-            c.form[c.count] = &e.best, c.gates[c.count++] = e.bestGates;
+            // Best searches kernels under many literals: on the wide covers
+            // of a large decoder (about 780 cubes an output at 100k terms)
+            // factoring them was most of measuring a trial (F174).
+            if (fc.impl().bestAllowed(cv)) {
+                fc.best(e, cv);
+                c.form[c.count] = &e.best, c.gates[c.count++] = e.bestGates;
+            } else {
+                fc.best(e, cv);   // the quick form, counted as skipped
+            }
             c.form[c.count] = &e.quick, c.gates[c.count++] = e.quickGates;
         }
         c.form[c.count] = &e.sop, c.gates[c.count++] = e.sopGates;

@@ -122,6 +122,7 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
     FactorCache ownCache;
     FactorCache& cache = opts.cache ? *opts.cache : ownCache;
     cache.setMaxCubes(opts.limits.factorMaxCubes);
+    cache.setBestMaxCubes(opts.limits.factorBestMaxCubes);
     tidy(net);
     const int inputDepth = static_cast<int>(measureFactored(net, -1, &cache).depth);
     const int bound = opts.maxDepth >= 0 ? std::max(opts.maxDepth, 0) : inputDepth;

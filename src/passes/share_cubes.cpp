@@ -141,6 +141,7 @@ public:
     }
 
     std::vector<Rec>& cubes() { return cubes_; }
+    const std::vector<Rec>& cubes() const { return cubes_; }
     const std::vector<std::uint32_t>& holding(Literal l) const {
         static const std::vector<std::uint32_t> none;
         return l < occ_.size() ? occ_[l] : none;
@@ -308,12 +309,61 @@ struct LiteralsHash {
     }
 };
 
+// The holders of every candidate at once, when that is cheaper than
+// intersecting index lists per candidate: each candidate is filed under its
+// first two literals, and every indexed cube (live, at least two literals)
+// meets the candidates filed under each pair of its literals and holds those
+// it contains. The same sets, sorted by id, as the intersections. Most
+// candidates of a decoder's opening are two or three input literals, each
+// held by about a tenth of all cubes, so intersecting cost every candidate
+// two long lists: (20000 candidates) x (lists growing with the network)
+// was half of the 100k decoder's first cube extraction (F173). False (and
+// nothing done) when the intersections cost less (a few candidates, as in
+// a changed region's trial).
+bool holdersByPairs(const CubeTable& table, const std::vector<std::pair<long, Cube>>& ranked,
+                    std::vector<std::vector<std::uint32_t>>& holders) {
+    const auto& cubes = table.cubes();
+    double merge = 0, pairs = 0;
+    for (const auto& e : ranked)
+        merge += static_cast<double>(table.holding(e.second.lits[0]).size() + table.holding(e.second.lits[1]).size());
+    for (const auto& r : cubes)
+        if (r.live && r.lits.size() >= 2) pairs += 0.5 * static_cast<double>(r.lits.size() * (r.lits.size() - 1));
+    if (pairs * 4 >= merge) return false;   // a hash lookup costs a few merge steps
+    auto key = [](Literal a, Literal b) { return (std::uint64_t{a} << 32) | b; };
+    std::unordered_map<std::uint64_t, std::vector<std::uint32_t>> filed;
+    filed.reserve(ranked.size());
+    for (std::uint32_t k = 0; k < ranked.size(); ++k)
+        filed[key(ranked[k].second.lits[0], ranked[k].second.lits[1])].push_back(k);
+    holders.assign(ranked.size(), {});
+    // The cube's literals are marked (stamp = its id + 1), so a candidate
+    // filed under one of its pairs is checked on its other literals only.
+    std::vector<std::uint32_t> mark;
+    for (std::uint32_t id = 0; id < cubes.size(); ++id) {
+        const auto& r = cubes[id];
+        if (!r.live || r.lits.size() < 2) continue;
+        if (r.lits.back() >= mark.size()) mark.resize(static_cast<std::size_t>(r.lits.back()) + 1, 0);
+        for (Literal l : r.lits) mark[l] = id + 1;
+        for (std::size_t a = 0; a + 1 < r.lits.size(); ++a)
+            for (std::size_t b = a + 1; b < r.lits.size(); ++b) {
+                const auto it = filed.find(key(r.lits[a], r.lits[b]));
+                if (it == filed.end()) continue;
+                for (std::uint32_t k : it->second) {
+                    const auto& I = ranked[k].second.lits;
+                    bool all = true;
+                    for (std::size_t j = 2; j < I.size() && all; ++j) all = I[j] < mark.size() && mark[I[j]] == id + 1;
+                    if (all) holders[k].push_back(id);
+                }
+            }
+    }
+    return true;
+}
+
 void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
     CubeTable table(net, ctx.depthCap);
     std::vector<std::uint32_t> sharedCount, seen;
     std::vector<Literal> common;
     auto& cubes = table.cubes();
-    long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, rejects = 0;
+    long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, rejects = 0, pairRounds = 0;
     bool exhausted = false, cut = false;
     for (int round = 0; round < opts.rounds; ++round) {
         if (round > 0) table.reindex();
@@ -357,23 +407,32 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
         for (auto& e : cand) ranked.push_back({candidateBound(e.first, e.second), std::move(e.first)});
         cand.clear();
         if (keepBest(ranked, opts.maxCandidates)) cut = true;
-        // Each candidate keeps the cubes holding it now (index intersection).
+        // Each candidate keeps the cubes holding it now.
         using Item = std::pair<long, std::size_t>;
         std::vector<Cube> list;
         std::vector<std::vector<std::uint32_t>> holders;
         std::priority_queue<Item> heap;
-        for (auto& [hits, I] : ranked) {
-            std::vector<std::uint32_t> acc = table.holding(I.lits[0]);
-            for (std::size_t k = 1; k < I.lits.size() && !acc.empty(); ++k) {
-                const auto& o = table.holding(I.lits[k]);
-                std::vector<std::uint32_t> next;
-                std::set_intersection(acc.begin(), acc.end(), o.begin(), o.end(), std::back_inserter(next));
-                acc.swap(next);
+        const bool byPairs = opts.holdersByPairs && holdersByPairs(table, ranked, holders);
+        pairRounds += byPairs;
+        for (std::size_t k = 0; k < ranked.size(); ++k) {
+            Cube& I = ranked[k].second;
+            std::vector<std::uint32_t> acc;
+            if (byPairs) {
+                acc = std::move(holders[k]);
+            } else {   // index intersection
+                acc = table.holding(I.lits[0]);
+                for (std::size_t j = 1; j < I.lits.size() && !acc.empty(); ++j) {
+                    const auto& o = table.holding(I.lits[j]);
+                    std::vector<std::uint32_t> next;
+                    std::set_intersection(acc.begin(), acc.end(), o.begin(), o.end(), std::back_inserter(next));
+                    acc.swap(next);
+                }
             }
             work += static_cast<long>(acc.size());
             heap.push({static_cast<long>(acc.size()) * static_cast<long>(I.lits.size() - 1) + 1, list.size()});
             list.push_back(std::move(I));
-            holders.push_back(std::move(acc));
+            if (byPairs) holders[k] = std::move(acc);
+            else holders.push_back(std::move(acc));
         }
         long roundSaved = 0;
         std::vector<std::uint8_t> requeued(list.size(), 0);
@@ -415,6 +474,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("candidates", candidates);
     ctx.stats.add("in-place", 1);
+    if (pairRounds) ctx.stats.add("holders-by-pairs", pairRounds);
     if (exhausted) ctx.stats.add("limit-hit:cubes-work", 1);
     if (cut) ctx.stats.add("limit-hit:cubes-candidates", 1);
     ctx.stats.add("depth-rejects", rejects);

@@ -308,6 +308,45 @@ TEST(PassesFactored, FactorMaxCubesLeavesLargerCoversUnfactored) {
     EXPECT_EQ(restructure(m, o).before.gates, 3u);
 }
 
+TEST(PassesFactored, FactorBestMaxCubesGivesWiderCoversTheQuickFormOnly) {
+    // F174: covers of more cubes than factor-best-max-cubes are measured
+    // (and written) by the quick form and the sum of products only; the
+    // engine reports the limit when it applied. Checked against the quick
+    // form computed directly (algebra::factor, FactorMethod::Quick).
+    for (std::uint32_t seed = 1; seed <= 10; ++seed) {
+        Network n = randomNetwork(seed, 8, 30, 6, 6, 4);
+        tidy(n);
+        FactorCache bounded;
+        bounded.setBestMaxCubes(1);
+        const FactoredNetwork fn = factorNetwork(n, -1, &bounded);
+        std::size_t wide = 0;
+        for (NodeId v = 0; v < n.nodeCount(); ++v) {
+            if (!n.isLogic(v) || n.node(v).cover.cubes.size() < 2) continue;
+            ++wide;
+            const algebra::Cover& cv = n.node(v).cover;
+            const std::size_t lits = fn.forms[v].literalCount();
+            EXPECT_TRUE(lits == algebra::factor(cv, algebra::FactorMethod::Quick).literalCount() ||
+                        lits == cv.literalCount())
+                << seed << " node " << v << ": the quick form or the sum of products";
+        }
+        EXPECT_GT(bounded.bestSkipped(), 0u) << seed;
+        EXPECT_LE(bounded.bestSkipped(), wide) << seed << ": each distinct cover once";
+    }
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c");
+    NodeId f = n.addLogic(cover({{pos(a), pos(b)}, {pos(a), pos(c)}}));
+    n.addOutput("f", pos(f));
+    EngineOptions o;
+    Network m = n;
+    const EngineResult plain = restructure(m, o);
+    EXPECT_EQ(std::count(plain.limitsHit.begin(), plain.limitsHit.end(), "factor-best-max-cubes"), 0);
+    setLimit(o.limits, "factor-best-max-cubes=1");
+    m = n;
+    const EngineResult bounded = restructure(m, o);
+    EXPECT_EQ(std::count(bounded.limitsHit.begin(), bounded.limitsHit.end(), "factor-best-max-cubes"), 1);
+    EXPECT_EQ(bounded.before.gates, 2u) << "a(b+c) is also the quick form";
+}
+
 TEST(PassesFactored, FormsComputeTheirNodesAndRespectTheBound) {
     for (std::uint32_t seed = 1; seed <= 10; ++seed) {
         Network n = randomNetwork(seed, 8, 50, 5, 5, 4);

@@ -386,6 +386,54 @@ TEST(PassesCubes, InPlaceExtractionKeepsFunctionsAndTheDepthBound) {
     }
 }
 
+TEST(PassesCubes, InPlaceHoldersByLiteralPairsAreTheIntersections) {
+    // F173: in place, the cubes holding each candidate are found in one
+    // sweep over the cubes' literal pairs (each candidate filed under its
+    // first two literals) instead of intersecting the index lists of its
+    // literals per candidate. Both give the same holder sets, so the same
+    // extractions in the same order: the same network, cover for cover.
+    for (std::uint32_t seed = 1; seed <= 3; ++seed) {
+        std::mt19937 rng(seed);
+        Network n;
+        std::vector<NodeId> in;
+        for (int i = 0; i < 24; ++i) in.push_back(n.addInput("i" + std::to_string(i)));
+        std::vector<Cover> outs(16);
+        for (int t = 0; t < 300; ++t) {
+            std::vector<Literal> ls;
+            std::vector<char> used(24, 0);
+            const std::size_t len = 6 + rng() % 4;
+            while (ls.size() < len) {
+                const std::size_t i = rng() % 24;
+                if (used[i]) continue;
+                used[i] = 1;
+                ls.push_back(makeLiteral(in[i], rng() & 1));
+            }
+            outs[rng() % 16].cubes.push_back(Cube(std::move(ls)));
+        }
+        for (Cover& f : outs) {
+            f.normalize();
+            n.addOutput("o" + std::to_string(n.outputs().size()), pos(n.addLogic(std::move(f))));
+        }
+        const Network before = n;
+        Network byPairs = n, byLists = n;
+        ShareCubesOptions o;
+        o.inPlaceCubes = 1;
+        PassContext c1, c2;
+        c1.depthCap = c2.depthCap = net::measure(n).depth;
+        shareCubes(byPairs, o, c1);
+        o.holdersByPairs = false;
+        shareCubes(byLists, o, c2);
+        EXPECT_GT(c1.stats.get("holders-by-pairs"), 0) << seed;
+        EXPECT_EQ(c2.stats.get("holders-by-pairs"), 0) << seed;
+        EXPECT_GT(c1.stats.get("extracted"), 0) << seed;
+        EXPECT_EQ(c1.stats.get("literals-saved"), c2.stats.get("literals-saved")) << seed;
+        ASSERT_EQ(byPairs.nodeCount(), byLists.nodeCount()) << seed;
+        for (NodeId v = 0; v < byPairs.nodeCount(); ++v)
+            EXPECT_EQ(byPairs.node(v).cover, byLists.node(v).cover) << seed << " node " << v;
+        EXPECT_EQ(sameFunctions(before, byPairs), "") << seed;
+    }
+}
+
 TEST(PassesReuse, DividesByAnExistingNode) {
     Network n;
     NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), d = n.addInput("d");

@@ -76,6 +76,10 @@ struct EngineLimits {
     bool impliedDontCares = true;
     /// Covers of more cubes are written as plain sums of products, not factored.
     std::size_t factorMaxCubes = 1000;
+    /// Covers of more cubes get only the quick factored form, not the best
+    /// one (whose kernel search grows faster than the cover: on the 100k
+    /// decoder's outputs it was most of measuring, F174). 0: no bound.
+    std::size_t factorBestMaxCubes = 512;
     /// The depth bound the techniques keep times covers of up to this many
     /// cubes by their factored forms, as the result is measured (larger
     /// covers: by the sum of products, which may be deeper). 0 or 1: sums of

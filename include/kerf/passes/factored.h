@@ -5,7 +5,9 @@
 // network deeper than the bound, in which case the node keeps the form with
 // the earliest arrival among {Best, Quick, the plain sum of products}.
 // Covers of more cubes than the cache's maxCubes() (the engine's limit
-// factor-max-cubes) are not factored (plain sum of products). The
+// factor-max-cubes) are not factored (plain sum of products), and covers of
+// more than bestMaxCubes() (limit factor-best-max-cubes) get only the quick
+// form, not Best. The
 // writer prints exactly these forms, so the summary and the targets count
 // exactly what is written.
 #pragma once
@@ -32,6 +34,12 @@ public:
     /// Covers of more cubes are written as plain sums of products (default 1000).
     void setMaxCubes(std::size_t cubes);
     std::size_t maxCubes() const;
+    /// Covers of more cubes get the quick form only, not the best one
+    /// (limit factor-best-max-cubes; 0: no bound). best() returns the quick form there.
+    void setBestMaxCubes(std::size_t cubes);
+    std::size_t bestMaxCubes() const;
+    /// Covers given the quick form only because of setBestMaxCubes, so far.
+    std::size_t bestSkipped() const;
 
     struct Impl;
     Impl& impl() { return *impl_; }

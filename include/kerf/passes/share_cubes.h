@@ -23,6 +23,10 @@ struct ShareCubesOptions {
     /// cube-literal index, covers written back once (0: never). Below it
     /// each extraction rewrites its targets' covers through the workspace.
     std::size_t inPlaceCubes = 50000;
+    /// In place: the candidates' holder cubes may be found in one sweep over
+    /// the cubes' literal pairs when that costs less than intersecting index
+    /// lists per candidate (the same holders either way; false: intersections only).
+    bool holdersByPairs = true;
 };
 
 void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx);
