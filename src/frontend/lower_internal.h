@@ -260,6 +260,15 @@ public:
 /// `readsOnly`, a target's written signal is left out (a select's position is kept): what the
 /// member reads, in its statements and in the functions it calls.
 std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly = false);
+/// What a member reads of one signal: bits [lo, hi] of it, or all of it when lo < 0.
+struct ReadSpan {
+    SymbolId sym;
+    int lo, hi;
+};
+/// The signals a member reads (as memberExprs with `readsOnly`), each read through a select
+/// of constant position given as the bits it names, any other read as the whole signal: the
+/// order of lowering depends only on the bits a statement reads. A span may repeat.
+std::vector<ReadSpan> memberReadSpans(const Ir& ir, const Member& m);
 /// The case tables of a member's statements and of the functions it calls.
 std::vector<const CaseTable*> memberCaseTables(const Ir& ir, const Member& m);
 /// Constants a member assigns as values (through ?:, concatenations, conversions):

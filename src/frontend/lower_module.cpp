@@ -438,18 +438,27 @@ Lowered Lowerer::run() {
     for (std::size_t i = 0; i < n; ++i) {
         if (!restructured_[i]) continue;
         std::vector<int> ds;
-        for (ExprId id : memberExprs(ir_, *members_[i], true)) {
-            const Expr& e = ir_.expr(id);
-            if (e.kind != ExprKind::Ref || isLocal(e.a) || cut_[e.a]) continue;
-            if (!driverMembersMade[e.a]) {
-                driverMembersMade[e.a] = 1;
-                auto& dm = driverMembers[e.a];
-                for (int d : drivers_[e.a])
+        for (const ReadSpan& r : memberReadSpans(ir_, *members_[i])) {
+            SymbolId s = r.sym;
+            if (isLocal(s) || cut_[s]) continue;
+            if (r.lo >= 0) {
+                // A select of constant position depends on the drivers of the bits it names
+                // only: `y[k]` read by each of n statements over a y that n statements write
+                // took n squared edges (F150's remaining case).
+                const auto& d = drivers_[s];
+                for (int b = r.lo; b <= r.hi && b < static_cast<int>(d.size()); ++b)
+                    if (d[b] >= 0 && restructured_[d[b]] && d[b] != static_cast<int>(i)) ds.push_back(d[b]);
+                continue;
+            }
+            if (!driverMembersMade[s]) {
+                driverMembersMade[s] = 1;
+                auto& dm = driverMembers[s];
+                for (int d : drivers_[s])
                     if (d >= 0 && restructured_[d]) dm.push_back(d);
                 std::sort(dm.begin(), dm.end());
                 dm.erase(std::unique(dm.begin(), dm.end()), dm.end());
             }
-            for (int d : driverMembers[e.a])
+            for (int d : driverMembers[s])
                 if (d != static_cast<int>(i)) ds.push_back(d);
         }
         std::sort(ds.begin(), ds.end());

@@ -10,6 +10,9 @@
 #include "lower_internal.h"
 
 #include <algorithm>
+#include <cstdlib>
+#include <limits>
+#include <optional>
 #include <unordered_set>
 
 namespace kerf::frontend::detail {
@@ -224,6 +227,100 @@ std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly) {
             if (functions.insert(e.a).second) {
                 std::vector<ExprId> fr;
                 stmtRoots(ir, ir.functions[e.a].body, fr, readsOnly);
+                work.insert(work.end(), fr.rbegin(), fr.rend());
+            }
+            break;
+        }
+        }
+    }
+    return out;
+}
+
+namespace {
+
+/// The constant position `e` names (a Const of 0s and 1s, at most 62 bits), as the lowering
+/// reads it.
+std::optional<std::int64_t> constPosition(const Ir& ir, const Expr& e) {
+    if (e.kind != ExprKind::Const || e.width == 0 || e.width > 62) return std::nullopt;
+    std::int64_t v = 0;
+    for (std::uint32_t i = e.width; i-- > 0;) {
+        char c = ir.constBit(e, i);
+        if (c != '0' && c != '1') return std::nullopt;
+        v = v * 2 + (c == '1');
+    }
+    if (e.isSigned && ir.constBit(e, e.width - 1) == '1') v -= std::int64_t{1} << e.width;
+    return v;
+}
+
+} // namespace
+
+std::vector<ReadSpan> memberReadSpans(const Ir& ir, const Member& m) {
+    std::vector<ExprId> roots;
+    if (m.kind == MemberKind::Assign) {
+        targetReadRoots(ir, m.lhs, roots);
+        roots.push_back(m.rhs);
+    } else if (m.kind == MemberKind::Comb) {
+        stmtRoots(ir, m.body, roots, true);
+    }
+    std::vector<ReadSpan> out;
+    IdSet seen;
+    std::set<std::uint32_t> functions;
+    std::vector<ExprId> work(roots.rbegin(), roots.rend());
+    while (!work.empty()) {
+        ExprId id = work.back();
+        work.pop_back();
+        if (!seen.insert(id)) continue;
+        const Expr& e = ir.expr(id);
+        switch (e.kind) {
+        case ExprKind::Const: break;
+        case ExprKind::Ref: out.push_back({e.a, -1, -1}); break;
+        case ExprKind::Range:
+            if (ir.expr(e.a).kind == ExprKind::Ref) {
+                // The bits the lowering's Range reads of a whole signal (lower_expr.cpp).
+                int lo = dimOffset(e.right(), e.msb, e.lsb), hi = dimOffset(e.left(), e.msb, e.lsb);
+                if (lo > hi) std::swap(lo, hi);
+                int ew = std::max(1, static_cast<int>(e.width) / std::max(hi - lo + 1, 1));
+                out.push_back({ir.expr(e.a).a, std::max(lo * ew, 0), std::max((hi + 1) * ew - 1, -1)});
+                break;
+            }
+            work.push_back(e.a);
+            break;
+        case ExprKind::Index:
+            if (ir.expr(e.a).kind == ExprKind::Ref) {
+                if (auto pos = constPosition(ir, ir.expr(e.b))) {
+                    // The element the lowering's Index reads of a whole signal; a position
+                    // outside the dimension reads x and nothing of the signal.
+                    std::int64_t off = e.msb >= e.lsb ? *pos - e.lsb : e.lsb - *pos;
+                    std::int64_t count = std::abs(static_cast<std::int64_t>(e.msb) - e.lsb) + 1;
+                    std::int64_t w = e.width;
+                    if (off >= 0 && off < count && (off + 1) * w - 1 <= std::numeric_limits<int>::max())
+                        out.push_back({ir.expr(e.a).a, static_cast<int>(off * w), static_cast<int>((off + 1) * w - 1)});
+                    break;
+                }
+            }
+            work.push_back(e.b);
+            work.push_back(e.a);
+            break;
+        case ExprKind::Unary: case ExprKind::Convert: case ExprKind::Replicate:
+            work.push_back(e.a);
+            break;
+        case ExprKind::Binary: case ExprKind::Indexed:
+            work.push_back(e.b);
+            work.push_back(e.a);
+            break;
+        case ExprKind::Cond:
+            work.push_back(e.c);
+            work.push_back(e.b);
+            work.push_back(e.a);
+            break;
+        case ExprKind::Concat:
+            for (std::uint32_t k = e.b; k-- > 0;) work.push_back(ir.lists[e.a + k]);
+            break;
+        case ExprKind::Call: {
+            for (std::uint32_t k = e.c; k-- > 0;) work.push_back(ir.lists[e.b + k]);
+            if (functions.insert(e.a).second) {
+                std::vector<ExprId> fr;
+                stmtRoots(ir, ir.functions[e.a].body, fr, true);
                 work.insert(work.end(), fr.rbegin(), fr.rend());
             }
             break;
@@ -533,13 +630,17 @@ std::vector<Lowerer::Placement> Lowerer::targetPlaces(ExprId lvId, SymbolId& sym
         // is still checked by indexIs, so a wrong guess here can only drop it, never misplace it.
         std::optional<std::int64_t> only = constantPosition(idx, idxSigned);
         auto candidate = [&](std::int64_t p) { return !only || p == *only; };
+        // With a constant index the loops below visit that one position: stepping over the
+        // others cost n per statement still (F150's remaining case).
+        auto firstFrom = [&](std::int64_t from) { return only ? std::max(from, *only) : from; };
+        auto lastTo = [&](std::int64_t to) { return only ? std::min(to, *only) : to; };
         if (lv.kind == ExprKind::Index) {
             // 11.5.1: a write to a position out of range, or through an unknown index, does nothing.
-            for (int index = lo; index <= hi; ++index) {
+            for (std::int64_t index = firstFrom(lo); index <= lastTo(hi); ++index) {
                 if (!candidate(index)) continue;
                 Literal c = b_.and2(indexIs(iv, idxSigned, index), idxKnown);
                 if (c == kFalse) continue;   // a position the index cannot name is never written
-                int off = dimOffset(index, lv.msb, lv.lsb);
+                int off = dimOffset(static_cast<int>(index), lv.msb, lv.lsb);
                 std::vector<int> offs;
                 for (int i = 0; i < w; ++i) offs.push_back(at(static_cast<std::int64_t>(off) * w + i));
                 inner.push_back({c, std::move(offs)});
@@ -548,7 +649,8 @@ std::vector<Lowerer::Placement> Lowerer::targetPlaces(ExprId lvId, SymbolId& sym
             // Indexed part select: the elements each base would write (those in range).
             int ew = std::max(1, pw / n);
             int count = std::max(1, w / ew);
-            for (std::int64_t start = static_cast<std::int64_t>(lo) - count + 1; start <= hi + count - 1; ++start) {
+            for (std::int64_t start = firstFrom(static_cast<std::int64_t>(lo) - count + 1);
+                 start <= lastTo(static_cast<std::int64_t>(hi) + count - 1); ++start) {
                 if (!candidate(start)) continue;
                 Literal c = b_.and2(indexIs(iv, idxSigned, start), idxKnown);
                 if (c == kFalse) continue;

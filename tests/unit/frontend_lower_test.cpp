@@ -456,6 +456,58 @@ TEST(FrontendLower, ConstantIndexTargetsWriteTheBitTheyName) {
         }
 }
 
+TEST(FrontendLower, BitSelectReadersFollowTheBitsTheyReadNotTheWholeVector) {
+    // A prefix chain over one vector written bit by bit, last bit first in the file:
+    // assign y[k] = y[k-1] ^ a[k] for k = n-1 .. 1, then assign y[0] = a[0], so y[k] is the
+    // XOR of a[0..k] (the prefix-XOR of IEEE 1800 11.4.7's ^ taken bit by bit). Beside it
+    // z = y[n-1:n-4] (a constant part select) and p = ^y (the whole vector). The chain is longer
+    // than the on-demand lowering's depth limit (20,000): ordered by whole signals, every writer
+    // of y would depend on every other and be lowered from the first in the file, recursively,
+    // and kerf refused it; ordered by the bits each statement reads it is a chain of n steps.
+    const int n = 25000;
+    DescBuilder d;
+    d.sig("a", n, "input");
+    d.sig("y", n, "output");
+    d.sig("z", 4, "output");
+    d.sig("p", 1, "output");
+    auto pos = [](int k) { return fmt::format("{:015b}", k); };
+    d.assignMember(d.ref("z"), d.range(d.ref("y"), n - 1, n - 4, n - 1, 0, 4), 1, {"y"}, {"z"});
+    d.assignMember(d.ref("p"), d.un("^", d.ref("y"), 1), 2, {"y"}, {"p"});
+    for (int k = n - 1; k >= 1; --k) {
+        int lhs = d.index(d.ref("y"), d.cnst(pos(k)), n - 1, 0, 1);
+        int rhs = d.bin("^", d.index(d.ref("y"), d.cnst(pos(k - 1)), n - 1, 0, 1),
+                        d.index(d.ref("a"), d.cnst(pos(k)), n - 1, 0, 1), 1);
+        d.assignMember(lhs, rhs, 3 + (n - k), {"y", "a"}, {"y"});
+    }
+    d.assignMember(d.index(d.ref("y"), d.cnst(pos(0)), n - 1, 0, 1), d.index(d.ref("a"), d.cnst(pos(0)), n - 1, 0, 1),
+                   3 + n, {"a"}, {"y"});
+    auto l = lower(parseDescription(d.build()));
+    // 64 random patterns at once, one word per input bit.
+    std::mt19937_64 rng(7);
+    std::vector<std::uint64_t> words;
+    std::map<std::string, std::uint64_t> byName;
+    for (auto id : l.net.inputs()) {
+        words.push_back(rng());
+        byName[l.net.node(id).name] = words.back();
+    }
+    auto vals = kerf::net::simulate(l.net, words);
+    std::map<std::string, std::uint64_t> out;
+    for (std::size_t i = 0; i < l.net.outputs().size(); ++i) out[l.net.outputs()[i].name] = vals[i];
+    std::vector<std::uint64_t> prefix(n);
+    std::uint64_t acc = 0, all = 0;
+    for (int k = 0; k < n; ++k) {
+        auto it = byName.find(fmt::format("a[{}]", k));
+        ASSERT_NE(it, byName.end()) << k;
+        acc ^= it->second;
+        prefix[k] = acc;
+        all ^= acc;
+    }
+    for (int k = 0; k < n; k += 997) EXPECT_EQ(out.at(fmt::format("y[{}]", k)), prefix[k]) << k;
+    EXPECT_EQ(out.at(fmt::format("y[{}]", n - 1)), prefix[n - 1]);
+    for (int i = 0; i < 4; ++i) EXPECT_EQ(out.at(fmt::format("z[{}]", i)), prefix[n - 4 + i]) << i;
+    EXPECT_EQ(out.at("p"), all);
+}
+
 // The expression-node merge (statement_nodes.cpp) on a long written sum: above
 // ExpressionMergeLimits::factorCubes a merge is decided from cube and literal counts. Node
 // elimination must keep the function (MIS, Brayton et al. 1987, from memory); a sum of products
