@@ -4,6 +4,7 @@
 #include "kerf/emit/diff.h"
 #include "kerf/emit/draw.h"
 #include "kerf/emit/guard.h"
+#include "kerf/emit/word_fold.h"
 #include "kerf/emit/writer.h"
 #include "kerf/flow/counterexample.h"
 #include "kerf/frontend/lower.h"
@@ -257,6 +258,15 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     eo.cache = factorCache.get();
     eo.verbose = opts.verbose;
     passes::EngineResult er = passes::restructure(low.net, eo);
+    // A word operation whose operand only the engine finds constant (or that reads a few bits
+    // padded with constants) becomes gates before writing (F167; emit/word_fold.cpp).
+    if (emit::WordFoldCounts wf = emit::foldWordOperations(low); wf.folded) {
+        passes::tidy(low.net);
+        er.forms = passes::factorNetwork(low.net, er.depthCap, factorCache.get());
+        er.after = er.forms.metrics;
+        if (opts.verbose > 0)
+            for (const std::string& t : wf.texts) std::cerr << t << "\n";
+    }
     double passSeconds = since(tPass);
     const passes::FactoredNetwork& forms = er.forms;   // the engine's chosen forms, handed to the writer
 
