@@ -4,6 +4,7 @@
 #include "kerf/emit/diff.h"
 #include "kerf/emit/draw.h"
 #include "kerf/emit/guard.h"
+#include "kerf/emit/slice_regroup.h"
 #include "kerf/emit/word_fold.h"
 #include "kerf/emit/writer.h"
 #include "kerf/flow/counterexample.h"
@@ -266,6 +267,16 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         er.after = er.forms.metrics;
         if (opts.verbose > 0)
             for (const std::string& t : wf.texts) std::cerr << t << "\n";
+    }
+    {
+        // One vector's bits in an output's product read as one comparison, within a stated margin
+        // of the engine's gates (F168; emit/slice_regroup.cpp).
+        const std::size_t bound = eo.goal == passes::Goal::Size
+                                      ? (er.depthCap >= 0 ? static_cast<std::size_t>(er.depthCap) : asRead.depth)
+                                      : er.after.depth;
+        emit::SliceRegroupResult sr = emit::regroupSlices(low, er.forms, er.depthCap, bound, factorCache.get());
+        if (sr.kept) er.after = er.forms.metrics;
+        if (opts.verbose > 0 && !sr.text.empty()) std::cerr << sr.text << "\n";
     }
     double passSeconds = since(tPass);
     const passes::FactoredNetwork& forms = er.forms;   // the engine's chosen forms, handed to the writer

@@ -2051,5 +2051,45 @@ def _(t):
     t.res.check(not added, f"Verilator -Wall: no new warning: {added}\n{raw[-800:]}")
 
 
+@S.case("vector_bits_read_as_comparisons", needs=("iverilog", "verilator"))
+def _(t):
+    """F168 (issue 10, "a slice compared against a constant is written as a comparison; bits of
+    one vector stay in index order"): on a generator-style command decoder the opcode's bits
+    are not spread over wires shared with other signals (`cmd_ok_nop5_nop2 = cmd_ok & ...`):
+    every new wire that reads `op` reads only `op` and wires that read only `op`, and each
+    statement names `op`'s bits in index order, highest first. Function: Icarus Verilog;
+    Verilator -Wall adds no warning."""
+    src = os.path.join("tests", "rtl", "flash_cmd.sv")
+    out = os.path.join(t.work, "flash_cmd.sv")
+    r = restructure(t, [src], "flash_cmd", out)
+    if not t.res.check(r.returncode == 0, f"restructure: {r.stderr[-800:]}"):
+        return
+    text = open(out).read()
+    t.res.check(text != open(src).read(), "the decoder is rewritten")
+    wires = dict(re.findall(r"^\s*wire\s+(\w+)\s*=\s*(.*?);", text, re.M | re.S))
+    def idents(expr):
+        return set(re.findall(r"(?<!')\b[A-Za-z_]\w*\b", re.sub(r"\d+'[bdhBDH][0-9a-fA-F_xz]+", " ", expr)))
+    op_only, reads_op = set(), {"op"}
+    for name, expr in wires.items():   # declared before use: one pass in order suffices
+        ids = idents(expr)
+        if ids & reads_op:
+            reads_op.add(name)
+            if ids <= {"op"} | op_only:
+                op_only.add(name)
+    mixed = [n for n in wires if n != "cmd_ok" and n in reads_op and n not in op_only]
+    t.res.check(not mixed, f"no new wire mixes op's bits with other signals: {mixed}\n{text}")
+    for stmt in re.findall(r"^\s*(?:assign|wire)\s+\w+\s*=\s*.*?;", text, re.M | re.S):
+        idx = [int(m) for m in re.findall(r"\bop\[(\d+)", stmt)]
+        t.res.check(idx == sorted(idx, reverse=True), f"op's bits in index order: {stmt.strip()}")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], "flash_cmd", out, sim, vectors=3000)
+    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
+    _, before, _ = O.lint([src], "flash_cmd")
+    _, after, raw = O.lint([out], "flash_cmd")
+    added = O.new_warnings(before, after)
+    t.res.check(not added, f"Verilator -Wall: no new warning: {added}\n{raw[-800:]}")
+
+
 if __name__ == "__main__":
     S.main()
