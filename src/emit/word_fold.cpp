@@ -13,8 +13,9 @@
 //   evaluated for every value of those bits (IEEE 1800-2017 11.4: comparisons, shifts, +, -, *
 //   on the operands extended to a common width, signed when the operation is) and each result
 //   bit becomes a minimum sum of products over them (minimize::minimumCover) — when the result
-//   is constant, an operand is constant as a whole, or the gates are no more than the bits read
-//   (a comparator of n bits costs about 2n gates: larger ones stay word operations).
+//   is constant, or a comparison's operand is constant as a whole and the gates are no more
+//   than the bits read. Any other operation stays a word operation: the statements' figures
+//   count it as one, and as gates it would weigh against their rewrite.
 // - A comparison with an operand constant as a whole: `B < c` is the OR over the one bits i of
 //   c of "b_i = 0 and every higher bit equal to c's" (the usual comparator against a
 //   constant, from memory of any logic-design textbook); signed operands compare as unsigned
@@ -227,9 +228,9 @@ WordFoldCounts foldWordOperations(frontend::Lowered& low, const WordFoldLimits& 
                 }
                 covers[bit] = n == 0 ? (on & 1 ? Cover::one() : Cover::zero()) : minimize::minimumCover({on}, support);
             }
-            // A real operation over few bits stays a word operation unless its gates are few: no
-            // more two-input gates than the bits it reads (a comparator of n bits costs about 2n),
-            // or it is constant, or an operand is constant as a whole.
+            // A real operation stays a word operation (the statements' figures count it as one;
+            // as gates it would weigh against their rewrite) unless it is constant, or compares
+            // with an operand constant as a whole at no more gates than the bits it reads.
             std::size_t gates = 0;
             bool constant = true;
             for (const auto& [bit, f] : covers) {
@@ -237,7 +238,8 @@ WordFoldCounts foldWordOperations(frontend::Lowered& low, const WordFoldLimits& 
                 if (!f.isZero()) gates += f.size() - 1;
                 for (const Cube& c : f.cubes) gates += c.size() > 0 ? c.size() - 1 : 0;
             }
-            if (!constant && !constantOf(a) && !constantOf(b) && gates > support.size()) continue;
+            const bool constantOperand = isComparison(w.op) && (constantOf(a) || constantOf(b));
+            if (!constant && !(constantOperand && gates <= support.size())) continue;
             why = constant ? "its value is constant"
                            : fmt::format("its operands read {} distinct bit{} ({} gates)", n, n == 1 ? "" : "s", gates);
         } else if (isComparison(w.op)) {

@@ -24,8 +24,8 @@ struct WordFoldCounts {
     std::vector<std::string> texts;      ///< one line per fold: the operation and why
 };
 
-/// Replaces, in `low.net`, each word operation whose result the engine's network fixes — an
-/// operand that is constant as a whole, or operands that read only a few distinct bits — by
+/// Replaces, in `low.net`, each word operation whose result the engine's network fixes — a
+/// constant result, or a comparison with an operand constant as a whole — by
 /// gates over those bits (or a constant), and drops the operation and its operand outputs
 /// from `low` (`wordOps`, the network's outputs, `outputBits`, `outputSources`). The network
 /// is tidied afterwards by the caller (constants folded). Every other operation is untouched.
