@@ -23,6 +23,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <functional>
 #include <map>
 #include <set>
 #include <vector>
@@ -83,6 +84,46 @@ SliceRegroupResult regroupSlices(frontend::Lowered& low, passes::FactoredNetwork
     std::vector<std::uint8_t> drives(net.nodeCount(), 0);
     for (const auto& o : net.outputs()) drives[literalVar(o.driver)] = 1;
 
+    auto expandable = [&](Literal l) {
+        const net::NodeId v = literalVar(l);
+        return !literalNegated(l) && net.isLogic(v) && !drives[v] && net.node(v).cover.size() == 1;
+    };
+    // The bits of vector `sig` under node v's product, expanded as the flattening below does.
+    std::function<void(net::NodeId, const std::string&, std::set<int>&, std::size_t&)> under =
+        [&](net::NodeId v, const std::string& sig, std::set<int>& out, std::size_t& budget) {
+            if (budget == 0) return;
+            --budget;
+            for (Literal x : net.node(v).cover.cubes[0].lits) {
+                if (expandable(x)) under(literalVar(x), sig, out, budget);
+                else if (auto it = vecBit.find(literalVar(x)); it != vecBit.end() && it->second.signal == sig)
+                    out.insert(it->second.offset);
+            }
+        };
+    // Whether the `total` bits of `sig` under `root` are the literals of one product (the lowest
+    // product holding all of them has them as its own literals): nothing to regroup.
+    auto together = [&](net::NodeId root, const std::string& sig, std::size_t total) {
+        net::NodeId at = root;
+        for (int level = 0; level < 64; ++level) {
+            bool direct = false;
+            std::vector<std::pair<net::NodeId, std::size_t>> kids;
+            for (Literal x : net.node(at).cover.cubes[0].lits) {
+                if (expandable(x)) {
+                    std::set<int> bits;
+                    std::size_t budget = 4096;
+                    under(literalVar(x), sig, bits, budget);
+                    if (!bits.empty()) kids.emplace_back(literalVar(x), bits.size());
+                } else if (auto it = vecBit.find(literalVar(x)); it != vecBit.end() && it->second.signal == sig) {
+                    direct = true;
+                }
+            }
+            if (!direct && kids.size() == 1 && kids[0].second == total) {
+                at = kids[0].first;
+                continue;
+            }
+            return kids.empty();
+        }
+        return false;
+    };
     // Per output node that is one product: its leaves, the vector bits split off.
     struct Plan {
         net::NodeId node = 0;
@@ -120,11 +161,18 @@ SliceRegroupResult regroupSlices(frontend::Lowered& low, passes::FactoredNetwork
             if (it == vecBit.end()) p.rest.push_back(l);
             else vecs[it->second.signal][it->second.offset] = l;
         }
+        bool scattered = false;
         for (auto& [sig, bits] : vecs) {
-            if (static_cast<int>(bits.size()) >= limits.minBits) p.vectors[sig] = std::move(bits);
-            else for (const auto& [o, l] : bits) p.rest.push_back(l);
+            if (static_cast<int>(bits.size()) >= limits.minBits) {
+                scattered = scattered || !together(n, sig, bits.size());
+                p.vectors[sig] = std::move(bits);
+            } else {
+                for (const auto& [o, l] : bits) p.rest.push_back(l);
+            }
         }
-        if (p.vectors.empty()) continue;
+        // An output whose vector bits the engine already keeps in one product of their own
+        // (`sel & (addr == 4'h3)`, shared with another output) reads well as it is.
+        if (p.vectors.empty() || !scattered) continue;
         planned.insert(n);
         plans.push_back(std::move(p));
     }
