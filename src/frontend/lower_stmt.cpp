@@ -184,9 +184,11 @@ private:
     std::size_t size_ = 0;
 };
 
-} // namespace
-
-std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly) {
+/// Visits every expression member `m` evaluates (its statements' roots, their children, and
+/// the bodies of the functions it calls, each once), parents before children in source order.
+/// `visit(id, e)` returns whether to go on into `e`'s children.
+template <typename Visit>
+void walkMemberExprs(const Ir& ir, const Member& m, bool readsOnly, Visit&& visit) {
     std::vector<ExprId> roots;
     if (m.kind == MemberKind::Assign) {
         if (readsOnly) targetReadRoots(ir, m.lhs, roots);
@@ -195,7 +197,6 @@ std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly) {
     } else if (m.kind == MemberKind::Comb) {
         stmtRoots(ir, m.body, roots, readsOnly);
     }
-    std::vector<ExprId> out;
     IdSet seen;
     std::set<std::uint32_t> functions;
     std::vector<ExprId> work(roots.rbegin(), roots.rend());
@@ -203,8 +204,8 @@ std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly) {
         ExprId id = work.back();
         work.pop_back();
         if (!seen.insert(id)) continue;
-        out.push_back(id);
         const Expr& e = ir.expr(id);
+        if (!visit(id, e)) continue;
         switch (e.kind) {
         case ExprKind::Const: case ExprKind::Ref: break;
         case ExprKind::Unary: case ExprKind::Convert: case ExprKind::Replicate: case ExprKind::Range:
@@ -233,6 +234,16 @@ std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly) {
         }
         }
     }
+}
+
+} // namespace
+
+std::vector<ExprId> memberExprs(const Ir& ir, const Member& m, bool readsOnly) {
+    std::vector<ExprId> out;
+    walkMemberExprs(ir, m, readsOnly, [&](ExprId id, const Expr&) {
+        out.push_back(id);
+        return true;
+    });
     return out;
 }
 
@@ -255,78 +266,31 @@ std::optional<std::int64_t> constPosition(const Ir& ir, const Expr& e) {
 } // namespace
 
 std::vector<ReadSpan> memberReadSpans(const Ir& ir, const Member& m) {
-    std::vector<ExprId> roots;
-    if (m.kind == MemberKind::Assign) {
-        targetReadRoots(ir, m.lhs, roots);
-        roots.push_back(m.rhs);
-    } else if (m.kind == MemberKind::Comb) {
-        stmtRoots(ir, m.body, roots, true);
-    }
     std::vector<ReadSpan> out;
-    IdSet seen;
-    std::set<std::uint32_t> functions;
-    std::vector<ExprId> work(roots.rbegin(), roots.rend());
-    while (!work.empty()) {
-        ExprId id = work.back();
-        work.pop_back();
-        if (!seen.insert(id)) continue;
-        const Expr& e = ir.expr(id);
-        switch (e.kind) {
-        case ExprKind::Const: break;
-        case ExprKind::Ref: out.push_back({e.a, -1, -1}); break;
-        case ExprKind::Range:
-            if (ir.expr(e.a).kind == ExprKind::Ref) {
-                // The bits the lowering's Range reads of a whole signal (lower_expr.cpp).
-                int lo = dimOffset(e.right(), e.msb, e.lsb), hi = dimOffset(e.left(), e.msb, e.lsb);
-                if (lo > hi) std::swap(lo, hi);
-                int ew = std::max(1, static_cast<int>(e.width) / std::max(hi - lo + 1, 1));
-                out.push_back({ir.expr(e.a).a, std::max(lo * ew, 0), std::max((hi + 1) * ew - 1, -1)});
-                break;
+    walkMemberExprs(ir, m, true, [&](ExprId, const Expr& e) {
+        if (e.kind == ExprKind::Ref) {
+            out.push_back({e.a, -1, -1});
+        } else if (e.kind == ExprKind::Range && ir.expr(e.a).kind == ExprKind::Ref) {
+            // The bits the lowering's Range reads of a whole signal (lower_expr.cpp).
+            int lo = dimOffset(e.right(), e.msb, e.lsb), hi = dimOffset(e.left(), e.msb, e.lsb);
+            if (lo > hi) std::swap(lo, hi);
+            int ew = std::max(1, static_cast<int>(e.width) / std::max(hi - lo + 1, 1));
+            out.push_back({ir.expr(e.a).a, std::max(lo * ew, 0), std::max((hi + 1) * ew - 1, -1)});
+            return false;
+        } else if (e.kind == ExprKind::Index && ir.expr(e.a).kind == ExprKind::Ref) {
+            if (auto pos = constPosition(ir, ir.expr(e.b))) {
+                // The element the lowering's Index reads of a whole signal; a position outside
+                // the dimension reads x and nothing of the signal.
+                std::int64_t off = e.msb >= e.lsb ? *pos - e.lsb : e.lsb - *pos;
+                std::int64_t count = std::abs(static_cast<std::int64_t>(e.msb) - e.lsb) + 1;
+                std::int64_t w = e.width;
+                if (off >= 0 && off < count && (off + 1) * w - 1 <= std::numeric_limits<int>::max())
+                    out.push_back({ir.expr(e.a).a, static_cast<int>(off * w), static_cast<int>((off + 1) * w - 1)});
+                return false;
             }
-            work.push_back(e.a);
-            break;
-        case ExprKind::Index:
-            if (ir.expr(e.a).kind == ExprKind::Ref) {
-                if (auto pos = constPosition(ir, ir.expr(e.b))) {
-                    // The element the lowering's Index reads of a whole signal; a position
-                    // outside the dimension reads x and nothing of the signal.
-                    std::int64_t off = e.msb >= e.lsb ? *pos - e.lsb : e.lsb - *pos;
-                    std::int64_t count = std::abs(static_cast<std::int64_t>(e.msb) - e.lsb) + 1;
-                    std::int64_t w = e.width;
-                    if (off >= 0 && off < count && (off + 1) * w - 1 <= std::numeric_limits<int>::max())
-                        out.push_back({ir.expr(e.a).a, static_cast<int>(off * w), static_cast<int>((off + 1) * w - 1)});
-                    break;
-                }
-            }
-            work.push_back(e.b);
-            work.push_back(e.a);
-            break;
-        case ExprKind::Unary: case ExprKind::Convert: case ExprKind::Replicate:
-            work.push_back(e.a);
-            break;
-        case ExprKind::Binary: case ExprKind::Indexed:
-            work.push_back(e.b);
-            work.push_back(e.a);
-            break;
-        case ExprKind::Cond:
-            work.push_back(e.c);
-            work.push_back(e.b);
-            work.push_back(e.a);
-            break;
-        case ExprKind::Concat:
-            for (std::uint32_t k = e.b; k-- > 0;) work.push_back(ir.lists[e.a + k]);
-            break;
-        case ExprKind::Call: {
-            for (std::uint32_t k = e.c; k-- > 0;) work.push_back(ir.lists[e.b + k]);
-            if (functions.insert(e.a).second) {
-                std::vector<ExprId> fr;
-                stmtRoots(ir, ir.functions[e.a].body, fr, true);
-                work.insert(work.end(), fr.rbegin(), fr.rend());
-            }
-            break;
         }
-        }
-    }
+        return true;
+    });
     return out;
 }
 
