@@ -1088,6 +1088,16 @@ void Writer::nameWires() {
     // Wires named as a comparison, by name: an OR of them over one vector is named as the set of
     // values (`opcode_is_67_or_6f`).
     std::map<std::string, ComparisonParts> comparisonOf;
+    // Names this run made of several parts: products (`a_nb`) and sums (`a_or_b`). Such a name
+    // read inverted, or a sum read inside a product, would be misread without brackets
+    // (`nfunct32_funct30_funct31` for `~(funct3[2] & funct3[0]) & funct3[1]`): a wire reading
+    // one that way is named by the output it feeds instead.
+    std::set<std::string> productNames, sumNames;
+    auto misread = [&](const PExpr& k, bool inProduct) {
+        if (k.kind != PExpr::Kind::Ref) return false;
+        bool sum = sumNames.count(k.text) > 0, product = productNames.count(k.text) > 0;
+        return (k.neg && (sum || product)) || (inProduct && sum);
+    };
     // Descriptive names where the wire is a comparison or a small AND/OR of names.
     for (std::size_t k = 0; k < wires_.size(); ++k) {
         NodeId v = wires_[k];
@@ -1110,6 +1120,7 @@ void Writer::nameWires() {
         PExpr e = eb.definition(v, refs_[v]->inverted);
         std::string name;
         std::optional<ComparisonParts> setParts;
+        std::set<std::string>* compound = nullptr;   // where the name goes when made of parts
         auto part = [&](const PExpr& p) -> std::string {
             if (p.kind == PExpr::Kind::Ref && p.text[0] != '$') return (p.neg ? "n" : "") + fragment(p.text);
             if (p.kind == PExpr::Kind::Compare && !p.text.empty() && p.text.find(' ') == std::string::npos) {
@@ -1207,20 +1218,32 @@ void Writer::nameWires() {
                 if (e.neg) k.neg = !k.neg;
                 ps.push_back(k.kind == PExpr::Kind::Ref || k.kind == PExpr::Kind::Compare ? part(k) : "");
             }
+            for (const auto& kid : e.kids) {
+                PExpr k = kid;
+                if (e.neg) k.neg = !k.neg;
+                if (misread(k, conj)) ps.assign(1, "");
+            }
             if (std::none_of(ps.begin(), ps.end(), [](const std::string& s) { return s.empty(); })) {
                 for (std::size_t j = 0; j < ps.size(); ++j) name += (j ? (conj ? "_" : "_or_") : "") + ps[j];
+                if (ps.size() > 1) compound = conj ? &productNames : &sumNames;
             }
         } else if (e.kind == PExpr::Kind::Xor && e.kids.size() == 2) {
             std::string a = part(e.kids[0]), b = part(e.kids[1]);
+            if (misread(e.kids[0], true) || misread(e.kids[1], true)) a.clear();
             if (!a.empty() && !b.empty()) name = (e.neg ? "same_" : "") + a + (e.neg ? "_" : "_xor_") + b;
+            compound = &productNames;
         }
         if (name.size() > cap) name.clear();
-        if (name.empty() && fallback && fallback->size() <= cap) name = *fallback, setParts = cp;
+        if (name.empty() && fallback && fallback->size() <= cap) {
+            name = *fallback, setParts = cp;
+            compound = name.find("_or_") != std::string::npos ? &sumNames : nullptr;
+        }
         if (!name.empty()) {
             // Wires are in topological order: a later wire that combines this one reads its
             // name (`state_q_is_ARB_ncancel`), not a placeholder.
             names[k] = claim(name);
             refs_[v]->text = names[k];
+            if (compound && !setParts) compound->insert(names[k]);
             if (setParts) comparisonOf[names[k]] = *setParts;
         }
     }

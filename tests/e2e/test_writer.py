@@ -1679,6 +1679,56 @@ def _(t):
         t.res.check(ok0 and ok1 and w1 <= w0, f"{top}: Verilator -Wall adds no warning: {sorted(w1 - w0)} {raw[-600:]}")
 
 
+@S.case("product_and_sum_names", needs=("iverilog",))
+def _(t):
+    """Issue 10 (names): a new wire named from the bits it combines (`nfunct31_funct75` for
+    `~funct3[1] & funct7[5]`, `paddr5_or_paddr1` for a sum) says what it computes when the name
+    is read the plain way: `_` between the terms of a product, `_or_` between those of a sum
+    (binding looser), `n` before a complemented term. A name built on another such wire read
+    inverted (`nfunct32_funct30_funct31` for `~(funct3[2] & funct3[0]) & funct3[1]`) reads
+    wrongly without brackets, so it must not be made. Checked by function with Icarus Verilog
+    (random simulation reading the wires through hierarchical names) on a RISC-V ALU control
+    (open-standard encodings) whose inputs have no `_` in their names, so every such name parses
+    one way."""
+    src, top = "tests/rtl/rv_aluctl.sv", "rv_aluctl"
+    out = os.path.join(t.work, top + ".sv")
+    r = restructure(t, [src], top, out)
+    if not t.res.check(r.returncode == 0, f"{top}: restructure: {r.stderr[-600:]}"):
+        return
+    text, original = open(out).read(), open(src).read()
+    wires = _new_wires(original, text)
+    atom = re.compile(r"^(n?)(opcode|funct3|funct7)(\d)$")
+
+    def meaning(name):
+        # The terms the name spells, a list of products of (negated, input, bit), or None when
+        # the name is not made of input bits only.
+        sums = []
+        for disjunct in name.split("_or_"):
+            terms = []
+            for part in disjunct.split("_"):
+                m = atom.match(part)
+                if not m:
+                    return None
+                terms.append((m.group(1) == "n", m.group(2), int(m.group(3))))
+            sums.append(terms)
+        return sums
+
+    spelled = {w: meaning(w) for w in wires}
+    spelled = {w: c for w, c in spelled.items() if c}
+    if not t.res.check(len(spelled) >= 2, f"{top}: wires named from the bits they combine: {wires}"):
+        return
+    names = sorted(spelled)
+    rows = _probe_values(t, [out], top, out, ["opcode", "funct3", "funct7"] + names)
+    if not t.res.check(len(rows) > 100, f"{top}: the probe simulation ran ({len(rows)} vectors)"):
+        return
+    for w in names:
+        def value(row):
+            return int(any(all(((row[sig] >> bit) & 1) != neg for neg, sig, bit in product)
+                           for product in spelled[w]))
+        bad = [row for row in rows if row[w] is not None and row[w] != value(row)]
+        t.res.check(not bad, f"{top}: {w} computes what its name reads: {len(bad)} of {len(rows)} vectors differ")
+
+
 @S.case("wire_name_cap")
 def _(t):
     """Issue 10 (names): no name kerf gives a new wire is longer than the stated cap
