@@ -316,6 +316,7 @@ struct Source {
     int misses = 0;                        // valuations in a row without a gain worth keeping
     std::unique_ptr<net::Network> pending; // the valued result (valid while valuedAt is current)
     std::optional<net::Metrics> pendingMetrics;
+    MeasureMemo pendingMemo;               // the pending network's measurement (the base of later ones)
     PassStats pendingStats;
     /// Optional: an estimate from above of what one move can save on a
     /// network (the gates of the nodes the technique can rewrite), cheap to
@@ -487,6 +488,7 @@ public:
             ++trials;
             value(net, current, *best, version);
         }
+        if (baseMemoAt_ != version) baseMemo_ = MeasureMemo{};   // not this network's
         return current;
     }
 
@@ -699,6 +701,7 @@ private:
     void value(const net::Network& net, const net::Metrics& current, Source& s, long version, bool whole = false) {
         const auto t0 = std::chrono::steady_clock::now();
         const double c0 = detail::cpuNow();
+        const double p0 = detail::peakMBNow();
         std::vector<std::uint8_t> region;
         const bool focused = !whole && opts_.limits.changedRegion && s.growth < 0 && s.valuedAt >= 0 &&
                              regionFor(net, s, version, region);
@@ -720,7 +723,8 @@ private:
         const bool unchanged = ctx.edits == 0 && (s.growth < 0 || focused);
         if (!unchanged) tidy(*trial, ctx, net);   // `net` is tidy: its unchanged wide covers need no simplifying
         const double c3 = detail::cpuNow();
-        net::Metrics m = unchanged ? current : measure(*trial);
+        MeasureMemo memo;
+        net::Metrics m = unchanged ? current : measure(*trial, net, version, memo);
         const double c4 = detail::cpuNow();
         if (opts_.verbose >= 2)
             std::fprintf(stderr, "kerf: trial %-28s cpu s: copy+region %.2f technique %.2f tidy %.2f measure %.2f%s\n",
@@ -743,7 +747,13 @@ private:
                 sub.log_.push_back(changedNodes(net, *trial));
                 for (Source& x : inner) x.valuedAt = 0;
             }
+            // The dissolved network was just measured: the inner trials'
+            // measurements start from it, and the inner run's last kept
+            // network, when measured, is the base after this move.
+            sub.baseMemo_ = std::move(memo);
+            sub.baseMemoAt_ = static_cast<long>(sub.log_.size());
             m = sub.run(*trial, m, inner, opts_.limits.regroupTrials, false);
+            memo = std::move(sub.baseMemo_);
         }
         for (const auto& [k, v] : ctx.stats.items())
             if (v > 0 && k.rfind("limit-hit:", 0) == 0) limitHit(k.substr(10));
@@ -752,6 +762,9 @@ private:
         if (unchanged) ++row.unchanged;
         row.seconds += since(t0);
         row.cpuSeconds += detail::cpuNow() - c0;
+        const double p1 = detail::peakMBNow();
+        row.peakMB = std::max(row.peakMB, p1);
+        row.peakRiseMB += p1 - p0;
         s.valuedAt = version;
         s.lastFocused = focused;
         if (focused) ++row.focused;
@@ -767,9 +780,11 @@ private:
             if (opts_.limits.changedRegion) s.ownEdits = changedNodes(net, *trial);
             s.pending = std::move(trial);
             s.pendingMetrics = m;
+            s.pendingMemo = std::move(memo);
             s.pendingStats = ctx.stats;
         } else {
             s.pending.reset();
+            s.pendingMemo = MeasureMemo{};
         }
         if (opts_.verbose >= 2)
             std::fprintf(stderr, "kerf: trial %-28s gates %zu depth %zu literals %zu (%.2fs)%s\n", s.name.c_str(),
@@ -805,9 +820,24 @@ private:
         net = std::move(*s.pending);
         s.pending.reset();
         current = m;
+        // The kept network's measurement is the base of the next ones (valid
+        // for the version apply's caller moves to).
+        baseMemo_ = std::move(s.pendingMemo);
+        s.pendingMemo = MeasureMemo{};
+        baseMemoAt_ = baseMemo_.entry.empty() ? -1 : static_cast<long>(log_.size());
     }
 
-    net::Metrics measure(const net::Network& n) { return measureFactored(n, measureCap_, &cache_); }
+    // Measure trial `n`, derived from `base` (the network at `version`):
+    // nodes unchanged since the base are taken from its measurement when
+    // that is known (baseMemo_, see MeasureMemo); fills `memo` with n's.
+    net::Metrics measure(const net::Network& n, const net::Network& base, long version, MeasureMemo& memo) {
+        MeasureBase mb;
+        if (baseMemoAt_ == version && !baseMemo_.entry.empty()) {
+            mb.net = &base;
+            mb.memo = &baseMemo_;
+        }
+        return measureFactored(n, measureCap_, cache_, mb, &memo);
+    }
 
     TechniqueRow& rowFor(const std::string& name) {
         for (TechniqueRow& r : res_.techniques)
@@ -834,6 +864,10 @@ private:
     std::vector<std::vector<net::NodeId>> log_;
     std::vector<std::vector<net::NodeId>> fanouts_;
     long fanoutsAt_ = -1;
+    // The current network's measurement (the measure base), valid while
+    // baseMemoAt_ is the current version.
+    MeasureMemo baseMemo_;
+    long baseMemoAt_ = -1;
     long version_ = 0;              // the run's current version and gates (for dormant)
     std::size_t currentGates_ = 0;
 
@@ -1017,11 +1051,12 @@ std::string formatEngineReport(const EngineResult& r) {
     if (r.regions > 0) s += fmt::format("({} regions, restructured one by one; their moves not listed)\n", r.regions);
     s += fmt::format("{:<30} {:>8} {:>6} {:>9}\n", r.keptOriginal ? "(result: input kept)" : "(result)",
                      r.after.gates, r.after.depth, r.after.literals);
-    s += fmt::format("\n{:<30} {:>6} {:>9} {:>5} {:>11} {:>11} {:>8} {:>8}\n", "technique", "trials", "no edits",
-                     "kept", "gates saved", "depth saved", "seconds", "cpu s");
+    s += fmt::format("\n{:<30} {:>6} {:>9} {:>5} {:>11} {:>11} {:>8} {:>8} {:>8} {:>8}\n", "technique", "trials",
+                     "no edits", "kept", "gates saved", "depth saved", "seconds", "cpu s", "peak MB", "raised");
     for (const TechniqueRow& t : r.techniques) {
-        s += fmt::format("{:<30} {:>6} {:>9} {:>5} {:>11} {:>11} {:>8.3f} {:>8.3f}\n", t.technique, t.trials,
-                         t.unchanged, t.applied, t.gatesSaved, t.depthSaved, t.seconds, t.cpuSeconds);
+        s += fmt::format("{:<30} {:>6} {:>9} {:>5} {:>11} {:>11} {:>8.3f} {:>8.3f} {:>8.0f} {:>8.0f}\n", t.technique,
+                         t.trials, t.unchanged, t.applied, t.gatesSaved, t.depthSaved, t.seconds, t.cpuSeconds,
+                         t.peakMB, t.peakRiseMB);
         if (t.skipped > 0)
             s += fmt::format("    not valued {} times in the opening: at most the gain already found\n", t.skipped);
         if (t.focused > 0 || t.closing > 0)

@@ -219,6 +219,61 @@ void pushRequired(const Factored& f, long required, const std::vector<std::size_
     }
 }
 
+// The leaves of `f` with their depth below its root (`below` for f itself),
+// appended to `out`: the merge order is pushRequired's, so a leaf's required
+// time is the root's minus its depth here.
+void leafDepths(const Factored& f, std::size_t below, const std::vector<std::size_t>& at,
+                std::vector<std::pair<std::uint32_t, std::uint32_t>>& out) {
+    switch (f.kind) {
+    case Factored::Kind::Zero:
+    case Factored::Kind::One:
+        return;
+    case Factored::Kind::Lit:
+        out.push_back({literalVar(f.lit), static_cast<std::uint32_t>(below)});
+        return;
+    default: {
+        const std::size_t k = f.kids.size();
+        const std::size_t base = tReqTimes.size();
+        for (const Factored& kid : f.kids) {
+            const std::size_t a = formArrival(kid, at);
+            tReqTimes.push_back(a);
+        }
+        if (k > 1) {
+            tHeap.clear();
+            tTreeOf.resize(k);
+            tParent.assign(2 * k - 1, 0);
+            for (std::size_t i = 0; i < k; ++i) {
+                tHeap.push_back({tReqTimes[base + i], i});
+                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+                tTreeOf[i] = i;
+            }
+            std::size_t next = k;
+            while (tHeap.size() > 1) {
+                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+                const auto [ta, ga] = tHeap.back();
+                tHeap.pop_back();
+                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+                const auto [tb, gb] = tHeap.back();
+                tHeap.pop_back();
+                tParent[tTreeOf[ga]] = next;
+                tParent[tTreeOf[gb]] = next;
+                tTreeOf[ga] = next++;
+                tHeap.push_back({std::max(ta, tb) + 1, ga});
+                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+            }
+            std::vector<std::size_t>& depth = tTreeOf;
+            depth.assign(2 * k - 1, 0);
+            for (std::size_t i = 2 * k - 2; i-- > 0;) depth[i] = depth[tParent[i]] + 1;
+            for (std::size_t i = 0; i < k; ++i) tReqTimes[base + i] = depth[i];
+        } else {
+            tReqTimes[base] = 0;
+        }
+        for (std::size_t i = 0; i < k; ++i) leafDepths(f.kids[i], below + tReqTimes[base + i], at, out);
+        tReqTimes.resize(base);
+    }
+    }
+}
+
 // A node's candidate forms, fewest gates first by construction order (Best,
 // Quick, plain); `gates` beside each.
 struct Candidates {
@@ -260,6 +315,32 @@ Factored sopForm(const Cover& f) {
 
 namespace {
 
+// The candidate forms of a cover from its cache entry (factored on first use).
+Candidates candidatesOf(FactorCache& fc, FactorCache::Entry& e, const Cover& cv) {
+    if (!e.hasSop) {
+        e.sop = sopForm(cv);
+        e.sopGates = gatesOf(e.sop);
+        e.hasSop = true;
+    }
+    Candidates c;
+    // Factoring a cover of thousands of cubes costs more than every pass
+    // together; such nodes are written as plain sums of products.
+    if (cv.cubes.size() <= fc.maxCubes()) {
+        // Best searches kernels under many literals: on the wide covers
+        // of a large decoder (about 780 cubes an output at 100k terms)
+        // factoring them was most of measuring a trial (F174).
+        if (fc.impl().bestAllowed(cv)) {
+            fc.best(e, cv);
+            c.form[c.count] = &e.best, c.gates[c.count++] = e.bestGates;
+        } else {
+            fc.best(e, cv);   // the quick form, counted as skipped
+        }
+        c.form[c.count] = &e.quick, c.gates[c.count++] = e.quickGates;
+    }
+    c.form[c.count] = &e.sop, c.gates[c.count++] = e.sopGates;
+    return c;
+}
+
 FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& fc, bool keepForms,
                             DepthSlack* slack = nullptr) {
     FactoredNetwork out;
@@ -272,27 +353,7 @@ FactoredNetwork chooseForms(const net::Network& net, int maxDepth, FactorCache& 
     for (net::NodeId v : order) {
         const Cover& cv = net.node(v).cover;
         FactorCache::Impl::Entry& e = fc.impl().entry(cv);
-        if (!e.hasSop) {
-            e.sop = sopForm(cv);
-            e.sopGates = gatesOf(e.sop);
-            e.hasSop = true;
-        }
-        Candidates& c = cand[v];
-        // Factoring a cover of thousands of cubes costs more than every pass
-        // together; such nodes are written as plain sums of products.
-        if (cv.cubes.size() <= fc.maxCubes()) {
-            // Best searches kernels under many literals: on the wide covers
-            // of a large decoder (about 780 cubes an output at 100k terms)
-            // factoring them was most of measuring a trial (F174).
-            if (fc.impl().bestAllowed(cv)) {
-                fc.best(e, cv);
-                c.form[c.count] = &e.best, c.gates[c.count++] = e.bestGates;
-            } else {
-                fc.best(e, cv);   // the quick form, counted as skipped
-            }
-            c.form[c.count] = &e.quick, c.gates[c.count++] = e.quickGates;
-        }
-        c.form[c.count] = &e.sop, c.gates[c.count++] = e.sopGates;
+        cand[v] = candidatesOf(fc, e, cv);
     }
     // Phase 1: earliest-arriving forms.
     std::vector<std::size_t> atMin(n, 0);
@@ -373,6 +434,147 @@ FactoredNetwork factorNetwork(const net::Network& net, int maxDepth, FactorCache
 net::Metrics measureFactored(const net::Network& net, int maxDepth, FactorCache* cache) {
     FactorCache local;
     return chooseForms(net, maxDepth, cache ? *cache : local, false).metrics;
+}
+
+net::Metrics measureFactored(const net::Network& net, int maxDepth, FactorCache& fc, const MeasureBase& base,
+                             MeasureMemo* memo) {
+    // The same three steps as chooseForms (earliest forms, required times,
+    // fewest gates meeting them), each node taken from the base's memo when
+    // what it depends on is the base's.
+    const std::vector<net::NodeId> order = net.topoOrder();
+    const std::size_t n = net.nodeCount();
+    const MeasureMemo* bm = base.net && base.memo ? base.memo : nullptr;
+    const std::size_t bn = bm ? std::min(base.net->nodeCount(), bm->entry.size()) : 0;
+    MeasureMemo local;
+    MeasureMemo& m = memo ? *memo : local;
+    m.entry.assign(n, nullptr);
+    m.minForm.assign(n, nullptr);
+    m.pick.assign(n, nullptr);
+    m.atMin.assign(n, 0);
+    m.at.assign(n, 0);
+    m.gates.assign(n, 0);
+    m.lits.assign(n, 0);
+    m.rt.assign(n, LONG_MAX);
+    m.offBegin.assign(n + 1, 0);
+    m.off.clear();
+    std::vector<Candidates> cand(n);
+    std::vector<std::uint8_t> same(n, 0);   // cover equal to the base's at this node
+    for (net::NodeId v : order) {
+        const Cover& cv = net.node(v).cover;
+        FactorCache::Entry* e = nullptr;
+        if (v < bn && bm->entry[v] && bm->minForm[v] && base.net->isLogic(v) && base.net->node(v).cover == cv) {
+            e = bm->entry[v];
+            same[v] = 1;
+        } else {
+            e = &fc.impl().entry(cv);
+        }
+        m.entry[v] = e;
+        cand[v] = candidatesOf(fc, *e, cv);
+    }
+    // The fanins of v have the same values in `now` as in the base's `was`.
+    auto faninsAsBase = [&](net::NodeId v, const std::vector<std::size_t>& now, const std::vector<std::size_t>& was) {
+        for (const Cube& c : net.node(v).cover.cubes)
+            for (algebra::Literal l : c.lits) {
+                const auto u = literalVar(l);
+                if (u >= bn || now[u] != was[u]) return false;
+            }
+        return true;
+    };
+    // Phase 1: earliest-arriving forms.
+    for (net::NodeId in : net.inputs()) m.atMin[in] = net.node(in).arrival;
+    std::vector<std::uint8_t> clean1(n, 0);
+    for (net::NodeId v : order) {
+        if (same[v] && faninsAsBase(v, m.atMin, bm->atMin)) {
+            clean1[v] = 1;
+            m.atMin[v] = bm->atMin[v];
+            m.minForm[v] = bm->minForm[v];
+            continue;
+        }
+        std::size_t bestA = SIZE_MAX, bestG = SIZE_MAX;
+        const Candidates& c = cand[v];
+        for (int i = 0; i < c.count; ++i) {
+            const std::size_t a = formArrival(*c.form[i], m.atMin);
+            if (a < bestA || (a == bestA && c.gates[i] < bestG)) {
+                bestA = a;
+                bestG = c.gates[i];
+                m.minForm[v] = c.form[i];
+            }
+        }
+        m.atMin[v] = bestA;
+    }
+    std::size_t dMin = 0;
+    for (const net::Output& o : net.outputs()) dMin = std::max(dMin, m.atMin[literalVar(o.driver)] + o.tail);
+    const long cap = maxDepth < 0 ? static_cast<long>(dMin) : std::max<long>(maxDepth, static_cast<long>(dMin));
+
+    // The leaves of each node's earliest form with their depth below it (the
+    // base's where the form and its leaves' arrivals are the base's).
+    std::vector<std::pair<std::uint32_t, std::uint32_t>> leaves;
+    for (net::NodeId v = 0; v < n; ++v) {
+        m.offBegin[v] = m.off.size();
+        if (!m.minForm[v]) continue;
+        if (clean1[v]) {
+            m.off.insert(m.off.end(), bm->off.begin() + static_cast<std::ptrdiff_t>(bm->offBegin[v]),
+                         bm->off.begin() + static_cast<std::ptrdiff_t>(bm->offBegin[v + 1]));
+        } else {
+            leafDepths(*m.minForm[v], 0, m.atMin, m.off);
+        }
+    }
+    m.offBegin[n] = m.off.size();
+    // Required times through the earliest forms.
+    for (const net::Output& o : net.outputs()) {
+        auto v = literalVar(o.driver);
+        m.rt[v] = std::min(m.rt[v], cap - static_cast<long>(o.tail));
+    }
+    for (auto it = order.rbegin(); it != order.rend(); ++it) {
+        const long r = m.rt[*it];
+        if (r == LONG_MAX) continue;
+        for (std::size_t k = m.offBegin[*it]; k < m.offBegin[*it + 1]; ++k) {
+            const auto [u, d] = m.off[k];
+            if (u < n) m.rt[u] = std::min(m.rt[u], r - static_cast<long>(d));
+        }
+    }
+
+    // Phase 2: fewest gates meeting the required time.
+    net::Metrics out;
+    for (net::NodeId in : net.inputs()) m.at[in] = net.node(in).arrival;
+    for (net::NodeId v : order) {
+        if (same[v] && m.rt[v] == bm->rt[v] && faninsAsBase(v, m.at, bm->at)) {
+            m.at[v] = bm->at[v];
+            m.pick[v] = bm->pick[v];
+            m.gates[v] = bm->gates[v];
+            m.lits[v] = bm->lits[v];
+        } else {
+            const Candidates& c = cand[v];
+            const Factored* pick = nullptr;
+            std::size_t pickA = 0, bestG = SIZE_MAX;
+            for (int i = 0; i < c.count; ++i) {
+                const std::size_t a = formArrival(*c.form[i], m.at);
+                if (m.rt[v] != LONG_MAX && static_cast<long>(a) > m.rt[v]) continue;
+                if (c.gates[i] < bestG || (c.gates[i] == bestG && a < pickA)) {
+                    bestG = c.gates[i];
+                    pick = c.form[i];
+                    pickA = a;
+                }
+            }
+            if (!pick) {   // cannot happen by construction; keep the earliest form
+                pick = m.minForm[v];
+                pickA = formArrival(*pick, m.at);
+                bestG = gatesOf(*pick);
+            }
+            m.at[v] = pickA;
+            m.pick[v] = pick;
+            m.gates[v] = bestG;
+            m.lits[v] = pick->literalCount();
+        }
+        ++out.nodes;
+        out.gates += m.gates[v];
+        out.literals += m.lits[v];
+    }
+    out.inputs = net.inputs().size();
+    out.outputs = net.outputs().size();
+    for (const net::Output& o : net.outputs())
+        out.depth = std::max(out.depth, m.at[literalVar(o.driver)] + o.tail);
+    return out;
 }
 
 DepthSlack depthSlack(const net::Network& net, int maxDepth, FactorCache* cache) {

@@ -38,6 +38,7 @@
 #include <climits>
 #include <cstdio>
 #include <ctime>
+#include <sys/resource.h>
 #include <functional>
 
 namespace kerf::passes::detail {
@@ -88,6 +89,8 @@ void addRow(EngineResult& res, const TechniqueRow& r) {
         t.closing += r.closing;
         t.seconds += r.seconds;
         t.cpuSeconds += r.cpuSeconds;
+        t.peakMB = std::max(t.peakMB, r.peakMB);
+        t.peakRiseMB += r.peakRiseMB;
         for (const auto& kv : r.counters) {
             auto it = std::find_if(t.counters.begin(), t.counters.end(),
                                    [&](const auto& p) { return p.first == kv.first; });
@@ -105,6 +108,12 @@ double cpuNow() {
     timespec ts{};
     clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
     return static_cast<double>(ts.tv_sec) + static_cast<double>(ts.tv_nsec) * 1e-9;
+}
+
+double peakMBNow() {
+    struct rusage ru {};
+    getrusage(RUSAGE_SELF, &ru);
+    return static_cast<double>(ru.ru_maxrss) / 1024.0;
 }
 
 bool useRegions(const net::Network& net, const EngineOptions& opts) {
@@ -139,6 +148,7 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
     auto wholePass = [&](const char* name, const std::function<void(net::Network&, PassContext&)>& run) {
         const auto t = std::chrono::steady_clock::now();
         const double c = cpuNow();
+        const double p = peakMBNow();
         net::Network trial = net;
         PassContext ctx;
         ctx.depthCap = passCap;
@@ -170,6 +180,8 @@ EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts) 
         }
         row.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t).count();
         row.cpuSeconds = cpuNow() - c;
+        row.peakMB = peakMBNow();
+        row.peakRiseMB = row.peakMB - p;
         addRow(res, row);
     };
     const EngineLimits& L = opts.limits;

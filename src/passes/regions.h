@@ -14,6 +14,9 @@ bool useRegions(const net::Network& net, const EngineOptions& opts);
 /// CPU seconds this process has used (technique timings: the machine may be
 /// shared, and wall time then says little about what a technique costs).
 double cpuNow();
+/// The process's peak resident memory so far, in MB (its high-water mark:
+/// never falls; a technique's trials are charged with how far they raise it).
+double peakMBNow();
 
 EngineResult restructureByRegions(net::Network& net, const EngineOptions& opts);
 

@@ -58,6 +58,7 @@ struct Figures {
     char techName[16][40] = {};
     double techSeconds[16] = {};
     double techCpu[16] = {};
+    double techPeakMB[16] = {}, techRiseMB[16] = {};
     int techTrials[16] = {};
 };
 
@@ -206,6 +207,8 @@ Figures runCase(net::Network net, const std::string& effort, int verbose, const 
         std::snprintf(f.techName[f.techniques], sizeof f.techName[0], "%s", t.technique.c_str());
         f.techSeconds[f.techniques] = t.seconds;
         f.techCpu[f.techniques] = t.cpuSeconds;
+        f.techPeakMB[f.techniques] = t.peakMB;
+        f.techRiseMB[f.techniques] = t.peakRiseMB;
         f.techTrials[f.techniques] = t.trials;
         ++f.techniques;
     }
@@ -324,9 +327,11 @@ Figures resubstitution(std::size_t terms) {
 // factored forms (cache warm: the covers were factored once before). The
 // network is the decoder after one whole-network cube extraction (the
 // engine's state after its first opening move). CPU seconds, mean of 3.
+// `m.base` measures the same copy with the network it was copied from as
+// the measure base (passes::MeasureBase, as the engine measures its trials).
 struct Overheads {
     std::size_t nodes = 0, gates = 0;
-    double copy = 0, tidy = 0, measure = 0, order = 0;
+    double copy = 0, tidy = 0, measure = 0, measureBase = 0, order = 0;
 };
 
 Overheads trialOverheads(std::size_t terms) {
@@ -341,6 +346,10 @@ Overheads trialOverheads(std::size_t terms) {
     passes::FactorCache cache;
     Overheads r;
     const net::Metrics m = passes::measureFactored(net, -1, &cache);
+    // The entries of the network the trial was copied from: the engine's
+    // measure base (a trial's unchanged covers need no lookup).
+    passes::MeasureMemo memo;
+    (void)passes::measureFactored(net, static_cast<int>(m.depth), cache, passes::MeasureBase{}, &memo);
     r.nodes = net.logicCount();
     r.gates = m.gates;
     const int reps = 3;
@@ -356,10 +365,14 @@ Overheads trialOverheads(std::size_t terms) {
         (void)passes::measureFactored(copy, static_cast<int>(m.depth), &cache);
         r.measure += cpu() - t;
         t = cpu();
+        (void)passes::measureFactored(copy, static_cast<int>(m.depth), cache, passes::MeasureBase{&net, &memo},
+                                      nullptr);
+        r.measureBase += cpu() - t;
+        t = cpu();
         (void)copy.topoOrder();
         r.order += cpu() - t;
     }
-    r.copy /= reps, r.tidy /= reps, r.measure /= reps, r.order /= reps;
+    r.copy /= reps, r.tidy /= reps, r.measure /= reps, r.measureBase /= reps, r.order /= reps;
     return r;
 }
 
@@ -472,13 +485,23 @@ int main(int argc, char** argv) {
                 per += " " + std::string(f.techName[t]) + " " + std::to_string(f.techCpu[t]).substr(0, 6) + " (" +
                        std::to_string(f.techTrials[t]) + ")";
             std::printf("%s\n", per.c_str());
+            // The process's peak memory when the technique's last trial
+            // ended, and how far its trials raised it (MB).
+            std::string mem = "    peak MB per technique (peak, raised):";
+            for (int t = 0; t < f.techniques; ++t)
+            {
+                char buf[96];
+                std::snprintf(buf, sizeof buf, " %s %.0f (%.0f)", f.techName[t], f.techPeakMB[t], f.techRiseMB[t]);
+                mem += buf;
+            }
+            std::printf("%s\n", mem.c_str());
             std::fflush(stdout);
         }
     }
     if (only == "overheads") {
         std::printf("\nper-trial costs outside the technique (CPU s, mean of 3), after one cube extraction\n");
-        std::printf("%-10s %9s %9s %8s %8s %8s %8s\n", "terms", "nodes", "gates", "copy", "tidy", "measure",
-                    "order");
+        std::printf("%-10s %9s %9s %8s %8s %8s %8s %8s\n", "terms", "nodes", "gates", "copy", "tidy", "measure",
+                    "m.base", "order");
         for (std::size_t terms : {1000u, 10000u, 100000u}) {
             if (minTerms && terms < minTerms) continue;
             if (maxTerms && terms > maxTerms) continue;
@@ -503,8 +526,8 @@ int main(int argc, char** argv) {
                 ++failures;
                 continue;
             }
-            std::printf("%-10zu %9zu %9zu %8.3f %8.3f %8.3f %8.3f\n", terms, r.nodes, r.gates, r.copy, r.tidy,
-                        r.measure, r.order);
+            std::printf("%-10zu %9zu %9zu %8.3f %8.3f %8.3f %8.3f %8.3f\n", terms, r.nodes, r.gates, r.copy,
+                        r.tidy, r.measure, r.measureBase, r.order);
             std::fflush(stdout);
         }
         return failures ? 1 : 0;

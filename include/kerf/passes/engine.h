@@ -159,6 +159,8 @@ struct TechniqueRow {
     int closing = 0;                  ///< trials of the closing sweep (whole network, nothing else paid)
     double seconds = 0;               ///< wall time of its trials
     double cpuSeconds = 0;            ///< CPU time of its trials (a regroup's includes its inner trials)
+    double peakMB = 0;                ///< the process's peak memory when its last trial ended (MB, largest seen)
+    double peakRiseMB = 0;            ///< how far its trials raised the process's peak memory (MB, summed)
     std::vector<std::pair<std::string, long long>> counters;   ///< summed over kept moves
 };
 
