@@ -33,6 +33,7 @@ import argparse
 import hashlib
 import json
 import os
+import re
 import random
 import shutil
 import subprocess
@@ -129,6 +130,42 @@ def read_module(root, files, top):
             os.replace(tmp, path)   # atomic: parallel tests may write the same entry
     _MEMO[key] = text
     return json.loads(text)
+
+
+# docs/guide.md "Names of new wires": the cap on a name kerf gives a new wire (the --wire-prefix
+# is not counted).
+MAX_WIRE_NAME = 26
+
+
+def new_wires(src_text, out_text):
+    """Names of the wires kerf declared: `wire [..] name` on lines the source does not have,
+    with a name the source does not use (an author's declaration rewritten keeps its name)."""
+    old = set(src_text.split("\n"))
+    own = set(re.findall(r"[A-Za-z_][A-Za-z0-9_$]*", src_text))
+    found = []
+    for line in out_text.split("\n"):
+        if line in old:
+            continue
+        m = re.match(r"\s*wire\s+(?:\[[^\]]*\]\s*)?([A-Za-z_][A-Za-z0-9_$]*)\b", line)
+        if m and m.group(1) not in own:
+            found.append(m.group(1))
+    return found
+
+
+def wire_name_problems(src_text, out_text):
+    """What is wrong with the names of the wires kerf declared in out_text: names over
+    MAX_WIRE_NAME characters, and names not declared exactly once. Empty when all is well."""
+    wires = new_wires(src_text, out_text)
+    problems = []
+    long = [w for w in wires if len(w) > MAX_WIRE_NAME]
+    if long:
+        problems.append(f"generated names over {MAX_WIRE_NAME} characters: {long}")
+    declared = re.findall(r"(?m)^\s*(?:wire|logic|reg)\b\s*(?:signed\s*)?(?:\[[^\]]*\]\s*)*([A-Za-z_][A-Za-z0-9_$]*)",
+                          out_text)
+    twice = sorted({w for w in wires if declared.count(w) != 1})
+    if twice:
+        problems.append(f"generated names not declared exactly once: {twice}")
+    return problems
 
 
 def port_signature(desc):

@@ -29,6 +29,8 @@ was made under), the original and the rewrite are compared by
   with --keep-x (the rewrite must keep every declaration: slang lists the signals of both);
 - Verilator (outside reference, lint): `--lint-only -Wall` of the rewrite adds no warning the
   original does not have.
+Each rewrite's lines stay within 100 columns, and the names it gives new wires within the cap
+docs/guide.md states (26 characters), each declared once (common trade practice for review).
 An equivalence case runs `kerf equiv` on two versions and Icarus on the same two: when Icarus
 sees a difference kerf must not say "equivalent" (exit 0); when Icarus sees none on every input
 vector kerf must not say "different" (exit 1).
@@ -112,6 +114,7 @@ KINDS = {
     "lint": "Verilator -Wall warns about the rewrite where it did not about the original",
     "guard": "a rewrite pinned with --param still builds with another value",
     "layout": "a line kerf wrote is longer than 100 columns",
+    "names": "a name kerf gave a new wire is over the cap (26 characters) or not declared exactly once",
     "equiv": "kerf equiv gives a verdict that Icarus Verilog contradicts",
     "equiv-error": "kerf equiv fails instead of giving a verdict",
 }
@@ -306,6 +309,12 @@ def restructure(kerf, run, work, defs, flags, tag, extra=()):
     long = [l for l in open(out, "rb").read().split(b"\n") if l not in src_lines and len(l.expandtabs(8)) > 100]
     if long:
         run.problem("layout", f"{what}: {len(long)} written line(s) longer than 100 columns: {long[:2]}")
+    # Names of new wires (issue 10): within the cap docs/guide.md states, each declared once and
+    # distinct from the module's own. This run writes every group that does not grow
+    # (--min-gain 0), the most new wires; the writer caps every name it gives whatever the options.
+    names = K.wire_name_problems(open(c.path).read(), open(out).read())
+    if names:
+        run.problem("names", f"{what}: " + "; ".join(names))
     return out, what
 
 
