@@ -181,6 +181,25 @@ def renamed(text, desc, new_name):
     return (raw[:pos] + new_name.encode() + raw[pos + len(name):]).decode()
 
 
+def renamed_like(text, original, desc, new_name):
+    """renamed(text, ...) without reading `text`: when its bytes up to the end of the module's
+    name are the original's (a rewrite or a mutant of it leaves everything before the module's
+    name as it was), the name is where the reader found it in the original. None otherwise
+    (then read the text)."""
+    raw, orig = text.encode(), original.encode()
+    name = desc["module"]["name"].encode()
+    try:
+        pos = orig.index(name, desc["module"]["src"]["start"])
+    except ValueError:
+        return None
+    end = pos + len(name)
+    ident = re.compile(rb"[A-Za-z0-9_$]")
+    if raw[:end] != orig[:end] or end >= len(raw) or end >= len(orig) or raw[end:end + 1] != orig[end:end + 1] \
+            or ident.match(raw[end:end + 1]):
+        return None
+    return (raw[:pos] + new_name.encode() + raw[end:]).decode()
+
+
 def vname(n):
     ok = (n[:1].isalpha() or n[:1] == "_") and all(c.isalnum() or c in "_$" for c in n)
     return n if ok else "\\" + n + " "
@@ -248,9 +267,12 @@ def simulate_equal(root, files, top, out_file, workdir, vectors=10000):
     """Icarus Verilog (outside reference): the rewrite matches the original on every output."""
     desc = read_module(root, files, top)
     mod_file = desc["module"]["src"]["file"]
-    ref = renamed(open(mod_file).read(), desc, top + "_ref")
-    new = renamed(open(out_file).read(), read_module(root, [out_file if f == mod_file else f for f in files], top),
-                  top + "_new")
+    original = open(mod_file).read()
+    ref = renamed(original, desc, top + "_ref")
+    new = renamed_like(open(out_file).read(), original, desc, top + "_new")
+    if new is None:
+        new = renamed(open(out_file).read(), read_module(root, [out_file if f == mod_file else f for f in files], top),
+                      top + "_new")
     ext = ".sv" if mod_file.endswith(".sv") else ".v"
     ref_path = os.path.join(workdir, "ref" + ext)
     new_path = os.path.join(workdir, "new" + ext)

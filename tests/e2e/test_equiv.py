@@ -87,7 +87,8 @@ def confirm(root, files, top, a_file, b_file, cex, work):
     mod_file = desc["module"]["src"]["file"]
     others = [f for f in files if f != mod_file]
     ra = K.renamed(open(a_file).read(), K.read_module(root, [a_file if f == mod_file else f for f in files], top), "cx_a")
-    rb = K.renamed(open(b_file).read(), K.read_module(root, [b_file if f == mod_file else f for f in files], top), "cx_b")
+    rb = K.renamed_like(open(b_file).read(), open(mod_file).read(), desc, "cx_b") or \
+        K.renamed(open(b_file).read(), K.read_module(root, [b_file if f == mod_file else f for f in files], top), "cx_b")
     ext = ".sv" if mod_file.endswith(".sv") else ".v"
     pa, pb = os.path.join(work, "cx_a" + ext), os.path.join(work, "cx_b" + ext)
     open(pa, "w").write(ra)
