@@ -2067,15 +2067,24 @@ void Writer::keepReaders() {
                     for (const auto& o : low_.wordOps[k].operands)
                         if (!o.generated) read.insert(o.name);
         }
+        // One reader at a time, the one whose rewrite saves least: kept as written it reads the
+        // signal again, and the others may then be rewritten (a table block rewritten while the
+        // 0-gain slice `assign rd_en = cw[3];` stays, rather than both kept; F190).
         for (const auto& [sig, groups] : readersOf) {
             if (read.count(sig) || isPort(sig) || !m_.signals.count(sig) || !driven.count(sig)) continue;
+            int keep = -1;
+            long keepSaving = 0;
             for (int g : groups) {
-                if (!groups_[static_cast<std::size_t>(g)].replaced) continue;
-                groups_[static_cast<std::size_t>(g)].replaced = false;
-                groups_[static_cast<std::size_t>(g)].reason =
-                    fmt::format("its rewrite would leave '{}' unread", sig);
-                changed = true;
+                const auto& G = groups_[static_cast<std::size_t>(g)];
+                if (!G.replaced) continue;
+                const long saving = static_cast<long>(G.gatesBefore) - static_cast<long>(G.gatesAfter);
+                if (keep < 0 || saving < keepSaving) keep = g, keepSaving = saving;
             }
+            if (keep < 0) continue;
+            groups_[static_cast<std::size_t>(keep)].replaced = false;
+            groups_[static_cast<std::size_t>(keep)].reason = fmt::format("its rewrite would leave '{}' unread", sig);
+            changed = true;
+            break;
         }
     }
 }

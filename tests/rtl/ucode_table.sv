@@ -1,6 +1,6 @@
 // kerf-case: invented microcode-ROM style control table as a table-driven generator emits it:
 // kerf-case: a 6-bit opcode, one case item per code with a full 10-bit control word, unused
-// kerf-case: codes x, and outputs sliced from the control word by continuous assigns (F190).
+// kerf-case: codes x, and outputs sliced from the control word by continuous assigns (F190, fixed).
 module ucode_table (
   input  logic [5:0] op,
   output logic [2:0] alu_fn,
