@@ -16,6 +16,10 @@
 // textbook multi-level synthesis, from memory). The network is kept only when it costs at most
 // SliceRegroupLimits::extraGates two-input gates, or extraShare of the engine's gates, more
 // than the engine's result, within the depth bound; otherwise the engine's network stays.
+// A kept regroup must also survive kerf's run on its own written file (idempotence, F195):
+// flows.cpp runs kerf once more on the written text and writes the engine's network when that
+// run would rewrite anything (on networks above SliceRegroupLimits::checkGates, where that costs
+// too much, the margin stays below --min-gain instead).
 #include "kerf/emit/slice_regroup.h"
 
 #include "kerf/passes/tidy.h"
@@ -65,7 +69,8 @@ bool contains(const BitCube& big, const BitCube& small) {
 } // namespace
 
 SliceRegroupResult regroupSlices(frontend::Lowered& low, passes::FactoredNetwork& forms, int depthCap,
-                                 std::size_t depthBound, passes::FactorCache* cache, const SliceRegroupLimits& limits) {
+                                 std::size_t depthBound, passes::FactorCache* cache, const SliceRegroupLimits& limits,
+                                 double maxExtra) {
     SliceRegroupResult res;
     net::Network& net = low.net;
     res.gatesBefore = forms.metrics.gates;
@@ -286,8 +291,9 @@ SliceRegroupResult regroupSlices(frontend::Lowered& low, passes::FactoredNetwork
         passes::tidy(net);
         return passes::factorNetwork(net, depthCap, cache);
     };
-    const double margin = std::max(static_cast<double>(limits.extraGates),
-                                   limits.extraShare * static_cast<double>(res.gatesBefore));
+    double margin = std::max(static_cast<double>(limits.extraGates),
+                             limits.extraShare * static_cast<double>(res.gatesBefore));
+    if (maxExtra >= 0) margin = std::min(margin, maxExtra);
     const std::size_t depthMax = std::max(depthBound, static_cast<std::size_t>(forms.metrics.depth));
     auto within = [&](const passes::FactoredNetwork& f) {
         return f.metrics.depth <= depthMax &&

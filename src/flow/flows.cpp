@@ -173,6 +173,54 @@ StatsResult stats(const frontend::ReadOptions& read, bool dissolveInternal) {
     return r;
 }
 
+namespace {
+
+/// Whether kerf on `text`, the written file holding the module (read from `file`), would
+/// rewrite it: the same options, nothing written, no proof (a run that changes nothing proves
+/// nothing either). Any failure counts as a change.
+bool secondRunChanges(const RestructureOptions& opts, const std::string& file, const std::string& text) {
+    io::WorkDir dir;
+    const std::string path = dir.add(std::filesystem::path(file).filename().string(), text);
+    RestructureOptions o = opts;
+    bool found = false;
+    for (auto& f : o.read.files) {
+        auto sub = o.read.substitute.find(f);
+        const std::string& actual = sub == o.read.substitute.end() ? f : sub->second;
+        std::error_code ec;
+        if (actual == file || std::filesystem::equivalent(actual, file, ec)) {
+            if (sub != o.read.substitute.end()) o.read.substitute.erase(sub);
+            f = path;
+            found = true;
+        }
+    }
+    if (!found) return true;
+    // Includes relative to the original file's folder must still resolve.
+    o.read.includeDirs.push_back(std::filesystem::path(file).parent_path().empty()
+                                     ? "."
+                                     : std::filesystem::path(file).parent_path().string());
+    o.output.clear();
+    o.inPlace = false;
+    o.backupSuffix.clear();
+    o.quiet = true;
+    o.check = false;
+    o.diff = false;
+    o.verbose = 0;
+    o.reportPath.clear();
+    o.skipProof = true;
+    o.noOutput = true;
+    o.secondRun = true;
+    RestructureOutcome oc;
+    try {
+        if (restructure(o, &oc) != 0) return true;
+    } catch (const Error& e) {
+        if (e.code() == ExitCode::Resources || e.code() == ExitCode::ToolMissing) throw;
+        return true;
+    }
+    return oc.changed;
+}
+
+} // namespace
+
 int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     if (outcome) *outcome = {};
     if (!emit::validIdentifierPrefix(opts.prefix))
@@ -268,14 +316,33 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         if (opts.verbose > 0)
             for (const std::string& t : wf.texts) std::cerr << t << "\n";
     }
+    // The engine's network before the slice regroup, while the regroup is to be checked by a
+    // second run on the written file (F195).
+    std::optional<net::Network> beforeRegroup;
     {
         // One vector's bits in an output's product read as one comparison, within a stated margin
         // of the engine's gates (F168; emit/slice_regroup.cpp).
         const std::size_t bound = eo.goal == passes::Goal::Size
                                       ? (er.depthCap >= 0 ? static_cast<std::size_t>(er.depthCap) : asRead.depth)
                                       : er.after.depth;
-        emit::SliceRegroupResult sr = emit::regroupSlices(low, er.forms, er.depthCap, bound, factorCache.get());
-        if (sr.kept) er.after = er.forms.metrics;
+        const emit::SliceRegroupLimits rl;
+        // Small enough to check by a second run; otherwise a margin a second run cannot gain back.
+        // (A second run itself regroups as any run would, unchecked.)
+        const bool checkable = er.after.gates <= rl.checkGates && !opts.secondRun;
+        double maxExtra = -1;
+        if (er.after.gates > rl.checkGates) {
+            const double gain = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
+                                                   : wo.minGain.value;
+            maxExtra = std::max(0.0, std::ceil(gain) - 1);
+        }
+        net::Network engineNet;
+        if (checkable) engineNet = low.net;
+        emit::SliceRegroupResult sr =
+            emit::regroupSlices(low, er.forms, er.depthCap, bound, factorCache.get(), rl, maxExtra);
+        if (sr.kept) {
+            er.after = er.forms.metrics;
+            if (checkable) beforeRegroup = std::move(engineNet);
+        }
         if (opts.verbose > 0 && !sr.text.empty()) std::cerr << sr.text << "\n";
     }
     double passSeconds = since(tPass);
@@ -294,7 +361,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     // the engine's result for depth.
     wo.depthBound = eo.goal == passes::Goal::Size ? (er.depthCap >= 0 ? er.depthCap : static_cast<int>(asRead.depth))
                                                   : static_cast<int>(er.after.depth);
-    emit::WriteResult wr = emit::writeModule(wi, wo);
+    emit::WriteResult wr;
     const std::string& file = desc.src.file;
     std::set<std::string> authorSignals;
     for (const auto& [n, sg] : desc.signals) authorSignals.insert(n);
@@ -363,41 +430,66 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     // written again by bits (the engine's forms are read back at the engine's figures).
     std::optional<std::pair<frontend::ModuleDesc, net::Metrics>> checked;
     double checkedSeconds = 0;   // reading back the file `checked` holds: part of the proof's time
-    if (wr.changed && (!wr.namedDomains.empty() || !wr.namedChoices.empty())) {
-        frontend::ModuleDesc w;
-        auto tCheck = Clock::now();
-        net::Metrics m = readBack(wr.text, w);
-        checkedSeconds = since(tCheck);
-        const double margin = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
-                                                 : wo.minGain.value;
-        const auto bound = static_cast<std::size_t>(std::max(wo.depthBound, static_cast<int>(er.after.depth)));
-        const bool over = m.depth > bound || static_cast<double>(m.gates) > static_cast<double>(er.after.gates) + margin;
-        emit::NamingDecision d;
-        d.form = "written file";
-        d.kept = !over;
-        d.gates = m.gates;
-        d.depth = m.depth;
-        d.reason = over ? fmt::format("the file with names reads back at {} gates, depth {}: over the depth bound {} "
-                                      "or the engine's {} gates plus the --min-gain margin; written by bits",
-                                      m.gates, m.depth, bound, er.after.gates)
-                        : fmt::format("the file with names reads back within the depth bound {} and the engine's "
-                                      "{} gates plus the --min-gain margin", bound, er.after.gates);
-        wr.naming.decisions.push_back(d);
-        if (over) {
-            wr.namingLog += fmt::format("naming: the written file reads back at {} gates, depth {} (bound {}, "
-                                        "bitwise {} gates + margin): written by bits\n", m.gates, m.depth, bound,
-                                        er.after.gates);
-            std::string why = std::move(wr.namingLog);
-            emit::NamingRecord record = std::move(wr.naming);
-            emit::WriteOptions bits = wo;
-            bits.names = false;
-            wr = emit::writeModule(wi, bits);
-            wr.namingLog = std::move(why);
-            wr.naming = std::move(record);
-            work = std::make_unique<io::WorkDir>();
-        } else {
-            checked.emplace(std::move(w), m);
+    auto writeChecked = [&]() {
+        wr = emit::writeModule(wi, wo);
+        if (wr.changed && (!wr.namedDomains.empty() || !wr.namedChoices.empty())) {
+            frontend::ModuleDesc w;
+            auto tCheck = Clock::now();
+            net::Metrics m = readBack(wr.text, w);
+            checkedSeconds = since(tCheck);
+            const double margin = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
+                                                     : wo.minGain.value;
+            const auto bound = static_cast<std::size_t>(std::max(wo.depthBound, static_cast<int>(er.after.depth)));
+            const bool over =
+                m.depth > bound || static_cast<double>(m.gates) > static_cast<double>(er.after.gates) + margin;
+            emit::NamingDecision d;
+            d.form = "written file";
+            d.kept = !over;
+            d.gates = m.gates;
+            d.depth = m.depth;
+            d.reason = over ? fmt::format("the file with names reads back at {} gates, depth {}: over the depth bound {} "
+                                          "or the engine's {} gates plus the --min-gain margin; written by bits",
+                                          m.gates, m.depth, bound, er.after.gates)
+                            : fmt::format("the file with names reads back within the depth bound {} and the engine's "
+                                          "{} gates plus the --min-gain margin", bound, er.after.gates);
+            wr.naming.decisions.push_back(d);
+            if (over) {
+                wr.namingLog += fmt::format("naming: the written file reads back at {} gates, depth {} (bound {}, "
+                                            "bitwise {} gates + margin): written by bits\n", m.gates, m.depth, bound,
+                                            er.after.gates);
+                std::string why = std::move(wr.namingLog);
+                emit::NamingRecord record = std::move(wr.naming);
+                emit::WriteOptions bits = wo;
+                bits.names = false;
+                wr = emit::writeModule(wi, bits);
+                wr.namingLog = std::move(why);
+                wr.naming = std::move(record);
+                work = std::make_unique<io::WorkDir>();
+            } else {
+                checked.emplace(std::move(w), m);
+            }
         }
+    };
+    writeChecked();
+    // Idempotence (F195): a regroup costs up to its margin more gates than the engine, and kerf
+    // on its own output must change nothing. Where the second run cannot rebuild the regroup (the
+    // first run's new wires are signals of the file then, hiding the vector's bits), its engine
+    // gains those gates back and rewrites. So the written file is run once more, as a user would;
+    // when that run would rewrite anything, the engine's network is written instead.
+    if (beforeRegroup && wr.changed) {
+        stages.begin("second run");   // on the written file; its own reader runs are part of it
+        if (secondRunChanges(opts, file, wr.text)) {
+            low.net = std::move(*beforeRegroup);
+            er.forms = passes::factorNetwork(low.net, er.depthCap, factorCache.get());
+            er.after = er.forms.metrics;
+            checked.reset();
+            work = std::make_unique<io::WorkDir>();
+            writeChecked();
+            if (opts.verbose > 0)
+                std::cerr << fmt::format("slices: kerf on the written file would rewrite it: the engine's network "
+                                         "is written instead ({} gates)\n", er.after.gates);
+        }
+        beforeRegroup.reset();
     }
     if (!wr.changed) proofOriginal.reset();   // nothing to prove
     // What only the engine and the writer needed goes before the rewrite is read back and
@@ -569,7 +661,8 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                             asRead.depth, after.depth));
         } else {
             proofText = "NOT proved (--skip-proof)";
-            std::cerr << "warning: --skip-proof: the rewrite is written without a proof of equivalence\n";
+            if (!opts.secondRun)
+                std::cerr << "warning: --skip-proof: the rewrite is written without a proof of equivalence\n";
             emit::setHeader(wr, fmt::format("{} of {} group{} rewritten, gates {} -> {}, depth {} -> {}, "
                                             "NOT proved (--skip-proof)", groupsReplaced, wr.groups.size(),
                                             wr.groups.size() == 1 ? "" : "s", asRead.gates, after.gates,
@@ -750,7 +843,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     }
     stages.end();   // the last stage, also without --report
     if (opts.verbose > 0) std::cerr << stages.line() << "\n";
-    io::Progress::global().stop();
+    if (!opts.secondRun) io::Progress::global().stop();   // the first run goes on showing it
 
     if (outcome) *outcome = {wr.changed, file, wr.text, wr.changed ? wr.wiresAdded : std::vector<std::string>{}};
     if (opts.noOutput) {

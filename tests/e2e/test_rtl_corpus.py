@@ -21,7 +21,9 @@ A few comment lines at its top say how to run it (a test-harness convention of o
     // kerf-lint: off              Verilator cannot read the original (say why in the case)
     // kerf-vectors: N             random vectors when the inputs are too wide for all of them
 
-For every define set D and variant F, kerf restructures the module; then, for every define set
+For every define set D and variant F, kerf restructures the module (the first D and F's rewrite is
+restructured once more under the default --min-gain, which must change nothing: idempotence);
+then, for every define set
 D2 and parameter set P (a rewrite must be right for every build of the file, not just the one it
 was made under), the original and the rewrite are compared by
 - Icarus Verilog (outside reference, four-valued simulation): every output bit, and every bit
@@ -115,6 +117,7 @@ KINDS = {
     "guard": "a rewrite pinned with --param still builds with another value",
     "layout": "a line kerf wrote is longer than 100 columns",
     "names": "a name kerf gave a new wire is over the cap (26 characters) or not declared exactly once",
+    "idempotence": "kerf (default --min-gain) on its own rewrite of the first build would rewrite it again",
     "equiv": "kerf equiv gives a verdict that Icarus Verilog contradicts",
     "equiv-error": "kerf equiv fails instead of giving a verdict",
 }
@@ -318,6 +321,29 @@ def restructure(kerf, run, work, defs, flags, tag, extra=()):
     return out, what
 
 
+def check_idempotent(kerf, run, out, defs, flags, what):
+    """kerf on its own output changes nothing (issue 10; F195): the rewrite, restructured again
+    under the default --min-gain, is left as it is (`--check` exits 0; 1 means it would rewrite).
+    Issue 10's requirement; a second run being a no-op is common trade practice for source
+    rewriters. The rewrite was made under --min-gain 0, so every group kerf would rewrite at all
+    is already rewritten: a second run that still finds a group worth --min-gain is not at a
+    fixed point.
+    No proof is needed: a run that changes nothing has nothing to prove."""
+    c = run.case
+    if open(out, "rb").read() == open(c.path, "rb").read():
+        return   # nothing rewritten: nothing of kerf's to run on
+    r = K.run([kerf, "restructure", *c.with_files, out, "--top", c.top, *idirs(c), *dflags(defs), *flags,
+               *RUN_ARGS, "--check", "--skip-proof"])
+    if r.returncode == 1:
+        said = [l for l in r.stderr.splitlines() if "would restructure" in l]
+        run.problem("idempotence", f"{what}: kerf on its own rewrite would rewrite it again: "
+                                   f"{(said or [r.stderr.strip()[-300:]])[0]}")
+    elif r.returncode != 0:
+        run.problem("internal", f"{what}: kerf on its own rewrite: exit {r.returncode}: {r.stderr.strip()[-2000:]}")
+    else:
+        run.notes.append(f"{what}: kerf on its own rewrite changes nothing")
+
+
 def run_restructure_case(kerf, run, work):
     c = run.case
     n = 0
@@ -327,6 +353,8 @@ def run_restructure_case(kerf, run, work):
             out, what = restructure(kerf, run, work, defs, flags, f"v{n}")
             if out is None:
                 continue
+            if n == 1:
+                check_idempotent(kerf, run, out, defs, flags, what)
             exact = "--keep-x" in flags
             for defs2 in c.define_sets:
                 for params in c.param_sets:

@@ -24,6 +24,11 @@ struct SliceRegroupLimits {
     /// ... or this share of the engine's gates, whichever is larger (EPFL-sized designs move
     /// by at most 2%).
     double extraShare = 0.02;
+    /// Up to this many engine gates, a kept regroup is checked by running kerf once more on the
+    /// written file (flows.cpp): when that second run would rewrite anything, the engine's
+    /// network is written instead (F195). Above it the check would cost a second engine run, so
+    /// the margin is capped below --min-gain instead: a second run cannot gain the margin back.
+    std::size_t checkGates = 20000;
 };
 
 /// What the regrouping did (for `-v`).
@@ -40,8 +45,9 @@ struct SliceRegroupResult {
 /// slice is common to several; the rest of the product keeps its signals. Kept only within
 /// `depthBound` and the gate margin of the engine's figures `engine`; otherwise `low.net` is
 /// left as it was. `forms` is recomputed when kept.
+/// `maxExtra` (>= 0) caps the gate margin (see SliceRegroupLimits::checkGates).
 SliceRegroupResult regroupSlices(frontend::Lowered& low, passes::FactoredNetwork& forms, int depthCap,
                                  std::size_t depthBound, passes::FactorCache* cache,
-                                 const SliceRegroupLimits& limits = {});
+                                 const SliceRegroupLimits& limits = {}, double maxExtra = -1);
 
 } // namespace kerf::emit

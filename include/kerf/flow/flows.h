@@ -39,6 +39,9 @@ struct RestructureOptions {
     bool keepX = false;              ///< --keep-x: statements whose value can be x stay as written
     bool allModules = false;         ///< --all-modules: every module of the files (restructureAll)
     bool noOutput = false;           ///< write nothing, exit 0 (kerf draw takes the text from the outcome)
+    /// Internal: this run is the check of another run's written file (the slice regroup's
+    /// second run, F195): it does not check its own regroup again.
+    bool secondRun = false;
 };
 
 /// What a run of `restructure` produced, for callers that go on with it.
