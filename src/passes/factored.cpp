@@ -163,6 +163,45 @@ thread_local std::vector<std::size_t> tReqTimes;                    // per level
 thread_local std::vector<std::pair<std::size_t, std::size_t>> tHeap; // (time, group)
 thread_local std::vector<std::size_t> tTreeOf, tParent;             // group -> its merge-tree node; tree parents
 
+/// Appends the depth below `f` (an AND or OR) of each of its kids to tReqTimes, from `base`
+/// on: the kids merged two at a time, earliest arrivals first, as the form is measured.
+void kidDepths(const Factored& f, const std::vector<std::size_t>& at, std::size_t base) {
+    const std::size_t k = f.kids.size();
+    for (const Factored& kid : f.kids) tReqTimes.push_back(formArrival(kid, at));
+    if (k <= 1) {
+        if (k == 1) tReqTimes[base] = 0;
+        return;
+    }
+    // Merge tree: leaves 0..k-1, merges k..2k-2 (a parent comes after its children).
+    tHeap.clear();
+    tTreeOf.resize(k);
+    tParent.assign(2 * k - 1, 0);
+    for (std::size_t i = 0; i < k; ++i) {
+        tHeap.push_back({tReqTimes[base + i], i});
+        std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+        tTreeOf[i] = i;
+    }
+    std::size_t next = k;
+    while (tHeap.size() > 1) {
+        std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+        const auto [ta, ga] = tHeap.back();
+        tHeap.pop_back();
+        std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+        const auto [tb, gb] = tHeap.back();
+        tHeap.pop_back();
+        tParent[tTreeOf[ga]] = next;
+        tParent[tTreeOf[gb]] = next;
+        tTreeOf[ga] = next++;
+        tHeap.push_back({std::max(ta, tb) + 1, ga});
+        std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
+    }
+    // Depth of every tree node below the root (2k-2), parents first.
+    std::vector<std::size_t>& depth = tTreeOf;   // reused: groups are no longer needed
+    depth.assign(2 * k - 1, 0);
+    for (std::size_t i = 2 * k - 2; i-- > 0;) depth[i] = depth[tParent[i]] + 1;
+    for (std::size_t i = 0; i < k; ++i) tReqTimes[base + i] = depth[i];
+}
+
 void pushRequired(const Factored& f, long required, const std::vector<std::size_t>& at, std::vector<long>& rt) {
     switch (f.kind) {
     case Factored::Kind::Zero:
@@ -174,45 +213,9 @@ void pushRequired(const Factored& f, long required, const std::vector<std::size_
         return;
     }
     default: {
-        const std::size_t k = f.kids.size();
         const std::size_t base = tReqTimes.size();
-        for (const Factored& kid : f.kids) {
-            const std::size_t a = formArrival(kid, at);
-            tReqTimes.push_back(a);
-        }
-        if (k > 1) {
-            // Merge tree: leaves 0..k-1, merges k..2k-2 (a parent comes after its children).
-            tHeap.clear();
-            tTreeOf.resize(k);
-            tParent.assign(2 * k - 1, 0);
-            for (std::size_t i = 0; i < k; ++i) {
-                tHeap.push_back({tReqTimes[base + i], i});
-                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-                tTreeOf[i] = i;
-            }
-            std::size_t next = k;
-            while (tHeap.size() > 1) {
-                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-                const auto [ta, ga] = tHeap.back();
-                tHeap.pop_back();
-                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-                const auto [tb, gb] = tHeap.back();
-                tHeap.pop_back();
-                tParent[tTreeOf[ga]] = next;
-                tParent[tTreeOf[gb]] = next;
-                tTreeOf[ga] = next++;
-                tHeap.push_back({std::max(ta, tb) + 1, ga});
-                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-            }
-            // Depth of every tree node below the root (2k-2), parents first.
-            std::vector<std::size_t>& depth = tTreeOf;   // reused: groups are no longer needed
-            depth.assign(2 * k - 1, 0);
-            for (std::size_t i = 2 * k - 2; i-- > 0;) depth[i] = depth[tParent[i]] + 1;
-            for (std::size_t i = 0; i < k; ++i) tReqTimes[base + i] = depth[i];
-        } else {
-            tReqTimes[base] = 0;
-        }
-        for (std::size_t i = 0; i < k; ++i)
+        kidDepths(f, at, base);
+        for (std::size_t i = 0; i < f.kids.size(); ++i)
             pushRequired(f.kids[i], required - static_cast<long>(tReqTimes[base + i]), at, rt);
         tReqTimes.resize(base);
     }
@@ -232,43 +235,9 @@ void leafDepths(const Factored& f, std::size_t below, const std::vector<std::siz
         out.push_back({literalVar(f.lit), static_cast<std::uint32_t>(below)});
         return;
     default: {
-        const std::size_t k = f.kids.size();
         const std::size_t base = tReqTimes.size();
-        for (const Factored& kid : f.kids) {
-            const std::size_t a = formArrival(kid, at);
-            tReqTimes.push_back(a);
-        }
-        if (k > 1) {
-            tHeap.clear();
-            tTreeOf.resize(k);
-            tParent.assign(2 * k - 1, 0);
-            for (std::size_t i = 0; i < k; ++i) {
-                tHeap.push_back({tReqTimes[base + i], i});
-                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-                tTreeOf[i] = i;
-            }
-            std::size_t next = k;
-            while (tHeap.size() > 1) {
-                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-                const auto [ta, ga] = tHeap.back();
-                tHeap.pop_back();
-                std::pop_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-                const auto [tb, gb] = tHeap.back();
-                tHeap.pop_back();
-                tParent[tTreeOf[ga]] = next;
-                tParent[tTreeOf[gb]] = next;
-                tTreeOf[ga] = next++;
-                tHeap.push_back({std::max(ta, tb) + 1, ga});
-                std::push_heap(tHeap.begin(), tHeap.end(), std::greater<>());
-            }
-            std::vector<std::size_t>& depth = tTreeOf;
-            depth.assign(2 * k - 1, 0);
-            for (std::size_t i = 2 * k - 2; i-- > 0;) depth[i] = depth[tParent[i]] + 1;
-            for (std::size_t i = 0; i < k; ++i) tReqTimes[base + i] = depth[i];
-        } else {
-            tReqTimes[base] = 0;
-        }
-        for (std::size_t i = 0; i < k; ++i) leafDepths(f.kids[i], below + tReqTimes[base + i], at, out);
+        kidDepths(f, at, base);
+        for (std::size_t i = 0; i < f.kids.size(); ++i) leafDepths(f.kids[i], below + tReqTimes[base + i], at, out);
         tReqTimes.resize(base);
     }
     }
