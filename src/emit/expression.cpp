@@ -62,36 +62,72 @@ bool xorForm(const Factored& f, Literal& x, Literal& y, bool& inverted) { return
 
 namespace {
 
-/// In a sum of more than two terms, the pairs of two-literal products that form an exclusive or
-/// (`x & ~y | ~x & y`, or its complement), so that `t | (a ^ b)` is not printed as three products.
-std::vector<std::pair<std::size_t, std::size_t>> xorPairs(const Factored& f) {
-    std::vector<std::pair<std::size_t, std::size_t>> pairs;
-    if (f.kind != K::Or || f.kids.size() <= 2) return pairs;
-    // Products of two literals of different variables, keyed by their variable pair.
-    std::map<std::pair<Literal, Literal>, std::vector<std::size_t>> byVars;
+/// Two products of a sum that form an exclusive or, with what they share:
+/// `P & x & ~y | P & ~x & y` (or its complement) is `P & (x ^ y)`, P empty for two literals.
+struct XorPair {
+    std::size_t i = 0, j = 0;        ///< the products' places in the sum, i < j
+    std::vector<Literal> common;      ///< P, in kid i's order
+    Literal xi = 0, yi = 0, xj = 0, yj = 0;   ///< the two literals where i and j differ
+};
+
+/// Most products of one variable set compared pair by pair; a larger set (a decoder's products
+/// over one opcode) is left alone, so the search stays linear in the sum's size.
+constexpr std::size_t kXorGroupLimit = 64;
+
+/// In a sum, the pairs of products that differ in the polarity of exactly two variables and
+/// agree on the rest, so that `t | (a ^ b)` is not printed as three products and
+/// `P & x & ~y | P & ~x & y` reads `P & (x ^ y)`. Products are ANDs of literals only.
+std::vector<XorPair> xorPairs(const Factored& f) {
+    std::vector<XorPair> pairs;
+    if (f.kind != K::Or || f.kids.size() < 2) return pairs;
+    // Products keyed by their variables (each product's literals sorted by variable).
+    std::map<std::vector<Literal>, std::vector<std::size_t>> byVars;
+    std::vector<std::vector<Literal>> sorted(f.kids.size());
     for (std::size_t i = 0; i < f.kids.size(); ++i) {
         const Factored& g = f.kids[i];
-        if (g.kind != K::And || g.kids.size() != 2 || g.kids[0].kind != K::Lit || g.kids[1].kind != K::Lit) continue;
-        Literal a = g.kids[0].lit & ~1u, b = g.kids[1].lit & ~1u;
-        if (a == b || literalVar(a) == 0 || literalVar(b) == 0) continue;
-        byVars[{std::min(a, b), std::max(a, b)}].push_back(i);
+        if (g.kind != K::And || g.kids.size() < 2) continue;
+        std::vector<Literal> lits;
+        bool ok = true;
+        for (const auto& k : g.kids) {
+            if (k.kind != K::Lit || literalVar(k.lit) == 0) { ok = false; break; }
+            lits.push_back(k.lit);
+        }
+        if (!ok) continue;
+        std::sort(lits.begin(), lits.end());
+        std::vector<Literal> vars;
+        for (Literal l : lits) vars.push_back(l & ~1u);
+        if (std::adjacent_find(vars.begin(), vars.end()) != vars.end()) continue;
+        sorted[i] = std::move(lits);
+        byVars[std::move(vars)].push_back(i);
     }
     std::vector<std::uint8_t> used(f.kids.size(), 0);
-    for (const auto& [vars, idx] : byVars)
+    for (const auto& [vars, idx] : byVars) {
+        if (vars.size() > 2 && idx.size() > kXorGroupLimit) continue;
         for (std::size_t p = 0; p < idx.size(); ++p)
             for (std::size_t q = p + 1; q < idx.size(); ++q) {
                 std::size_t i = idx[p], j = idx[q];
                 if (used[i] || used[j]) continue;
-                Factored two;
-                two.kind = K::Or;
-                two.kids = {f.kids[i], f.kids[j]};
-                Literal x, y;
-                bool inv;
-                if (!xorShape(two, x, y, inv)) continue;
+                const auto &a = sorted[i], &b = sorted[j];
+                std::vector<std::size_t> diff;
+                for (std::size_t k = 0; k < a.size() && diff.size() <= 2; ++k)
+                    if (a[k] != b[k]) diff.push_back(k);
+                if (diff.size() != 2) continue;
                 used[i] = used[j] = 1;
-                pairs.push_back({std::min(i, j), std::max(i, j)});
+                XorPair x;
+                x.i = std::min(i, j);
+                x.j = std::max(i, j);
+                const auto &first = sorted[x.i], &second = sorted[x.j];
+                x.xi = first[diff[0]];
+                x.yi = first[diff[1]];
+                x.xj = second[diff[0]];
+                x.yj = second[diff[1]];
+                // P in the written order of the first product.
+                for (const auto& k : f.kids[x.i].kids)
+                    if (k.lit != x.xi && k.lit != x.yi) x.common.push_back(k.lit);
+                pairs.push_back(std::move(x));
             }
-    std::sort(pairs.begin(), pairs.end());
+    }
+    std::sort(pairs.begin(), pairs.end(), [](const XorPair& a, const XorPair& b) { return a.i < b.i; });
     return pairs;
 }
 
@@ -322,20 +358,45 @@ int ExprBuilder::costLit(Literal l) {
 }
 
 const Factored* ExprBuilder::xorGrouped(const Factored& f) {
-    if (f.kind != K::Or || f.kids.size() <= 2 || comparisons(f)) return nullptr;
+    if (f.kind != K::Or || f.kids.size() < 2 || comparisons(f)) return nullptr;
     if (auto it = regroupedOf_.find(&f); it != regroupedOf_.end()) return it->second;
     const Factored* out = nullptr;
     auto pairs = xorPairs(f);
-    if (!pairs.empty()) {
+    // A sum of two products that already is an exclusive or is written by build itself.
+    bool shared = std::any_of(pairs.begin(), pairs.end(), [](const XorPair& x) { return !x.common.empty(); });
+    if (!pairs.empty() && (f.kids.size() > 2 || shared)) {
         Factored g;
         g.kind = K::Or;
         std::vector<std::uint8_t> inPair(f.kids.size(), 0);
-        for (auto [i, j] : pairs) {
+        for (const auto& x : pairs) {
             Factored two;
             two.kind = K::Or;
-            two.kids = {f.kids[i], f.kids[j]};
-            g.kids.push_back(std::move(two));
-            inPair[i] = inPair[j] = 1;
+            if (x.common.empty()) {
+                two.kids = {f.kids[x.i], f.kids[x.j]};
+                g.kids.push_back(std::move(two));
+            } else {
+                auto product = [](Literal a, Literal b) {
+                    Factored p;
+                    p.kind = K::And;
+                    p.kids.resize(2);
+                    p.kids[0].kind = p.kids[1].kind = K::Lit;
+                    p.kids[0].lit = a;
+                    p.kids[1].lit = b;
+                    return p;
+                };
+                two.kids = {product(x.xi, x.yi), product(x.xj, x.yj)};
+                Factored both;
+                both.kind = K::And;
+                for (Literal l : x.common) {
+                    Factored lit;
+                    lit.kind = K::Lit;
+                    lit.lit = l;
+                    both.kids.push_back(std::move(lit));
+                }
+                both.kids.push_back(std::move(two));
+                g.kids.push_back(std::move(both));
+            }
+            inPair[x.i] = inPair[x.j] = 1;
         }
         for (std::size_t i = 0; i < f.kids.size(); ++i)
             if (!inPair[i]) g.kids.push_back(f.kids[i]);

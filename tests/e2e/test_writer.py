@@ -2133,5 +2133,69 @@ def _(t):
     t.res.check(not added, f"Verilator -Wall: no new warning: {added}\n{raw[-800:]}")
 
 
+def _top_level(expr, op):
+    """`expr` split at `op` outside parentheses and braces."""
+    parts, depth, cur = [], 0, ""
+    for ch in expr:
+        if ch in "({[":
+            depth += 1
+        elif ch in ")}]":
+            depth -= 1
+        if ch == op and depth == 0:
+            parts.append(cur.strip())
+            cur = ""
+        else:
+            cur += ch
+    parts.append(cur.strip())
+    return parts
+
+
+def _expanded_xors(text):
+    """Sums in the written statements with two products of plain literals that differ only in
+    the polarity of two of them (`P & x & ~y | P & ~x & y`): an exclusive or written out."""
+    found = []
+    for stmt in re.findall(r"^\s*(?:assign\s+|wire\s+)?[\w.\[\]:]+\s*=\s*(.*?);", text, re.M | re.S):
+        sums = [stmt] + re.findall(r"\(([^()]*)\)", stmt)
+        for expr in sums:
+            products = []
+            for term in _top_level(" ".join(expr.split()), "|"):
+                term = term[1:-1] if term.startswith("(") and term.endswith(")") else term
+                lits = _top_level(term, "&")
+                if len(lits) < 2 or not all(re.fullmatch(r"~?[\w.]+(\[\d+\])?", l) for l in lits):
+                    continue
+                products.append({(l.lstrip("~"), l.startswith("~")) for l in lits})
+            for i in range(len(products)):
+                for j in range(i + 1, len(products)):
+                    a, b = products[i], products[j]
+                    if len(a) != len(b) or {v for v, _ in a} != {v for v, _ in b}:
+                        continue
+                    if len(a - b) == 2:
+                        found.append(expr.strip())
+    return found
+
+
+@S.case("exclusive_or_with_shared_condition", needs=("verilator",))
+def _(t):
+    """Issue 10 (logic that reads well, F191): a sum whose products `P & x & ~y` and `P & ~x & y`
+    share the condition P is written `P & (x ^ y)`, never as the two products. The invented ALU of
+    tests/rtl/alu_enum_ops.sv (an exclusive-or item in a `unique case` over an enum) is the
+    input; its function is checked by the corpus case of the same name (Verilator simulation),
+    here Verilator -Wall adds no warning and the proof holds."""
+    rtl = os.path.join(t.root, "tests", "rtl")
+    files = [os.path.join(rtl, "include", "alu_ops_pkg.sv"), os.path.join(rtl, "alu_enum_ops.sv")]
+    out = os.path.join(t.work, "alu_enum_ops.sv")
+    r = K.run([t.kerf, "restructure", *files, "--top", "alu_enum_ops", "-o", out])
+    if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr, f"restructured and proved: {r.stderr[-800:]}"):
+        return
+    text = open(out).read()
+    t.res.check("^" in text, f"an exclusive or is written as one:\n{text}")
+    bad = _expanded_xors(text)
+    t.res.check(not bad, f"no exclusive or written as two products: {bad}\n{text}")
+    _, before, _ = O.lint(files, "alu_enum_ops")
+    _, after, raw = O.lint([files[0], out], "alu_enum_ops")
+    added = O.new_warnings(before, after)
+    t.res.check(not added, f"Verilator -Wall: no new warning: {added}\n{raw[-800:]}")
+
+
 if __name__ == "__main__":
     S.main()
