@@ -2781,6 +2781,27 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
     return out;
 }
 
+namespace {
+
+/// A constant operand's bits (most significant first) as a sized literal a reviewer reads at
+/// once: binary up to 8 bits, hexadecimal above (`32'h1`, `24'hffffff`), never 32 binary digits.
+std::string constantText(const std::string& bits) {
+    if (bits.size() <= 8) return fmt::format("{}'b{}", bits.size(), bits);
+    std::string hex;
+    for (std::size_t end = bits.size(); end > 0;) {
+        std::size_t begin = end >= 4 ? end - 4 : 0;
+        int v = 0;
+        for (std::size_t k = begin; k < end; ++k) v = v * 2 + (bits[k] == '1');
+        hex.insert(hex.begin(), "0123456789abcdef"[v]);
+        end = begin;
+    }
+    std::size_t first = hex.find_first_not_of('0');
+    hex = first == std::string::npos ? "0" : hex.substr(first);
+    return fmt::format("{}'h{}", bits.size(), hex);
+}
+
+} // namespace
+
 std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t>& bits, int width) {
     if (static_cast<int>(bits.size()) != width || width < 1) return std::nullopt;
     struct Piece {
@@ -2788,6 +2809,7 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
         int lo = 0, n = 0;             // ref: offsets [lo, lo + n); constant: bits in `value` (msb first)
         std::string value;
         std::string expr;              // a complemented name (`~v[11]`), printed as it stands
+        bool neg = false;              // ref: the slice read complemented (`~a[7:0]`)
     };
     std::vector<Piece> pieces;   // most significant first
     for (int k = width - 1; k >= 0; --k) {
@@ -2801,31 +2823,34 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
             continue;
         }
         if (e.kind != PExpr::Kind::Ref || !e.ref) return std::nullopt;
-        if (e.neg) {
+        const VarRef* r = e.ref;
+        if (e.neg && (r->signal.empty() || !r->module)) {
             // One complemented name stays one element (`{3'b000, ~v[11]}`): a bit statement
             // per constant bit of the operand would be padding a reviewer has to read past.
             pieces.push_back({nullptr, 0, 0, {}, flatText(e)});
             continue;
         }
-        const VarRef* r = e.ref;
+        // Neighbouring bits of one signal, in order and of one polarity, are one slice:
+        // `~a[7], ~a[6], ..., ~a[0]` is `~a[7:0]` (or `~a`).
         if (!pieces.empty() && pieces.back().ref && !r->signal.empty() && pieces.back().ref->signal == r->signal &&
-            pieces.back().lo == r->offset + 1) {
+            pieces.back().lo == r->offset + 1 && pieces.back().neg == e.neg) {
             pieces.back().lo = r->offset;
             ++pieces.back().n;
             continue;
         }
-        pieces.push_back({r, r->offset, 1, {}, {}});
+        pieces.push_back({r, r->offset, 1, {}, {}, e.neg});
     }
     std::vector<std::string> texts;
     for (const auto& p : pieces) {
         if (!p.expr.empty()) {
             texts.push_back(p.expr);
         } else if (!p.ref) {
-            texts.push_back(fmt::format("{}'b{}", p.value.size(), p.value));
+            texts.push_back(constantText(p.value));
         } else if (p.ref->signal.empty()) {
             texts.push_back(p.ref->text);
         } else if (p.ref->module) {
-            texts.push_back(frontend::referenceText(*p.ref->module, p.ref->signal, p.lo, p.n));
+            std::string t = frontend::referenceText(*p.ref->module, p.ref->signal, p.lo, p.n);
+            texts.push_back(p.neg ? "~" + t : t);
         } else {
             auto gw = generatedWidths().find(p.ref->signal);
             // A generated operand's width is in generatedWidths; a family of wires
@@ -2841,6 +2866,8 @@ std::optional<std::string> Writer::inlineOperand(const std::map<int, std::size_t
         // A part select or a constant is unsigned; a whole name might be declared signed.
         const std::string& t = texts[0];
         const Piece& p = pieces[0];
+        // A complement is braced: in the operation's wider context `~v` would widen first.
+        if (p.neg) return "{" + t + "}";
         bool generated = p.ref && !p.ref->module && !p.ref->signal.empty();
         if (!t.empty() && p.expr.empty() && (generated || t.back() == ']' || t.find('\'') != std::string::npos))
             return t;
