@@ -301,6 +301,14 @@ std::optional<std::size_t> oldHeaderLines(const std::string& s, std::size_t ls, 
     const std::string tag = "// kerf: ";
     if (s.compare(p, tag.size(), tag) != 0) return std::nullopt;
     p += tag.size();
+    // The header as the writer first writes it, before the flow fills in the figures: what a
+    // run on the text about to be written sees (F235).
+    const std::string placeholder = "restructured logic";
+    if (s.compare(p, placeholder.size(), placeholder) == 0) {
+        std::size_t q = p + placeholder.size();
+        while (q < le && (s[q] == '\r' || s[q] == '\n')) ++q;
+        if (q == le) return le;
+    }
     auto digits = [&]() {
         std::size_t q = p;
         while (q < le && std::isdigit(static_cast<unsigned char>(s[q]))) ++q;

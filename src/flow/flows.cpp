@@ -82,9 +82,9 @@ nlohmann::json stagesJson(const io::StageLog& log) {
 frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bitBlast, const std::string& prefix,
                           const std::set<std::string>* only = nullptr, const std::vector<std::string>& keep = {},
                           bool keepX = false, const std::map<int, std::string>& kept = {},
-                          const std::string& lintOnly = "") {
+                          const std::vector<std::string>& lintOnly = {}) {
     frontend::LowerOptions lo;
-    if (!lintOnly.empty()) lo.lintOnly.push_back(lintOnly);
+    lo.lintOnly = lintOnly;
     lo.keepX = keepX;
     lo.keptMembers = kept;
     lo.bitBlastArithmetic = bitBlast;
@@ -175,12 +175,19 @@ StatsResult stats(const frontend::ReadOptions& read, bool dissolveInternal) {
 
 namespace {
 
-/// Whether kerf on `text`, the written file holding the module (read from `file`), would
-/// rewrite it: the same options, nothing written, no proof (a run that changes nothing proves
-/// nothing either). Any failure counts as a change.
-bool secondRunChanges(const RestructureOptions& opts, const std::string& file, const std::string& text) {
-    io::WorkDir dir;
-    const std::string path = dir.add(std::filesystem::path(file).filename().string(), text);
+/// kerf once more on the text a run is about to write (F195, F235): the same options, nothing
+/// written, no proof. `written` is that text as the run read it back, from `path` (the run's
+/// private copy standing for `file`); it is not read again. A run that keeps nothing of it is a
+/// fixed point; otherwise its outcome holds the text it would write.
+struct OwnOutputCheck {
+    bool failed = false;    ///< the run stopped (its message is not shown): nothing to adopt
+    bool changed = false;   ///< it would rewrite the text by at least --min-gain
+    RestructureOutcome next;
+};
+
+OwnOutputCheck checkOwnOutput(const RestructureOptions& opts, const std::string& file, const std::string& path,
+                              const frontend::ModuleDesc& written, const std::map<std::string, std::string>& keptKeys) {
+    OwnOutputCheck r;
     RestructureOptions o = opts;
     bool found = false;
     for (auto& f : o.read.files) {
@@ -193,7 +200,10 @@ bool secondRunChanges(const RestructureOptions& opts, const std::string& file, c
             found = true;
         }
     }
-    if (!found) return true;
+    if (!found) {
+        r.failed = true;
+        return r;
+    }
     // Includes relative to the original file's folder must still resolve.
     o.read.includeDirs.push_back(std::filesystem::path(file).parent_path().empty()
                                      ? "."
@@ -209,14 +219,19 @@ bool secondRunChanges(const RestructureOptions& opts, const std::string& file, c
     o.skipProof = true;
     o.noOutput = true;
     o.secondRun = true;
-    RestructureOutcome oc;
+    o.preRead = &written;
+    o.keptKeys = keptKeys;
+    // Under --min-gain 0 a rewrite as large as the text it replaces is no gain to adopt (a second
+    // run would only reshuffle it, F154): the check asks for a gate at least.
+    if (emit::MinGain::parse(o.minGain).value == 0) o.minGain = "1";
     try {
-        if (restructure(o, &oc) != 0) return true;
+        if (restructure(o, &r.next) != 0) r.failed = true;
     } catch (const Error& e) {
         if (e.code() == ExitCode::Resources || e.code() == ExitCode::ToolMissing) throw;
-        return true;
+        r.failed = true;
     }
-    return oc.changed;
+    r.changed = !r.failed && r.next.changed;
+    return r;
 }
 
 } // namespace
@@ -234,14 +249,20 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     io::StageLog stages;
     auto t0 = Clock::now();
     stages.begin("read");
-    frontend::ModuleDesc desc = frontend::readModule(opts.read);
+    frontend::ModuleDesc desc = opts.preRead ? *opts.preRead : frontend::readModule(opts.read);
     double readSeconds = since(t0);
-    {
+    if (!opts.preRead) {
         io::ReaderOutput rf = io::lastReaderFigures();
         stages.addChild("reader", rf.seconds, rf.peakRssKb, rf.cpuSeconds);
     }
     stages.begin("lower");
-    frontend::Lowered low = lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX);
+    // A check of another run's written file keeps what that run's proof agreed to keep (F235).
+    std::map<int, std::string> keptAhead;
+    for (const auto& m : desc.members)
+        if (auto it = opts.keptKeys.find(m.matchKey); !m.matchKey.empty() && it != opts.keptKeys.end())
+            keptAhead.emplace(m.id, it->second);
+    frontend::Lowered low =
+        lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX, keptAhead);
     // The original as the proof sees it (arithmetic as gates), lowered once: the last probe
     // below when it was lowered with the kept members finally agreed on.
     std::optional<frontend::Lowered> proofOriginal;
@@ -319,6 +340,8 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     // The engine's network before the slice regroup, while the regroup is to be checked by a
     // second run on the written file (F195).
     std::optional<net::Network> beforeRegroup;
+    // Small enough for kerf to run once more on the text it is about to write (F195, F235).
+    const bool ownCheckable = !opts.secondRun && er.after.gates <= emit::SliceRegroupLimits{}.checkGates;
     {
         // One vector's bits in an output's product read as one comparison, within a stated margin
         // of the engine's gates (F168; emit/slice_regroup.cpp).
@@ -328,7 +351,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         const emit::SliceRegroupLimits rl;
         // Small enough to check by a second run; otherwise a margin a second run cannot gain back.
         // (A second run itself regroups as any run would, unchecked.)
-        const bool checkable = er.after.gates <= rl.checkGates && !opts.secondRun;
+        const bool checkable = ownCheckable;
         double maxExtra = -1;
         if (er.after.gates > rl.checkGates) {
             const double gain = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
@@ -388,8 +411,17 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                 desc.name, what, why, dir), {}, ExitCode::Internal);
     };
     // Read `text` back (into `written`) and measure it.
+    std::string writtenPath;                 // the private copy readBack read last
+    std::vector<std::string> earlierUnused;  // unused-bits wires of texts adopted from a rerun (F235)
+    auto lintWires = [&]() {
+        std::vector<std::string> v = earlierUnused;
+        if (!wr.unusedWire.empty() && std::find(v.begin(), v.end(), wr.unusedWire) == v.end())
+            v.push_back(wr.unusedWire);
+        return v;
+    };
     auto readBack = [&](const std::string& text, frontend::ModuleDesc& written) {
         std::string rewritten = work->add(std::filesystem::path(file).filename().string(), text);
+        writtenPath = rewritten;
         back = opts.read;
         // The rewritten file replaces the one that holds the module; a proof that
         // silently read the original twice would prove nothing, so insist on a match.
@@ -419,7 +451,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         frontend::Lowered writtenLow;
         try {
             writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX,
-                                 keptByKey(desc, agreedKept, written), wr.unusedWire);
+                                 keptByKey(desc, agreedKept, written), lintWires());
         } catch (const Error& e) {
             ownFault(e, "lower");
         }
@@ -471,24 +503,96 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         }
     };
     writeChecked();
-    // Idempotence (F195): a regroup costs up to its margin more gates than the engine, and kerf
-    // on its own output must change nothing. Where the second run cannot rebuild the regroup (the
-    // first run's new wires are signals of the file then, hiding the vector's bits), its engine
-    // gains those gates back and rewrites. So the written file is run once more, as a user would;
-    // when that run would rewrite anything, the engine's network is written instead.
-    if (beforeRegroup && wr.changed) {
-        stages.begin("second run");   // on the written file; its own reader runs are part of it
-        if (secondRunChanges(opts, file, wr.text)) {
-            low.net = std::move(*beforeRegroup);
-            er.forms = passes::factorNetwork(low.net, er.depthCap, factorCache.get());
-            er.after = er.forms.metrics;
+    // Idempotence by construction (F235): kerf on its own output must change nothing. The engine's
+    // result depends on where it starts (the input's nodes or the written file's, F71, F94) and on
+    // its don't-care budget (F196), and a regroup costs up to its margin more gates than the
+    // engine (F195). So kerf runs once more on the text it is about to write, as a user would
+    // (same options, no proof), on the reading the proof takes anyway; when that run would rewrite
+    // it by at least --min-gain, its text is written instead, and checked the same way, a
+    // bounded number of times. The final text is proved against the original, with the
+    // original's don't-cares. A kept regroup the rerun would undo gives way to the engine's
+    // network first (F195: the engine's forms are what a rerun rebuilds).
+    struct {
+        int checks = 0, adopted = 0;
+        bool fixedPoint = false;
+        std::string log;
+    } own;
+    constexpr int kOwnRounds = 3;
+    if (ownCheckable && wr.changed) {
+        stages.begin("second run");   // the reading of the written file is the proof's (checkedSeconds)
+        std::map<std::string, std::string> keptKeys;
+        for (const auto& [id, why] : agreedKept)
+            if (id >= 0 && static_cast<std::size_t>(id) < desc.members.size() && !desc.members[id].matchKey.empty())
+                keptKeys.emplace(desc.members[id].matchKey, why);
+        while (wr.changed && own.checks < kOwnRounds) {
+            if (!checked) {
+                frontend::ModuleDesc w;
+                auto tCheck = Clock::now();
+                net::Metrics m = readBack(wr.text, w);
+                checkedSeconds = since(tCheck);
+                checked.emplace(std::move(w), m);
+            }
+            const std::size_t gatesNow = checked->second.gates;
+            OwnOutputCheck c = checkOwnOutput(opts, file, writtenPath, checked->first, keptKeys);
+            ++own.checks;
+            if (!c.failed && !c.changed) {
+                own.fixedPoint = true;
+                break;
+            }
+            if (beforeRegroup) {
+                low.net = std::move(*beforeRegroup);
+                beforeRegroup.reset();
+                er.forms = passes::factorNetwork(low.net, er.depthCap, factorCache.get());
+                er.after = er.forms.metrics;
+                checked.reset();
+                work = std::make_unique<io::WorkDir>();
+                writeChecked();
+                own.log += fmt::format("slices: kerf on the written file would rewrite it: the engine's network is "
+                                       "written instead ({} gates)\n", er.after.gates);
+                continue;
+            }
+            if (c.failed) {
+                // Not kerf's result to adopt; the text stands, proved as any other.
+                own.log += "own output: kerf's run on the written file stopped; the text is written as it is\n";
+                break;
+            }
+            own.log += fmt::format("own output: kerf on the written file would rewrite it ({} -> {} gates): its "
+                                   "rewrite is written instead\n", gatesNow, c.next.gatesAfter);
+            ++own.adopted;
+            if (!wr.unusedWire.empty()) earlierUnused.push_back(wr.unusedWire);
+            wr.text = std::move(c.next.text);
+            wr.headerPos = c.next.headerPos;
+            wr.headerLen = c.next.headerLen;
+            if (!c.next.unusedWire.empty()) {
+                wr.unusedWire = c.next.unusedWire;
+                wr.notRead = c.next.notRead;
+                wr.constantsNotNamed = c.next.constantsNotNamed;
+            }
+            for (const std::string& n : c.next.added)
+                if (std::find(wr.wiresAdded.begin(), wr.wiresAdded.end(), n) == wr.wiresAdded.end())
+                    wr.wiresAdded.push_back(n);
             checked.reset();
             work = std::make_unique<io::WorkDir>();
-            writeChecked();
-            if (opts.verbose > 0)
-                std::cerr << fmt::format("slices: kerf on the written file would rewrite it: the engine's network "
-                                         "is written instead ({} gates)\n", er.after.gates);
         }
+        if (own.adopted > 0) {
+            // A group kept as written that the rerun rewrote after all is reported as rewritten.
+            const std::string asWritten = io::readFile(file);
+            for (auto& g : wr.groups) {
+                if (g.replaced) continue;
+                for (int id : g.members) {
+                    const auto& src = desc.members[static_cast<std::size_t>(id)].src;
+                    if (src.end <= src.start || src.end > asWritten.size()) continue;
+                    if (wr.text.find(asWritten.substr(src.start, src.end - src.start)) == std::string::npos) {
+                        g.replaced = true;
+                        g.reason.clear();
+                        break;
+                    }
+                }
+            }
+        }
+        if (!own.fixedPoint && own.checks == kOwnRounds && !beforeRegroup)
+            own.log += fmt::format("own output: still not a fixed point after {} runs on the written file\n",
+                                   kOwnRounds);
         beforeRegroup.reset();
     }
     if (!wr.changed) proofOriginal.reset();   // nothing to prove
@@ -558,7 +662,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             proofOriginal.reset();
             // The writer's unused wire only reads bits for lint: what it reads may be x.
             frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep,
-                                          opts.keepX, keptByKey(desc, agreedKept, written), wr.unusedWire);
+                                          opts.keepX, keptByKey(desc, agreedKept, written), lintWires());
             io::Progress::global().stage("prove");
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
@@ -673,6 +777,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     if (opts.verbose > 0) {
         std::cerr << passes::formatEngineReport(er);
         std::cerr << wr.namingLog;
+        std::cerr << own.log;
         std::cerr << fmt::format("{:<24} {:>9} {:>8} {:>6} {:>7}\n", "(written file)", after.literals, after.gates,
                                  after.depth, after.nodes);
         for (const auto& g : wr.groups)
@@ -805,6 +910,11 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             {"moves", moveRows},
             {"techniques", techRows},
             {"limits_hit", er.limitsHit},
+            {"own_output", {{"runs", own.checks},
+                            {"rewrites_adopted", own.adopted},
+                            {"fixed_point", !wr.changed ? nlohmann::json("unchanged file")
+                                            : own.checks == 0 ? nlohmann::json("not checked")
+                                                              : nlohmann::json(own.fixedPoint)}}},
             {"proof", wr.changed ? proofJson : nlohmann::json({{"verdict", "not needed: file unchanged"}})},
             {"parameters", [&] {
                  nlohmann::json ps = nlohmann::json::array();
@@ -845,7 +955,20 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     if (opts.verbose > 0) std::cerr << stages.line() << "\n";
     if (!opts.secondRun) io::Progress::global().stop();   // the first run goes on showing it
 
-    if (outcome) *outcome = {wr.changed, file, wr.text, wr.changed ? wr.wiresAdded : std::vector<std::string>{}};
+    if (outcome) {
+        *outcome = RestructureOutcome{};
+        outcome->changed = wr.changed;
+        outcome->file = file;
+        outcome->text = wr.text;
+        if (wr.changed) outcome->added = wr.wiresAdded;
+        outcome->headerPos = wr.headerPos;
+        outcome->headerLen = wr.headerLen;
+        outcome->unusedWire = wr.changed ? wr.unusedWire : std::string();
+        outcome->notRead = wr.notRead;
+        outcome->constantsNotNamed = wr.constantsNotNamed;
+        outcome->gatesBefore = asRead.gates;
+        outcome->gatesAfter = after.gates;
+    }
     if (opts.noOutput) {
         if (!opts.quiet) std::cerr << summary << "\n" << (keptText.empty() ? "" : keptText + "\n");
         return 0;

@@ -4,8 +4,9 @@
 For each case (its first define set and flag set; equivalence cases aside) kerf restructures
 the module twice (the two outputs must be byte-identical: deterministic) and then restructures
 its own output (nothing may change: idempotent). Prints one line per case that is not both, and
-a closing count. Known exceptions are findings F71, F94, F155 and F196 in docs/findings.md
-(listed as `idempotence` in tests/rtl/known-failures.txt, which the corpus driver checks).
+a closing count. Since F235 (kerf runs itself on the text it is about to write and adopts
+that run's rewrite) none is known; the corpus driver checks the same under its kind
+`idempotence` (tests/rtl/known-failures.txt, docs/findings.md F197).
 
     tests/e2e/corpus_idempotence.py --kerf build/kerf --root . [--only SUBSTRING]
 """

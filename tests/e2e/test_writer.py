@@ -493,6 +493,36 @@ def _rerun_one_header(t, case, top):
     t.res.check(ok, f"{top}: the second rewrite simulates like its input (Icarus Verilog): {log}")
 
 
+@S.case("own_output_fixed_point", needs=("iverilog",))
+def _(t):
+    """F235: where kerf's run on the text it is about to write would rewrite it (edge_sem: the
+    engine finds more from the written file's nodes than from the input's, F71; rv_aluctl: its
+    don't-care budget, F196), that run's text is written: the report says so, a run on the
+    written file changes nothing (kerf --check exits 0), the file has one header, and it
+    behaves like the input (Icarus Verilog simulation; kerf's proof is against the input)."""
+    for case, top in (("edge_sem.sv", "edge_sem"), ("rv_aluctl.sv", "rv_aluctl")):
+        src = os.path.join("tests", "rtl", case)
+        d = os.path.join(t.work, top)
+        os.mkdir(d)
+        out, rep = os.path.join(d, case), os.path.join(d, "report.json")
+        r = restructure(t, [src], top, out, "--report", rep)
+        if not t.res.check(r.returncode == 0, f"{top}: restructure: {r.stderr[-800:]}"):
+            continue
+        own = json.load(open(rep))["own_output"]
+        t.res.check(own["rewrites_adopted"] >= 1 and own["fixed_point"] is True and own["runs"] >= 2,
+                    f"{top}: a rerun's text was adopted and the result is a fixed point: {own}")
+        r = K.run([t.kerf, "restructure", out, "--top", top, "--check"])
+        t.res.check(r.returncode == 0, f"{top}: kerf --check on the written file: exit {r.returncode}: "
+                    f"{r.stderr[-800:]}")
+        text = open(out).read()
+        headers = re.findall(r"^\s*// kerf: .*$", text, re.M)
+        t.res.check(len(headers) == 1 and "proved equivalent" in headers[0], f"{top}: one header: {headers}")
+        sim = os.path.join(d, "sim")
+        os.mkdir(sim)
+        ok, log, _ = K.simulate_equal(t.root, [src], top, out, sim, vectors=3000)
+        t.res.check(ok, f"{top}: the written file simulates like the input (Icarus Verilog): {log}")
+
+
 @S.case("rerun_keeps_one_header", needs=("iverilog",))
 def _(t):
     _rerun_one_header(t, "min_block_self_read.sv", "min_block_self_read")

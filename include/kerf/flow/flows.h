@@ -9,6 +9,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include <map>
 #include <optional>
 #include <string>
 #include <vector>
@@ -39,9 +40,15 @@ struct RestructureOptions {
     bool keepX = false;              ///< --keep-x: statements whose value can be x stay as written
     bool allModules = false;         ///< --all-modules: every module of the files (restructureAll)
     bool noOutput = false;           ///< write nothing, exit 0 (kerf draw takes the text from the outcome)
-    /// Internal: this run is the check of another run's written file (the slice regroup's
-    /// second run, F195): it does not check its own regroup again.
+    /// Internal: this run is the check of another run's written file (F195, F235): it neither
+    /// checks its own output again nor proves anything.
     bool secondRun = false;
+    /// Internal, with secondRun: the module as read already (the other run's reading of the
+    /// text it is about to write, whose file is the one of `read.files` it names); not read again.
+    const frontend::ModuleDesc* preRead = nullptr;
+    /// Internal, with secondRun: statements kept as written by their match key (the other run's
+    /// statements kept after its proof's lowering agreed on them), with the reasons.
+    std::map<std::string, std::string> keptKeys;
 };
 
 /// What a run of `restructure` produced, for callers that go on with it.
@@ -50,6 +57,12 @@ struct RestructureOutcome {
     std::string file;       ///< the file holding the module
     std::string text;       ///< that file's proved rewrite (its text as read when unchanged)
     std::vector<std::string> added;   ///< wires kerf added
+    /// The written text's header comment and unused-bits wire (emit::WriteResult's fields), so a
+    /// caller adopting `text` can fill in the header (F235).
+    std::size_t headerPos = 0, headerLen = 0;
+    std::string unusedWire;
+    std::vector<std::string> notRead, constantsNotNamed;
+    std::size_t gatesBefore = 0, gatesAfter = 0;   ///< the module's figures as read and as written
 };
 
 /// Run `kerf restructure`; returns the process exit code. Messages go to stderr.
