@@ -138,6 +138,14 @@ WordOperators countWords(const frontend::Lowered& low) {
     return w;
 }
 
+/// One row of the report's "naming" list.
+nlohmann::json namingRow(const emit::NamingDecision& d) {
+    nlohmann::json row = {{"form", d.form}, {"signal", d.signal}, {"made", d.made}, {"kept", d.kept}, {"reason", d.reason}};
+    if (d.made) row["after"] = {{"gates", d.gates}, {"depth", d.depth}};
+    if (d.form == "comparisons one by one") row["rewrites"] = {{"kept", d.rewritesKept}, {"tried", d.rewritesTried}};
+    return row;
+}
+
 std::string figuresText(const net::Metrics& a, const net::Metrics& b) {
     return fmt::format("gates {} -> {} ({}), literals {} -> {}, depth {} -> {}", a.gates, b.gates,
                        percent(a.gates, b.gates), a.literals, b.literals, a.depth, b.depth);
@@ -257,10 +265,17 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     }
     stages.begin("lower");
     // A check of another run's written file keeps what that run's proof agreed to keep (F235).
+    // So does a run made again with a named-value target's statements kept (F236).
     std::map<int, std::string> keptAhead;
-    for (const auto& m : desc.members)
-        if (auto it = opts.keptKeys.find(m.matchKey); !m.matchKey.empty() && it != opts.keptKeys.end())
+    std::set<int> namedKeptIds;
+    for (const auto& m : desc.members) {
+        if (m.matchKey.empty()) continue;
+        if (auto it = opts.keptKeys.find(m.matchKey); it != opts.keptKeys.end()) keptAhead.emplace(m.id, it->second);
+        if (auto it = opts.namedKept.find(m.matchKey); it != opts.namedKept.end()) {
             keptAhead.emplace(m.id, it->second);
+            namedKeptIds.insert(m.id);
+        }
+    }
     frontend::Lowered low =
         lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX, keptAhead);
     // The original as the proof sees it (arithmetic as gates), lowered once: the last probe
@@ -314,6 +329,15 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     auto factorCache = std::make_unique<passes::FactorCache>();
     passes::FactoredNetwork originalForms = passes::factorNetwork(original, -1, factorCache.get());
     const net::Metrics asRead = originalForms.metrics;
+    // The figures reported count the logic of statements kept for their names (F236) as `kerf
+    // stats` does; the decisions (groups, --min-gain) are made without it, on both sides alike.
+    std::map<int, std::string> keptCounted;
+    for (const auto& [id, why] : keptIn(low))
+        if (!namedKeptIds.count(id)) keptCounted.emplace(id, why);
+    const net::Metrics shownBefore =
+        namedKeptIds.empty() ? asRead
+                             : passes::measureFactored(lowerAs(desc, opts.dissolveInternal, false, lowerPrefix, nullptr,
+                                                               opts.keep, opts.keepX, keptCounted).net);
     const WordOperators words = countWords(low);
 
     stages.begin("restructure");
@@ -503,6 +527,58 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         }
     };
     writeChecked();
+    // A target the source only assigns named values (a next-state register: `state_d = ARB;`)
+    // that the writer would write bit by bit, its choice among the names not fitting the depth
+    // bound or the --min-gain margin, ties the text to today's encoding (F189): its statements
+    // are kept as written instead, and the module is restructured again without them (F236).
+    if (wr.changed && opts.namedKeepRounds < 4) {
+        std::set<std::string> rewritten;
+        for (const auto& g : wr.groups)
+            if (g.replaced) rewritten.insert(g.outputs.begin(), g.outputs.end());
+        const bool byBits = std::any_of(wr.naming.decisions.begin(), wr.naming.decisions.end(),
+                                        [](const emit::NamingDecision& d) { return d.form == "written file" && !d.kept; });
+        std::map<std::string, std::string> more;
+        std::vector<std::string> targets;
+        for (const auto& d : wr.naming.decisions) {
+            if (d.form != "choice" || !d.made || (d.kept && !byBits) || !rewritten.count(d.signal)) continue;
+            const std::string reason =
+                d.kept ? fmt::format("'{}' takes only named values; the file with its choice among them reads back "
+                                     "over the bounds, and by bits its names would become bit positions", d.signal)
+                       : fmt::format("'{}' takes only named values and one choice among them does not fit ({} gates, "
+                                     "depth {}; bounds: {:.0f} gates, depth {}); by bits ({} gates, depth {}) its "
+                                     "names would become bit positions", d.signal, d.gates, d.depth,
+                                     wr.naming.gateLimit, wr.naming.depthBound, wr.naming.bitwiseGates,
+                                     wr.naming.bitwiseDepth);
+            bool any = false;
+            for (const auto& m : desc.members)
+                if (std::find(m.writes.begin(), m.writes.end(), d.signal) != m.writes.end() && !m.matchKey.empty() &&
+                    !agreedKept.count(m.id)) {
+                    more.emplace(m.matchKey, reason);
+                    any = true;
+                }
+            if (any) targets.push_back(d.signal);
+        }
+        if (!more.empty()) {
+            if (opts.verbose > 0) {
+                std::cerr << wr.namingLog;
+                for (const auto& t : targets)
+                    std::cerr << fmt::format("named values: {} would be written by bits: the statements writing it "
+                                             "are kept as written and the module is restructured again\n", t);
+            }
+            RestructureOptions o = opts;
+            o.preRead = &desc;
+            o.namedKept.insert(more.begin(), more.end());
+            for (const auto& d : wr.naming.decisions)
+                if (d.form == "choice" && std::find(targets.begin(), targets.end(), d.signal) != targets.end()) {
+                    nlohmann::json row = namingRow(d);
+                    row["statements_kept_as_written"] = true;
+                    row["bound"] = {{"depth", wr.naming.depthBound}, {"gates", wr.naming.gateLimit}};
+                    o.namedKeptNaming.push_back(std::move(row));
+                }
+            ++o.namedKeepRounds;
+            return restructure(o, outcome);
+        }
+    }
     // Idempotence by construction (F235): kerf on its own output must change nothing. The engine's
     // result depends on where it starts (the input's nodes or the written file's, F71, F94) and on
     // its don't-care budget (F196), and a regroup costs up to its margin more gates than the
@@ -621,6 +697,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
 
     // ---- proof and figures of the written file: read back what was written, through the same reader
     net::Metrics after = asRead;
+    net::Metrics shownAfter = shownBefore;
     nlohmann::json proofJson = {{"verdict", "not run (--skip-proof)"}};
     std::string proofText;
     if (wr.changed) {
@@ -638,6 +715,16 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         } else {
             after = readBack(wr.text, written);
         }
+        shownAfter = after;
+        if (!namedKeptIds.empty()) {
+            try {
+                shownAfter = passes::measureFactored(lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr,
+                                                             opts.keep, opts.keepX, keptByKey(desc, keptCounted, written),
+                                                             lintWires()).net);
+            } catch (const Error& e) {
+                ownFault(e, "lower");
+            }
+        }
         // The file as a whole must get smaller by the margin too: groups are judged on the
         // engine's figures, the file on what the reader makes of the text.
         double gain = static_cast<double>(asRead.gates) - static_cast<double>(after.gates);
@@ -654,6 +741,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             wr.wiresAdded.clear();
             wr.namesKept.clear();
             after = asRead;
+            shownAfter = shownBefore;
             groupsReplaced = 0;
         } else if (!opts.skipProof) {
             frontend::Lowered a = proofOriginal ? std::move(*proofOriginal)
@@ -761,16 +849,16 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                     proofSeconds, pr.stats.outputs, pr.stats.byStructure, pr.stats.bySat);
             emit::setHeader(wr, fmt::format("{} of {} group{} rewritten, gates {} -> {}, depth {} -> {}, "
                                             "proved equivalent", groupsReplaced, wr.groups.size(),
-                                            wr.groups.size() == 1 ? "" : "s", asRead.gates, after.gates,
-                                            asRead.depth, after.depth));
+                                            wr.groups.size() == 1 ? "" : "s", shownBefore.gates, shownAfter.gates,
+                                            shownBefore.depth, shownAfter.depth));
         } else {
             proofText = "NOT proved (--skip-proof)";
             if (!opts.secondRun)
                 std::cerr << "warning: --skip-proof: the rewrite is written without a proof of equivalence\n";
             emit::setHeader(wr, fmt::format("{} of {} group{} rewritten, gates {} -> {}, depth {} -> {}, "
                                             "NOT proved (--skip-proof)", groupsReplaced, wr.groups.size(),
-                                            wr.groups.size() == 1 ? "" : "s", asRead.gates, after.gates,
-                                            asRead.depth, after.depth));
+                                            wr.groups.size() == 1 ? "" : "s", shownBefore.gates, shownAfter.gates,
+                                            shownBefore.depth, shownAfter.depth));
         }
     }
 
@@ -780,6 +868,9 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         std::cerr << own.log;
         std::cerr << fmt::format("{:<24} {:>9} {:>8} {:>6} {:>7}\n", "(written file)", after.literals, after.gates,
                                  after.depth, after.nodes);
+        if (!namedKeptIds.empty())
+            std::cerr << fmt::format("named values: with the statements kept for their names counted (as kerf stats "
+                                     "counts them): {}\n", figuresText(shownBefore, shownAfter));
         for (const auto& g : wr.groups)
             std::cerr << fmt::format("  statements at line{} {}: {} -> {} gates, {}\n", g.lines.size() == 1 ? "" : "s",
                                      lineRanges(g.lines), g.gatesBefore, g.gatesAfter,
@@ -819,7 +910,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
 
     std::string outputPath = opts.inPlace ? file : opts.output;
     std::string summary = fmt::format("{}: module {}: {}, word operators {}", file, desc.name,
-                                      figuresText(asRead, after), words.str());
+                                      figuresText(shownBefore, shownAfter), words.str());
     if (!wr.changed) {
         summary += wr.groups.empty() ? "; nothing to restructure, the file is unchanged"
                                      : fmt::format("; nothing gains at least --min-gain {}, the file is unchanged",
@@ -870,8 +961,8 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             {"module", desc.name},
             {"changed", wr.changed},
             {"min_gain", wo.minGain.str()},
-            {"before", metricsJson(asRead)},
-            {"after", metricsJson(after)},
+            {"before", metricsJson(shownBefore)},
+            {"after", metricsJson(shownAfter)},
             {"word_operators", {{"unit", "operators kept as written, each counted once; not in gates"},
                                 {"adders", words.adders}, {"multipliers", words.multipliers},
                                 {"comparators", words.comparators}, {"shifters", words.shifters},
@@ -931,15 +1022,10 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                  // What the naming weighed (naming_cost.cpp): the bitwise form, the bounds a
                  // named form keeps, and per register or target the form tried, kept or not, why.
                  const emit::NamingRecord& n = wr.naming;
-                 nlohmann::json ds = nlohmann::json::array();
-                 for (const auto& d : n.decisions) {
-                     nlohmann::json row = {{"form", d.form}, {"signal", d.signal}, {"made", d.made},
-                                           {"kept", d.kept}, {"reason", d.reason}};
-                     if (d.made) row["after"] = {{"gates", d.gates}, {"depth", d.depth}};
-                     if (d.form == "comparisons one by one")
-                         row["rewrites"] = {{"kept", d.rewritesKept}, {"tried", d.rewritesTried}};
-                     ds.push_back(std::move(row));
-                 }
+                 // The choices that kept a target's statements as written come first (F236): the
+                 // run that weighed them was made again without those statements.
+                 nlohmann::json ds = opts.namedKeptNaming;
+                 for (const auto& d : n.decisions) ds.push_back(namingRow(d));
                  if (!n.weighed) return nlohmann::json{{"weighed", false}, {"decisions", ds}};
                  return nlohmann::json{{"weighed", true},
                                        {"bitwise", {{"gates", n.bitwiseGates}, {"depth", n.bitwiseDepth}}},
@@ -977,7 +1063,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         if (!opts.quiet) std::cerr << summary << "\n" << (keptText.empty() ? "" : keptText + "\n");
         if (wr.changed) {
             std::cerr << fmt::format("{}: kerf would restructure module {} ({} -> {} gates)\n", file, desc.name,
-                                     asRead.gates, after.gates);
+                                     shownBefore.gates, shownAfter.gates);
             return static_cast<int>(ExitCode::Different);
         }
         return 0;

