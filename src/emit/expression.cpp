@@ -326,19 +326,25 @@ std::vector<std::uint8_t> ExprBuilder::sliceKids(const Factored& f) const {
     return out;
 }
 
+namespace {
+const std::string kNoCommon;   ///< comparisons: products over more than one vector
+} // namespace
+
 bool ExprBuilder::comparisons(const Factored& f) const {
     // An OR (AND) whose every operand is a whole-vector comparison `v == K` (`v != K`): written as
     // those comparisons, never regrouped into ?: or ^ over the vector's bits.
+    // Also an OR (AND) of slice comparisons of one and the same vector, as an address decoder
+    // writes them: `(addr[2:1] == 2'b01) | (addr[2:0] == 3'b100)`, not `addr[1] ? ~addr[2] : ...`.
     if ((f.kind != K::And && f.kind != K::Or) || f.kids.size() < 2) return false;
+    bool whole = true, sameBits = true;
+    const std::string* common = nullptr;
+    std::vector<std::uint32_t> firstVars;
     for (const auto& k : f.kids) {
         if (k.kind == f.kind || (k.kind != K::And && k.kind != K::Or) || k.kids.size() < 2) return false;
         for (const auto& x : k.kids)
             if (x.kind != K::Lit) return false;
-        // A whole comparison: every bit of one vector.
         std::uint32_t v0 = literalVar(k.kids[0].lit);
-        if (v0 == 0 || v0 >= refs_.size() || !refs_[v0] || refs_[v0]->signal.empty() ||
-            refs_[v0]->width != static_cast<int>(k.kids.size()))
-            return false;
+        if (v0 == 0 || v0 >= refs_.size() || !refs_[v0] || refs_[v0]->signal.empty()) return false;
         std::vector<std::uint8_t> in = sliceKids(k);
         for (auto b : in)
             if (!b) return false;
@@ -346,8 +352,18 @@ bool ExprBuilder::comparisons(const Factored& f) const {
             std::uint32_t v = literalVar(x.lit);
             if (v == 0 || v >= refs_.size() || !refs_[v] || refs_[v]->signal != refs_[v0]->signal) return false;
         }
+        // A whole comparison: every bit of one vector.
+        if (refs_[v0]->width != static_cast<int>(k.kids.size())) whole = false;
+        std::vector<std::uint32_t> vars;
+        for (const auto& x : k.kids) vars.push_back(literalVar(x.lit));
+        std::sort(vars.begin(), vars.end());
+        if (firstVars.empty()) firstVars = vars;
+        else if (vars != firstVars) sameBits = false;
+        if (!common) common = &refs_[v0]->signal;
+        else if (*common != refs_[v0]->signal) common = &kNoCommon;
     }
-    return true;
+    // Products over the very same bits stay free to read as `^` or `?:` (`g[4] ^ g[5]`).
+    return whole || (common != &kNoCommon && !sameBits);
 }
 
 int ExprBuilder::costLit(Literal l) {
