@@ -15,6 +15,7 @@
 #include "workspace.h"
 
 #include <algorithm>
+#include <cstdint>
 #include <queue>
 #include <unordered_map>
 
@@ -31,10 +32,12 @@ namespace {
 /// pair once, from its first cube), and with a changed region also the cubes
 /// before i that lie outside it (a pair of which only the later cube is in
 /// the region is seen from that one). At most `cap` entries over all lists.
+/// `start`: where the cubes after i begin in o (o.size() + 1: not known, found here).
 template <class InRegion, class Take>
 void scanPartners(const std::vector<std::uint32_t>& o, std::uint32_t i, bool region, std::size_t cap,
-                  std::size_t& scanned, InRegion inRegion, Take take) {
-    const auto from = std::upper_bound(o.begin(), o.end(), i);
+                  std::size_t& scanned, InRegion inRegion, Take take, std::size_t start = SIZE_MAX) {
+    const auto from = start <= o.size() ? o.begin() + static_cast<std::ptrdiff_t>(start)
+                                        : std::upper_bound(o.begin(), o.end(), i);
     for (auto it = from; it != o.end(); ++it) {
         take(*it);
         if (++scanned > cap) return;
@@ -48,6 +51,27 @@ void scanPartners(const std::vector<std::uint32_t>& o, std::uint32_t i, bool reg
         take(*it);
         if (++scanned > cap) return;
     }
+}
+
+/// The first position at or after `lo` in sorted o whose entry is above i,
+/// when every entry before lo is at most i: a galloping search from lo. The
+/// candidate loop meets the cubes in increasing order, so each literal's
+/// position only moves forward (a binary search over the whole list per
+/// cube and literal was a quarter of the in-place extraction's time on the
+/// 100k decoder, engine17).
+std::size_t gallopAbove(const std::vector<std::uint32_t>& o, std::size_t lo, std::uint32_t i) {
+    const std::size_t n = o.size();
+    if (lo >= n || o[lo] > i) return lo;
+    std::size_t below = lo, step = 1, hi = lo + 1;   // o[below] <= i
+    while (hi < n && o[hi] <= i) {
+        below = hi;
+        step *= 2;
+        hi = lo + step;
+    }
+    if (hi > n) hi = n;
+    return static_cast<std::size_t>(std::upper_bound(o.begin() + static_cast<std::ptrdiff_t>(below) + 1,
+                                                     o.begin() + static_cast<std::ptrdiff_t>(hi), i) -
+                                    o.begin());
 }
 
 /// A candidate cube held by `holders` cubes: the literals its extraction saves at most.
@@ -361,6 +385,7 @@ bool holdersByPairs(const CubeTable& table, const std::vector<std::pair<long, Cu
 void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
     CubeTable table(net, ctx.depthCap);
     std::vector<std::uint32_t> sharedCount, seen;
+    std::vector<std::size_t> cursor;   // per literal: where the cubes after the current one begin
     std::vector<Literal> common;
     auto& cubes = table.cubes();
     long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, rejects = 0, pairRounds = 0;
@@ -373,6 +398,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
         std::unordered_map<std::vector<Literal>, std::size_t, LiteralsHash> candIndex;
         std::vector<std::pair<Cube, long>> cand;   // cube, pairs giving it
         sharedCount.assign(cubes.size(), 0);
+        cursor.assign(2 * net.nodeCount(), 0);
         for (std::uint32_t i = 0; i < cubes.size(); ++i) {
             const auto& c = cubes[i];
             if (!c.live || c.lits.size() < opts.minLiterals || !ctx.inFocus(c.node)) continue;
@@ -380,9 +406,11 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
             std::size_t scanned = 0;
             for (Literal l : c.lits) {
                 const auto& o = table.holding(l);
+                std::size_t start = SIZE_MAX;
+                if (l < cursor.size()) start = cursor[l] = gallopAbove(o, cursor[l], i);
                 scanPartners(o, i, ctx.focus != nullptr, 4 * opts.partnersPerCube, scanned,
                              [&](std::uint32_t j) { return ctx.inFocus(cubes[j].node); },
-                             [&](std::uint32_t j) { if (sharedCount[j]++ == 0) seen.push_back(j); });
+                             [&](std::uint32_t j) { if (sharedCount[j]++ == 0) seen.push_back(j); }, start);
             }
             work += static_cast<long>(scanned);
             std::size_t partners = 0;

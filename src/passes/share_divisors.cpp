@@ -340,15 +340,44 @@ private:
     }
     // Ids of divisors: -1 for a divisor not yet in a full table (it is not
     // counted, wherever it occurs, so counts stay consistent).
+    // Literal pairs are looked up in an open-addressing table of their own
+    // (linear probing, at most half full): a node-based hash map cost an
+    // allocation per pair and a cache miss per lookup, about a twentieth of
+    // the 100k decoder's run (engine17). Ids are given in order of first
+    // sight, as before.
     int pairId(Literal a, Literal b) {
-        std::uint64_t key = (std::uint64_t{a} << 32) | b;
-        if (full()) {
-            auto it = pairIndex_.find(key);
-            return it == pairIndex_.end() ? -1 : it->second;
+        const std::uint64_t key = (std::uint64_t{a} << 32) | b;
+        if (2 * (pairCount_ + 1) > pairKeys_.size()) growPairs();
+        const std::size_t mask = pairKeys_.size() - 1;
+        for (std::size_t k = pairSlot(key, mask);; k = (k + 1) & mask) {
+            if (pairKeys_[k] == key) return pairIds_[k];
+            if (pairKeys_[k] != kNoPair) continue;
+            if (full()) return -1;
+            const int id = static_cast<int>(divs_.size());
+            store(Cover{{Cube({a, b})}});
+            pairKeys_[k] = key;
+            pairIds_[k] = id;
+            ++pairCount_;
+            return id;
         }
-        auto [it, fresh] = pairIndex_.try_emplace(key, static_cast<int>(divs_.size()));
-        if (fresh) store(Cover{{Cube({a, b})}});
-        return it->second;
+    }
+    static constexpr std::uint64_t kNoPair = ~std::uint64_t{0};
+    static std::size_t pairSlot(std::uint64_t key, std::size_t mask) {
+        return static_cast<std::size_t>((key * 0x9E3779B97F4A7C15ull) >> 20) & mask;
+    }
+    void growPairs() {
+        std::vector<std::uint64_t> keys(std::max<std::size_t>(64, 2 * pairKeys_.size()), kNoPair);
+        std::vector<int> ids(keys.size(), -1);
+        const std::size_t mask = keys.size() - 1;
+        for (std::size_t i = 0; i < pairKeys_.size(); ++i) {
+            if (pairKeys_[i] == kNoPair) continue;
+            std::size_t k = pairSlot(pairKeys_[i], mask);
+            while (keys[k] != kNoPair) k = (k + 1) & mask;
+            keys[k] = pairKeys_[i];
+            ids[k] = pairIds_[i];
+        }
+        pairKeys_.swap(keys);
+        pairIds_.swap(ids);
     }
     std::size_t hashOf(int id) const {
         const Divisor& dv = divs_[static_cast<std::size_t>(id)];
@@ -453,7 +482,9 @@ private:
     std::vector<int> slots_;         // the two-cube divisors' index (-1: empty)
     std::size_t indexed_ = 0;
     std::unordered_map<int, std::vector<net::NodeId>> providers_;   // divisor -> nodes whose cover was it
-    std::unordered_map<std::uint64_t, int> pairIndex_;
+    std::vector<std::uint64_t> pairKeys_;   // literal pairs' index (kNoPair: empty slot)
+    std::vector<int> pairIds_;
+    std::size_t pairCount_ = 0;
     std::vector<Contribution> contrib_;
     std::vector<int> touched_;
     std::vector<Literal> base_;   // scratch of compute()
