@@ -354,10 +354,29 @@ bool holdersByPairs(const CubeTable& table, const std::vector<std::pair<long, Cu
         if (r.live && r.lits.size() >= 2) pairs += 0.5 * static_cast<double>(r.lits.size() * (r.lits.size() - 1));
     if (pairs * 4 >= merge) return false;   // a hash lookup costs a few merge steps
     auto key = [](Literal a, Literal b) { return (std::uint64_t{a} << 32) | b; };
-    std::unordered_map<std::uint64_t, std::vector<std::uint32_t>> filed;
-    filed.reserve(ranked.size());
-    for (std::uint32_t k = 0; k < ranked.size(); ++k)
-        filed[key(ranked[k].second.lits[0], ranked[k].second.lits[1])].push_back(k);
+    // The candidates filed by their first two literals: an open-addressing
+    // table of the pairs (linear probing, at most half full), each slot
+    // naming its candidates' run in `members` (in candidate order). A
+    // node-based hash map looked up once per literal pair of every cube was
+    // half of this sweep (engine17).
+    constexpr std::uint64_t kEmpty = ~std::uint64_t{0};
+    std::size_t slots = 64;
+    while (slots < 2 * ranked.size()) slots *= 2;
+    const std::size_t mask = slots - 1;
+    auto slotOf = [&](std::uint64_t k) { return static_cast<std::size_t>((k * 0x9E3779B97F4A7C15ull) >> 20) & mask; };
+    std::vector<std::uint64_t> slotKey(slots, kEmpty);
+    std::vector<std::uint32_t> slotBegin(slots + 1, 0), candSlot(ranked.size());
+    for (std::uint32_t k = 0; k < ranked.size(); ++k) {
+        const std::uint64_t kk = key(ranked[k].second.lits[0], ranked[k].second.lits[1]);
+        std::size_t s = slotOf(kk);
+        while (slotKey[s] != kEmpty && slotKey[s] != kk) s = (s + 1) & mask;
+        slotKey[s] = kk;
+        candSlot[k] = static_cast<std::uint32_t>(s);
+        ++slotBegin[s + 1];
+    }
+    for (std::size_t s = 0; s < slots; ++s) slotBegin[s + 1] += slotBegin[s];
+    std::vector<std::uint32_t> members(ranked.size()), fill(slotBegin.begin(), slotBegin.end() - 1);
+    for (std::uint32_t k = 0; k < ranked.size(); ++k) members[fill[candSlot[k]]++] = k;
     holders.assign(ranked.size(), {});
     // The cube's literals are marked (stamp = its id + 1), so a candidate
     // filed under one of its pairs is checked on its other literals only.
@@ -369,9 +388,12 @@ bool holdersByPairs(const CubeTable& table, const std::vector<std::pair<long, Cu
         for (Literal l : r.lits) mark[l] = id + 1;
         for (std::size_t a = 0; a + 1 < r.lits.size(); ++a)
             for (std::size_t b = a + 1; b < r.lits.size(); ++b) {
-                const auto it = filed.find(key(r.lits[a], r.lits[b]));
-                if (it == filed.end()) continue;
-                for (std::uint32_t k : it->second) {
+                const std::uint64_t kk = key(r.lits[a], r.lits[b]);
+                std::size_t s = slotOf(kk);
+                while (slotKey[s] != kEmpty && slotKey[s] != kk) s = (s + 1) & mask;
+                if (slotKey[s] == kEmpty) continue;
+                for (std::uint32_t m = slotBegin[s]; m < slotBegin[s + 1]; ++m) {
+                    const std::uint32_t k = members[m];
                     const auto& I = ranked[k].second.lits;
                     bool all = true;
                     for (std::size_t j = 2; j < I.size() && all; ++j) all = I[j] < mark.size() && mark[I[j]] == id + 1;
