@@ -158,23 +158,32 @@ std::size_t Network::logicCount() const {
 namespace {
 
 // Combine arrival times pairwise, earliest first: the depth of a balanced
-// two-input tree built by arrival time (k leaves need k-1 gates).
+// two-input tree built by arrival time (k leaves need k-1 gates). The heap
+// is built in `times` itself (a priority queue of its own allocated once per
+// cube, and measuring and timing a network meet every cube: engine17).
 std::size_t combineArrivals(std::vector<std::size_t>& times) {
     if (times.empty()) return 0;
-    std::priority_queue<std::size_t, std::vector<std::size_t>, std::greater<>> q(times.begin(), times.end());
-    while (q.size() > 1) {
-        std::size_t a = q.top(); q.pop();
-        std::size_t b = q.top(); q.pop();
-        q.push(std::max(a, b) + 1);
+    if (times.size() == 1) return times[0];
+    if (times.size() == 2) return std::max(times[0], times[1]) + 1;
+    const auto later = std::greater<>();
+    std::make_heap(times.begin(), times.end(), later);
+    for (std::size_t n = times.size(); n > 1; --n) {
+        std::pop_heap(times.begin(), times.begin() + static_cast<std::ptrdiff_t>(n), later);
+        const std::size_t a = times[n - 1];
+        std::pop_heap(times.begin(), times.begin() + static_cast<std::ptrdiff_t>(n - 1), later);
+        times[n - 2] = std::max(a, times[n - 2]) + 1;
+        std::push_heap(times.begin(), times.begin() + static_cast<std::ptrdiff_t>(n - 1), later);
     }
-    return q.top();
+    return times[0];
 }
 
 } // namespace
 
 SopCost sopCost(const Cover& cover, const std::vector<std::size_t>& arrivalByVar) {
     SopCost cost;
-    std::vector<std::size_t> cubeTimes, litTimes;
+    // Scratch kept between calls (sopCost calls nothing that calls it back).
+    thread_local std::vector<std::size_t> cubeTimes, litTimes;
+    cubeTimes.clear();
     for (const Cube& c : cover.cubes) {
         if (c.lits.size() > 1) cost.gates += c.lits.size() - 1;
         litTimes.clear();

@@ -152,9 +152,13 @@ public:
     };
 
     CubeTable(net::Network& net, std::size_t cap) : net_(net), cap_(cap) {
-        at_ = net::arrivalTimes(net);
+        // The times of net::arrivalTimes, on the one topological order.
+        const std::vector<net::NodeId> order = net.topoOrder();
+        at_.assign(net.nodeCount(), 0);
+        for (net::NodeId in : net.inputs()) at_[in] = net.node(in).arrival;
+        for (net::NodeId v : order) at_[v] = net::sopCost(net.node(v).cover, at_).arrival;
         grow();
-        for (net::NodeId v : net.topoOrder()) {
+        for (net::NodeId v : order) {
             for (const Cube& c : net.node(v).cover.cubes) {
                 for (Literal l : c.lits) read_[literalVar(l)] = 1;
                 addCube(v, c.lits);
