@@ -367,7 +367,7 @@ bool holdersByPairs(const CubeTable& table, const std::vector<std::pair<long, Cu
     std::size_t slots = 64;
     while (slots < 2 * ranked.size()) slots *= 2;
     const std::size_t mask = slots - 1;
-    auto slotOf = [&](std::uint64_t k) { return static_cast<std::size_t>((k * 0x9E3779B97F4A7C15ull) >> 20) & mask; };
+    auto slotOf = [&](std::uint64_t k) { return static_cast<std::size_t>(detail::mix64(k)) & mask; };
     std::vector<std::uint64_t> slotKey(slots, kEmpty);
     std::vector<std::uint32_t> slotBegin(slots + 1, 0), candSlot(ranked.size());
     for (std::uint32_t k = 0; k < ranked.size(); ++k) {

@@ -363,7 +363,7 @@ private:
     }
     static constexpr std::uint64_t kNoPair = ~std::uint64_t{0};
     static std::size_t pairSlot(std::uint64_t key, std::size_t mask) {
-        return static_cast<std::size_t>((key * 0x9E3779B97F4A7C15ull) >> 20) & mask;
+        return static_cast<std::size_t>(detail::mix64(key)) & mask;
     }
     void growPairs() {
         std::vector<std::uint64_t> keys(std::max<std::size_t>(64, 2 * pairKeys_.size()), kNoPair);

@@ -34,6 +34,18 @@ class FactorCache;
 
 namespace kerf::passes::detail {
 
+/// A 64-bit key mixed so that every bit of it moves the low bits of the
+/// result (the finaliser of splitmix64, S. Vigna, from memory): slots of
+/// open-addressing tables are taken from the low bits.
+inline std::uint64_t mix64(std::uint64_t k) {
+    k ^= k >> 30;
+    k *= 0xBF58476D1CE4E5B9ull;
+    k ^= k >> 27;
+    k *= 0x94D049BB133111EBull;
+    k ^= k >> 31;
+    return k;
+}
+
 using algebra::Cover;
 using algebra::Cube;
 using algebra::Literal;
