@@ -1469,7 +1469,9 @@ void Writer::formFamilies() {
                 while (!common.empty() && (std::isdigit(static_cast<unsigned char>(common.back())) || common.back() == '_'))
                     common.pop_back();
                 // Their terms of one output, as a scalar wire's `_tN` says (`oe0_t0` .. `oe3_t0`: `oe_t`).
-                if (common.size() >= 2 && common.compare(common.size() - 2, 2, "_t") != 0) common += "_t";
+                // A one-letter output (`y`, `q`) is a stem too: `y_t`, not a name that says nothing.
+                if (!common.empty() && (common.size() < 2 || common.compare(common.size() - 2, 2, "_t") != 0))
+                    common += "_t";
                 stem = common.size() >= 2 ? common : "bits";
             }
             if (stem.size() > cap) stem.resize(cap);

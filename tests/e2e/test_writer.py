@@ -2282,5 +2282,27 @@ def _(t):
     t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
 
 
+@S.case("family_named_after_one_letter_output", needs=("iverilog",))
+def _(t):
+    """Issue 10 (names): a vector of new wires whose bits feed a one-letter output (`y` of an
+    ALU) is named from that output (`y_t`), never with a name that says nothing (`bits`).
+    Input: the invented ALU of tests/rtl/alu_localparam_ops.sv; Icarus Verilog checks the
+    rewrite's function."""
+    src = os.path.join(t.root, "tests", "rtl", "alu_localparam_ops.sv")
+    out = os.path.join(t.work, "alu_localparam_ops.sv")
+    r = K.run([t.kerf, "restructure", src, "-o", out])
+    if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr, f"restructured and proved: {r.stderr[-800:]}"):
+        return
+    text = open(out).read()
+    vectors = [n for n in re.findall(r"^\s*wire\s+\[\d+:0\]\s+(\w+)", text, re.M)
+               if not n.startswith("kf_")]
+    t.res.check(vectors, f"the rewrite has a vector of new wires:\n{text}")
+    t.res.check(all(n.startswith("y") for n in vectors), f"each is named from the output it feeds: {vectors}")
+    sim = os.path.join(t.work, "sim")
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], "alu_localparam_ops", out, sim, vectors=3000)
+    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
+
+
 if __name__ == "__main__":
     S.main()
