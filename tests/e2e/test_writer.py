@@ -2194,6 +2194,20 @@ def _(t):
     t.res.check(not added, f"Verilator -Wall: no new warning: {added}\n{raw[-800:]}")
 
 
+def _restructured_and_simulated(t, src, top):
+    """Restructure tests/rtl's `src` with default options; the rewrite's text when kerf proved it
+    and Icarus Verilog simulates it like the input (3000 random vectors), else None."""
+    out = os.path.join(t.work, os.path.basename(src))
+    r = K.run([t.kerf, "restructure", src, "-o", out])
+    if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr, f"restructured and proved: {r.stderr[-800:]}"):
+        return None
+    sim = os.path.join(t.work, "sim_" + top)
+    os.mkdir(sim)
+    ok, log, _ = K.simulate_equal(t.root, [src], top, out, sim, vectors=3000)
+    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
+    return open(out).read()
+
+
 def _top_level(expr, op):
     """`expr` split at `op` outside parentheses and braces."""
     parts, depth, cur = [], 0, ""
@@ -2266,20 +2280,14 @@ def _(t):
     Input: the invented shared-bus slave of tests/rtl/shared_bus_slave.v; Icarus Verilog checks
     the rewrite's function."""
     src = os.path.join(t.root, "tests", "rtl", "shared_bus_slave.v")
-    out = os.path.join(t.work, "shared_bus_slave.v")
-    r = K.run([t.kerf, "restructure", src, "-o", out])
-    if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr, f"restructured and proved: {r.stderr[-800:]}"):
+    text = _restructured_and_simulated(t, src, "shared_bus_slave")
+    if text is None:
         return
-    text = open(out).read()
     t.res.check(text != open(src).read(), "the decode is rewritten")
     source_lines = set(open(src).read().splitlines())
     written = "\n".join(l for l in text.splitlines() if l not in source_lines)
     choices = re.findall(r"\baddr\[\d+\]\s*\?", written)
     t.res.check(not choices, f"no choice on an address bit: {choices}\n{text}")
-    sim = os.path.join(t.work, "sim")
-    os.mkdir(sim)
-    ok, log, _ = K.simulate_equal(t.root, [src], "shared_bus_slave", out, sim, vectors=3000)
-    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
 
 
 @S.case("family_named_after_one_letter_output", needs=("iverilog",))
@@ -2289,19 +2297,13 @@ def _(t):
     Input: the invented ALU of tests/rtl/alu_localparam_ops.sv; Icarus Verilog checks the
     rewrite's function."""
     src = os.path.join(t.root, "tests", "rtl", "alu_localparam_ops.sv")
-    out = os.path.join(t.work, "alu_localparam_ops.sv")
-    r = K.run([t.kerf, "restructure", src, "-o", out])
-    if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr, f"restructured and proved: {r.stderr[-800:]}"):
+    text = _restructured_and_simulated(t, src, "alu_localparam_ops")
+    if text is None:
         return
-    text = open(out).read()
     vectors = [n for n in re.findall(r"^\s*wire\s+\[\d+:0\]\s+(\w+)", text, re.M)
                if not n.startswith("kf_")]
     t.res.check(vectors, f"the rewrite has a vector of new wires:\n{text}")
     t.res.check(all(n.startswith("y") for n in vectors), f"each is named from the output it feeds: {vectors}")
-    sim = os.path.join(t.work, "sim")
-    os.mkdir(sim)
-    ok, log, _ = K.simulate_equal(t.root, [src], "alu_localparam_ops", out, sim, vectors=3000)
-    t.res.check(ok, f"the rewrite simulates like the input (Icarus Verilog): {log}")
 
 
 if __name__ == "__main__":
