@@ -4,10 +4,12 @@
 #include "kerf/flow/flows.h"
 #include "kerf/passes/engine.h"
 #include "kerf/io/cleanup.h"
+#include "kerf/io/files.h"
 #include "kerf/io/progress.h"
 
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 #include <nlohmann/json.hpp>
 
 #include <iostream>
@@ -145,6 +147,13 @@ int main(int argc, char** argv) {
         // `-o -` is standard output (common trade practice), never a file named '-'.
         if (ro.output == "-") ro.output.clear();
         if (dr.output == "-") dr.output.clear();
+        // Work directories of kerf runs killed by a signal nothing can catch (SIGKILL, the
+        // out-of-memory killer) hold whole rewrites: remove those whose process is gone.
+        const kerf::io::SweepResult swept = kerf::io::sweepStaleWorkDirs();
+        if (*rs && ro.verbose > 0 && !swept.removed.empty())
+            std::cerr << fmt::format("removed {} work director{} ({:.1f} MB) left by kerf runs that were killed: {}\n",
+                                     swept.removed.size(), swept.removed.size() == 1 ? "y" : "ies",
+                                     static_cast<double>(swept.bytes) / 1e6, fmt::join(swept.removed, ", "));
         if (*rs) {
             if (ro.inPlace && !ro.output.empty()) throw kerf::Error("--in-place and --output exclude each other");
             if (ro.check && (!ro.output.empty() || ro.inPlace || ro.diff))

@@ -254,7 +254,30 @@ def main(argv=None):
     return EXIT_OK
 
 
+def end_with_parent():
+    """On Linux, have the kernel end the reader when its parent (kerf) dies, even of a signal
+    nothing can catch (SIGKILL, the out-of-memory killer): an orphaned reader would go on
+    describing a design no one reads, at up to gigabytes on a generated one. kerf starts the
+    reader from its main thread, so the parent's thread is the parent's life. A parent that
+    died before the request is seen as a changed parent pid."""
+    if not sys.platform.startswith("linux"):
+        return
+    parent = os.getppid()
+    try:
+        import ctypes
+        import signal
+        libc = ctypes.CDLL(None, use_errno=True)
+        PR_SET_PDEATHSIG = 1
+        if libc.prctl(PR_SET_PDEATHSIG, int(signal.SIGKILL), 0, 0, 0) != 0:
+            return
+    except (OSError, AttributeError, ImportError):
+        return   # no prctl: the reader ends when it finds its output closed, as before
+    if os.getppid() != parent:
+        os._exit(EXIT_INTERNAL)   # the parent is already gone: no one reads the description
+
+
 if __name__ == "__main__":
+    end_with_parent()
     sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
     # Generated logic nests deeply (a sum of thousands of products is a chain of
     # thousands of `|`): describe it on a thread with a large stack and a

@@ -134,6 +134,154 @@ def _(t):
         t.res.check(not wrote, f"{name}: no output file")
 
 
+def process_state(pid):
+    """The state letter of process `pid` ('R', 'S', 'T', 'Z', ...), or None when there is none."""
+    try:
+        text = open(f"/proc/{pid}/stat").read()
+    except OSError:
+        return None
+    return text[text.rfind(")") + 2:].split()[0]
+
+
+def children_of(pid):
+    """Pids of the processes whose parent is `pid` (from /proc)."""
+    out = []
+    for e in os.listdir("/proc"):
+        if e.isdigit():
+            try:
+                text = open(f"/proc/{e}/stat").read()
+            except OSError:
+                continue
+            if int(text[text.rfind(")") + 2:].split()[1]) == pid:
+                out.append(int(e))
+    return out
+
+
+def wait_for_owned_work_dir(tmp, p, seconds=120):
+    """Wait until `p` has made its work directory in `tmp` (with its owner file); return its name."""
+    deadline = time.monotonic() + seconds
+    while p.poll() is None and time.monotonic() < deadline:
+        for d in os.listdir(tmp):
+            if os.path.exists(os.path.join(tmp, d, ".kerf-owner")):
+                return d
+        time.sleep(0.005)
+    return None
+
+
+@S.case("killed_run_swept_next_time")
+def _(t):
+    """SIGKILL cannot be caught, so a killed kerf leaves its work directory (with the rewrite in it);
+    the next kerf run of the same user removes it, and never a live process's directory (common
+    trade practice for lock and work files: the owner's pid and start time say whether it lives)."""
+    if not os.path.isdir("/proc/self"):
+        t.res.skip("no /proc: the sweep cannot tell a live process from a gone one here")
+        return
+    tmp, env = private_tmp(t)
+    out = os.path.join(t.work, "out.v")
+    # A run stopped (SIGSTOP) once its work directory exists is alive: no later run may touch it.
+    q = subprocess.Popen([t.kerf, "restructure", "samples/rv_decoder.sv", "-o", out + ".live"], env=env,
+                         stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    try:
+        live = wait_for_owned_work_dir(tmp, q)
+        q.send_signal(signal.SIGSTOP)
+        if not t.res.check(live is not None, f"a run makes its work directory: {os.listdir(tmp)}"):
+            return
+        # A run killed by SIGKILL while its work directory exists leaves it behind.
+        p = subprocess.Popen([t.kerf, "restructure", "samples/rv_decoder.sv", "-o", out], env=env,
+                             stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+        left = None
+        deadline = time.monotonic() + 120
+        while left is None and p.poll() is None and time.monotonic() < deadline:
+            left = next((d for d in os.listdir(tmp) if d != live and
+                         os.path.exists(os.path.join(tmp, d, ".kerf-owner"))), None)
+            time.sleep(0.005)
+        p.kill()
+        p.wait()
+        if not t.res.check(left is not None and os.path.isdir(os.path.join(tmp, left)),
+                           f"a run killed by SIGKILL leaves its work directory: {left} {os.listdir(tmp)}"):
+            return
+        t.res.check(not os.path.exists(out), "and writes no output")
+        r = K.run([t.kerf, "restructure", SAMPLE, "-o", os.path.join(t.work, "third.v"), "-v"], env=env)
+        t.res.check(r.returncode == 0, f"the next run succeeds: {r.stderr[-600:]}")
+        t.res.check(not os.path.exists(os.path.join(tmp, left)),
+                    f"it removed the killed run's directory {left}: {os.listdir(tmp)}")
+        t.res.check("work directory" in r.stderr and left in r.stderr,
+                    f"-v names what it removed: {r.stderr[:300]}")
+        t.res.check(os.path.isdir(os.path.join(tmp, live)) and
+                    os.path.exists(os.path.join(tmp, live, ".kerf-owner")),
+                    f"and left the live (stopped) run's directory {live} alone: {os.listdir(tmp)}")
+    finally:
+        q.send_signal(signal.SIGCONT)
+        status = q.wait()
+    t.res.check(status == 0 and os.listdir(tmp) == [],
+                f"the stopped run, continued, finishes and cleans up after itself: {status} {os.listdir(tmp)}")
+
+
+@S.case("killed_run_ends_its_reader")
+def _(t):
+    """The reader asks the kernel to end it when kerf, its parent, dies (Linux `prctl`,
+    PR_SET_PDEATHSIG): a stopped reader, which cannot end by itself, is gone once kerf is killed."""
+    if not sys.platform.startswith("linux"):
+        t.res.skip("the parent-death signal is Linux's")
+        return
+    tmp, env = private_tmp(t)
+    # An invented table big enough that its reading takes a while (about a second).
+    src = os.path.join(t.work, "wide_table.sv")
+    with open(src, "w") as f:
+        f.write("module wide_table(input logic [15:0] k, output logic [7:0] v);\n  always_comb begin\n"
+                "    unique case (k)\n")
+        for i in range(6000):
+            f.write(f"      16'd{i}: v = 8'd{(i * 37) % 256};\n")
+        f.write("      default: v = 8'd0;\n    endcase\n  end\nendmodule\n")
+    p = subprocess.Popen([t.kerf, "restructure", src, "-q"], env=env,
+                         stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    reader = None
+    deadline = time.monotonic() + 60
+    while reader is None and p.poll() is None and time.monotonic() < deadline:
+        kids = children_of(p.pid)
+        reader = kids[0] if kids else None
+        if reader is None:
+            time.sleep(0.002)
+    if not t.res.check(reader is not None, "kerf starts its reader"):
+        p.kill()
+        p.wait()
+        return
+    # The reader asks for the signal first and imports pyslang after: once pyslang is mapped into
+    # it, stop it. Stopped, it can only end by a signal.
+    mapped = False
+    while not mapped and time.monotonic() < deadline:
+        try:
+            mapped = "pyslang" in open(f"/proc/{reader}/maps").read()
+        except OSError:
+            break
+        if not mapped:
+            time.sleep(0.002)
+    os.kill(reader, signal.SIGSTOP)
+    state = process_state(reader)
+    stop_by = time.monotonic() + 10   # the stop is delivered asynchronously
+    while state not in ("T", None, "Z") and time.monotonic() < stop_by:
+        time.sleep(0.01)
+        state = process_state(reader)
+    if not t.res.check(mapped and state == "T", f"the reader was caught running and stopped "
+                       f"(pyslang mapped: {mapped}, state {state}, kerf's status {p.poll()})"):
+        p.kill()
+        p.wait()
+        return
+    p.kill()
+    p.wait()
+    state = None
+    deadline = time.monotonic() + 20
+    while time.monotonic() < deadline:
+        state = process_state(reader)
+        if state in (None, "Z", "X"):
+            break
+        time.sleep(0.05)
+    gone = state in (None, "Z", "X")
+    if not gone:
+        os.kill(reader, signal.SIGKILL)
+    t.res.check(gone, f"the stopped reader ended with kerf (state {state})")
+
+
 @S.case("closed_pipe_on_output")
 def _(t):
     tmp, env = private_tmp(t)

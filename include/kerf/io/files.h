@@ -46,9 +46,13 @@ std::string keepLineEndings(std::string_view original, std::string text);
 /// kerf by SIGPIPE as usual; other errors, e.g. a full disk, are kerf::Error).
 void writeStdout(std::string_view text);
 
-/// A private directory under $TMPDIR (mkdtemp, mode 0700) for files that exist
-/// only during a run, e.g. the rewrite while it is proved. Removed with its files
-/// when it goes out of scope or kerf dies of a signal — unless `keep()` was called.
+/// A private directory under $TMPDIR (`kerf-PID-XXXXXX`, mkdtemp, mode 0700) for files
+/// that exist only during a run, e.g. the rewrite while it is proved. Removed with its
+/// files when it goes out of scope or kerf dies of a signal — unless `keep()` was called.
+/// It holds an owner file (`kWorkDirOwnerFile`: host, boot, pid namespace, pid and the
+/// process's start time) so that a later run can tell, after a SIGKILL that nothing can
+/// catch, that the process which made it is gone (`sweepStaleWorkDirs`). `keep()` removes
+/// the owner file: a directory kept for a bug report is never swept.
 class WorkDir {
 public:
     WorkDir();
@@ -64,9 +68,31 @@ public:
 
 private:
     std::string dir_;
+    std::string owner_;   // the owner file's path
     std::vector<std::string> files_;
     bool kept_ = false;
 };
+
+/// The name of a work directory's owner file.
+inline constexpr const char* kWorkDirOwnerFile = ".kerf-owner";
+
+/// What `sweepStaleWorkDirs` removed.
+struct SweepResult {
+    std::vector<std::string> removed;   // directories removed
+    unsigned long long bytes = 0;       // the size of the files they held
+};
+
+/// Remove the work directories under $TMPDIR that kerf processes of this user left when
+/// they died without cleaning up (SIGKILL, the out-of-memory killer). A directory is
+/// removed only when all of these hold: its name is `kerf-...` (not `kerf-report-...`), it
+/// is a real directory (not a link) owned by this user with mode 0700, it holds a regular
+/// owner file of this user written by a kerf on this host in this boot and pid namespace
+/// (or in an earlier boot), and the process it names is gone — no process with that pid,
+/// or one that started at another time (the pid was reused). Anything else is left alone:
+/// another user's, another host's or another pid namespace's directories, a live process's,
+/// and directories without an owner file (kept for a bug report, or made by an older kerf).
+/// Only regular files directly inside are removed; never throws.
+SweepResult sweepStaleWorkDirs();
 
 /// Save files for a bug report in a new directory under $TMPDIR
 /// (`kerf-report-XXXXXX`) and return the directory; on failure returns "".
