@@ -443,10 +443,21 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             v.push_back(wr.unusedWire);
         return v;
     };
+    // The original's member texts, so that the reader of the rewrite describes only what the
+    // measure and the proof use (F216, F247); computed once, on the first reading back. Not when
+    // kerf runs itself on the written text (F235): that run takes the reading as its input and
+    // needs all of it (comments, named constants, every match key).
+    std::optional<std::optional<std::string>> memberTexts;
+    if (ownCheckable) memberTexts.emplace(std::nullopt);
     auto readBack = [&](const std::string& text, frontend::ModuleDesc& written) {
-        std::string rewritten = work->add(std::filesystem::path(file).filename().string(), text);
+        const std::string rewrittenName = std::filesystem::path(file).filename().string();
+        std::string rewritten = work->add(rewrittenName, text);
         writtenPath = rewritten;
         back = opts.read;
+        if (!memberTexts) memberTexts = frontend::memberTextList(desc);
+        if (*memberTexts)
+            back.readBackTexts = work->add(rewrittenName == "member-texts" ? "member-texts.list" : "member-texts",
+                                           **memberTexts);
         // The rewritten file replaces the one that holds the module; a proof that
         // silently read the original twice would prove nothing, so insist on a match.
         std::string key;

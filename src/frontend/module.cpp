@@ -8,7 +8,11 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <array>
 #include <cctype>
+#include <cstdint>
+#include <set>
+#include <string_view>
 
 namespace kerf::frontend {
 
@@ -35,11 +39,54 @@ std::vector<std::string> readerArguments(const ReadOptions& opts) {
     for (const auto& d : opts.defines) { args.push_back("-D"); args.push_back(d); }
     for (const auto& p : opts.params) { args.push_back("--param"); args.push_back(p); }
     if (opts.asBuilt) args.push_back("--as-built");
+    if (!opts.readBackTexts.empty()) { args.push_back("--read-back"); args.push_back(opts.readBackTexts); }
     for (const auto& f : opts.files) {
         auto it = opts.substitute.find(f);
         args.push_back(it == opts.substitute.end() ? f : it->second);
     }
     return args;
+}
+
+namespace {
+
+/// CRC-32 (IEEE 802.3, reflected polynomial 0xEDB88320; the value zlib's crc32 gives).
+std::uint32_t crc32(std::string_view bytes) {
+    static const auto table = [] {
+        std::array<std::uint32_t, 256> t{};
+        for (std::uint32_t i = 0; i < 256; ++i) {
+            std::uint32_t c = i;
+            for (int k = 0; k < 8; ++k) c = (c & 1) ? 0xEDB88320u ^ (c >> 1) : c >> 1;
+            t[i] = c;
+        }
+        return t;
+    }();
+    std::uint32_t c = 0xFFFFFFFFu;
+    for (unsigned char b : bytes) c = table[(c ^ b) & 0xFFu] ^ (c >> 8);
+    return c ^ 0xFFFFFFFFu;
+}
+
+} // namespace
+
+std::optional<std::string> memberTextList(const ModuleDesc& d) {
+    std::map<std::string, std::string> files;
+    std::set<std::pair<std::size_t, std::uint32_t>> seen;
+    std::string out;
+    for (const auto& m : d.members) {
+        if (m.src.file.empty() || m.src.end < m.src.start) continue;
+        auto it = files.find(m.src.file);
+        if (it == files.end()) {
+            try {
+                it = files.emplace(m.src.file, io::readFile(m.src.file)).first;
+            } catch (const Error&) {
+                return std::nullopt;
+            }
+        }
+        if (m.src.end > it->second.size()) return std::nullopt;
+        std::string_view text(it->second.data() + m.src.start, m.src.end - m.src.start);
+        std::pair<std::size_t, std::uint32_t> k{text.size(), crc32(text)};
+        if (seen.insert(k).second) out += fmt::format("{} {}\n", k.first, k.second);
+    }
+    return out;
 }
 
 ModuleDesc readModule(const ReadOptions& opts) {

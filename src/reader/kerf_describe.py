@@ -108,6 +108,7 @@ class Sources:
         self._names = {}
         self._bytes = {}
         self._file = {}
+        self._buffer_of = {}   # file name (as described) -> slang buffer
         self.lines = {}      # file name -> line start offsets (for the `files` table)
 
     def name(self, buf):
@@ -119,7 +120,13 @@ class Sources:
             # to the working directory); the writer and the proof key on it.
             n = GIVEN_FILES.get(os.path.realpath(n), n)
             self._names[key] = n
+            self._buffer_of.setdefault(n, buf)
         return n
+
+    def bytes_of(self, name):
+        """The bytes of the file the description names `name` (one of its members' files)."""
+        buf = self._buffer_of.get(name)
+        return self.data(buf) if buf is not None else None
 
     def data(self, buf):
         key = buf.id
@@ -380,6 +387,13 @@ class Describer:
         return src, None
 
     # -- comments ------------------------------------------------------------------
+
+    def member_comments(self, syn):
+        """A member's `comments`: only the writer carries them (into its new text), so a
+        description of kerf's own rewrite for its proof (READ_BACK) has none."""
+        if READ_BACK is not None:
+            return _NO_COMMENTS
+        return self.comments(syn)
 
     def comments(self, syn):
         """Byte ranges of the comments attached to a member: the comment lines directly
@@ -1198,7 +1212,7 @@ class Describer:
                 self.check_hidden_reads(c, "a continuous assignment")
                 return {"kind": "assign", "src": src, "lhs": lhs, "rhs": rhs,
                         "reads": sorted(c.reads), "writes": sorted(c.writes),
-                        "comments": self.comments(syn)}
+                        "comments": self.member_comments(syn)}
             except Unsupported as u:
                 c.drop()
                 why = "it " + str(u)
@@ -1233,7 +1247,7 @@ class Describer:
                 rhs = c.expr(init)
                 self.check_hidden_reads(c, "a net declaration assignment")
                 return {"kind": "assign", "src": src, "net_decl": True, "lhs": lhs, "rhs": rhs,
-                        "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.comments(stmt)}
+                        "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.member_comments(stmt)}
             except Unsupported as u:
                 c.drop()
                 why = "it " + str(u)
@@ -1336,7 +1350,7 @@ class Describer:
                                       "simulator does not re-run it when that changes"
                                       % sorted(c.reads - listed)[0])
                 m = {"kind": "comb", "src": src, "style": style, "locals": c.local_list, "body": b,
-                     "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.comments(syn)}
+                     "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.member_comments(syn)}
                 if c.localized:
                     m["_localized"] = set(c.localized)
                     m["_symbol"] = sym
@@ -1438,7 +1452,7 @@ class Describer:
                 members.append(self.other_member(sym))
             for m in members[first:]:
                 m["_sym"] = sym
-                if m["src"] is not None:
+                if m["src"] is not None and READ_BACK is None:   # named constants: for the writer
                     key = (m["src"]["file"], m["src"]["start"], m["src"]["end"])
                     named = self.constants_named(sym.initializer if k == SK.Net else sym)
                     if named:
@@ -1604,6 +1618,14 @@ def _merge_ranges(rs):
 
 # realpath -> the path as given on the command line (set by kerf_read.py)
 GIVEN_FILES = {}
+
+# Set (kerf_read.py --read-back) when the file is kerf's own rewrite, read back to be measured
+# and proved: a set of (byte length, CRC-32) of the texts of the members of the description the
+# rewrite was made from. Only what the lowering and the proof use is described: no comments, no
+# named constants, and a full match key only for a member whose text is in the set (a kept
+# statement comes back byte for byte; any other member can pair with nothing, docs/proof.md).
+READ_BACK = None
+_NO_COMMENTS = {"above": [], "inside": [], "trailing": []}
 
 
 def describe(comp, top):

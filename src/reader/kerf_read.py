@@ -61,6 +61,10 @@ def parse_args(argv):
     p.add_argument("--as-built", action="store_true",
                    help="describe this build only: do not keep logic that depends on parameters an instance "
                         "could override or on the preprocessor (for proofs of one build)")
+    p.add_argument("--read-back", metavar="TEXTS",
+                   help="the file is kerf's own rewrite, read back to be measured and proved: describe only "
+                        "what that needs (no comments, no named constants, match keys only for members whose "
+                        "text is listed in TEXTS, one 'LENGTH CRC32' line per member text of the original)")
     p.add_argument("files", nargs="*", metavar="FILE")
     args = p.parse_args(argv)
     if not args.files:
@@ -224,6 +228,20 @@ def main(argv=None):
     kerf_variants.PINNED = pinned
     kerf_variants.DEFINES = [d.partition("=")[0] for d in args.defines]
     kerf_variants.AS_BUILT = args.as_built
+    if args.read_back is not None:
+        listed = set()
+        try:
+            with open(args.read_back) as f:
+                for line in f:
+                    parts = line.split()
+                    if len(parts) == 2:
+                        n, crc = int(parts[0]), int(parts[1])
+                        listed.add((n, crc))
+                        listed.add((n, None))
+        except (OSError, ValueError) as exc:
+            sys.stderr.write("kerf_read: cannot read the list of member texts '%s': %s\n" % (args.read_back, exc))
+            return EXIT_USAGE
+        kerf_describe.READ_BACK = listed
 
     # The description is millions of small lists and tuples that live to the end: the cyclic
     # collector's full passes over them were a tenth to a quarter of the describe time on a

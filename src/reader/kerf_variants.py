@@ -17,6 +17,7 @@ Settings come from kerf_read.py through module globals (`PINNED`,
 """
 
 import hashlib
+import zlib
 
 from pyslang import ast, syntax
 
@@ -193,7 +194,19 @@ def _instances_in(d, st, file, start, end):
     return sorted({n for (f, o, n) in st.instances if f == file and start <= o < end})
 
 
+def _text_listed(d, src, listed):
+    """Whether the member text at `src` has its (byte length, CRC-32) in `listed`."""
+    n = src["end"] - src["start"]
+    if (n, None) not in listed:
+        return False
+    data = d.src.bytes_of(src["file"])
+    if data is None:
+        return True     # cannot tell: key it as usual
+    return (n, zlib.crc32(data[src["start"]:src["end"]])) in listed
+
+
 def finish(d, members, description):
+    import kerf_describe
     st = _state(d)
     for m in members:
         key_text = m.pop("_key_text", None)
@@ -205,6 +218,11 @@ def finish(d, members, description):
                 .hexdigest()[:32]
             continue
         src = m["src"]
+        if kerf_describe.READ_BACK is not None and not _text_listed(d, src, kerf_describe.READ_BACK):
+            # kerf's own rewrite: this text is no member's of the design it came from, so no
+            # member there can pair with it (a kept statement comes back byte for byte).
+            m["match_key"] = "unmatched:%s:%d:%d" % (src["file"], src["start"], src["end"])
+            continue
         node = st.syntax_by_src.get(_src_key(src))
         whole = None         # a syntax node whose tokens are exactly the member's
         toks = None

@@ -635,6 +635,126 @@ def reader_bugs_are_not_hidden():
 
 
 # ---------------------------------------------------------------------------
+# reading back kerf's own rewrite (`--read-back`, docs/reader-format.md "Reading back a rewrite")
+
+def member_texts(d):
+    """The `--read-back` list of description `d`: `LENGTH CRC32` of each member's text, as kerf
+    writes it (CRC-32 of IEEE 802.3, zlib's)."""
+    import zlib
+    lines = set()
+    for m in d["members"]:
+        src = m.get("src")
+        if src:
+            b = open(src["file"] if os.path.isabs(src["file"]) else os.path.join(INPUTS, src["file"]),
+                     "rb").read()[src["start"]:src["end"]]
+            lines.add("%d %d" % (len(b), zlib.crc32(b)))
+    return "".join(l + "\n" for l in sorted(lines))
+
+
+def without_writer_fields(d):
+    """`d` without what only the writer reads: comments, named constants, match keys."""
+    d = json.loads(json.dumps(d))
+    d.pop("constants", None)
+    for m in d["members"]:
+        for k in ("comments", "constants", "match_key"):
+            m.pop(k, None)
+    return d
+
+
+READ_BACK_INPUTS = [["comments.sv"], ["kept.sv"], ["case_wild.sv"], ["loops.sv"], ["pkg_struct.sv"],
+                    ["semantics.sv"], ["widths.sv"], ["drivers.sv"], ["byte_ranges.sv"], ["keep.sv"],
+                    ["-I", "inc", "-D", "READY_EXPR=(st == 2'd3)", "includes.sv"]] + \
+    [[os.path.join("..", "..", "..", "samples", f)] for f in ("dma_fsm.sv", "gpio_mux.v", "rv_decoder.sv",
+                                                             "uart_regsel.v")] + \
+    [[os.path.join("..", "..", "..", "samples", "irq_pkg.sv"), os.path.join("..", "..", "..", "samples", "irq_router.sv")]] + \
+    [[os.path.join("..", "variants", f)] for f in ("fifo_flags.v", "lane_mask.v", "lane_mask_sv.sv")]
+
+
+@test
+def read_back_describes_the_same_logic():
+    # The read-back description is the full one less comments and named constants (the
+    # writer's), with the same match key for every member whose text is listed and a key
+    # that pairs with nothing for the others. Checked on every reader input that has members.
+    checked = 0
+    with tempfile.TemporaryDirectory() as tmp:
+        for args in READ_BACK_INPUTS:
+            full = read(*args, raw=True)
+            if not full["members"]:
+                continue
+            listed = os.path.join(tmp, "texts")
+            open(listed, "w").write(member_texts(full))
+            back = read("--read-back", listed, *args, raw=True)
+            eq(without_writer_fields(back), without_writer_fields(full), "%s: the logic described" % args)
+            for mf, mb in zip(full["members"], back["members"]):
+                eq(mb.get("match_key"), mf.get("match_key"), "%s: key of the listed member at %s" % (args, mf["src"]))
+                assert "comments" not in mb or mb["comments"] == {"above": [], "inside": [], "trailing": []}, mb
+            open(listed, "w").write("")
+            none = read("--read-back", listed, *args, raw=True)
+            eq(without_writer_fields(none), without_writer_fields(full), "%s: the logic, nothing listed" % args)
+            unmatched = 0
+            for mf, mb in zip(full["members"], none["members"]):
+                if mb["match_key"] != mf["match_key"]:
+                    assert mb["match_key"].startswith("unmatched:"), (args, mb["match_key"])
+                    unmatched += 1
+            assert unmatched > 0, "%s: nothing listed, yet every member got its full key" % (args,)
+            checked += 1
+    assert checked >= 12, checked
+
+
+WRONG_REWRITE_UNIT = """module unit (input logic clk, input logic [3:0] a, b, input logic [1:0] s, output logic [3:0] y,
+             output logic w);
+  always_ff @(posedge clk) y <= a ^ b;
+  assign w = (a[0] & b[0]) | (a[0] & b[1]) | (a[0] & s[0]) | (a[1] & b[0]) | (a[1] & b[1]) | (a[1] & s[0]);
+endmodule
+"""
+
+# A reader that damages the rewrite before describing it, as a wrong writer would have written it.
+DAMAGING_READER = """import os, runpy, sys
+args = sys.argv[1:]
+if "--read-back" in args:
+    path = args[-1]
+    text = open(path).read()
+    old, new = os.environ["KERF_TEST_DAMAGE"].split("=>")
+    open(path, "w").write(text.replace(old, new))
+sys.argv = [%r] + args
+runpy.run_path(%r, run_name="__main__")
+"""
+
+
+@test
+def read_back_still_catches_a_wrong_rewrite():
+    # kerf proves what it wrote by reading it back (`--read-back`). A rewrite changed before
+    # that reading — in the logic kerf wrote, or in a statement kept as written, by its logic
+    # or only its spacing — must be refused: exit 5 (kerf's own error), nothing written. The
+    # unchanged rewrite through the same reader is the control (exit 0, written).
+    with tempfile.TemporaryDirectory() as tmp:
+        src = os.path.join(tmp, "unit.sv")
+        open(src, "w").write(WRONG_REWRITE_UNIT)
+        wrapper = os.path.join(tmp, "damaging_reader.py")
+        open(wrapper, "w").write(DAMAGING_READER % (READER, READER))
+        for damage, what in (("no such text=>", "nothing (control)"),
+                             ("| s[0]=>& s[0]", "the rewritten logic"),
+                             ("y <= a ^ b;=>y <= a | b;", "a kept statement's logic"),
+                             ("y <= a ^ b;=>y <= a ^  b;", "a kept statement's spacing")):
+            out = os.path.join(tmp, "out.sv")
+            if os.path.exists(out):
+                os.remove(out)
+            env = dict(os.environ, KERF_READER=wrapper, KERF_TEST_DAMAGE=damage, TMPDIR=tmp)
+            p = subprocess.run([KERF, "restructure", src, "-o", out, "--min-gain", "0"], env=env,
+                               stdout=subprocess.PIPE, stderr=subprocess.PIPE, timeout=600)
+            err = p.stderr.decode("utf-8", "replace")
+            if damage.startswith("no such"):
+                eq(p.returncode, 0, "control: %s" % err[-600:])
+                assert os.path.exists(out) and "| s[0]" in open(out).read() and "y <= a ^ b;" in open(out).read(), \
+                    "control: the rewrite is written with the text the damage would change:\n" + \
+                    (open(out).read() if os.path.exists(out) else "(none)")
+                continue
+            eq(p.returncode, 5, "%s damaged: kerf's own error: %s" % (what, err[-800:]))
+            assert not os.path.exists(out), "%s damaged: nothing written" % what
+            assert "kerf bug" in err, "%s damaged: the message calls it kerf's bug: %s" % (what, err[-800:])
+
+
+# ---------------------------------------------------------------------------
 # kerf on constructs: each module of reader_inputs/constructs/ (invented
 # scenarios) restructured by kerf, the rewrite compared with the original by
 # Icarus Verilog 4-state simulation wherever the original is not x (outside

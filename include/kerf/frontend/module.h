@@ -186,7 +186,17 @@ struct ReadOptions {
     std::string top;
     /// Replace a file by another when reading (used to read back kerf's own output).
     std::map<std::string, std::string> substitute;
+    /// Reading back kerf's own rewrite for its measure and proof: a file listing the texts of
+    /// the original's members (`memberTextList`). The reader then leaves out what only the
+    /// writer uses (comments, named constants) and keys only members whose text is listed
+    /// (docs/reader-format.md, "Reading back a rewrite"). Empty: a full description.
+    std::string readBackTexts;
 };
+
+/// One line `LENGTH CRC32` per member of `d` (the bytes of its source range; CRC-32 of
+/// IEEE 802.3, as zlib computes it), for `ReadOptions::readBackTexts`; nullopt when a
+/// member's file cannot be read (then the rewrite is described in full).
+std::optional<std::string> memberTextList(const ModuleDesc& d);
 
 /// The reader's command-line arguments for `opts` (after the script name).
 std::vector<std::string> readerArguments(const ReadOptions& opts);
