@@ -701,14 +701,18 @@ def read_back_describes_the_same_logic():
     assert checked >= 12, checked
 
 
-WRONG_REWRITE_UNIT = """module unit (input logic clk, input logic [3:0] a, b, input logic [1:0] s, output logic [3:0] y,
-             output logic w);
-  always_ff @(posedge clk) y <= a ^ b;
-  assign w = (a[0] & b[0]) | (a[0] & b[1]) | (a[0] & s[0]) | (a[1] & b[0]) | (a[1] & b[1]) | (a[1] & s[0]);
+# An invented wide mux-select block: above the size up to which kerf runs itself on the text it
+# is about to write (SliceRegroupLimits::checkGates, 20,000 gates; F235), where the reading of
+# the rewrite is the read-back one.
+WRONG_REWRITE_UNIT = """module wide_select (input logic clk, input logic [5999:0] a, b, c, d, output logic [5999:0] y,
+                    output logic [3:0] q);
+  always_ff @(posedge clk) q <= a[3:0] ^ b[3:0];
+  assign y = (a & b) | (c & d) | (a & d);
 endmodule
 """
 
-# A reader that damages the rewrite before describing it, as a wrong writer would have written it.
+# A reader that damages the rewrite before describing it, as a wrong writer would have written it;
+# it notes each `--read-back` reading in KERF_TEST_SEEN.
 DAMAGING_READER = """import os, runpy, sys
 args = sys.argv[1:]
 if "--read-back" in args:
@@ -716,6 +720,7 @@ if "--read-back" in args:
     text = open(path).read()
     old, new = os.environ["KERF_TEST_DAMAGE"].split("=>")
     open(path, "w").write(text.replace(old, new))
+    open(os.environ["KERF_TEST_SEEN"], "a").write(path + "\\n")
 sys.argv = [%r] + args
 runpy.run_path(%r, run_name="__main__")
 """
@@ -728,27 +733,33 @@ def read_back_still_catches_a_wrong_rewrite():
     # or only its spacing — must be refused: exit 5 (kerf's own error), nothing written. The
     # unchanged rewrite through the same reader is the control (exit 0, written).
     with tempfile.TemporaryDirectory() as tmp:
-        src = os.path.join(tmp, "unit.sv")
+        src = os.path.join(tmp, "wide_select.sv")
         open(src, "w").write(WRONG_REWRITE_UNIT)
         wrapper = os.path.join(tmp, "damaging_reader.py")
         open(wrapper, "w").write(DAMAGING_READER % (READER, READER))
+        seen = os.path.join(tmp, "seen")
+        written = None
         for damage, what in (("no such text=>", "nothing (control)"),
-                             ("| s[0]=>& s[0]", "the rewritten logic"),
-                             ("y <= a ^ b;=>y <= a | b;", "a kept statement's logic"),
-                             ("y <= a ^ b;=>y <= a ^  b;", "a kept statement's spacing")):
+                             ("| (c & d)=>& (c & d)", "the rewritten logic"),
+                             ("q <= a[3:0] ^ b[3:0];=>q <= a[3:0] | b[3:0];", "a kept statement's logic"),
+                             ("q <= a[3:0] ^ b[3:0];=>q <= a[3:0] ^  b[3:0];", "a kept statement's spacing")):
             out = os.path.join(tmp, "out.sv")
             if os.path.exists(out):
                 os.remove(out)
-            env = dict(os.environ, KERF_READER=wrapper, KERF_TEST_DAMAGE=damage, TMPDIR=tmp)
+            if os.path.exists(seen):
+                os.remove(seen)
+            env = dict(os.environ, KERF_READER=wrapper, KERF_TEST_DAMAGE=damage, KERF_TEST_SEEN=seen, TMPDIR=tmp)
             p = subprocess.run([KERF, "restructure", src, "-o", out, "--min-gain", "0"], env=env,
                                stdout=subprocess.PIPE, stderr=subprocess.PIPE, timeout=600)
             err = p.stderr.decode("utf-8", "replace")
+            assert os.path.exists(seen), "%s: kerf read its rewrite back with --read-back: %s" % (what, err[-600:])
             if damage.startswith("no such"):
                 eq(p.returncode, 0, "control: %s" % err[-600:])
-                assert os.path.exists(out) and "| s[0]" in open(out).read() and "y <= a ^ b;" in open(out).read(), \
-                    "control: the rewrite is written with the text the damage would change:\n" + \
-                    (open(out).read() if os.path.exists(out) else "(none)")
+                written = open(out).read() if os.path.exists(out) else ""
                 continue
+            target = damage.split("=>")[0]
+            assert target in written, "the control's rewrite holds the text the damage changes (%r):\n%s" % (
+                target, written)
             eq(p.returncode, 5, "%s damaged: kerf's own error: %s" % (what, err[-800:]))
             assert not os.path.exists(out), "%s damaged: nothing written" % what
             assert "kerf bug" in err, "%s damaged: the message calls it kerf's bug: %s" % (what, err[-800:])
