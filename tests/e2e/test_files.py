@@ -320,7 +320,7 @@ def _(t):
     env = dict(os.environ, KERF_PROGRESS_DELAY="0")
     out = os.path.join(t.work, "o.v")
     code, text = run_on_terminal([t.kerf, "restructure", SAMPLE, "-o", out], env)
-    t.res.check(code == 0 and re.search(r"kerf: (read|lower|restructure|write|prove)", text) is not None,
+    t.res.check(code == 0 and re.search(r"kerf: (read|lower|restructure|write|second run|prove)", text) is not None,
                 f"on a terminal a progress line names the stage: {text[-300:]!r}")
     t.res.check(re.search(r"\d+ s", text) is not None, f"and the elapsed time: {text[-300:]!r}")
     code, text = run_on_terminal([t.kerf, "restructure", SAMPLE, "-o", out, "--quiet"], env)
