@@ -67,7 +67,7 @@ namespace {
 struct XorPair {
     std::size_t i = 0, j = 0;        ///< the products' places in the sum, i < j
     std::vector<Literal> common;      ///< P, in kid i's order
-    Literal xi = 0, yi = 0, xj = 0, yj = 0;   ///< the two literals where i and j differ
+    Literal x = 0, y = 0;             ///< kid i's two literals where j has their complements
 };
 
 /// Most products of one variable set compared pair by pair; a larger set (a decoder's products
@@ -113,18 +113,15 @@ std::vector<XorPair> xorPairs(const Factored& f) {
                     if (a[k] != b[k]) diff.push_back(k);
                 if (diff.size() != 2) continue;
                 used[i] = used[j] = 1;
-                XorPair x;
-                x.i = std::min(i, j);
-                x.j = std::max(i, j);
-                const auto &first = sorted[x.i], &second = sorted[x.j];
-                x.xi = first[diff[0]];
-                x.yi = first[diff[1]];
-                x.xj = second[diff[0]];
-                x.yj = second[diff[1]];
+                XorPair pair;
+                pair.i = std::min(i, j);
+                pair.j = std::max(i, j);
+                pair.x = sorted[pair.i][diff[0]];
+                pair.y = sorted[pair.i][diff[1]];
                 // P in the written order of the first product.
-                for (const auto& k : f.kids[x.i].kids)
-                    if (k.lit != x.xi && k.lit != x.yi) x.common.push_back(k.lit);
-                pairs.push_back(std::move(x));
+                for (const auto& k : f.kids[pair.i].kids)
+                    if (k.lit != pair.x && k.lit != pair.y) pair.common.push_back(k.lit);
+                pairs.push_back(std::move(pair));
             }
     }
     std::sort(pairs.begin(), pairs.end(), [](const XorPair& a, const XorPair& b) { return a.i < b.i; });
@@ -326,18 +323,14 @@ std::vector<std::uint8_t> ExprBuilder::sliceKids(const Factored& f) const {
     return out;
 }
 
-namespace {
-const std::string kNoCommon;   ///< comparisons: products over more than one vector
-} // namespace
-
 bool ExprBuilder::comparisons(const Factored& f) const {
     // An OR (AND) whose every operand is a whole-vector comparison `v == K` (`v != K`): written as
     // those comparisons, never regrouped into ?: or ^ over the vector's bits.
     // Also an OR (AND) of slice comparisons of one and the same vector, as an address decoder
     // writes them: `(addr[2:1] == 2'b01) | (addr[2:0] == 3'b100)`, not `addr[1] ? ~addr[2] : ...`.
     if ((f.kind != K::And && f.kind != K::Or) || f.kids.size() < 2) return false;
-    bool whole = true, sameBits = true;
-    const std::string* common = nullptr;
+    bool whole = true, sameBits = true, oneVector = true;
+    const std::string* vector = nullptr;
     std::vector<std::uint32_t> firstVars;
     for (const auto& k : f.kids) {
         if (k.kind == f.kind || (k.kind != K::And && k.kind != K::Or) || k.kids.size() < 2) return false;
@@ -359,11 +352,11 @@ bool ExprBuilder::comparisons(const Factored& f) const {
         std::sort(vars.begin(), vars.end());
         if (firstVars.empty()) firstVars = vars;
         else if (vars != firstVars) sameBits = false;
-        if (!common) common = &refs_[v0]->signal;
-        else if (*common != refs_[v0]->signal) common = &kNoCommon;
+        if (!vector) vector = &refs_[v0]->signal;
+        else if (*vector != refs_[v0]->signal) oneVector = false;
     }
     // Products over the very same bits stay free to read as `^` or `?:` (`g[4] ^ g[5]`).
-    return whole || (common != &kNoCommon && !sameBits);
+    return whole || (oneVector && !sameBits);
 }
 
 int ExprBuilder::costLit(Literal l) {
@@ -400,7 +393,7 @@ const Factored* ExprBuilder::xorGrouped(const Factored& f) {
                     p.kids[1].lit = b;
                     return p;
                 };
-                two.kids = {product(x.xi, x.yi), product(x.xj, x.yj)};
+                two.kids = {product(x.x, x.y), product(negateLiteral(x.x), negateLiteral(x.y))};
                 Factored both;
                 both.kind = K::And;
                 for (Literal l : x.common) {

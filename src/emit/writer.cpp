@@ -3421,8 +3421,7 @@ WriteResult writeModule(const WriteInput& in, const WriteOptions& opts) {
         WrittenFigures base = writtenFigures(*in.network, *in.forms, {});
         ReductionBudget budget;
         budget.depthBound = opts.depthBound >= 0 ? static_cast<std::size_t>(opts.depthBound) : base.depth;
-        budget.gateMargin = opts.minGain.percent ? opts.minGain.value * static_cast<double>(base.gates) / 100.0
-                                                 : opts.minGain.value;
+        budget.gateMargin = opts.minGain.gatesOf(base.gates);
         if (opts.minGain.value <= 0) budget.share = 0;
         net::Network net = *in.network;
         std::vector<algebra::Factored> forms = *in.forms;
@@ -3460,8 +3459,7 @@ WriteResult writeNamed(const WriteInput& in, const WriteOptions& opts, NamingRec
         NamingBudget budget;
         WrittenFigures base = writtenFigures(*in.network, *in.forms, {});
         budget.depthBound = opts.depthBound >= 0 ? static_cast<std::size_t>(opts.depthBound) : base.depth;
-        budget.gateMargin = opts.minGain.percent ? opts.minGain.value * static_cast<double>(base.gates) / 100.0
-                                                 : opts.minGain.value;
+        budget.gateMargin = opts.minGain.gatesOf(base.gates);
         std::string log;
         NamingRecord record;
         NamingPlan plan =

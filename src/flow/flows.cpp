@@ -378,8 +378,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         const bool checkable = ownCheckable;
         double maxExtra = -1;
         if (er.after.gates > rl.checkGates) {
-            const double gain = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
-                                                   : wo.minGain.value;
+            const double gain = wo.minGain.gatesOf(er.after.gates);
             maxExtra = std::max(0.0, std::ceil(gain) - 1);
         }
         net::Network engineNet;
@@ -504,8 +503,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             auto tCheck = Clock::now();
             net::Metrics m = readBack(wr.text, w);
             checkedSeconds = since(tCheck);
-            const double margin = wo.minGain.percent ? wo.minGain.value * static_cast<double>(er.after.gates) / 100.0
-                                                     : wo.minGain.value;
+            const double margin = wo.minGain.gatesOf(er.after.gates);
             const auto bound = static_cast<std::size_t>(std::max(wo.depthBound, static_cast<int>(er.after.depth)));
             const bool over =
                 m.depth > bound || static_cast<double>(m.gates) > static_cast<double>(er.after.gates) + margin;

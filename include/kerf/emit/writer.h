@@ -26,6 +26,8 @@ struct MinGain {
     /// Parse "N" (gates) or "N%" (percent); throws kerf::Error (usage) on anything else.
     static MinGain parse(const std::string& text);
     std::string str() const;
+    /// The margin in two-input gates for a design of `size` gates.
+    double gatesOf(std::size_t size) const { return percent ? value * static_cast<double>(size) / 100.0 : value; }
 };
 
 struct WriteOptions {
