@@ -218,8 +218,33 @@ def always_comb_as_always_star(text):
     raw = text.encode()
     for off in sorted(offsets, reverse=True):
         assert raw[off:off + 11] == b"always_comb"
-        raw = raw[:off] + b"always @(*)" + raw[off + 11:]
+        raw = raw[:off] + _CONVERTED.encode() + raw[off + 11:]
     return raw.decode()
+
+
+# A converted block carries a mark, so that `simulate` can turn it back when Icarus finds it
+# reads nothing after all: Icarus leaves reads under a constant condition out of `@(*)`
+# (`st1 = '0; if (2'h0) st1.f0[1] = in2;`), warns "@* found no sensitivities so it will never
+# trigger", and the block's variables stay x, where always_comb runs once at time zero
+# (IEEE 1800-2017 9.2.2.2.2). Such a block cannot loop, so always_comb is safe for it.
+_CONVERTED = "always @(*) /* always_comb */"
+_NO_SENSITIVITY = re.compile(r"^(.*?):(\d+): warning: @\* found no sensitivities so it will never trigger", re.M)
+
+
+def _restore_idle_blocks(warnings):
+    """Turn converted blocks Icarus says never trigger back into always_comb; True if any."""
+    changed = False
+    for path, line in {(m.group(1), int(m.group(2))) for m in _NO_SENSITIVITY.finditer(warnings)}:
+        if not os.path.isfile(path):
+            continue
+        with open(path) as f:
+            lines = f.read().split("\n")
+        if 0 < line <= len(lines) and _CONVERTED in lines[line - 1]:
+            lines[line - 1] = lines[line - 1].replace(_CONVERTED, "always_comb", 1)
+            with open(path, "w") as f:
+                f.write("\n".join(lines))
+            changed = True
+    return changed
 
 
 # ---------------------------------------------------------------------------------------------
@@ -493,6 +518,8 @@ def simulate(pairs, sources, workdir, defines=(), include_dirs=(), timeout=600, 
             cmd += ["-D", d]
         cmd += list(sources) + [tb_path]
         c = run(cmd, timeout=timeout)
+        if c.returncode == 0 and _restore_idle_blocks(c.stderr):
+            c = run(cmd, timeout=timeout)
         if c.returncode != 0:
             msg = "iverilog failed to compile: " + (c.stderr + c.stdout)[-3000:]
             return {p.tag: SimResult(False, detail=msg) for p in pairs}
