@@ -1,5 +1,6 @@
 #!/usr/bin/env python3
-"""Random modules (tests/randrtl/randmod.py) through `kerf restructure`, checked by Icarus Verilog.
+"""Random modules (tests/randrtl/randmod.py, and control decoders from randdec.py) through
+`kerf restructure`, checked by Icarus Verilog.
 
 A fixed-seed batch small enough for the suite; the long campaign is tests/randrtl/campaign.py.
 Every module is restructured, and original and rewrite are simulated side by side in one Icarus
@@ -31,11 +32,12 @@ sys.path.insert(0, HERE)
 sys.path.insert(0, os.path.join(HERE, "..", "randrtl"))
 import kerf_e2e as K  # noqa: E402
 import randmod  # noqa: E402
+import randdec  # noqa: E402
 import campaign  # noqa: E402
 
 # The suite's batches: seed -> (count, features). Seed 1 uses the settled constructs, seed 2
-# every construct the generator has.
-SUITE = {1: (25, "default"), 2: (25, "all")}
+# every construct the generator has, seed 3 is randdec's control decoders ("decoder").
+SUITE = {1: (25, "default"), 2: (25, "all"), 3: (20, "decoder")}
 
 
 def known_failures(root):
@@ -82,7 +84,12 @@ def main():
     count, features = SUITE.get(a.seed, (25, "default"))
     count = a.count if a.count is not None else count
     features = a.features if a.features is not None else features
-    modules = [randmod.generate(a.seed, i, randmod.parse_features(features)) for i in range(count)]
+    if features == "decoder":
+        modules = [randdec.generate(a.seed, i) for i in range(count)]
+        again = f"tests/randrtl/randdec.py --seed {a.seed} --index {{}}"
+    else:
+        modules = [randmod.generate(a.seed, i, randmod.parse_features(features)) for i in range(count)]
+        again = f"tests/randrtl/randmod.py --seed {a.seed} --index {{}} --features {features}"
     work = tempfile.mkdtemp(prefix=f"kerf-random-{a.seed}-")
     try:
         outcomes = campaign.check_modules(os.path.abspath(a.kerf), modules, work, jobs=1)
@@ -107,8 +114,7 @@ def main():
                 print(f"{o.module}: known failure '{o.kind}' ({listed[1]})")
             else:
                 res.check(False, f"{o.module} (seed {a.seed}, index {i}, features {features}): {o.kind}: "
-                                 f"{o.reason}\n{o.detail[:3000]}\n(reproduce: python3 tests/randrtl/randmod.py "
-                                 f"--seed {a.seed} --index {i} --features {features})")
+                                 f"{o.reason}\n{o.detail[:3000]}\n(reproduce: python3 {again.format(i)})")
         else:
             res.check(listed is None, f"{o.module} now gives '{o.kind}' but tests/randrtl/known-failures.txt "
                                       f"lists '{listed[0] if listed else ''}': remove that line")

@@ -1,7 +1,8 @@
 #!/usr/bin/env python3
 """campaign — random modules through `kerf restructure`, compared with Icarus Verilog.
 
-Generates modules with tests/randrtl/randmod.py, restructures each with kerf, and compares
+Generates modules with tests/randrtl/randmod.py (or control decoders with randdec.py, `--shape
+decoder`), restructures each with kerf, and compares
 original and rewrite by four-valued simulation in Icarus Verilog (outside reference), many
 modules per simulator run: every pair gets its own testbench, all compiled together. Outputs
 and internal signals are compared bit by bit wherever the original is not x; registers are
@@ -9,7 +10,7 @@ reset first; parameterised modules are also simulated with an overriding value. 
 Icarus cannot compile is split in halves until the rewrite at fault is found.
 
     python3 tests/randrtl/campaign.py --kerf build/kerf --seed 1 --count 3000 [--batch 100]
-        [--features default|all|name,-name] [--jobs 2] [--lint] [--save DIR]
+        [--features default|all|name,-name] [--shape mixed|decoder] [--jobs 2] [--lint] [--save DIR]
         [--kerf-args "--effort thorough --goal depth"]
 
 Prints counts: modules, passed, rewritten, unchanged, mismatches, failures to build, deleted
@@ -33,6 +34,7 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, HERE)
 sys.path.insert(0, os.path.join(HERE, "..", "e2e"))
 import randmod  # noqa: E402
+import randdec  # noqa: E402
 import outside_check as O  # noqa: E402
 
 # Outcome kinds of one module. The first group are kerf bugs; the second are accepted answers.
@@ -263,6 +265,8 @@ def main():
     p.add_argument("--start", type=int, default=0, help="first module index")
     p.add_argument("--batch", type=int, default=100, help="modules per simulator run")
     p.add_argument("--features", default="default")
+    p.add_argument("--shape", choices=("mixed", "decoder"), default="mixed",
+                   help="mixed: randmod's modules of every construct; decoder: randdec's control decoders")
     p.add_argument("--jobs", type=int, default=1, help="kerf runs in parallel")
     p.add_argument("--lint", action="store_true", help="also compare Verilator -Wall warnings")
     p.add_argument("--save", default="", help="copy every failing module, rewrite and log here")
@@ -272,7 +276,8 @@ def main():
     features = randmod.parse_features(a.features)
     kerf = os.path.abspath(a.kerf)
     t0 = time.time()
-    modules = [randmod.generate(a.seed, i, features) for i in range(a.start, a.start + a.count)]
+    gen = randdec.generate if a.shape == "decoder" else randmod.generate
+    modules = [gen(a.seed, i, features) for i in range(a.start, a.start + a.count)]
     work = tempfile.mkdtemp(prefix="kerf-campaign-")
     outcomes = []
     try:
@@ -299,8 +304,8 @@ def main():
     finally:
         shutil.rmtree(work, ignore_errors=True)
     seconds = time.time() - t0
-    print(f"campaign: seed {a.seed}, modules {a.start}..{a.start + a.count - 1}, features "
-          f"{','.join(sorted(features))}")
+    print(f"campaign: seed {a.seed}, modules {a.start}..{a.start + a.count - 1}, "
+          + ("decoders (randdec)" if a.shape == "decoder" else f"features {','.join(sorted(features))}"))
     print(summarize(outcomes, modules, seconds))
     bugs = [o for o in outcomes if o.kind in BUG_KINDS]
     for o in bugs[:50]:
