@@ -120,7 +120,8 @@ def pairs_for(desc, work):
     for i, params in enumerate(desc["param_sets"]):
         out.append(O.Pair(f"{name}#{i}", name + "_ref", name + "_new", desc["ports"], params=params,
                           clock=desc["clock"], reset=tuple(desc["reset"]) if desc["reset"] else None,
-                          vectors=300, exhaustive_limit=10, seed=1 + i, internals=desc["internals"]))
+                          vectors=desc.get("vectors", 300), exhaustive_limit=10, seed=1 + i,
+                          internals=desc["internals"]))
     return out
 
 

@@ -4,6 +4,7 @@ Where randmod.py draws modules of every construct in odd combinations, randdec d
 RTL engineers hand kerf: an operation code (and a function field, a mode, a valid) decoded by one
 `always_comb` or `always @(*)` block into control outputs, in the styles hand-written and
 table-generated decoders use (common trade practice):
+- one in five a table-generated size (24-60 codes of 7-8 bits, up to 14 outputs);
 - named codes as localparams or from a package, items with several labels, `casez`/`casex`
   items with wildcard bits, `unique`/`priority` qualifiers (unique only over items that do not
   overlap), a default that flags the code illegal or assigns x (a don't-care);
@@ -24,7 +25,7 @@ import random
 
 # Constructs a decoder draws from (for the campaign's coverage counts).
 CONSTRUCTS = ("casez", "casex", "unique", "priority", "xdefault", "package", "struct", "enum",
-              "nested", "multilabel", "alwaysstar", "sop")
+              "nested", "multilabel", "alwaysstar", "sop", "big")
 
 
 class DecoderGen:
@@ -56,7 +57,11 @@ class DecoderGen:
         if star:
             self.used.add("alwaysstar")
         # ---- codes: distinct values, some as wildcard patterns
-        n_codes = rng.randint(4, min(14, (1 << w_op) // 2))
+        big = rng.random() < 0.2        # a table-generated decoder: many codes, many outputs
+        if big:
+            w_op = rng.choice([7, 8])
+            self.used.add("big")
+        n_codes = rng.randint(4, min(14, (1 << w_op) // 2)) if not big else rng.randint(24, 60)
         values = rng.sample(range(1 << w_op), n_codes)
         names = [f"OP_{chr(65 + i)}" if i < 26 else f"OP_{i}" for i in range(n_codes)]
         patterns = []      # per code: bit string with '?' (or 'x') wildcards, or None for the plain value
@@ -92,10 +97,10 @@ class DecoderGen:
             self.used.add(qualifier.strip())
         # ---- outputs
         outs = []          # (name, width)
-        for i in range(rng.randint(2, 5)):
+        for i in range(rng.randint(2, 5) + (6 if big else 0)):
             outs.append((rng.choice(["wr_en", "rd_en", "use_imm", "br", "jmp", "stall", "fwd", "trap"])
                          + f"{i}", 1))
-        for i in range(rng.randint(1, 3)):
+        for i in range(rng.randint(1, 3) + (3 if big else 0)):
             outs.append((rng.choice(["alu_op", "imm_sel", "src_sel", "size"]) + f"{i}",
                          rng.choice([2, 3, 4])))
         struct = None
@@ -241,6 +246,8 @@ class DecoderGen:
             "param_sets": [[]],
             "constructs": sorted(self.used),
             "package": self.pkg if use_pkg else None,
+            # random vectors: enough that most codes of a big table are met
+            "vectors": 2000 if "big" in self.used else 600,
         }
         return text, desc
 
