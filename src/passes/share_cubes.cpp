@@ -115,16 +115,62 @@ long valueOf(detail::Workspace& ws, const Cube& I, const std::vector<net::NodeId
     return count * w - (provider ? 0 : static_cast<long>(I.lits.size()) - 1);
 }
 
-// Indexed cubes holding every literal of I (sorted occurrence lists).
-std::vector<std::uint32_t> indexedCubes(const Cube& I, std::unordered_map<Literal, std::vector<std::uint32_t>>& occ) {
-    std::vector<std::uint32_t> acc = occ[I.lits[0]];
-    for (std::size_t k = 1; k < I.lits.size() && !acc.empty(); ++k) {
-        const auto& o = occ[I.lits[k]];
-        std::vector<std::uint32_t> next;
-        std::set_intersection(acc.begin(), acc.end(), o.begin(), o.end(), std::back_inserter(next));
+/// The first position at or after `lo` in sorted o whose entry is at least
+/// x: a galloping search from lo.
+std::size_t gallopAtLeast(const std::vector<std::uint32_t>& o, std::size_t lo, std::uint32_t x) {
+    const std::size_t n = o.size();
+    if (lo >= n || o[lo] >= x) return lo;
+    std::size_t below = lo, step = 1, hi = lo + 1;   // o[below] < x
+    while (hi < n && o[hi] < x) {
+        below = hi;
+        step *= 2;
+        hi = lo + step;
+    }
+    if (hi > n) hi = n;
+    return static_cast<std::size_t>(std::lower_bound(o.begin() + static_cast<std::ptrdiff_t>(below) + 1,
+                                                     o.begin() + static_cast<std::ptrdiff_t>(hi), x) -
+                                    o.begin());
+}
+
+/// The entries common to every sorted list of `lists` (F256). The shortest
+/// list is taken first, and a list much longer than what is left is searched
+/// by galloping from the previous hit rather than walked: on a network
+/// lowered from a wide case statement, the literals of a two-literal
+/// candidate are each read by thousands of cubes while the candidate is held
+/// by a few, and walking both lists per candidate was a quarter of the
+/// 100k decoder's region-by-region restructuring (scale_bench.py's
+/// decoder, `--effort fast`). The same set as intersecting in any order.
+std::vector<std::uint32_t> intersectLists(std::vector<const std::vector<std::uint32_t>*>& lists) {
+    if (lists.empty()) return {};
+    std::sort(lists.begin(), lists.end(), [](const auto* a, const auto* b) { return a->size() < b->size(); });
+    std::vector<std::uint32_t> acc = *lists[0], next;
+    for (std::size_t k = 1; k < lists.size() && !acc.empty(); ++k) {
+        const auto& o = *lists[k];
+        next.clear();
+        if (acc.size() * 8 < o.size()) {
+            std::size_t pos = 0;
+            for (std::uint32_t x : acc) {
+                pos = gallopAtLeast(o, pos, x);
+                if (pos == o.size()) break;
+                if (o[pos] == x) next.push_back(x);
+            }
+        } else {
+            std::set_intersection(acc.begin(), acc.end(), o.begin(), o.end(), std::back_inserter(next));
+        }
         acc.swap(next);
     }
     return acc;
+}
+
+// Indexed cubes holding every literal of I (sorted occurrence lists).
+std::vector<std::uint32_t> indexedCubes(const Cube& I, const std::unordered_map<Literal, std::vector<std::uint32_t>>& occ) {
+    std::vector<const std::vector<std::uint32_t>*> lists;
+    for (Literal l : I.lits) {
+        const auto it = occ.find(l);
+        if (it == occ.end()) return {};
+        lists.push_back(&it->second);
+    }
+    return intersectLists(lists);
 }
 
 
@@ -348,14 +394,21 @@ struct LiteralsHash {
 // was half of the 100k decoder's first cube extraction (F173). False (and
 // nothing done) when the intersections cost less (a few candidates, as in
 // a changed region's trial).
-bool holdersByPairs(const CubeTable& table, const std::vector<std::pair<long, Cube>>& ranked,
-                    std::vector<std::vector<std::uint32_t>>& holders) {
-    const auto& cubes = table.cubes();
+//
+// Generic over where the cubes live (F256: the in-place table, or the
+// indexed cubes of the other path): `count` cubes by id, litsOf(id) the
+// sorted literals of an indexed cube (nullptr: not indexed), holdingSize(l)
+// the length of literal l's index list.
+template <class LitsOf, class HoldingSize>
+bool holdersByPairs(std::size_t count, LitsOf litsOf, HoldingSize holdingSize,
+                    const std::vector<std::pair<long, Cube>>& ranked, std::vector<std::vector<std::uint32_t>>& holders) {
     double merge = 0, pairs = 0;
     for (const auto& e : ranked)
-        merge += static_cast<double>(table.holding(e.second.lits[0]).size() + table.holding(e.second.lits[1]).size());
-    for (const auto& r : cubes)
-        if (r.live && r.lits.size() >= 2) pairs += 0.5 * static_cast<double>(r.lits.size() * (r.lits.size() - 1));
+        merge += static_cast<double>(holdingSize(e.second.lits[0]) + holdingSize(e.second.lits[1]));
+    for (std::uint32_t id = 0; id < count; ++id) {
+        const std::vector<Literal>* l = litsOf(id);
+        if (l && l->size() >= 2) pairs += 0.5 * static_cast<double>(l->size() * (l->size() - 1));
+    }
     if (pairs * 4 >= merge) return false;   // a hash lookup costs a few merge steps
     auto key = [](Literal a, Literal b) { return (std::uint64_t{a} << 32) | b; };
     // The candidates filed by their first two literals: an open-addressing
@@ -385,14 +438,15 @@ bool holdersByPairs(const CubeTable& table, const std::vector<std::pair<long, Cu
     // The cube's literals are marked (stamp = its id + 1), so a candidate
     // filed under one of its pairs is checked on its other literals only.
     std::vector<std::uint32_t> mark;
-    for (std::uint32_t id = 0; id < cubes.size(); ++id) {
-        const auto& r = cubes[id];
-        if (!r.live || r.lits.size() < 2) continue;
-        if (r.lits.back() >= mark.size()) mark.resize(static_cast<std::size_t>(r.lits.back()) + 1, 0);
-        for (Literal l : r.lits) mark[l] = id + 1;
-        for (std::size_t a = 0; a + 1 < r.lits.size(); ++a)
-            for (std::size_t b = a + 1; b < r.lits.size(); ++b) {
-                const std::uint64_t kk = key(r.lits[a], r.lits[b]);
+    for (std::uint32_t id = 0; id < count; ++id) {
+        const std::vector<Literal>* rl = litsOf(id);
+        if (!rl || rl->size() < 2) continue;
+        const std::vector<Literal>& lits = *rl;
+        if (lits.back() >= mark.size()) mark.resize(static_cast<std::size_t>(lits.back()) + 1, 0);
+        for (Literal l : lits) mark[l] = id + 1;
+        for (std::size_t a = 0; a + 1 < lits.size(); ++a)
+            for (std::size_t b = a + 1; b < lits.size(); ++b) {
+                const std::uint64_t kk = key(lits[a], lits[b]);
                 std::size_t s = slotOf(kk);
                 while (slotKey[s] != kEmpty && slotKey[s] != kk) s = (s + 1) & mask;
                 if (slotKey[s] == kEmpty) continue;
@@ -466,7 +520,12 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
         std::vector<Cube> list;
         std::vector<std::vector<std::uint32_t>> holders;
         std::priority_queue<Item> heap;
-        const bool byPairs = opts.holdersByPairs && holdersByPairs(table, ranked, holders);
+        const bool byPairs =
+            opts.holdersByPairs &&
+            holdersByPairs(
+                cubes.size(),
+                [&](std::uint32_t id) -> const std::vector<Literal>* { return cubes[id].live ? &cubes[id].lits : nullptr; },
+                [&](Literal l) { return table.holding(l).size(); }, ranked, holders);
         pairRounds += byPairs;
         for (std::size_t k = 0; k < ranked.size(); ++k) {
             Cube& I = ranked[k].second;
@@ -474,13 +533,9 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
             if (byPairs) {
                 acc = std::move(holders[k]);
             } else {   // index intersection
-                acc = table.holding(I.lits[0]);
-                for (std::size_t j = 1; j < I.lits.size() && !acc.empty(); ++j) {
-                    const auto& o = table.holding(I.lits[j]);
-                    std::vector<std::uint32_t> next;
-                    std::set_intersection(acc.begin(), acc.end(), o.begin(), o.end(), std::back_inserter(next));
-                    acc.swap(next);
-                }
+                std::vector<const std::vector<std::uint32_t>*> lists;
+                for (Literal l : I.lits) lists.push_back(&table.holding(l));
+                acc = intersectLists(lists);
             }
             work += static_cast<long>(acc.size());
             heap.push({static_cast<long>(acc.size()) * static_cast<long>(I.lits.size() - 1) + 1, list.size()});
@@ -544,7 +599,7 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
         if (total >= opts.inPlaceCubes) return shareCubesInPlace(net, opts, ctx);
     }
     detail::Workspace ws(net, ctx);
-    long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0;
+    long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, pairRounds = 0;
     bool exhausted = false;
     for (int round = 0; round < opts.rounds; ++round) {
         // Every cube of the network with an index by literal.
@@ -605,8 +660,26 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
         std::vector<std::vector<net::NodeId>> where;
         std::priority_queue<Item> heap;
         std::vector<net::NodeId> targets;
-        for (auto& [hits, I] : ranked) {
-            std::vector<std::uint32_t> cubes = indexedCubes(I, occ);
+        // The indexed cubes holding each candidate: in one sweep over the
+        // cubes' literal pairs when that costs less than intersecting index
+        // lists per candidate (as in place; F256).
+        std::vector<std::vector<std::uint32_t>> byPairs;
+        const bool pairs =
+            opts.holdersByPairs &&
+            holdersByPairs(
+                refs.size(),
+                [&](std::uint32_t id) -> const std::vector<Literal>* {
+                    return &ws.cover(refs[id].node).cubes[refs[id].cube].lits;
+                },
+                [&](Literal l) {
+                    const auto it = occ.find(l);
+                    return it == occ.end() ? std::size_t{0} : it->second.size();
+                },
+                ranked, byPairs);
+        pairRounds += pairs;
+        for (std::size_t k = 0; k < ranked.size(); ++k) {
+            Cube& I = ranked[k].second;
+            std::vector<std::uint32_t> cubes = pairs ? std::move(byPairs[k]) : indexedCubes(I, occ);
             long bound = static_cast<long>(cubes.size()) * static_cast<long>(I.lits.size() - 1) + 1;
             std::vector<net::NodeId> nodes;
             for (std::uint32_t id : cubes)
@@ -648,6 +721,7 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
     ctx.stats.add("reused-nodes", reused);
     ctx.stats.add("literals-saved", saved);
     ctx.stats.add("candidates", candidates);
+    if (pairRounds) ctx.stats.add("holders-by-pairs", pairRounds);
     if (exhausted) ctx.stats.add("limit-hit:cubes-work", 1);
     ctx.stats.add("depth-rejects", static_cast<long long>(ws.depthRejects()));
 }

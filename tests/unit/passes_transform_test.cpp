@@ -386,12 +386,16 @@ TEST(PassesCubes, InPlaceExtractionKeepsFunctionsAndTheDepthBound) {
     }
 }
 
-TEST(PassesCubes, InPlaceHoldersByLiteralPairsAreTheIntersections) {
+TEST(PassesCubes, HoldersByLiteralPairsAreTheIntersections) {
     // F173: in place, the cubes holding each candidate are found in one
     // sweep over the cubes' literal pairs (each candidate filed under its
     // first two literals) instead of intersecting the index lists of its
     // literals per candidate. Both give the same holder sets, so the same
     // extractions in the same order: the same network, cover for cover.
+    // F256: the same for the extraction that is not in place (inPlaceCubes 0,
+    // as in the regions of a large network), whose holders are found the
+    // same two ways.
+    for (const std::size_t inPlace : {std::size_t{1}, std::size_t{0}})
     for (std::uint32_t seed = 1; seed <= 3; ++seed) {
         std::mt19937 rng(seed);
         Network n;
@@ -417,12 +421,13 @@ TEST(PassesCubes, InPlaceHoldersByLiteralPairsAreTheIntersections) {
         const Network before = n;
         Network byPairs = n, byLists = n;
         ShareCubesOptions o;
-        o.inPlaceCubes = 1;
+        o.inPlaceCubes = inPlace;
         PassContext c1, c2;
         c1.depthCap = c2.depthCap = net::measure(n).depth;
         shareCubes(byPairs, o, c1);
         o.holdersByPairs = false;
         shareCubes(byLists, o, c2);
+        EXPECT_EQ(c1.stats.get("in-place"), static_cast<long long>(inPlace)) << seed;
         EXPECT_GT(c1.stats.get("holders-by-pairs"), 0) << seed;
         EXPECT_EQ(c2.stats.get("holders-by-pairs"), 0) << seed;
         EXPECT_GT(c1.stats.get("extracted"), 0) << seed;
