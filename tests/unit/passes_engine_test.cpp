@@ -37,6 +37,8 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     EXPECT_EQ(l.wholeCubesMax, 9u);
     setLimit(l, "regroup-lazy-gates=0");
     EXPECT_EQ(l.regroupLazyGates, 0u);
+    setLimit(l, "regroup-family=0");
+    EXPECT_FALSE(l.regroupFamily);
     EXPECT_GT(limitsFor(Effort::Fast).wholeCubesMax, 0u) << "fast leaves cube extraction on huge networks to the regions";
     try {
         setLimit(l, "collapse-all=1");
@@ -48,7 +50,8 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
         EXPECT_EQ(e.code(), ExitCode::InputError);
     }
     for (const char* bad : {"trials", "trials=", "trials=lots", "trials=0", "max-growth=-1", "kernels=2",
-                            "dc-max-fanins=17", "trials=3x", "changed-region=2", "changed-radius=-1"})
+                            "dc-max-fanins=17", "trials=3x", "changed-region=2", "changed-radius=-1",
+                            "regroup-family=2"})
         EXPECT_THROW(setLimit(l, bad), Error) << bad;
     EXPECT_THROW(parseGoal("area"), Error);
     EXPECT_THROW(parseEffort("extreme"), Error);
@@ -58,7 +61,7 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps",
                              "opening-moves", "readmit-permille", "changed-region", "changed-radius",
                              "changed-walk-degree", "changed-full-permille", "changed-regroup", "whole-cubes-max",
-                             "regroup-lazy-gates"})
+                             "regroup-lazy-gates", "regroup-family"})
         EXPECT_NE(d.find(name), std::string::npos) << name;
 }
 
@@ -445,6 +448,61 @@ TEST(PassesEngine, RegroupMovesAreLazyFromTheirGateBound) {
     }
     EXPECT_GT(keptRegroups, 0);
     EXPECT_GT(fewer, 0);
+}
+
+TEST(PassesEngine, OneRegroupValuationStandsForItsFamilyOnLargeNetworks) {
+    // Limit regroup-family (F255): from regroup-lazy-gates gates on, one
+    // regroup valuation bounds the recorded gain of the other growths on
+    // that network, so at most one regroup move is valued per network the
+    // scheduler reaches (versions: one after the opening, one more per kept
+    // move), and a kept regroup move lowers every regroup move's recorded
+    // gain, its own included. Without the rule each growth is valued on its
+    // own. Either way the result keeps its functions and every kept move
+    // improves on the one before (common trade practice for a greedy
+    // optimiser; sameFunctions compares by simulation).
+    int fewer = 0, checked = 0;
+    for (std::uint32_t seed = 1; seed <= 6; ++seed) {
+        Network n = randomAig(160 + seed, 12, 400, 8);
+        tidy(n);
+        auto regroupTrials = [](const EngineResult& r) {
+            int t = 0;
+            for (const TechniqueRow& row : r.techniques)
+                if (row.technique.rfind("regroup", 0) == 0) t += row.trials;
+            return t;
+        };
+        EngineOptions family;
+        family.limits.regroupLazyGates = 1;
+        family.limits.openingMoves = 0;
+        Network a = n;
+        const EngineResult ra = restructure(a, family);
+        EngineOptions each = family;
+        each.limits.regroupFamily = false;
+        Network b = n;
+        const EngineResult rb = restructure(b, each);
+        EXPECT_EQ(sameFunctions(n, a), "") << "seed " << seed;
+        EXPECT_EQ(sameFunctions(n, b), "") << "seed " << seed;
+        for (const EngineResult* r : {&ra, &rb}) {
+            net::Metrics prev = r->before;
+            for (const MoveRow& m : r->moves) {
+                EXPECT_TRUE(m.after.gates < prev.gates ||
+                            (m.after.gates == prev.gates && m.after.literals < prev.literals))
+                    << m.technique;
+                prev = m.after;
+            }
+        }
+        // The rule holds on networks of at least regroup-lazy-gates gates (a
+        // move may leave a constant network of 0 gates, below any bound).
+        const bool large = std::all_of(ra.moves.begin(), ra.moves.end(), [&](const MoveRow& m) {
+            return m.after.gates >= family.limits.regroupLazyGates;
+        });
+        if (large) {
+            ++checked;
+            EXPECT_LE(regroupTrials(ra), static_cast<int>(ra.moves.size()) + 1) << "seed " << seed;
+        }
+        fewer += regroupTrials(ra) < regroupTrials(rb);
+    }
+    EXPECT_GT(checked, 0);
+    EXPECT_GT(fewer, 0) << "valuing each growth on its own costs more regroup valuations somewhere";
 }
 
 TEST(PassesEngine, WholeCubeExtractionIsLeftToRegionsAboveItsBound) {

@@ -58,6 +58,12 @@ struct EngineLimits {
     /// on the same network record their gain over it (F144). 0: never;
     /// regroup moves are then valued again like the other techniques.
     std::size_t regroupLazyGates = 20000;
+    /// From regroupLazyGates gates on, one regroup valuation bounds the
+    /// recorded gain of every other growth on that network (they are not
+    /// valued there), and a kept regroup move's gain is taken off every
+    /// regroup move's recorded gain, its own included (F255). false: each
+    /// growth is valued on its own (F144's rule only).
+    bool regroupFamily = true;
     /// A move is kept only when it saves at least this many thousandths of
     /// the current gates (and at least something); smaller gains end the run.
     int minGainPermille = 2;
