@@ -26,6 +26,18 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx,
         const Cover& cv = ws.cover(v);
         std::size_t before = detail::lits(cv);
         if (before <= 1) continue;
+        // One cube without a variable in both polarities is its own minimum:
+        // no sum of products of the function has fewer literals, and its
+        // complement (one literal per cube) has as many in more cubes. Most
+        // nodes cube extraction creates are such cubes (134,000 on the 100k
+        // decoder), each once minimised and then hashed by every trial (F257).
+        if (cv.cubes.size() == 1) {
+            const auto& ls = cv.cubes[0].lits;
+            bool clash = false;
+            for (std::size_t k = 1; k < ls.size() && !clash; ++k)
+                clash = algebra::literalVar(ls[k]) == algebra::literalVar(ls[k - 1]);
+            if (!clash) continue;
+        }
         // Very large covers over many variables: nothing but containment would
         // run on them, and that is quadratic; leave them alone.
         if (cv.cubes.size() > 4 * opts.minimize.maxHeuristicCubes && cv.support().size() > 16) continue;
