@@ -29,7 +29,8 @@
 // recorded gain is below the smallest gain kept is not valued again until a
 // large kept move readmits it, and keeping one regroup move lowers the other
 // growths' recorded gains by its own (they are alternatives on the same
-// network; see dormant and siblingsAfter).
+// network; see dormant and siblingsAfter); with regroup-family one
+// valuation there stands for every growth (familyAfterValuing).
 //
 // Changed regions. After the opening, a trial of a technique looks for
 // candidates only where the network changed since that technique was last
