@@ -75,7 +75,8 @@ nlohmann::json stagesJson(const io::StageLog& log) {
     return rows;
 }
 
-/// Lower `d`. Internal signals stay outputs of the network (the front end pins
+/// Lower `d`; `prefix` is the user's --wire-prefix (generated names take "kf_" when it is
+/// empty; word results named from what they compute take `prefix` alone). Internal signals stay outputs of the network (the front end pins
 /// them: no declaration is deleted) unless `dissolve`. When `only` is given,
 /// the internal signals kept are just those (the original's, when reading back
 /// the rewrite, so that kerf's new wires are not compared).
@@ -88,7 +89,8 @@ frontend::Lowered lowerAs(const frontend::ModuleDesc& d, bool dissolve, bool bit
     lo.keepX = keepX;
     lo.keptMembers = kept;
     lo.bitBlastArithmetic = bitBlast;
-    lo.prefix = prefix;
+    lo.prefix = prefix.empty() ? "kf_" : prefix;
+    lo.namePrefix = prefix;
     lo.keep = keep;
     lo.dissolveInternal = dissolve || only != nullptr;
     if (only && !dissolve) lo.observe.assign(only->begin(), only->end());
@@ -171,7 +173,7 @@ std::string WordOperators::str() const {
 
 StatsResult stats(const frontend::ReadOptions& read, bool dissolveInternal) {
     frontend::ModuleDesc d = frontend::readModule(read);
-    frontend::Lowered low = lowerAs(d, dissolveInternal, false, "kf_");
+    frontend::Lowered low = lowerAs(d, dissolveInternal, false, "");
     StatsResult r;
     r.module = d.name;
     r.metrics = passes::measureFactored(low.net);
@@ -252,7 +254,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     emit::WriteOptions wo;
     wo.prefix = opts.prefix;
     wo.minGain = emit::MinGain::parse(opts.minGain);
-    const std::string lowerPrefix = opts.prefix.empty() ? "kf_" : opts.prefix;
+    const std::string& lowerPrefix = opts.prefix;
 
     io::StageLog stages;
     auto t0 = Clock::now();
@@ -1162,7 +1164,7 @@ int draw(const DrawOptions& opts) {
                                    ? "."
                                    : std::filesystem::path(done.file).parent_path().string());
     frontend::ModuleDesc written = frontend::readModule(back);
-    frontend::Lowered low = lowerAs(written, o.dissolveInternal, false, o.prefix.empty() ? "kf_" : o.prefix);
+    frontend::Lowered low = lowerAs(written, o.dissolveInternal, false, o.prefix);
     std::set<std::string> added(done.added.begin(), done.added.end());
     std::string dot = emit::toDot(emit::signalGraph(written, low), written.name, added);
     if (opts.output.empty()) {

@@ -15,7 +15,11 @@
 // out-of-range position reads x (11.5.1).
 #include "lower_internal.h"
 
+#include "kerf/frontend/references.h"
+
 #include <algorithm>
+#include <cctype>
+#include <cstdlib>
 #include <numeric>
 #include <stdexcept>
 
@@ -584,15 +588,163 @@ bool Lowerer::operandUndriven(ExprId id) const {
     return std::all_of(d.begin(), d.end(), [&](int mem) { return mem < 0 || !restructured_[mem]; });
 }
 
+// ---- names of word results --------------------------------------------------------
+//
+// A word operation's result is written as a wire of its own (`assign a_plus_b = a + b;`), so its
+// name is read in review (issue 10). It says what the operation computes when both operands
+// are plain: a signal (`a`), a member of a packed struct (`claim.lvl` reads `lvl`), a select of
+// either (`b[2:0]` reads `b`), a conversion or zero-extension of one (`$unsigned(x)`,
+// `{1'b0, a}`) or a small constant: `a_plus_b`, `lvl_gt_thresh`, `cnt_plus_1`, `neg_a`. Two
+// reads of one signal add their selects (`a_7_4_plus_a_3_0`). Otherwise, or when that is longer
+// than kMaxWordName, it is named from the first signal its statement writes and its place among
+// that statement's word operations (`y_w0`, `y_w1`). Either way the name depends only on the
+// statement's own logic, not on operations elsewhere in the module; a collision with any name of
+// the module (signals, parameters, named constants, enum values, functions, names given
+// earlier) adds `_2`, `_3`... The operands kerf generates take the result's name and `_a`/`_b`,
+// so kMaxWordName keeps those within the writer's cap of 26 characters (docs/guide.md).
+
+namespace {
+constexpr std::size_t kMaxWordName = 24;
+
+bool plainIdentifier(std::string_view n) {
+    if (n.empty() || !(std::isalpha(static_cast<unsigned char>(n[0])) || n[0] == '_')) return false;
+    return std::all_of(n.begin(), n.end(), [](char c) { return std::isalnum(static_cast<unsigned char>(c)) || c == '_'; });
+}
+
+std::string_view wordOfOperator(std::string_view op, bool unary) {
+    if (unary) return op == "-" ? "neg" : "";
+    static const std::pair<std::string_view, std::string_view> words[] = {
+        {"+", "plus"}, {"-", "minus"}, {"*", "times"}, {"/", "div"}, {"%", "mod"}, {"**", "pow"},
+        {"==", "eq"}, {"!=", "ne"}, {"===", "eq"}, {"!==", "ne"}, {"<", "lt"}, {"<=", "le"},
+        {">", "gt"}, {">=", "ge"}, {"<<", "shl"}, {"<<<", "shl"}, {">>", "shr"}, {">>>", "ashr"}};
+    for (const auto& [o, w] : words)
+        if (o == op) return w;
+    return "";
+}
+} // namespace
+
+bool Lowerer::nameTaken(const std::string& n) const {
+    return m_.signals.count(n) || usedNames_.count(n) || otherNames_.count(n);
+}
+
+std::pair<std::string, std::string> Lowerer::operandStem(ExprId id) const {
+    const Expr* o = &ir_.exprs[id];
+    // Conversions ($signed, $unsigned, widths) and zero-extensions read as what they convert.
+    for (int guard = 0; guard < 16; ++guard) {
+        if (o->kind == ExprKind::Convert) {
+            o = &ir_.exprs[o->a];
+            continue;
+        }
+        if (o->kind == ExprKind::Concat && o->b >= 2) {
+            const std::uint32_t* parts = ir_.list(o->a);
+            bool zeros = true;
+            for (std::uint32_t i = 0; i + 1 < o->b && zeros; ++i) {
+                const Expr& p = ir_.exprs[parts[i]];
+                zeros = p.kind == ExprKind::Const;
+                for (std::uint32_t j = 0; zeros && j < p.width; ++j) zeros = ir_.constBit(p, j) == '0';
+            }
+            if (!zeros) return {};
+            o = &ir_.exprs[parts[o->b - 1]];
+            continue;
+        }
+        break;
+    }
+    if (o->kind == ExprKind::Const) {
+        if (o->width > 32) return {};
+        std::uint64_t v = 0;
+        for (std::uint32_t j = 0; j < o->width; ++j) {
+            char c = ir_.constBit(*o, j);
+            if (c != '0' && c != '1') return {};
+            if (c == '1') v |= std::uint64_t{1} << j;
+        }
+        return {std::to_string(v), ""};
+    }
+    if (o->kind == ExprKind::Ref) {
+        const std::string& n = ir_.symbols[o->a].name;
+        return plainIdentifier(n) ? std::pair<std::string, std::string>{n, ""} : std::pair<std::string, std::string>{};
+    }
+    if ((o->kind != ExprKind::Range && o->kind != ExprKind::Index) || ir_.exprs[o->a].kind != ExprKind::Ref) return {};
+    const Symbol& y = ir_.symbols[ir_.exprs[o->a].a];
+    if (!plainIdentifier(y.name)) return {};
+    std::string detail;
+    if (o->kind == ExprKind::Index) {
+        auto [stem, value] = operandStem(o->b);
+        if (stem.empty() || !value.empty() || !std::isdigit(static_cast<unsigned char>(stem[0]))) return {};
+        detail = stem;
+    } else {
+        detail = fmt::format("{}_{}", o->left(), o->right());
+        // A member of a packed struct reads as the member (`claim.lvl` -> `lvl`).
+        if (!y.local && m_.signals.count(y.name)) {
+            const int lo = std::abs(o->right() - o->lsb), count = std::abs(o->left() - o->right()) + 1;
+            std::string text = referenceText(m_, y.name, lo, count);
+            if (auto dot = text.rfind('.'); dot != std::string::npos) {
+                std::string member = text.substr(dot + 1);
+                if (auto br = member.find('['); br != std::string::npos) member.resize(br);
+                if (plainIdentifier(member)) return {member, ""};
+            }
+        }
+    }
+    return {y.name, detail};
+}
+
+std::string Lowerer::wordResultName(ExprId id, std::string_view op, bool unary) {
+    if (otherNames_.empty()) {
+        otherNames_.insert("");   // filled once
+        for (const auto& p : m_.parameters) otherNames_.insert(p.name);
+        for (const auto& c : m_.constants) otherNames_.insert(c.name);
+        for (const auto& f : ir_.functions) otherNames_.insert(f.name);
+        for (const auto& t : ir_.types)
+            for (const auto& v : t.values) otherNames_.insert(v.name);
+    }
+    const Expr& e = ir_.exprs[id];
+    std::string name;
+    if (std::string_view word = wordOfOperator(op, unary); !word.empty()) {
+        auto a = operandStem(e.a);
+        if (unary && !a.first.empty()) {
+            name = fmt::format("{}_{}", word, a.first);
+        } else if (!unary && !a.first.empty()) {
+            auto b = operandStem(e.b);
+            if (!b.first.empty()) {
+                if (a.first == b.first) {   // two reads of one signal: their selects tell them apart
+                    if (!a.second.empty()) a.first += "_" + a.second;
+                    if (!b.second.empty()) b.first += "_" + b.second;
+                }
+                name = fmt::format("{}_{}_{}", a.first, word, b.first);
+            }
+        }
+    }
+    if (name.size() > kMaxWordName) name.clear();
+    if (name.empty() && current_) {
+        // The first signal the statement writes, and the operation's place in the statement.
+        std::string stem;
+        for (const auto& w : current_->writes)
+            if (plainIdentifier(w)) {
+                stem = w;
+                break;
+            }
+        if (!stem.empty()) {
+            std::string tail = fmt::format("_w{}", wordsOfMember_[current_->id]++);
+            if (stem.size() + tail.size() > kMaxWordName) stem.resize(kMaxWordName - tail.size());
+            while (stem.size() > 1 && stem.back() == '_') stem.pop_back();
+            name = stem + tail;
+        }
+    }
+    if (name.empty()) return fmt::format("{}w{}", opts_.prefix, wordCount_);
+    name = opts_.namePrefix + name;
+    std::string n = name;
+    for (int k = 2; nameTaken(n) || nameTaken(n + "_a") || nameTaken(n + "_b"); ++k) n = fmt::format("{}_{}", name, k);
+    return n;
+}
+
 Bits Lowerer::wordOp(ExprId id, int w, std::string_view op, bool unary, const Bits* a, const Bits* b, Literal x,
                      Literal sx) {
     const Expr& e = ir_.exprs[id];
     WordOp wop;
     wop.op = std::string(op);
     wop.unary = unary;
-    int k = wordCount_++;
-    std::string base = fmt::format("{}w{}", opts_.prefix, k);
-    for (int n = 1; m_.signals.count(base) || usedNames_.count(base); ++n) base = fmt::format("{}w{}_{}", opts_.prefix, k, n);
+    std::string base = wordResultName(id, op, unary);
+    ++wordCount_;
+    for (int n = 1; nameTaken(base); ++n) base = fmt::format("{}w{}_{}", opts_.prefix, wordCount_ - 1, n);
     usedNames_.insert(base);
     wop.result = base;
     wop.resultWidth = w;

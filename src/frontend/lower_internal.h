@@ -192,6 +192,13 @@ public:
     Bits wordOp(ExprId e, int w, std::string_view op, bool unary, const Bits* a, const Bits* b, Literal x,
                 Literal sx);
     bool operandUndriven(ExprId e) const;
+    /// Name of a word operation's result (see lower_expr.cpp, "Names of word results").
+    std::string wordResultName(ExprId e, std::string_view op, bool unary);
+    /// What an operand reads, for a result's name: a stem ("" when it is not a plain
+    /// reference, select, conversion or zero-extension of one, or a small constant) and the
+    /// select that tells two reads of one signal apart ("7_4"; "" for the whole).
+    std::pair<std::string, std::string> operandStem(ExprId e) const;
+    bool nameTaken(const std::string& n) const;
 
     // -- statements and targets (lower_stmt.cpp)
     void exec(StmtId s);
@@ -253,6 +260,8 @@ public:
     int callDepth_ = 0;
     const Function* function_ = nullptr;       // the function whose body is being lowered, if any
     int wordCount_ = 0;
+    std::map<int, int> wordsOfMember_;         // member id -> word operations lowered in it
+    std::set<std::string> otherNames_;         // parameters, named constants, functions (filled on first use)
     std::set<std::string> usedNames_;
 };
 

@@ -1173,6 +1173,79 @@ def _(t):
     t.res.check(from_wire > 0, "some wire is named from another new wire")
 
 
+WORD_NAMES = """// Invented datapath glue: word operations whose results feed logic kerf rewrites.
+module word_names (
+  input  logic [7:0] a, b, c, d, m,
+  input  logic [3:0] k,
+  input  logic       e, f,
+  output logic [7:0] y, p, q, r,
+  output logic       lt, y2
+);
+  logic [7:0] a_plus_b;   // an author's name that `a + b` would take
+  assign a_plus_b = c ^ d;
+  assign y2 = a_plus_b[0] & e;
+  assign y = ((a + b) & m) | ((a + b) & ~m & {8{e}});
+  assign p = ((a * b) & m) | (c & ~m & {8{f}}) | (c & ~m & {8{e}});
+  assign q = (e ? (a << k[2:0]) : c) | (f ? ((a & b) + c) : d);
+  assign r = (f ? a[7:4] + a[3:0] : 8'd0) | (e ? 8'd0 : c + 8'd1);
+  assign lt = (e & (a < b)) | (f & (a < b));
+endmodule
+"""
+
+# `assign NAME = X op Y;` as kerf writes a kept word operation: X and Y plain references or
+# constant selects of them (`b[2:0]`), or those under $signed/$unsigned.
+_PLAIN = r"(?:\$(?:un)?signed\()?[A-Za-z_][A-Za-z0-9_]*(?:\.[A-Za-z_][A-Za-z0-9_]*)*(?:\[\d+(?::\d+)?\])?\)?"
+_WORD_ASSIGN = re.compile(r"^\s*assign\s+([A-Za-z_][A-Za-z0-9_$]*)\s*=\s*(" + _PLAIN + r")\s*"
+                          r"(\+|-|\*|<<<|>>>|<<|>>|<=|>=|<|>|==|!=)\s*(" + _PLAIN + r")\s*;", re.M)
+
+
+@S.case("word_results_named", needs=("iverilog",))
+def _(t):
+    """Issue 10 (names): a kept word operation whose operands are plain references or selects is
+    not named `kf_wN` but from what it computes; its name is an identifier declared once that the
+    source does not use (an author's `a_plus_b` is not taken over), and an unrelated edit elsewhere
+    (another word operation added in another statement) does not rename it. Checked on an invented
+    module (function: Icarus Verilog) and on the corpus's ALU and interrupt cases (whose function
+    the corpus driver simulates); which name is chosen is not checked, only these properties."""
+    cases = [([os.path.join(t.work, "word_names.sv")], "word_names", ["--min-gain", "0"]),
+             (["tests/rtl/include/alu_ops_pkg.sv", "tests/rtl/alu_enum_ops.sv"], "alu_enum_ops", []),
+             (["tests/rtl/alu_localparam_ops.sv"], "alu_localparam_ops", ["--min-gain", "0"]),
+             (["tests/rtl/include/irqc_pkg.sv", "tests/rtl/irq_prio_pkg.sv"], "irq_prio_pkg", [])]
+    open(cases[0][0][0], "w").write(WORD_NAMES)
+    results = {}
+    for files, top, extra in cases:
+        out = os.path.join(t.work, top + ".out.sv")
+        r = restructure(t, files, top, out, *extra)
+        if not t.res.check(r.returncode == 0, f"{top}: restructure: {r.stderr[-600:]}"):
+            continue
+        src, text = open(files[-1]).read(), open(out).read()
+        ops = _WORD_ASSIGN.findall(text)
+        t.res.check(ops, f"{top}: kerf writes a word operation of plain operands")
+        results[top] = {o[0]: (o[1], o[2], o[3]) for o in ops}
+        for name, x, op, y in ops:
+            t.res.check(not name.startswith("kf_w"), f"{top}: `{name} = {x} {op} {y}` is named by a counter")
+        own = set(re.findall(r"[A-Za-z_][A-Za-z0-9_$]*", src))
+        for name in results[top]:
+            t.res.check(name not in own, f"{top}: the word result {name} takes a name the source uses")
+        t.res.check(not K.wire_name_problems(src, text), f"{top}: {K.wire_name_problems(src, text)}")
+        if top == "word_names":
+            sim = os.path.join(t.work, "sim")
+            os.mkdir(sim)
+            ok, log, _ = K.simulate_equal(t.root, files, top, out, sim, vectors=3000)
+            t.res.check(ok, f"the rewrite simulates like the source (Icarus Verilog): {log}")
+    # An unrelated edit: another word operation in a statement written before the others.
+    edited = os.path.join(t.work, "edited", "word_names.sv")
+    os.makedirs(os.path.dirname(edited))
+    open(edited, "w").write(WORD_NAMES.replace("  assign y2 = a_plus_b[0] & e;",
+                                               "  assign y2 = (a_plus_b[0] & e) | (c - d == 8'd3);"))
+    out = edited + ".out.sv"
+    r = restructure(t, [edited], "word_names", out, "--min-gain", "0")
+    if t.res.check(r.returncode == 0, f"edited: restructure: {r.stderr[-600:]}") and "word_names" in results:
+        after = {o[0]: (o[1], o[2], o[3]) for o in _WORD_ASSIGN.findall(open(out).read())}
+        for name, what in results["word_names"].items():
+            t.res.check(after.get(name) == what, f"after an unrelated edit {name} = {' '.join(what)} is still so named")
+
+
 LAMP_CODE = """// Indicator code of an invented pump panel: codes that are constants under one condition.
 module lamp_code (
   input  logic       en,

@@ -48,6 +48,9 @@ struct LowerOptions {
     bool bitBlastArithmetic = false;
     /// Prefix of every generated name.
     std::string prefix = "kf_";
+    /// Prefix of the names a word operation's result takes from what it computes
+    /// (`a_plus_b`, `lvl_gt_thresh`): the user's --wire-prefix, none by default.
+    std::string namePrefix;
     /// Let internal signals that only restructured code reads disappear into the
     /// logic (their declarations are removed). Off by default: every declared
     /// signal stays declared and driven. For flat netlists with thousands of wires.
