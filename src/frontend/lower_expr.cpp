@@ -595,9 +595,9 @@ bool Lowerer::operandUndriven(ExprId id) const {
 // are plain: a signal (`a`), a member of a packed struct (`claim.lvl` reads `lvl`), a select of
 // either (`b[2:0]` reads `b`), a conversion or zero-extension of one (`$unsigned(x)`,
 // `{1'b0, a}`) or a small constant: `a_plus_b`, `lvl_gt_thresh`, `cnt_plus_1`, `neg_a`. Two
-// reads of one signal add their selects (`a_7_4_plus_a_3_0`). Otherwise, or when that is longer
-// than kMaxWordName, it is named from the first signal its statement writes and its place among
-// that statement's word operations (`y_w0`, `y_w1`). Either way the name depends only on the
+// reads of one signal add their selects (`a_7_4_plus_a_3_0`). Otherwise (also for a constant
+// first, `1 << addr`), or when longer than kMaxWordName, it is named from the first signal its
+// statement writes and its place among that statement's word operations (`y_w0`, `y_w1`). Either way the name depends only on the
 // statement's own logic, not on operations elsewhere in the module; a collision with any name of
 // the module (signals, parameters, named constants, enum values, functions, names given
 // earlier) adds `_2`, `_3`... The operands kerf generates take the result's name and `_a`/`_b`,
@@ -713,7 +713,8 @@ std::string Lowerer::wordResultName(ExprId id, std::string_view op, bool unary) 
             }
         }
     }
-    if (name.size() > kMaxWordName) name.clear();
+    // A constant first operand would start the name with a digit (`1 << addr`): not an identifier.
+    if (name.size() > kMaxWordName || !plainIdentifier(name)) name.clear();
     if (name.empty() && current_) {
         // The first signal the statement writes, and the operation's place in the statement.
         std::string stem;
