@@ -415,6 +415,10 @@ private:
     bool checkDeclarationOrder();
     bool checkCycles();
     void decide();
+    /// Marks the replaced groups whose text is long for the gates they save (WriteOptions::
+    /// maxTextPerGate) to stay as written; true when it marked one not marked before.
+    bool textHeavy();
+    std::map<int, std::string> textKept_;   ///< statement -> why the text rule keeps it
     void keepReaders();
     /// Whether output i's statement reads, by name, an author's signal of another group whose
     /// logic as read is i's own (node r): a copy, whose logic is that group's.
@@ -1997,7 +2001,54 @@ void Writer::decide() {
                 }
             }
     }
+    // Groups the text rule keeps (textHeavy) stay as written whatever they save.
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        StatementGroup& G = groups_[g];
+        if (!G.replaced) continue;
+        for (int s : groupStmts_[g])
+            if (auto it = textKept_.find(s); it != textKept_.end()) {
+                G.replaced = false;
+                G.reason = it->second;
+                break;
+            }
+    }
     keepReaders();
+}
+
+constexpr std::string_view kLongText = "its rewrite is long text for what it saves";
+
+bool Writer::textHeavy() {
+    if (opts_.maxTextPerGate == 0 || opts_.minGain.value <= 0) return false;
+    auto solid = [](std::string_view t) {
+        return static_cast<std::size_t>(std::count_if(t.begin(), t.end(), [](char c) {
+            return c != ' ' && c != '\t' && c != '\n' && c != '\r';
+        }));
+    };
+    const auto savedConstants = constantsNamed_;
+    bool more = false;
+    for (std::size_t g = 0; g < groups_.size(); ++g) {
+        const StatementGroup& G = groups_[g];
+        if (!G.replaced || G.gatesAfter >= G.gatesBefore) continue;
+        std::size_t before = 0, after = 0;
+        std::set<std::pair<std::size_t, std::size_t>> seen;
+        for (int s : groupStmts_[g])
+            for (int mid : membersOfStmt_.at(s)) {
+                const auto* mem = byId_.at(mid);
+                if (mem->src.file != m_.src.file || !seen.insert({mem->src.start, mem->src.end}).second) continue;
+                before += solid(std::string_view(src_).substr(mem->src.start, mem->src.end - mem->src.start));
+            }
+        if (groupPos_[g] != std::string::npos) after += solid(wireBlock(static_cast<int>(g), ""));
+        for (int s : groupStmts_[g]) after += solid(statementsFor(s, "", nullptr));
+        const std::size_t saved = G.gatesBefore - G.gatesAfter;
+        if (before == 0 || after <= 2 * before || after - before <= opts_.maxTextPerGate * saved) continue;
+        const std::string why = fmt::format(
+            "{} ({} -> {} characters for {} gate{}, over {} characters a gate; "
+            "docs/guide.md \"Text for gates\")", kLongText,
+            before, after, saved, saved == 1 ? "" : "s", opts_.maxTextPerGate);
+        for (int s : groupStmts_[g]) more = textKept_.emplace(s, why).second || more;
+    }
+    constantsNamed_ = savedConstants;
+    return more;
 }
 
 bool Writer::ownUnusedWire(int stmt) const {
@@ -3103,6 +3154,16 @@ WriteResult Writer::run() {
         decide();
         settled = checkCycles();
     }
+    // Text for gates: groups whose rewrite is long text for the gates it saves stay as written,
+    // and the plan is made again without them (at most once per group: each pass keeps more).
+    for (std::size_t pass = 0; settled && !unorderable_ && pass < groups_.size() && textHeavy(); ++pass) {
+        settled = false;
+        for (std::size_t round = 0; round <= outs_.size() + 1 + familiesBroken_ && !settled; ++round) {
+            if (!plan()) continue;
+            decide();
+            settled = checkCycles();
+        }
+    }
     if (!settled || unorderable_) {
         // Never a plan that was not checked: every group stays as written, with the reason.
         for (auto& G : groups_)
@@ -3481,5 +3542,7 @@ WriteResult writeNamed(const WriteInput& in, const WriteOptions& opts, NamingRec
     return finish(Writer(in, opts).run(), NamingRecord{}, std::string());
 }
 } // namespace
+
+bool keptForText(const StatementGroup& g) { return !g.replaced && g.reason.starts_with(kLongText); }
 
 } // namespace kerf::emit

@@ -901,11 +901,11 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                 if (r == reason) { ls.push_back(lines); return; }
             byReason.push_back({reason, {lines}});
         };
-        if (wr.changed)
-            for (const auto& g : wr.groups) {
-                if (g.replaced || g.lines.empty()) continue;
-                add(g.reason, lineRanges(g.lines));
-            }
+        // Unchanged, the groups the text rule kept are still listed: they gain, by gates.
+        for (const auto& g : wr.groups) {
+            if (g.replaced || g.lines.empty() || (!wr.changed && !emit::keptForText(g))) continue;
+            add(g.reason, lineRanges(g.lines));
+        }
         for (const auto& k : proof::keptStatements(desc, low)) add(k.what + ": " + k.reason, std::to_string(k.src.line));
         constexpr std::size_t kShown = 10;   // lines listed per reason; the report has all of them
         for (const auto& [reason, ls] : byReason) {
@@ -923,9 +923,11 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     std::string summary = fmt::format("{}: module {}: {}, word operators {}", file, desc.name,
                                       figuresText(shownBefore, shownAfter), words.str());
     if (!wr.changed) {
+        const bool forText = std::any_of(wr.groups.begin(), wr.groups.end(), emit::keptForText);
         summary += wr.groups.empty() ? "; nothing to restructure, the file is unchanged"
-                                     : fmt::format("; nothing gains at least --min-gain {}, the file is unchanged",
-                                                   wo.minGain.str());
+                   : forText ? "; nothing gains enough for its text (below), the file is unchanged"
+                             : fmt::format("; nothing gains at least --min-gain {}, the file is unchanged",
+                                           wo.minGain.str());
     } else {
         summary += fmt::format("; {} of {} statement group{} rewritten", groupsReplaced, wr.groups.size(),
                                wr.groups.size() == 1 ? "" : "s");

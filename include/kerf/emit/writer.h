@@ -48,6 +48,11 @@ struct WriteOptions {
     /// Fewest new wires written as one vector wire (docs/guide.md; src/emit/wire_vectors.cpp):
     /// two bits read apart (`x[1]`, `x[0]`) read worse than two names.
     std::size_t minWireFamily = 3;
+    /// Text a gate saved may cost (docs/guide.md, "Text for gates"): a group whose rewrite
+    /// is more than twice as long as the statements it replaces (characters other than blanks)
+    /// and adds more than this many characters per gate it saves stays as written. Applies
+    /// with a positive --min-gain; 0 turns the rule off.
+    std::size_t maxTextPerGate = 40;
 };
 
 /// One group of statements that share restructured logic: replaced together or kept together.
@@ -60,6 +65,9 @@ struct StatementGroup {
     bool replaced = false;
     std::string reason;                       ///< why it was kept as written (empty when replaced)
 };
+
+/// Whether the text rule (WriteOptions::maxTextPerGate) kept group `g` as written.
+bool keptForText(const StatementGroup& g);
 
 /// One named form the writer weighed against the bitwise form (naming_cost.cpp): for
 /// `--report`'s "naming" list and -v's `naming:` lines.

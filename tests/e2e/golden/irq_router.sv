@@ -30,27 +30,10 @@ module irq_router #(
   assign nmi_out = |(live & is_nmi);
   assign irq_out = |live;
 
-  // kerf: 1 of 4 groups rewritten, gates 64 -> 62, depth 7 -> 7, proved equivalent
-  // kerf: this logic is restructured for NSRC = 6 (--param); a build that sets other
-  // values stops here: run kerf restructure again for them.
-  generate
-    if (NSRC !== 32'sh6) begin : kerf_parameter_guard
-`ifdef __ICARUS__
-      wire kerf_restructured_for_other_NSRC_values = {(0 - 1){1'b0}};  // stops elaboration
-`else
-      $error("kerf: restructured for %s only (--param); run kerf restructure again for others",
-             "NSRC = 6");
-`endif
-    end
-  endgenerate
-  wire any_live_3_2 = |live[3:2];
-  wire no_live_1_0 = ~|live[1:0];
-  wire src_id1_t0 = (~|live[5:4]) | any_live_3_2;
-  wire live_4_3_not_10 = live[4:3] != 2'b10;
-  wire src_id0_t0 = live[1] | (~live[2] & live_4_3_not_10);
   always_comb begin
-    src_id[0] = ~live[0] & src_id0_t0;
-    src_id[1] = no_live_1_0 & src_id1_t0;
-    src_id[2] = ~any_live_3_2 & no_live_1_0;
+    src_id = 3'd7;
+    for (int i = NSRC - 1; i >= 0; i--) begin
+      if (live[i]) src_id = i[2:0];
+    end
   end
 endmodule
