@@ -81,6 +81,9 @@ int main(int argc, char** argv) {
     rs->add_option("--min-gain", ro.minGain,
                    "rewrite a group of statements only when it saves at least this many two-input gates, "
                    "or this percentage with a % sign (default 2)");
+    rs->add_option("--text-per-gate", ro.textPerGate,
+                   "with a positive --min-gain, keep as written a group whose rewrite is over twice its text and "
+                   "adds more than this many characters per gate saved (default 40; 0: off)");
     rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
     rs->add_flag("--all-modules", ro.allModules,
                  "every module declared in the files, each proved on its own, one summary line each "
@@ -162,6 +165,8 @@ int main(int argc, char** argv) {
                 throw kerf::Error("--diff prints the change instead of writing: it cannot be combined with -o or --in-place");
             if (rs->count("--max-depth") > 0 && (ro.maxDepth < 1 || ro.maxDepth > 100000))
                 throw kerf::Error(fmt::format("--max-depth {} is out of range (1 to 100000)", ro.maxDepth));
+            if (ro.textPerGate < 0 || ro.textPerGate > 100000)
+                throw kerf::Error(fmt::format("--text-per-gate {} is out of range (0 to 100000)", ro.textPerGate));
             if (!ro.backupSuffix.empty() && !ro.inPlace && ro.output.empty())
                 throw kerf::Error("--backup needs --in-place or --output: standard output has nothing to back up");
             if (ro.backupSuffix.find('/') != std::string::npos)

@@ -254,6 +254,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     emit::WriteOptions wo;
     wo.prefix = opts.prefix;
     wo.minGain = emit::MinGain::parse(opts.minGain);
+    wo.maxTextPerGate = static_cast<std::size_t>(std::max(opts.textPerGate, 0));
     const std::string& lowerPrefix = opts.prefix;
 
     io::StageLog stages;

@@ -1287,6 +1287,13 @@ def _(t):
             t.res.check(open(out).read() == src, f"{top}: the file comes back byte for byte")
             c = K.run([t.kerf, "restructure", *files, "--top", top, "--check"])
             t.res.check(c.returncode == 0, f"{top}: --check agrees (exit {c.returncode}): {c.stderr[-400:]}")
+            off = os.path.join(t.work, top + ".off.sv")
+            r1 = restructure(t, files, top, off, "--text-per-gate", "0")
+            t.res.check(r1.returncode == 0 and open(off).read() != src,
+                        f"{top}: --text-per-gate 0 turns the rule off: {r1.stderr[-400:]}")
+            bad = K.run([t.kerf, "restructure", *files, "--top", top, "--text-per-gate", "-1", "--check"])
+            t.res.check(bad.returncode == 2 and "--text-per-gate" in bad.stderr,
+                        f"{top}: --text-per-gate -1 is a usage error (exit 2): {bad.returncode} {bad.stderr[-300:]}")
         full = os.path.join(t.work, top + ".all.sv")
         r0 = restructure(t, files, top, full, "--min-gain", "0")
         if not t.res.check(r0.returncode == 0, f"{top}: --min-gain 0: {r0.stderr[-600:]}"):
@@ -2024,7 +2031,9 @@ def _(t):
         d = os.path.join(t.work, label)
         os.mkdir(d)
         out, rep = os.path.join(d, "irq_router.sv"), os.path.join(d, "r.json")
-        r = restructure(t, files, top, out, "--report", rep, *extra)
+        # The text rule (docs/guide.md "Text for gates") would keep the priority encoder's group
+        # as written by default (2 gates for three times its text): off, so that it is rewritten.
+        r = restructure(t, files, top, out, "--report", rep, "--text-per-gate", "0", *extra)
         if not t.res.check(r.returncode == 0 and os.path.exists(out), f"{label}: restructure: {r.stderr[-800:]}"):
             continue
         written = open(out).read()

@@ -34,6 +34,7 @@ struct RestructureOptions {
     std::int64_t proofBudget = 10000000;   ///< SAT conflicts over the whole proof
     std::string prefix;              ///< --wire-prefix: prefix of new wire names ("" = descriptive names alone)
     std::string minGain = "2";       ///< --min-gain: gates ("2") or percent ("5%") a group must save
+    int textPerGate = 40;            ///< --text-per-gate: emit::WriteOptions::maxTextPerGate (0: off)
     bool diff = false;               ///< print a unified diff instead of the file
     bool dissolveInternal = false;   ///< internal signals may dissolve into the logic (their declarations go)
     std::vector<std::string> keep;   ///< --keep NAME: signals never restructured through (cut points)
