@@ -22,17 +22,21 @@ sys.path.insert(0, os.path.dirname(__file__))
 import kerf_e2e as K  # noqa: E402
 
 GEN = re.compile(r"^(\s*(?:assign\s+|wire\s+)?[A-Za-z_]\w*(?:\s*\[[^\]]*\])?\s*=\s*)(.*);\s*$")
+# A word operation kerf keeps (`assign a_plus_b = a + b;`): its operands may commute, so a swap
+# need not change the function; such lines are not mutated.
+WORD_OP = re.compile(r"[-+*/%<>]|[!=]=")
 IDENT = re.compile(r"(?<![\w'])(~?)(\\\S+ |[A-Za-z_][A-Za-z0-9_$]*(?:\[\d+\])?)")
 ORIGINAL = {"lines": set()}
 
 
 def generated_lines(text):
     """Lines kerf wrote: single-line assignments that are not in the original file
-    (comparisons with sized constants are left alone: a mutated width would not build)."""
+    (comparisons with sized constants are left alone: a mutated width would not build; so are
+    word operations)."""
     lines = text.split("\n")
     idx = []
     for i, l in enumerate(lines):
-        if l in ORIGINAL["lines"] or "kf_w" in l or "'" in l:
+        if l in ORIGINAL["lines"] or "'" in l or WORD_OP.search(l.split("=", 1)[-1]):
             continue
         if GEN.match(l):
             idx.append(i)
