@@ -485,11 +485,22 @@ class Conv:
             ex = self.ex
             own_text = self.buf is not None and not self.macros    # span(e) needs no check
             by_class = _EXPR_BY_CLASS
+            shared = self.shared
+            loop_syms = self.loop_syms
             for e, ti, op, depth in reversed(spine):
                 # expr(e.right) without its frame when the operand's class is known
                 right = e.right
-                h = by_class.get(type(right))
-                if h is None:
+                cls = type(right)
+                r = None
+                if cls is _NAMED_VALUE and depth + 1 <= MAX_DEPTH:
+                    # A signal read again (a generated sum of products reads each term's
+                    # signal many times): x_named's own first lookup, without its call.
+                    sym = right.symbol
+                    if sym not in loop_syms:
+                        r = shared.get(("n", sym))
+                if r is not None:
+                    pass
+                elif (h := by_class.get(cls)) is None:
                     self.depth = depth
                     r = self.expr(right)
                 else:
