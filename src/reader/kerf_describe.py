@@ -146,13 +146,15 @@ class Sources:
         """Record the line starts of a file whose offsets the description uses."""
         n = self.name(buf)
         if n not in self.lines:
-            data = self.data(buf)
-            starts = [0]
-            find = data.find
-            p = find(b"\n")
-            while p >= 0:
-                starts.append(p + 1)
-                p = find(b"\n", p + 1)
+            starts = self.line_starts(buf)    # the same list where slang counts lines alike
+            if starts is None:
+                data = self.data(buf)
+                starts = [0]
+                find = data.find
+                p = find(b"\n")
+                while p >= 0:
+                    starts.append(p + 1)
+                    p = find(b"\n", p + 1)
             self.lines[n] = starts
         return n
 
