@@ -98,7 +98,9 @@ private:
             return true;
         }
         if (stack_.back() == nullptr) {   // a new element of a streamed table
-            element_ = std::move(container);
+            // The last element's array, emptied, keeps its room: a node of a generated
+            // design's table no longer grows a new one field by field (F276).
+            if (!(container.is_array() && element_.is_array() && element_.empty())) element_ = std::move(container);
             stack_.push_back(&element_);
             return true;
         }
@@ -118,7 +120,8 @@ private:
         stack_.pop_back();
         if (!stack_.empty() && stack_.back() == nullptr) {
             onElement_(table_, element_);
-            element_ = json();
+            if (element_.is_array()) element_.get_ref<json::array_t&>().clear();
+            else element_ = json();
         }
         return true;
     }
@@ -134,8 +137,11 @@ private:
 // ---- small helpers ------------------------------------------------------------
 
 const json& field(const json& j, const char* k, const std::string& where) {
-    if (!j.is_object() || !j.contains(k)) invalid(fmt::format("{} has no '{}'", where, k));
-    return j[k];
+    if (j.is_object()) {
+        auto it = j.find(k);   // one look-up (contains and [] were two)
+        if (it != j.end()) return *it;
+    }
+    invalid(fmt::format("{} has no '{}'", where, k));
 }
 
 std::string str(const json& j, const char* k, const std::string& where) {
@@ -300,32 +306,45 @@ private:
 
 void DescriptionBuilder::addExpr(const json& e) {
     std::size_t id = ir().exprs.size();
-    std::string where = fmt::format("expression {}", id);
-    if (!e.is_array() || e.size() < 4 || !e[0].is_string()) invalid(where + " is malformed");
+    // The place named in a message, made only when there is one to give: formatted for every
+    // node, it was a tenth of reading a generated design's description (F276).
+    auto where = [&] { return fmt::format("expression {}", id); };
+    auto index = [&](const json& v, const char* what) -> std::uint32_t {
+        if (v.is_number_unsigned()) {
+            std::uint64_t u = v.get<std::uint64_t>();
+            if (u < kNoId) return static_cast<std::uint32_t>(u);
+        }
+        return asIndex(v, where() + what);   // -1, or a message
+    };
+    auto integer = [&](const json& v) -> std::int64_t {
+        if (v.is_number_integer()) return v.get<std::int64_t>();
+        return asInt(v, where());            // a message
+    };
+    if (!e.is_array() || e.size() < 4 || !e[0].is_string()) invalid(where() + " is malformed");
     Expr x;
-    std::string kind = e[0].get<std::string>();
-    x.type = asIndex(e[1], where + " type");
-    std::int64_t s = asInt(e[2], where), en = asInt(e[3], where);
+    const std::string& kind = e[0].get_ref<const std::string&>();
+    x.type = index(e[1], " type");
+    std::int64_t s = integer(e[2]), en = integer(e[3]);
     if (s >= 0 && en >= s && en < static_cast<std::int64_t>(kNoId)) {
         x.start = static_cast<std::uint32_t>(s);
         x.end = static_cast<std::uint32_t>(en);
     }
     auto need = [&](std::size_t n) {
-        if (e.size() != n) invalid(fmt::format("{} ({}) has {} fields, expected {}", where, kind, e.size(), n));
+        if (e.size() != n) invalid(fmt::format("{} ({}) has {} fields, expected {}", where(), kind, e.size(), n));
     };
     auto operand = [&](std::size_t k) {
-        std::uint32_t o = asIndex(e[k], where);
-        if (o == kNoId || o >= id) invalid(fmt::format("{} names operand {} that does not precede it", where, e[k].dump()));
+        std::uint32_t o = index(e[k], "");
+        if (o == kNoId || o >= id) invalid(fmt::format("{} names operand {} that does not precede it", where(), e[k].dump()));
         return o;
     };
     auto int32 = [&](std::size_t k) {
-        std::int64_t v = asInt(e[k], where);
-        if (v < INT32_MIN || v > INT32_MAX) invalid(where + " has a bound out of range");
+        std::int64_t v = integer(e[k]);
+        if (v < INT32_MIN || v > INT32_MAX) invalid(where() + " has a bound out of range");
         return static_cast<std::int32_t>(v);
     };
     if (kind == "const") {
         need(5);
-        if (!e[4].is_string()) invalid(where + ": constant bits are not a string");
+        if (!e[4].is_string()) invalid(where() + ": constant bits are not a string");
         const std::string& bits = e[4].get_ref<const std::string&>();
         x.kind = ExprKind::Const;
         x.a = static_cast<std::uint32_t>(ir().constBits.size());
@@ -333,29 +352,29 @@ void DescriptionBuilder::addExpr(const json& e) {
             char c = *it;
             if (c == 'X') c = 'x';
             if (c == 'Z' || c == '?') c = 'z';
-            if (c != '0' && c != '1' && c != 'x' && c != 'z') invalid(where + ": constant holds '" + std::string(1, *it) + "'");
+            if (c != '0' && c != '1' && c != 'x' && c != 'z') invalid(where() + ": constant holds '" + std::string(1, *it) + "'");
             ir().constBits.push_back(c);
         }
         x.b = static_cast<std::uint32_t>(bits.size());
     } else if (kind == "ref") {
         need(5);
         x.kind = ExprKind::Ref;
-        x.a = asIndex(e[4], where + " symbol");
-        if (x.a == kNoId) invalid(where + " names no symbol");
+        x.a = index(e[4], " symbol");
+        if (x.a == kNoId) invalid(where() + " names no symbol");
     } else if (kind == "unary") {
         need(6);
         x.kind = ExprKind::Unary;
-        if (!e[4].is_string()) invalid(where + ": operator is not a string");
-        auto it = unaryOps().find(e[4].get<std::string>());
-        if (it == unaryOps().end()) invalid(where + ": unknown unary operator " + e[4].dump());
+        if (!e[4].is_string()) invalid(where() + ": operator is not a string");
+        auto it = unaryOps().find(e[4].get_ref<const std::string&>());
+        if (it == unaryOps().end()) invalid(where() + ": unknown unary operator " + e[4].dump());
         x.op = static_cast<std::uint8_t>(it->second);
         x.a = operand(5);
     } else if (kind == "binary") {
         need(7);
         x.kind = ExprKind::Binary;
-        if (!e[4].is_string()) invalid(where + ": operator is not a string");
-        auto it = binaryOps().find(e[4].get<std::string>());
-        if (it == binaryOps().end()) invalid(where + ": unknown binary operator " + e[4].dump());
+        if (!e[4].is_string()) invalid(where() + ": operator is not a string");
+        auto it = binaryOps().find(e[4].get_ref<const std::string&>());
+        if (it == binaryOps().end()) invalid(where() + ": unknown binary operator " + e[4].dump());
         x.op = static_cast<std::uint8_t>(it->second);
         x.a = operand(5);
         x.b = operand(6);
@@ -368,19 +387,19 @@ void DescriptionBuilder::addExpr(const json& e) {
     } else if (kind == "concat") {
         need(5);
         x.kind = ExprKind::Concat;
-        if (!e[4].is_array() || e[4].empty()) invalid(where + ": concatenation without parts");
+        if (!e[4].is_array() || e[4].empty()) invalid(where() + ": concatenation without parts");
         x.a = static_cast<std::uint32_t>(ir().lists.size());
         for (std::size_t k = 0; k < e[4].size(); ++k) {
-            std::uint32_t o = asIndex(e[4][k], where);
-            if (o == kNoId || o >= id) invalid(where + " names a part that does not precede it");
+            std::uint32_t o = index(e[4][k], "");
+            if (o == kNoId || o >= id) invalid(where() + " names a part that does not precede it");
             ir().lists.push_back(o);
         }
         x.b = static_cast<std::uint32_t>(e[4].size());
     } else if (kind == "replicate") {
         need(6);
         x.kind = ExprKind::Replicate;
-        std::int64_t n = asInt(e[4], where);
-        if (n < 1 || n > kMaxWidth) invalid(where + ": replication count out of range");
+        std::int64_t n = integer(e[4]);
+        if (n < 1 || n > kMaxWidth) invalid(where() + ": replication count out of range");
         x.b = static_cast<std::uint32_t>(n);
         x.a = operand(5);
     } else if (kind == "index") {
@@ -403,7 +422,7 @@ void DescriptionBuilder::addExpr(const json& e) {
         x.kind = ExprKind::Indexed;
         x.a = operand(4);
         x.b = operand(5);
-        if (!e[6].is_string() || (e[6] != "+" && e[6] != "-")) invalid(where + ": direction is not + or -");
+        if (!e[6].is_string() || (e[6] != "+" && e[6] != "-")) invalid(where() + ": direction is not + or -");
         x.up = e[6] == "+";
         x.msb = int32(7);
         x.lsb = int32(8);
@@ -414,18 +433,18 @@ void DescriptionBuilder::addExpr(const json& e) {
     } else if (kind == "call") {
         need(6);
         x.kind = ExprKind::Call;
-        x.a = asIndex(e[4], where + " function");
-        if (x.a == kNoId) invalid(where + " names no function");
-        if (!e[5].is_array()) invalid(where + ": call arguments are not a list");
+        x.a = index(e[4], " function");
+        if (x.a == kNoId) invalid(where() + " names no function");
+        if (!e[5].is_array()) invalid(where() + ": call arguments are not a list");
         x.b = static_cast<std::uint32_t>(ir().lists.size());
         for (std::size_t k = 0; k < e[5].size(); ++k) {
-            std::uint32_t o = asIndex(e[5][k], where);
-            if (o == kNoId || o >= id) invalid(where + " names an argument that does not precede it");
+            std::uint32_t o = index(e[5][k], "");
+            if (o == kNoId || o >= id) invalid(where() + " names an argument that does not precede it");
             ir().lists.push_back(o);
         }
         x.c = static_cast<std::uint32_t>(e[5].size());
     } else {
-        invalid(fmt::format("{} has the unknown kind '{}'", where, kind));
+        invalid(fmt::format("{} has the unknown kind '{}'", where(), kind));
     }
     ir().exprs.push_back(x);
 }
