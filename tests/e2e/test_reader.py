@@ -241,6 +241,43 @@ def statement_byte_ranges():
 
 
 @test
+def line_and_column_on_every_line_ending():
+    """The reader computes a location's line and column from the file's line starts (F276);
+    slang's own source manager is the reference, on byte_ranges.sv as written and in three
+    made-up variants: `\\r\\n` line ends, one line ended by a `\\r` alone (a line end for
+    slang, not for a count of `\\n`), a UTF-8 byte order mark in front."""
+    import pyslang
+    from pyslang import driver as sdriver
+    base = open(os.path.join(INPUTS, "byte_ranges.sv"), "rb").read()
+    third = -1
+    for _ in range(3):
+        third = base.index(b"\n", third + 1)
+    variants = {"as_written.sv": base, "crlf.sv": base.replace(b"\n", b"\r\n"),
+                "lone_cr.sv": base[:third] + b"\r" + base[third + 1:], "bom.sv": b"\xef\xbb\xbf" + base}
+    with tempfile.TemporaryDirectory() as tmp:
+        for name, data in variants.items():
+            with open(os.path.join(tmp, name), "wb") as f:
+                f.write(data)
+            d = read(name, cwd=tmp, raw=True)
+            drv = sdriver.Driver()
+            drv.addStandardArgs()
+            assert drv.parseCommandLine("slang " + os.path.join(tmp, name), sdriver.CommandLineOptions())
+            assert drv.processOptions() and drv.parseAllSources()
+            sm = drv.sourceManager
+            buf = drv.syntaxTrees[0].root.sourceRange.start.buffer
+            srcs = [m["src"] for m in d["members"]] + [s["src"] for s in d["signals"]]
+            assert len(srcs) > 10, "too few locations in %s" % name
+            for src in srcs:
+                loc = pyslang.SourceLocation(buf, src["start"])
+                eq((src["line"], src["col"]), (sm.getLineNumber(loc), sm.getColumnNumber(loc)),
+                   "%s: line/col of byte %d" % (name, src["start"]))
+            if name == "lone_cr.sv":
+                last = max(srcs, key=lambda s: s["start"])
+                eq(last["line"], line_col(os.path.join(tmp, name), last["start"])[0] + 1,
+                   "a line ended by a lone \\r counts")
+
+
+@test
 def declaration_byte_ranges():
     d = read("byte_ranges.sv")
     stmt = "wire [3:0] lo_rx, lo_tx = tx_data[3:0], \\flag[0] ;"
