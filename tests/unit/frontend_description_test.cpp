@@ -19,7 +19,12 @@ json simple() {
     DescBuilder d;
     d.sig("a", 4, "input");
     d.sig("y", 1, "output");
-    d.assignMember(d.ref("y"), d.un("|", d.ref("a"), 1), 2, {"a"}, {"y"});
+    // Nodes made one statement at a time: the tests below name them by index, and the order in
+    // which a compiler evaluates a call's arguments is unspecified (clang made `y` node 0).
+    int a = d.ref("a");        // node 0
+    int orA = d.un("|", a, 1); // node 1
+    int y = d.ref("y");        // node 2
+    d.assignMember(y, orA, 2, {"a"}, {"y"});
     return d.build();
 }
 
