@@ -1618,7 +1618,9 @@ bool Writer::checkCycles() {
     // graph too (a block kept for an `ifdef` that reads the rewrite's signal closes a loop
     // just the same, F136), except where no path runs from what it reads to what it writes
     // within one evaluation (clocked blocks, initial and final blocks, assertions) and
-    // instances and generate constructs, whose paths are not known here. A loop made only of
+    // instances, whose paths are not known here. A generate construct counts as a path from
+    // everything it reads to everything it writes (F292: a loop through two generate loops
+    // drew Verilator's UNOPTFLAT, Verilator flattening them as it does). A loop made only of
     // what the source already had (edges from statements written as they were) is the
     // source's own and is left alone.
     std::map<int, std::size_t> idx;
@@ -1652,7 +1654,7 @@ bool Writer::checkCycles() {
     const std::size_t keptBase = S + wires_.size() + wordOfNode.size();
     for (const auto& mem : m_.members) {
         if (mem.kind != frontend::MemberKind::Kept || mem.clocked) continue;
-        static const std::set<std::string> noPath = {"initial", "final", "assertion", "instance", "generate",
+        static const std::set<std::string> noPath = {"initial", "final", "assertion", "instance",
                                                      "excluded_text", "specify", "elaboration_task"};
         if (noPath.count(mem.what)) continue;
         for (const auto& w : mem.writes) keptWriters[w].push_back(keptBase + keptOfNode.size());
