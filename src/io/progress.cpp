@@ -24,6 +24,15 @@ struct Redraw {
     bool drawn = false;
 };
 
+/// One redraw of the line (the caller holds r.mu).
+void drawLine(Redraw& r, const char* stage, std::size_t done, std::size_t total, double secs) {
+    std::string share = total ? fmt::format("  {:3d}%", static_cast<int>(100.0 * done / total)) : "";
+    std::string text = fmt::format("\r\033[Kkerf: {}{}  {:.0f} s", stage, share, secs);
+    ssize_t ignored = write(STDERR_FILENO, text.data(), text.size());
+    (void)ignored;
+    r.drawn = true;
+}
+
 void eraseLine(Redraw& r) {
     if (!r.drawn) return;
     const char clear[] = "\r\033[K";
@@ -48,9 +57,15 @@ void Progress::start(bool wanted) {
     // KERF_PROGRESS_DELAY (seconds) moves the two-second threshold, e.g. for a demo or a test.
     double delay = 2.0;
     if (const char* d = std::getenv("KERF_PROGRESS_DELAY"); d && *d) delay = std::atof(d);
-    // KERF_PROGRESS_INTERVAL (milliseconds, default 250) is the redraw period, short in a test.
+    // KERF_PROGRESS_INTERVAL (milliseconds, default 250) is the redraw period, short in a test;
+    // 0 also redraws at every change of stage or share, so that a test sees every stage's
+    // share however briefly it lasts and however the redraw thread is scheduled (F267).
     long interval = 250;
-    if (const char* d = std::getenv("KERF_PROGRESS_INTERVAL"); d && *d) interval = std::max(1L, std::atol(d));
+    if (const char* d = std::getenv("KERF_PROGRESS_INTERVAL"); d && *d) interval = std::max(0L, std::atol(d));
+    began_ = began;
+    delay_ = delay;
+    eager_ = interval == 0;
+    interval = std::max(1L, interval);
     r->thread = std::thread([this, r, began, delay, interval] {
         std::unique_lock lock(r->mu);
         while (!r->quit) {
@@ -58,26 +73,32 @@ void Progress::start(bool wanted) {
             if (r->quit) break;
             double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - began).count();
             if (secs < delay) continue;
-            std::size_t total = total_, done = done_;
-            std::string share = total ? fmt::format("  {:3d}%", static_cast<int>(100.0 * done / total)) : "";
-            std::string text = fmt::format("\r\033[Kkerf: {}{}  {:.0f} s", stage_.load(), share, secs);
-            ssize_t ignored = write(STDERR_FILENO, text.data(), text.size());
-            (void)ignored;
-            r->drawn = true;
+            drawLine(*r, stage_.load(), done_, total_, secs);
         }
         eraseLine(*r);
     });
+}
+
+void Progress::drawNow() {
+    if (!eager_ || !running_) return;
+    auto* r = static_cast<Redraw*>(thread_);
+    std::lock_guard lock(r->mu);
+    if (r->quit) return;
+    double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - began_).count();
+    if (secs >= delay_) drawLine(*r, stage_.load(), done_, total_, secs);
 }
 
 void Progress::stage(const char* name) {
     stage_ = name;
     total_ = 0;
     done_ = 0;
+    drawNow();
 }
 
 void Progress::share(std::size_t done, std::size_t total) {
     total_ = total;
     done_ = done;
+    drawNow();
 }
 
 void Progress::stop() {

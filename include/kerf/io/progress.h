@@ -6,7 +6,7 @@
 // background thread; the work only stores the stage and the share done (lowering:
 // members; proof: nodes swept, then outputs compared). KERF_PROGRESS_DELAY
 // (seconds) and KERF_PROGRESS_INTERVAL (milliseconds) move the threshold and the
-// redraw period, for a demo or a test.
+// redraw period, for a demo or a test (0: redraw at every change of stage or share too).
 // StageLog records wall time, CPU time and peak memory per stage for -v and the
 // JSON report (CPU time tells a stage's own cost on a machine shared with other work).
 #pragma once
@@ -35,9 +35,14 @@ public:
 
 private:
     Progress() = default;
+    /// With KERF_PROGRESS_INTERVAL=0: redraw now, from the working thread.
+    void drawNow();
     std::atomic<const char*> stage_{""};
     std::atomic<std::size_t> done_{0}, total_{0};
     std::atomic<bool> running_{false};
+    bool eager_ = false;
+    std::chrono::steady_clock::time_point began_;
+    double delay_ = 2.0;
     void* thread_ = nullptr;
 };
 
