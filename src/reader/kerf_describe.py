@@ -103,6 +103,18 @@ def _skip_unelaborated(n):
 # ---------------------------------------------------------------------------
 # sources
 
+
+def _newline_starts(data):
+    """Offsets where the lines of `data` start, counting `\\n` only."""
+    starts = [0]
+    find = data.find
+    p = find(b"\n")
+    while p >= 0:
+        starts.append(p + 1)
+        p = find(b"\n", p + 1)
+    return starts
+
+
 class Sources:
     def __init__(self, sm):
         self.sm = sm
@@ -148,13 +160,7 @@ class Sources:
         if n not in self.lines:
             starts = self.line_starts(buf)    # the same list where slang counts lines alike
             if starts is None:
-                data = self.data(buf)
-                starts = [0]
-                find = data.find
-                p = find(b"\n")
-                while p >= 0:
-                    starts.append(p + 1)
-                    p = find(b"\n", p + 1)
+                starts = _newline_starts(self.data(buf))
             self.lines[n] = starts
         return n
 
@@ -165,14 +171,7 @@ class Sources:
         if key in self._starts:
             return self._starts[key]
         data = self.data(buf)
-        starts = None
-        if data.count(b"\r") == data.count(b"\r\n"):
-            starts = [0]
-            find = data.find
-            p = find(b"\n")
-            while p >= 0:
-                starts.append(p + 1)
-                p = find(b"\n", p + 1)
+        starts = _newline_starts(data) if data.count(b"\r") == data.count(b"\r\n") else None
         self._starts[key] = starts
         return starts
 
