@@ -53,6 +53,23 @@ void scanPartners(const std::vector<std::uint32_t>& o, std::uint32_t i, bool reg
     }
 }
 
+/// The first position at or after `lo` in sorted o whose entry is at least
+/// x: a galloping search from lo.
+std::size_t gallopAtLeast(const std::vector<std::uint32_t>& o, std::size_t lo, std::uint32_t x) {
+    const std::size_t n = o.size();
+    if (lo >= n || o[lo] >= x) return lo;
+    std::size_t below = lo, step = 1, hi = lo + 1;   // o[below] < x
+    while (hi < n && o[hi] < x) {
+        below = hi;
+        step *= 2;
+        hi = lo + step;
+    }
+    if (hi > n) hi = n;
+    return static_cast<std::size_t>(std::lower_bound(o.begin() + static_cast<std::ptrdiff_t>(below) + 1,
+                                                     o.begin() + static_cast<std::ptrdiff_t>(hi), x) -
+                                    o.begin());
+}
+
 /// The first position at or after `lo` in sorted o whose entry is above i,
 /// when every entry before lo is at most i: a galloping search from lo. The
 /// candidate loop meets the cubes in increasing order, so each literal's
@@ -60,18 +77,7 @@ void scanPartners(const std::vector<std::uint32_t>& o, std::uint32_t i, bool reg
 /// cube and literal was a quarter of the in-place extraction's time on the
 /// 100k decoder, engine17).
 std::size_t gallopAbove(const std::vector<std::uint32_t>& o, std::size_t lo, std::uint32_t i) {
-    const std::size_t n = o.size();
-    if (lo >= n || o[lo] > i) return lo;
-    std::size_t below = lo, step = 1, hi = lo + 1;   // o[below] <= i
-    while (hi < n && o[hi] <= i) {
-        below = hi;
-        step *= 2;
-        hi = lo + step;
-    }
-    if (hi > n) hi = n;
-    return static_cast<std::size_t>(std::upper_bound(o.begin() + static_cast<std::ptrdiff_t>(below) + 1,
-                                                     o.begin() + static_cast<std::ptrdiff_t>(hi), i) -
-                                    o.begin());
+    return gallopAtLeast(o, lo, i + 1);   // i is a cube index, below the number of cubes
 }
 
 /// A candidate cube held by `holders` cubes: the literals its extraction saves at most.
@@ -113,23 +119,6 @@ long valueOf(detail::Workspace& ws, const Cube& I, const std::vector<net::NodeId
     }
     long w = static_cast<long>(I.lits.size()) - 1;
     return count * w - (provider ? 0 : static_cast<long>(I.lits.size()) - 1);
-}
-
-/// The first position at or after `lo` in sorted o whose entry is at least
-/// x: a galloping search from lo.
-std::size_t gallopAtLeast(const std::vector<std::uint32_t>& o, std::size_t lo, std::uint32_t x) {
-    const std::size_t n = o.size();
-    if (lo >= n || o[lo] >= x) return lo;
-    std::size_t below = lo, step = 1, hi = lo + 1;   // o[below] < x
-    while (hi < n && o[hi] < x) {
-        below = hi;
-        step *= 2;
-        hi = lo + step;
-    }
-    if (hi > n) hi = n;
-    return static_cast<std::size_t>(std::lower_bound(o.begin() + static_cast<std::ptrdiff_t>(below) + 1,
-                                                     o.begin() + static_cast<std::ptrdiff_t>(hi), x) -
-                                    o.begin());
 }
 
 /// The entries common to every sorted list of `lists` (F256). The shortest
