@@ -23,7 +23,10 @@ namespace {
 
 using json = nlohmann::json;
 
-constexpr int kFormatVersion = 3;
+// Version 4 added links (`[l, r, end]` in `exprs`); version 3 is read as well (descriptions
+// kept from an older reader, the fuzz seeds, the unit tests' samples).
+constexpr int kFormatVersion = 4;
+constexpr int kOldFormatVersion = 3;
 // Widths beyond this are refused as malformed (no packed type in real RTL comes near).
 constexpr std::uint32_t kMaxWidth = 1u << 24;
 
@@ -302,6 +305,7 @@ private:
     int exprMember(ExprId id) const { return id < exprOwner_.size() ? exprOwner_[id] : -1; }
 
     std::vector<int> exprOwner_, stmtOwner_;
+    std::size_t links_ = 0;   ///< expressions written as links (version 4 only)
 };
 
 void DescriptionBuilder::addExpr(const json& e) {
@@ -320,6 +324,28 @@ void DescriptionBuilder::addExpr(const json& e) {
         if (v.is_number_integer()) return v.get<std::int64_t>();
         return asInt(v, where());            // a message
     };
+    if (e.is_array() && !e.empty() && e[0].is_number()) {
+        // Version 4: a link `[l, r, end]`, the binary node `l op r` whose operator, type and start
+        // are those of its left operand `l`, itself a binary node (a long chain `t1 | t2 | ...`
+        // costs three numbers a term; docs/reader-format.md, "Links").
+        if (e.size() != 3) invalid(fmt::format("{} (link) has {} fields, expected 3", where(), e.size()));
+        std::uint32_t l = index(e[0], " (link)");
+        if (l == kNoId || l >= id) invalid(fmt::format("{} (link) names operand {} that does not precede it", where(), e[0].dump()));
+        Expr x = ir().exprs[l];
+        if (x.kind != ExprKind::Binary || x.start == kNoId)
+            invalid(fmt::format("{} (link) continues expression {}, which is not a binary node with a known range", where(), l));
+        std::uint32_t r = index(e[1], " (link)");
+        if (r == kNoId || r >= id) invalid(fmt::format("{} (link) names operand {} that does not precede it", where(), e[1].dump()));
+        std::int64_t en = integer(e[2]);
+        if (en < static_cast<std::int64_t>(x.start) || en >= static_cast<std::int64_t>(kNoId))
+            invalid(fmt::format("{} (link) ends before it starts", where()));
+        x.a = l;
+        x.b = r;
+        x.end = static_cast<std::uint32_t>(en);
+        ++links_;
+        ir().exprs.push_back(x);
+        return;
+    }
     if (!e.is_array() || e.size() < 4 || !e[0].is_string()) invalid(where() + " is malformed");
     Expr x;
     const std::string& kind = e[0].get_ref<const std::string&>();
@@ -1185,11 +1211,15 @@ void DescriptionBuilder::checkOwnership() {
 void DescriptionBuilder::finish(const json& root) {
     if (!root.is_object()) invalid("it is not a JSON object");
     if (root.value("format", "") != "kerf-module") invalid("it is not a kerf module description");
-    if (!root.contains("version") || !root["version"].is_number_integer() || root["version"] != kFormatVersion)
-        throw Error(fmt::format("the reader wrote format version {}, this kerf reads version {}; "
+    if (!root.contains("version") || !root["version"].is_number_integer() ||
+        (root["version"] != kFormatVersion && root["version"] != kOldFormatVersion))
+        throw Error(fmt::format("the reader wrote format version {}, this kerf reads versions {} and {}; "
                                 "the reader and kerf come from different versions",
-                                root.contains("version") ? root["version"].dump() : "none", kFormatVersion),
+                                root.contains("version") ? root["version"].dump() : "none", kOldFormatVersion,
+                                kFormatVersion),
                     {}, ExitCode::Internal);
+    if (root["version"] == kOldFormatVersion && links_ > 0)
+        invalid(fmt::format("version {} has no links, yet {} expressions are written as links", kOldFormatVersion, links_));
     const json& mod = field(root, "module", "the description");
     m.name = str(mod, "name", "the module");
     m.src = parseRange(field(mod, "src", "the module"), "the module's src");

@@ -15,6 +15,7 @@ conversions appear as `convert` nodes. Leaves (constants, signal references,
 constant selects of them) are shared within one member.
 """
 
+import bisect
 import re
 
 import pyslang
@@ -128,6 +129,11 @@ _STMT_REASON = {
 }
 
 
+# The key under which the describer hands kerf_read.write_json the nodes to write as links
+# (`Tables.links`); not part of the description.
+LINKS_KEY = "_links"
+
+
 class Unsupported(Exception):
     """The construct is outside what kerf restructures; the member is kept."""
 
@@ -180,6 +186,10 @@ class Tables:
         self.fn_index = {}      # subroutine symbol -> index, or the reason it is not described
         self.fn_busy = set()    # functions being described (a call back into one is recursion)
         self.lit_types = {}     # slang type -> (width, four-state, integral), for case tables
+        # Indices of binary nodes that continue a left-nested chain of their left operand's
+        # operator, type and start (`t1 | t2 | t3`): written as links `[l, r, end]` (version 4;
+        # `compact_links`).
+        self.links = []
         # Everything up to here belongs to described functions: a member dropped later
         # must not take it along.
         self.watermark = (0, 0, 0)
@@ -227,6 +237,9 @@ class Conv:
         """Forget every node this member added (it is kept after all). Nodes of functions
         described meanwhile stay (the member's nodes before them are left unused)."""
         w = self.t.watermark
+        links = self.t.links
+        while links and links[-1] >= max(self.mark[0], w[0]):
+            links.pop()
         del self.ex[max(self.mark[0], w[0]):]
         del self.st[max(self.mark[1], w[1]):]
         self.t.next_symbol = max(self.mark[2], w[2])
@@ -487,6 +500,9 @@ class Conv:
             by_class = _EXPR_BY_CLASS
             shared = self.shared
             loop_syms = self.loop_syms
+            links = self.t.links
+            prev = -1       # the node this loop appended last (its type, operator and range: ti, op, s, t)
+            pti = pop = ps = pt = None
             for e, ti, op, depth in reversed(spine):
                 # expr(e.right) without its frame when the operand's class is known
                 right = e.right
@@ -519,7 +535,11 @@ class Conv:
                 else:
                     s, t = self.span(e)
                 ex.append(["binary", ti, s, t, op, l, r])
-                l = len(ex) - 1
+                i = len(ex) - 1
+                if prev == l and ps == s and pti == ti and pop == op and s >= 0 and pt >= s and t >= s:
+                    links.append(i)     # a link (version 4): its left operand gives op, type, start
+                prev, pti, pop, ps, pt = i, ti, op, s, t
+                l = i
             return l
         finally:
             self.depth = saved
@@ -1577,3 +1597,21 @@ def _handler(e):
     if h is not None and type(e) is not ast.Expression:
         _EXPR_BY_CLASS[type(e)] = h
     return h
+
+
+
+
+def linked(exprs, links, lo, hi):
+    """Nodes lo..hi-1 of `exprs` as written (version 4): each binary node listed in `links`
+    (ascending) as a link `(l, r, end)`; the C++ side restores `["binary", type(l), start(l),
+    end, op(l), l, r]`. `x_binary` lists a node only when its left operand `l` is the binary node
+    it appended just before, of the same operator, type and start, both with a known range (a
+    member dropped takes its listed nodes along; no node is changed once made). A long chain
+    (`t1 | t2 | ... | tN`, the OR of a generated decoder's rewrite) then costs three numbers a
+    term in the text and in the C++ read. `exprs` itself is not changed."""
+    part = exprs[lo:hi]
+    a = bisect.bisect_left(links, lo)
+    for i in links[a:bisect.bisect_left(links, hi, a)]:
+        x = exprs[i]
+        part[i - lo] = (x[5], x[6], x[3])
+    return part

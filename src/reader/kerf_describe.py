@@ -19,12 +19,12 @@ from collections import Counter
 import pyslang
 from pyslang import ast
 
-from kerf_convert import Conv, Tables, Unsupported, dim_offset
+from kerf_convert import LINKS_KEY, Conv, Tables, Unsupported, dim_offset
 from kerf_types import Types, sv_bits
 import kerf_variants
 
 FORMAT = "kerf-module"
-VERSION = 3
+VERSION = 4
 
 SK = ast.SymbolKind
 EK = ast.ExpressionKind
@@ -1514,6 +1514,7 @@ class Describer:
             desc["constants"] = self.constants
         desc["functions"] = self.tables.functions
         desc["exprs"] = self.tables.exprs
+        desc[LINKS_KEY] = self.tables.links     # kerf_read.write_json writes these nodes as links
         desc["stmts"] = self.tables.stmts
         return desc
 

@@ -133,10 +133,19 @@ def write_json(desc, out):
     encoded copy) was a tenth of the reader's peak on a generated design."""
     # A tree the describer built: no cycles to look for (a quarter of the encoding time).
     dumps = json.JSONEncoder(separators=(",", ":"), check_circular=False).encode
+    from kerf_convert import LINKS_KEY, linked
+    links = desc.get(LINKS_KEY, [])
     out.write("{")
-    for i, (k, v) in enumerate(desc.items()):
+    for i, (k, v) in enumerate((k, v) for k, v in desc.items() if k != LINKS_KEY):
         out.write(("," if i else "") + dumps(k) + ":")
-        if isinstance(v, list) and len(v) > JSON_CHUNK:
+        if k == "exprs":
+            # binary nodes continuing a chain written as links (docs/reader-format.md, "Links")
+            out.write("[")
+            for j in range(0, len(v), JSON_CHUNK):
+                part = dumps(linked(v, links, j, j + JSON_CHUNK))
+                out.write(("," if j else "") + part[1:-1])
+            out.write("]")
+        elif isinstance(v, list) and len(v) > JSON_CHUNK:
             out.write("[")
             for j in range(0, len(v), JSON_CHUNK):
                 part = dumps(v[j:j + JSON_CHUNK])
@@ -265,7 +274,15 @@ def main(argv=None):
         if collecting:
             gc.enable()
     try:
-        write_json(desc, sys.stdout)
+        # The collector off here too: the links written (tuples, docs/reader-format.md "Links")
+        # would start full passes over the whole description, which frees nothing.
+        collecting = gc.isenabled()
+        gc.disable()
+        try:
+            write_json(desc, sys.stdout)
+        finally:
+            if collecting:
+                gc.enable()
     except BrokenPipeError:
         # the consumer went away; do not print a traceback about it
         os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())

@@ -61,8 +61,22 @@ def read(*args, cwd=None, raw=False):
     are also expanded from the node tables into nested dicts (see `expr_tree`)."""
     rc, out, err = run_reader(*args, cwd=cwd)
     assert rc == 0, "reader exit %d for %s:\n%s" % (rc, args, err)
-    d = json.loads(out)
+    d = unlinked(json.loads(out))
     return d if raw else expanded(d)
+
+
+def unlinked(d):
+    """`d` with every link `[l, r, end]` of `exprs` written out as the binary node it stands for
+    (docs/reader-format.md, "Links"): `["binary", type(l), start(l), end, op(l), l, r]`."""
+    ex = d["exprs"]
+    for i, n in enumerate(ex):
+        if n and isinstance(n[0], int):
+            l, r, end = n
+            assert 0 <= l < i and 0 <= r < i, "link %d names %s" % (i, n)
+            y = ex[l]
+            assert y[0] == "binary" and 0 <= y[2] <= end, "link %d continues %s" % (i, y)
+            ex[i] = ["binary", y[1], y[2], end, y[4], l, r]
+    return d
 
 
 # ---------------------------------------------------------------------------
@@ -212,7 +226,7 @@ def line_col(path, offset):
 def statement_byte_ranges():
     d = read("byte_ranges.sv")
     eq(d["format"], "kerf-module", "format")
-    eq(d["version"], 3, "version")
+    eq(d["version"], 4, "version")
     eq(d["module"]["name"], "status_regs", "module name")
     eq(text_of(member_writing(d, "both")["src"]), "assign both = rx_data & tx_data;", "assign")
     both_src = [m for m in d["members"] if "sum" in m["writes"] or "parity" in m["writes"]]
@@ -312,6 +326,50 @@ def compact_json():
     eq(rc, 0, "exit")
     eq(out.count("\n"), 1, "one line of JSON")
     eq(out, json.dumps(json.loads(out), separators=(",", ":")) + "\n", "compact JSON")
+
+
+@test
+def chains_are_links():
+    # docs/reader-format.md, "Links" (version 4): a binary node continuing a chain of its left
+    # operand's operator, type and start is written as `[l, r, end]`; written out again it is
+    # the node the language's left-to-right grouping makes (IEEE 1800-2017 11.3.2: binary
+    # operators of one precedence associate to the left), with the byte range of its own text.
+    with tempfile.TemporaryDirectory() as tmp:
+        path = os.path.join(tmp, "chain.sv")
+        with open(path, "w") as f:
+            f.write("module chain (input logic [5:0] a, input logic p, q, output logic y, output logic z,\n"
+                    "              output logic [3:0] s);\n"
+                    "  assign y = a[0] | a[1] | a[2] | a[3];\n"
+                    "  assign z = a[4] ^ a[5] & p ^ q;\n"
+                    "  assign s = a[3:0] - a[5:2] - {p, q, p, q};\n"
+                    "endmodule\n")
+        rc, out, err = run_reader("chain.sv", cwd=tmp)
+        eq(rc, 0, "exit: " + err)
+        raw = json.loads(out)
+        links = [n for n in raw["exprs"] if isinstance(n[0], int)]
+        # y: three ORs, the outer two continue a chain; z: the two ^ around the & (one link);
+        # s: two subtractions (one link).
+        eq(len(links), 4, "links")
+        d = unlinked(raw)
+        text = open(path, "rb").read()
+
+        def spine(i):
+            """(operator, text) of each binary node down the left operands from node i."""
+            out = []
+            while d["exprs"][i][0] == "binary":
+                n = d["exprs"][i]
+                out.append((n[4], text[n[2]:n[3]].decode()))
+                i = n[5]
+            return out
+        eq(spine(member_writing(d, "y")["rhs"]),
+           [("|", "a[0] | a[1] | a[2] | a[3]"), ("|", "a[0] | a[1] | a[2]"), ("|", "a[0] | a[1]")], "y")
+        eq(spine(member_writing(d, "z")["rhs"]), [("^", "a[4] ^ a[5] & p ^ q"), ("^", "a[4] ^ a[5] & p")], "z")
+        eq(spine(member_writing(d, "s")["rhs"]),
+           [("-", "a[3:0] - a[5:2] - {p, q, p, q}"), ("-", "a[3:0] - a[5:2]")], "s")
+        tree = expanded(d)
+        y = member_writing(tree, "y")["rhs"]
+        eq([y["rhs"]["op"], y["lhs"]["rhs"]["op"], y["lhs"]["lhs"]["lhs"]["op"]], ["index"] * 3, "y's operands")
+        eq(y["width"], 1, "y's width")
 
 
 # ---------------------------------------------------------------------------

@@ -73,6 +73,81 @@ TEST(FrontendDescription, RejectsAnotherVersion) {
     EXPECT_NE(internalError(d.dump()).find("format version"), std::string::npos);
 }
 
+namespace {
+
+/// `y = a[0] | a[1] | a[2] | a[3]` with byte ranges, its ORs as binary nodes (version 3) or the
+/// outer two as links `[l, r, end]` (version 4, docs/reader-format.md "Links").
+json orChain(bool links) {
+    DescBuilder d;
+    d.sig("a", 4, "input");
+    d.sig("y", 1, "output");
+    int a = d.ref("a");
+    std::vector<int> bits;
+    for (int k = 0; k < 4; ++k) {
+        int idx = d.cnst(k == 0 ? "00" : k == 1 ? "01" : k == 2 ? "10" : "11");
+        bits.push_back(d.index(a, idx, 3, 0, 1));
+    }
+    int y = d.ref("y");
+    // the text `a[0] | a[1] | a[2] | a[3]` at byte 20: each OR ends after its right operand
+    int o1 = d.add(json::array({"binary", d.vec(1), 20, 31, "|", bits[0], bits[1]}));
+    int o2 = links ? d.add(json::array({o1, bits[2], 38})) : d.add(json::array({"binary", d.vec(1), 20, 38, "|", o1, bits[2]}));
+    int o3 = links ? d.add(json::array({o2, bits[3], 45})) : d.add(json::array({"binary", d.vec(1), 20, 45, "|", o2, bits[3]}));
+    d.assignMember(y, o3, 2, {"a"}, {"y"});
+    json j = d.build();
+    if (links) j["version"] = 4;
+    return j;
+}
+
+} // namespace
+
+TEST(FrontendDescription, LinksAreTheBinaryNodesTheyStandFor) {
+    auto v3 = parseDescription(orChain(false));
+    auto v4 = parseDescription(orChain(true));
+    ASSERT_EQ(v3.ir.exprs.size(), v4.ir.exprs.size());
+    for (std::size_t i = 0; i < v3.ir.exprs.size(); ++i) {
+        const auto &x = v3.ir.exprs[i], &y = v4.ir.exprs[i];
+        EXPECT_EQ(static_cast<int>(x.kind), static_cast<int>(y.kind)) << i;
+        EXPECT_EQ(x.op, y.op) << i;
+        EXPECT_EQ(x.type, y.type) << i;
+        EXPECT_EQ(x.width, y.width) << i;
+        EXPECT_EQ(x.start, y.start) << i;
+        EXPECT_EQ(x.end, y.end) << i;
+        EXPECT_EQ(x.a, y.a) << i;
+        EXPECT_EQ(x.b, y.b) << i;
+    }
+    const auto& top = v4.ir.expr(v4.members.at(0).rhs);
+    EXPECT_EQ(top.kind, ExprKind::Binary);
+    EXPECT_EQ(top.binaryOp(), kerf::frontend::BinaryOp::Or);
+    EXPECT_EQ(top.start, 20u);
+    EXPECT_EQ(top.end, 45u);
+    // y is a[0] | a[1] | a[2] | a[3]: 1 exactly when a bit of a is (evaluated on the lowering)
+    auto low = kerf::frontend::lower(v4);
+    for (int a = 0; a < 16; ++a) {
+        std::map<std::string, bool> in;
+        for (int k = 0; k < 4; ++k) in[fmt::format("a[{}]", k)] = (a >> k) & 1;
+        EXPECT_EQ(kerf::test::evalOutput(low.net, "y", in), a != 0) << a;
+    }
+}
+
+TEST(FrontendDescription, RejectsMalformedLinks) {
+    json d = orChain(true);
+    d["version"] = 3;   // version 3 has no links
+    EXPECT_NE(internalError(d.dump()).find("no links"), std::string::npos);
+    d = orChain(true);
+    // nodes: a 0, its selects 2 4 6 8, y 9, the ORs 10 11 12 (11 and 12 links)
+    d["exprs"][11] = json::array({11, 6, 38});   // continues itself
+    EXPECT_NE(internalError(d.dump()).find("does not precede"), std::string::npos);
+    d = orChain(true);
+    d["exprs"][11] = json::array({0, 6, 38});    // continues a ref, not a binary node
+    EXPECT_NE(internalError(d.dump()).find("not a binary node"), std::string::npos);
+    d = orChain(true);
+    d["exprs"][11] = json::array({10, 6, 3});    // ends before the chain starts
+    EXPECT_NE(internalError(d.dump()).find("ends before"), std::string::npos);
+    d = orChain(true);
+    d["exprs"][11] = json::array({10, 6});       // a field short
+    EXPECT_NE(internalError(d.dump()).find("expected 3"), std::string::npos);
+}
+
 TEST(FrontendDescription, RejectsTruncatedText) {
     std::string t = simple().dump();
     EXPECT_NE(internalError(t.substr(0, t.size() / 2)).find("not valid JSON"), std::string::npos);
