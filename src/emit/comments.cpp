@@ -6,7 +6,8 @@
 // that a change never deletes the author's comments. The reader lists each member's comments
 // (docs/reader-format.md, `comments.inside`); the rules here put every one of them back:
 //  - a comment on the line of an assignment, inside it, or directly above it (only blank space
-//    and other comments between) describes that assignment: it goes above the new assignment
+//    and other comments between) describes that assignment (unless a case label or an `if`
+//    starts that line: then it names that choice and goes into the note below): it goes above the new assignment
 //    of the same signal (`assign` and net declarations: above the new statement, or inside
 //    the declaration as a block comment);
 //  - any other (a case item's label, a comment above an `if`, a local variable's assignment,
@@ -160,9 +161,15 @@ std::string carryComments(const frontend::ModuleDesc& m, const std::string& src,
             if (mb->kind == frontend::MemberKind::Assign) {
                 c.signal = spans.empty() ? "" : spans.front().signal;
             } else if (!ownLine) {
-                // On the line of an assignment: inside it, or after its end on that line.
-                for (const auto& s : spans)
-                    if ((s.start <= a && a < s.end) || (s.end <= a && lineBegin(src, s.end) == ls)) c.signal = s.signal;
+                // On the line of an assignment: inside it, or after its end on that line. An
+                // assignment that shares its first line with a case item's label or an `if`
+                // (`default: seg = 7'h47;  // F`) is one choice of several: the comment names
+                // that choice, so it goes into the note with its code (F321).
+                for (const auto& s : spans) {
+                    if (!((s.start <= a && a < s.end) || (s.end <= a && lineBegin(src, s.end) == ls))) continue;
+                    std::size_t sl = lineBegin(src, s.start);
+                    c.signal = trimmed(src.substr(sl, s.start - sl)).empty() ? s.signal : "";
+                }
             } else {
                 // Directly above an assignment: only blank space and comments between.
                 std::size_t p = b, q = k + 1;

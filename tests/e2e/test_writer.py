@@ -1550,7 +1550,7 @@ COMMENTED = """module tmr_ctl (
                | (armed & en & ~cnt[3] & ~cnt[2]); // bottom
   always_comb begin
     load_o = 1'b0;
-    sel_o  = 2'b00;
+    sel_o  = 2'b00;  /* none */
     case (mode)
       2'b00: begin   // idle
         load_o = 1'b0;
@@ -1564,7 +1564,7 @@ COMMENTED = """module tmr_ctl (
         load_o = en & armed & cnt[3];
         sel_o  = {en & armed, 1'b0};
       end
-      default: ;     /* reserved */
+      default: load_o = en & cnt[1];  // test mode
     endcase
     // hold the selector while disarmed
     if (!armed) sel_o = 2'b00;
@@ -1580,8 +1580,8 @@ def _comments_of(text):
 @S.case("comments_carried", needs=("iverilog", "verilator"))
 def _(t):
     """Issue 10: no comment of a replaced statement is deleted; one on or above an assignment
-    goes above the new assignment of that signal, a case item's label into a note with its
-    code. Checked on the text's comments (any layout of the logic is right) and for function."""
+    goes above the new assignment of that signal, a case item's label (also one on the line of
+    the item's assignment, F321) into a note with its code. Checked on the text's comments (any layout of the logic is right) and for function."""
     for eol, what in (("\n", "LF"), ("\r\n", "CR LF")):
         d = os.path.join(t.work, what.replace(" ", ""))
         os.makedirs(d)
@@ -1619,7 +1619,8 @@ def _(t):
         t.res.check(above("irq_o", "// top of the count"), "a comment beside a term of irq_o is above its assignment")
         t.res.check(above("irq_o", "// irq when armed"), "the comment above irq_o's assign still is")
         t.res.check(above("load_o", "// reload at the top"), "a comment above load_o's assignment goes with it")
-        for label, c in (("2'b00", "// idle"), ("2'b01", "// one-shot"), ("2'b10", "// periodic")):
+        for label, c in (("2'b00", "// idle"), ("2'b01", "// one-shot"), ("2'b10", "// periodic"),
+                         ("default: load_o", "// test mode")):
             t.res.check(any(label in l and c in l and l.strip().startswith("//") for l in lines),
                         f"the case label comment {c} is kept in a note with its label {label}")
         t.res.check(any("if (!armed)" in l and "// hold the selector" in l and l.strip().startswith("//")
