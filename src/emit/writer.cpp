@@ -1975,6 +1975,40 @@ void Writer::decide() {
                     break;
                 }
         }
+        // A signal the rewrite finds constant (`assign w0 = 2'b00;`, was `assign w0 = &m1[1];`)
+        // that code kept as written reads: Verilator then sees that code's comparisons of it as
+        // constant (UNSIGNED, CMPCONST), warnings the input did not draw, and a team whose lint
+        // is clean would have to explain them in a file kerf only made smaller. The statement
+        // stays as written (F169, F184, F323).
+        if (G.replaced) {
+            std::map<std::string, bool> allConstant;   // signal -> every bit the group writes is constant
+            for (std::size_t i : outsOf[g]) {
+                if (outs_[i].generated) continue;
+                // Constant as written too (`assign w = 2'b00;`): lint saw the same already.
+                if (byId_.at(outs_[i].stmt)->reads.empty()) continue;
+                bool c = literalVar(net_.outputs()[i].driver) == 0;
+                auto [it, fresh] = allConstant.emplace(outs_[i].bit.signal, c);
+                if (!fresh) it->second = it->second && c;
+            }
+            for (const auto& [sig, constant] : allConstant) {
+                if (!constant) continue;
+                const frontend::KeptStatement* reader = nullptr;
+                for (const auto& k : low_.kept) {
+                    if (k.member < 0) continue;
+                    for (const auto& mem : m_.members)
+                        if (mem.id == k.member &&
+                            std::find(mem.reads.begin(), mem.reads.end(), sig) != mem.reads.end())
+                            reader = &k;
+                    if (reader) break;
+                }
+                if (!reader) continue;
+                G.replaced = false;
+                G.reason = fmt::format("its rewrite would make '{}' a constant, and code kept as written reads it "
+                                       "(line {}): lint would then find that code's comparisons constant",
+                                       sig, reader->loc.line);
+                break;
+            }
+        }
         // A loop variable declared in the module (`integer p;` for `for (p = 0; ...)`) that only
         // the replaced block uses would be left declared and unused (Verilator UNUSEDSIGNAL), and
         // its declaration is never deleted: the block stays as written.
