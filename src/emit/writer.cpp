@@ -2824,6 +2824,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
         std::string unit = ind.find('\t') != std::string::npos ? "\t" : "  ";
         std::string style = mem->style.empty() ? "always_comb" : mem->style;
         std::string out = style == "always_comb" ? "always_comb begin" : "always @(*) begin";
+        if (!mem->label.empty()) out += " : " + mem->label;   // scopes and waveforms name it
         for (const auto& a : ordered) {
             if (a.choice && enumTyped(a.signal)) {
                 // An enum target chooses by if/else: a ?: of enum values is valid SystemVerilog
@@ -2844,7 +2845,7 @@ std::string Writer::statementsFor(int stmt, const std::string& ind, std::set<std
             }
             out += "\n" + ind + unit + wrapped(a, statement(ind + unit, a.lhs + " = " + a.prefix, a.rhs));
         }
-        out += "\n" + ind + "end";
+        out += "\n" + ind + "end" + (mem->endLabel && !mem->label.empty() ? " : " + mem->label : "");
         return out;
     }
     if (mem->netDecl) {

@@ -942,6 +942,10 @@ void DescriptionBuilder::parseMembers(const json& root) {
             if (mem.lhs >= m.ir.exprs.size() || mem.rhs >= m.ir.exprs.size()) invalid(where + " names an unknown expression");
         } else if (mem.kind == MemberKind::Comb) {
             mem.style = str(mj, "style", where);
+            if (mj.contains("label")) {
+                mem.label = str(mj, "label", where);
+                mem.endLabel = mj.contains("end_label");
+            }
             mem.body = asIndex(field(mj, "body", where), where + " body");
             if (mem.body >= m.ir.stmts.size()) invalid(where + " names an unknown statement");
             mem.locals = parseLocals(mj, where, [&](Symbol& y) { y.member = static_cast<int>(i); });

@@ -1323,6 +1323,25 @@ class Describer:
         return any(ev.kind == ast.TimingControlKind.SignalEvent and ev.edge != ast.EdgeKind.None_
                    for ev in events)
 
+    @staticmethod
+    def named_block_variable(stmt):
+        """(block, variable) of the first variable declared in a named block of a procedural
+        body (`begin : p_class logic [3:0] grp; ...`), or None."""
+        found = []
+
+        def visit(n):
+            if found:
+                return False
+            if isinstance(n, ast.Statement) and n.kind == STK.Block and n.blockSymbol is not None \
+                    and n.blockSymbol.name:
+                for x in n.blockSymbol:
+                    if x.kind == ast.SymbolKind.Variable:
+                        found.append((n.blockSymbol.name, x.name))
+                        return False
+            return True
+        stmt.visit(visit)
+        return found[0] if found else None
+
     def procedural_member(self, sym):
         syn = self.member_syntax(sym)
         src, why = self.member_src(syn)
@@ -1356,6 +1375,14 @@ class Describer:
         else:
             what, why = "final", "it is a final block"
         if style is not None and why is None:
+            named = self.named_block_variable(stmt)
+            if named is not None:
+                # A variable of a named block is reachable by name from a testbench or a
+                # waveform (`dut.p_class.grp`, IEEE 1800-2017 23.6); a rewrite would delete its
+                # declaration, which kerf never does (F324).
+                why = ("it declares '%s' in its named block '%s', where testbenches and waveforms "
+                       "reach it by name" % (named[1], named[0]))
+        if style is not None and why is None:
             c = self.start_conv(syn)
             try:
                 b = c.stmt_or_empty(stmt)
@@ -1384,6 +1411,12 @@ class Describer:
                                       % sorted(c.reads - listed)[0])
                 m = {"kind": "comb", "src": src, "style": style, "locals": c.local_list, "body": b,
                      "reads": sorted(c.reads), "writes": sorted(c.writes), "comments": self.member_comments(syn)}
+                # The block's label (`begin : p_decode`), which a rewrite keeps: scopes in
+                # waveforms, coverage exclusions and `disable` name it.
+                if stmt.kind == STK.Block and stmt.blockSymbol is not None and stmt.blockSymbol.name:
+                    m["label"] = stmt.blockSymbol.name
+                    if getattr(stmt.syntax, "endBlockName", None) is not None:
+                        m["end_label"] = True
                 if c.localized:
                     m["_localized"] = set(c.localized)
                     m["_symbol"] = sym

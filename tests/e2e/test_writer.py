@@ -1676,6 +1676,52 @@ def _(t):
                 f"z is not written through y: {z.group(0) if z else text}")
 
 
+# An invented fan controller: one labelled block kerf restructures, one whose named block
+# declares a variable (reachable by name from a testbench or waveform: `fan_ctl.p_lvl.hot`).
+LABELLED = """module fan_ctl (
+  input  logic [3:0] temp,
+  input  logic       manual,
+  input  logic       boost,
+  output logic       fan_on,
+  output logic       fan_hi,
+  output logic [1:0] lvl
+);
+  always_comb begin : p_fan
+    fan_on = (temp[3] & manual) | (temp[3] & boost) | (temp[3] & temp[2]);
+    fan_hi = (temp[2] & manual) | (temp[2] & boost) | (temp[2] & temp[1]);
+  end : p_fan
+  always @(*) begin : p_lvl
+    reg hot;
+    hot = (temp[3] & temp[2]) | (temp[3] & temp[1]);
+    lvl = {hot, (temp[3] & temp[0]) | (temp[3] & temp[1])};
+  end
+endmodule
+"""
+
+
+@S.case("block_labels_kept", needs=("iverilog",))
+def _(t):
+    """F324: a rewritten block keeps its label (`begin : p_fan` ... `end : p_fan`): waveform
+    scopes, coverage exclusions and `disable` name it (common trade practice). A block whose
+    named block declares a variable is kept byte for byte with that reason: a testbench can
+    reach the variable by name (IEEE 1800-2017 23.6), and kerf never deletes a declaration."""
+    path = os.path.join(t.work, "fan_ctl.sv")
+    open(path, "w").write(LABELLED)
+    out = os.path.join(t.work, "out.sv")
+    r = restructure(t, [path], "fan_ctl", out, "--min-gain", "0")
+    if not t.res.check(r.returncode == 0, f"restructure: {r.stderr[-1500:]}"):
+        return
+    text = open(out).read()
+    t.res.check(text != LABELLED, "the labelled block is rewritten")
+    t.res.check(re.search(r"always_comb begin : p_fan\n", text) is not None, "its label stays after begin")
+    t.res.check(re.search(r"\n\s*end : p_fan\n", text) is not None, "and after end, as the source had it")
+    kept = LABELLED[LABELLED.index("  always @(*) begin : p_lvl"):LABELLED.index("endmodule")]
+    t.res.check(kept in text, "the block whose named block declares a variable is kept byte for byte")
+    t.res.check("'hot'" in r.stderr and "p_lvl" in r.stderr, f"the summary says why: {r.stderr[-600:]}")
+    ok, log = _simulate_module(t, LABELLED, text, path, "fan_ctl", ["fan_ctl"])
+    t.res.check(ok, f"the rewrite simulates like the source (Icarus Verilog): {log}")
+
+
 # An invented packet merger: bits of neighbouring struct fields (`valid` beside `tag[3]`).
 PACKETS = """module pkt_merge (
   input  logic [3:0][4:0] raw,

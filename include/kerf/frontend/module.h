@@ -86,6 +86,8 @@ struct Member {
     StmtId body = kNoId;
     std::vector<SymbolId> locals;
     std::string style;         ///< comb: "always_comb" or "always_star"
+    std::string label;         ///< comb: the block's label (`begin : p_decode`), "" when none
+    bool endLabel = false;     ///< comb: the label is repeated after `end` (`end : p_decode`)
     MemberComments comments;
     /// Kept members: bits written, per signal, as inclusive offset ranges from the
     /// least significant bit, where slang knows them statically. A written signal
