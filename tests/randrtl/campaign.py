@@ -194,6 +194,10 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
                     # still compared, so a wrong rewrite is not hidden behind it.
                     declared = declared_names(new_text)
                     lost = [s["name"] for s in desc["internals"] if s["name"] not in declared]
+                    # A block's label names a scope (waveforms, coverage, `disable`): a rewritten
+                    # block keeps it (F324).
+                    lost += ["the block label " + lb for lb in re.findall(r"\bbegin\s*:\s*(\w+)", text)
+                             if not re.search(r"\bbegin\s*:\s*" + lb + r"\b", new_text)]
                     sim_desc = dict(desc, internals=[s for s in desc["internals"] if s["name"] in declared])
                     ref = os.path.join(sim_dir, name + "_ref.sv")
                     new = os.path.join(sim_dir, name + "_new.sv")

@@ -40,6 +40,7 @@ FEATURES = {
     "arith": "word arithmetic kept by kerf (+, -, *)",
     "compare": "comparisons between signals and against constants",
     "concat": "concatenation and replication",
+    "label": "named always blocks (`begin : p_blk3`)",
     "reduce": "reduction operators",
     "function": "function automatic with a loop",
     "param": "module parameters used by the logic (simulated with an override too)",
@@ -531,11 +532,16 @@ class ModuleGen:
         return out
 
     def block_head(self):
-        """`always_comb begin`, or its Verilog-2001 spelling `always @* begin`."""
+        """`always_comb begin`, or its Verilog-2001 spelling `always @* begin`; with "label" some
+        blocks are named (`begin : p_blk3`), which a rewrite must keep (F324)."""
+        label = ""
+        if self.on("label", 0.3):
+            self.use("label")
+            label = " : " + self.fresh("p_blk")
         if self.on("alwaysstar", 0.4):
             self.use("alwaysstar")
-            return "  always @* begin"
-        return "  always_comb begin"
+            return "  always @* begin" + label
+        return "  always_comb begin" + label
 
     def package(self):
         """A package with two constants, a function over one of them and (if enums are on) room for
