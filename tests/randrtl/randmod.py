@@ -130,6 +130,8 @@ class ModuleGen:
         self.params = []            # (name, default value, override value)
         self.localparams = []
         self.counter = 0
+        self.label_rng = random.Random(f"kerf-randmod-{seed}-{index}-label-draws")
+        self.labels = 0
         self.loop_var = None        # (name, bound) inside a generated for loop
         self.pkg = f"{self.name}_pkg"
         self.pkg_consts = []        # (name, width) of the package's constants, once it has some
@@ -535,9 +537,12 @@ class ModuleGen:
         """`always_comb begin`, or its Verilog-2001 spelling `always @* begin`; with "label" some
         blocks are named (`begin : p_blk3`), which a rewrite must keep (F324)."""
         label = ""
-        if self.on("label", 0.3):
+        # Draws and numbers of their own: labels leave every other draw of a seed as it was, so
+        # the modules of earlier campaigns (and their findings' commands) stay the same.
+        if "label" in self.f and self.label_rng.random() < 0.3:
             self.use("label")
-            label = " : " + self.fresh("p_blk")
+            self.labels += 1
+            label = f" : p_blk{self.labels}"
         if self.on("alwaysstar", 0.4):
             self.use("alwaysstar")
             return "  always @* begin" + label
