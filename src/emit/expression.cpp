@@ -942,8 +942,11 @@ std::vector<std::string> layoutLines(const PExpr& e, std::size_t col, std::size_
 
 /// Structural equality of two expressions with their references abstracted:
 /// collects, per reference position, the references of every bit.
+/// A reference may differ in polarity (`w[2]` beside `~w[3]`): vectorTemplate writes such a
+/// column as the slice and a constant mask, `(w[3:2] ^ 2'b10)`, or gives up.
 bool sameShape(const PExpr& a, const PExpr& b) {
-    if (a.kind != b.kind || a.neg != b.neg || a.kids.size() != b.kids.size()) return false;
+    if (a.kind != b.kind || a.kids.size() != b.kids.size()) return false;
+    if (a.neg != b.neg && a.kind != PExpr::Kind::Ref) return false;
     if (a.kind == PExpr::Kind::Compare && a.text != b.text) return false;
     for (std::size_t i = 0; i < a.kids.size(); ++i)
         if (!sameShape(a.kids[i], b.kids[i])) return false;
@@ -956,12 +959,38 @@ void collectRefs(const PExpr& e, bool inSelect, std::vector<std::pair<const PExp
         collectRefs(e.kids[i], inSelect || (e.kind == PExpr::Kind::Mux && i == 0), out);
 }
 
-void replaceRefs(PExpr& e, const std::vector<std::string>& texts, std::size_t& i) {
+/// `plain[i]`: the i-th reference's text carries its polarity (a mask): printed without `~`.
+void replaceRefs(PExpr& e, const std::vector<std::string>& texts, const std::vector<bool>& plain, std::size_t& i) {
     if (e.kind == PExpr::Kind::Ref) {
+        if (plain[i]) e.neg = false;
         e.text = texts[i++];
         e.ref = nullptr;
     }
-    for (auto& k : e.kids) replaceRefs(k, texts, i);
+    for (auto& k : e.kids) replaceRefs(k, texts, plain, i);
+}
+
+/// The mask of a slice read in mixed polarity: bit i set where bit i is read complemented
+/// (`negLsbFirst`); binary up to 8 bits, else hex with `_` every four digits.
+std::string maskText(const std::vector<bool>& negLsbFirst) {
+    const int n = static_cast<int>(negLsbFirst.size());
+    if (n <= 8) {
+        std::string bin;
+        for (int i = n - 1; i >= 0; --i) bin += negLsbFirst[static_cast<std::size_t>(i)] ? '1' : '0';
+        return fmt::format("{}'b{}", n, bin);
+    }
+    std::string digits;   // least significant first
+    for (int i = 0; i < n; i += 4) {
+        int v = 0;
+        for (int j = std::min(n - 1, i + 3); j >= i; --j) v = v * 2 + (negLsbFirst[static_cast<std::size_t>(j)] ? 1 : 0);
+        digits += "0123456789abcdef"[v];
+    }
+    while (digits.size() > 1 && digits.back() == '0') digits.pop_back();
+    std::string hex;
+    for (std::size_t i = digits.size(); i-- > 0;) {
+        hex += digits[i];
+        if (i && i % 4 == 0 && digits.size() > 4) hex += '_';
+    }
+    return fmt::format("{}'h{}", n, hex);
 }
 
 } // namespace
@@ -982,19 +1011,83 @@ std::string layoutText(const PExpr& e, std::size_t col, std::size_t limit, std::
     return s;
 }
 
+namespace {
+
+/// A run whose bits are each `x[i] | t` or `x[i] & ~t` (the choice `t ? K[i] : x[i]` with a
+/// constant arm) as one choice `t ? K : x[hi:lo]` (F288: `s ? 64'hdead_beef_0123_4567 : w`,
+/// which the bits' differing operators keep from one template). Only runs mixing both shapes:
+/// a run of one shape has its plain template.
+std::optional<PExpr> constantChoice(std::span<const PExpr> bits) {
+    auto two = [](const PExpr& b) {
+        return !b.neg && (b.kind == PExpr::Kind::And || b.kind == PExpr::Kind::Or) && b.kids.size() == 2 &&
+               b.kids[0].kind == PExpr::Kind::Ref && b.kids[1].kind == PExpr::Kind::Ref;
+    };
+    for (const auto& b : bits)
+        if (!two(b)) return std::nullopt;
+    for (std::size_t j = 0; j < 2; ++j) {   // which operand of the first bit is the select
+        const PExpr& sel0 = bits[0].kids[j];
+        // The select as the OR bits read it: `t ? 1 : x` is `x | t`, `t ? 0 : x` is `x & ~t`.
+        const bool tNeg = bits[0].kind == PExpr::Kind::Or ? sel0.neg : !sel0.neg;
+        std::vector<PExpr> data;
+        std::vector<bool> ones;
+        bool ok = true, sawOr = false, sawAnd = false;
+        for (const auto& b : bits) {
+            int at = b.kids[0].text == sel0.text ? 0 : b.kids[1].text == sel0.text ? 1 : -1;
+            if (at < 0 || b.kids[1 - at].text == sel0.text) { ok = false; break; }
+            const bool isOr = b.kind == PExpr::Kind::Or;
+            if (b.kids[at].neg != (isOr ? tNeg : !tNeg)) { ok = false; break; }
+            (isOr ? sawOr : sawAnd) = true;
+            ones.push_back(isOr);
+            data.push_back(b.kids[1 - at]);
+        }
+        if (!ok || !sawOr || !sawAnd) continue;
+        std::optional<PExpr> x = vectorTemplate(data);
+        if (!x) continue;
+        PExpr sel = sel0;
+        sel.neg = false;
+        PExpr k;
+        k.kind = PExpr::Kind::Ref;
+        // `~s ? K : x` reads as `s ? x : K`.
+        std::vector<bool> kbits = ones;
+        k.text = maskText(kbits);
+        PExpr m;
+        m.kind = PExpr::Kind::Mux;
+        m.kids.push_back(std::move(sel));
+        if (tNeg) {
+            m.kids.push_back(std::move(*x));
+            m.kids.push_back(std::move(k));
+        } else {
+            m.kids.push_back(std::move(k));
+            m.kids.push_back(std::move(*x));
+        }
+        return m;
+    }
+    return std::nullopt;
+}
+
+} // namespace
+
 std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits) {
     if (bits.size() < 2) return std::nullopt;
     for (std::size_t i = 1; i < bits.size(); ++i)
-        if (!sameShape(bits[0], bits[i])) return std::nullopt;
+        if (!sameShape(bits[0], bits[i])) return constantChoice(bits);
     std::vector<std::vector<std::pair<const PExpr*, bool>>> refs(bits.size());
     for (std::size_t i = 0; i < bits.size(); ++i) collectRefs(bits[i], false, refs[i]);
     const int n = static_cast<int>(bits.size());
     std::vector<std::string> texts;
+    std::vector<bool> plain;
     for (std::size_t pos = 0; pos < refs[0].size(); ++pos) {
         const PExpr* r0 = refs[0][pos].first;
         bool select = refs[0][pos].second;
-        bool same = true;
-        for (std::size_t i = 1; i < bits.size(); ++i) same = same && refs[i][pos].first->text == r0->text;
+        bool same = true, mixed = false;
+        for (std::size_t i = 1; i < bits.size(); ++i) {
+            same = same && refs[i][pos].first->text == r0->text;
+            mixed = mixed || refs[i][pos].first->neg != r0->neg;
+        }
+        // Mixed polarity only on consecutive bits of a vector outside a select (F288: `w ^ MAGIC`
+        // read bit by bit as `w[i]` or `~w[i]` as MAGIC's bit says).
+        if (mixed && (same || select)) return std::nullopt;
+        plain.push_back(mixed);
         if (same) {
             // A choice keeps one scalar select; operands widen by replication.
             texts.push_back(select ? r0->text : fmt::format("{{{}{{{}}}}}", n, r0->text));
@@ -1007,7 +1100,13 @@ std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits) {
             if (!ri || ri->signal != r0->ref->signal || ri->offset != r0->ref->offset + static_cast<int>(i))
                 return std::nullopt;
         }
-        texts.push_back(sliceText(*r0->ref, r0->ref->offset, r0->ref->offset + n - 1));
+        std::string slice = sliceText(*r0->ref, r0->ref->offset, r0->ref->offset + n - 1);
+        if (mixed) {
+            std::vector<bool> mask(bits.size());
+            for (std::size_t i = 0; i < bits.size(); ++i) mask[i] = refs[i][pos].first->neg;
+            slice = fmt::format("({} ^ {})", slice, maskText(mask));
+        }
+        texts.push_back(std::move(slice));
     }
     bool varies = false;
     for (std::size_t pos = 0; pos < refs[0].size(); ++pos)
@@ -1017,7 +1116,7 @@ std::optional<PExpr> vectorTemplate(std::span<const PExpr> bits) {
     if (bits[0].atomic() && bits[0].kind != PExpr::Kind::Ref) return std::nullopt;
     PExpr t = bits[0];
     std::size_t i = 0;
-    replaceRefs(t, texts, i);
+    replaceRefs(t, texts, plain, i);
     // Constant leaves inside widen too.
     std::vector<PExpr*> stack{&t};
     bool constants = false;
