@@ -83,7 +83,8 @@ int main(int argc, char** argv) {
                    "or this percentage with a % sign (default 2)");
     rs->add_option("--text-per-gate", ro.textPerGate,
                    "with a positive --min-gain, keep as written a group whose rewrite is over twice its text and "
-                   "adds more than this many characters per gate saved (default 40; 0: off)");
+                   "adds more than this many characters per gate saved, or that chooses among bitwise "
+                   "word operations (default 40; 0: both off)");
     rs->add_flag("--diff", ro.diff, "print a unified diff of the file against the rewrite instead of writing");
     rs->add_flag("--all-modules", ro.allModules,
                  "every module declared in the files, each proved on its own, one summary line each "

@@ -29,6 +29,7 @@
 #include "named_values.h"
 #include "reductions.h"
 #include "wire_vectors.h"
+#include "word_choice.h"
 #include "kerf/frontend/references.h"
 #include "kerf/io/files.h"
 
@@ -2076,7 +2077,21 @@ bool Writer::textHeavy() {
         if (groupPos_[g] != std::string::npos) after += solid(wireBlock(static_cast<int>(g), ""));
         for (int s : groupStmts_[g]) after += solid(statementsFor(s, "", nullptr));
         const std::size_t saved = G.gatesBefore - G.gatesAfter;
-        if (before == 0 || after <= 2 * before || after - before <= opts_.maxTextPerGate * saved) continue;
+        if (before == 0 || after <= 2 * before) continue;
+        if (after - before <= opts_.maxTextPerGate * saved) {
+            // A choice among bitwise word operations (word_choice.h) stays a choice: kept at any
+            // saving.
+            std::string choice;
+            for (int s : groupStmts_[g])
+                for (int mid : membersOfStmt_.at(s))
+                    if (choice.empty()) choice = wordChoiceTarget(m_, *byId_.at(mid));
+            if (choice.empty()) continue;
+            const std::string why = fmt::format(
+                "it chooses '{}' among bitwise word operations, and its rewrite is more than twice its "
+                "text ({} -> {} characters; docs/guide.md \"Text for gates\")", choice, before, after);
+            for (int s : groupStmts_[g]) more = textKept_.emplace(s, why).second || more;
+            continue;
+        }
         const std::string why = fmt::format(
             "{} ({} -> {} characters for {} gate{}, over {} characters a gate; "
             "docs/guide.md \"Text for gates\")", kLongText,

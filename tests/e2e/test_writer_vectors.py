@@ -8,6 +8,15 @@ its exact strings:
   one per bit), and no family of scalar wires named by bit index is declared;
 - F182 (tests/rtl/sbox_parity.sv): `odd = ^sub` after `sub` is written in the same block comes
   back as the reduction of the whole vector, not as an exclusive or of its bits.
+- F288 (tests/rtl/wide_word_mux.sv, under --min-gain 0 where every saving is taken): a
+  100-bit choice whose bits read `w[i]` or `~w[i]` as a constant's bit says, and a 64-bit
+  choice of a constant or `w`, are written in a few vector statements, not one per run of bits;
+- F307 (tests/rtl/alu_enum_ops.sv, default options): a statement the source writes as a
+  choice with three or more bitwise operations on vectors among its arms (an ALU's `case` over
+  `a & b`, `a | b`, `a ^ b`, sums and shifts) is kept as written when its rewrite is more than
+  twice its text, and `--text-per-gate 0` turns the rule off (the statement is then rewritten:
+  the rule, not a lack of saving, kept it); a choice among shifts (tests/rtl/shift_mode_mux.sv)
+  or with two bitwise arms (tests/rtl/onehot_bus_mux.sv) is still rewritten.
 Every case is also checked by outside references: Icarus Verilog (simulator: the written file
 behaves like the original on every input), Verilator (`--lint-only -Wall`: no warning the
 original did not have), and kerf on its own output changes nothing.
@@ -107,6 +116,78 @@ def _(t):
         t.res.check(re.fullmatch(r"\s*\^\s*sub\s*", value) is not None and "sub[" not in value,
                     f"odd is written as the reduction ^sub of the whole vector (F182): `{value.strip()}`")
     outside_checks(t, src, "sbox_parity", out)
+
+
+def widths(targets, signal, full):
+    """Bits written by each target (`y`, `y[34:0]`, `y[3]`) of `signal` declared `full` wide."""
+    out = []
+    for t in targets:
+        m = re.fullmatch(re.escape(signal) + r"(?:\[(\d+)(?::(\d+))?\])?", t)
+        if not m:
+            out.append(0)
+        elif m.group(1) is None:
+            out.append(full)
+        else:
+            out.append(int(m.group(1)) - int(m.group(2) if m.group(2) is not None else m.group(1)) + 1)
+    return out
+
+
+@S.case("wide_choice_vectors", needs=("iverilog", "verilator"))
+def _(t):
+    src = rtl(t, "wide_word_mux.sv")
+    out = os.path.join(t.work, "wide_word_mux.sv")
+    r = restructure(t, src, "wide_word_mux", out, "--min-gain", "0")
+    if not t.res.check(r.returncode == 0, f"restructure exit {r.returncode} (proved): {r.stderr[-2000:]}"):
+        return
+    text = open(out).read()
+    for sig, full, most in (("y", 100, 4), ("z", 68, 2)):
+        a = [x[0] for x in assignments(text, sig)]
+        w = widths(a, sig, full)
+        t.res.check(sum(w) == full, f"{sig}: every bit written once: {a}")
+        # y: the rotation's wrap and the shift's end split it in three at most (common trade
+        # practice: one statement per run of bits of one shape); z: the constant choice and the
+        # four bits above it.
+        t.res.check(0 < len(a) <= most and min(w) >= 4,
+                    f"{sig} is written in at most {most} vector statements of 4 bits or more (F288): {a}")
+    outside_checks(t, src, "wide_word_mux", out)
+
+
+@S.case("word_choice_kept", needs=("verilator",))
+def _(t):
+    # Choices whose arms are not three bitwise operations are rewritten as before: a `?:` chain
+    # over three shifts and a byte swap (tests/rtl/shift_mode_mux.sv; shifts stay word
+    # operations, one term each) and a one-hot multiplexer with two bitwise arms
+    # (tests/rtl/onehot_bus_mux.sv, `qu`).
+    for name in ("shift_mode_mux", "onehot_bus_mux"):
+        src = rtl(t, name + ".sv")
+        out = os.path.join(t.work, name + ".sv")
+        r = restructure(t, src, name, out)
+        t.res.check(r.returncode == 0 and open(out).read() != open(src).read()
+                    and "bitwise word operations" not in r.stderr,
+                    f"{name}: rewritten, not kept by the rule: {r.stderr[-600:]}")
+    # The ALU over an enum (F191): the `unique case` block stays, byte for byte.
+    pkg = rtl(t, os.path.join("include", "alu_ops_pkg.sv"))
+    alu = rtl(t, "alu_enum_ops.sv")
+    aout = os.path.join(t.work, "alu_enum_ops.sv")
+    r = K.run([t.kerf, "restructure", pkg, alu, "--top", "alu_enum_ops", "-o", aout])
+    if not t.res.check(r.returncode == 0, f"alu: restructure exit {r.returncode} (proved): {r.stderr[-2000:]}"):
+        return
+    source = open(alu).read()
+    block = source[source.index("  always_comb"):source.index("  end\n") + 6]
+    t.res.check(block in open(aout).read(), "alu: the case over word results stays as written (F191, F307)")
+    ok0, w0, _ = O.lint([pkg, alu], "alu_enum_ops")
+    ok1, w1, raw = O.lint([pkg, aout], "alu_enum_ops")
+    added = O.new_warnings(w0, w1)
+    t.res.check(ok0 and ok1 and not added, f"alu: verilator --lint-only -Wall adds no warning (Verilator): {added}")
+    again = os.path.join(t.work, "alu_again.sv")
+    r = K.run([t.kerf, "restructure", pkg, aout, "--top", "alu_enum_ops", "-o", again])
+    t.res.check(r.returncode == 0 and open(again).read() == open(aout).read(),
+                f"alu: kerf on its own output changes nothing: {r.stderr[-600:]}")
+    # The package's `inside` is beyond Icarus: the corpus driver simulates this case (Verilator).
+    aoff = os.path.join(t.work, "alu_off.sv")
+    r = K.run([t.kerf, "restructure", pkg, alu, "--top", "alu_enum_ops", "-o", aoff, "--text-per-gate", "0"])
+    t.res.check(r.returncode == 0 and block not in open(aoff).read(),
+                "alu: with --text-per-gate 0 the block is rewritten (the rule kept it)")
 
 
 if __name__ == "__main__":
