@@ -8,10 +8,11 @@ a closing count. Since F235 (kerf runs itself on the text it is about to write a
 that run's rewrite) none is known; the corpus driver checks the same under its kind
 `idempotence` (tests/rtl/known-failures.txt, docs/findings.md F197).
 
-    tests/e2e/corpus_idempotence.py --kerf build/kerf --root . [--only SUBSTRING]
+    tests/e2e/corpus_idempotence.py --kerf build/kerf --root . [--only SUBSTRING] [--kerf-args "--min-gain 0"]
 """
 import argparse
 import os
+import shlex
 import subprocess
 import sys
 import tempfile
@@ -25,6 +26,8 @@ def main():
     ap.add_argument("--kerf", required=True)
     ap.add_argument("--root", default=".")
     ap.add_argument("--only", default="")
+    ap.add_argument("--kerf-args", default="",
+                    help="more restructure options for every run, e.g. '--min-gain 0'")
     a = ap.parse_args()
     kerf = os.path.abspath(a.kerf)
     passed = failed = 0
@@ -33,7 +36,7 @@ def main():
             if c.equiv_against or a.only not in c.name:
                 continue
             opts = ["--top", c.top] + ["--include=" + d for d in c.include_dirs] + \
-                   ["--define=" + d for d in c.define_sets[0]] + c.flag_sets[0]
+                   ["--define=" + d for d in c.define_sets[0]] + c.flag_sets[0] + shlex.split(a.kerf_args)
             ext = os.path.splitext(c.path)[1]
             out = [os.path.join(work, f"{c.name}.{k}{ext}") for k in ("1", "1b", "2")]
 
