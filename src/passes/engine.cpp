@@ -372,6 +372,13 @@ std::vector<net::NodeId> changedNodes(const net::Network& a, const net::Network&
     return out;
 }
 
+std::size_t cubeCount(const net::Network& n) {
+    std::size_t total = 0;
+    for (net::NodeId v = 0; v < n.nodeCount(); ++v)
+        if (n.isLogic(v)) total += n.node(v).cover.cubes.size();
+    return total;
+}
+
 double gatesOfNodesUpTo(const net::Network& n, std::size_t maxCubes) {
     double g = 0;
     for (net::NodeId v = 0; v < n.nodeCount(); ++v) {
@@ -418,7 +425,13 @@ public:
                 o.method = ShareDivisorsOptions::Method::Kernels;
                 shareDivisors(n, o, c);
             });
-        add("extract-cubes", [L](net::Network& n, PassContext& c) { shareCubes(n, L.cubes, c); });
+        const int* passes = &openingPasses_;
+        add("extract-cubes", [L, passes](net::Network& n, PassContext& c) {
+            ShareCubesOptions o = L.cubes;
+            o.passes = *passes;   // > 1 only for the opening's one move over a kept table (F293)
+            o.passMinPermille = L.minGainPermille;
+            shareCubes(n, o, c);
+        });
         add("resubstitute", [L](net::Network& n, PassContext& c) { reuseNodes(n, L.reuse, c); });
         if (L.booleanResub.maxNodes > 0)
             add("resubstitute-boolean", [L](net::Network& n, PassContext& c) { resubstituteBoolean(n, L.booleanResub, c); });
@@ -523,8 +536,20 @@ private:
         // the engine's 66 CPU s, for an eighth of cube extraction's gain).
         std::stable_partition(takers.begin(), takers.end(), [](const Source* s) { return !s->ceiling; });
         auto rank = [&](const Source* s) { return s - sources.data(); };   // position in the list
+        // On a network large enough for cube extraction in place (limit
+        // cubes-in-place), the opening's cube extraction is one move: its
+        // passes over one kept cube table stand for the separate moves (each
+        // with its own work budget and rounds, while a pass saves at least
+        // the smallest gain kept), measured once (F293). Separate moves
+        // rebuilt the table of every cube, tidied the network and re-factored
+        // the 256 output covers of the 100k decoder each time (about a third
+        // of the opening's 18 CPU s).
+        const bool keptTable = opts_.limits.cubes.inPlaceCubes > 0 &&
+                               cubeCount(net) >= opts_.limits.cubes.inPlaceCubes;
+        long long passesMade = 0;
         for (int k = 0; k < opts_.limits.openingMoves && !takers.empty(); ++k) {
             Source* best = nullptr;
+            passesMade = 0;
             for (Source* s : takers) {
                 if (trials >= budget) break;
                 if (best && s->ceiling) {
@@ -538,16 +563,25 @@ private:
                     }
                 }
                 ++trials;
+                const bool kept = s->name == "extract-cubes" && keptTable;
+                openingPasses_ = kept ? opts_.limits.openingMoves - k : 1;
                 value(net, current, *s, version, true);
+                openingPasses_ = 1;
+                if (kept) passesMade = s->pendingStats.get("passes");
                 // The better gain; on a tie the technique listed first (as when valued in list order).
                 if (!best || s->estimate > best->estimate || (s->estimate == best->estimate && rank(s) < rank(best)))
                     best = s;
             }
             if (!best || best->estimate < minGain(current) || !best->pending) return;
             const std::size_t gatesBefore = current.gates;
+            const bool merged = best->name == "extract-cubes" && keptTable;
             apply(net, current, *best, true);
             ++version;
             readmitAfter(gatesBefore, current.gates, sources);
+            if (merged) {   // its passes were the opening's remaining moves
+                if (passesMade >= opts_.limits.openingMoves - k) limitHit("opening-moves");
+                return;
+            }
             // Only a technique that paid stays in the opening.
             takers.erase(std::remove_if(takers.begin(), takers.end(),
                                         [&](Source* s) { return s != best && s->estimate < minGain(current); }),
@@ -918,6 +952,7 @@ private:
     // baseMemoAt_ is the current version.
     MeasureMemo baseMemo_;
     long baseMemoAt_ = -1;
+    int openingPasses_ = 1;         // passes of the extract-cubes move being valued (see opening)
     long version_ = 0;              // the run's current version and gates (for dormant)
     std::size_t currentGates_ = 0;
 

@@ -16,6 +16,8 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <cstdio>
+#include <memory>
 #include <queue>
 #include <unordered_map>
 
@@ -452,120 +454,148 @@ bool holdersByPairs(std::size_t count, LitsOf litsOf, HoldingSize holdingSize,
 }
 
 void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
-    CubeTable table(net, ctx.depthCap);
+    auto tablePtr = std::make_unique<CubeTable>(net, ctx.depthCap);
     std::vector<std::uint32_t> sharedCount, seen;
     std::vector<std::size_t> cursor;   // per literal: where the cubes after the current one begin
     std::vector<Literal> common;
-    auto& cubes = table.cubes();
     long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, rejects = 0, pairRounds = 0;
-    bool exhausted = false, cut = false;
-    for (int round = 0; round < opts.rounds; ++round) {
-        if (round > 0) table.reindex();
-        // Candidate cubes: intersections of cube pairs sharing >= minLiterals
-        // literals (partners counted in a dense array, candidates found by
-        // their literals without building a key: this loop meets every cube).
-        std::unordered_map<std::vector<Literal>, std::size_t, LiteralsHash> candIndex;
-        std::vector<std::pair<Cube, long>> cand;   // cube, pairs giving it
-        sharedCount.assign(cubes.size(), 0);
-        cursor.assign(2 * net.nodeCount(), 0);
-        for (std::uint32_t i = 0; i < cubes.size(); ++i) {
-            const auto& c = cubes[i];
-            if (!c.live || c.lits.size() < opts.minLiterals || !ctx.inFocus(c.node)) continue;
-            seen.clear();
-            std::size_t scanned = 0;
-            for (Literal l : c.lits) {
-                const auto& o = table.holding(l);
-                std::size_t start = SIZE_MAX;
-                if (l < cursor.size()) start = cursor[l] = gallopAbove(o, cursor[l], i);
-                scanPartners(o, i, ctx.focus != nullptr, 4 * opts.partnersPerCube, scanned,
-                             [&](std::uint32_t j) { return ctx.inFocus(cubes[j].node); },
-                             [&](std::uint32_t j) { if (sharedCount[j]++ == 0) seen.push_back(j); }, start);
-            }
-            work += static_cast<long>(scanned);
-            std::size_t partners = 0;
-            for (std::uint32_t j : seen) {
-                const std::uint32_t n = sharedCount[j];
-                sharedCount[j] = 0;
-                if (n < opts.minLiterals || partners >= opts.partnersPerCube) continue;
-                ++partners;
-                const auto& d = cubes[j].lits;
-                common.clear();
-                std::set_intersection(c.lits.begin(), c.lits.end(), d.begin(), d.end(), std::back_inserter(common));
-                auto f = candIndex.find(common);
-                if (f != candIndex.end()) { ++cand[f->second].second; continue; }
-                candIndex.emplace(common, cand.size());
-                cand.push_back({Cube(common), 1});
-            }
+    bool exhausted = false, cut = false, anyExhausted = false;
+    long tableLits = 0;
+    for (const auto& r : tablePtr->cubes()) tableLits += static_cast<long>(r.lits.size());
+    int passesMade = 0;
+    for (int pass = 0; pass < std::max(1, opts.passes); ++pass) {
+        ++passesMade;
+        if (pass > 0) {
+            // The covers as the last pass left them, laid out again in
+            // topological order and re-timed, as a separate move would see
+            // them (the table's order decides which partners each cube meets).
+            tablePtr->writeBack();
+            tablePtr.reset();
+            tablePtr = std::make_unique<CubeTable>(net, ctx.depthCap);
+            work = 0;
+            exhausted = false;
         }
-        candIndex.clear();
-        candidates += static_cast<long>(cand.size());
-        std::vector<std::pair<long, Cube>> ranked;
-        ranked.reserve(cand.size());
-        for (auto& e : cand) ranked.push_back({candidateBound(e.first, e.second), std::move(e.first)});
-        cand.clear();
-        if (keepBest(ranked, opts.maxCandidates)) cut = true;
-        // Each candidate keeps the cubes holding it now.
-        using Item = std::pair<long, std::size_t>;
-        std::vector<Cube> list;
-        std::vector<std::vector<std::uint32_t>> holders;
-        std::priority_queue<Item> heap;
-        const bool byPairs =
-            opts.holdersByPairs &&
-            holdersByPairs(
-                cubes.size(),
-                [&](std::uint32_t id) -> const std::vector<Literal>* { return cubes[id].live ? &cubes[id].lits : nullptr; },
-                [&](Literal l) { return table.holding(l).size(); }, ranked, holders);
-        pairRounds += byPairs;
-        for (std::size_t k = 0; k < ranked.size(); ++k) {
-            Cube& I = ranked[k].second;
-            std::vector<std::uint32_t> acc;
-            if (byPairs) {
-                acc = std::move(holders[k]);
-            } else {   // index intersection
-                std::vector<const std::vector<std::uint32_t>*> lists;
-                for (Literal l : I.lits) lists.push_back(&table.holding(l));
-                acc = intersectLists(lists);
+        CubeTable& table = *tablePtr;
+        auto& cubes = table.cubes();
+        const long savedBefore = saved;
+        for (int round = 0; round < opts.rounds; ++round) {
+            if (round > 0) table.reindex();
+            // Candidate cubes: intersections of cube pairs sharing >= minLiterals
+            // literals (partners counted in a dense array, candidates found by
+            // their literals without building a key: this loop meets every cube).
+            std::unordered_map<std::vector<Literal>, std::size_t, LiteralsHash> candIndex;
+            std::vector<std::pair<Cube, long>> cand;   // cube, pairs giving it
+            sharedCount.assign(cubes.size(), 0);
+            cursor.assign(2 * net.nodeCount(), 0);
+            for (std::uint32_t i = 0; i < cubes.size(); ++i) {
+                const auto& c = cubes[i];
+                if (!c.live || c.lits.size() < opts.minLiterals || !ctx.inFocus(c.node)) continue;
+                seen.clear();
+                std::size_t scanned = 0;
+                for (Literal l : c.lits) {
+                    const auto& o = table.holding(l);
+                    std::size_t start = SIZE_MAX;
+                    if (l < cursor.size()) start = cursor[l] = gallopAbove(o, cursor[l], i);
+                    scanPartners(o, i, ctx.focus != nullptr, 4 * opts.partnersPerCube, scanned,
+                                 [&](std::uint32_t j) { return ctx.inFocus(cubes[j].node); },
+                                 [&](std::uint32_t j) { if (sharedCount[j]++ == 0) seen.push_back(j); }, start);
+                }
+                work += static_cast<long>(scanned);
+                std::size_t partners = 0;
+                for (std::uint32_t j : seen) {
+                    const std::uint32_t n = sharedCount[j];
+                    sharedCount[j] = 0;
+                    if (n < opts.minLiterals || partners >= opts.partnersPerCube) continue;
+                    ++partners;
+                    const auto& d = cubes[j].lits;
+                    common.clear();
+                    std::set_intersection(c.lits.begin(), c.lits.end(), d.begin(), d.end(), std::back_inserter(common));
+                    auto f = candIndex.find(common);
+                    if (f != candIndex.end()) { ++cand[f->second].second; continue; }
+                    candIndex.emplace(common, cand.size());
+                    cand.push_back({Cube(common), 1});
+                }
             }
-            work += static_cast<long>(acc.size());
-            heap.push({static_cast<long>(acc.size()) * static_cast<long>(I.lits.size() - 1) + 1, list.size()});
-            list.push_back(std::move(I));
-            if (byPairs) holders[k] = std::move(acc);
-            else holders.push_back(std::move(acc));
+            candIndex.clear();
+            candidates += static_cast<long>(cand.size());
+            std::vector<std::pair<long, Cube>> ranked;
+            ranked.reserve(cand.size());
+            for (auto& e : cand) ranked.push_back({candidateBound(e.first, e.second), std::move(e.first)});
+            cand.clear();
+            if (keepBest(ranked, opts.maxCandidates)) cut = true;
+            // Each candidate keeps the cubes holding it now.
+            using Item = std::pair<long, std::size_t>;
+            std::vector<Cube> list;
+            std::vector<std::vector<std::uint32_t>> holders;
+            std::priority_queue<Item> heap;
+            const bool byPairs =
+                opts.holdersByPairs &&
+                holdersByPairs(
+                    cubes.size(),
+                    [&](std::uint32_t id) -> const std::vector<Literal>* { return cubes[id].live ? &cubes[id].lits : nullptr; },
+                    [&](Literal l) { return table.holding(l).size(); }, ranked, holders);
+            pairRounds += byPairs;
+            for (std::size_t k = 0; k < ranked.size(); ++k) {
+                Cube& I = ranked[k].second;
+                std::vector<std::uint32_t> acc;
+                if (byPairs) {
+                    acc = std::move(holders[k]);
+                } else {   // index intersection
+                    std::vector<const std::vector<std::uint32_t>*> lists;
+                    for (Literal l : I.lits) lists.push_back(&table.holding(l));
+                    acc = intersectLists(lists);
+                }
+                work += static_cast<long>(acc.size());
+                heap.push({static_cast<long>(acc.size()) * static_cast<long>(I.lits.size() - 1) + 1, list.size()});
+                list.push_back(std::move(I));
+                if (byPairs) holders[k] = std::move(acc);
+                else holders.push_back(std::move(acc));
+            }
+            long roundSaved = 0;
+            std::vector<std::uint8_t> requeued(list.size(), 0);
+            while (!heap.empty()) {
+                auto [v, i] = heap.top();
+                heap.pop();
+                if (work > opts.workBudget) { exhausted = true; break; }
+                // Value from the index: holder cubes still holding I, and a provider.
+                const Cube& I = list[i];
+                long count = 0;
+                net::NodeId prov = 0;
+                for (std::uint32_t id : holders[i]) {
+                    const auto& r = cubes[id];
+                    ++work;
+                    if (!r.live || !std::includes(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end())) continue;
+                    if (r.lits.size() == I.lits.size() && table.cubeCount(r.node) == 1) { prov = r.node; continue; }
+                    ++count;
+                }
+                const long w = static_cast<long>(I.lits.size()) - 1;
+                const long now = count * w - (prov ? 0 : w);
+                if (now <= 0) continue;
+                if (!heap.empty() && now < heap.top().first / 2 && !requeued[i]) {
+                    requeued[i] = 1;
+                    heap.push({now, i});
+                    continue;
+                }
+                const long gain = table.extract(I, holders[i], prov, rejects);
+                if (gain <= 0) continue;
+                (prov ? reused : extracted) += 1;
+                saved += gain;
+                roundSaved += gain;
+            }
+            if (roundSaved == 0 || exhausted) break;
         }
-        long roundSaved = 0;
-        std::vector<std::uint8_t> requeued(list.size(), 0);
-        while (!heap.empty()) {
-            auto [v, i] = heap.top();
-            heap.pop();
-            if (work > opts.workBudget) { exhausted = true; break; }
-            // Value from the index: holder cubes still holding I, and a provider.
-            const Cube& I = list[i];
-            long count = 0;
-            net::NodeId prov = 0;
-            for (std::uint32_t id : holders[i]) {
-                const auto& r = cubes[id];
-                ++work;
-                if (!r.live || !std::includes(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end())) continue;
-                if (r.lits.size() == I.lits.size() && table.cubeCount(r.node) == 1) { prov = r.node; continue; }
-                ++count;
-            }
-            const long w = static_cast<long>(I.lits.size()) - 1;
-            const long now = count * w - (prov ? 0 : w);
-            if (now <= 0) continue;
-            if (!heap.empty() && now < heap.top().first / 2 && !requeued[i]) {
-                requeued[i] = 1;
-                heap.push({now, i});
-                continue;
-            }
-            const long gain = table.extract(I, holders[i], prov, rejects);
-            if (gain <= 0) continue;
-            (prov ? reused : extracted) += 1;
-            saved += gain;
-            roundSaved += gain;
-        }
-        if (roundSaved == 0 || exhausted) break;
+        anyExhausted = anyExhausted || exhausted;
+        const long passSaved = saved - savedBefore;
+        const bool pays = passSaved > 0 && passSaved * 1000 >= static_cast<long>(opts.passMinPermille) * tableLits;
+        if (ctx.verbose >= 2 && opts.passes > 1)
+            std::fprintf(stderr, "kerf:   cube extraction pass %d saved %ld of %ld literals%s\n", pass + 1, passSaved,
+                         tableLits, exhausted ? " (cubes-work reached)" : "");
+        tableLits -= passSaved;
+        if (!pays) break;
     }
-    table.writeBack();
+    exhausted = anyExhausted;
+    tablePtr->writeBack();
+    if (opts.passes > 1) ctx.stats.add("passes", passesMade);
     ctx.edits += static_cast<std::size_t>(extracted + reused);
     ctx.stats.add("extracted", extracted);
     ctx.stats.add("reused-nodes", reused);

@@ -27,6 +27,14 @@ struct ShareCubesOptions {
     /// the cubes' literal pairs when that costs less than intersecting index
     /// lists per candidate (the same holders either way; false: intersections only).
     bool holdersByPairs = true;
+    /// In place: passes over one kept cube table, each with its own work
+    /// budget and up to `rounds` rounds, as many separate moves would make
+    /// them but without rebuilding the table, writing the covers back and
+    /// measuring in between (the engine's opening, F293). A pass that saves
+    /// less than `passMinPermille` thousandths of the table's literals (or
+    /// nothing) ends the extraction. 1: one pass.
+    int passes = 1;
+    int passMinPermille = 0;
 };
 
 void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx);
