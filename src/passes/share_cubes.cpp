@@ -374,6 +374,52 @@ struct LiteralsHash {
     }
 };
 
+/// The candidates of one round by their literals: an open-addressing table
+/// (linear probing, at most half full) of positions in the candidate list,
+/// with each entry's hash beside it. A node-based hash map keyed by a vector
+/// per candidate cost an allocation per candidate and a pointer chase per
+/// lookup; this loop meets every cube pair (F294).
+class CandidateIndex {
+public:
+    /// The position of `lits` in `cand`, or cand.size() when it is not there.
+    std::size_t find(const std::vector<Literal>& lits, const std::vector<std::pair<Cube, long>>& cand) const {
+        if (slots_.empty()) return cand.size();
+        const std::uint64_t h = hashOf(lits);
+        for (std::size_t s = detail::mix64(h) & mask_; slots_[s] != 0; s = (s + 1) & mask_) {
+            const std::uint32_t k = slots_[s] - 1;
+            if (hash_[s] == h && cand[k].first.lits == lits) return k;
+        }
+        return cand.size();
+    }
+    void add(const std::vector<Literal>& lits, std::size_t pos) {
+        if (2 * (count_ + 1) > slots_.size()) grow();
+        place(hashOf(lits), static_cast<std::uint32_t>(pos + 1));
+        ++count_;
+    }
+
+private:
+    static std::uint64_t hashOf(const std::vector<Literal>& lits) { return LiteralsHash{}(lits); }
+    void place(std::uint64_t h, std::uint32_t entry) {
+        std::size_t s = detail::mix64(h) & mask_;
+        while (slots_[s] != 0) s = (s + 1) & mask_;
+        slots_[s] = entry;
+        hash_[s] = h;
+    }
+    void grow() {
+        std::vector<std::uint32_t> oldSlots = std::move(slots_);
+        std::vector<std::uint64_t> oldHash = std::move(hash_);
+        const std::size_t n = oldSlots.empty() ? 1024 : 2 * oldSlots.size();
+        slots_.assign(n, 0);
+        hash_.assign(n, 0);
+        mask_ = n - 1;
+        for (std::size_t s = 0; s < oldSlots.size(); ++s)
+            if (oldSlots[s] != 0) place(oldHash[s], oldSlots[s]);
+    }
+    std::vector<std::uint32_t> slots_;   // position + 1; 0: empty
+    std::vector<std::uint64_t> hash_;
+    std::size_t mask_ = 0, count_ = 0;
+};
+
 // The holders of every candidate at once, when that is cheaper than
 // intersecting index lists per candidate: each candidate is filed under its
 // first two literals, and every indexed cube (live, at least two literals)
@@ -483,7 +529,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
             // Candidate cubes: intersections of cube pairs sharing >= minLiterals
             // literals (partners counted in a dense array, candidates found by
             // their literals without building a key: this loop meets every cube).
-            std::unordered_map<std::vector<Literal>, std::size_t, LiteralsHash> candIndex;
+            CandidateIndex candIndex;
             std::vector<std::pair<Cube, long>> cand;   // cube, pairs giving it
             sharedCount.assign(cubes.size(), 0);
             cursor.assign(2 * net.nodeCount(), 0);
@@ -510,13 +556,13 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
                     const auto& d = cubes[j].lits;
                     common.clear();
                     std::set_intersection(c.lits.begin(), c.lits.end(), d.begin(), d.end(), std::back_inserter(common));
-                    auto f = candIndex.find(common);
-                    if (f != candIndex.end()) { ++cand[f->second].second; continue; }
-                    candIndex.emplace(common, cand.size());
+                    const std::size_t at = candIndex.find(common, cand);
+                    if (at < cand.size()) { ++cand[at].second; continue; }
+                    candIndex.add(common, cand.size());
                     cand.push_back({Cube(common), 1});
                 }
             }
-            candIndex.clear();
+            candIndex = CandidateIndex{};
             candidates += static_cast<long>(cand.size());
             std::vector<std::pair<long, Cube>> ranked;
             ranked.reserve(cand.size());
