@@ -57,7 +57,14 @@ void shrinkNodes(net::Network& net, const ShrinkOptions& opts, PassContext& ctx,
             ++recalled;
         } else {
             best = minimize::minimizeCover(cv, opts.minimize);
-            if (opts.allowComplement && read) {
+            // A cover of more cubes than the heuristic minimiser takes
+            // (minimise-heuristic-cubes) gets containment only, and no
+            // complement either: its complement, of up to four times as many
+            // cubes, would need the expansion that limit rules out. On the
+            // 100k decoder the 256 output covers (200-800 cubes, changed by
+            // every kept move) were complemented in every trial, about 1.4
+            // CPU s each, never once cheaper (F296).
+            if (opts.allowComplement && read && cv.cubes.size() <= opts.minimize.maxHeuristicCubes) {
                 Cover comp;
                 if (minimize::complementCover(cv, comp, 4 * cv.cubes.size() + 16, opts.minimize)) {
                     std::size_t lc = detail::lits(comp), lb = detail::lits(best);
