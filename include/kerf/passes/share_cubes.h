@@ -27,12 +27,12 @@ struct ShareCubesOptions {
     /// the cubes' literal pairs when that costs less than intersecting index
     /// lists per candidate (the same holders either way; false: intersections only).
     bool holdersByPairs = true;
-    /// In place: passes over one kept cube table, each with its own work
-    /// budget and up to `rounds` rounds, as many separate moves would make
-    /// them but without rebuilding the table, writing the covers back and
-    /// measuring in between (the engine's opening, F293). A pass that saves
-    /// less than `passMinPermille` thousandths of the table's literals (or
-    /// nothing) ends the extraction. 1: one pass.
+    /// In place: passes in one call, each with its own work budget and up
+    /// to `rounds` rounds, each laying the cube table out afresh from the
+    /// covers the last pass wrote back, as separate moves would, but without
+    /// tidying and measuring the network in between (the engine's opening,
+    /// F293). A pass that saves less than `passMinPermille` thousandths of the
+    /// table's literals (or nothing) ends the extraction. 1: one pass.
     int passes = 1;
     int passMinPermille = 0;
 };
