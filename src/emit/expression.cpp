@@ -264,7 +264,12 @@ std::optional<std::string> constantName(const VarRef& r, int loOff, int hiOff, c
             // A part of the constant only where the source compared a part of it
             // (`addr[15:8] == BASE[15:8]`): `st[1:0] == IDLE[1:0]` would misread a whole-value test.
             bool partial = k.constLo != 0 || k.hi - k.lo + 1 != c.width();
-            if (!sliced && partial && c.sliceable && c.msb >= c.lsb) {
+            // Also a leading part of a wide constant the source compared whole: a prefix that
+            // several addresses share (`csr_addr[11:4] == CSR_MSTATUS[11:4]`, F285) — at least 4
+            // bits from its most significant bit down, of a constant of at least 6 bits. A short
+            // code keeps its number (`st[1:0] == 2'b01`, not `IDLE[1:0]`).
+            bool prefix = !partial && c.width() >= 6 && hiOff == k.hi && len >= 4;
+            if (!sliced && (partial || prefix) && c.sliceable && c.msb >= c.lsb) {
                 int ilo = c.lsb + clo, ihi = c.lsb + clo + len - 1;
                 sliced = len == 1 ? fmt::format("{}[{}]", c.ref, ilo) : fmt::format("{}[{}:{}]", c.ref, ihi, ilo);
                 slicedIndex = static_cast<int>(ci);
@@ -309,7 +314,9 @@ std::vector<std::uint8_t> ExprBuilder::sliceKids(const Factored& f) const {
         const Factored& k = f.kids[i];
         if (k.kind != K::Lit) continue;
         std::uint32_t v = literalVar(k.lit);
-        if (v == 0 || v >= refs_.size() || !refs_[v] || refs_[v]->signal.empty() || refs_[v]->width < 2) continue;
+        if (v == 0 || v >= refs_.size() || !refs_[v] || refs_[v]->signal.empty() || refs_[v]->width < 2 ||
+            refs_[v]->byName)
+            continue;
         bySignal[refs_[v]->signal].push_back({refs_[v]->offset, i});
     }
     for (auto& [sig, bits] : bySignal) {
@@ -639,7 +646,7 @@ void ExprBuilder::groupSlices(PExpr& e) {
     std::map<std::string, std::vector<std::size_t>> bySignal;
     for (std::size_t i = 0; i < e.kids.size(); ++i) {
         const PExpr& k = e.kids[i];
-        if (k.kind == PExpr::Kind::Ref && k.ref && !k.ref->signal.empty() && k.ref->width > 1)
+        if (k.kind == PExpr::Kind::Ref && k.ref && !k.ref->signal.empty() && k.ref->width > 1 && !k.ref->byName)
             bySignal[k.ref->signal].push_back(i);
     }
     std::vector<std::uint8_t> drop(e.kids.size(), 0);
@@ -729,7 +736,7 @@ void ExprBuilder::groupXorSlices(PExpr& e) {
         // The kid's text is the bit's own name (no `~`): whether that name holds the node or its
         // complement (VarRef::inverted, an output bit driven by an inverted node) does not
         // matter to the parity of the names (F182: `odd = ^sub` after `sub` in one block).
-        if (k.kind == PExpr::Kind::Ref && !k.neg && k.ref && !k.ref->signal.empty() && k.ref->width > 1 &&
+        if (k.kind == PExpr::Kind::Ref && !k.neg && k.ref && !k.ref->signal.empty() && k.ref->width > 1 && !k.ref->byName &&
             reduced_->count(k.ref->signal))
             bySignal[k.ref->signal].push_back(i);
     }

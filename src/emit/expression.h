@@ -34,6 +34,9 @@ struct VarRef {
     int msb = 0, lsb = 0;      ///< the vector's declared range
     bool inverted = false;     ///< the name holds the complement of the variable
     int rank = 0;              ///< order among operands of one AND/OR (lower first)
+    /// A bit the source selects by a name (`state[IDLE]`, frontend::nameSelectedBits): printed
+    /// alone, never grouped with other bits of its vector into a slice, comparison or reduction.
+    bool byName = false;
     /// The module whose signal `signal` is: slices are then named as its declared type
     /// allows (`m[1][3:2]`, `req.hdr.tag`); null for vectors kerf generates (indexed flat).
     const frontend::ModuleDesc* module = nullptr;

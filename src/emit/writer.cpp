@@ -362,9 +362,13 @@ std::string bitText(const frontend::ModuleDesc& m, const BitRef& b) {
 /// A name fragment from a reference: `paddr[3]` -> `paddr3`.
 std::string fragment(const std::string& text) {
     std::string s;
-    for (char c : text)
+    for (std::size_t i = 0; i < text.size(); ++i) {
+        char c = text[i];
         if (std::isalnum(static_cast<unsigned char>(c)) || c == '_') s += c;
         else if (c == '.') s += '_';   // req.hdr.tag[0] -> req_hdr_tag0
+        // A bit selected by name: `state[IDLE]` -> state_IDLE.
+        else if (c == '[' && i + 1 < text.size() && std::isalpha(static_cast<unsigned char>(text[i + 1]))) s += '_';
+    }
     return s;
 }
 
@@ -789,6 +793,9 @@ VarRef Writer::refFor(const BitRef& bitIn, int rankBase) const {
     int width = it == m_.signals.end() ? 0 : it->second.width;
     if (it != m_.signals.end() && (it->second.vector || it->second.width > 1)) {
         r.signal = b.signal;
+        // A bit the source names (`state[IDLE]`, frontend::nameSelectedBits) is written alone:
+        // never grouped with other bits into a slice of raw positions.
+        r.byName = !it->second.bitNames.empty();
         r.offset = b.offset;
         r.width = width;
         r.msb = it->second.msb;
@@ -986,7 +993,12 @@ void Writer::coneOf(NodeId root, bool viaDefinition, const std::function<void(No
 /// of five bits or more in hex (`7'b0110011` -> "33"), a named constant by its name.
 std::string valueFragment(const std::string& compareText) {
     std::size_t tick = compareText.find('\'');
-    if (tick == std::string::npos) return fragment(compareText.substr(compareText.rfind(' ') + 1));
+    if (tick == std::string::npos) {
+        // A slice of a named constant (`CSR_MSTATUS[11:4]`) by the constant's name: the compared
+        // side's name carries the range.
+        std::string value = compareText.substr(compareText.rfind(' ') + 1);
+        return fragment(value.substr(0, value.find('[')));
+    }
     std::string digits = compareText.substr(tick + 2);
     if (compareText[tick + 1] != 'b' || digits.size() < 5 || digits.find_first_not_of("01") != std::string::npos)
         return digits;
@@ -1019,7 +1031,7 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
         NodeId x = literalVar(l);
         if (x == 0) return false;
         const std::optional<VarRef>& r = refs_[x];
-        bool leaf = r && !isWire_[x] && !r->signal.empty() && r->width >= 2;
+        bool leaf = r && !isWire_[x] && !r->signal.empty() && r->width >= 2 && !r->byName;
         if (!leaf) {
             if (!net_.isLogic(x)) return false;
             return form(forms_[x], literalNegated(l));
@@ -1053,6 +1065,29 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
                 pattern += it == bits.end() ? 'x' : it->second ? '1' : '0';
             }
             if (parts) *parts = {out, pattern, !complemented, true};
+            // Bits of addresses the source compared with named constants (a `case (csr_addr)` over
+            // package constants): named after the first such constant (in the order the source
+            // names them) that has the pattern, with the range it is like in (F285):
+            // `like_CSR_MSTATUS_11_3`, true for CSR_MSTATUS and every value sharing those bits, or
+            // its complement `not_like_CSR_CYCLE`. Only a span from the top of the compared bits
+            // down (an address prefix with gaps), as for slices of a constant (expression.cpp).
+            if (vec->module)
+                for (const auto& c : vec->module->constants) {
+                    bool like = false;
+                    for (const auto& k : c.compared) {
+                        if (like || k.signal != vec->signal || lo < k.lo || hi != k.hi) continue;
+                        like = k.constLo == 0 && k.hi - k.lo + 1 == c.width() && c.width() >= 6;
+                        for (const auto& [o, val] : bits)
+                            like = like && c.bit(o - k.lo) == (val != 0);
+                    }
+                    if (!like) continue;
+                    auto index = [&](int off) { return vec->msb >= vec->lsb ? vec->lsb + off : vec->lsb - off; };
+                    std::string name = (complemented ? "not_like_" : "like_") + c.name;
+                    if (lo != 0 || hi != vec->width - 1) name += fmt::format("_{}_{}", index(hi), index(lo));
+                    if (name.size() > std::max<std::size_t>(opts_.maxNameLength, 8)) break;
+                    if (parts) parts->pattern = false;   // a name of its own, not the pattern's
+                    return name;
+                }
             return out + (complemented ? "_not_" : "_is_") + pattern;
         }
         std::vector<int> msbFirst;
@@ -1070,7 +1105,18 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
         if (reduced_.count(vec->signal) && (ones || zeros))
             return std::string(zeros ? (complemented ? "any_" : "no_") : (complemented ? "not_all_" : "all_")) + out;
         if (parts) *parts = {out, valueFragment(text), !complemented, false};
-        return out + (complemented ? "_not_" : "_is_") + valueFragment(text);
+        std::string name = out + (complemented ? "_not_" : "_is_") + valueFragment(text);
+        // Bits compared with a slice of a named constant (F285): `csr_addr_11_4_is_CSR_MIE`,
+        // or where that is over the cap the constant and the range, `is_CSR_MSTATUS_11_4`.
+        if (const std::string value = text.substr(text.rfind(' ') + 1);
+            constant >= 0 && value.find('[') != std::string::npos &&
+            name.size() > std::max<std::size_t>(opts_.maxNameLength, 8)) {
+            std::string range;
+            for (char c : value.substr(value.find('[')))
+                if (c != ']') range += (c == '[' || c == ':') ? '_' : c;
+            name = (complemented ? "not_" : "is_") + valueFragment(text) + range;
+        }
+        return name;
     }
     return std::nullopt;
 }

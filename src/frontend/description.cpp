@@ -1256,6 +1256,7 @@ void DescriptionBuilder::finish(const json& root) {
     validateExprs();
     validateStmts();
     checkOwnership();
+    nameSelectedBits(m);
     // Statements name only expressions of their own kind of slot; a target must be assignable.
 }
 

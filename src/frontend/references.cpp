@@ -178,6 +178,24 @@ std::vector<Piece> piecesOf(const ModuleDesc& m, const std::string& signal, int 
         else out.push_back({name + slice(s.msb, s.lsb, lo, count), lo, count, false, kNoId});
         return out;
     }
+    if (!s.bitNames.empty() && !(lo == 0 && count == s.width)) {
+        // Bits the source selects only by named values (bit_names.cpp): `state[IDLE]`, one
+        // select per named bit; bits no value names by their indices, as a slice when adjacent.
+        int pos = lo, end = lo + count;
+        while (pos < end) {
+            const std::string& bn = s.bitNames[static_cast<std::size_t>(pos)];
+            if (!bn.empty()) {
+                out.push_back({name + "[" + bn + "]", pos, 1, false, kNoId});
+                ++pos;
+                continue;
+            }
+            int run = pos;
+            while (run < end && s.bitNames[static_cast<std::size_t>(run)].empty()) ++run;
+            out.push_back({name + slice(s.msb, s.lsb, pos, run - pos), pos, run - pos, false, kNoId});
+            pos = run;
+        }
+        return out;
+    }
     Resolver(m.ir, target).resolve(s.type, name, lo, count, 0, out);
     std::sort(out.begin(), out.end(), [](const Piece& a, const Piece& b) { return a.lo < b.lo; });
     return out;

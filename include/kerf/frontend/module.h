@@ -56,6 +56,9 @@ struct Signal {
     SymbolId symbol = kNoId;   ///< its symbol in the IR
     bool packed = true;        ///< false for unpacked arrays, real, string, ...
     std::vector<std::string> attributes;   ///< attribute names on the declaration, e.g. "keep"
+    /// Names of its bits by offset, when the source selects its bits only through named values
+    /// of an enum (`state[IDLE]`, bit_names.cpp); empty otherwise, "" for a bit no value names.
+    std::vector<std::string> bitNames;
 
     /// Declared index of bit `offset` (offset 0 = least significant).
     int indexOf(int offset) const { return msb >= lsb ? lsb + offset : lsb - offset; }
@@ -210,6 +213,9 @@ ModuleDesc readModule(const ReadOptions& opts);
 /// Parse a description from its text (the reader's output). A description
 /// that is not valid is kerf's own bug: kerf::Error with ExitCode::Internal.
 ModuleDesc parseDescription(std::string_view text);
+/// Fills Signal::bitNames from the selects of the module's expressions (bit_names.cpp);
+/// parseDescription calls it.
+void nameSelectedBits(ModuleDesc& m);
 ModuleDesc parseDescription(const std::string& text);
 /// Parse a description already parsed as JSON (tests).
 ModuleDesc parseDescription(const nlohmann::json& j);

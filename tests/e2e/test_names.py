@@ -1,0 +1,205 @@
+"""Names in the written file that come from the source's own names (issue 10, "Names").
+
+Outside references named beside the checks:
+- Icarus Verilog (simulator): every rewrite checked here simulates like its input, and every wire
+  whose name states a comparison with a named constant is compared with that comparison;
+- the RISC-V privileged architecture (open standard) for the CSR addresses of
+  tests/rtl/rv_csr_decode.sv.
+The checks are properties (a name the source used appears where it used it, no raw position where
+it used a name, a name tells the truth), never today's exact text.
+"""
+import os
+import re
+import sys
+
+sys.path.insert(0, os.path.dirname(__file__))
+import kerf_e2e as K  # noqa: E402
+import outside_check as O  # noqa: E402
+
+S = K.Suite(__doc__)
+
+ONEHOT = os.path.join("tests", "rtl", "onehot_fsm_reverse_case.sv")
+ONEHOT_NAMES = ("IDLE", "LOAD", "RUN", "DRAIN", "FAULT")
+
+
+def _restructure_simulated(t, files, top, out, *extra):
+    """Restructure `files` (the module in the last) into `out`; its text when kerf proved it and
+    Icarus Verilog simulates it like the input (random vectors; bits where the original is x are
+    not compared: the source's x defaults are don't-cares), else None."""
+    r = K.run([t.kerf, "restructure", *files, "--top", top, "-o", out, *extra])
+    if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr,
+                       f"{top}: restructured and proved: {r.stderr[-800:]}"):
+        return None
+    sim = os.path.join(t.work, "sim_" + os.path.basename(out))
+    os.mkdir(sim)
+    plist, _ = O.signals(files, top)
+    ref = os.path.join(sim, "ref.sv")
+    new = os.path.join(sim, "new.sv")
+    fix = O.always_comb_as_always_star   # as the corpus driver does for Icarus 11
+    open(ref, "w").write(fix(O.renamed(open(files[-1]).read(), top, top + "_kerf_ref")))
+    open(new, "w").write(fix(O.renamed(open(out).read(), top, top + "_kerf_new")))
+    pair = O.Pair("case", top + "_kerf_ref", top + "_kerf_new", plist, vectors=3000)
+    res = O.simulate([pair], files[:-1] + [ref, new], sim)["case"]
+    t.res.check(res.ok and res.known > 0,
+                f"{top}: the rewrite simulates like the input (Icarus Verilog): {res.detail}")
+    return open(out).read()
+
+
+def _new_lines(src_text, out_text):
+    """The lines of the rewrite that the source does not have."""
+    old = set(src_text.splitlines())
+    return [l for l in out_text.splitlines() if l not in old]
+
+
+@S.case("enum_bit_positions_by_name", needs=("iverilog",))
+def _(t):
+    """F291: the source selects the bits of `state` and `next` only through an enum of bit
+    positions (`state[IDLE]`, `next[LOAD] = 1'b1`; the reverse-case one-hot style, common trade
+    practice); the rewrite selects them by the same names, never by a raw position. Control: the
+    same module with one select written `state[0]` is not named (the rule needs every select of
+    the signal to use a name), while `next`, still selected only by names, is."""
+    src = os.path.join(t.root, ONEHOT)
+    src_text = open(src).read()
+    out = os.path.join(t.work, "onehot.sv")
+    text = _restructure_simulated(t, [src], "onehot_fsm_reverse_case", out)
+    if text is None:
+        return
+    new = "\n".join(_new_lines(src_text, text))
+    t.res.check(new.strip(), "the block is rewritten")
+    raw = re.findall(r"\b(?:state|next)\s*\[\s*\d[^\]]*\]", new)
+    t.res.check(not raw, f"no raw position of `state`/`next` where the source used names: {raw}\n{text}")
+    named = set(re.findall(r"\b(?:state|next)\[(\w+)\]", new))
+    t.res.check(named and named <= set(ONEHOT_NAMES), f"bits selected by the enum's names: {named}\n{new}")
+    t.res.check(re.search(r"\bnext\[\w+\]\s*=", new), f"next-state bits assigned by name:\n{new}")
+
+    # Control: one raw select of `state` in the source.
+    mixed = src_text.replace("state[LOAD]:  next[RUN]", "state[1]:     next[RUN]", 1)
+    t.res.check(mixed != src_text, "the control variant differs from the source")
+    msrc = os.path.join(t.work, "onehot_mixed_src.sv")
+    open(msrc, "w").write(mixed)
+    mout = os.path.join(t.work, "onehot_mixed.sv")
+    mtext = _restructure_simulated(t, [msrc], "onehot_fsm_reverse_case", mout)
+    if mtext is None:
+        return
+    mnew = "\n".join(_new_lines(mixed, mtext))
+    t.res.check(not re.search(r"\bstate\[[A-Za-z_]", mnew),
+                f"`state`, selected once by a raw position, is not named:\n{mnew}")
+    t.res.check(not re.search(r"\bnext\s*\[\s*\d", mnew), f"`next` still selected only by names:\n{mnew}")
+
+
+EARLY = """// Invented: a status flag computed above the enum of bit positions that the block below uses.
+module early_enum (
+  input  logic [3:0] state,
+  input  logic       go,
+  output logic       z,
+  output logic [3:0] next
+);
+  assign z = (state == 4'b0001) | (state == 4'b0011 & go);
+  typedef enum int unsigned { A = 0, B = 1, C = 2, D = 3 } idx_e;
+  always_comb begin
+    next = '0;
+    if (state[A] & go) next[B] = 1'b1;
+    if (state[B] | state[C]) next[C] = 1'b1;
+    if (state[D] & ~go) next[A] = 1'b1;
+  end
+endmodule
+"""
+
+
+@S.case("enum_bit_names_declared_before_use", needs=("iverilog",))
+def _(t):
+    """F291's rule meets IEEE 1800-2017's declared-before-use: a statement above the enum's
+    declaration that reads the vector (`assign z = state == 4'b0001 ...`) could not name its
+    bits, so the vector keeps raw positions and the rewrite reads back (was: slang rejected
+    `state[D]` above the typedef, an internal error). Icarus Verilog checks the function."""
+    src = os.path.join(t.work, "early_enum.sv")
+    open(src, "w").write(EARLY)
+    out = os.path.join(t.work, "early_enum_out.sv")
+    text = _restructure_simulated(t, [src], "early_enum", out, "--min-gain", "0")
+    if text is None:
+        return
+    new = "\n".join(_new_lines(EARLY, text))
+    t.res.check(new.strip(), "the module is rewritten")
+    t.res.check(not re.search(r"\bstate\[[A-Za-z_]", new), f"no bit of `state` named above the enum:\n{new}")
+
+
+@S.case("csr_constants_named", needs=("iverilog",))
+def _(t):
+    """F285: a `unique case (csr_addr)` over 21 package constants (RISC-V machine-level CSR
+    addresses, an open standard) comes back naming the constants: shared address-prefix wires
+    compare with slices of a constant the case used (`csr_addr[11:4] == CSR_MSTATUS[11:4]`) or
+    are named after one (`like_CSR_MSTATUS_11_3`). Each name is checked against the wire's
+    function by Icarus Verilog: a wire `is_NAME_h_l` / `<sig>_h_l_is_NAME` is exactly
+    `csr_addr[h:l] == NAME[h:l]`, a wire `like_NAME_h_l` is 1 whenever csr_addr equals NAME."""
+    files = [os.path.join(t.root, "tests", "rtl", "include", "rv_csr_pkg.sv"),
+             os.path.join(t.root, "tests", "rtl", "rv_csr_decode.sv")]
+    top = "rv_csr_decode"
+    out = os.path.join(t.work, "rv_csr_decode.sv")
+    text = _restructure_simulated(t, files, top, out)
+    if text is None:
+        return
+    pkg = open(files[0]).read()
+    consts = dict(re.findall(r"localparam\s+logic\s+\[11:0\]\s+(CSR_\w+)\s*=\s*12'h([0-9A-Fa-f]+)", pkg))
+    t.res.check(len(consts) == 21, f"the package's 21 addresses: {sorted(consts)}")
+    new = _new_lines(open(files[1]).read(), text)
+    body = "\n".join(l for l in new if "kf_unused" not in l and not l.lstrip().startswith(("//", "CSR_")))
+    # As a name in the logic or inside a new wire's name (`is_CSR_MSTATUS_11_2`).
+    used = {c for c in consts if re.search(r"(?<![A-Za-z0-9])%s(?![A-Za-z0-9])" % c, body)}
+    t.res.check(len(used) >= 3, f"the rewritten logic names constants the case used (not only kf_unused): "
+                                f"{sorted(used)}\n{text}")
+    # A pattern over bits from the top of csr_addr down is named after a constant that has it.
+    t.res.check(not re.search(r"\bcsr_addr(?:_11_\d+)?_(?:is|not)_[01x]*x", body),
+                f"no address-prefix wire named by a don't-care pattern:\n{text}")
+    checks = []
+    for name in re.findall(r"^\s*wire\s+(\w+)\s*=", text, re.M):
+        if name.startswith("is_") or "_is_CSR_" in name:
+            m1 = re.fullmatch(r"is_(CSR_\w+)_(\d+)_(\d+)", name) or \
+                re.fullmatch(r"csr_addr_(\d+)_(\d+)_is_(CSR_\w+)", name)
+            if not m1:
+                continue
+            if name.startswith("is_"):
+                c, h, l = m1.group(1), int(m1.group(2)), int(m1.group(3))
+            else:
+                h, l, c = int(m1.group(1)), int(m1.group(2)), m1.group(3)
+            if c not in consts:
+                continue
+            checks.append((name, f"dut.{name} !== (csr_addr[{h}:{l}] == ({int(consts[c], 16)} >> {l} & "
+                                 f"{(1 << (h - l + 1)) - 1}))", None))
+        elif name.startswith("like_"):
+            m1 = re.fullmatch(r"like_(CSR_\w+?)(?:_(\d+)_(\d+))?", name)
+            if m1 and m1.group(1) in consts:
+                checks.append((name, f"dut.{name} !== 1'b1", int(consts[m1.group(1)], 16)))
+    t.res.check(checks, f"wires named after the constants:\n{text}")
+    if not checks:
+        return
+    tb = ["module kerf_names_tb;",
+          "  reg [11:0] csr_addr; reg csr_we, cnt_en_cy, cnt_en_ir; reg [1:0] priv;",
+          f"  {top} dut (.csr_addr(csr_addr), .csr_we(csr_we), .priv(priv), .cnt_en_cy(cnt_en_cy), "
+          ".cnt_en_ir(cnt_en_ir));",
+          "  integer n, errors;",
+          "  initial begin",
+          "    errors = 0; csr_we = 0; cnt_en_cy = 0; cnt_en_ir = 0; priv = 3;"]
+    # Every address once (4096 values: exhaustive over the wires' only input).
+    tb.append("    for (n = 0; n < 4096; n = n + 1) begin")
+    tb.append("      csr_addr = n; #1;")
+    for name, cond, at in checks:
+        if at is None:
+            cond = cond.replace("csr_addr[", "dut.csr_addr[")
+            tb.append(f"      if ({cond}) begin errors = errors + 1; $display(\"NAME {name} at %h\", csr_addr); end")
+        else:
+            tb.append(f"      if (csr_addr == 12'h{at:03x} && {cond}) begin errors = errors + 1; "
+                      f"$display(\"NAME {name} at %h\", csr_addr); end")
+    tb += ["    end", "    $display(\"ERRORS %0d\", errors);", "    $finish;", "  end", "endmodule"]
+    tbp = os.path.join(t.work, "names_tb.sv")
+    open(tbp, "w").write("\n".join(tb) + "\n")
+    vvp = os.path.join(t.work, "names_tb.vvp")
+    c = K.run(["iverilog", "-g2012", "-o", vvp, files[0], out, tbp])
+    if not t.res.check(c.returncode == 0, f"Icarus builds the name check: {c.stderr[-800:]}"):
+        return
+    s = K.run(["vvp", "-n", vvp])
+    t.res.check("ERRORS 0" in s.stdout,
+                f"every wire does what its name says ({[n for n, _, _ in checks]}): {s.stdout[-800:]}")
+
+
+if __name__ == "__main__":
+    S.main()
