@@ -1010,8 +1010,9 @@ def construct_summary_names_kept_statements():
 @test
 def construct_x_default_is_dont_care():
     # default: y = 'x is a don't-care (IEEE 1364.1 synthesis reading): the rewrite may
-    # take any value there and matches the original everywhere else.
-    err, text = restructure_construct("opcode_dc.sv", "opcode_dc")
+    # take any value there and matches the original everywhere else. (The block chooses among
+    # bitwise word operations, which the text rule keeps as written, F307: off here.)
+    err, text = restructure_construct("opcode_dc.sv", "opcode_dc", "--text-per-gate", "0")
     assert "'x" not in text.split("endmodule")[0].split("always_comb")[-1] or "default" not in text, text
     err, text = restructure_construct("opcode_dc.sv", "opcode_dc", "--keep-x")
     assert "y = 'x;" in text, "--keep-x keeps the statement: " + text
