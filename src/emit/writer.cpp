@@ -2039,16 +2039,13 @@ void Writer::decide() {
             }
             for (const auto& [sig, constant] : allConstant) {
                 if (!constant) continue;
-                const frontend::KeptStatement* reader = nullptr;
-                for (const auto& k : low_.kept) {
-                    if (k.member < 0) continue;
-                    for (const auto& mem : m_.members)
-                        if (mem.id == k.member &&
-                            std::find(mem.reads.begin(), mem.reads.end(), sig) != mem.reads.end())
-                            reader = &k;
-                    if (reader) break;
-                }
-                if (!reader) continue;
+                // (A member's id is its position, checked when the description is read.)
+                const auto reader = std::find_if(low_.kept.begin(), low_.kept.end(), [&](const auto& k) {
+                    if (k.member < 0 || static_cast<std::size_t>(k.member) >= m_.members.size()) return false;
+                    const auto& reads = m_.members[static_cast<std::size_t>(k.member)].reads;
+                    return std::find(reads.begin(), reads.end(), sig) != reads.end();
+                });
+                if (reader == low_.kept.end()) continue;
                 G.replaced = false;
                 G.reason = fmt::format("its rewrite would make '{}' a constant, and code kept as written reads it "
                                        "(line {}): lint would then find that code's comparisons constant",
