@@ -2300,8 +2300,12 @@ std::vector<std::string> Writer::unreadBits() {
         if (g < 0 || !groups_[static_cast<std::size_t>(g)].replaced) continue;
         NodeId v = literalVar(net_.outputs()[i].driver);
         if (v == 0) continue;
-        if (!net_.isLogic(v) && aliasOf_[v] == static_cast<int>(i)) record(inputRefs_[v]);
-        else if (definer_[v] == static_cast<int>(i)) expand(v);
+        if (!net_.isLogic(v) && aliasOf_[v] == static_cast<int>(i)) {
+            // An output equal to its own bit (a word operation's result written as the source
+            // wrote it: `assign w1 = a - b;`) reads nothing; the bit is not read by it.
+            const VarRef& r = inputRefs_[v];
+            if (r.signal.empty() || r.signal != outs_[i].bit.signal || r.offset != outs_[i].bit.offset) record(r);
+        } else if (definer_[v] == static_cast<int>(i)) expand(v);
         else if (refs_[v] && !isWire_[v]) record(*refs_[v]);
         else if (!refs_[v] && net_.isLogic(v)) expand(v);   // written inline (a withdrawn name's logic)
     }

@@ -11,10 +11,11 @@ Icarus cannot compile is split in halves until the rewrite at fault is found.
 
     python3 tests/randrtl/campaign.py --kerf build/kerf --seed 1 --count 3000 [--batch 100]
         [--features default|all|name,-name] [--shape mixed|decoder] [--jobs 2] [--lint] [--save DIR]
-        [--kerf-args "--effort thorough --goal depth"]
+        [--kerf-args="--effort thorough --goal depth"]   (with `=`: the value starts with `--`)
 
 Prints counts: modules, passed, rewritten, unchanged, mismatches, failures to build, deleted
-declarations, internal errors, failures on kerf's own output, refusals by reason, undecided
+declarations, comments the rewrite lost, repeated or parted from their signal's assignment (the
+generator's "comment" construct), internal errors, failures on kerf's own output, refusals by reason, undecided
 proofs, time, and how many modules contain each construct. Exit status 1 when any module
 mismatches, fails on kerf's own output or hits an internal error.
 """
@@ -38,7 +39,7 @@ import randdec  # noqa: E402
 import outside_check as O  # noqa: E402
 
 # Outcome kinds of one module. The first group are kerf bugs; the second are accepted answers.
-BUG_KINDS = ("mismatch", "x-pessimism", "build", "decl", "internal", "own-output", "lint")
+BUG_KINDS = ("mismatch", "x-pessimism", "build", "decl", "comment", "internal", "own-output", "lint")
 OK_KINDS = ("pass", "unchanged", "refused", "undecided")
 
 
@@ -156,6 +157,48 @@ def simulate_group(items, work):
     return out
 
 
+NOTE = re.compile(r"note (c\d+): (drives (\w+)|item)")
+
+
+def comment_problems(text, new_text):
+    """The author's comments the rewrite lost, repeated or parted from their logic (issue 10: no
+    comment is deleted or left orphaned; one on or above an assignment goes above the new
+    assignment of the same signal, or into the block's note of replaced code when that signal
+    has no assignment of its own in the new text; docs/guide.md). The generator's comments
+    (randmod "comment") name the signal their line drives."""
+    lines = new_text.split("\n")
+    problems = []
+    for m in NOTE.finditer(text):
+        tag, signal = m.group(1), m.group(3)
+        at = [i for i, ln in enumerate(lines) if re.search(r"note %s:" % tag, ln)]
+        if len(at) != 1:
+            problems.append(f"comment {tag} appears {len(at)} times")
+            continue
+        if not signal:
+            continue
+        i = at[0]
+        drives = re.compile(r"\b%s\b(\s*\[[^\]]*\])*\s*=(?!=)" % signal)
+
+        def code(ln):
+            return re.sub(r"/\*.*?\*/", " ", ln).split("//")[0]
+        if drives.search(code(lines[i])):
+            continue
+        j = i + 1
+        while j < len(lines) and (not lines[j].strip() or lines[j].strip().startswith("//")):
+            j += 1
+        if j < len(lines) and drives.search(code(lines[j])):
+            continue
+        k = i
+        while k >= 0 and lines[k].strip().startswith("//"):
+            if "comments of the replaced code" in lines[k]:
+                break
+            k -= 1
+        if k >= 0 and "comments of the replaced code" in lines[k]:
+            continue
+        problems.append(f"comment {tag} (drives {signal}) is at line {i + 1}, away from {signal}'s assignment")
+    return problems
+
+
 def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=None, extra=()):
     """Run every (text, desc) through kerf and Icarus; returns [Outcome]."""
     src_dir = os.path.join(work, "src")
@@ -198,6 +241,7 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
                     # block keeps it (F324).
                     lost += ["the block label " + lb for lb in re.findall(r"\bbegin\s*:\s*(\w+)", text)
                              if not re.search(r"\bbegin\s*:\s*" + lb + r"\b", new_text)]
+                    notes = comment_problems(text, new_text)
                     sim_desc = dict(desc, internals=[s for s in desc["internals"] if s["name"] in declared])
                     ref = os.path.join(sim_dir, name + "_ref.sv")
                     new = os.path.join(sim_dir, name + "_new.sv")
@@ -211,16 +255,18 @@ def check_modules(kerf, modules, work, jobs=1, lint=False, batch=100, progress=N
                         new_text = pkg.sub(desc["package"] + "_new", new_text)
                     open(ref, "w").write(ref_text)
                     open(new, "w").write(new_text)
-                    to_sim.append((sim_desc, ref, new, src, out, lost))
+                    to_sim.append((sim_desc, ref, new, src, out, lost, notes))
             if progress:
                 progress(n)
     for i in range(0, len(to_sim), batch):
         group = to_sim[i:i + batch]
-        res = simulate_group([(d, r, n) for d, r, n, _, _, _ in group], work)
-        for desc, ref, new, src, out, lost in group:
+        res = simulate_group([(d, r, n) for d, r, n, _, _, _, _ in group], work)
+        for desc, ref, new, src, out, lost, notes in group:
             kind, detail = res[desc["name"]]
             if kind == "pass" and lost:
                 kind, detail = "decl", "the rewrite no longer declares " + ", ".join(lost)
+            if kind == "pass" and notes:
+                kind, detail = "comment", "; ".join(notes)
             if kind == "pass" and lint:
                 ok_a, warn_a, _ = O.lint([src], desc["name"])
                 ok_b, warn_b, text_b = O.lint([out], desc["name"])
@@ -241,6 +287,7 @@ def summarize(outcomes, modules, seconds):
              f"  x-pessimism (original 0/1 where the rewrite shows x): {kinds['x-pessimism']}",
              f"  rewrites Icarus cannot build: {kinds['build']}",
              f"  rewrites that delete a declaration: {kinds['decl']}",
+             f"  rewrites that lose, repeat or misplace a comment: {kinds['comment']}",
              f"  new Verilator warnings: {kinds['lint']}",
              f"  internal errors (exit 5 or a crash): {kinds['internal']}",
              f"  failures on kerf's own output reported as bad input (exit 2): {kinds['own-output']}",
@@ -276,7 +323,7 @@ def main():
     p.add_argument("--lint", action="store_true", help="also compare Verilator -Wall warnings")
     p.add_argument("--save", default="", help="copy every failing module, rewrite and log here")
     p.add_argument("--json", default="", help="write the outcomes as JSON to this file")
-    p.add_argument("--kerf-args", default="", help="more restructure options, e.g. '--effort thorough'")
+    p.add_argument("--kerf-args", default="", help="more restructure options, e.g. --kerf-args='--effort thorough' (--min-gain 0 is always given)")
     a = p.parse_args()
     features = randmod.parse_features(a.features)
     kerf = os.path.abspath(a.kerf)

@@ -23,6 +23,7 @@ Every generated module comes with a description: ports, internal signals, clock 
 parameter overrides to simulate, and the constructs it contains (for the coverage counts).
 """
 import argparse
+import re
 import random
 
 # Constructs the generator can use. "default" is every construct whose kerf behaviour is
@@ -59,6 +60,7 @@ FEATURES = {
     "package": "a package of constants, an enum type and a function, imported or named by scope",
     "sysfunc": "$countones, $onehot and $onehot0 on expressions",
     "alwaysstar": "Verilog-2001 `always @*` blocks beside `always_comb`",
+    "comment": "the author's comments on and above assignments and case items (`// note c3: drives w2`)",
 }
 DEFAULT_OFF = {"param", "xcompare", "divconst", "oob"}
 # Each module draws its own subset of the enabled constructs, so that one construct that kerf
@@ -132,6 +134,7 @@ class ModuleGen:
         self.counter = 0
         self.label_rng = random.Random(f"kerf-randmod-{seed}-{index}-label-draws")
         self.labels = 0
+        self.comment_rng = random.Random(f"kerf-randmod-{seed}-{index}-comment-draws")
         self.loop_var = None        # (name, bound) inside a generated for loop
         self.pkg = f"{self.name}_pkg"
         self.pkg_consts = []        # (name, width) of the package's constants, once it has some
@@ -548,6 +551,38 @@ class ModuleGen:
             return "  always @* begin" + label
         return "  always_comb begin" + label
 
+    # An assignment line (`assign w3 = ...;` or `  w3[1] = ...;` in a block) and a case item
+    # line (`4'd3: w1 = ...;`, `default: ...`).
+    ASSIGN_LINE = re.compile(r"^(\s*)(?:assign\s+)?(\w+)(?:\[[^\]]*\])*\s*=[^=].*;$")
+    ITEM_LINE = re.compile(r"^(\s*)(?:default|[\w'.]+(?:\s*,\s*[\w'.]+)*)\s*:\s*(?!begin\b).*;$")
+
+    def commented(self, code):
+        """The code with the author's comments: on the line of an assignment or directly above
+        it, each saying which signal that assignment drives (`// note c3: drives w2`), and on
+        case item lines (`// note c4: item`). Draws and numbers of their own, so every other
+        draw of a seed stays as it was. The campaign checks that each comment survives once and
+        stays with the signal it names (tests/randrtl/campaign.py, `comment_problems`)."""
+        out, rng, n = [], self.comment_rng, 0
+        for line in code:
+            m = self.ASSIGN_LINE.match(line)
+            item = None if m else self.ITEM_LINE.match(line)
+            r = rng.random()
+            if m and m.group(2) not in ("begin", "end", "if", "else", "for", "case"):
+                if r < 0.2:
+                    n += 1
+                    line += f"  // note c{n}: drives {m.group(2)}"
+                elif r < 0.35:
+                    n += 1
+                    out.append(f"{m.group(1)}// note c{n}: drives {m.group(2)}")
+                if r < 0.35:
+                    self.use("comment")
+            elif item and r < 0.3:
+                n += 1
+                line += f"  // note c{n}: item"
+                self.use("comment")
+            out.append(line)
+        return out
+
     def package(self):
         """A package with two constants, a function over one of them and (if enums are on) room for
         the enum type; the module imports it, and some reads name it by scope."""
@@ -746,7 +781,10 @@ class ModuleGen:
         decls += typedefs
         decls += [f"  {self.decl_of(s)} {s.name};" for s in internals]
         pkg = self.pkg_lines + ["endpackage", ""] if self.pkg_lines else []
-        text = "\n".join(pkg + head + decls + self.lines + body + ff + ["endmodule", ""])
+        code = self.lines + body + ff
+        if "comment" in self.f:
+            code = self.commented(code)
+        text = "\n".join(pkg + head + decls + code + ["endmodule", ""])
         ports = []
         if clock:
             ports += [{"name": clock, "dir": "in", "width": 1, "signed": False},

@@ -26,11 +26,11 @@ import campaign  # noqa: E402
 import randmod  # noqa: E402
 
 
-def outcome(kerf, text, desc, work):
+def outcome(kerf, text, desc, work, lint=False):
     """The campaign's verdict on one module text: (kind, detail)."""
     d = tempfile.mkdtemp(dir=work)
     try:
-        res = campaign.check_modules(kerf, [(text, desc)], d)
+        res = campaign.check_modules(kerf, [(text, desc)], d, lint=lint)
         return res[0].kind, res[0].detail or res[0].reason
     finally:
         shutil.rmtree(d, ignore_errors=True)
@@ -79,7 +79,7 @@ def blocks(lines):
     return out
 
 
-def reduce(kerf, text, desc, kind, work, log=print):
+def reduce(kerf, text, desc, kind, work, log=print, lint=False):
     lines = text.splitlines()
     changed = True
     tries = 0
@@ -91,7 +91,7 @@ def reduce(kerf, text, desc, kind, work, log=print):
                 continue
             cand = lines[:start] + lines[end:]
             tries += 1
-            k, _ = outcome(kerf, "\n".join(cand) + "\n", desc, work)
+            k, _ = outcome(kerf, "\n".join(cand) + "\n", desc, work, lint)
             if k == kind:
                 lines = cand
                 changed = True
@@ -108,6 +108,7 @@ def main():
     p.add_argument("--features", default="all")
     p.add_argument("--file", default="", help="reduce this generated module instead (e.g. one a campaign saved)")
     p.add_argument("--params", default="", help="with --file: a parameter set to simulate too, e.g. P0=9")
+    p.add_argument("--lint", action="store_true", help="also compare Verilator warnings (to reduce a lint finding)")
     p.add_argument("-o", "--output", default="")
     a = p.parse_args()
     kerf = os.path.abspath(a.kerf)
@@ -120,12 +121,12 @@ def main():
         text, desc = randmod.generate(a.seed, a.index, randmod.parse_features(a.features))
     work = tempfile.mkdtemp(prefix="kerf-reduce-")
     try:
-        kind, detail = outcome(kerf, text, desc, work)
+        kind, detail = outcome(kerf, text, desc, work, a.lint)
         print(f"module {desc['name']}: {kind}")
         if kind not in campaign.BUG_KINDS:
             return
-        small = reduce(kerf, text, desc, kind, work, log=lambda m: print(m, file=sys.stderr))
-        kind2, detail2 = outcome(kerf, small, desc, work)
+        small = reduce(kerf, text, desc, kind, work, log=lambda m: print(m, file=sys.stderr), lint=a.lint)
+        kind2, detail2 = outcome(kerf, small, desc, work, a.lint)
         if a.output:
             open(a.output, "w").write(small)
         print(small)
