@@ -221,6 +221,7 @@ class Conv:
         self.local_list = []      # LOCAL entries
         self.local_names = set()
         self.loop_syms = {}       # module variable used as the active loop variable -> depth
+        self.loop_ranges = {}     # loop variable of an enclosing counting loop -> (first, last)
         self.localized = {}       # name of a module variable treated as a loop local -> symbol index
         self.outside = set()      # names of module variables used outside such loops
         self.lvref = None         # target of the compound assignment being converted
@@ -670,6 +671,8 @@ class Conv:
         ct = v.type.canonicalType
         if ct.kind != SK.FixedSizeUnpackedArrayType or not ct.elementType.isIntegral:
             return None
+        if sel.kind == EK.NamedValue and sel.symbol in self.loop_ranges:
+            return self.loop_table_entry(e, *self.loop_ranges[sel.symbol])
         st = sel.type
         if not st.isIntegral or st.isSigned:
             return None
@@ -705,6 +708,100 @@ class Conv:
             eq = self.add(["binary", bit] + sp + ["==", idx, self.const(format(k, "0%db" % w), False)])
             out = self.add(["cond", ti] + sp + [eq, entry, out])
         return out
+
+    def table_values(self, e):
+        """(values, left, right) of the constant unpacked array `e.value` reads, or None."""
+        v = e.value
+        ct = v.type.canonicalType
+        try:
+            cv = v.eval(ast.EvalContext(self.d.body)).value
+        except Exception:    # slang raises when the array is not a constant
+            return None
+        if not isinstance(cv, list) or not cv:
+            return None
+        values = [x.value for x in cv]
+        if not all(isinstance(x, pyslang.SVInt) for x in values):
+            return None
+        left, right = ct.range.left, ct.range.right
+        if len(values) != abs(left - right) + 1:
+            return None
+        return values, left, right
+
+    def loop_table_entry(self, e, first, last):
+        """`TBL[i]` where i is the variable of an enclosing counting loop that runs from
+        `first` to `last`, both inside the table (`for (int i = 0; i < N; i++) ...
+        (addr & MASK[i]) == BASE[i]`, an address map in a localparam array): a choice among
+        the entries the loop reaches, `i == first ? TBL[first] : ... : TBL[last]`, which the
+        unrolled loop folds to one entry per pass. No read can fall outside the table, so no x
+        by the language's rules is lost. None when the table is not a constant."""
+        got = self.table_values(e)
+        if got is None:
+            return None
+        values, left, right = got
+        lo, hi = min(left, right), max(left, right)
+        if first < lo or last > hi or first > last:
+            return None
+        ti = self.type_of(e)
+        width = e.type.bitWidth
+        sel = e.selector
+        w, sg = self.types.width_signed(self.types.of(sel.type))
+        idx = self.expr(sel)
+        bit = self.types.vector(1, False)
+        sp = list(self.span(e))
+        at = (lambda k: k - left) if left <= right else (lambda k: left - k)   # index -> list position
+        out = self.const_of_type(sv_bits(values[at(last)], width), ti, e)
+        for k in range(last - 1, first - 1, -1):
+            entry = self.const_of_type(sv_bits(values[at(k)], width), ti, e)
+            eq = self.add(["binary", bit] + sp + ["==", idx, self.const(format(k & ((1 << w) - 1), "0%db" % w), sg)])
+            out = self.add(["cond", ti] + sp + [eq, entry, out])
+        return out
+
+    def counting_range(self, s):
+        """(variable, first, last) of `for (int i = A; i < B; i++)` (or `<=`, `++i`, `i += 1`)
+        with constant A and B whose body does not write i; None for any other loop."""
+        if len(s.loopVars) != 1 or s.initializers or len(s.steps) != 1 or s.stopExpr is None:
+            return None
+        v = s.loopVars[0]
+        if v.initializer is None:
+            return None
+        first = self.d.const_int(v.initializer)
+        stop = s.stopExpr
+        if stop.kind != EK.BinaryOp or stop.op not in (ast.BinaryOperator.LessThan, ast.BinaryOperator.LessThanEqual):
+            return None
+        left = stop.left
+        while left.kind == EK.Conversion:      # `i < N` with an unsigned N converts i
+            left = left.operand
+        if left.kind != EK.NamedValue or left.symbol is not v:
+            return None
+        bound = self.d.const_int(stop.right)
+        if first is None or bound is None:
+            return None
+        last = bound - 1 if stop.op == ast.BinaryOperator.LessThan else bound
+        step = s.steps[0]
+        if step.kind == EK.UnaryOp:
+            if step.op not in (ast.UnaryOperator.Postincrement, ast.UnaryOperator.Preincrement):
+                return None
+            target = step.operand
+        elif step.kind == EK.Assignment and step.isCompound and step.op == ast.BinaryOperator.Add:
+            target = step.left
+            if self.d.const_int(step.right.operand if step.right.kind == EK.BinaryOp else step.right) != 1:
+                return None
+        else:
+            return None
+        if target.kind != EK.NamedValue or target.symbol is not v:
+            return None
+        written = []
+
+        def cb(n):
+            if isinstance(n, ast.AssignmentExpression) and n.left.kind == EK.NamedValue and n.left.symbol is v:
+                written.append(n)
+            elif isinstance(n, ast.UnaryExpression) and n.op in (
+                    ast.UnaryOperator.Postincrement, ast.UnaryOperator.Preincrement,
+                    ast.UnaryOperator.Postdecrement, ast.UnaryOperator.Predecrement) and \
+                    n.operand.kind == EK.NamedValue and n.operand.symbol is v:
+                written.append(n)
+        s.body.visit(cb)
+        return None if written else (v, first, last)
 
     def x_element(self, e, lvalue=False):
         v = e.value
@@ -1401,6 +1498,9 @@ class Conv:
     def for_loop(self, s):
         pushed = []
         init = []
+        counting = self.counting_range(s)
+        if counting is not None:
+            self.loop_ranges[counting[0]] = counting[1:]
         try:
             for v in s.loopVars:
                 name, idx = self.add_local(v)
@@ -1438,6 +1538,8 @@ class Conv:
         finally:
             for sym in pushed:
                 del self.loop_syms[sym]
+            if counting is not None:
+                del self.loop_ranges[counting[0]]
         loop = self.add_stmt(["for"] + self.sspan(s) + [init, cond, step, body])
         return self.add_stmt(["block"] + self.sspan(s) + [before + [loop]]) if before else loop
 

@@ -181,7 +181,14 @@ def comment_problems(text, new_text):
 
         def code(ln):
             return re.sub(r"/\*.*?\*/", " ", ln).split("//")[0]
-        if drives.search(code(lines[i])):
+        # the comment's line with the lines of the statement it ends (a rewrite's statement can
+        # span lines; a trailing comment stays on its last line)
+        k = i
+        while k > 0 and code(lines[k - 1]).strip() and \
+                not code(lines[k - 1]).rstrip().endswith((";", "begin", "end")) and \
+                not code(lines[k - 1]).lstrip().startswith(("`", "module", "//")):
+            k -= 1
+        if drives.search(" ".join(code(ln) for ln in lines[k:i + 1])):
             continue
         j = i + 1
         while j < len(lines) and (not lines[j].strip() or lines[j].strip().startswith("//")):
