@@ -1988,6 +1988,23 @@ void Writer::decide() {
         // while the others are rewritten can cost the shared logic (foreach_union, 27 -> 36).
         const bool reshuffle = gain == 0 && G.gatesBefore > 0 && litsAfter > litsBefore;
         G.replaced = enough && (gain > 0 || (opts_.minGain.value == 0 && gain >= 0 && !reshuffle));
+        // A signal whose statement reads others but whose every bit is a constant
+        // (`assign sel = acc & (a[7:3] == 0) & a[3];`, always 0) costs no gates already when
+        // read (constants fold as the network is built), so the gain is 0; its text still
+        // computes logic that does nothing, which a reviewer wants shown as the constant it is
+        // (issue 10: nothing redundant left). The rules below may still keep it (a block of
+        // constants, a constant that kept code reads).
+        if (!G.replaced && gain >= 0 && !reshuffle) {
+            std::map<std::string, bool> folds;   // signal -> every bit the group writes is constant
+            for (std::size_t i : outsOf[g]) {
+                if (outs_[i].generated || outs_[i].stmt < 0) continue;
+                if (byId_.at(outs_[i].stmt)->reads.empty()) continue;
+                bool c = literalVar(net_.outputs()[i].driver) == 0;
+                auto [it, fresh] = folds.emplace(outs_[i].bit.signal, c);
+                if (!fresh) it->second = it->second && c;
+            }
+            G.replaced = std::any_of(folds.begin(), folds.end(), [](const auto& f) { return f.second; });
+        }
         // kerf's own wire reading what an earlier run's rewrite no longer reads (`kf_unused`,
         // below its `// kerf: the restructured logic ...` note) is part of that rewrite: a second
         // run keeps it as written (under --min-gain 0 it came back as a literal beside a new one).
