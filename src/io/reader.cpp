@@ -88,6 +88,11 @@ ReaderOutput runReader(const std::vector<std::string>& args) {
     if (access(script.c_str(), R_OK) != 0)
         throw Error(fmt::format("the Verilog reader '{}' is missing or unreadable: {} (reinstall kerf, or set "
                                 "KERF_READER)", script, std::strerror(errno)), {}, ExitCode::ToolMissing);
+    // Python runs a directory as a package and fails with its own exit 1, the code of "the
+    // design has errors": the wrong message. KERF_READER names the script itself.
+    if (std::error_code ec; !std::filesystem::is_regular_file(script, ec))
+        throw Error(fmt::format("the Verilog reader '{}' is not a file (set KERF_READER to the path of "
+                                "kerf_read.py, or reinstall kerf)", script), {}, ExitCode::ToolMissing);
     std::vector<std::string> argv{pythonInterpreter(), script};
     argv.insert(argv.end(), args.begin(), args.end());
     ProcessResult r = runCaptured(argv);

@@ -318,6 +318,14 @@ def _(t):
                    env_extra={"KERF_PYTHON": "/nonexistent/python3"})
 
 
+@S.case("reader_path_is_a_directory")
+def _(t):
+    # Python runs a directory as a package and exits 1 on its own, the reader's code for "the
+    # design has errors": kerf names the wrong setting instead of blaming the design (F356).
+    expect_failure(t, ["samples/uart_regsel.v"], [], 4, r"the Verilog reader '.*' is not a file",
+                   env_extra={"KERF_READER": os.path.join(t.root, "src", "reader")})
+
+
 @S.case("pyslang_missing")
 def _(t):
     env = fake_python_module(t, "pyslang.py", "raise ImportError('No module named pyslang (stand-in)')\n")
