@@ -2057,10 +2057,12 @@ void Writer::decide() {
             for (const auto& [sig, constant] : allConstant) {
                 if (!constant) continue;
                 // (A member's id is its position, checked when the description is read.)
+                // (Named here: a lambda cannot capture a structured binding before clang 16.)
+                const std::string& signal = sig;
                 const auto reader = std::find_if(low_.kept.begin(), low_.kept.end(), [&](const auto& k) {
                     if (k.member < 0 || static_cast<std::size_t>(k.member) >= m_.members.size()) return false;
                     const auto& reads = m_.members[static_cast<std::size_t>(k.member)].reads;
-                    return std::find(reads.begin(), reads.end(), sig) != reads.end();
+                    return std::find(reads.begin(), reads.end(), signal) != reads.end();
                 });
                 if (reader == low_.kept.end()) continue;
                 G.replaced = false;
