@@ -142,6 +142,10 @@ const std::vector<LimitInfo>& limitTable() {
               "1: from regroup-lazy-gates gates on, one regroup valuation bounds the gain of every growth on that "
               "network, and a kept regroup move lowers them all (0: each growth valued on its own)",
               &EngineLimits::regroupFamily),
+        field("regroup-last",
+              "1: from regroup-lazy-gates gates on, a regroup move is valued only when no other technique's recorded "
+              "gain reaches the smallest gain kept (0: ranked by recorded gain like the others)",
+              &EngineLimits::regroupLast),
         field("opening-moves",
               "whole-network extraction moves (cubes or divisors, the better) made first, while they pay",
               &EngineLimits::openingMoves),
@@ -468,10 +472,14 @@ public:
             version_ = version;
             currentGates_ = current.gates;
             // The source with the highest recorded gain (stale or fresh).
+            // Regroup moves wait while another technique's recorded gain
+            // reaches the smallest gain kept (regroupsWait, F325).
+            const bool waitRegroups = regroupsWait(sources, current);
             Source* best = nullptr;
             bool allFresh = true;
             for (Source& s : sources) {
                 if (leftOut(s)) continue;   // it keeps finding nothing
+                if (waitRegroups && s.growth >= 0) continue;
                 if (s.valuedAt != version) allFresh = false;
                 if (!best || s.estimate > best->estimate ||
                     (s.estimate == best->estimate && best->valuedAt == version && s.valuedAt != version) ||
@@ -498,7 +506,7 @@ public:
                 // Fresh sources gain nothing; re-value a stale one.
                 best = nullptr;
                 for (Source& s : sources)
-                    if (!leftOut(s) && s.valuedAt != version &&
+                    if (!leftOut(s) && s.valuedAt != version && !(waitRegroups && s.growth >= 0) &&
                         (!best || s.estimate > best->estimate))
                         best = &s;
             }
@@ -693,6 +701,21 @@ private:
     // 0.01% each.
     bool lazyRegroups(std::size_t gates) const {
         return opts_.limits.regroupLazyGates > 0 && gates >= opts_.limits.regroupLazyGates;
+    }
+    // Regroup last (limit regroup-last, F325): on a network of at least
+    // regroup-lazy-gates gates, regroup moves are not valued while another
+    // technique's recorded gain, fresh or stale, reaches the smallest gain
+    // kept. A regroup valuation dissolves and re-optimises the whole
+    // network (about 6 CPU s on the 100k decoder, against 1-2 for a cube
+    // extraction); valued first, as a never-valued source, its result was
+    // lost when a cheaper move gaining a little more was kept on the same
+    // network, and it had to be valued again on the next one. Valued last,
+    // it is what gets the network out of the state the cheaper moves leave.
+    bool regroupsWait(const std::vector<Source>& sources, const net::Metrics& current) const {
+        if (!opts_.limits.regroupLast || !lazyRegroups(current.gates)) return false;
+        for (const Source& s : sources)
+            if (s.growth < 0 && !leftOut(s) && s.estimate >= minGain(current)) return true;
+        return false;
     }
     bool dormant(const Source& s) const {
         return s.growth >= 0 && lazyRegroups(currentGates_) && (s.valuedAt >= 0 || s.familyBound) &&
@@ -1033,7 +1056,7 @@ void setLimit(EngineLimits& limits, const std::string& assignment) {
     if ((name == "dc-exhaustive-inputs" || name == "bresub-exhaustive-inputs") && n > 20)
         throw Error(fmt::format("limit {}: at most 20", name));
     if ((name == "kernels" || name == "implied-dont-cares" || name == "changed-region" ||
-         name == "changed-regroup" || name == "regroup-family") && n > 1)
+         name == "changed-regroup" || name == "regroup-family" || name == "regroup-last") && n > 1)
         throw Error(fmt::format("limit {}: 0 or 1", name));
     info->set(limits, n);
 }

@@ -12,6 +12,7 @@
 // taken (lazy greedy), so earlier extractions are accounted for.
 #include "kerf/passes/share_cubes.h"
 
+#include "regions.h"
 #include "workspace.h"
 
 #include <algorithm>
@@ -500,6 +501,7 @@ bool holdersByPairs(std::size_t count, LitsOf litsOf, HoldingSize holdingSize,
 }
 
 void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassContext& ctx) {
+    const double tStart = ctx.verbose >= 2 ? detail::cpuNow() : 0;
     auto tablePtr = std::make_unique<CubeTable>(net, ctx.depthCap);
     std::vector<std::uint32_t> sharedCount, seen;
     std::vector<std::size_t> cursor;   // per literal: where the cubes after the current one begin
@@ -509,8 +511,18 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
     long tableLits = 0;
     for (const auto& r : tablePtr->cubes()) tableLits += static_cast<long>(r.lits.size());
     int passesMade = 0;
+    // CPU s per phase of the pass (-v -v): laying out the table, the
+    // candidate search, the holders, the extractions.
+    double tTable = ctx.verbose >= 2 ? detail::cpuNow() - tStart : 0, tCand = 0, tHold = 0, tExtract = 0;
     for (int pass = 0; pass < std::max(1, opts.passes); ++pass) {
         ++passesMade;
+        double tMark = ctx.verbose >= 2 ? detail::cpuNow() : 0;
+        auto lap = [&](double& into) {
+            if (ctx.verbose < 2) return;
+            const double now = detail::cpuNow();
+            into += now - tMark;
+            tMark = now;
+        };
         if (pass > 0) {
             // The covers as the last pass left them, laid out again in
             // topological order and re-timed, as a separate move would see
@@ -521,6 +533,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
             work = 0;
             exhausted = false;
         }
+        lap(tTable);
         CubeTable& table = *tablePtr;
         auto& cubes = table.cubes();
         const long savedBefore = saved;
@@ -563,6 +576,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
                 }
             }
             candIndex = CandidateIndex{};
+            lap(tCand);
             candidates += static_cast<long>(cand.size());
             std::vector<std::pair<long, Cube>> ranked;
             ranked.reserve(cand.size());
@@ -597,6 +611,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
                 if (byPairs) holders[k] = std::move(acc);
                 else holders.push_back(std::move(acc));
             }
+            lap(tHold);
             long roundSaved = 0;
             std::vector<std::uint8_t> requeued(list.size(), 0);
             while (!heap.empty()) {
@@ -628,14 +643,18 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
                 saved += gain;
                 roundSaved += gain;
             }
+            lap(tExtract);
             if (roundSaved == 0 || exhausted) break;
         }
         anyExhausted = anyExhausted || exhausted;
         const long passSaved = saved - savedBefore;
         const bool pays = passSaved > 0 && passSaved * 1000 >= static_cast<long>(opts.passMinPermille) * tableLits;
         if (ctx.verbose >= 2 && opts.passes > 1)
-            std::fprintf(stderr, "kerf:   cube extraction pass %d saved %ld of %ld literals%s\n", pass + 1, passSaved,
-                         tableLits, exhausted ? " (cubes-work reached)" : "");
+            std::fprintf(stderr,
+                         "kerf:   cube extraction pass %d saved %ld of %ld literals%s; cpu s so far: table %.2f, "
+                         "candidates %.2f, holders %.2f, extracting %.2f\n",
+                         pass + 1, passSaved, tableLits, exhausted ? " (cubes-work reached)" : "", tTable, tCand,
+                         tHold, tExtract);
         tableLits -= passSaved;
         if (!pays) break;
     }

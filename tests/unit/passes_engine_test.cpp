@@ -39,6 +39,9 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     EXPECT_EQ(l.regroupLazyGates, 0u);
     setLimit(l, "regroup-family=0");
     EXPECT_FALSE(l.regroupFamily);
+    EXPECT_TRUE(l.regroupLast);
+    setLimit(l, "regroup-last=0");
+    EXPECT_FALSE(l.regroupLast);
     EXPECT_GT(limitsFor(Effort::Fast).wholeCubesMax, 0u) << "fast leaves cube extraction on huge networks to the regions";
     try {
         setLimit(l, "collapse-all=1");
@@ -51,7 +54,7 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     }
     for (const char* bad : {"trials", "trials=", "trials=lots", "trials=0", "max-growth=-1", "kernels=2",
                             "dc-max-fanins=17", "trials=3x", "changed-region=2", "changed-radius=-1",
-                            "regroup-family=2"})
+                            "regroup-family=2", "regroup-last=2"})
         EXPECT_THROW(setLimit(l, bad), Error) << bad;
     EXPECT_THROW(parseGoal("area"), Error);
     EXPECT_THROW(parseEffort("extreme"), Error);
@@ -61,7 +64,7 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     for (const char* name : {"trials", "max-growth", "regroup-trials", "dc-cone-limit", "minimise-heuristic-steps",
                              "opening-moves", "readmit-permille", "changed-region", "changed-radius",
                              "changed-walk-degree", "changed-full-permille", "changed-regroup", "whole-cubes-max",
-                             "regroup-lazy-gates", "regroup-family"})
+                             "regroup-lazy-gates", "regroup-family", "regroup-last"})
         EXPECT_NE(d.find(name), std::string::npos) << name;
 }
 
@@ -503,6 +506,62 @@ TEST(PassesEngine, OneRegroupValuationStandsForItsFamilyOnLargeNetworks) {
     }
     EXPECT_GT(checked, 0);
     EXPECT_GT(fewer, 0) << "valuing each growth on its own costs more regroup valuations somewhere";
+}
+
+TEST(PassesEngine, RegroupMovesComeLastOnLargeNetworks) {
+    // Limit regroup-last (F325): from regroup-lazy-gates gates on, a regroup
+    // move is valued only when no other technique's recorded gain reaches
+    // the smallest gain kept. Either way the result keeps its functions and
+    // every kept move improves on the one before (common trade practice for
+    // a greedy optimiser; sameFunctions compares by simulation). Over the
+    // seeds the rule changes the run somewhere and values regroup moves no
+    // more often; below the bound it changes nothing.
+    int differ = 0, regroupsLast = 0, regroupsFirst = 0;
+    for (std::uint32_t seed = 1; seed <= 6; ++seed) {
+        Network n = randomAig(160 + seed, 12, 400, 8);
+        tidy(n);
+        auto regroupTrials = [](const EngineResult& r) {
+            int t = 0;
+            for (const TechniqueRow& row : r.techniques)
+                if (row.technique.rfind("regroup", 0) == 0) t += row.trials;
+            return t;
+        };
+        EngineOptions last;
+        last.limits.regroupLazyGates = 1;
+        Network a = n;
+        const EngineResult ra = restructure(a, last);
+        EngineOptions ranked = last;
+        ranked.limits.regroupLast = false;
+        Network b = n;
+        const EngineResult rb = restructure(b, ranked);
+        EXPECT_EQ(sameFunctions(n, a), "") << "seed " << seed;
+        EXPECT_EQ(sameFunctions(n, b), "") << "seed " << seed;
+        for (const EngineResult* r : {&ra, &rb}) {
+            net::Metrics prev = r->before;
+            for (const MoveRow& m : r->moves) {
+                EXPECT_TRUE(m.after.gates < prev.gates ||
+                            (m.after.gates == prev.gates && m.after.literals < prev.literals))
+                    << m.technique;
+                prev = m.after;
+            }
+        }
+        regroupsLast += regroupTrials(ra);
+        regroupsFirst += regroupTrials(rb);
+        differ += regroupTrials(ra) != regroupTrials(rb) || ra.after.gates != rb.after.gates;
+        // Below the bound nothing changes.
+        EngineOptions high = last;
+        high.limits.regroupLazyGates = 1000000;
+        EngineOptions highRanked = high;
+        highRanked.limits.regroupLast = false;
+        Network c = n, d = n;
+        const EngineResult rc = restructure(c, high);
+        const EngineResult rd = restructure(d, highRanked);
+        EXPECT_EQ(regroupTrials(rc), regroupTrials(rd)) << "seed " << seed;
+        EXPECT_EQ(rc.after.gates, rd.after.gates) << "seed " << seed;
+        EXPECT_EQ(rc.moves.size(), rd.moves.size()) << "seed " << seed;
+    }
+    EXPECT_GT(differ, 0) << "the rule acts somewhere";
+    EXPECT_LE(regroupsLast, regroupsFirst) << "regroup moves valued last are valued no more often over the seeds";
 }
 
 TEST(PassesEngine, WholeCubeExtractionIsLeftToRegionsAboveItsBound) {

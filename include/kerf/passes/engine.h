@@ -64,6 +64,13 @@ struct EngineLimits {
     /// regroup move's recorded gain, its own included (F255). false: each
     /// growth is valued on its own (F144's rule only).
     bool regroupFamily = true;
+    /// From regroupLazyGates gates on, a regroup move is valued only when
+    /// no other technique's recorded gain (fresh or from an earlier network)
+    /// reaches the smallest gain kept: regrouping re-optimises the whole
+    /// dissolved network, so it comes when the cheaper moves have run out,
+    /// and its valuation is not lost to a cheaper move kept right after it
+    /// (F325). false: regroup moves are ranked by recorded gain like the rest.
+    bool regroupLast = true;
     /// A move is kept only when it saves at least this many thousandths of
     /// the current gates (and at least something); smaller gains end the run.
     int minGainPermille = 2;
