@@ -31,6 +31,17 @@ using algebra::literalVar;
 
 namespace {
 
+/// A cube's sorted literals where they are stored (a table's arena, a cover).
+struct LitView {
+    const Literal* p = nullptr;
+    std::uint32_t n = 0;
+    const Literal* begin() const { return p; }
+    const Literal* end() const { return p + n; }
+    std::size_t size() const { return n; }
+    Literal operator[](std::size_t i) const { return p[i]; }
+    Literal back() const { return p[n - 1]; }
+};
+
 /// Partners of cube i in one sorted occurrence list: the cubes after i (each
 /// pair once, from its first cube), and with a changed region also the cubes
 /// before i that lie outside it (a pair of which only the later cube is in
@@ -180,13 +191,21 @@ std::vector<std::uint32_t> indexedCubes(const Cube& I, const std::unordered_map<
 // products: a node may get later only up to the bound and only when no
 // other node reads it (its readers' times are not re-propagated), which is
 // stricter than the workspace's check, never looser.
+//
+// The cubes' literals live in blocks of one arena, in the table's order, not
+// in a heap vector per cube (F326): the table of the 100k decoder's input
+// holds 100,000 cubes, and the candidate search reads a partner's literals
+// for every pair it meets. An extraction only shortens a cube (|I| literals
+// become one), so it rewrites the cube's literals where they are.
 class CubeTable {
 public:
     struct Rec {
         net::NodeId node;
-        std::vector<Literal> lits;   // sorted
+        Literal* at;                 // n sorted literals in the arena
+        std::uint32_t n;
         std::uint32_t arrival;       // as last timed (an upper bound once fanins got earlier)
         bool live;
+        LitView lits() const { return {at, n}; }
     };
 
     CubeTable(net::Network& net, std::size_t cap) : net_(net), cap_(cap) {
@@ -194,7 +213,15 @@ public:
         const std::vector<net::NodeId> order = net.topoOrder();
         at_.assign(net.nodeCount(), 0);
         for (net::NodeId in : net.inputs()) at_[in] = net.node(in).arrival;
-        for (net::NodeId v : order) at_[v] = net::sopCost(net.node(v).cover, at_).arrival;
+        std::size_t literals = 0, count = 0;
+        for (net::NodeId v : order) {
+            const net::SopCost sc = net::sopCost(net.node(v).cover, at_);
+            at_[v] = sc.arrival;
+            for (const Cube& c : net.node(v).cover.cubes) literals += c.lits.size();
+            count += net.node(v).cover.cubes.size();
+        }
+        reserveArena(literals);
+        cubes_.reserve(count);
         grow();
         for (net::NodeId v : order) {
             for (const Cube& c : net.node(v).cover.cubes) {
@@ -208,10 +235,7 @@ public:
 
     std::vector<Rec>& cubes() { return cubes_; }
     const std::vector<Rec>& cubes() const { return cubes_; }
-    const std::vector<std::uint32_t>& holding(Literal l) const {
-        static const std::vector<std::uint32_t> none;
-        return l < occ_.size() ? occ_[l] : none;
-    }
+    const std::vector<std::uint32_t>& holding(Literal l) const { return l < occ_.size() ? occ_[l] : none_; }
     std::size_t cubeCount(net::NodeId v) const { return byNode_[v].size(); }
 
     /// Rebuild the index from the live cubes (drops cubes that lost a literal).
@@ -219,8 +243,8 @@ public:
         for (auto& o : occ_) o.clear();
         for (std::uint32_t id = 0; id < cubes_.size(); ++id) {
             const Rec& r = cubes_[id];
-            if (!r.live || r.lits.size() < 2) continue;
-            for (Literal l : r.lits) occ_[l].push_back(id);
+            if (!r.live || r.n < 2) continue;
+            for (Literal l : r.lits()) occ_[l].push_back(id);
         }
     }
 
@@ -239,7 +263,7 @@ public:
         plan_.clear();
         for (std::uint32_t id : holders) {
             const Rec& r = cubes_[id];
-            if (!r.live || r.node == provider || !std::includes(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end()))
+            if (!r.live || r.node == provider || !std::includes(r.at, r.at + r.n, I.lits.begin(), I.lits.end()))
                 continue;
             plan_.push_back({r.node, id});
         }
@@ -255,7 +279,7 @@ public:
             for (std::size_t k = i; k < j; ++k) {
                 const Rec& r = cubes_[plan_[k].second];
                 --h[r.arrival];
-                const std::size_t t = arrivalWithout(r.lits, I, ax);
+                const std::size_t t = arrivalWithout(r.lits(), I, ax);
                 if (t >= h.size()) h.resize(t + 1, 0);
                 ++h[t];
             }
@@ -286,14 +310,14 @@ public:
         for (std::uint32_t id : accepted_) {
             Rec& r = cubes_[id];
             --hist_[r.node][r.arrival];
-            std::vector<Literal> rest;
-            rest.reserve(r.lits.size() - w);
-            std::set_difference(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end(), std::back_inserter(rest));
-            rest.insert(std::upper_bound(rest.begin(), rest.end(), xl), xl);
-            r.lits = std::move(rest);
-            r.arrival = static_cast<std::uint32_t>(cubeTime(r.lits));
+            rest_.clear();
+            std::set_difference(r.at, r.at + r.n, I.lits.begin(), I.lits.end(), std::back_inserter(rest_));
+            rest_.insert(std::upper_bound(rest_.begin(), rest_.end(), xl), xl);
+            std::copy(rest_.begin(), rest_.end(), r.at);   // shorter: |I| >= 2 literals became one
+            r.n = static_cast<std::uint32_t>(rest_.size());
+            r.arrival = static_cast<std::uint32_t>(cubeTime(r.lits()));
             bump(r.node, r.arrival);
-            if (r.lits.size() >= 2) occ_[xl].push_back(id);   // stale entries of I's literals are filtered on use
+            if (r.n >= 2) occ_[xl].push_back(id);   // stale entries of I's literals are filtered on use
             touched_[r.node] = 1;
         }
         for (std::size_t i = 0; i < accepted_.size(); ++i) {
@@ -309,7 +333,7 @@ public:
             if (!touched_[v]) continue;
             Cover f;
             for (std::uint32_t id : byNode_[v])
-                if (cubes_[id].live) f.cubes.push_back(Cube(cubes_[id].lits));
+                if (cubes_[id].live) f.cubes.push_back(Cube(std::vector<Literal>(cubes_[id].at, cubes_[id].at + cubes_[id].n)));
             f.normalize();
             net_.node(v).cover = std::move(f);
         }
@@ -325,7 +349,7 @@ private:
         touched_.resize(n, 0);
         occ_.resize(2 * n);
     }
-    std::size_t cubeTime(const std::vector<Literal>& lits) {
+    std::size_t cubeTime(LitView lits) {
         if (lits.size() == 1) return at_[literalVar(lits[0])];
         tmp_.clear();
         for (Literal l : lits) tmp_.push_back(at_[literalVar(l)]);
@@ -334,7 +358,7 @@ private:
         return t;
     }
     // Time of cube `lits` with I's literals replaced by one arriving at ax.
-    std::size_t arrivalWithout(const std::vector<Literal>& lits, const Cube& I, std::size_t ax) {
+    std::size_t arrivalWithout(LitView lits, const Cube& I, std::size_t ax) {
         tmp_.clear();
         tmp_.push_back(ax);
         for (Literal l : lits)
@@ -348,9 +372,23 @@ private:
         if (t >= h.size()) h.resize(t + 1, 0);
         ++h[t];
     }
+    // Room for n literals in the arena (blocks never move, so a cube's
+    // pointer stays valid as the table grows).
+    Literal* allocate(std::size_t n) {
+        if (blockUsed_ + n > blockCap_) reserveArena(std::max<std::size_t>(n, 1 << 16));
+        Literal* p = blocks_.back().get() + blockUsed_;
+        blockUsed_ += n;
+        return p;
+    }
+    void reserveArena(std::size_t n) {
+        blocks_.push_back(std::make_unique<Literal[]>(std::max<std::size_t>(n, 1)));
+        blockUsed_ = 0;
+        blockCap_ = std::max<std::size_t>(n, 1);
+    }
     void addCube(net::NodeId v, const std::vector<Literal>& lits) {
-        Rec r{v, lits, 0, true};
-        r.arrival = static_cast<std::uint32_t>(cubeTime(r.lits));
+        Rec r{v, allocate(lits.size()), static_cast<std::uint32_t>(lits.size()), 0, true};
+        std::copy(lits.begin(), lits.end(), r.at);
+        r.arrival = static_cast<std::uint32_t>(cubeTime(r.lits()));
         bump(v, r.arrival);
         byNode_[v].push_back(static_cast<std::uint32_t>(cubes_.size()));
         cubes_.push_back(std::move(r));
@@ -365,6 +403,10 @@ private:
     std::vector<net::NodeId> nodes_;
     std::vector<std::pair<net::NodeId, std::uint32_t>> plan_;
     std::vector<std::uint32_t> accepted_;
+    std::vector<Literal> rest_;
+    std::vector<std::unique_ptr<Literal[]>> blocks_;   // the arena
+    std::size_t blockUsed_ = 0, blockCap_ = 0;
+    const std::vector<std::uint32_t> none_;
 };
 
 struct LiteralsHash {
@@ -435,7 +477,7 @@ private:
 //
 // Generic over where the cubes live (F256: the in-place table, or the
 // indexed cubes of the other path): `count` cubes by id, litsOf(id) the
-// sorted literals of an indexed cube (nullptr: not indexed), holdingSize(l)
+// sorted literals of an indexed cube (empty: not indexed), holdingSize(l)
 // the length of literal l's index list.
 template <class LitsOf, class HoldingSize>
 bool holdersByPairs(std::size_t count, LitsOf litsOf, HoldingSize holdingSize,
@@ -444,8 +486,8 @@ bool holdersByPairs(std::size_t count, LitsOf litsOf, HoldingSize holdingSize,
     for (const auto& e : ranked)
         merge += static_cast<double>(holdingSize(e.second.lits[0]) + holdingSize(e.second.lits[1]));
     for (std::uint32_t id = 0; id < count; ++id) {
-        const std::vector<Literal>* l = litsOf(id);
-        if (l && l->size() >= 2) pairs += 0.5 * static_cast<double>(l->size() * (l->size() - 1));
+        const LitView l = litsOf(id);
+        if (l.size() >= 2) pairs += 0.5 * static_cast<double>(l.size() * (l.size() - 1));
     }
     if (pairs * 4 >= merge) return false;   // a hash lookup costs a few merge steps
     auto key = [](Literal a, Literal b) { return (std::uint64_t{a} << 32) | b; };
@@ -477,9 +519,8 @@ bool holdersByPairs(std::size_t count, LitsOf litsOf, HoldingSize holdingSize,
     // filed under one of its pairs is checked on its other literals only.
     std::vector<std::uint32_t> mark;
     for (std::uint32_t id = 0; id < count; ++id) {
-        const std::vector<Literal>* rl = litsOf(id);
-        if (!rl || rl->size() < 2) continue;
-        const std::vector<Literal>& lits = *rl;
+        const LitView lits = litsOf(id);
+        if (lits.size() < 2) continue;
         if (lits.back() >= mark.size()) mark.resize(static_cast<std::size_t>(lits.back()) + 1, 0);
         for (Literal l : lits) mark[l] = id + 1;
         for (std::size_t a = 0; a + 1 < lits.size(); ++a)
@@ -509,7 +550,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
     long extracted = 0, reused = 0, saved = 0, candidates = 0, work = 0, rejects = 0, pairRounds = 0;
     bool exhausted = false, cut = false, anyExhausted = false;
     long tableLits = 0;
-    for (const auto& r : tablePtr->cubes()) tableLits += static_cast<long>(r.lits.size());
+    for (const auto& r : tablePtr->cubes()) tableLits += static_cast<long>(r.n);
     int passesMade = 0;
     // CPU s per phase of the pass (-v -v): laying out the table, the
     // candidate search, the holders, the extractions.
@@ -548,10 +589,10 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
             cursor.assign(2 * net.nodeCount(), 0);
             for (std::uint32_t i = 0; i < cubes.size(); ++i) {
                 const auto& c = cubes[i];
-                if (!c.live || c.lits.size() < opts.minLiterals || !ctx.inFocus(c.node)) continue;
+                if (!c.live || c.n < opts.minLiterals || !ctx.inFocus(c.node)) continue;
                 seen.clear();
                 std::size_t scanned = 0;
-                for (Literal l : c.lits) {
+                for (Literal l : c.lits()) {
                     const auto& o = table.holding(l);
                     std::size_t start = SIZE_MAX;
                     if (l < cursor.size()) start = cursor[l] = gallopAbove(o, cursor[l], i);
@@ -566,9 +607,9 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
                     sharedCount[j] = 0;
                     if (n < opts.minLiterals || partners >= opts.partnersPerCube) continue;
                     ++partners;
-                    const auto& d = cubes[j].lits;
+                    const auto& d = cubes[j];
                     common.clear();
-                    std::set_intersection(c.lits.begin(), c.lits.end(), d.begin(), d.end(), std::back_inserter(common));
+                    std::set_intersection(c.at, c.at + c.n, d.at, d.at + d.n, std::back_inserter(common));
                     const std::size_t at = candIndex.find(common, cand);
                     if (at < cand.size()) { ++cand[at].second; continue; }
                     candIndex.add(common, cand.size());
@@ -592,7 +633,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
                 opts.holdersByPairs &&
                 holdersByPairs(
                     cubes.size(),
-                    [&](std::uint32_t id) -> const std::vector<Literal>* { return cubes[id].live ? &cubes[id].lits : nullptr; },
+                    [&](std::uint32_t id) { return cubes[id].live ? cubes[id].lits() : LitView{}; },
                     [&](Literal l) { return table.holding(l).size(); }, ranked, holders);
             pairRounds += byPairs;
             for (std::size_t k = 0; k < ranked.size(); ++k) {
@@ -625,8 +666,8 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
                 for (std::uint32_t id : holders[i]) {
                     const auto& r = cubes[id];
                     ++work;
-                    if (!r.live || !std::includes(r.lits.begin(), r.lits.end(), I.lits.begin(), I.lits.end())) continue;
-                    if (r.lits.size() == I.lits.size() && table.cubeCount(r.node) == 1) { prov = r.node; continue; }
+                    if (!r.live || !std::includes(r.at, r.at + r.n, I.lits.begin(), I.lits.end())) continue;
+                    if (r.n == I.lits.size() && table.cubeCount(r.node) == 1) { prov = r.node; continue; }
                     ++count;
                 }
                 const long w = static_cast<long>(I.lits.size()) - 1;
@@ -649,7 +690,7 @@ void shareCubesInPlace(net::Network& net, const ShareCubesOptions& opts, PassCon
         anyExhausted = anyExhausted || exhausted;
         const long passSaved = saved - savedBefore;
         const bool pays = passSaved > 0 && passSaved * 1000 >= static_cast<long>(opts.passMinPermille) * tableLits;
-        if (ctx.verbose >= 2 && opts.passes > 1)
+        if (ctx.verbose >= 2)
             std::fprintf(stderr,
                          "kerf:   cube extraction pass %d saved %ld of %ld literals%s; cpu s so far: table %.2f, "
                          "candidates %.2f, holders %.2f, extracting %.2f\n",
@@ -752,8 +793,9 @@ void shareCubes(net::Network& net, const ShareCubesOptions& opts, PassContext& c
             opts.holdersByPairs &&
             holdersByPairs(
                 refs.size(),
-                [&](std::uint32_t id) -> const std::vector<Literal>* {
-                    return &ws.cover(refs[id].node).cubes[refs[id].cube].lits;
+                [&](std::uint32_t id) {
+                    const std::vector<Literal>& l = ws.cover(refs[id].node).cubes[refs[id].cube].lits;
+                    return LitView{l.data(), static_cast<std::uint32_t>(l.size())};
                 },
                 [&](Literal l) {
                     const auto it = occ.find(l);
