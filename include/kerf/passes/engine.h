@@ -127,6 +127,11 @@ struct EngineLimits {
     /// from nodes with more fanin literals and fanouts than this.
     int changedWalkDegree = 64;
     int changedFullPermille = 300;
+    /// The closing sweep leaves out a technique whose last whole-network
+    /// valuation gained less than the smallest gain kept: the nodes changed
+    /// since then were all in its later trials' changed regions (F327).
+    /// false: every technique last valued on a changed region is swept.
+    bool closingQuiet = true;
     minimize::MinimizeOptions minimize;
     InlineOptions dissolve;
     ShareCubesOptions cubes;
