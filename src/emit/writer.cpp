@@ -537,9 +537,11 @@ private:
     mutable std::set<int> constantsNamed_;     ///< named constants the written statements name
     std::map<std::string, std::string> sameAs_; ///< result of a repeated word operation -> the first one's
     std::map<std::string, std::string> resultName_;   ///< word result -> the author's signal that is exactly it
+    std::set<std::string> lateResultNames_;   ///< of those, signals declared below a statement kerf may rewrite
     std::map<std::string, std::string> inlined_;      ///< generated operand -> its inline concatenation
     bool inlinedDone_ = false;
     std::set<std::string> reduced_;   ///< signals the source reduces (reductions.cpp), written `|v`
+    bool ownOutput_ = false;     ///< the module carries the header of an earlier run of kerf
     bool unorderable_ = false;   ///< no name left to withdraw to break a loop between statements
     /// Per member: the bits of module signals its text reads, and the signals it reads whole
     /// (originalReads); filled on first use.
@@ -739,6 +741,38 @@ void Writer::indexOutputs() {
     for (std::size_t i = 0; i < outs_.size(); ++i)
         if (!outs_[i].generated) outsOfSignal[outs_[i].bit.signal].push_back(i);
     std::set<std::string> claimed;
+    // Whether the low bits of w's result depend on the low bits of its operands only.
+    // Its operands are the author's signals, so the statement reads as the source's own (`a + b`):
+    // an operation kerf spells out at its context width (`{24'hffffff, ~a} + 32'h1` for
+    // `~a + 1`) assigned to fewer bits draws a width warning the source did not (Verilator).
+    auto lowBitsOnly = [](const frontend::WordOp& w) {
+        static const std::set<std::string> binary = {"+", "-", "*", "<<", "<<<", "&", "|", "^", "^~", "~^"};
+        for (const auto& o : w.operands)
+            if (o.generated) return false;
+        return w.unary ? (w.op == "-" || w.op == "~") : binary.count(w.op) > 0;
+    };
+    // Whether anything reads bits of w's result from `from` up (logic, or an output as a copy).
+    std::vector<std::uint8_t> readNode;
+    auto upperRead = [&](const frontend::WordOp& w, const std::vector<NodeId>& resultNode, int from) {
+        if (readNode.empty()) {
+            readNode.assign(net_.nodeCount(), 0);
+            for (NodeId v = 0; v < net_.nodeCount(); ++v)
+                if (net_.isLogic(v))
+                    for (const auto& c : net_.node(v).cover.cubes)
+                        for (Literal l : c.lits) readNode[literalVar(l)] = 1;
+            for (const auto& o : net_.outputs()) readNode[literalVar(o.driver)] = 1;
+        }
+        for (int k = from; k < w.resultWidth; ++k)
+            if (NodeId u = resultNode[static_cast<std::size_t>(k)]; u != 0 && readNode[u]) return true;
+        return false;
+    };
+    std::set<std::string> readAsOperand;   // results another operation reads whole (under its first name)
+    for (const auto& w : low_.wordOps)
+        for (const auto& o : w.operands)
+            if (!o.generated) {
+                auto same = sameAs_.find(o.name);
+                readAsOperand.insert(same != sameAs_.end() ? same->second : o.name);
+            }
     for (const auto& w : low_.wordOps) {
         if (sameAs_.count(w.result)) continue;
         std::vector<NodeId> resultNode(static_cast<std::size_t>(w.resultWidth), 0);
@@ -747,12 +781,32 @@ void Writer::indexOutputs() {
                 resultNode[static_cast<std::size_t>(low_.inputBits[k].offset)] = net_.inputs()[k];
         for (const auto& [sig, idx] : outsOfSignal) {
             const auto& S = m_.signals.at(sig);
-            if (S.width != w.resultWidth || static_cast<int>(idx.size()) != S.width || claimed.count(sig)) continue;
+            // A signal narrower than the result takes its low bits when nothing else reads the
+            // upper ones and the operation's low bits depend on its operands' low bits only: an
+            // assignment truncates (IEEE 1800-2017 10.7), and the operation, evaluated at the
+            // width of its operands either way, gives the same low bits
+            // (`wire [3:0] narrow = a + b;` of 8-bit a and b stays so; F289).
+            const bool narrower = S.width < w.resultWidth && lowBitsOnly(w) && !readAsOperand.count(w.result) &&
+                                  !upperRead(w, resultNode, S.width);
+            if ((S.width != w.resultWidth && !narrower) || static_cast<int>(idx.size()) != S.width || claimed.count(sig))
+                continue;
             if (S.type != frontend::kNoId && S.type < m_.ir.types.size()) {
                 auto kind = m_.ir.types[S.type].kind;
                 if (kind != frontend::TypeKind::Vector && kind != frontend::TypeKind::Logic) continue;
             }
-            if (!isPort(sig) && declPos(sig) > firstStmt) continue;
+            // Declared above every statement kerf may rewrite, its name can be read anywhere.
+            // Declared lower (kerf's own output declares a result's signal in its wire block,
+            // below the statements before it), the name is still fine where the operation is
+            // written, the signal's own statement: readers of the result by gates are held to
+            // the declaration by checkDeclarationOrder; another operation reading the result
+            // would name it in a wire block, so then not (F339: a second run wrote such a
+            // signal as a copy of a new wire, `assign x_2 = a == b; assign x = x_2;`).
+            if (!isPort(sig) && declPos(sig) > firstStmt) {
+                auto own = unitOfSignal_.find(sig);
+                if (own == unitOfSignal_.end() || declPos(sig) > byId_.at(own->second)->src.start ||
+                    readAsOperand.count(w.result))
+                    continue;
+            }
             bool all = true;
             for (std::size_t i : idx) {
                 Literal d = net_.outputs()[i].driver;
@@ -761,6 +815,7 @@ void Writer::indexOutputs() {
                       resultNode[static_cast<std::size_t>(k)] != 0 && literalVar(d) == resultNode[static_cast<std::size_t>(k)];
             }
             if (!all) continue;
+            if (!isPort(sig) && declPos(sig) > firstStmt) lateResultNames_.insert(sig);
             resultName_[w.result] = sig;
             claimed.insert(sig);
             break;
@@ -802,9 +857,13 @@ VarRef Writer::refFor(const BitRef& bitIn, int rankBase) const {
         r.lsb = it->second.lsb;
         r.module = &m_;
     } else if (it == m_.signals.end() && generatedWidths().count(b.signal) && generatedWidths()[b.signal] > 1) {
+        // A generated vector (a word operation's result, declared `wire [W-1:0]` by the writer):
+        // all its bits read by its name alone, as an author's vector is; as a slice of every bit
+        // (`gnt_w0[1:0] == 2'b00`) a second run, reading the wire as the author's, wrote it
+        // differently (F339).
         r.signal = b.signal;
         r.offset = b.offset;
-        r.width = 1 << 20;   // generated vector: bits only
+        r.width = generatedWidths()[b.signal];
         r.msb = r.width - 1;
         r.lsb = 0;
     }
@@ -1642,12 +1701,16 @@ bool Writer::checkDeclarationOrder() {
         }
     }
     for (std::size_t i = 0; i < outs_.size(); ++i) {
-        if (outs_[i].generated) continue;
-        const auto* mem = byId_.at(outs_[i].stmt);
-        std::size_t here = mem->src.start;
+        // An operand's bits are assigned in its group's wire block: they may read a result's
+        // signal declared below it (resultName_, F339).
+        std::size_t here = std::string::npos;
+        if (!outs_[i].generated) here = byId_.at(outs_[i].stmt)->src.start;
+        else if (int g = groupOfOut(i); g >= 0 && !lateResultNames_.empty()) here = groupPos_[static_cast<std::size_t>(g)];
+        if (here == std::string::npos) continue;
         std::string bad;
         auto check = [&](const std::string& s) {
             if (s == outs_[i].bit.signal) return;
+            if (outs_[i].generated && !lateResultNames_.count(s)) return;
             if (bad.empty() && m_.signals.count(s) && !isPort(s) && declPos(s) >= here) bad = s;
         };
         namesRead(i, check);
@@ -1988,6 +2051,7 @@ void Writer::decide() {
         // while the others are rewritten can cost the shared logic (foreach_union, 27 -> 36).
         const bool reshuffle = gain == 0 && G.gatesBefore > 0 && litsAfter > litsBefore;
         G.replaced = enough && (gain > 0 || (opts_.minGain.value == 0 && gain >= 0 && !reshuffle));
+        const bool noGainRewrite = G.replaced && gain <= 0;   // by --min-gain 0 alone (F340 below)
         // A signal whose statement reads others but whose every bit is a constant
         // (`assign sel = acc & (a[7:3] == 0) & a[3];`, always 0) costs no gates already when
         // read (constants fold as the network is built), so the gain is 0; its text still
@@ -2012,6 +2076,15 @@ void Writer::decide() {
             std::all_of(groupStmts_[g].begin(), groupStmts_[g].end(), [&](int s) { return ownUnusedWire(s); })) {
             G.replaced = false;
             G.reason = "kerf's own wire reading what an earlier rewrite no longer reads";
+        } else if (noGainRewrite && ownOutput_) {
+            // --min-gain 0 shows every rewrite that does not grow, for review. On kerf's own
+            // output (the module carries an earlier run's header) a rewrite that saves no gate
+            // only writes the same logic again in another order or other wires: 34 of 140
+            // corpus cases changed on a second run that way (F339, F340). Kept as written, so that
+            // kerf on its own output changes nothing unless it finds a gate to save.
+            G.replaced = false;
+            G.reason = fmt::format("no saving ({} -> {} gates) in text an earlier run of kerf wrote", G.gatesBefore,
+                                   G.gatesAfter);
         } else if (G.replaced) G.reason.clear();
         else if (reshuffle && opts_.minGain.value == 0)
             G.reason = fmt::format("no saving ({} -> {} gates, {} -> {} literals)", G.gatesBefore, G.gatesAfter,
@@ -3259,6 +3332,12 @@ WriteResult Writer::run() {
         return res;
     }
     reduced_ = reducedSignals(m_);
+    for (std::size_t ls = lineStart(src_, m_.src.start); ls < m_.src.end && ls < src_.size() && !ownOutput_;) {
+        std::size_t le = src_.find('\n', ls);
+        le = le == std::string::npos ? src_.size() : le + 1;
+        ownOutput_ = oldHeaderLines(src_, ls, le).has_value();
+        ls = le;
+    }
     indexMembers();
     indexOutputs();
     inputRefs_.assign(net_.nodeCount(), VarRef{});

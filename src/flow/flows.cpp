@@ -232,8 +232,11 @@ OwnOutputCheck checkOwnOutput(const RestructureOptions& opts, const std::string&
     o.preRead = &written;
     o.keptKeys = keptKeys;
     // Under --min-gain 0 a rewrite as large as the text it replaces is no gain to adopt (a second
-    // run would only reshuffle it, F154): the check asks for a gate at least.
-    if (emit::MinGain::parse(o.minGain).value == 0) o.minGain = "1";
+    // run would only reshuffle it, F154): the check asks for a gate at least. The text rules
+    // apply with a positive --min-gain only, so the check turns them off as the run it stands for
+    // has them off: with them it kept a 2-gate saving of long text that a second run under
+    // --min-gain 0 then wrote (ifdef_variants, F341).
+    if (emit::MinGain::parse(o.minGain).value == 0) o.minGain = "1", o.textPerGate = 0;
     try {
         if (restructure(o, &r.next) != 0) r.failed = true;
     } catch (const Error& e) {
