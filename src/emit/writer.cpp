@@ -448,7 +448,10 @@ private:
         bool equal = true;
         bool pattern = false;   ///< the value is a bit pattern with `x` (bits apart)
     };
-    std::optional<std::string> sliceComparison(NodeId v, bool inverted, ComparisonParts* parts = nullptr) const;
+    /// `taken`: names already given; a name after a constant (`like_CSR_MCYCLE`) taken by another
+    /// wire gives way to the next constant that has the pattern (no `_2` suffix, F347).
+    std::optional<std::string> sliceComparison(NodeId v, bool inverted, ComparisonParts* parts = nullptr,
+                                               const std::set<std::string>* taken = nullptr) const;
     std::string statement(const std::string& ind, const std::string& lead, const PExpr& e) const;
 
     /// Every name output i's text reads: an author's copy of an input reads that input;
@@ -1048,6 +1051,13 @@ void Writer::coneOf(NodeId root, bool viaDefinition, const std::function<void(No
     }
 }
 
+/// Whether a wire name is the output-and-index form (`y_t3`, `t0`, `kf_t2`).
+static bool indexedName(const std::string& n) {
+    std::size_t d = n.size();
+    while (d > 0 && std::isdigit(static_cast<unsigned char>(n[d - 1]))) --d;
+    return d < n.size() && d > 0 && n[d - 1] == 't' && (d == 1 || n[d - 2] == '_');
+}
+
 /// The value of a comparison as a name part: `4'h0` -> "0", `2'b11` -> "11", a binary constant
 /// of five bits or more in hex (`7'b0110011` -> "33"), a named constant by its name.
 std::string valueFragment(const std::string& compareText) {
@@ -1064,7 +1074,8 @@ std::string valueFragment(const std::string& compareText) {
     return hexDigits(digits);
 }
 
-std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, ComparisonParts* parts) const {
+std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, ComparisonParts* parts,
+                                                    const std::set<std::string>* taken) const {
     // Seen through the forms (ANDs, and ORs under an inversion), is literal l's function one
     // product of the bits of one vector? Leaves are network inputs, and nodes named as bits of a
     // vector that are not new wires (an author's signal computed by logic).
@@ -1130,6 +1141,7 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
             // `like_CSR_MSTATUS_11_3`, true for CSR_MSTATUS and every value sharing those bits, or
             // its complement `not_like_CSR_CYCLE`. Only a span from the top of the compared bits
             // down (an address prefix with gaps), as for slices of a constant (expression.cpp).
+            std::optional<std::string> firstLike;   // when every constant's name is taken
             if (vec->module)
                 for (const auto& c : vec->module->constants) {
                     bool like = false;
@@ -1143,10 +1155,18 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
                     auto index = [&](int off) { return vec->msb >= vec->lsb ? vec->lsb + off : vec->lsb - off; };
                     std::string name = (complemented ? "not_like_" : "like_") + c.name;
                     if (lo != 0 || hi != vec->width - 1) name += fmt::format("_{}_{}", index(hi), index(lo));
-                    if (name.size() > std::max<std::size_t>(opts_.maxNameLength, 8)) break;
+                    if (name.size() > std::max<std::size_t>(opts_.maxNameLength, 8)) continue;
+                    if (taken && taken->count(opts_.prefix + name)) {
+                        if (!firstLike) firstLike = name;
+                        continue;
+                    }
                     if (parts) parts->pattern = false;   // a name of its own, not the pattern's
                     return name;
                 }
+            if (firstLike) {
+                if (parts) parts->pattern = false;
+                return firstLike;
+            }
             return out + (complemented ? "_not_" : "_is_") + pattern;
         }
         std::vector<int> msbFirst;
@@ -1223,7 +1243,7 @@ void Writer::nameWires() {
         // (`opcode[5:4] == 2'b11 & ~opcode[3] & ...`): named as the comparison.
         ComparisonParts cp;
         cp.lhs.clear();
-        auto cmp = sliceComparison(v, refs_[v]->inverted, &cp);
+        auto cmp = sliceComparison(v, refs_[v]->inverted, &cp, &used);
         // The complement of bits apart (`paddr[5] | paddr[1] | paddr[0]`) reads better by its
         // bits' names (`paddr5_or_paddr1_or_paddr0`) than as `paddr_not_0xxx00`: the pattern
         // name only when there is no other.
@@ -1385,6 +1405,21 @@ void Writer::nameWires() {
         for (NodeId w : found) {
             std::size_t k = wireIndex.at(w);
             if (!names[k].empty()) continue;
+            // A choice whose select has a name (`b[2] ? op_2_1_is_01 : op_is_OP_XOR`) is named by
+            // the output and the select (`y2_sel_b2`, F348) where that fits; a select named by an
+            // index itself says nothing, and keeps the index form.
+            PExpr e = eb.definition(w, refs_[w]->inverted);
+            if (e.kind == PExpr::Kind::Mux && !e.kids.empty()) {
+                const PExpr& sel = e.kids[0];
+                if (sel.kind == PExpr::Kind::Ref && !sel.text.empty() && sel.text[0] != '$' &&
+                    !indexedName(sel.text)) {
+                    const std::string n = base + "_sel_" + (sel.neg ? "n" : "") + fragment(sel.text);
+                    if (n.size() <= cap) {
+                        names[k] = claim(n);
+                        continue;
+                    }
+                }
+            }
             names[k] = claim(base, fmt::format("_t{}", counter[base]++));
         }
     }

@@ -4,6 +4,7 @@
 #include "kerf/emit/diff.h"
 #include "kerf/emit/draw.h"
 #include "kerf/emit/guard.h"
+#include "kerf/emit/constant_regroup.h"
 #include "kerf/emit/slice_regroup.h"
 #include "kerf/emit/word_fold.h"
 #include "kerf/emit/writer.h"
@@ -22,6 +23,8 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <tuple>
+#include <cctype>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -38,6 +41,28 @@ namespace {
 
 using Clock = std::chrono::steady_clock;
 double since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
+
+/// A rewritten group that compares with at least this many named constants and names none of
+/// them is kept as written (F346).
+constexpr std::size_t kMinConstantsCompared = 2;
+
+/// Enum-typed fields of more than one bit inside a packed struct of type `t` (nested structs
+/// too): their bit offsets within it (lo, hi) and their path (`kind`, `hdr.kind`).
+void enumFields(const frontend::Ir& ir, frontend::TypeId t, int base, const std::string& path, int depth,
+                std::vector<std::tuple<int, int, std::string>>& out) {
+    if (t == frontend::kNoId || t >= ir.types.size() || depth > 8) return;
+    const auto& ty = ir.types[t];
+    if (ty.kind != frontend::TypeKind::Struct) return;
+    for (const auto& f : ty.fields) {
+        if (f.type == frontend::kNoId || f.type >= ir.types.size()) continue;
+        const auto& ft = ir.types[f.type];
+        const std::string name = path.empty() ? f.name : path + "." + f.name;
+        if (ft.kind == frontend::TypeKind::Enum && ft.width > 1)
+            out.emplace_back(base + f.offset, base + f.offset + ft.width - 1, name);
+        else
+            enumFields(ir, f.type, base + f.offset, name, depth + 1, out);
+    }
+}
 
 /// A statement group's line ranges as the summary and the `-v` table print them: "12", "14-19,23".
 /// Ranges that follow each other (statements on lines 7, 8, 9) print as one ("7-9"): a flat
@@ -231,6 +256,9 @@ OwnOutputCheck checkOwnOutput(const RestructureOptions& opts, const std::string&
     o.secondRun = true;
     o.preRead = &written;
     o.keptKeys = keptKeys;
+    // As a user's run on the file: its own rounds for names start afresh (F346).
+    o.nameConstants = false;
+    o.namedKeepRounds = 0;
     // Under --min-gain 0 a rewrite as large as the text it replaces is no gain to adopt (a second
     // run would only reshuffle it, F154): the check asks for a gate at least. The text rules
     // apply with a positive --min-gain only, so the check turns them off as the run it stands for
@@ -391,11 +419,26 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         if (checkable) engineNet = low.net;
         emit::SliceRegroupResult sr =
             emit::regroupSlices(low, er.forms, er.depthCap, bound, factorCache.get(), rl, maxExtra);
-        if (sr.kept) {
-            er.after = er.forms.metrics;
-            if (checkable) beforeRegroup = std::move(engineNet);
-        }
+        if (sr.kept) er.after = er.forms.metrics;
         if (opts.verbose > 0 && !sr.text.empty()) std::cerr << sr.text << "\n";
+        bool regrouped = sr.kept;
+        // The comparisons rebuilt for the constants' names are not given up for the engine's
+        // network when kerf on the written file would rewrite it (that network names none of
+        // them): the rewrite that check finds is adopted as for any text, or, naming none of
+        // them either, the group is kept as written (below).
+        bool constantsRegrouped = false;
+        if (opts.nameConstants) {
+            // Comparisons with named constants written by their names (F346), while the result
+            // still gains the --min-gain margin on the logic as written.
+            const double limit =
+                static_cast<double>(asRead.gates) - std::max(1.0, wo.minGain.gatesOf(asRead.gates));
+            emit::ConstantRegroupResult cr = emit::regroupNamedConstants(low, desc, er.forms, er.depthCap, bound,
+                                                                         factorCache.get(), limit);
+            if (cr.kept) er.after = er.forms.metrics;
+            constantsRegrouped = cr.kept;
+            if (opts.verbose > 0 && !cr.text.empty()) std::cerr << cr.text << "\n";
+        }
+        if (regrouped && !constantsRegrouped && checkable) beforeRegroup = std::move(engineNet);
     }
     double passSeconds = since(tPass);
     const passes::FactoredNetwork& forms = er.forms;   // the engine's chosen forms, handed to the writer
@@ -685,6 +728,176 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             own.log += fmt::format("own output: still not a fixed point after {} runs on the written file\n",
                                    kOwnRounds);
         beforeRegroup.reset();
+    }
+    // A group whose statements compare a signal with named constants (a `case (csr_addr)` over a
+    // package's addresses) and whose rewrite names none of them reads as bit patterns where the
+    // source read names: the constants would survive only in the unused-signal wire. Such a
+    // group is kept as written and the module restructured again without it (F346; the rule is
+    // in docs/guide.md, "Named constants"). A rewrite naming at least one of them is written.
+    if (wr.changed && opts.namedKeepRounds < 4) {
+        // Named by the text as written (after the check of kerf's own output, which may have
+        // written another text): in the lines the rewrite added, outside the unused-signal wire,
+        // as an identifier of its own (`is_CSR_MSTATUS_11_3`, a wire's name, does not count).
+        std::set<int> named;
+        {
+            const std::string asRead = io::readFile(file);
+            std::set<std::string> old;
+            for (std::size_t a = 0; a < asRead.size();) {
+                std::size_t b = asRead.find('\n', a);
+                if (b == std::string::npos) b = asRead.size();
+                old.insert(asRead.substr(a, b - a));
+                a = b + 1;
+            }
+            std::string added;
+            bool inUnused = false;
+            for (std::size_t a = 0; a < wr.text.size();) {
+                std::size_t b = wr.text.find('\n', a);
+                if (b == std::string::npos) b = wr.text.size();
+                const std::string line = wr.text.substr(a, b - a);
+                a = b + 1;
+                if (!wr.unusedWire.empty() && line.find(" " + wr.unusedWire + " ") != std::string::npos) inUnused = true;
+                if (!inUnused && !old.count(line)) added += line + "\n";
+                if (inUnused && line.find(';') != std::string::npos) inUnused = false;
+            }
+            auto ident = [](char ch) { return std::isalnum(static_cast<unsigned char>(ch)) || ch == '_' || ch == '$'; };
+            for (std::size_t ci = 0; ci < desc.constants.size(); ++ci) {
+                const std::string& ref = desc.constants[ci].ref;
+                for (std::size_t at = added.find(ref); at != std::string::npos; at = added.find(ref, at + 1))
+                    if ((at == 0 || !ident(added[at - 1])) &&
+                        (at + ref.size() >= added.size() || !ident(added[at + ref.size()]))) {
+                        named.insert(static_cast<int>(ci));
+                        break;
+                    }
+            }
+        }
+        std::map<int, const frontend::Member*> byId;
+        for (const auto& m : desc.members) byId[m.id] = &m;
+        std::map<std::string, std::string> more;
+        std::vector<std::string> lines;
+        for (const auto& g : wr.groups) {
+            if (!g.replaced) continue;
+            std::set<int> compared;
+            for (int id : g.members)
+                if (auto it = byId.find(id); it != byId.end())
+                    for (int c : it->second->constants)
+                        if (c >= 0 && static_cast<std::size_t>(c) < desc.constants.size() &&
+                            !desc.constants[static_cast<std::size_t>(c)].compared.empty())
+                            compared.insert(c);
+            if (compared.size() < kMinConstantsCompared ||
+                std::any_of(compared.begin(), compared.end(), [&](int c) { return named.count(c) > 0; }))
+                continue;
+            std::string list;
+            std::size_t shown = 0;
+            for (int c : compared) {
+                if (shown == 3) {
+                    list += ", ...";
+                    break;
+                }
+                list += (shown++ ? ", " : "") + desc.constants[static_cast<std::size_t>(c)].name;
+            }
+            const std::string reason = fmt::format("the rewrite would name none of the {} named constants it compares "
+                                                   "with ({})", compared.size(), list);
+            bool any = false;
+            for (int id : g.members)
+                if (auto it = byId.find(id); it != byId.end() && !it->second->matchKey.empty() && !agreedKept.count(id)) {
+                    more.emplace(it->second->matchKey, reason);
+                    any = true;
+                }
+            if (any) lines.push_back(reason);
+        }
+        if (!more.empty() && !opts.nameConstants) {
+            // First made again with the comparisons rebuilt to be written by the constants' names.
+            if (opts.verbose > 0)
+                for (const auto& l : lines)
+                    std::cerr << fmt::format("named constants: {}: the module is restructured again with its "
+                                             "comparisons written by the constants' names\n", l);
+            RestructureOptions o = opts;
+            o.preRead = &desc;
+            o.nameConstants = true;
+            ++o.namedKeepRounds;
+            return restructure(o, outcome);
+        }
+        if (!more.empty()) {
+            if (opts.verbose > 0)
+                for (const auto& l : lines)
+                    std::cerr << fmt::format("named constants: {}: its statements are kept as written and the module "
+                                             "is restructured again\n", l);
+            RestructureOptions o = opts;
+            o.preRead = &desc;
+            o.namedKept.insert(more.begin(), more.end());
+            ++o.namedKeepRounds;
+            return restructure(o, outcome);
+        }
+    }
+    // An enum field of a struct (`d.kind`, of `kind_e`) that the rewrite would write by bit
+    // positions of the struct (`d[4] = ...`), where the source assigns it named values (`d.kind =
+    // RD`): Icarus 11 simulates `d.kind[0] = ...` wrongly (F192), so no bit of the field is
+    // written through its name, and a raw position is what the issue rules out. The statements
+    // writing the struct are kept as written and the module is restructured again (F349).
+    if (wr.changed && opts.namedKeepRounds < 4) {
+        std::map<std::string, std::string> more;
+        std::vector<std::string> lines;
+        std::set<std::string> rewritten;
+        for (const auto& g : wr.groups)
+            if (g.replaced) rewritten.insert(g.outputs.begin(), g.outputs.end());
+        const std::string asRead = io::readFile(file);
+        std::set<std::string> old;
+        for (std::size_t a = 0; a < asRead.size();) {
+            std::size_t b = asRead.find('\n', a);
+            if (b == std::string::npos) b = asRead.size();
+            old.insert(asRead.substr(a, b - a));
+            a = b + 1;
+        }
+        for (const auto& [name, sig] : desc.signals) {
+            if (!rewritten.count(name)) continue;
+            std::vector<std::tuple<int, int, std::string>> fields;
+            enumFields(desc.ir, sig.type, 0, "", 0, fields);
+            if (fields.empty()) continue;
+            // Assignments to a raw position of the struct in the lines the rewrite added.
+            std::string hit;
+            for (std::size_t a = 0; a < wr.text.size() && hit.empty();) {
+                std::size_t b = wr.text.find('\n', a);
+                if (b == std::string::npos) b = wr.text.size();
+                const std::string line = wr.text.substr(a, b - a);
+                a = b + 1;
+                if (old.count(line)) continue;
+                std::size_t at = line.find_first_not_of(" \t");
+                if (at == std::string::npos || line.compare(at, name.size() + 1, name + "[") != 0) continue;
+                std::size_t close = line.find(']', at);
+                std::size_t eq = line.find('=', at);
+                if (close == std::string::npos || eq == std::string::npos || close > eq || line[eq + 1] == '=') continue;
+                const std::string idx = line.substr(at + name.size() + 1, close - at - name.size() - 1);
+                if (idx.empty() || idx.find_first_not_of("0123456789:") != std::string::npos) continue;
+                const int hi = std::stoi(idx);
+                const int lo = idx.find(':') == std::string::npos ? hi : std::stoi(idx.substr(idx.find(':') + 1));
+                for (const auto& [flo, fhi, path] : fields)
+                    if (lo <= fhi && hi >= flo) {
+                        hit = fmt::format("'{}.{}' (an enum) would be written by bit positions ({}[{}] = ...) where "
+                                          "the source writes it by its named values", name, path, name, idx);
+                        break;
+                    }
+            }
+            if (hit.empty()) continue;
+            bool any = false;
+            for (const auto& m : desc.members)
+                if (std::find(m.writes.begin(), m.writes.end(), name) != m.writes.end() && !m.matchKey.empty() &&
+                    !agreedKept.count(m.id)) {
+                    more.emplace(m.matchKey, hit);
+                    any = true;
+                }
+            if (any) lines.push_back(hit);
+        }
+        if (!more.empty()) {
+            if (opts.verbose > 0)
+                for (const auto& l : lines)
+                    std::cerr << fmt::format("named values: {}: its statements are kept as written and the module "
+                                             "is restructured again\n", l);
+            RestructureOptions o = opts;
+            o.preRead = &desc;
+            o.namedKept.insert(more.begin(), more.end());
+            ++o.namedKeepRounds;
+            return restructure(o, outcome);
+        }
     }
     if (!wr.changed) proofOriginal.reset();   // nothing to prove
     // What only the engine and the writer needed goes before the rewrite is read back and

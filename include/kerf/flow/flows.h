@@ -57,6 +57,9 @@ struct RestructureOptions {
     /// Internal: runs made again with the statements of named-value targets kept (F236), and
     /// the choice decisions of the runs before (rows of the report's "naming" list).
     int namedKeepRounds = 0;
+    /// Set on the run made again for a group whose rewrite named none of the constants it compared
+    /// with (F346): comparisons with named constants are rebuilt to be written by their names.
+    bool nameConstants = false;
     nlohmann::json namedKeptNaming = nlohmann::json::array();
 };
 
