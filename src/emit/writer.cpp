@@ -2102,7 +2102,8 @@ void Writer::decide() {
                 auto [it, fresh] = folds.emplace(outs_[i].bit.signal, c);
                 if (!fresh) it->second = it->second && c;
             }
-            G.replaced = std::any_of(folds.begin(), folds.end(), [](const auto& f) { return f.second; });
+            G.replaced = G.foldsToConstant =
+                std::any_of(folds.begin(), folds.end(), [](const auto& f) { return f.second; });
         }
         // kerf's own wire reading what an earlier run's rewrite no longer reads (`kf_unused`,
         // below its `// kerf: the restructured logic ...` note) is part of that rewrite: a second

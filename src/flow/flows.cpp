@@ -958,7 +958,11 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         double gain = static_cast<double>(asRead.gates) - static_cast<double>(after.gates);
         bool enough = wo.minGain.percent ? gain * 100.0 >= wo.minGain.value * static_cast<double>(asRead.gates)
                                          : gain >= wo.minGain.value;
-        if (!(enough && (gain > 0 || wo.minGain.value == 0))) {
+        // A group that writes a signal as the constant it is (F355) pays without gates.
+        const bool folds = gain >= 0 && std::any_of(wr.groups.begin(), wr.groups.end(), [](const auto& g) {
+            return g.replaced && g.foldsToConstant;
+        });
+        if (!folds && !(enough && (gain > 0 || wo.minGain.value == 0))) {
             for (auto& g : wr.groups)
                 if (g.replaced)
                     g.replaced = false, g.reason = fmt::format("the written file would not be smaller by --min-gain "

@@ -2576,9 +2576,6 @@ def _(t):
     t.res.check(all(n.startswith("y") for n in vectors), f"each is named from the output it feeds: {vectors}")
 
 
-if __name__ == "__main__":
-    S.main()
-
 
 # An invented APB register select whose data select can never be true: `paddr[7:3] == 0` leaves
 # `paddr[3]` 0, so `sel_data` is constant 0 (a slip a reviewer wants to see). Its text computes
@@ -2618,3 +2615,8 @@ def _(t):
     r2 = restructure(t, [out], "apb_const_sel", again)
     t.res.check(r2.returncode == 0 and open(again).read() == text,
                 f"kerf on its own output changes nothing: {r2.stderr[-800:]}")
+
+
+if __name__ == "__main__":
+    S.main()
+

@@ -63,6 +63,9 @@ struct StatementGroup {
     std::size_t gatesBefore = 0;              ///< two-input gates of its logic as written
     std::size_t gatesAfter = 0;               ///< of the restructured logic that would replace it
     bool replaced = false;
+    /// Replaced because a signal it writes, computed from others as written, turned out constant
+    /// (F355): it counts as a gain though its gates as read are already 0.
+    bool foldsToConstant = false;
     std::string reason;                       ///< why it was kept as written (empty when replaced)
 };
 
