@@ -679,20 +679,12 @@ class Conv:
         if st.bitWidth > TABLE_INDEX_BITS_MAX:
             raise Unsupported("reads the table '%s' with an index of more than %d bits" %
                               (_text(v), TABLE_INDEX_BITS_MAX))
-        try:
-            cv = v.eval(ast.EvalContext(self.d.body)).value
-        except Exception:    # slang raises when the array is not a constant
+        got = self.table_values(e)
+        if got is None:
             return None
-        if not isinstance(cv, list) or not cv:
-            return None
-        values = [x.value for x in cv]
-        if not all(isinstance(x, pyslang.SVInt) for x in values):
-            return None
-        left, right = ct.range.left, ct.range.right
+        values, left, right = got
         lo, hi = min(left, right), max(left, right)
         w = st.bitWidth
-        if len(values) != hi - lo + 1:
-            return None
         if lo != 0 or hi < (1 << w) - 1:
             raise Unsupported("reads the table '%s' with an index that can fall outside it (an x by "
                               "the language's rules)" % _text(v))
