@@ -159,6 +159,30 @@ def renamed(text, old, new):
     return (raw[:off] + new.encode() + raw[off + len(old):]).decode()
 
 
+def if_qualifiers_dropped(text):
+    """`text` with the `unique`/`unique0`/`priority` qualifiers of if statements removed.
+
+    A workaround for Icarus Verilog 11, which does not parse them (a syntax error). Only for
+    if statements every input leaves through one branch (one condition and an else, as the
+    random modules write them): there the qualifiers change nothing a simulation shows (IEEE
+    1800-2017 12.4.2 reports a violation only for no branch or overlapping conditions). The
+    qualifiers are found by slang's syntax tree; both sides of a comparison get the same treatment."""
+    from pyslang import syntax
+    raw = text.encode()
+    cuts = []
+
+    def visit(n):
+        if getattr(n, "kind", None) == syntax.SyntaxKind.ConditionalStatement:
+            tok = n.uniqueOrPriority
+            if tok.rawText:
+                cuts.append((tok.location.offset, len(tok.rawText.encode())))
+        return True
+    syntax.SyntaxTree.fromText(text).root.visit(visit)
+    for off, n in sorted(cuts, reverse=True):
+        raw = raw[:off] + raw[off + n:].lstrip(b" ")
+    return raw.decode()
+
+
 def always_comb_as_always_star(text):
     """`text` with every `always_comb` block that reads a signal written `always @(*)`.
 

@@ -9,7 +9,8 @@ by constants and by signals, word arithmetic that kerf must keep (+, -, *), divi
 modulo by constants, x defaults, internal 2-D packed arrays and packed structs written and read
 by element or member, `always_ff` registers beside the logic, a package (constants, an enum
 type, a function) imported by the module and named by scope, `$countones`/`$onehot`/`$onehot0`,
-and Verilog-2001 `always @*` blocks.
+Verilog-2001 `always @*` blocks, text macros (constants and a choice with arguments) and
+unique/priority if.
 
 A few forms are avoided on purpose because Icarus Verilog 11 (the reference simulator) gets them
 wrong, not kerf: system-function arguments other than a whole signal, and `pkg::f(x)` calls.
@@ -61,6 +62,8 @@ FEATURES = {
     "sysfunc": "$countones, $onehot and $onehot0 on expressions",
     "alwaysstar": "Verilog-2001 `always @*` blocks beside `always_comb`",
     "comment": "the author's comments on and above assignments and case items (`// note c3: drives w2`)",
+    "macro": "text macros: `define constants and a choice macro with arguments, used in expressions",
+    "uniqueif": "unique/priority qualifiers on if statements that have an else",
 }
 DEFAULT_OFF = {"param", "xcompare", "divconst", "oob"}
 # Each module draws its own subset of the enabled constructs, so that one construct that kerf
@@ -135,6 +138,10 @@ class ModuleGen:
         self.label_rng = random.Random(f"kerf-randmod-{seed}-{index}-label-draws")
         self.labels = 0
         self.comment_rng = random.Random(f"kerf-randmod-{seed}-{index}-comment-draws")
+        # (macros and if qualifiers draw on their own too: they change text, never other draws)
+        self.macro_rng = random.Random(f"kerf-randmod-{seed}-{index}-macro-draws")
+        self.macros = []            # `define lines, in the order first used
+        self.if_rng = random.Random(f"kerf-randmod-{seed}-{index}-uniqueif-draws")
         self.loop_var = None        # (name, bound) inside a generated for loop
         self.pkg = f"{self.name}_pkg"
         self.pkg_consts = []        # (name, width) of the package's constants, once it has some
@@ -160,10 +167,18 @@ class ModuleGen:
                 return f"{width}'b{''.join(digits)}"
         style = self.rng.random()
         if style < 0.4:
-            return f"{width}'d{v}"
-        if style < 0.7:
-            return f"{width}'h{v:x}"
-        return f"{width}'b{v:0{width}b}"
+            text = f"{width}'d{v}"
+        elif style < 0.7:
+            text = f"{width}'h{v:x}"
+        else:
+            text = f"{width}'b{v:0{width}b}"
+        if "macro" in self.f and self.macro_rng.random() < 0.15:
+            # a named constant of the author's macro file: `define RM_K3 4'd5
+            self.use("macro")
+            name = f"{self.name.upper()}_K{len(self.macros)}"
+            self.macros.append(f"`define {name} {text}")
+            return f"`{name}"
+        return text
 
     def pick(self, pred=lambda s: True):
         cands = [s for s in self.readable if pred(s)]
@@ -283,7 +298,16 @@ class ModuleGen:
         if r < 0.46:
             b, _ = self.expr(depth - 1)
             c, wc = self.expr(depth - 1)
-            return f"({self.cond(depth - 1)} ? {b} : {c})", max(wa, wc)
+            sel = self.cond(depth - 1)
+            if "macro" in self.f and self.macro_rng.random() < 0.3 and "{" not in sel + b + c:
+                # a choice through a macro with arguments (no braces in them: a comma inside
+                # braces splits arguments in some preprocessors)
+                self.use("macro")
+                name = f"{self.name.upper()}_PICK"
+                if not any(m.startswith(f"`define {name}(") for m in self.macros):
+                    self.macros.append(f"`define {name}(s, a, b) ((s) ? (a) : (b))")
+                return f"`{name}({sel}, {b}, {c})", max(wa, wc)
+            return f"({sel} ? {b} : {c})", max(wa, wc)
         if r < 0.52:
             b, _ = self.expr(depth - 1)
             return f"({a} {self.rng.choice(['&&', '||'])} {b})", 1
@@ -413,6 +437,12 @@ class ModuleGen:
                 out.append(f"{indent}end else begin")
                 for _ in range(self.rng.randint(1, 2)):
                     out += self.stmt(targets, depth - 1, indent + "  ")
+                # With an else, no input leaves a unique/priority if without a branch (a
+                # violation that simulators and synthesis read differently); one condition
+                # cannot overlap another.
+                if "uniqueif" in self.f and self.if_rng.random() < 0.35:
+                    self.use("uniqueif")
+                    out[0] = f"{indent}{self.if_rng.choice(['unique ', 'priority '])}{out[0][len(indent):]}"
             out.append(f"{indent}end")
             return out
         if r < 0.85 and "case" in self.f:
@@ -784,7 +814,9 @@ class ModuleGen:
         code = self.lines + body + ff
         if "comment" in self.f:
             code = self.commented(code)
-        text = "\n".join(pkg + head + decls + code + ["endmodule", ""])
+        macros = self.macros + [""] if self.macros else []
+        undefs = [f"`undef {m.split()[1].split('(')[0]}" for m in self.macros]
+        text = "\n".join(macros + pkg + head + decls + code + ["endmodule"] + undefs + [""])
         ports = []
         if clock:
             ports += [{"name": clock, "dir": "in", "width": 1, "signed": False},
