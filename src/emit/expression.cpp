@@ -449,6 +449,15 @@ int ExprBuilder::cost(const Factored& f, bool neg) {
             c = costLit(x) + costLit(y) + ((inv != neg) ? 1 : 0);
             break;
         }
+        // A choice is written `s ? a : b` with the select in whichever polarity has fewer
+        // inversions (build swaps the arms for free), so only the arms' own inversions count.
+        Literal sel;
+        std::size_t thenKid, sThen, sElse;
+        if (!comparisons(f) && muxShape(f, sel, thenKid, sThen, sElse)) {
+            c = std::min(costLit(sel), costLit(negateLiteral(sel))) + cost(choiceArm(f, thenKid, sThen), neg) +
+                cost(choiceArm(f, 1 - thenKid, sElse), neg);
+            break;
+        }
         int same = 0, flipped = 1;
         std::vector<std::uint8_t> slice = sliceKids(f);
         for (std::size_t i = 0; i < f.kids.size(); ++i) {

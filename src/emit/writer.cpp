@@ -413,6 +413,7 @@ private:
     bool plan();
     void chooseNames();
     void chooseWires();
+    void refinePolarity(const std::vector<std::uint8_t>& live);
     void nameWires();
     void formGroups();
     void formFamilies();
@@ -1002,6 +1003,76 @@ void Writer::chooseWires() {
         int asIs = eb.inversions(v, false) + static_cast<int>(negUses[v]);
         int inverted = eb.inversions(v, true) + static_cast<int>(posUses[v]);
         if (inverted < asIs) refs_[v]->inverted = true;
+    }
+    refinePolarity(live);
+}
+
+void Writer::refinePolarity(const std::vector<std::uint8_t>& live) {
+    // The count above reads each use by its literal's sign, but a use inside a form printed under
+    // a complement (an output driven inverted, or a sub-expression De Morgan's rule turns round)
+    // reads the other way: `y = ~(~a & ~w)` prints as `a | w`. So each wire is valued again by the
+    // text as printed: the inversions of its own definition and of every statement whose text
+    // holds it (through forms written inline), with the wire stored either way; the way with
+    // fewer is kept, ties as decided above. Bounded: the statements are valued twice per wire.
+    constexpr std::size_t kMaxWires = 4000, kMaxLiteralsPerWire = 4000, kMaxLiterals = 1000000;
+    if (wires_.empty() || wires_.size() > kMaxWires) return;
+    std::size_t budget = kMaxLiterals;
+    auto literals = [&](NodeId u) {
+        std::size_t k = 0;
+        for (const auto& c : net_.node(u).cover.cubes) k += c.lits.size();
+        return k;
+    };
+    const std::size_t n = net_.nodeCount();
+    // Statements: wires and the nodes outputs are defined by; other logic nodes are inline.
+    std::vector<std::uint8_t> root(n, 0);
+    for (NodeId w : wires_) root[w] = 1;
+    for (NodeId v = 1; v < n; ++v)
+        if (definer_[v] >= 0 && live[v]) root[v] = 1;
+    std::vector<std::vector<NodeId>> readers(n);
+    for (NodeId u = 1; u < n; ++u) {
+        if (!live[u] || !net_.isLogic(u)) continue;
+        for (const auto& c : net_.node(u).cover.cubes)
+            for (Literal l : c.lits) {
+                NodeId x = literalVar(l);
+                if (x != 0 && (readers[x].empty() || readers[x].back() != u)) readers[x].push_back(u);
+            }
+    }
+    // Outputs that name a node without being defined by it (`assign y = ~w;`).
+    std::vector<std::vector<std::size_t>> aliases(n);
+    for (std::size_t i = 0; i < outs_.size(); ++i) {
+        NodeId v = literalVar(net_.outputs()[i].driver);
+        if (v != 0 && definer_[v] != static_cast<int>(i)) aliases[v].push_back(i);
+    }
+    std::vector<NodeId> stmts, work;
+    std::vector<NodeId> seen(n, 0);
+    NodeId stamp = 0;
+    for (NodeId v : wires_) {
+        stmts.assign(1, v);
+        work.assign(readers[v].begin(), readers[v].end());
+        ++stamp;
+        seen[v] = stamp;
+        std::size_t size = literals(v);
+        while (!work.empty() && size <= kMaxLiteralsPerWire) {
+            NodeId u = work.back();
+            work.pop_back();
+            if (seen[u] == stamp) continue;
+            seen[u] = stamp;
+            size += literals(u);
+            if (root[u]) stmts.push_back(u);
+            else work.insert(work.end(), readers[u].begin(), readers[u].end());
+        }
+        if (size > kMaxLiteralsPerWire || 2 * size > budget) continue;
+        budget -= 2 * size;
+        auto total = [&]() {
+            ExprBuilder eb(refs_, forms_, &reduced_);
+            int t = 0;
+            for (NodeId u : stmts) t += eb.inversions(u, refs_[u] ? refs_[u]->inverted : false);
+            for (std::size_t i : aliases[v]) t += literalNegated(net_.outputs()[i].driver) != refs_[v]->inverted ? 1 : 0;
+            return t;
+        };
+        int kept = total();
+        refs_[v]->inverted = !refs_[v]->inverted;
+        if (total() >= kept) refs_[v]->inverted = !refs_[v]->inverted;
     }
 }
 

@@ -2617,6 +2617,53 @@ def _(t):
                 f"kerf on its own output changes nothing: {r2.stderr[-800:]}")
 
 
+# An invented status-word selector: select 0 passes a, select 2 a & b, the others b. The rewrite
+# decodes `sel == 0` once and every bit reads it in the positive sense, `(sel == 0) | b[i]`, though
+# the engine's form holds it complemented under an output printed by De Morgan's rule.
+SEL_STATUS = """module sel_status (input logic [1:0] sel, input logic [3:0] a, b,
+                   input logic c0, c1, d0, d1, output logic [3:0] y, output logic z0, z1);
+  assign y = (sel == 2'd0) ? a : (sel == 2'd2) ? (a & b) : b;
+  assign z0 = (sel == 2'd0) ? c0 : (sel == 2'd2) ? (c0 & d0) : d0;
+  assign z1 = (sel == 2'd0) ? c1 : (sel == 2'd2) ? (c1 & d1) : d1;
+endmodule
+"""
+
+
+def _inverted_only_wires(text, source):
+    """New wires of `text` read at least twice and every time complemented (`~w`, `~{4{w}}`)."""
+    have = set(re.findall(r"\b([A-Za-z_]\w*)\b", source))
+    bad = []
+    for m in re.finditer(r"^\s*wire\s+(?:\[[^\]]*\]\s*)?([A-Za-z_]\w*)\s*=", text, re.M):
+        w = m.group(1)
+        if w in have:
+            continue
+        uses = re.findall(r"(~?)(?:\{\d+\{)?\b" + re.escape(w) + r"\b", text[m.end():])
+        if len(uses) >= 2 and all(u == "~" for u in uses):
+            bad.append(w)
+    return bad
+
+
+@S.case("wire_polarity_as_printed", needs=("iverilog",))
+def _(t):
+    """Issue 10 (polarity; F359): a wire read complemented everywhere is stored complemented,
+    judged by the text as printed (a use inside a form printed under `~` reads the other way
+    round; inverter-minimising phase assignment, common trade practice): no new wire read twice
+    or more only as `~w`; the rewrite simulates like the source (Icarus Verilog)."""
+    path = os.path.join(t.work, "sel_status.sv")
+    open(path, "w").write(SEL_STATUS)
+    for extra in ([], ["--min-gain", "0"]):
+        out = os.path.join(t.work, "out.sv")
+        r = restructure(t, [path], "sel_status", out, *extra)
+        if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr, f"restructure {extra}: {r.stderr[-1500:]}"):
+            return
+        text = open(out).read()
+        bad = _inverted_only_wires(text, SEL_STATUS)
+        t.res.check(not bad, f"{extra}: no new wire read only complemented: {bad}\n{text}")
+        ok, log = _simulate_module(t, SEL_STATUS, text, path, "sel_status", ["sel_status"])
+        t.res.check(ok, f"{extra}: the rewrite simulates like the source (Icarus Verilog): {log}")
+        shutil.rmtree(os.path.join(t.work, "sim_sel_status"))
+
+
 if __name__ == "__main__":
     S.main()
 

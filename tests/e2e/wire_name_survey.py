@@ -6,6 +6,8 @@ each corpus case (its first define set and flag set, with --min-gain 0 as the co
 it; equivalence cases aside), and the wires it declares are listed by kind of name: descriptive
 (said from the signals they combine) or indexed (`_tN`, named after the first output they feed).
 With --show, each indexed wire's definition is printed, so that what they compute can be read.
+It also counts the `~` in the written logic and the new wires read two or more times and every
+time complemented (`~w`, `~{4{w}}`: issue 10's polarity rule, F359), listed with --show.
 
     tests/e2e/wire_name_survey.py --kerf build/kerf [--root .] [--show] [--only SUBSTRING]
 """
@@ -33,6 +35,22 @@ def wires(text, source):
             if m.group(1) not in have and "unused" not in m.group(1)]
 
 
+def inverted_only(text, names):
+    """Of the new wires `names`, those `text` reads two or more times, every time complemented."""
+    out = []
+    for n in names:
+        m = re.search(r"^\s*wire\s+(?:\[[^\]]*\]\s*)?" + re.escape(n) + r"\s*=", text, re.M)
+        uses = re.findall(r"(~?)(?:\{\d+\{)?\b" + re.escape(n) + r"\b", text[m.end():]) if m else []
+        if len(uses) >= 2 and all(u == "~" for u in uses):
+            out.append(n)
+    return out
+
+
+def tildes(text):
+    """`~` in the text outside comments."""
+    return sum(line.split("//")[0].count("~") for line in text.splitlines())
+
+
 def main():
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--kerf", required=True)
@@ -52,7 +70,7 @@ def main():
         jobs.append((f"rtl/{c.name}", c.path,
                      [kerf, "restructure", *c.files, "--top", c.top, *["--include=" + d for d in c.include_dirs],
                       *["--define=" + d for d in c.define_sets[0]], *c.flag_sets[0], "--min-gain", "0"]))
-    total = indexed = 0
+    total = indexed = inverted = tilde = 0
     per_case = []
     with tempfile.TemporaryDirectory(prefix="kerf-names-") as work:
         for label, src, cmd in jobs:
@@ -63,8 +81,15 @@ def main():
             if r.returncode != 0 or not os.path.exists(out):
                 print(f"{label}: exit {r.returncode}: {r.stderr.strip()[-200:]}")
                 continue
-            ws = wires(open(out).read(), open(src).read())
+            text = open(out).read()
+            ws = wires(text, open(src).read())
             idx = [(n, d) for n, d in ws if INDEXED.search(n)]
+            inv = inverted_only(text, [n for n, _ in ws])
+            inverted += len(inv)
+            tilde += tildes(text)
+            if a.show:
+                for n in inv:
+                    print(f"{label}: {n} is read only complemented")
             total += len(ws)
             indexed += len(idx)
             if idx:
@@ -75,6 +100,8 @@ def main():
     for label, n, m in per_case:
         print(f"{label}: {n} of {m} new wires indexed")
     print(f"wire_name_survey: {indexed} of {total} new wires named by output and index (_tN)")
+    print(f"wire_name_survey: {inverted} new wires read two or more times, only complemented; "
+          f"{tilde} `~` in the written files")
     return 0
 
 

@@ -37,9 +37,9 @@ module rv_decoder (
   wire opcode_is_6f = opcode[3] & opcode_1_0_is_11 & opcode_6_2_is_110x1;
   wire opcode_is_67 = opcode_3_0_is_0x11 & opcode_6_2_is_110x1;
   wire opcode_is_6f_or_67 = opcode_is_6f | opcode_is_67;
-  wire opcode_not_33_or_13 = ~(opcode_is_33 | opcode_is_13);
-  wire reg_write_t0 = ~opcode_is_6f_or_67 & opcode_not_33_or_13;
-  wire opcode_is_63_or_33_or_13 = opcode_is_63 | ~opcode_not_33_or_13;
+  wire opcode_is_33_or_13 = opcode_is_33 | opcode_is_13;
+  wire reg_write_t0 = opcode_is_6f_or_67 | opcode_is_33_or_13;
+  wire opcode_is_63_or_33_or_13 = opcode_is_63 | opcode_is_33_or_13;
   wire alu_op3_t0 = opcode_is_33 | ((funct3 == 3'b101) & opcode_is_13);
   wire imm_sel0_t0 = opcode_is_23 | opcode_is_0x10111;
   wire funct3_not_000 = funct3 != 3'b000;
@@ -54,7 +54,7 @@ module rv_decoder (
     //   7'b1101111: begin  // JAL
     //   7'b1100111: begin  // JALR
     mem_read = (opcode[5:4] == 2'b00) & opcode_3_0_is_0x11 & nopcode6_nopcode2;
-    reg_write = opcode_is_0x10111 | ~reg_write_t0 | mem_read;
+    reg_write = opcode_is_0x10111 | reg_write_t0 | mem_read;
     mem_write = opcode_is_23;
     branch = opcode_is_63;
     jump = opcode_is_6f_or_67;
@@ -71,6 +71,6 @@ module rv_decoder (
     imm_sel[2] = opcode_is_6f;
     illegal = ((funct3[2:1] == 2'b01) & opcode_is_63)
             | (opcode_is_67 & funct3_not_000)
-            | ~(opcode_is_63 | ~reg_write_t0 | imm_sel0_t0 | mem_read);
+            | ~(opcode_is_63 | reg_write_t0 | imm_sel0_t0 | mem_read);
   end
 endmodule
