@@ -22,6 +22,10 @@
 
 #include <fmt/format.h>
 
+#if defined(__GLIBC__)
+#include <malloc.h>
+#endif
+
 #include <algorithm>
 #include <tuple>
 #include <cctype>
@@ -41,6 +45,12 @@ namespace {
 
 using Clock = std::chrono::steady_clock;
 double since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
+/// CPU seconds of the calling thread (the progress line's thread is not counted).
+double threadCpu() {
+    timespec ts{};
+    clock_gettime(CLOCK_THREAD_CPUTIME_ID, &ts);
+    return static_cast<double>(ts.tv_sec) + static_cast<double>(ts.tv_nsec) * 1e-9;
+}
 
 /// A rewritten group that compares with at least this many named constants and names none of
 /// them is kept as written (F346).
@@ -496,6 +506,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     // kerf runs itself on the written text (F235): that run takes the reading as its input and
     // needs all of it (comments, named constants, every match key).
     std::optional<std::optional<std::string>> memberTexts;
+    std::map<std::string, double> proveCpu;   // CPU s of the proof's steps, shown with -v
     if (ownCheckable) memberTexts.emplace(std::nullopt);
     auto readBack = [&](const std::string& text, frontend::ModuleDesc& written) {
         const std::string rewrittenName = std::filesystem::path(file).filename().string();
@@ -532,13 +543,18 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             stages.addChild("reader (rewrite)", rf.seconds, rf.peakRssKb, rf.cpuSeconds);
         }
         frontend::Lowered writtenLow;
+        double c0 = threadCpu();
         try {
             writtenLow = lowerAs(written, opts.dissolveInternal, false, lowerPrefix, nullptr, opts.keep, opts.keepX,
                                  keptByKey(desc, agreedKept, written), lintWires());
         } catch (const Error& e) {
             ownFault(e, "lower");
         }
-        return passes::measureFactored(writtenLow.net);
+        double c1 = threadCpu();
+        net::Metrics m = passes::measureFactored(writtenLow.net);
+        proveCpu["lower the rewrite"] += c1 - c0;
+        proveCpu["measure the rewrite"] += threadCpu() - c1;
+        return m;
     };
     // Names are weighed on the forms the writer prints; the file as read back is the measure.
     // Over the depth bound, or above the engine's gates by more than the margin, the file is
@@ -909,6 +925,12 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
     originalForms.forms = {};
     er.forms.forms = {};
     factorCache.reset();
+#if defined(__GLIBC__)
+    // Those were millions of small blocks: freed, they stay in the process (glibc keeps freed
+    // blocks below its heap's top) while the reader on the rewrite, a process of its own,
+    // needs as much again. Hand the free pages back first (F368).
+    malloc_trim(0);
+#endif
     const std::string original_text = io::readFile(file);
 
     std::size_t groupsReplaced = 0;
@@ -976,6 +998,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             shownAfter = shownBefore;
             groupsReplaced = 0;
         } else if (!opts.skipProof) {
+            double c0 = threadCpu();
             frontend::Lowered a = proofOriginal ? std::move(*proofOriginal)
                                                 : lowerAs(desc, opts.dissolveInternal, true, lowerPrefix, nullptr,
                                                           opts.keep, opts.keepX, agreedKept);
@@ -983,6 +1006,8 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             // The writer's unused wire only reads bits for lint: what it reads may be x.
             frontend::Lowered b = lowerAs(written, opts.dissolveInternal, true, lowerPrefix, &authorSignals, opts.keep,
                                           opts.keepX, keptByKey(desc, agreedKept, written), lintWires());
+            double c1 = threadCpu();
+            proveCpu["lower both for the proof"] += c1 - c0;
             io::Progress::global().stage("prove");
             proof::ProofOptions po;
             po.totalConflicts = opts.proofBudget;
@@ -1009,7 +1034,16 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                 if (!contained)
                     ownFault(Error("the rewrite can be x where kerf wrote logic", {}, ExitCode::Internal), "stay free of x");
             }
+            double c2 = threadCpu();
+            proveCpu["x conditions"] += c2 - c1;
             proof::BoundedResult br = proof::proveBounded({desc, a}, {written, b}, po);
+            proveCpu["compare"] += threadCpu() - c2;
+            if (opts.verbose > 0) {
+                std::string line = "prove, CPU s:";
+                for (const auto& [k, v] : proveCpu) line += fmt::format(" {} {:.2f},", k, v);
+                line.pop_back();
+                std::cerr << line << "\n";
+            }
             const proof::ProofResult& pr = br.proof;
             double proofSeconds = since(tProof);
             // The boundary of the proof (kerf/proof/boundary.h) is kerf's own doing here: every
