@@ -71,6 +71,37 @@ AigLit Aig::xorOf(AigLit a, AigLit b) {
 }
 
 AigLit Aig::andOfMany(std::vector<AigLit> lits) {
+    // An input that is itself a plain AND (not complemented) stands for its own inputs: the
+    // conjunction is taken over the leaves, down to inputs and complemented nodes, and built
+    // anew from them. The same product written two ways (a cube of literals, or a shared
+    // two-literal factor ANDed with the rest) then becomes the same node, found by hashing
+    // instead of by a SAT call (F370). Associativity and commutativity of AND only: the
+    // function is unchanged. A list stops growing at kFlattenLeaves (wide shared logic is
+    // not copied into every reader).
+    if (lits.size() > 1) {
+        constexpr std::size_t kFlattenLeaves = 64;
+        std::size_t count = lits.size();
+        bool any = false;
+        for (AigLit l : lits)
+            if (!aigNegated(l) && isAnd(aigNode(l))) any = true;
+        if (any) {
+            std::vector<AigLit> leaves, stack(lits.rbegin(), lits.rend());
+            leaves.reserve(count * 2);
+            while (!stack.empty()) {
+                AigLit l = stack.back();
+                stack.pop_back();
+                const AigNode n = aigNode(l);
+                if (!aigNegated(l) && isAnd(n) && count < kFlattenLeaves) {
+                    ++count;   // one literal becomes two
+                    stack.push_back(fanin1_[n]);
+                    stack.push_back(fanin0_[n]);
+                } else {
+                    leaves.push_back(l);
+                }
+            }
+            lits = std::move(leaves);
+        }
+    }
     std::sort(lits.begin(), lits.end());
     lits.erase(std::unique(lits.begin(), lits.end()), lits.end());
     std::size_t k = 0;

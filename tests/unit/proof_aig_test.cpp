@@ -41,6 +41,60 @@ TEST(ProofAig, StructuralHashingSharesNodes) {
     EXPECT_NE(g.andOf(a, aigNot(b)), ab);
 }
 
+TEST(ProofAig, ConjunctionOfConjunctionsIsOneNode) {
+    // AND is associative and commutative (Boolean algebra; common textbook identities), so a
+    // product written with a factor that is itself a product, (a&b)&c&d, is the product a&b&c&d:
+    // andOfMany takes it over the leaves, and hashing gives the two writings one node (F370).
+    Aig g;
+    AigLit a = g.input("a"), b = g.input("b"), c = g.input("c"), d = g.input("d"), e = g.input("e");
+    AigLit flat = g.andOfMany({a, b, c, d});
+    EXPECT_EQ(g.andOfMany({g.andOf(a, b), c, d}), flat);
+    EXPECT_EQ(g.andOfMany({g.andOf(c, a), g.andOf(d, b)}), flat);
+    EXPECT_EQ(g.andOfMany({g.andOfMany({b, d, a}), c, a}), flat);   // a repeated leaf counts once
+    // De Morgan: an OR of an OR is the OR of the leaves, (a|b)|c|d = a|b|c|d.
+    EXPECT_EQ(g.orOfMany({g.orOf(a, b), c, d}), g.orOfMany({a, b, c, d}));
+    // A complemented product is not a conjunction of its leaves: !(a&b)&c stays as it is.
+    AigLit nab = aigNot(g.andOf(a, b));
+    EXPECT_NE(g.andOfMany({nab, c}), g.andOfMany({aigNot(a), aigNot(b), c}));
+    // A leaf and its complement among the leaves: the constant 0 (a & !a = 0).
+    EXPECT_EQ(g.andOfMany({g.andOf(a, e), aigNot(e)}), kAigFalse);
+}
+
+TEST(ProofAig, NestedConjunctionsComputeTheirFunction) {
+    // Wide and deep products (past the number of leaves a list is flattened to) and ORs of them
+    // still compute the conjunction and disjunction of their inputs: checked on random patterns
+    // against the values computed here (bitwise AND / OR of the input words).
+    Aig g;
+    std::vector<AigLit> in;
+    for (int i = 0; i < 90; ++i) in.push_back(g.input("i" + std::to_string(i)));
+    // ((i0&i1)&(i2&i3)) ... nested four deep, then ANDed with 20 more inputs and a complemented pair.
+    std::vector<AigLit> level(in.begin(), in.begin() + 64);
+    while (level.size() > 1) {
+        std::vector<AigLit> up;
+        for (std::size_t i = 0; i + 1 < level.size(); i += 2) up.push_back(g.andOf(level[i], level[i + 1]));
+        level = up;
+    }
+    std::vector<AigLit> lits{level[0]};
+    for (int i = 64; i < 84; ++i) lits.push_back(aigNot(in[i]));
+    lits.push_back(aigNot(g.andOf(in[84], in[85])));
+    AigLit wide = g.andOfMany(lits);
+    AigLit sum = g.orOfMany({g.andOfMany({in[86], in[87]}), g.orOf(in[88], in[89]), wide});
+    Random rng(71);
+    for (int w = 0; w < 16; ++w) {
+        std::vector<std::uint64_t> words(in.size());
+        for (auto& x : words) x = rng.next();
+        if (w % 2) for (int i = 0; i < 64; ++i) words[i] |= rng.next() | rng.next();   // make the product 1 at times
+        std::vector<std::uint64_t> val;
+        simulateWord(g, words, val);
+        std::uint64_t want = ~std::uint64_t{0};
+        for (int i = 0; i < 64; ++i) want &= words[i];
+        for (int i = 64; i < 84; ++i) want &= ~words[i];
+        want &= ~(words[84] & words[85]);
+        ASSERT_EQ(literalValue(val, wide), want) << "word " << w;
+        ASSERT_EQ(literalValue(val, sum), want | (words[86] & words[87]) | words[88] | words[89]) << "word " << w;
+    }
+}
+
 TEST(ProofAig, SameNetworkTwiceIsSharedCompletely) {
     Network n = randomNetwork(7, 8, 40, 6);
     Aig g;

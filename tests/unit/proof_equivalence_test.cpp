@@ -81,6 +81,47 @@ TEST(ProofEquivalence, DistributiveLawHandBuilt) {
     EXPECT_NE(r.boundaryNote.find("1 outputs"), std::string::npos);
 }
 
+TEST(ProofEquivalence, ProductsThroughSharedFactorsNeedNoSat) {
+    // A sum of products, and the same sum with two-literal factors taken out of several
+    // products and shared (a restructuring's extracted divisors, written as wires): the products
+    // are the same conjunctions (AND is associative and commutative), so hashing both sides
+    // settles every output with no SAT call (F370). The factors pair literals that a balanced
+    // tree over the sorted literals would not pair (x0 with x3, x2 with x6). A mutant (one
+    // literal of one product flipped) is still refuted, checked against the truth tables.
+    for (bool mutate : {false, true}) {
+        SCOPED_TRACE(mutate ? "mutant" : "equal");
+        Network x;
+        std::vector<NodeId> in = addInputs(x, "x", 8);
+        auto p = [&](NodeId n) { return pos(n); };
+        auto q = [&](NodeId n) { return neg(n); };
+        x.addOutput("y0", pos(x.addLogic(cover({{q(in[0]), p(in[1]), p(in[2]), q(in[3]), p(in[6])},
+                                                 {q(in[0]), q(in[3]), p(in[4])},
+                                                 {p(in[5]), p(in[6]), q(in[7])}}))));
+        x.addOutput("y1", pos(x.addLogic(cover({{q(in[0]), q(in[3]), q(in[5]), p(in[7])},
+                                                 {p(in[2]), p(in[6]), p(in[1]), q(in[4])}}))));
+        Network z;
+        std::vector<NodeId> zin = addInputs(z, "x", 8);
+        NodeId nor03 = z.addLogic(cover({{neg(zin[0]), neg(zin[3])}}));   // ~(x0 | x3), shared
+        NodeId and26 = z.addLogic(cover({{pos(zin[2]), pos(zin[6])}}));   // x2 & x6, shared
+        Literal flip = mutate ? neg(zin[4]) : pos(zin[4]);
+        z.addOutput("y0", pos(z.addLogic(cover({{pos(nor03), pos(and26), pos(zin[1])},
+                                                 {pos(nor03), flip},
+                                                 {pos(zin[6]), neg(zin[7]), pos(zin[5])}}))));
+        z.addOutput("y1", pos(z.addLogic(cover({{pos(nor03), neg(zin[5]), pos(zin[7])},
+                                                 {pos(and26), pos(zin[1]), neg(zin[4])}}))));
+        ProofResult r = proveEquivalent(x, z);
+        checkAgainstReference(x, z, {}, mutate ? "mutant" : "equal");
+        if (!mutate) {
+            EXPECT_EQ(r.verdict, Verdict::Equivalent);
+            EXPECT_EQ(r.stats.byStructure, 2u);
+            EXPECT_EQ(r.stats.satCalls, 0u);
+        } else {
+            EXPECT_EQ(r.verdict, Verdict::Different);
+            EXPECT_EQ(r.failingOutputs, std::vector<std::string>{"y0"});
+        }
+    }
+}
+
 TEST(ProofEquivalence, AndVersusOrIsRefutedWithReplayedCounterexample) {
     Network x, z;
     NodeId a = x.addInput("a"), b = x.addInput("b");
