@@ -13,6 +13,15 @@
 
 namespace kerf::proof {
 
+namespace {
+std::size_t strashSlot(std::uint64_t k, std::size_t mask) {
+    k ^= k >> 33;
+    k *= 0xFF51AFD7ED558CCDull;
+    k ^= k >> 33;
+    return static_cast<std::size_t>(k) & mask;
+}
+} // namespace
+
 using algebra::literalNegated;
 using algebra::literalVar;
 
@@ -57,12 +66,35 @@ AigLit Aig::andOf(AigLit a, AigLit b) {
     if (a == kAigTrue) return b;
     if (a == b) return a;
     if (a == aigNot(b)) return kAigFalse;
-    std::uint64_t key = (std::uint64_t{a} << 32) | b;
-    auto [it, inserted] = hashTable_.try_emplace(key, 0);
-    if (!inserted) return aigLit(it->second);
-    AigLit l = newNode(a, b);
-    it->second = aigNode(l);
-    return l;
+    const std::uint64_t key = (std::uint64_t{a} << 32) | b;
+    if ((strashSize_ + 1) * 2 > strashKeys_.size()) growStrash();
+    const std::size_t mask = strashKeys_.size() - 1;
+    for (std::size_t i = strashSlot(key, mask);; i = (i + 1) & mask) {
+        if (strashKeys_[i] == key) return aigLit(strashNodes_[i]);
+        if (strashKeys_[i] == 0) {
+            AigLit l = newNode(a, b);
+            strashKeys_[i] = key;
+            strashNodes_[i] = aigNode(l);
+            ++strashSize_;
+            return l;
+        }
+    }
+}
+
+void Aig::growStrash() {
+    std::vector<std::uint64_t> keys = std::move(strashKeys_);
+    std::vector<AigNode> nodes = std::move(strashNodes_);
+    const std::size_t cap = std::max<std::size_t>(1024, keys.size() * 2);
+    strashKeys_.assign(cap, 0);
+    strashNodes_.assign(cap, 0);
+    const std::size_t mask = cap - 1;
+    for (std::size_t j = 0; j < keys.size(); ++j) {
+        if (keys[j] == 0) continue;
+        std::size_t i = strashSlot(keys[j], mask);
+        while (strashKeys_[i] != 0) i = (i + 1) & mask;
+        strashKeys_[i] = keys[j];
+        strashNodes_[i] = nodes[j];
+    }
 }
 
 AigLit Aig::xorOf(AigLit a, AigLit b) {

@@ -12,6 +12,7 @@
 #include <algorithm>
 #include <fstream>
 #include <map>
+#include <optional>
 #include <set>
 #include <sstream>
 #include <unordered_map>
@@ -168,16 +169,22 @@ BoundedResult proveBounded(const ProofSide& a, const ProofSide& b, const ProofOp
     account(a, outB, writersB, "first", "second");
     account(b, outA, writersA, "second", "first");
 
-    auto common = [&](const net::Network& n, const std::set<std::string>& keep) {
-        net::Network c = n;
-        auto& outs = c.outputs();
+    // The outputs both sides compute; a side with no others is compared as it is (a copy of a
+    // generated design's network costs as much as building its graph).
+    std::optional<net::Network> copyA, copyB;
+    auto common = [&](const net::Network& n, const std::set<std::string>& keep,
+                      std::optional<net::Network>& copy) -> const net::Network& {
+        if (n.outputs().size() == keep.size()) return n;   // names are unique (checked by the proof)
+        copy.emplace(n);
+        auto& outs = copy->outputs();
         outs.erase(std::remove_if(outs.begin(), outs.end(), [&](const net::Output& o) { return !keep.count(o.name); }),
                    outs.end());
-        return c;
+        return *copy;
     };
     std::set<std::string> both;
     std::set_intersection(outA.begin(), outA.end(), outB.begin(), outB.end(), std::inserter(both, both.end()));
-    net::Network na = common(a.low.net, both), nb = common(b.low.net, both);
+    const net::Network& na = common(a.low.net, both, copyA);
+    const net::Network& nb = common(b.low.net, both, copyB);
     const net::Network* dc = a.low.dontCares.outputs().empty() ? nullptr : &a.low.dontCares;
     r.proof = proveEquivalent(na, nb, opts, dc);
     r.comparedOutputs = both.size();

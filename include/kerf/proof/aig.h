@@ -80,7 +80,12 @@ private:
     std::vector<AigNode> inputs_;
     std::vector<std::string> inputNames_;
     std::unordered_map<std::string, AigNode> inputByName_;
-    std::unordered_map<std::uint64_t, AigNode> hashTable_;
+    // Structural hashing: ordered fanin pair (a << 32 | b, never 0: a is no constant) -> node,
+    // open addressing with linear probing (key 0 marks a free slot).
+    std::vector<std::uint64_t> strashKeys_;
+    std::vector<AigNode> strashNodes_;
+    std::size_t strashSize_ = 0;
+    void growStrash();
 };
 
 } // namespace kerf::proof
