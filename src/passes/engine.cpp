@@ -222,8 +222,11 @@ const std::vector<LimitInfo>& limitTable() {
         sub("cubes-work", "cubes looked at per move", &EngineLimits::cubes, &ShareCubesOptions::workBudget, 1),
         sub("cubes-in-place", "networks of at least this many cubes get cube extraction in place, by index (0: never)",
             &EngineLimits::cubes, &ShareCubesOptions::inPlaceCubes),
-        sub("divisors-pair-max-cubes", "nodes with more cubes give no two-cube divisors", &EngineLimits::divisors,
+        sub("divisors-pair-max-cubes", "nodes with more cubes give no divisors (two-cube or two-literal)", &EngineLimits::divisors,
             &ShareDivisorsOptions::maxCubesForPairs),
+        sub("divisors-cube-pair-max-cubes",
+            "nodes with more cubes give two-literal divisors only, no two-cube ones (0: divisors-pair-max-cubes)",
+            &EngineLimits::divisors, &ShareDivisorsOptions::maxCubesForCubePairs),
         sub("divisors-literal-pair-max-cube", "cubes with more literals give no two-literal divisors",
             &EngineLimits::divisors, &ShareDivisorsOptions::maxCubeForLiteralPairs),
         sub("divisors-kernels-per-node", "kernels enumerated per node", &EngineLimits::divisors,
@@ -1037,6 +1040,9 @@ EngineLimits limitsFor(Effort e) {
         // The whole-network extractions (opening, or before the regions)
         // look at no more than this many cubes each: linear in the network.
         l.cubes.workBudget = 20000000;
+        // Two-cube divisors only from nodes of up to 16 cubes (120 pairs):
+        // wider nodes give two-literal divisors (engine21).
+        l.divisors.maxCubesForCubePairs = 16;
         break;
     case Effort::Default:
         break;

@@ -134,6 +134,9 @@ public:
         const std::size_t n = F.cubes.size();
         auto counted = [&](std::size_t k) { return k >= 3 && k <= opts_.maxCubesForPairs; };
         if (!counted(n) || !counted(old.cubes.size())) return compute(f);
+        // Both counts must take the same kinds of pairs (see cubePairsOf).
+        const bool cubePairs = cubePairsOf(n);
+        if (cubePairs != cubePairsOf(old.cubes.size())) return compute(f);
         // Which cubes left (of old) and came (of F): a multiset difference.
         std::vector<std::size_t> order(n);
         for (std::size_t i = 0; i < n; ++i) order[i] = i;
@@ -163,8 +166,10 @@ public:
                 if (mark[a]) literalPairs(cubes[a], delta, sign);
         };
         // Counted in the order of a full count: cube pairs of F, then literal pairs.
-        pairs(old.cubes, left, -1);
-        pairs(F.cubes, came, 1);
+        if (cubePairs) {
+            pairs(old.cubes, left, -1);
+            pairs(F.cubes, came, 1);
+        }
         literals(old.cubes, left, -1);
         literals(F.cubes, came, 1);
         finish(delta);
@@ -194,7 +199,7 @@ public:
         if (selfDouble || selfSingle) {
             c.provides = idOf(F);
         }
-        if (F.cubes.size() >= 2 && F.cubes.size() <= opts_.maxCubesForPairs) {
+        if (F.cubes.size() >= 2 && F.cubes.size() <= opts_.maxCubesForPairs && cubePairsOf(F.cubes.size())) {
             for (std::size_t i = 0; i < F.cubes.size(); ++i)
                 for (std::size_t j = i + 1; j < F.cubes.size(); ++j) {
                     if (selfDouble) continue;   // the node's only pair is itself
@@ -213,6 +218,18 @@ public:
             std::sort(c.cubes.begin(), c.cubes.end());
         }
         return finish(c);
+    }
+
+    // Does a node of k cubes give two-cube divisors? Up to
+    // divisors-cube-pair-max-cubes (0: up to divisors-pair-max-cubes);
+    // larger nodes, up to divisors-pair-max-cubes, give two-literal
+    // divisors only. The two-cube divisors of a node grow with the square
+    // of its cubes, and a re-entered node recounts every pair of a changed
+    // cube: on the 100k `sopwide` network (2,500 nodes of 40 cubes) that
+    // was nearly all of the fast effort's time, and no two-cube divisor was
+    // extracted there (every divisor taken was a literal pair).
+    bool cubePairsOf(std::size_t k) const {
+        return opts_.maxCubesForCubePairs == 0 || k <= opts_.maxCubesForCubePairs;
     }
 
     // The two-cube divisor of cubes a, b (their common cube removed) and its saving, times sign.
@@ -408,28 +425,39 @@ private:
         if (d.cubes.size() == 1 && d.cubes[0].lits.size() == 2) return pairId(d.cubes[0].lits[0], d.cubes[0].lits[1]);
         // Looked up by the cover itself (a string key per pair of cubes was
         // the largest cost of this technique on the 10k decoder, F44).
+        // Each slot keeps the high half of its divisor's hash: a probe that
+        // meets another divisor is told apart without reading that divisor
+        // (two cache misses, its record and its literals; on the 30k
+        // `sopwide` network these lookups were a third of the fast effort's
+        // time, engine21).
         if (2 * (indexed_ + 1) > slots_.size()) grow();
         const std::size_t mask = slots_.size() - 1;
-        for (std::size_t k = hashOf(d) & mask;; k = (k + 1) & mask) {
+        const std::size_t h = hashOf(d);
+        const auto tag = static_cast<std::uint32_t>(static_cast<std::uint64_t>(h) >> 32);
+        for (std::size_t k = h & mask;; k = (k + 1) & mask) {
             if (slots_[k] < 0) {
                 if (full()) return -1;
                 const int id = store(d);
                 slots_[k] = id;
+                slotTags_[k] = tag;
                 ++indexed_;
                 return id;
             }
-            if (sameCover(slots_[k], d)) return slots_[k];
+            if (slotTags_[k] == tag && sameCover(slots_[k], d)) return slots_[k];
         }
     }
     void grow() {
         std::vector<int> old(std::max<std::size_t>(64, 2 * slots_.size()), -1);
         old.swap(slots_);
+        slotTags_.assign(slots_.size(), 0);
         const std::size_t mask = slots_.size() - 1;
         for (int id : old) {
             if (id < 0) continue;
-            std::size_t k = hashOf(id) & mask;
+            const std::size_t h = hashOf(id);
+            std::size_t k = h & mask;
             while (slots_[k] >= 0) k = (k + 1) & mask;
             slots_[k] = id;
+            slotTags_[k] = static_cast<std::uint32_t>(static_cast<std::uint64_t>(h) >> 32);
         }
     }
     void note(net::NodeId f, int id, long s) {
@@ -480,6 +508,7 @@ private:
     std::vector<ListEntry> pool_;    // the divisors' node lists
     std::uint32_t free_ = UINT32_MAX;   // entries dropped by compaction, for reuse
     std::vector<int> slots_;         // the two-cube divisors' index (-1: empty)
+    std::vector<std::uint32_t> slotTags_;   // beside each slot: the high half of its divisor's hash
     std::size_t indexed_ = 0;
     std::unordered_map<int, std::vector<net::NodeId>> providers_;   // divisor -> nodes whose cover was it
     std::vector<std::uint64_t> pairKeys_;   // literal pairs' index (kNoPair: empty slot)

@@ -46,6 +46,11 @@ TEST(PassesLimits, NamedLimitsAreSetAndBadOnesRejected) {
     setLimit(l, "closing-quiet=0");
     EXPECT_FALSE(l.closingQuiet);
     EXPECT_GT(limitsFor(Effort::Fast).wholeCubesMax, 0u) << "fast leaves cube extraction on huge networks to the regions";
+    EXPECT_EQ(l.divisors.maxCubesForCubePairs, 0u) << "default: two-cube divisors wherever pairs are counted";
+    setLimit(l, "divisors-cube-pair-max-cubes=5");
+    EXPECT_EQ(l.divisors.maxCubesForCubePairs, 5u);
+    EXPECT_GT(limitsFor(Effort::Fast).divisors.maxCubesForCubePairs, 0u) << "fast bounds the two-cube divisors' nodes";
+    EXPECT_LT(limitsFor(Effort::Fast).divisors.maxCubesForCubePairs, limitsFor(Effort::Fast).divisors.maxCubesForPairs);
     try {
         setLimit(l, "collapse-all=1");
         FAIL() << "expected an error";

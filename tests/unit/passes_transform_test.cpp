@@ -267,6 +267,44 @@ TEST(PassesShareDivisors, AFullCandidateTableTakesNoNewDivisors) {
     EXPECT_EQ(ctx.stats.get("candidates"), 1);
 }
 
+TEST(PassesShareDivisors, WideNodesGiveTwoLiteralDivisorsOnlyUnderTheCubePairBound) {
+    // Limit divisors-cube-pair-max-cubes (engine21). f = acx + bcx + w and
+    // g = acy + bcy + v share the two-cube divisor a + b (f = (a+b)cx + w:
+    // weak division, Brayton and McMullen 1982, from memory) and the
+    // two-literal divisors ac and bc. Unbounded, a + b (weight 2*3 - 1 = 5)
+    // is extracted first. With the bound at 2 cubes, these 3-cube nodes give
+    // no two-cube divisor at all, but their two-literal divisors are still
+    // counted and extracted. Functions are compared by exhaustive simulation.
+    Network n;
+    NodeId a = n.addInput("a"), b = n.addInput("b"), c = n.addInput("c"), x = n.addInput("x"), y = n.addInput("y"),
+           v = n.addInput("v"), w = n.addInput("w");
+    NodeId f = n.addLogic(cover({{pos(a), pos(c), pos(x)}, {pos(b), pos(c), pos(x)}, {pos(w)}}));
+    NodeId g = n.addLogic(cover({{pos(a), pos(c), pos(y)}, {pos(b), pos(c), pos(y)}, {pos(v)}}));
+    n.addOutput("f", pos(f));
+    n.addOutput("g", pos(g));
+    const Network before = n;
+    {
+        Network m = before;
+        PassContext ctx;
+        shareDivisors(m, ShareDivisorsOptions{}, ctx);
+        EXPECT_EQ(sameFunctions(before, m), "");
+        NodeId s = 0;
+        EXPECT_TRUE(findCover(m, cover({{pos(a)}, {pos(b)}}), s)) << "a+b became a node";
+    }
+    Network m = before;
+    PassContext ctx;
+    ShareDivisorsOptions o;
+    o.maxCubesForCubePairs = 2;
+    shareDivisors(m, o, ctx);
+    EXPECT_EQ(sameFunctions(before, m), "");
+    NodeId s = 0;
+    EXPECT_FALSE(findCover(m, cover({{pos(a)}, {pos(b)}}), s)) << "no two-cube divisor from a 3-cube node";
+    for (NodeId u = 0; u < m.nodeCount(); ++u)
+        if (m.isLogic(u) && u != f && u != g) EXPECT_EQ(m.node(u).cover.cubes.size(), 1u) << "only cube divisors";
+    EXPECT_GT(ctx.stats.get("extracted"), 0) << "the two-literal divisors are still taken";
+    EXPECT_LT(net::measure(m).gates, net::measure(before).gates);   // weights are counted in two-input gates
+}
+
 TEST(PassesShareDivisors, KernelMethodFindsCommonKernel) {
     // f = ax + ay + az + w, g = bx + by + bz: kernel x+y+z is common.
     Network n;

@@ -21,6 +21,10 @@ struct ShareDivisorsOptions {
     Method method = Method::Pairs;
     std::size_t maxCubesForPairs = 64;    ///< nodes with more cubes give no divisors here (see extract-cubes)
     std::size_t maxCubeForLiteralPairs = 24; ///< cubes with more literals give no two-literal divisors
+    /// Nodes with more cubes give two-literal divisors only, no two-cube
+    /// ones (whose number grows with the square of the node's cubes); 0: the
+    /// same bound as maxCubesForPairs.
+    std::size_t maxCubesForCubePairs = 0;
     std::size_t maxKernelsPerNode = 200;
     std::size_t kernelWork = 200000;       ///< steps of one node's kernel enumeration
     std::size_t maxExtractions = 1000000;
