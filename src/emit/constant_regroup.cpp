@@ -13,6 +13,10 @@
 // built on a smaller such comparison it reads (`is_CSR_MSTATUS_11_4 & (csr_addr[3:2] == 2'b00)`);
 // a node with more in its product reads the comparison as a node of its own (one per distinct
 // comparison) beside the rest of its literals. Pieces no longer read are removed by the tidy.
+// When no node that is one product holds such a comparison, a node of which only some literals
+// are products is taken too (F357: a choice beside `csr_addr[11:7] == CSR_MTVEC[11:7]`): the
+// others stand beside the comparison. When the comparisons found are nodes of their own
+// already, the network stands as it is.
 // The network is kept when its gates stay at most the caller's bound (below the logic as
 // written by the --min-gain margin: otherwise keeping the statements as written is as good)
 // and its depth within the bound; otherwise the engine's network stays.
@@ -128,54 +132,96 @@ ConstantRegroupResult regroupNamedConstants(frontend::Lowered& low, const fronte
         std::sort(lits.begin(), lits.end());
         return lits;
     };
-    for (net::NodeId n : net.topoOrder()) {
-        if (n >= saved.nodeCount()) continue;   // made here
-        const Cover c = net.node(n).cover;   // a copy: addLogic below may move the nodes
-        if (c.size() != 1) continue;
-        std::map<net::NodeId, bool> leaves, part;
-        if (!product(makeLiteral(n, false), leaves)) continue;
-        const int ci = namedIn(leaves, part);
-        if (ci < 0) continue;
-        named.insert(ci);
-        std::vector<Literal> lits;
-        if (part.size() == leaves.size()) {
-            // The node is the comparison: built on the largest comparison already made that it
-            // reads directly.
-            net::NodeId base = 0;
-            for (Literal x : c.cubes[0].lits) {
-                auto it = matched.find(literalVar(x));
-                if (literalNegated(x) || it == matched.end() || false) continue;
-                if (base == 0 || it->second.size() > matched.at(base).size()) base = literalVar(x);
+    // One pass over the network. A node qualifies when its function is one product of input
+    // bits; with `besideOthers`, also when only some of its literals are (F357: `sel &
+    // (csr_addr[11:7] == CSR_MTVEC[11:7]) & ...`, where `sel` is a choice): those give the
+    // leaves, and the others stand beside the comparison unchanged.
+    auto rebuild = [&](bool besideOthers) {
+        for (net::NodeId n : net.topoOrder()) {
+            if (n >= saved.nodeCount()) continue;   // made here
+            const Cover c = net.node(n).cover;   // a copy: addLogic below may move the nodes
+            if (c.size() != 1) continue;
+            std::map<net::NodeId, bool> leaves, part;
+            std::vector<Literal> opaque;
+            if (!besideOthers) {
+                if (!product(makeLiteral(n, false), leaves)) continue;
+            } else {
+                for (Literal x : c.cubes[0].lits) {
+                    std::map<net::NodeId, bool> more = leaves;
+                    if (product(x, more)) leaves = std::move(more);
+                    else opaque.push_back(x);
+                }
+                if (leaves.empty()) continue;
             }
-            if (base != 0) lits.push_back(makeLiteral(base, false));
-            for (const auto& [v, pos] : leaves)
-                if (base == 0 || !matched.at(base).count(v)) lits.push_back(makeLiteral(v, !pos));
-            matched[n] = leaves;
-            nodeOf.emplace(leaves, n);
-        } else {
-            // The comparison and the product's other literals.
-            net::NodeId cmp = 0;
-            if (auto it = nodeOf.find(part); it != nodeOf.end()) cmp = it->second;
-            else {
-                cmp = net.addLogic(Cover{{Cube(productOf(part))}});
-                nodeOf.emplace(part, cmp);
-                matched[cmp] = part;
+            const int ci = namedIn(leaves, part);
+            if (ci < 0) continue;
+            named.insert(ci);
+            std::vector<Literal> lits = opaque;
+            if (part.size() == leaves.size() && opaque.empty()) {
+                // The node is the comparison: built on the largest comparison already made that it
+                // reads directly.
+                net::NodeId base = 0;
+                for (Literal x : c.cubes[0].lits) {
+                    auto it = matched.find(literalVar(x));
+                    if (literalNegated(x) || it == matched.end()) continue;
+                    if (base == 0 || it->second.size() > matched.at(base).size()) base = literalVar(x);
+                }
+                if (base != 0) lits.push_back(makeLiteral(base, false));
+                for (const auto& [v, pos] : leaves)
+                    if (base == 0 || !matched.at(base).count(v)) lits.push_back(makeLiteral(v, !pos));
+                matched[n] = leaves;
+                nodeOf.emplace(leaves, n);
+            } else {
+                // The comparison and the product's other literals.
+                net::NodeId cmp = 0;
+                if (auto it = nodeOf.find(part); it != nodeOf.end()) cmp = it->second;
+                else {
+                    cmp = net.addLogic(Cover{{Cube(productOf(part))}});
+                    nodeOf.emplace(part, cmp);
+                    matched[cmp] = part;
+                }
+                lits.push_back(makeLiteral(cmp, false));
+                for (const auto& [v, pos] : leaves)
+                    if (!part.count(v)) lits.push_back(makeLiteral(v, !pos));
             }
-            lits.push_back(makeLiteral(cmp, false));
-            for (const auto& [v, pos] : leaves)
-                if (!part.count(v)) lits.push_back(makeLiteral(v, !pos));
+            std::sort(lits.begin(), lits.end());
+            std::vector<Literal> now = c.cubes[0].lits;
+            std::sort(now.begin(), now.end());
+            if (now == lits) continue;
+            net.node(n).cover = Cover{{Cube(std::move(lits))}};
+            ++res.nodes;
         }
-        std::sort(lits.begin(), lits.end());
-        std::vector<Literal> now = c.cubes[0].lits;
-        std::sort(now.begin(), now.end());
-        if (now == lits) continue;
-        net.node(n).cover = Cover{{Cube(std::move(lits))}};
-        ++res.nodes;
+    };
+    // Nodes that are one product first, as F346 made them; when that names no constant, the
+    // products with other literals beside (the result of the first pass kept where it names one:
+    // rv_csr_decode's comparisons stay as they were).
+    rebuild(false);
+    if (named.empty()) {
+        net = saved;
+        matched.clear();
+        nodeOf.clear();
+        res.nodes = 0;
+        rebuild(true);
     }
     for (std::size_t ci = 0; ci < desc.constants.size(); ++ci)
         if (named.count(static_cast<int>(ci))) res.constants.push_back(desc.constants[ci].name);
     if (res.nodes == 0) {
         net = saved;
+        // The comparisons found are products of their own already (the slice regroup wrote
+        // `csr_addr[11:7] == CSR_MTVEC[11:7]` into an output's product): the caller keeps this
+        // network rather than the engine's, which names none of them (F357).
+        const std::size_t depthMax = std::max(depthBound, static_cast<std::size_t>(forms.metrics.depth));
+        res.gatesAfter = forms.metrics.gates;
+        res.depthAfter = forms.metrics.depth;
+        res.namedAsIs = !res.constants.empty() && forms.metrics.depth <= depthMax &&
+                        static_cast<double>(forms.metrics.gates) <= maxGates;
+        std::string list;
+        for (const std::string& c : res.constants) list += (list.empty() ? "" : ", ") + c;
+        if (!res.constants.empty())
+            res.text = fmt::format("named constants: the network's products already hold the comparisons with {}: "
+                                   "{} gates, depth {} (bounds {:.0f} gates, depth {}): {}",
+                                   list, res.gatesAfter, res.depthAfter, maxGates, depthMax,
+                                   res.namedAsIs ? "kept" : "the engine's network stays");
         return res;
     }
     passes::tidy(net);

@@ -445,7 +445,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             emit::ConstantRegroupResult cr = emit::regroupNamedConstants(low, desc, er.forms, er.depthCap, bound,
                                                                          factorCache.get(), limit);
             if (cr.kept) er.after = er.forms.metrics;
-            constantsRegrouped = cr.kept;
+            constantsRegrouped = cr.kept || cr.namedAsIs;
             if (opts.verbose > 0 && !cr.text.empty()) std::cerr << cr.text << "\n";
         }
         if (regrouped && !constantsRegrouped && checkable) beforeRegroup = std::move(engineNet);

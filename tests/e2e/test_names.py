@@ -22,10 +22,11 @@ ONEHOT = os.path.join("tests", "rtl", "onehot_fsm_reverse_case.sv")
 ONEHOT_NAMES = ("IDLE", "LOAD", "RUN", "DRAIN", "FAULT")
 
 
-def _restructure_simulated(t, files, top, out, *extra):
+def _restructure_simulated(t, files, top, out, *extra, simulator="icarus"):
     """Restructure `files` (the module in the last) into `out`; its text when kerf proved it and
-    Icarus Verilog simulates it like the input (random vectors; bits where the original is x are
-    not compared: the source's x defaults are don't-cares), else None."""
+    Icarus Verilog (or Verilator, `simulator="verilator"`, for what Icarus 11 does not read)
+    simulates it like the input (random vectors; bits where the original is x are not compared:
+    the source's x defaults are don't-cares), else None."""
     r = K.run([t.kerf, "restructure", *files, "--top", top, "-o", out, *extra])
     if not t.res.check(r.returncode == 0 and "proved equivalent" in r.stderr,
                        f"{top}: restructured and proved: {r.stderr[-800:]}"):
@@ -39,9 +40,9 @@ def _restructure_simulated(t, files, top, out, *extra):
     open(ref, "w").write(fix(O.renamed(open(files[-1]).read(), top, top + "_kerf_ref")))
     open(new, "w").write(fix(O.renamed(open(out).read(), top, top + "_kerf_new")))
     pair = O.Pair("case", top + "_kerf_ref", top + "_kerf_new", plist, vectors=3000)
-    res = O.simulate([pair], files[:-1] + [ref, new], sim)["case"]
+    res = O.simulate([pair], files[:-1] + [ref, new], sim, simulator=simulator)["case"]
     t.res.check(res.ok and res.known > 0,
-                f"{top}: the rewrite simulates like the input (Icarus Verilog): {res.detail}")
+                f"{top}: the rewrite simulates like the input ({simulator}): {res.detail}")
     return open(out).read()
 
 
@@ -293,6 +294,43 @@ def _(t):
     text = _restructure_simulated(t, [src], "cmd_pair", os.path.join(t.work, "cmd_pair_numbers_out.sv"))
     if text is not None:
         t.res.check(text != numbered, "control: with numbers the module is rewritten")
+
+
+@S.case("named_rewrite_also_under_min_gain_0", needs=("iverilog", "verilator"))
+def _(t):
+    """F357: --min-gain 0 asks for every rewrite that does not grow the logic, so a group the
+    default run rewrites (naming a constant it compared with) is rewritten under --min-gain 0 too,
+    its logic naming at least one of those constants: never kept as written by the named-constant
+    rule (F346) while the default run found a named form. Cases: the corpus's CSR access checker
+    (`csr_addr inside {CSR_MTVEC, CSR_MEPC, CSR_MCAUSE, ...}` beside a choice; RISC-V CSR
+    addresses, an open standard; simulated by Verilator, since Icarus 11 does not read `inside`),
+    the CSR decoder and the ALU control (RISC-V opcodes; Icarus Verilog)."""
+    rtl = os.path.join(t.root, "tests", "rtl")
+    cases = [([os.path.join(rtl, "include", "csr_pkg.sv"), os.path.join(rtl, "inside_pkg_func.sv")],
+              "inside_pkg_func", "verilator"),
+             ([os.path.join(rtl, "include", "rv_csr_pkg.sv"), os.path.join(rtl, "rv_csr_decode.sv")],
+              "rv_csr_decode", "icarus"),
+             ([os.path.join(rtl, "rv_aluctl.sv")], "rv_aluctl", "icarus")]
+    compared = 0
+    for files, top, simulator in cases:
+        src_text = open(files[-1]).read()
+        consts = _compared_constants("\n".join(open(f).read() for f in files))
+        first = os.path.join(t.work, f"{top}_default.sv")
+        r = K.run([t.kerf, "restructure", *files, "--top", top, "-o", first])
+        if not t.res.check(r.returncode == 0, f"{top}: default run: {r.stderr[-600:]}"):
+            continue
+        default_text = open(first).read()
+        if default_text == src_text or not _named_in_logic(src_text, default_text, consts):
+            continue   # the property is about groups the default run rewrites with names
+        compared += 1
+        text = _restructure_simulated(t, files, top, os.path.join(t.work, f"{top}_g0.sv"), "--min-gain", "0",
+                                      simulator=simulator)
+        if text is None:
+            continue
+        t.res.check(text != src_text and _named_in_logic(src_text, text, consts),
+                    f"{top}: under --min-gain 0 the rewrite is made and names constants the source compared "
+                    f"with, as the default run's does:\n{text}")
+    t.res.check(compared >= 2, f"cases whose default run rewrites with named constants: {compared}")
 
 
 SPI_PKG = os.path.join("tests", "rtl", "include", "spi_cmd_pkg.sv")
