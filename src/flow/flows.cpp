@@ -38,6 +38,7 @@
 #include <memory>
 #include <optional>
 #include <set>
+#include <string_view>
 
 namespace kerf::flow {
 
@@ -181,6 +182,19 @@ nlohmann::json namingRow(const emit::NamingDecision& d) {
     if (d.made) row["after"] = {{"gates", d.gates}, {"depth", d.depth}};
     if (d.form == "comparisons one by one") row["rewrites"] = {{"kept", d.rewritesKept}, {"tried", d.rewritesTried}};
     return row;
+}
+
+/// The lines of `text` (without their newlines), as a set: a line of a rewrite not in the set
+/// of the file as read is one the rewrite added.
+std::set<std::string> lineSet(const std::string& text) {
+    std::set<std::string> lines;
+    for (std::size_t a = 0; a < text.size();) {
+        std::size_t b = text.find('\n', a);
+        if (b == std::string::npos) b = text.size();
+        lines.insert(text.substr(a, b - a));
+        a = b + 1;
+    }
+    return lines;
 }
 
 std::string figuresText(const net::Metrics& a, const net::Metrics& b) {
@@ -745,6 +759,21 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                                    kOwnRounds);
         beforeRegroup.reset();
     }
+    // Statements a naming rule keeps as written (`more`: match key -> reason; `lines`: the reasons
+    // shown under -v, after `rule`): the module is restructured again from the same reading with
+    // them kept, one round more (F346, F349).
+    auto keepAndRestructureAgain = [&](std::string_view rule, const std::map<std::string, std::string>& more,
+                                       const std::vector<std::string>& lines) {
+        if (opts.verbose > 0)
+            for (const auto& l : lines)
+                std::cerr << fmt::format("{}: {}: its statements are kept as written and the module is restructured "
+                                         "again\n", rule, l);
+        RestructureOptions o = opts;
+        o.preRead = &desc;
+        o.namedKept.insert(more.begin(), more.end());
+        ++o.namedKeepRounds;
+        return restructure(o, outcome);
+    };
     // A group whose statements compare a signal with named constants (a `case (csr_addr)` over a
     // package's addresses) and whose rewrite names none of them reads as bit patterns where the
     // source read names: the constants would survive only in the unused-signal wire. Such a
@@ -756,14 +785,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         // as an identifier of its own (`is_CSR_MSTATUS_11_3`, a wire's name, does not count).
         std::set<int> named;
         {
-            const std::string asRead = io::readFile(file);
-            std::set<std::string> old;
-            for (std::size_t a = 0; a < asRead.size();) {
-                std::size_t b = asRead.find('\n', a);
-                if (b == std::string::npos) b = asRead.size();
-                old.insert(asRead.substr(a, b - a));
-                a = b + 1;
-            }
+            const std::set<std::string> old = lineSet(io::readFile(file));
             std::string added;
             bool inUnused = false;
             for (std::size_t a = 0; a < wr.text.size();) {
@@ -833,17 +855,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
             ++o.namedKeepRounds;
             return restructure(o, outcome);
         }
-        if (!more.empty()) {
-            if (opts.verbose > 0)
-                for (const auto& l : lines)
-                    std::cerr << fmt::format("named constants: {}: its statements are kept as written and the module "
-                                             "is restructured again\n", l);
-            RestructureOptions o = opts;
-            o.preRead = &desc;
-            o.namedKept.insert(more.begin(), more.end());
-            ++o.namedKeepRounds;
-            return restructure(o, outcome);
-        }
+        if (!more.empty()) return keepAndRestructureAgain("named constants", more, lines);
     }
     // An enum field of a struct (`d.kind`, of `kind_e`) that the rewrite would write by bit
     // positions of the struct (`d[4] = ...`), where the source assigns it named values (`d.kind =
@@ -856,14 +868,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
         std::set<std::string> rewritten;
         for (const auto& g : wr.groups)
             if (g.replaced) rewritten.insert(g.outputs.begin(), g.outputs.end());
-        const std::string asRead = io::readFile(file);
-        std::set<std::string> old;
-        for (std::size_t a = 0; a < asRead.size();) {
-            std::size_t b = asRead.find('\n', a);
-            if (b == std::string::npos) b = asRead.size();
-            old.insert(asRead.substr(a, b - a));
-            a = b + 1;
-        }
+        const std::set<std::string> old = lineSet(io::readFile(file));
         for (const auto& [name, sig] : desc.signals) {
             if (!rewritten.count(name)) continue;
             std::vector<std::tuple<int, int, std::string>> fields;
@@ -903,17 +908,7 @@ int restructure(const RestructureOptions& opts, RestructureOutcome* outcome) {
                 }
             if (any) lines.push_back(hit);
         }
-        if (!more.empty()) {
-            if (opts.verbose > 0)
-                for (const auto& l : lines)
-                    std::cerr << fmt::format("named values: {}: its statements are kept as written and the module "
-                                             "is restructured again\n", l);
-            RestructureOptions o = opts;
-            o.preRead = &desc;
-            o.namedKept.insert(more.begin(), more.end());
-            ++o.namedKeepRounds;
-            return restructure(o, outcome);
-        }
+        if (!more.empty()) return keepAndRestructureAgain("named values", more, lines);
     }
     if (!wr.changed) proofOriginal.reset();   // nothing to prove
     // What only the engine and the writer needed goes before the rewrite is read back and
