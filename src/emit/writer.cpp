@@ -450,9 +450,20 @@ private:
         bool pattern = false;   ///< the value is a bit pattern with `x` (bits apart)
     };
     /// `taken`: names already given; a name after a constant (`like_CSR_MCYCLE`) taken by another
-    /// wire gives way to the next constant that has the pattern (no `_2` suffix, F347).
+    /// wire gives way to the next constant that has the pattern (no `_2` suffix, F347), among
+    /// the constants the statements it feeds compare with where it feeds any (F383).
     std::optional<std::string> sliceComparison(NodeId v, bool inverted, ComparisonParts* parts = nullptr,
                                                const std::set<std::string>* taken = nullptr) const;
+    /// Wire v's name (inverted when `inverted`) as the set of values of one vector's bits for
+    /// which it is true, or false (`digit_is_3_or_5_or_6_or_9`, `hit_vec_1_0_not_00`): when its
+    /// function reads the bits of one vector only, at most kValueSetBits of them, and the smaller
+    /// set has at most kValueSetValues values (F384).
+    std::optional<std::string> valueSetName(NodeId v, bool inverted) const;
+    static constexpr int kValueSetBits = 6;
+    static constexpr std::size_t kValueSetValues = 4;
+    /// Per wire: the named constants (indices into the module's) that the statements of the
+    /// outputs it feeds, directly or through other wires, compare with (nameWires; F383).
+    std::map<NodeId, std::set<int>> fedConstants_;
     std::string statement(const std::string& ind, const std::string& lead, const PExpr& e) const;
 
     /// Every name output i's text reads: an author's copy of an input reads that input;
@@ -1214,18 +1225,36 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
             // down (an address prefix with gaps), as for slices of a constant (expression.cpp).
             std::optional<std::string> firstLike;   // when every constant's name is taken
             if (vec->module)
-                for (const auto& c : vec->module->constants) {
-                    bool like = false;
+            {
+                // The range as the source's text indexes it (`req_i.address[15:4]`: 15 and 4, the
+                // member's own indices, never the struct's flat positions, F382).
+                std::string range;
+                if (std::size_t open = slice.rfind('['); open != std::string::npos && slice.back() == ']') {
+                    const std::string idx = slice.substr(open + 1, slice.size() - open - 2);
+                    if (!idx.empty() && idx.find_first_not_of("0123456789:") == std::string::npos) {
+                        range = "_" + idx;
+                        std::replace(range.begin(), range.end(), ':', '_');
+                    }
+                }
+                // The constants the statements this wire feeds compare with come first; where it
+                // feeds any, no other constant names it (a wire gating `we_ctrl`, whose statement
+                // compares with RegCtrl, is not named after RegStat, F383).
+                const std::set<int>* fed = nullptr;
+                if (auto f = fedConstants_.find(v); f != fedConstants_.end() && !f->second.empty()) fed = &f->second;
+                const auto& constants = vec->module->constants;
+                for (std::size_t ci = 0; ci < constants.size(); ++ci) {
+                    const auto& c = constants[ci];
+                    if (fed && !fed->count(static_cast<int>(ci))) continue;
+                    bool like = false, whole = false;
                     for (const auto& k : c.compared) {
                         if (like || k.signal != vec->signal || lo < k.lo || hi != k.hi) continue;
                         like = k.constLo == 0 && k.hi - k.lo + 1 == c.width() && c.width() >= 6;
+                        whole = lo == k.lo;
                         for (const auto& [o, val] : bits)
                             like = like && c.bit(o - k.lo) == (val != 0);
                     }
-                    if (!like) continue;
-                    auto index = [&](int off) { return vec->msb >= vec->lsb ? vec->lsb + off : vec->lsb - off; };
-                    std::string name = (complemented ? "not_like_" : "like_") + c.name;
-                    if (lo != 0 || hi != vec->width - 1) name += fmt::format("_{}_{}", index(hi), index(lo));
+                    if (!like || (!whole && range.empty())) continue;
+                    std::string name = (complemented ? "not_like_" : "like_") + c.name + (whole ? "" : range);
                     if (name.size() > std::max<std::size_t>(opts_.maxNameLength, 8)) continue;
                     if (taken && taken->count(opts_.prefix + name)) {
                         if (!firstLike) firstLike = name;
@@ -1234,6 +1263,7 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
                     if (parts) parts->pattern = false;   // a name of its own, not the pattern's
                     return name;
                 }
+            }
             if (firstLike) {
                 if (parts) parts->pattern = false;
                 return firstLike;
@@ -1271,6 +1301,83 @@ std::optional<std::string> Writer::sliceComparison(NodeId v, bool inverted, Comp
     return std::nullopt;
 }
 
+std::optional<std::string> Writer::valueSetName(NodeId v, bool inverted) const {
+    // The leaves, as sliceComparison takes them: bits of one vector that are not new wires.
+    std::map<int, NodeId> leafOf;   // offset -> node
+    const VarRef* vec = nullptr;
+    std::size_t steps = 0;
+    std::function<bool(Literal)> lit;
+    std::function<bool(const Factored&)> form = [&](const Factored& f) -> bool {
+        if (++steps > 256) return false;
+        switch (f.kind) {
+        case Factored::Kind::Lit: return lit(f.lit);
+        case Factored::Kind::And:
+        case Factored::Kind::Or:
+            for (const auto& k : f.kids)
+                if (!form(k)) return false;
+            return !f.kids.empty();
+        default: return false;
+        }
+    };
+    lit = [&](Literal l) -> bool {
+        NodeId x = literalVar(l);
+        if (x == 0) return false;
+        const std::optional<VarRef>& r = refs_[x];
+        const bool leaf = r && !isWire_[x] && !r->signal.empty() && r->width >= 2 && !r->byName;
+        if (!leaf) return net_.isLogic(x) && form(forms_[x]);
+        if (vec && vec->signal != r->signal) return false;
+        vec = &*r;
+        leafOf.emplace(r->offset, x);
+        return leafOf.size() <= static_cast<std::size_t>(kValueSetBits);
+    };
+    if (!lit(algebra::makeLiteral(v, inverted)) || leafOf.size() < 2 || !vec) return std::nullopt;
+    const int lo = leafOf.begin()->first, hi = leafOf.rbegin()->first, n = hi - lo + 1;
+    if (n > kValueSetBits) return std::nullopt;
+    // The function at each value of bits lo..hi (bit k of `value` is bit lo + k).
+    std::function<bool(Literal, unsigned)> at;
+    std::function<bool(const Factored&, unsigned)> formAt = [&](const Factored& f, unsigned value) -> bool {
+        if (f.kind == Factored::Kind::Lit) return at(f.lit, value);
+        const bool conj = f.kind == Factored::Kind::And;
+        for (const auto& k : f.kids)
+            if (formAt(k, value) != conj) return !conj;
+        return conj;
+    };
+    at = [&](Literal l, unsigned value) -> bool {
+        NodeId x = literalVar(l);
+        const std::optional<VarRef>& r = refs_[x];
+        bool b;
+        if (r && !isWire_[x] && !r->signal.empty() && r->width >= 2 && !r->byName)
+            b = ((value >> (r->offset - lo)) & 1U) != 0;
+        else
+            b = formAt(forms_[x], value);
+        return b != literalNegated(l);
+    };
+    std::vector<unsigned> on, off;
+    for (unsigned value = 0; value < (1U << n); ++value)
+        (at(algebra::makeLiteral(v, inverted), value) ? on : off).push_back(value);
+    if (on.empty() || off.empty()) return std::nullopt;
+    const bool equal = on.size() <= off.size();
+    const std::vector<unsigned>& set = equal ? on : off;
+    if (set.size() > kValueSetValues || set.size() < 2) return std::nullopt;   // one value: a comparison
+    std::string lhs, name;
+    for (unsigned value : set) {
+        std::vector<int> msbFirst;
+        for (int k = n - 1; k >= 0; --k) msbFirst.push_back(static_cast<int>((value >> k) & 1U));
+        int constant = -1;
+        const std::string text = comparisonText(*vec, lo, hi, msbFirst, constant);
+        if (text.empty() || text.front() == '{') return std::nullopt;   // bits the declared type splits
+        if (lhs.empty()) {
+            for (char c : text.substr(0, text.find(' ')))
+                if (c != ']') lhs += (c == '[' || c == ':' || c == '.') ? '_' : c;
+            name = lhs + (equal ? "_is_" : "_not_");
+        } else {
+            name += "_or_";
+        }
+        name += valueFragment(text);
+    }
+    return name;
+}
+
 void Writer::nameWires() {
     if (wires_.empty()) return;
     // Longest name a new wire takes (the prefix not counted): a longer descriptive name gives
@@ -1294,6 +1401,33 @@ void Writer::nameWires() {
         used.insert(n);
         return n;
     };
+    // The named constants each wire's readers compare with: from the statements of the outputs
+    // it feeds, through the wires that read it (wires are in topological order; F383).
+    fedConstants_.clear();
+    if (std::any_of(m_.constants.begin(), m_.constants.end(), [](const auto& c) { return !c.compared.empty(); })) {
+        for (std::size_t i = 0; i < outs_.size(); ++i) {
+            if (outs_[i].stmt < 0) continue;
+            auto mem = byId_.find(outs_[i].stmt);
+            if (mem == byId_.end()) continue;
+            std::set<int> compared;
+            for (int c : mem->second->constants)
+                if (c >= 0 && static_cast<std::size_t>(c) < m_.constants.size() &&
+                    !m_.constants[static_cast<std::size_t>(c)].compared.empty())
+                    compared.insert(c);
+            if (compared.empty()) continue;
+            NodeId v = literalVar(net_.outputs()[i].driver);
+            coneOf(v, definer_[v] == static_cast<int>(i),
+                   [&](NodeId w) { fedConstants_[w].insert(compared.begin(), compared.end()); }, [](NodeId) {},
+                   [](const std::string&) {});
+        }
+        for (auto it = wires_.rbegin(); it != wires_.rend(); ++it) {
+            auto f = fedConstants_.find(*it);
+            if (f == fedConstants_.end()) continue;
+            const std::set<int> mine = f->second;
+            coneOf(*it, true, [&](NodeId w) { fedConstants_[w].insert(mine.begin(), mine.end()); }, [](NodeId) {},
+                   [](const std::string&) {});
+        }
+    }
     // Wires named as a comparison, by name: an OR of them over one vector is named as the set of
     // values (`opcode_is_67_or_6f`).
     std::map<std::string, ComparisonParts> comparisonOf;
@@ -1447,6 +1581,10 @@ void Writer::nameWires() {
             name = *fallback, setParts = cp;
             compound = name.find("_or_") != std::string::npos ? &sumNames : nullptr;
         }
+        // A tree over a few bits of one vector: the values it holds for (F384), where short.
+        if (name.empty())
+            if (auto set = valueSetName(v, refs_[v]->inverted); set && set->size() <= cap)
+                name = *set, compound = &sumNames;
         if (!name.empty()) {
             // Wires are in topological order: a later wire that combines this one reads its
             // name (`state_q_is_ARB_ncancel`), not a placeholder.

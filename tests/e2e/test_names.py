@@ -333,6 +333,212 @@ def _(t):
     t.res.check(compared >= 2, f"cases whose default run rewrites with named constants: {compared}")
 
 
+REGSEL_PKG = """// Invented: register block of a small timer peripheral, reached through a request struct.
+package regsel_pkg;
+  typedef struct packed {
+    logic        valid;
+    logic        write;
+    logic [15:0] address;
+    logic [3:0]  strobe;
+  } req_t;
+  localparam logic [15:0] RegCtrl  = 16'h4000;
+  localparam logic [15:0] RegStat  = 16'h4004;
+  localparam logic [15:0] RegLoad  = 16'h4010;
+  localparam logic [15:0] RegCount = 16'h4014;
+  localparam logic [15:0] RegIrqEn = 16'h4020;
+endpackage
+"""
+
+REGSEL = """// Invented: register selects of a small timer peripheral, reached through a request struct.
+module regsel
+  import regsel_pkg::*;
+(
+  input  req_t req_i,
+  output logic we_ctrl,
+  output logic rd_timer,
+  output logic we_irq
+);
+  assign we_ctrl  = req_i.valid & req_i.write & (req_i.address == RegCtrl || req_i.address == RegStat);
+  assign rd_timer = req_i.valid & ~req_i.write & (req_i.address == RegLoad || req_i.address == RegCount);
+  assign we_irq   = req_i.valid & req_i.write & (req_i.address == RegIrqEn);
+endmodule
+"""
+
+
+def _readers(text, outputs):
+    """Per new wire of a rewrite, the outputs whose assignment reads it, directly or through
+    other wires (from the text: `wire w = ...;` and `assign o = ...;`)."""
+    defs = {m.group(1): m.group(2) for m in re.finditer(r"^\s*wire\s+(?:\[[^\]]*\]\s*)?(\w+)\s*=\s*(.*?);",
+                                                      text, re.M | re.S)}
+    uses = {o: m.group(1) for o in outputs
+            for m in [re.search(r"^\s*assign\s+%s\s*=\s*(.*?);" % o, text, re.M | re.S)] if m}
+    reached = {w: set() for w in defs}
+
+    def mark(expr, out, seen):
+        for w in re.findall(r"\b\w+\b", expr):
+            if w in defs and w not in seen:
+                seen.add(w)
+                reached[w].add(out)
+                mark(defs[w], out, seen)
+    for o, e in uses.items():
+        mark(e, o, set())
+    return reached
+
+
+@S.case("struct_member_like_names", needs=("iverilog",))
+def _(t):
+    """F382, F383: an address decoder whose address is a member of a struct port (`req_i.address`,
+    16 bits, at flat positions 19:4 of `req_i`) compared with package constants (an invented timer
+    block). A new wire named after a constant by the address bits it is like (`like_RegCtrl_15_3`)
+    gives the range in the member's own indices (`req_i.address[15:3]`), never the struct's flat
+    positions (F382: `like_RegStat_19_4`); each such wire is true whenever the address equals the
+    constant (not_like: false), checked with every other input random (Icarus Verilog); and it is
+    named after a constant that the statements of the outputs it feeds compare with (F383: a wire
+    gating only `we_irq`, whose statement compares with RegIrqEn alone, is not named after RegCtrl).
+    Names are distinct (the rewrite compiles). Run by default and under --min-gain 0."""
+    pkg = os.path.join(t.work, "regsel_pkg.sv")
+    src = os.path.join(t.work, "regsel.sv")
+    open(pkg, "w").write(REGSEL_PKG)
+    open(src, "w").write(REGSEL)
+    consts = {n: int(v, 16) for n, v in re.findall(r"localparam logic \[15:0\] (\w+)\s*=\s*16'h([0-9A-Fa-f]+)",
+                                                    REGSEL_PKG)}
+    compared = {o: set(re.findall(r"\b(Reg\w+)\b", line))
+                for o, line in re.findall(r"assign\s+(\w+)\s*=(.*);", REGSEL)}
+    t.res.check(len(consts) == 5 and len(compared) == 3, f"the invented block: {consts} {compared}")
+    named = 0
+    for extra in ([], ["--min-gain", "0"]):
+        out = os.path.join(t.work, f"regsel_out{len(extra)}.sv")
+        text = _restructure_simulated(t, [pkg, src], "regsel", out, *extra)
+        if text is None:
+            continue
+        new = "\n".join(_new_lines(REGSEL, text))
+        # Any range in a new wire's name that the struct's flat positions would give (19..4 for
+        # the address: an index above 15 can only be flat).
+        for name in re.findall(r"^\s*wire\s+(\w+)\s*=", new, re.M):
+            idx = [int(x) for x in re.findall(r"_(\d+)(?=_|$)", name)]
+            t.res.check(all(i <= 15 for i in idx), f"{extra} `{name}`: no flat position of req_i in the name")
+        readers = _readers(text, compared)
+        checks = []
+        for name in re.findall(r"^\s*wire\s+(\w+)\s*=", new, re.M):
+            m = re.fullmatch(r"(not_)?like_(Reg[A-Za-z]+)(?:_(\d+)_(\d+))?(?:_\d+)?", name)
+            if not m or m.group(2) not in consts:
+                continue
+            named += 1
+            c = m.group(2)
+            feeds = readers.get(name, set())
+            t.res.check(any(c in compared[o] for o in feeds),
+                        f"{extra} `{name}` feeds {sorted(feeds)}, whose statements compare with "
+                        f"{sorted(set().union(*[compared[o] for o in feeds]) if feeds else [])}:\n{text}")
+            checks.append((name, 0 if m.group(1) else 1, consts[c]))
+        if not checks:
+            continue
+        tb = ["module regsel_names_tb;", "  import regsel_pkg::*;", "  req_t req_i;",
+              "  wire we_ctrl, rd_timer, we_irq;",
+              "  regsel dut (.req_i(req_i), .we_ctrl(we_ctrl), .rd_timer(rd_timer), .we_irq(we_irq));",
+              "  integer n, errors;", "  initial begin", "    errors = 0;",
+              "    for (n = 0; n < 400; n = n + 1) begin"]
+        for name, want, value in checks:
+            tb.append(f"      req_i = $random; req_i.address = 16'h{value:04x}; #1;")
+            tb.append(f"      if (dut.{name} !== 1'b{want}) begin errors = errors + 1; "
+                      f"$display(\"NAME {name} at %h\", req_i); end")
+        tb += ["    end", "    $display(\"ERRORS %0d\", errors);", "    $finish;", "  end", "endmodule"]
+        tbp = os.path.join(t.work, f"regsel_tb{len(extra)}.sv")
+        open(tbp, "w").write("\n".join(tb) + "\n")
+        vvp = os.path.join(t.work, f"regsel_tb{len(extra)}.vvp")
+        c = K.run(["iverilog", "-g2012", "-o", vvp, pkg, out, tbp])
+        if not t.res.check(c.returncode == 0, f"Icarus builds the name check: {c.stderr[-800:]}"):
+            continue
+        r = K.run(["vvp", "-n", vvp])
+        t.res.check("ERRORS 0" in r.stdout, f"{extra} every like-wire is true at its constant: {r.stdout[-800:]}")
+    t.res.check(named >= 1, f"wires named after a constant by the bits they are like: {named}")
+
+
+@S.case("value_set_names_tell_the_truth", needs=("iverilog",))
+def _(t):
+    """F384: a new wire over a few bits of one vector (at most 6) is named by the set of values
+    it is true for, or false for, where that set has at most 4 values and the name fits:
+    `digit_is_3_or_5_or_6_or_9` in the corpus's seven-segment decoder (invented), not an index
+    (`seg0_t2`). Every wire named `<vector or slice>_is_<v>_or_<v>...` (`_not_`: none of them) in
+    the rewrites of the seven-segment decoder and the corpus's 4-entry tag matcher is checked
+    over every value of its bits with the other inputs random (Icarus Verilog); values are spelt
+    as the printer writes comparisons (binary below five bits, hexadecimal for a multiple of four
+    or five bits and more). And no wire named by an index is a function of one such input vector
+    alone whose value set would give a name that fits (seen on the simulated values)."""
+    rtl = os.path.join(t.root, "tests", "rtl")
+    cases = [("seg7_status", ["--min-gain", "0"]), ("tag_match_cam", ["--min-gain", "0"])]
+    checked = 0
+    for top, extra in cases:
+        src = os.path.join(rtl, top + ".sv")
+        out = os.path.join(t.work, top + "_sets.sv")
+        text = _restructure_simulated(t, [src], top, out, *extra)
+        if text is None:
+            continue
+        ports = dict((n, int(h) - int(l) + 1) for h, l, n in
+                     re.findall(r"input\s+logic\s+\[(\d+):(\d+)\]\s+(\w+)", open(src).read()))
+        checks = []
+        for name in re.findall(r"^\s*wire\s+(\w+)\s*=", "\n".join(_new_lines(open(src).read(), text)), re.M):
+            m = re.fullmatch(r"(\w+?)(?:_(\d+)_(\d+))?_(is|not)_((?:[0-9a-f]+_or_)+[0-9a-f]+)", name)
+            if not m or m.group(1) not in ports:
+                continue
+            vec = m.group(1)
+            hi, lo = (int(m.group(2)), int(m.group(3))) if m.group(2) else (ports[vec] - 1, 0)
+            width = hi - lo + 1
+            base = 16 if (width % 4 == 0 or width >= 5) else 2
+            values = [int(v, base) for v in m.group(5).split("_or_")]
+            if any(v >= (1 << width) for v in values):
+                continue
+            checks.append((name, vec, hi, lo, values, m.group(4) == "is"))
+        decls = re.findall(r"(input\s+logic\s+(?:\[\d+:\d+\]\s+)?)(\w+)", open(src).read())
+        indexed = [n for n in re.findall(r"^\s*wire\s+(\w+)\s*=", "\n".join(_new_lines(open(src).read(), text)), re.M)
+                   if re.search(r"_t\d+$", n)]
+        outs = re.findall(r"output\s+logic\s+(\[\d+:\d+\]\s+)?(\w+)", open(src).read())
+        tb = [f"module {top}_sets_tb;"]
+        tb += [f"  reg {d.split('logic', 1)[1].strip()} {n};" for d, n in decls]
+        tb += [f"  wire {w or ''} {n};" for w, n in outs]
+        tb.append(f"  {top} dut (" + ", ".join(f".{n}({n})" for _, n in decls + outs) + ");")
+        tb += ["  integer n, errors;", "  initial begin", "    errors = 0;", "    for (n = 0; n < 2000; n = n + 1) begin"]
+        tb += [f"      {n} = $random;" for _, n in decls]
+        tb.append("      #1;")
+        # Each indexed wire with every input: whether it is a function of one small vector alone.
+        for name in indexed:
+            tb.append(f"      $display(\"IDX {name} %b " + " ".join(f"{n}=%0d" for _, n in decls) + "\", dut." + name +
+                      "".join(f", {n}" for _, n in decls) + ");")
+        for name, vec, hi, lo, values, eq in checks:
+            member = " || ".join(f"{vec}[{hi}:{lo}] == {v}" for v in values)
+            want = f"({member})" if eq else f"!({member})"
+            tb.append(f"      if (dut.{name} !== ({want} ? 1'b1 : 1'b0)) begin errors = errors + 1; "
+                      f"$display(\"NAME {name} at %h\", {vec}); end")
+        tb += ["    end", "    $display(\"ERRORS %0d\", errors);", "    $finish;", "  end", "endmodule"]
+        tbp = os.path.join(t.work, f"{top}_sets_tb.sv")
+        open(tbp, "w").write("\n".join(tb) + "\n")
+        vvp = os.path.join(t.work, f"{top}_sets_tb.vvp")
+        c = K.run(["iverilog", "-g2012", "-o", vvp, out, tbp])
+        if not t.res.check(c.returncode == 0, f"{top}: Icarus builds the name check: {c.stderr[-800:]}\n" + "\n".join(tb)):
+            continue
+        r = K.run(["vvp", "-n", vvp])
+        checked += len(checks)
+        t.res.check("ERRORS 0" in r.stdout, f"{top}: every set name is true exactly for its values "
+                                            f"({[c[0] for c in checks]}): {r.stdout[-800:]}")
+        # No indexed wire is a function of one input vector of at most 6 bits whose true (or false)
+        # set has 2 to 4 values and would be named within 26 characters (the rule's promise).
+        seen = {}
+        for name, val, rest in re.findall(r"^IDX (\w+) ([01xz]) (.*)$", r.stdout, re.M):
+            for kv in rest.split():
+                n, v = kv.split("=")
+                seen.setdefault((name, n), {}).setdefault(v, set()).add(val)
+        for (name, vec), by in seen.items():
+            width = ports.get(vec, 0)
+            if not 2 <= width <= 6 or len(by) < (1 << width) or any(len(x) != 1 for x in by.values()):
+                continue
+            on = sorted(int(v) for v, x in by.items() if x == {"1"})
+            small = min(len(on), (1 << width) - len(on))
+            digits = (width + 3) // 4 if (width % 4 == 0 or width >= 5) else width
+            length = len(vec) + 4 + small * digits + 4 * (small - 1)
+            t.res.check(not (2 <= small <= 4 and length <= 26),
+                        f"{top}: `{name}` is true for {vec} in {on} alone: named by its values, not an index")
+    t.res.check(checked >= 3, f"set names checked: {checked}")
+
+
 SPI_PKG = os.path.join("tests", "rtl", "include", "spi_cmd_pkg.sv")
 SPI = os.path.join("tests", "rtl", "spi_cmd_decode.sv")
 
